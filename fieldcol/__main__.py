@@ -1,0 +1,3 @@
+from fieldcol.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,65 @@
+"""The ``fieldcol`` command line.
+
+Each command lives in its own module ``fieldcol/cli/cmd_<name>.py`` that defines
+``register(subparsers)``; the parser it adds sets ``func=run`` where ``run(args) -> int``.
+Command modules import heavy libraries inside ``run`` so that start-up stays fast.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import json
+import pkgutil
+import sys
+from typing import Any, Sequence
+
+from fieldcol import __version__
+from fieldcol.errors import InputError
+
+CAUTION = (
+    "fieldcol is an aid to, not a substitute for, the judgement of a licensed engineer; "
+    "local codes govern."
+)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="fieldcol",
+        description="Assess existing steel columns on site. " + CAUTION,
+    )
+    parser.add_argument("--version", action="version", version=f"fieldcol {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    pkg_path = __path__  # type: ignore[name-defined]
+    for mod in sorted(m.name for m in pkgutil.iter_modules(pkg_path) if m.name.startswith("cmd_")):
+        importlib.import_module(f"{__name__}.{mod}").register(sub)
+    return parser
+
+
+def print_json(obj: Any) -> None:
+    """Print ``obj`` as indented JSON on stdout (numpy scalars become numbers)."""
+    print(json.dumps(obj, indent=2, default=_json_default))
+
+
+def _json_default(o: Any) -> Any:
+    import numpy as np
+
+    if isinstance(o, np.generic):
+        return o.item()
+    if isinstance(o, np.ndarray):
+        return o.tolist()
+    raise TypeError(f"not JSON serialisable: {type(o).__name__}")
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; returns the exit status (0 ok, 2 bad input, 1 other failure)."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "func", None):
+        parser.print_help()
+        return 0
+    try:
+        return int(args.func(args) or 0)
+    except InputError as e:
+        print(f"error: {e}", file=sys.stderr)
+        return 2

@@ -1,0 +1,32 @@
+"""The engineering core is a library on its own: it never imports store, cli, ui or Flet."""
+
+import ast
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1] / "fieldcol"
+CORE = ["errors.py", "units.py", "materials.py", "trace.py", "record.py", "assess.py",
+        "demand.py", "sections", "stability", "codes", "retrofit"]
+FORBIDDEN = ("fieldcol.store", "fieldcol.cli", "fieldcol.ui", "fieldcol.sync", "fieldcol.report",
+             "flet", "sqlite_utils", "sqlite3")
+
+
+def _imports(path: Path) -> set[str]:
+    tree = ast.parse(path.read_text())
+    names = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            names.update(a.name for a in node.names)
+        elif isinstance(node, ast.ImportFrom) and node.module:
+            names.add(node.module)
+    return names
+
+
+def test_core_imports_nothing_from_outer_layers():
+    files = []
+    for name in CORE:
+        p = ROOT / name
+        files += sorted(p.rglob("*.py")) if p.is_dir() else ([p] if p.exists() else [])
+    assert files, "the engineering core is missing"
+    for f in files:
+        bad = [m for m in _imports(f) if m.startswith(FORBIDDEN)]
+        assert not bad, f"{f.relative_to(ROOT)} imports {bad}"
