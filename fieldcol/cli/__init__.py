@@ -14,13 +14,9 @@ import pkgutil
 import sys
 from typing import Any, Sequence
 
-from fieldcol import __version__
+from fieldcol import CAUTION, __version__
 from fieldcol.errors import InputError
 
-CAUTION = (
-    "fieldcol is an aid to, not a substitute for, the judgement of a licensed engineer; "
-    "local codes govern."
-)
 
 
 def build_parser() -> argparse.ArgumentParser:

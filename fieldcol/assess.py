@@ -1,0 +1,354 @@
+"""The one entry of the engine: a column record in, an Assessment out.
+
+``assess(record)`` reads the record, finds the effective length about each axis (table K,
+alignment of braces against their requirement, or an elastic buckling analysis), runs the chosen
+code check for every mode, and compares the demand. Everything it did is in the trace.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any, Mapping
+
+import numpy as np
+
+from fieldcol import CAUTION, __version__
+from fieldcol.codes import CodeResult, check_aisc360, check_elastic, check_en1993
+from fieldcol.demand import combine
+from fieldcol.errors import InputError
+from fieldcol.record import AXES, AxisInput, BraceInput, ColumnInput, parse_record
+from fieldcol.stability import (brace_requirement, buckling_analysis, effective_length,
+                                twist_length)
+from fieldcol.trace import Step, Trace
+
+EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
+            "en1993-1-1": "EN 1993-1-1:2005+A1:2014"}
+_EI_AXIS = {"strong": "Ix", "weak": "Iy"}
+
+
+@dataclass(frozen=True)
+class AxisLength:
+    """Effective length about one axis and how it was found."""
+
+    Lc: float                        # mm
+    K: float                         # relative to the governing segment (analysis: full length)
+    segment: float                   # mm, the length K applies to
+    method: str                      # "theoretical" | "recommended" | "analysis" | "override"
+    braces_used: tuple[int, ...]     # indices of the braces counted
+    shape: tuple[np.ndarray, np.ndarray] | None = None   # (z mm, w) buckled shape for a sketch
+
+
+@dataclass
+class Assessment:
+    """The result of checking one column record.
+
+    Fields: ``column`` (the parsed input), ``result`` (the code check, a batch of one),
+    ``lengths`` (strong, weak, twist), ``demand`` (N or None), ``demand_name`` (the governing
+    combination or "given"), ``utilization`` (demand / design strength, or None), ``warnings``
+    (plain sentences), ``trace`` (every step, restraints first, then the code check).
+    """
+
+    column: ColumnInput
+    result: CodeResult
+    lengths: dict[str, AxisLength]
+    demand: float | None
+    demand_name: str | None
+    utilization: float | None
+    warnings: list[dict[str, str]] = field(default_factory=list)
+    trace: Trace = field(default_factory=Trace)
+
+    @property
+    def governing_mode(self) -> str:
+        return str(np.asarray(self.result.governing).reshape(-1)[0])
+
+    @property
+    def design_strength(self) -> float:
+        return float(np.asarray(self.result.design).reshape(-1)[0])
+
+    @property
+    def nominal_strength(self) -> float:
+        return float(np.asarray(self.result.nominal).reshape(-1)[0])
+
+    def to_dict(self) -> dict[str, Any]:
+        """The documented JSON form: every quantity as ``{"value": ..., "unit": ...}``.
+
+        Example:
+            >>> a = assess({"tag": "C1", "section": "W14X90", "material": "A992",
+            ...             "length": "30 ft"})
+            >>> sorted(a.to_dict())[:3]
+            ['app_version', 'caution', 'code']
+        """
+        c, s, r = self.column, self.column.section, self.result
+        one = _first
+        modes = {}
+        for name, m in r.modes.items():
+            modes[name] = {
+                "effective_length": _q(m.Lc, "mm"),
+                "slenderness": _q(m.slenderness, ""),
+                "elastic_critical_load": _q(m.Pe, "N"),
+                "critical_stress": _q(m.Fcr, "MPa"),
+                "nominal_strength": _q(m.Pn, "N"),
+            }
+        return {
+            "tag": c.tag,
+            "code": c.code,
+            "edition": EDITIONS[c.code],
+            "basis": c.basis,
+            "k_basis": c.k_basis,
+            "app_version": __version__,
+            "governing_mode": self.governing_mode,
+            "nominal_strength": _q(r.nominal, "N"),
+            "design_strength": _q(r.design, "N"),
+            "demand": None if self.demand is None else {**_q(self.demand, "N"),
+                                                        "combination": self.demand_name},
+            "utilization": None if self.utilization is None else _q(self.utilization, ""),
+            "status": self.status,
+            "section": {
+                "name": s.name, "kind": s.kind, "rolled": s.rolled, "notes": list(s.notes),
+                **{k: _q(getattr(s, k), u) for k, u in (
+                    ("A", "mm^2"), ("Ix", "mm^4"), ("Iy", "mm^4"), ("rx", "mm"), ("ry", "mm"),
+                    ("J", "mm^4"), ("Cw", "mm^6"), ("d", "mm"), ("bf", "mm"), ("tf", "mm"),
+                    ("tw", "mm"))},
+            },
+            "material": {"name": c.material.name, "tested": c.material.tested,
+                         "historic": c.material.historic,
+                         "Fy": _q(one(self._fy), "MPa"), "E": _q(c.material.E, "MPa"),
+                         "G": _q(c.material.G, "MPa")},
+            "lengths": {ax: {"effective_length": _q(L.Lc, "mm"), "K": L.K,
+                             "segment": _q(L.segment, "mm"), "method": L.method,
+                             "braces_counted": list(L.braces_used)}
+                        for ax, L in self.lengths.items()},
+            "modes": modes,
+            "steps": [_step(st) for st in self.trace.steps],
+            "warnings": self.warnings,
+            "caution": CAUTION,
+        }
+
+    @property
+    def status(self) -> str:
+        """``"ok"`` (utilization <= 1), ``"over"`` (> 1) or ``"no-demand"``."""
+        if self.utilization is None:
+            return "no-demand"
+        return "ok" if self.utilization <= 1.0 else "over"
+
+    @property
+    def _fy(self) -> float:
+        return float(self.column.material.fy_at(self.column.section.tmax))
+
+
+def assess(record: Mapping[str, Any]) -> Assessment:
+    """Check one column record.
+
+    Args:
+        record: the column record (JSON object; see README "Column record").
+
+    Returns:
+        Assessment with every mode, the governing one, the utilization and the trace.
+
+    Raises:
+        InputError: naming the field that cannot be used (including mechanisms).
+
+    Example:
+        >>> a = assess({"tag": "B/4-L1", "section": "W14X90", "material": "A992",
+        ...             "length": "30 ft", "code": "aisc360-22",
+        ...             "demand": {"axial": "840 kip", "basis": "lrfd"}})
+        >>> a.governing_mode
+        'flexural-weak'
+    """
+    col = parse_record(record)
+    trace = Trace()
+    warnings: list[dict[str, str]] = []
+    sec, mat = col.section, col.material
+    Fy = float(mat.fy_at(sec.tmax))
+    trace.add("L", "column length between end restraints", "measured", col.length, "mm", "record")
+    trace.add("Fy", f"yield stress, {mat.name}" + (" (coupon tests)" if mat.tested else ""),
+              "grade table by thickness" if not mat.tested else "tested", Fy, "MPa", mat.source)
+    if mat.historic and not mat.tested:
+        warnings.append({"code": "historic-grade",
+                         "message": f"{mat.name} is a historic grade: confirm the yield stress by "
+                                    "coupon tests before relying on this check"})
+    for note in sec.notes:
+        trace.add("section", note, "", float(np.asarray(sec.A).reshape(-1)[0]), "mm^2", "record")
+
+    demand, demand_name = None, None
+    if col.demand is not None:
+        if col.demand.axial is not None:
+            demand, demand_name = col.demand.axial, "given"
+            trace.add("Pr", "required axial strength (given)", "record", demand, "N", "record")
+        else:
+            comb = combine(col.demand.loads, col.demand.basis, trace)
+            demand, demand_name = comb.axial, comb.name
+            trace.add("Pr", f"required axial strength, governing: {comb.name}", "max", demand,
+                      "N", comb.clause)
+
+    def run(lengths: dict[str, AxisLength], tr: Trace | None) -> CodeResult:
+        res = _code_check(col, Fy, lengths)
+        if tr is not None:
+            tr.extend(res.trace)
+        return res
+
+    Lcz = twist_length(col.length, col.twist_braces)
+    twist = AxisLength(Lcz, 1.0, Lcz, "common practice K_z = 1", tuple(range(len(col.twist_braces))))
+    # First pass: every brace counted as given, to know the strength that the braces must hold.
+    first = {ax: _axis_length(col, ax, col.axes[ax], None, Trace()) for ax in AXES}
+    first["twist"] = twist
+    base = run(first, None)
+    Pr = demand if demand is not None else _first(base.design)
+    counted: dict[str, tuple[int, ...]] = {}
+    for ax in AXES:
+        counted[ax] = _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
+    lengths = {ax: _axis_length(col, ax, col.axes[ax], counted[ax], trace) for ax in AXES}
+    trace.add("Lcz", "torsional buckling length (longest length between twist restraints)",
+              "max segment, K_z = 1", twist.Lc, "mm", "common practice")
+    lengths["twist"] = twist
+    result = run(lengths, trace)
+    for w in result.warnings:
+        if bool(np.asarray(w.mask).reshape(-1)[0]):
+            warnings.append({"code": w.code, "message": w.message})
+    design = _first(result.design)
+    utilization = None
+    if demand is not None:
+        utilization = demand / design if design > 0 else math.inf
+        trace.add("U", "utilization", "Pr / design strength", utilization, "", EDITIONS[col.code])
+    _condition_warnings(col, warnings)
+    return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace)
+
+
+def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> CodeResult:
+    mat, sec = col.material, col.section
+    args = (sec, Fy, mat.E, mat.G, L["strong"].Lc, L["weak"].Lc, L["twist"].Lc)
+    if col.code == "aisc360-22":
+        return check_aisc360(*args, basis=col.basis)
+    if col.code == "en1993-1-1":
+        return check_en1993(*args, gamma_M1=col.gamma_M1, high_strength=mat.key.upper() == "S460")
+    return check_elastic(*args)
+
+
+def _axis_length(col: ColumnInput, ax: str, spec: AxisInput, counted: tuple[int, ...] | None,
+                 trace: Trace) -> AxisLength:
+    fld = f"restraints.{ax}"
+    idx = tuple(range(len(spec.braces))) if counted is None else counted
+    braces = [spec.braces[i].brace() for i in idx]
+    if spec.k is not None:
+        cuts = sorted({0.0, col.length, *(b.at for b in braces)})
+        seg = max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
+        trace.add(f"K_{ax}", f"effective length factor, {ax} axis (engineer's override)",
+                  "given", spec.k, "", "record")
+        trace.add(f"Lc_{ax}", f"effective length, {ax} axis", "K x longest braced length",
+                  spec.k * seg, "mm", "record")
+        return AxisLength(spec.k * seg, spec.k, seg, "override", idx)
+    EI = col.material.E * float(np.asarray(getattr(col.section, _EI_AXIS[ax])).reshape(-1)[0])
+    if col.k_basis == "analysis":
+        res = buckling_analysis(col.length, EI, spec.bottom, spec.top, braces, field=fld)
+        trace.add(f"Pcr_{ax}", f"elastic buckling load of the whole column, {ax} axis",
+                  "finite-element eigenvalue (cubic beam elements)", float(res.Pcr), "N",
+                  "elastic stability")
+        trace.add(f"K_{ax}", f"effective length factor, {ax} axis", "pi sqrt(EI / Pcr) / L",
+                  float(res.K), "", "elastic stability")
+        trace.add(f"Lc_{ax}", f"effective length, {ax} axis", "K L", float(res.K) * col.length,
+                  "mm", "elastic stability")
+        return AxisLength(float(res.K) * col.length, float(res.K), col.length, "analysis", idx,
+                          (np.asarray(res.z), np.asarray(res.shape)))
+    sub = Trace()
+    eff = effective_length(col.length, spec.bottom, spec.top, braces, col.k_basis, fld,
+                           assume_rigid=True, trace=sub)
+    for st in sub.steps:
+        trace.steps.append(Step(f"{st.symbol}_{ax}", f"{st.what}, {ax} axis", st.formula,
+                                st.value, st.unit, st.clause))
+    seg = max(eff.segments, key=lambda s: s.Lc)
+    return AxisLength(eff.Lc, eff.K, seg.length, col.k_basis, idx)
+
+
+def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool, trace: Trace,
+             warnings: list[dict[str, str]]) -> tuple[int, ...]:
+    """Which braces count: each must meet AISC 360-22 Appendix 6.2 stiffness and strength.
+
+    EN 1993-1-1 gives no point-brace rule for columns; the same criterion is used for every code
+    (common practice). Without a demand the brace must hold the strength the braced column
+    claims (its design strength). Lbr is the shorter adjacent unbraced length (conservative).
+    """
+    if not spec.braces:
+        return ()
+    basis = "asd" if col.basis == "asd" else "lrfd"
+    cuts = sorted({0.0, col.length, *(b.at for b in spec.braces)})
+    keep = []
+    for i, b in enumerate(spec.braces):
+        j = cuts.index(b.at)
+        adj = [cuts[j] - cuts[j - 1]] if j > 0 else []
+        if j + 1 < len(cuts):
+            adj.append(cuts[j + 1] - cuts[j])
+        Lbr = min(adj)
+        Pbr, beta = (float(v) for v in brace_requirement(Pr, Lbr, basis, field=b.field))
+        what = "the demand" if given else "the braced design strength"
+        ok_k = b.stiffness >= beta
+        ok_p = b.strength is None or b.strength >= Pbr
+        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {b.at:.0f} mm "
+                  f"({ax} axis), Pr = {what}", "(1/phi or Omega) 8 Pr / Lbr", beta, "N/mm",
+                  "AISC 360-22 App. 6.2")
+        if b.strength is not None:
+            trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {b.at:.0f} mm", "0.01 Pr",
+                      Pbr, "N", "AISC 360-22 App. 6.2")
+        if ok_k and ok_p:
+            keep.append(i)
+            continue
+        why = []
+        if not ok_k:
+            why.append(f"stiffness {b.stiffness:.4g} N/mm < required {beta:.4g} N/mm")
+        if not ok_p:
+            why.append(f"strength {b.strength:.4g} N < required {Pbr:.4g} N")
+        counted = col.k_basis == "analysis"
+        warnings.append({
+            "code": "brace-not-qualified",
+            "message": f"brace at {b.at:.0f} mm on the {ax} axis does not qualify "
+                       f"({'; '.join(why)}; AISC 360-22 App. 6.2): "
+                       + ("kept in the buckling analysis at its real stiffness, but it cannot "
+                          "be relied on to hold the column straight" if counted
+                          else "not counted as a brace point"),
+        })
+        if counted:
+            keep.append(i)
+    return tuple(keep)
+
+
+def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
+    L = col.length
+    if col.bow is not None and col.bow > L / 1000:
+        warnings.append({
+            "code": "bow-over-tolerance",
+            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, the "
+                       "out-of-straightness the column curves allow for (AISC 303 / EN 1090-2 "
+                       "tolerance): treat the excess as an eccentricity and check the column as a "
+                       "beam-column (AISC 360-22 H1 / EN 1993-1-1 6.3.3)",
+        })
+    if col.plumb is not None and col.plumb > L / 500:
+        warnings.append({
+            "code": "plumb-over-tolerance",
+            "message": f"measured out-of-plumb {col.plumb:.1f} mm exceeds L/500 = {L / 500:.1f} mm "
+                       "(AISC 303 erection tolerance): include the sway effect in the frame analysis",
+        })
+
+
+def _first(v: Any) -> float:
+    return float(np.asarray(v, dtype=float).reshape(-1)[0])
+
+
+def _q(v: Any, unit: str) -> dict[str, Any] | None:
+    if v is None:
+        return None
+    x = _first(v)
+    return {"value": x if math.isfinite(x) else None, "unit": unit}
+
+
+def _step(st: Step) -> dict[str, Any]:
+    v = st.value
+    try:
+        v = _first(v)
+        v = v if math.isfinite(v) else None
+    except (TypeError, ValueError):
+        v = str(v)
+    return {"symbol": st.symbol, "what": st.what, "formula": st.formula, "value": v,
+            "unit": st.unit, "clause": st.clause}
+
+
+__all__ = ["Assessment", "AxisLength", "CAUTION", "EDITIONS", "InputError", "assess"]

@@ -1,0 +1,96 @@
+"""``fieldcol check COLUMN.json``: the axial capacity of one column record, as a calculation sheet."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+from fieldcol.errors import InputError
+
+# internal unit -> units.py kind, to show each step in the site's unit system
+_KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": "modulus",
+         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness", "N*mm/rad": "rotational_stiffness"}
+
+
+def register(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("check", help="axial capacity of one column record (JSON file)",
+                       description="Check the axial capacity of one column record: every mode, "
+                                   "the governing one, the utilization and the full trace.")
+    p.add_argument("file", help="column record JSON file ('-' reads standard input)")
+    p.add_argument("--json", action="store_true", help="print the result as JSON")
+    p.add_argument("--units", choices=("us", "si"), help="display units (default: the record's)")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from fieldcol.assess import assess
+
+    text = sys.stdin.read() if args.file == "-" else _read(args.file)
+    try:
+        record = json.loads(text)
+    except json.JSONDecodeError as e:
+        raise InputError("file", args.file, f"not valid JSON: {e.msg} at line {e.lineno}") from None
+    a = assess(record)
+    if args.json:
+        from fieldcol.cli import print_json
+
+        print_json(a.to_dict())
+        return 0
+    print(sheet(a.to_dict(), args.units or a.column.units))
+    return 0
+
+
+def _read(path: str) -> str:
+    try:
+        return Path(path).read_text()
+    except OSError as e:
+        raise InputError("file", path, e.strerror or "cannot read the file") from None
+
+
+def show(q: dict | None, system: str, digits: int = 4) -> str:
+    """A ``{"value", "unit"}`` quantity in the display system, e.g. ``"1121 kip"``."""
+    from fieldcol.units import format_length, format_quantity
+
+    if q is None or q.get("value") is None:
+        return "-"
+    v, unit = q["value"], q["unit"]
+    kind = _KIND.get(unit)
+    if kind == "length":
+        return format_length(v, system) if system == "us" and v > 300 else format_quantity(v, kind, system, digits)
+    if kind:
+        return format_quantity(v, kind, system, digits)
+    return f"{v:.{digits}g}" if isinstance(v, float) else str(v)
+
+
+def sheet(d: dict, system: str) -> str:
+    """The calculation sheet of an assessment's JSON form."""
+    from fieldcol import CAUTION
+
+    out = [f"Column {d['tag']}  -  {d['edition']} ({d['basis']}), K basis: {d['k_basis']}",
+           f"Section {d['section']['name'] or 'measured ' + d['section']['kind']}, "
+           f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}", ""]
+    out.append("Calculation")
+    for st in d["steps"]:
+        q = {"value": st["value"], "unit": st["unit"]} if isinstance(st["value"], float) else None
+        val = show(q, system) if q else str(st["value"])
+        formula = f" = {st['formula']}" if st["formula"] else ""
+        out.append(f"  {st['symbol']:<14} {val:>16}  {st['what']}{formula}  [{st['clause']}]")
+    out += ["", "Modes"]
+    for name, m in d["modes"].items():
+        out.append(f"  {name:<16} Lc {show(m['effective_length'], system):>14}  "
+                   f"slenderness {show(m['slenderness'], system):>8}  "
+                   f"Fcr {show(m['critical_stress'], system):>10}  Pn {show(m['nominal_strength'], system)}")
+    out += ["", f"Governing mode:    {d['governing_mode']}",
+            f"Nominal strength:  {show(d['nominal_strength'], system)}",
+            f"Design strength:   {show(d['design_strength'], system)}"]
+    if d["demand"]:
+        out.append(f"Demand:            {show(d['demand'], system)} ({d['demand']['combination']})")
+        u = d["utilization"]["value"]
+        word = "OK" if d["status"] == "ok" else "OVER CAPACITY"
+        out.append(f"Utilization:       {u:.3f}  {word}")
+    for w in d["warnings"]:
+        out.append(f"WARNING [{w['code']}]: {w['message']}")
+    out += ["", CAUTION]
+    return "\n".join(out)

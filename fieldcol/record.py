@@ -1,0 +1,329 @@
+"""Read a column record (the documented JSON input) into typed engine inputs.
+
+A record is what an engineer recorded for one column. Values with units are strings as typed
+(``"30 ft"``, ``"840 kip"``); every error names the field it concerns, e.g.
+``restraints.weak.braces[0].at``.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any, Mapping
+
+from fieldcol.errors import InputError
+from fieldcol.materials import Material, get_material, material_from_values, with_tested_fy
+from fieldcol.sections import Section, from_catalogue, i_section, rect_hollow, round_hollow, with_loss
+from fieldcol.stability import Brace, End, cable_stiffness, end, partial_end
+from fieldcol.units import parse_length, parse_quantity
+
+CODES = ("elastic", "aisc360-22", "en1993-1-1")
+K_BASES = ("theoretical", "recommended", "analysis")
+AXES = ("strong", "weak")
+_BASES = {"aisc360-22": ("lrfd", "asd"), "en1993-1-1": ("en",), "elastic": ("none",)}
+_RECORD_KEYS = {"tag", "section", "material", "length", "restraints", "k_basis", "code",
+                "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location"}
+
+
+@dataclass(frozen=True)
+class BraceInput:
+    """A brace point as recorded: where, how stiff, how strong, and when it was added."""
+
+    at: float                       # mm from the bottom
+    stiffness: float = math.inf     # N/mm; inf = taken as rigid
+    strength: float | None = None   # N, the brace's available strength if known
+    added: str | None = None        # date or note, e.g. "2019 retrofit"
+    field: str = ""
+
+    def brace(self) -> Brace:
+        return Brace(self.at, self.stiffness)
+
+
+@dataclass(frozen=True)
+class AxisInput:
+    """How one axis of the column is held: the ends, the braces and an optional K override."""
+
+    bottom: End
+    top: End
+    braces: tuple[BraceInput, ...] = ()
+    k: float | None = None
+
+
+@dataclass(frozen=True)
+class Demand:
+    """Required axial strength: given directly or from service loads and combinations."""
+
+    axial: float | None                    # N, a factored (or ASD) force given directly
+    loads: Mapping[str, float] = field(default_factory=dict)   # N, service loads by type
+    basis: str = "lrfd"
+
+
+@dataclass(frozen=True)
+class ColumnInput:
+    """Everything the engine needs about one column, in N, mm, MPa."""
+
+    tag: str
+    section: Section
+    material: Material
+    length: float
+    axes: Mapping[str, AxisInput]
+    twist_braces: tuple[float, ...]
+    k_basis: str
+    code: str
+    basis: str
+    demand: Demand | None
+    gamma_M1: float
+    units: str
+    bow: float | None = None       # mm, measured out-of-straightness
+    plumb: float | None = None     # mm, measured out-of-plumb over the length
+
+
+def parse_record(record: Mapping[str, Any]) -> ColumnInput:
+    """Read a column record into a ``ColumnInput``.
+
+    Args:
+        record: the JSON object (see README "Column record"); ``tag``, ``section``,
+            ``material`` and ``length`` are required.
+
+    Returns:
+        ColumnInput with every value in N, mm, MPa.
+
+    Raises:
+        InputError: naming the field that cannot be used.
+
+    Example:
+        >>> c = parse_record({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                   "length": "30 ft"})
+        >>> round(c.length, 1), c.code, c.k_basis
+        (9144.0, 'aisc360-22', 'recommended')
+    """
+    if not isinstance(record, Mapping):
+        raise InputError("record", record, "a column record must be a JSON object")
+    unknown = sorted(set(record) - _RECORD_KEYS)
+    if unknown:
+        raise InputError(unknown[0], record[unknown[0]], "not a field of a column record",
+                         "known fields: " + ", ".join(sorted(_RECORD_KEYS)))
+    for key in ("tag", "section", "material", "length"):
+        if record.get(key) in (None, ""):
+            raise InputError(key, "", "required", None)
+    tag = record["tag"]
+    if not isinstance(tag, str) or not tag.strip():
+        raise InputError("tag", tag, "the column tag must be text, e.g. B/4-L2")
+    code = _choice(record.get("code", "aisc360-22"), CODES, "code")
+    length = parse_length(record["length"], "length")
+    section = parse_section(record["section"])
+    material = parse_material(record["material"])
+    restraints = record.get("restraints") or {}
+    if not isinstance(restraints, Mapping):
+        raise InputError("restraints", restraints, "must be an object with strong, weak, twist")
+    extra = sorted(set(restraints) - {"strong", "weak", "twist"})
+    if extra:
+        raise InputError(f"restraints.{extra[0]}", extra[0], "unknown axis",
+                         "use strong, weak and twist")
+    axes = {ax: _axis(restraints.get(ax) or {}, length, f"restraints.{ax}") for ax in AXES}
+    twist = _twist(restraints.get("twist") or {}, length)
+    demand = _demand(record.get("demand"), code)
+    basis = demand.basis if demand else _BASES[code][0]
+    gamma = record.get("gamma_M1", 1.0)
+    if not isinstance(gamma, (int, float)) or isinstance(gamma, bool) or not 1.0 <= gamma <= 1.5:
+        raise InputError("gamma_M1", gamma, "must be a number from 1.0 to 1.5",
+                         "1.0 is recommended by EN 1993-1-1; National Annexes may differ")
+    units = _choice(record.get("units", "si" if code == "en1993-1-1" else "us"), ("us", "si"),
+                    "units")
+    condition = record.get("condition") or {}
+    if not isinstance(condition, Mapping):
+        raise InputError("condition", condition, "must be an object, e.g. {\"bow\": \"3/8 in\"}")
+    bow = _opt_length(condition.get("bow"), "condition.bow")
+    plumb = _opt_length(condition.get("plumb"), "condition.plumb")
+    return ColumnInput(tag.strip(), section, material, length, axes, twist,
+                       _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
+                       code, basis, demand, float(gamma), units, bow, plumb)
+
+
+def parse_section(spec: Any, fld: str = "section") -> Section:
+    """A section from a catalogue name or an object of measured dimensions (with optional loss).
+
+    Example:
+        >>> parse_section({"shape": "round", "D": "168.3 mm", "t": "7.1 mm"}).kind
+        'round'
+    """
+    if isinstance(spec, str):
+        return from_catalogue(spec)
+    if not isinstance(spec, Mapping):
+        raise InputError(fld, spec, "give a catalogue name or an object of dimensions",
+                         'e.g. "W14X90" or {"shape": "i", "d": "14 in", ...}')
+    loss = spec.get("loss")
+    if "name" in spec:
+        sec = from_catalogue(spec["name"])
+    else:
+        shape = _choice(spec.get("shape"), ("i", "rect", "round"), f"{fld}.shape")
+
+        def dim(key: str, required: bool = True) -> float | None:
+            if spec.get(key) in (None, ""):
+                if required:
+                    raise InputError(f"{fld}.{key}", "", "required for shape " + shape)
+                return None
+            return parse_length(spec[key], f"{fld}.{key}")
+
+        if shape == "i":
+            welded = bool(spec.get("welded", False))
+            r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
+            sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
+        elif shape == "rect":
+            r_out = dim("r", required=False)
+            sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out)
+        else:
+            sec = round_hollow(dim("D"), dim("t"))
+    if loss not in (None, {}):
+        if not isinstance(loss, Mapping):
+            raise InputError(f"{fld}.loss", loss, "must be an object",
+                             'e.g. {"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
+        allowed = {"flange", "web", "wall", "uniform"}
+        bad = sorted(set(loss) - allowed)
+        if bad:
+            raise InputError(f"{fld}.loss.{bad[0]}", bad[0], "unknown kind of loss",
+                             "flange, web, wall (remaining thickness) or uniform (loss per face)")
+        vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()}
+        sec = with_loss(sec, **vals)
+    return sec
+
+
+def parse_material(spec: Any, fld: str = "material") -> Material:
+    """A material from a grade name, or an object: ``{"grade": "A7", "Fy": "35 ksi"}`` (a tested
+    yield stress overrides the grade) or ``{"Fy": "50 ksi", "E": "29000 ksi"}``.
+
+    Example:
+        >>> parse_material({"grade": "A36", "Fy": "40 ksi"}).tested
+        True
+    """
+    if isinstance(spec, str):
+        return get_material(spec)
+    if not isinstance(spec, Mapping):
+        raise InputError(fld, spec, "give a grade name or an object", 'e.g. "A992" or {"Fy": "50 ksi"}')
+    if spec.get("grade"):
+        mat = get_material(spec["grade"])
+        if spec.get("Fy") not in (None, ""):
+            mat = with_tested_fy(mat, parse_quantity(spec["Fy"], "stress", f"{fld}.Fy"))
+        return mat
+    kw = {k: spec[k] for k in ("Fy", "E", "G", "Fu") if spec.get(k) not in (None, "")}
+    if "Fy" not in kw:
+        raise InputError(f"{fld}.Fy", "", "required when no grade is given", 'e.g. "36 ksi"')
+    return material_from_values(**kw, name=str(spec.get("name", "as measured")), field=fld)
+
+
+def _choice(value: Any, allowed: tuple[str, ...], fld: str) -> str:
+    if isinstance(value, str) and value.strip().lower() in allowed:
+        return value.strip().lower()
+    raise InputError(fld, value, "not one of the choices", "use " + ", ".join(allowed))
+
+
+def _opt_length(value: Any, fld: str) -> float | None:
+    if value in (None, ""):
+        return None
+    return parse_length(value, fld, allow_zero=True)
+
+
+def _end(spec: Any, fld: str) -> End:
+    if isinstance(spec, str):
+        return end(spec.strip().lower(), fld)
+    if isinstance(spec, Mapping):
+        rot = spec.get("rotation")
+        if rot in (None, ""):
+            raise InputError(f"{fld}.rotation", "", "a partial end needs its rotational stiffness",
+                             'e.g. {"rotation": "50000 kip*in/rad"}')
+        k_rot = parse_quantity(rot, "rotational_stiffness", f"{fld}.rotation", allow_zero=True)
+        tr = spec.get("translation", "held")
+        k_tr = math.inf if tr == "held" else (0.0 if tr == "free" else
+                                              parse_quantity(tr, "stiffness", f"{fld}.translation",
+                                                             allow_zero=True))
+        return partial_end(k_rot, k_tr, fld)
+    raise InputError(fld, spec, "unknown end condition",
+                     'fixed, pinned, free, guided or {"rotation": "..."}')
+
+
+def _axis(spec: Any, length: float, fld: str) -> AxisInput:
+    if not isinstance(spec, Mapping):
+        raise InputError(fld, spec, "must be an object with bottom, top, braces")
+    bad = sorted(set(spec) - {"bottom", "top", "braces", "k"})
+    if bad:
+        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", "bottom, top, braces, k")
+    bottom = _end(spec.get("bottom", "pinned"), f"{fld}.bottom")
+    top = _end(spec.get("top", "pinned"), f"{fld}.top")
+    braces = tuple(_brace(b, length, f"{fld}.braces[{i}]")
+                   for i, b in enumerate(_list(spec.get("braces"), f"{fld}.braces")))
+    k = spec.get("k")
+    if k is not None:
+        if isinstance(k, bool) or not isinstance(k, (int, float)) or not 0.1 <= k <= 10:
+            raise InputError(f"{fld}.k", k, "K must be a number from 0.1 to 10")
+        k = float(k)
+    return AxisInput(bottom, top, braces, k)
+
+
+def _list(value: Any, fld: str) -> list:
+    if value is None:
+        return []
+    if not isinstance(value, list):
+        raise InputError(fld, value, "must be a list", '[{"at": "15 ft"}]')
+    return value
+
+
+def _brace(spec: Any, length: float, fld: str) -> BraceInput:
+    if not isinstance(spec, Mapping) or spec.get("at") in (None, ""):
+        raise InputError(f"{fld}.at", spec, "a brace needs its position", '{"at": "15 ft"}')
+    at = parse_length(spec["at"], f"{fld}.at")
+    if not 0 < at <= length:
+        raise InputError(f"{fld}.at", spec["at"], "outside the column length",
+                         "measure from the bottom end; it must lie within the length")
+    stiffness = math.inf
+    if spec.get("stiffness") not in (None, "", "rigid"):
+        stiffness = parse_quantity(spec["stiffness"], "stiffness", f"{fld}.stiffness")
+    if spec.get("cable"):
+        c = spec["cable"]
+        if not isinstance(c, Mapping):
+            raise InputError(f"{fld}.cable", c, "must be an object with area, length, angle")
+        area = parse_quantity(c.get("area", ""), "area", f"{fld}.cable.area")
+        clen = parse_length(c.get("length", ""), f"{fld}.cable.length")
+        angle = parse_quantity(c.get("angle", "0"), "angle", f"{fld}.cable.angle", allow_zero=True)
+        E = parse_quantity(c.get("E", "200000 MPa"), "stress", f"{fld}.cable.E")
+        stiffness = float(cable_stiffness(area, E, clen, angle, field=f"{fld}.cable"))
+    strength = None
+    if spec.get("strength") not in (None, ""):
+        strength = parse_quantity(spec["strength"], "force", f"{fld}.strength")
+    added = spec.get("added")
+    return BraceInput(at, stiffness, strength, None if added is None else str(added), fld)
+
+
+def _twist(spec: Any, length: float) -> tuple[float, ...]:
+    if not isinstance(spec, Mapping):
+        raise InputError("restraints.twist", spec, "must be an object with braces")
+    bad = sorted(set(spec) - {"braces"})
+    if bad:
+        raise InputError(f"restraints.twist.{bad[0]}", bad[0], "unknown key", "braces")
+    return tuple(_brace(b, length, f"restraints.twist.braces[{i}]").at
+                 for i, b in enumerate(_list(spec.get("braces"), "restraints.twist.braces")))
+
+
+_LOAD_TYPES = ("dead", "live", "snow", "roof_live")
+
+
+def _demand(spec: Any, code: str) -> Demand | None:
+    if spec in (None, {}):
+        return None
+    if not isinstance(spec, Mapping):
+        raise InputError("demand", spec, "must be an object", '{"axial": "840 kip", "basis": "lrfd"}')
+    basis = _choice(spec.get("basis", _BASES[code][0]), _BASES[code], "demand.basis")
+    if spec.get("axial") not in (None, ""):
+        if spec.get("loads"):
+            raise InputError("demand.loads", spec["loads"], "give either axial or loads, not both")
+        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis)
+    loads = spec.get("loads")
+    if not isinstance(loads, Mapping) or not loads:
+        raise InputError("demand", spec, "give axial or loads",
+                         '{"axial": "840 kip"} or {"loads": {"dead": "200 kip", "live": "150 kip"}}')
+    bad = sorted(set(loads) - set(_LOAD_TYPES))
+    if bad:
+        raise InputError(f"demand.loads.{bad[0]}", bad[0], "unknown load type",
+                         ", ".join(_LOAD_TYPES))
+    vals = {k: parse_quantity(v, "force", f"demand.loads.{k}", allow_zero=True)
+            for k, v in loads.items()}
+    return Demand(None, vals, basis)
