@@ -19,7 +19,7 @@ from fieldcol.demand import combine
 from fieldcol.errors import InputError
 from fieldcol.record import AXES, AxisInput, BraceInput, ColumnInput, parse_record
 from fieldcol.stability import (brace_requirement, buckling_analysis, effective_length,
-                                twist_length)
+                                k_alignment, twist_length)
 from fieldcol.trace import Step, Trace
 
 EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
@@ -238,6 +238,18 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput, counted: tuple[int,
         trace.add(f"Lc_{ax}", f"effective length, {ax} axis", "K x longest braced length",
                   spec.k * seg, "mm", "record")
         return AxisLength(spec.k * seg, spec.k, seg, "override", idx)
+    if spec.alignment is not None:
+        Ga, Gb, sway = spec.alignment
+        k = float(k_alignment(Ga, Gb, sway, field=f"{fld}.alignment"))
+        cuts = sorted({0.0, col.length, *(b.at for b in braces)})
+        seg = max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
+        trace.add(f"K_{ax}", f"effective length factor, {ax} axis, alignment chart "
+                  f"(Ga {Ga:g}, Gb {Gb:g}, {'sway' if sway else 'braced'})",
+                  "alignment-chart equation solved exactly", k, "",
+                  "AISC 360-22 Commentary App. 7")
+        trace.add(f"Lc_{ax}", f"effective length, {ax} axis", "K x longest braced length",
+                  k * seg, "mm", "AISC 360-22 Commentary App. 7")
+        return AxisLength(k * seg, k, seg, "alignment", idx)
     EI = col.material.E * float(np.asarray(getattr(col.section, _EI_AXIS[ax])).reshape(-1)[0])
     if col.k_basis == "analysis":
         res = buckling_analysis(col.length, EI, spec.bottom, spec.top, braces, field=fld)

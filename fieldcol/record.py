@@ -47,6 +47,7 @@ class AxisInput:
     top: End
     braces: tuple[BraceInput, ...] = ()
     k: float | None = None
+    alignment: tuple[float, float, bool] | None = None   # (Ga, Gb, sway) for the chart K
 
 
 @dataclass(frozen=True)
@@ -244,9 +245,10 @@ def _end(spec: Any, fld: str) -> End:
 def _axis(spec: Any, length: float, fld: str) -> AxisInput:
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "must be an object with bottom, top, braces")
-    bad = sorted(set(spec) - {"bottom", "top", "braces", "k"})
+    bad = sorted(set(spec) - {"bottom", "top", "braces", "k", "alignment"})
     if bad:
-        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", "bottom, top, braces, k")
+        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key",
+                         "bottom, top, braces, k, alignment")
     bottom = _end(spec.get("bottom", "pinned"), f"{fld}.bottom")
     top = _end(spec.get("top", "pinned"), f"{fld}.top")
     braces = tuple(_brace(b, length, f"{fld}.braces[{i}]")
@@ -256,7 +258,28 @@ def _axis(spec: Any, length: float, fld: str) -> AxisInput:
         if isinstance(k, bool) or not isinstance(k, (int, float)) or not 0.1 <= k <= 10:
             raise InputError(f"{fld}.k", k, "K must be a number from 0.1 to 10")
         k = float(k)
-    return AxisInput(bottom, top, braces, k)
+    return AxisInput(bottom, top, braces, k, _alignment(spec.get("alignment"), f"{fld}.alignment"))
+
+
+def _alignment(spec: Any, fld: str) -> tuple[float, float, bool] | None:
+    """``{"Ga": 1.2, "Gb": 10, "sway": false}``: end stiffness ratios for the alignment chart."""
+    if spec is None:
+        return None
+    if not isinstance(spec, Mapping) or "Ga" not in spec or "Gb" not in spec:
+        raise InputError(fld, spec, "needs Ga and Gb", '{"Ga": 1.2, "Gb": 10, "sway": false}')
+    vals = []
+    for key in ("Ga", "Gb"):
+        g = spec[key]
+        if g == "inf":
+            g = math.inf
+        if isinstance(g, bool) or not isinstance(g, (int, float)) or not g >= 0:
+            raise InputError(f"{fld}.{key}", g, "G must be a number >= 0 (0 fixed, \"inf\" pinned)",
+                             "common practice: 10 for a pinned base, 1 for a fixed base")
+        vals.append(float(g))
+    sway = spec.get("sway", False)
+    if not isinstance(sway, bool):
+        raise InputError(f"{fld}.sway", sway, "must be true or false")
+    return vals[0], vals[1], sway
 
 
 def _list(value: Any, fld: str) -> list:

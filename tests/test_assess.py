@@ -211,3 +211,20 @@ def test_bench_quick_runs():
     res = run(("engine",), quick=True)
     assert res["batch_columns_per_s"] > 0 and res["speedup_vs_loop"] > 1
     assert math.isfinite(res["batch_seconds"])
+
+
+def test_alignment_chart_k_in_record_and_cli():
+    # Alignment charts, AISC 360 Commentary App. 7 (chart readings from memory):
+    # sway Ga = Gb = 1 -> K ~ 1.32; braced Ga = Gb = 1 -> K ~ 0.77.
+    r = {"tag": "G", "section": "W10X49", "material": "A992", "length": "12 ft",
+         "restraints": {"strong": {"alignment": {"Ga": 1, "Gb": 1, "sway": True}},
+                        "weak": {"alignment": {"Ga": 1, "Gb": 1}}}}
+    a = assess(r)
+    assert a.lengths["strong"].K == pytest.approx(1.32, abs=0.01)
+    assert a.lengths["weak"].K == pytest.approx(0.77, abs=0.01)
+    with pytest.raises(InputError) as e:
+        assess({**r, "restraints": {"weak": {"alignment": {"Ga": -1, "Gb": 1}}}})
+    assert e.value.field == "restraints.weak.alignment.Ga"
+    out = subprocess.run([sys.executable, "-m", "fieldcol", "alignment", "--ga", "1", "--gb", "1",
+                          "--sway", "--json"], capture_output=True, text=True, check=True).stdout
+    assert json.loads(out)["K"] == pytest.approx(1.32, abs=0.01)
