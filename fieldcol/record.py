@@ -113,7 +113,7 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     code = _choice(record.get("code", "aisc360-22"), CODES, "code")
     length = parse_length(record["length"], "length")
     section = parse_section(record["section"])
-    material = parse_material(record["material"])
+    material = parse_material(record["material"], shape=section.kind)
     restraints = record.get("restraints") or {}
     if not isinstance(restraints, Mapping):
         raise InputError("restraints", restraints, "must be an object with strong, weak, twist")
@@ -189,20 +189,22 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
     return sec
 
 
-def parse_material(spec: Any, fld: str = "material") -> Material:
+def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None) -> Material:
     """A material from a grade name, or an object: ``{"grade": "A7", "Fy": "35 ksi"}`` (a tested
-    yield stress overrides the grade) or ``{"Fy": "50 ksi", "E": "29000 ksi"}``.
+    yield stress overrides the grade) or ``{"Fy": "50 ksi", "E": "29000 ksi"}``. ``shape``
+    (a section kind) picks the round or rectangular row of a shape-dependent grade (A500).
 
     Example:
         >>> parse_material({"grade": "A36", "Fy": "40 ksi"}).tested
         True
     """
+    shape = shape if shape in ("rect", "round") else None
     if isinstance(spec, str):
-        return get_material(spec)
+        return get_material(spec, shape=shape, field=fld)
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "give a grade name or an object", 'e.g. "A992" or {"Fy": "50 ksi"}')
     if spec.get("grade"):
-        mat = get_material(spec["grade"])
+        mat = get_material(spec["grade"], shape=shape, field=f"{fld}.grade")
         if spec.get("Fy") not in (None, ""):
             mat = with_tested_fy(mat, parse_quantity(spec["Fy"], "stress", f"{fld}.Fy"))
         return mat
