@@ -77,7 +77,7 @@ class Assessment:
             >>> a = assess({"tag": "C1", "section": "W14X90", "material": "A992",
             ...             "length": "30 ft"})
             >>> sorted(a.to_dict())[:3]
-            ['app_version', 'caution', 'code']
+            ['app_version', 'basis', 'caution']
         """
         c, s, r = self.column, self.column.section, self.result
         one = _first
@@ -169,7 +169,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                          "message": f"{mat.name} is a historic grade: confirm the yield stress by "
                                     "coupon tests before relying on this check"})
     for note in sec.notes:
-        trace.add("section", note, "", float(np.asarray(sec.A).reshape(-1)[0]), "mm^2", "record")
+        trace.add("section", "how the section was obtained", "", note, "", "record")
 
     demand, demand_name = None, None
     if col.demand is not None:

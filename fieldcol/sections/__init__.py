@@ -1,0 +1,20 @@
+"""Cross-sections: constructors, the catalogue, identification from site measurements, section loss.
+
+Public API:
+    Section                      the record (see ``_section.py`` for field definitions)
+    i_section, rect_hollow, round_hollow   vectorised constructors (mm)
+    from_catalogue, catalogue_names        published sections by designation
+    identify, Match                        rank catalogue sections against measurements
+    with_loss                              the section left after corrosion
+"""
+
+from fieldcol.sections._catalogue import catalogue_names, from_catalogue
+from fieldcol.sections._condition import with_loss
+from fieldcol.sections._geometry import i_section, rect_hollow, round_hollow
+from fieldcol.sections._identify import Match, identify
+from fieldcol.sections._section import Section
+
+__all__ = [
+    "Section", "i_section", "rect_hollow", "round_hollow", "from_catalogue", "catalogue_names",
+    "identify", "Match", "with_loss",
+]
