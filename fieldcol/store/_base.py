@@ -1,0 +1,279 @@
+"""Opening the SQLite file safely and the few primitives every table shares.
+
+Threading: a ``Store`` owns one connection opened with ``check_same_thread=False`` and
+serialises every call with a re-entrant lock, so it may be driven from any thread, one call at a
+time. The UI should call it from a worker (``asyncio.to_thread`` or one dedicated DB thread),
+never on the event loop: a commit with ``synchronous=FULL`` waits for the disk.
+"""
+
+from __future__ import annotations
+
+import os
+import sqlite3
+import threading
+import uuid
+from contextlib import contextmanager
+from pathlib import Path
+from typing import Any, Iterator, Self
+
+from sqlite_utils import Database
+
+from fieldcol.errors import InputError
+from fieldcol.store import _validate as v
+from fieldcol.store._migrations import (
+    MIGRATION_NAMES, SCHEMA_VERSION, migrations, schema_version, unknown_migrations,
+)
+from fieldcol.store._paths import photos_dir, resolve_db_path
+from fieldcol.store._schema import DATA_TABLES
+
+BUSY_TIMEOUT_S = 10.0
+
+
+class StoreBase:
+    """The connection, its settings, and insert / update / tombstone helpers."""
+
+    def __init__(self, path: str | os.PathLike[str] | None = None, *, create: bool = True,
+                 _stop_before: str | None = None):
+        self.path: Path = resolve_db_path(path)
+        if self.path.is_dir():
+            raise InputError("db", str(self.path), "this is a folder, not a database file",
+                             "give a file path such as site.db")
+        if not self.path.exists() and not create:
+            raise InputError("db", str(self.path), "no fieldcol store there",
+                             "check the path, or create one (fieldcol demo, import-schedule)")
+        self.photos_dir: Path = photos_dir(self.path)
+        self._lock = threading.RLock()
+        try:
+            self.path.parent.mkdir(parents=True, exist_ok=True)
+            conn = sqlite3.connect(str(self.path), timeout=BUSY_TIMEOUT_S,
+                                   check_same_thread=False)
+        except (OSError, sqlite3.Error) as e:
+            raise InputError("db", str(self.path), f"cannot open or create it ({e})",
+                             "check the folder exists and may be written") from None
+        try:
+            self.db = Database(conn, execute_plugins=False)
+            self._configure()
+            self._migrate(_stop_before)
+            self.device_id: str = self._ensure_device_id()
+        except BaseException:
+            conn.close()
+            raise
+
+    # -- opening -------------------------------------------------------------------------
+    def _configure(self) -> None:
+        try:
+            with self.db.ensure_autocommit_on():
+                mode = self.db.conn.execute("PRAGMA journal_mode=WAL").fetchone()[0]
+                self.db.conn.execute("PRAGMA synchronous=FULL")
+                self.db.conn.execute("PRAGMA foreign_keys=ON")
+                self.db.conn.execute(f"PRAGMA busy_timeout={int(BUSY_TIMEOUT_S * 1000)}")
+        except sqlite3.DatabaseError as e:
+            raise InputError("db", str(self.path), f"SQLite cannot use this file ({e})",
+                             "choose a fieldcol store file in a folder that may be written") from None
+        if str(mode).lower() != "wal":
+            raise InputError("db", str(self.path), f"the file system refused WAL mode ({mode})",
+                             "put the store on a local disk")
+
+    def _migrate(self, stop_before: str | None) -> None:
+        names = set(self.db.table_names())
+        ours = schema_version(self.db) > 0
+        if names and not ours:
+            # never 'upgrade' somebody else's database into ours
+            raise InputError("db", str(self.path), "this SQLite file is not a fieldcol store",
+                             "choose another path")
+        newer = unknown_migrations(self.db)
+        if newer:
+            raise InputError("db", str(self.path),
+                             f"made by a newer fieldcol (schema steps {', '.join(newer)})",
+                             "update fieldcol before opening this store")
+        migrations.apply(self.db, stop_before=stop_before)
+
+    def _ensure_device_id(self) -> str:
+        row = self.db.conn.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()
+        if row:
+            return row[0]
+        device = str(uuid.uuid4())
+        with self._tx():
+            self.db.execute("INSERT OR IGNORE INTO meta (key, value) VALUES ('device_id', ?)",
+                            [device])
+            self.db.execute("INSERT OR IGNORE INTO meta (key, value) VALUES ('created_at', ?)",
+                            [v.now_utc()])
+        return self.db.conn.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()[0]
+
+    # -- life cycle ----------------------------------------------------------------------
+    def close(self) -> None:
+        """Close the connection (every change was already committed as it was made).
+
+        Example:
+            >>> store.close()  # doctest: +SKIP
+        """
+        with self._lock:
+            self.db.close()
+
+    def __enter__(self) -> Self:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
+
+    @property
+    def schema_version(self) -> int:
+        """The number of schema versions applied (``SCHEMA_VERSION`` once open).
+
+        Example:
+            >>> store.schema_version  # doctest: +SKIP
+            2
+        """
+        with self._lock:
+            return schema_version(self.db)
+
+    def integrity_check(self) -> str:
+        """``PRAGMA integrity_check`` (``'ok'`` when the file is sound).
+
+        Example:
+            >>> store.integrity_check()  # doctest: +SKIP
+            'ok'
+        """
+        with self._lock:
+            return self.db.conn.execute("PRAGMA integrity_check").fetchone()[0]
+
+    def is_empty(self) -> bool:
+        """True when no table holds a row (tombstones count as rows: they are history).
+
+        Example:
+            >>> Store("/tmp/new.db").is_empty()  # doctest: +SKIP
+            True
+        """
+        with self._lock:
+            return not any(self.db.conn.execute(f"SELECT 1 FROM {t} LIMIT 1").fetchone()
+                           for t in DATA_TABLES)
+
+    def rebuild_search(self) -> None:
+        """Rebuild the findings full-text index from the findings table.
+
+        The index follows rowids, which SQLite may renumber on ``VACUUM`` (the tables have text
+        keys); the store never vacuums, and restore rebuilds the index anyway.
+
+        Example:
+            >>> store.rebuild_search()  # doctest: +SKIP
+        """
+        with self._tx():
+            self.db.execute("INSERT INTO findings_fts(findings_fts) VALUES('rebuild')")
+
+    # -- primitives ----------------------------------------------------------------------
+    @contextmanager
+    def _tx(self) -> Iterator[Database]:
+        """One transaction, committed when the block ends (autosave) or rolled back whole.
+
+        The outermost block takes the write lock up front (``BEGIN IMMEDIATE``): a deferred
+        transaction that reads and then writes can fail at once with "database is locked" when
+        another connection wrote in between, whatever the busy timeout. Nested blocks are
+        savepoints (sqlite-utils' ``atomic``).
+        """
+        with self._lock:
+            if self.db.conn.in_transaction:
+                with self.db.atomic():
+                    yield self.db
+                return
+            self.db.conn.execute("BEGIN IMMEDIATE")
+            try:
+                yield self.db
+            except BaseException:
+                self.db.rollback()
+                raise
+            try:
+                self.db.conn.execute("COMMIT")
+            except BaseException:
+                self.db.rollback()
+                raise
+
+    def _rows(self, sql: str, params: Any = ()) -> list[dict[str, Any]]:
+        with self._lock:
+            cur = self.db.conn.execute(sql, params)
+            names = [d[0] for d in cur.description]
+            return [dict(zip(names, r)) for r in cur.fetchall()]
+
+    def _book(self) -> dict[str, Any]:
+        now = v.now_utc()
+        return {"id": str(uuid.uuid4()), "created_at": now, "updated_at": now,
+                "device_id": self.device_id, "deleted_at": None}
+
+    def _insert(self, table: str, row: dict[str, Any], *, row_id: str | None = None) -> str:
+        full = self._book()
+        if row_id is not None:
+            full["id"] = row_id
+        full.update(row)
+        cols = ", ".join(full)
+        marks = ", ".join("?" for _ in full)
+        with self._tx():
+            self._execute_checked(f"INSERT INTO {table} ({cols}) VALUES ({marks})",
+                                  list(full.values()))
+        return full["id"]
+
+    def _update(self, table: str, row_id: str, changes: dict[str, Any]) -> None:
+        if not changes:
+            return
+        changes = dict(changes, updated_at=v.now_utc(), device_id=self.device_id)
+        sets = ", ".join(f"{k} = ?" for k in changes)
+        with self._tx():
+            cur = self._execute_checked(f"UPDATE {table} SET {sets} WHERE id = ?",
+                                        [*changes.values(), row_id])
+            if cur.rowcount != 1:
+                raise InputError("id", row_id, f"no such row in {table}", None)
+
+    def _execute_checked(self, sql: str, params: list[Any]) -> sqlite3.Cursor:
+        try:
+            return self.db.execute(sql, params)
+        except sqlite3.IntegrityError as e:
+            msg = str(e)
+            if "columns_live_tag" in msg or "columns.site_id, columns.tag" in msg:
+                raise InputError("tag", "", "a column with this tag already exists on the site",
+                                 "choose another tag or edit that column") from None
+            if "sites.name" in msg:
+                raise InputError("name", "", "a site with this name already exists",
+                                 "choose another name") from None
+            if "levels.site_id, levels.name" in msg:
+                raise InputError("level", "", "this level already exists on the site", None) from None
+            raise InputError("record", "", f"the database refused the change ({msg})", None) from None
+
+    def _get(self, table: str, row_id: str, *, live: bool = True,
+             field: str = "id") -> dict[str, Any]:
+        if not isinstance(row_id, str) or not row_id:
+            raise InputError(field, repr(row_id), "expected the id of a row", None)
+        rows = self._rows(f"SELECT * FROM {table} WHERE id = ?", [row_id])
+        if not rows or (live and rows[0]["deleted_at"] is not None):
+            what = "deleted" if rows else "not found"
+            raise InputError(field, row_id, f"{table[:-1].replace('_', ' ')} {what}", None)
+        return rows[0]
+
+    def has_row(self, table: str, row_id: str) -> bool:
+        """True when ``table`` holds a row with this id, tombstoned or not.
+
+        Example:
+            >>> store.has_row("sites", "no-such-id")  # doctest: +SKIP
+            False
+        """
+        if table not in DATA_TABLES:
+            raise InputError("table", table, "not a table of the store", ", ".join(DATA_TABLES))
+        return bool(self._rows(f"SELECT 1 FROM {table} WHERE id = ?", [row_id]))
+
+    def delete(self, table: str, row_id: str) -> None:
+        """Tombstone a row: it stays in the file (and in backups) but leaves every listing.
+
+        Args:
+            table: one of the data tables, e.g. ``"findings"``.
+            row_id: the row's id.
+
+        Example:
+            >>> store.delete("findings", finding.id)  # doctest: +SKIP
+        """
+        if table not in DATA_TABLES:
+            raise InputError("table", table, "not a table of the store", ", ".join(DATA_TABLES))
+        self._get(table, row_id)
+        now = v.now_utc()
+        with self._tx():
+            self.db.execute(f"UPDATE {table} SET deleted_at = ?, updated_at = ?, device_id = ? "
+                            "WHERE id = ?", [now, now, self.device_id, row_id])
+
+
+__all__ = ["StoreBase", "SCHEMA_VERSION", "MIGRATION_NAMES"]

@@ -1,0 +1,439 @@
+"""Columns, their measurement history, restraint changes and retrofit options."""
+
+from __future__ import annotations
+
+import copy
+import json
+import re
+from typing import Any, Iterable
+
+from fieldcol.errors import InputError
+from fieldcol.store import _validate as v
+from fieldcol.store._records import (
+    Column, ColumnRow, Measurement, RestraintChange, Retrofit, from_row,
+)
+from fieldcol.store._schema import AXES, RESTRAINT_KINDS, RETROFIT_STATUSES
+from fieldcol.store._sites import SitesMixin
+
+_QUANTITY = re.compile(r"[A-Za-z_][A-Za-z0-9_]*(\.([A-Za-z_][A-Za-z0-9_]*|\d+))*")
+_BARE_NUMBER = re.compile(r"\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*")
+_COLUMN_FIELDS = ("record", "location", "level", "grid")
+
+
+def section_label(section: Any) -> str | None:
+    """A short text for a record's section: the catalogue name or ``measured <shape>``, and
+    ``with loss`` when a section loss is recorded.
+
+    Example:
+        >>> section_label({"shape": "i", "d": "14 in"})
+        'measured i'
+    """
+    if section is None or isinstance(section, str):
+        return section
+    if isinstance(section, dict):
+        base = section.get("name") or f"measured {section.get('shape', '?')}"
+        return f"{base} with loss" if section.get("loss") else str(base)
+    return str(section)
+
+
+def latest_readings(readings: Iterable[Measurement]) -> dict[str, Measurement]:
+    """The reading that counts for each quantity: the latest by time taken, corrections winning.
+
+    A reading that a live correction points at no longer counts; among the rest the latest
+    ``taken_at`` wins and, at equal times, the one saved last (so a correction, which keeps the
+    time of the reading it corrects, beats the original but not a later reading).
+
+    Example:
+        >>> latest_readings([])
+        {}
+    """
+    readings = [m for m in readings if m.deleted_at is None]
+    corrected = {m.corrects for m in readings if m.corrects}
+    best: dict[str, Measurement] = {}
+    for m in readings:
+        if m.id in corrected:
+            continue
+        cur = best.get(m.quantity)
+        if cur is None or (m.taken_at, m.created_at) > (cur.taken_at, cur.created_at):
+            best[m.quantity] = m
+    return best
+
+
+def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dict[str, Any], list[str]]:
+    """The record with each measured quantity's latest reading written at its dotted path.
+
+    Missing objects on the path are created; a path through a value that is not an object
+    (e.g. ``section.tf`` on a catalogue name) is left alone and returned in the second item.
+
+    Example:
+        >>> m = Measurement(id="1", column_id="c", quantity="length", kind="length",
+        ...                 text="29 ft", value=8839.2, unit="mm", taken_at="t")
+        >>> overlay({"tag": "A", "length": "30 ft"}, {"length": m})[0]["length"]
+        '29 ft'
+    """
+    out = copy.deepcopy(record)
+    skipped: list[str] = []
+    for quantity, m in sorted(latest.items()):
+        text = m.text if not _BARE_NUMBER.fullmatch(m.text) else f"{m.value:.10g} {m.unit}".strip()
+        node: Any = out
+        parts = quantity.split(".")
+        ok = True
+        for i, part in enumerate(parts[:-1]):
+            if isinstance(node, list) and part.isdigit() and int(part) < len(node):
+                node = node[int(part)]
+            elif isinstance(node, dict) and not part.isdigit():
+                if node.get(part) is None:
+                    node[part] = {}
+                node = node[part]
+            else:
+                ok = False
+                break
+            if not isinstance(node, (dict, list)):
+                ok = False
+                break
+        last = parts[-1]
+        if ok and isinstance(node, dict) and not last.isdigit():
+            node[last] = text
+        elif ok and isinstance(node, list) and last.isdigit() and int(last) < len(node):
+            node[int(last)] = text
+        else:
+            skipped.append(quantity)
+    return out, skipped
+
+
+class ColumnsMixin(SitesMixin):
+    """Store operations on columns, measurements, restraint changes, retrofits (part of ``Store``)."""
+
+    # -- columns -------------------------------------------------------------------------
+    def add_column(self, site_id: str, record: dict[str, Any], *, location: str | None = None,
+                   level: str | None = None, grid: str | None = None,
+                   column_id: str | None = None) -> Column:
+        """Create a column from its engine record; the tag comes from ``record["tag"]``.
+
+        Args:
+            site_id: the site it stands in.
+            record: the column record (JSON object; only ``tag`` is checked here).
+            location, grid: optional text; level: a level name, created on the site if new.
+            column_id: a fixed id; a new UUID when omitted.
+
+        Returns:
+            The saved ``Column``.
+
+        Example:
+            >>> store.add_column(site.id, {"tag": "B/4-L1", "section": "W14X90"}).tag  # doctest: +SKIP
+            'B/4-L1'
+        """
+        self._get("sites", site_id, field="site")
+        rec = v.record(record)
+        tag = rec["tag"].strip()
+        self._tag_free(site_id, tag)
+        with self._tx():
+            row = {"site_id": site_id, "tag": tag, "record": v.json_text(rec, "record"),
+                   "location": v.text(location, "location", required=False),
+                   "grid": v.text(grid, "grid", required=False),
+                   "level_id": self._level_id(site_id, level)}
+            new_id = self._insert("columns", row, row_id=column_id)
+        return self.get_column(new_id)
+
+    def _tag_free(self, site_id: str, tag: str, current_id: str | None = None) -> None:
+        clash = self._rows("SELECT id FROM columns WHERE site_id = ? AND tag = ? "
+                           "AND deleted_at IS NULL", [site_id, tag])
+        if clash and clash[0]["id"] != current_id:
+            raise InputError("tag", tag, "a column with this tag already exists on the site",
+                             "choose another tag or edit that column")
+
+    def _level_id(self, site_id: str, level: str | None) -> str | None:
+        name = v.text(level, "level", required=False)
+        return None if name is None else self.level(site_id, name).id
+
+    def update_column(self, column_id: str, **fields: Any) -> Column:
+        """Change ``record=``, ``location=``, ``level=`` (a name) or ``grid=`` of a column.
+
+        A new record may change the tag (it must stay unique on the site).
+
+        Example:
+            >>> store.update_column(col.id, grid="C/5").grid  # doctest: +SKIP
+            'C/5'
+        """
+        cur = self._get("columns", column_id, field="column")
+        changes: dict[str, Any] = {}
+        with self._tx():
+            for k, val in fields.items():
+                if k not in _COLUMN_FIELDS:
+                    raise InputError(k, repr(val), "not a field of a column",
+                                     ", ".join(_COLUMN_FIELDS))
+                if k == "record":
+                    rec = v.record(val)
+                    tag = rec["tag"].strip()
+                    self._tag_free(cur["site_id"], tag, column_id)
+                    changes["record"] = v.json_text(rec, "record")
+                    changes["tag"] = tag
+                elif k == "level":
+                    changes["level_id"] = self._level_id(cur["site_id"], val)
+                else:
+                    changes[k] = v.text(val, k, required=False)
+            self._update("columns", column_id, changes)
+        return self.get_column(column_id)
+
+    def get_column(self, column_id: str) -> Column:
+        """The column with this id (tombstoned too, with ``deleted_at`` set).
+
+        Example:
+            >>> store.get_column(col.id).tag  # doctest: +SKIP
+            'B/4-L1'
+        """
+        return from_row(Column, self._get("columns", column_id, live=False, field="column"))
+
+    def find_column(self, site_id: str, tag: str) -> Column | None:
+        """The live column with this tag on the site, or ``None``.
+
+        Example:
+            >>> store.find_column(site.id, "B/4-L1").grid  # doctest: +SKIP
+            'B/4'
+        """
+        rows = self._rows("SELECT * FROM columns WHERE site_id = ? AND tag = ? "
+                          "AND deleted_at IS NULL", [site_id, v.text(tag, "tag")])
+        return from_row(Column, rows[0]) if rows else None
+
+    def list_columns(self, site_id: str | None = None, *, limit: int = 100,
+                     offset: int = 0) -> list[ColumnRow]:
+        """One page of live columns (all sites, or one), by site name then tag.
+
+        Section and length reflect the latest measurements; utilization and governing mode
+        come from the column's latest saved check.
+
+        Args:
+            site_id: restrict to one site.
+            limit, offset: the page (limit 1..1000).
+
+        Example:
+            >>> [r.tag for r in store.list_columns(site.id, limit=2)]  # doctest: +SKIP
+            ['A/1-L1', 'A/2-L1']
+        """
+        if isinstance(limit, bool) or not isinstance(limit, int) or not 1 <= limit <= 1000:
+            raise InputError("limit", repr(limit), "a page holds 1 to 1000 rows", None)
+        if isinstance(offset, bool) or not isinstance(offset, int) or offset < 0:
+            raise InputError("offset", repr(offset), "must be a whole number >= 0", None)
+        where, params = "c.deleted_at IS NULL AND s.deleted_at IS NULL", []
+        if site_id is not None:
+            where += " AND c.site_id = ?"
+            params.append(site_id)
+        rows = self._rows(f"""
+            SELECT c.id, c.tag, c.record, c.location, c.grid, s.name AS site, l.name AS level,
+                   k.utilization, k.governing_mode, k.checked_at
+            FROM columns c
+            JOIN sites s ON s.id = c.site_id
+            LEFT JOIN levels l ON l.id = c.level_id
+            LEFT JOIN checks k ON k.id = (
+                SELECT id FROM checks WHERE column_id = c.id AND deleted_at IS NULL
+                ORDER BY checked_at DESC, created_at DESC LIMIT 1)
+            WHERE {where}
+            ORDER BY s.name, c.tag LIMIT ? OFFSET ?""", [*params, limit, offset])
+        latest = self._latest_for([r["id"] for r in rows])
+        out = []
+        for r in rows:
+            rec, _ = overlay(json.loads(r["record"]), latest.get(r["id"], {}))
+            length = rec.get("length")
+            out.append(ColumnRow(
+                id=r["id"], tag=r["tag"], site=r["site"], level=r["level"], grid=r["grid"],
+                location=r["location"], section=section_label(rec.get("section")),
+                length=length if isinstance(length, str) or length is None else str(length),
+                utilization=r["utilization"], governing_mode=r["governing_mode"],
+                checked_at=r["checked_at"]))
+        return out
+
+    def _latest_for(self, column_ids: list[str]) -> dict[str, dict[str, Measurement]]:
+        by_col: dict[str, list[Measurement]] = {}
+        for i in range(0, len(column_ids), 500):  # older SQLite builds allow 999 parameters
+            chunk = column_ids[i:i + 500]
+            marks = ", ".join("?" for _ in chunk)
+            for r in self._rows(f"SELECT * FROM measurements WHERE column_id IN ({marks}) "
+                                "AND deleted_at IS NULL", chunk):
+                by_col.setdefault(r["column_id"], []).append(from_row(Measurement, r))
+        return {c: latest_readings(ms) for c, ms in by_col.items()}
+
+    def current_record(self, column_id: str) -> dict[str, Any]:
+        """The record the engine should read now: the stored record with the latest readings.
+
+        Example:
+            >>> store.current_record(col.id)["length"]  # doctest: +SKIP
+            '29 ft 10 in'
+        """
+        col = self.get_column(column_id)
+        rec, _ = overlay(col.record, self._latest_for([column_id]).get(column_id, {}))
+        return rec
+
+    # -- measurements ---------------------------------------------------------------------
+    def add_measurement(self, column_id: str, quantity: str, text: str, *, kind: str = "length",
+                        gauge: str | None = None, taken_by: str | None = None,
+                        taken_at: str | None = None, visit_id: str | None = None,
+                        note: str | None = None, corrects: str | None = None,
+                        measurement_id: str | None = None) -> Measurement:
+        """Keep one reading as taken, with its canonical value in the internal unit of ``kind``.
+
+        Args:
+            column_id: the column measured.
+            quantity: dotted path of the record value it measures, e.g. ``"length"``,
+                ``"section.tf"``, ``"section.loss.tf"``, ``"condition.bow"``.
+            text: the entry as typed (``"0.56 in"``, ``"29'-10\\""``); a bare number means mm
+                (or the internal unit of ``kind``).
+            kind: a ``fieldcol.units`` kind (``length``, ``force``, ``stress``, ...).
+            gauge, taken_by, note: optional text; taken_at: ISO 8601 with zone (default now).
+            visit_id: the visit it was taken on. corrects: id of a reading this one corrects.
+
+        Returns:
+            The saved ``Measurement``.
+
+        Example:
+            >>> store.add_measurement(col.id, "section.tf", "0.62 in", gauge="caliper").value  # doctest: +SKIP
+            15.748
+        """
+        from fieldcol import units
+
+        col = self._get("columns", column_id, field="column")
+        if not isinstance(quantity, str) or not _QUANTITY.fullmatch(quantity) or quantity == "tag":
+            raise InputError("quantity", repr(quantity), "not a path into the column record",
+                             "e.g. length, section.tf, section.loss.tf")
+        if kind not in units.INTERNAL_UNITS:
+            raise InputError("kind", repr(kind), "not a kind of quantity",
+                             ", ".join(units.INTERNAL_UNITS))
+        typed = v.text(text, quantity)
+        if kind == "length":
+            value = units.parse_length(typed, quantity, allow_zero=True)
+        else:
+            value = units.parse_quantity(typed, kind, quantity, allow_zero=True)
+        if visit_id is not None:
+            visit = self._get("visits", visit_id, field="visit")
+            if visit["site_id"] != col["site_id"]:
+                raise InputError("visit", visit_id, "that visit is to another site", None)
+        when = v.now_utc() if taken_at is None else v.utc_timestamp(taken_at, "taken_at")
+        if corrects is not None:
+            old = self._get("measurements", corrects, field="corrects")
+            if old["column_id"] != column_id or old["quantity"] != quantity:
+                raise InputError("corrects", corrects,
+                                 "a correction must be of the same column and quantity", None)
+            if taken_at is None:
+                when = old["taken_at"]
+        row = {"column_id": column_id, "visit_id": visit_id, "quantity": quantity, "kind": kind,
+               "text": typed, "value": float(value), "unit": units.INTERNAL_UNITS[kind],
+               "gauge": v.text(gauge, "gauge", required=False),
+               "taken_by": v.text(taken_by, "taken_by", required=False), "taken_at": when,
+               "corrects": corrects, "note": v.text(note, "note", required=False)}
+        new_id = self._insert("measurements", row, row_id=measurement_id)
+        return from_row(Measurement, self._get("measurements", new_id))
+
+    def correct_measurement(self, measurement_id: str, text: str, *, note: str | None = None,
+                            taken_by: str | None = None) -> Measurement:
+        """Correct a reading by adding a new one that points at it; the old one is kept.
+
+        Example:
+            >>> store.correct_measurement(m.id, "0.52 in", note="misread").corrects == m.id  # doctest: +SKIP
+            True
+        """
+        old = from_row(Measurement, self._get("measurements", measurement_id, field="corrects"))
+        return self.add_measurement(old.column_id, old.quantity, text, kind=old.kind,
+                                    gauge=old.gauge, taken_by=taken_by or old.taken_by,
+                                    visit_id=old.visit_id, note=note, corrects=old.id)
+
+    def measurements(self, column_id: str, quantity: str | None = None) -> list[Measurement]:
+        """Every live reading of a column (optionally one quantity), oldest first.
+
+        Example:
+            >>> [m.text for m in store.measurements(col.id, "length")]  # doctest: +SKIP
+            ['30 ft', "29'-10\\""]
+        """
+        sql = "SELECT * FROM measurements WHERE column_id = ? AND deleted_at IS NULL"
+        params = [column_id]
+        if quantity is not None:
+            sql += " AND quantity = ?"
+            params.append(quantity)
+        return [from_row(Measurement, r) for r in
+                self._rows(sql + " ORDER BY taken_at, created_at", params)]
+
+    def current_measurements(self, column_id: str) -> dict[str, Measurement]:
+        """The reading that counts for each quantity of a column (see ``latest_readings``).
+
+        Example:
+            >>> store.current_measurements(col.id)["length"].text  # doctest: +SKIP
+            '29 ft 10 in'
+        """
+        return latest_readings(self.measurements(column_id))
+
+    # -- restraint changes ----------------------------------------------------------------
+    def add_restraint_change(self, column_id: str, date: str, kind: str, description: str, *,
+                             axis: str | None = None, seen_by: str | None = None,
+                             detail: dict[str, Any] | None = None,
+                             change_id: str | None = None) -> RestraintChange:
+        """Log a dated change to how a column is held.
+
+        Args:
+            kind: ``brace_added``, ``brace_removed``, ``cable_found``, ``end_condition_changed``
+                or ``other``. axis: ``strong``, ``weak``, ``twist`` or None.
+            detail: optional JSON object (e.g. ``{"at": "15 ft", "member": "L3x3x1/4"}``).
+
+        Example:
+            >>> store.add_restraint_change(col.id, "2026-03-04", "brace_added", "angle to wall",
+            ...                            axis="weak").kind  # doctest: +SKIP
+            'brace_added'
+        """
+        self._get("columns", column_id, field="column")
+        if detail is not None and not isinstance(detail, dict):
+            raise InputError("detail", repr(detail), "expected a JSON object", None)
+        row = {"column_id": column_id, "date": v.iso_date(date, "date"),
+               "kind": v.choice(kind, "kind", RESTRAINT_KINDS),
+               "axis": v.choice(axis, "axis", AXES, required=False),
+               "description": v.text(description, "description"),
+               "seen_by": v.text(seen_by, "seen_by", required=False),
+               "detail": None if detail is None else v.json_text(detail, "detail")}
+        new_id = self._insert("restraint_changes", row, row_id=change_id)
+        return from_row(RestraintChange, self._get("restraint_changes", new_id))
+
+    def restraint_changes(self, column_id: str) -> list[RestraintChange]:
+        """Live restraint changes of a column, oldest first.
+
+        Example:
+            >>> [rc.kind for rc in store.restraint_changes(col.id)]  # doctest: +SKIP
+            ['brace_added']
+        """
+        return [from_row(RestraintChange, r) for r in self._rows(
+            "SELECT * FROM restraint_changes WHERE column_id = ? AND deleted_at IS NULL "
+            "ORDER BY date, created_at", [column_id])]
+
+    # -- retrofit options -----------------------------------------------------------------
+    def add_retrofit(self, column_id: str, description: str, record: dict[str, Any], *,
+                     status: str = "proposed", retrofit_id: str | None = None) -> Retrofit:
+        """Save a retrofit option: what would be done and the column record it would give.
+
+        Example:
+            >>> store.add_retrofit(col.id, "add weak-axis brace at mid-height", rec).status  # doctest: +SKIP
+            'proposed'
+        """
+        self._get("columns", column_id, field="column")
+        row = {"column_id": column_id, "description": v.text(description, "description"),
+               "record": v.json_text(v.record(record), "record"),
+               "status": v.choice(status, "status", RETROFIT_STATUSES)}
+        new_id = self._insert("retrofits", row, row_id=retrofit_id)
+        return from_row(Retrofit, self._get("retrofits", new_id))
+
+    def set_retrofit_status(self, retrofit_id: str, status: str) -> Retrofit:
+        """Mark a retrofit option ``proposed``, ``chosen``, ``rejected`` or ``built``.
+
+        Example:
+            >>> store.set_retrofit_status(opt.id, "chosen").status  # doctest: +SKIP
+            'chosen'
+        """
+        self._get("retrofits", retrofit_id, field="retrofit")
+        self._update("retrofits", retrofit_id,
+                     {"status": v.choice(status, "status", RETROFIT_STATUSES)})
+        return from_row(Retrofit, self._get("retrofits", retrofit_id))
+
+    def retrofits(self, column_id: str) -> list[Retrofit]:
+        """Live retrofit options of a column, oldest first.
+
+        Example:
+            >>> len(store.retrofits(col.id))  # doctest: +SKIP
+            1
+        """
+        return [from_row(Retrofit, r) for r in self._rows(
+            "SELECT * FROM retrofits WHERE column_id = ? AND deleted_at IS NULL "
+            "ORDER BY created_at", [column_id])]

@@ -1,0 +1,53 @@
+"""Schema versions, applied in order through sqlite-utils' migration sets.
+
+Each migration is a function of the database; sqlite-utils records it in
+``_sqlite_migrations`` inside the same transaction, so a crash mid-migration leaves the
+previous version intact. Never edit a released migration: add a new one.
+"""
+
+from __future__ import annotations
+
+from sqlite_utils import Database
+from sqlite_utils.migrations import Migrations
+
+from fieldcol.store._schema import V1_SQL, V2_SQL
+
+migrations = Migrations("fieldcol")
+
+
+@migrations(name="m001_initial")
+def _m001_initial(db: Database) -> None:
+    db.executescript(V1_SQL)
+    # external-content FTS5 kept current by triggers; tombstoned rows stay indexed and the
+    # search query filters them out, so a soft delete needs no index surgery
+    db["findings"].enable_fts(["text", "category"], create_triggers=True)
+
+
+@migrations(name="m002_indexes")
+def _m002_indexes(db: Database) -> None:
+    db.executescript(V2_SQL)
+
+
+#: names in order; the schema version is the count applied
+MIGRATION_NAMES: tuple[str, ...] = tuple(m.name for m in migrations.pending(Database(memory=True)))
+SCHEMA_VERSION = len(MIGRATION_NAMES)
+
+
+def schema_version(db: Database) -> int:
+    """How many of our migrations the database has applied (0 for a new file).
+
+    Example:
+        >>> schema_version(Database(memory=True))
+        0
+    """
+    return len(migrations.applied(db))
+
+
+def unknown_migrations(db: Database) -> list[str]:
+    """Migrations recorded in ``db`` that this version of fieldcol does not know (a newer app wrote it).
+
+    Example:
+        >>> unknown_migrations(Database(memory=True))
+        []
+    """
+    return [m.name for m in migrations.applied(db) if m.name not in MIGRATION_NAMES]

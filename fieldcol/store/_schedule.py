@@ -1,0 +1,390 @@
+"""Column schedules in and out as CSV.
+
+Import reads ``tag, level, grid, section, length, material, demand`` (plus optional
+``location`` and ``basis``); units go in the header (``length (ft)``) or in each cell
+(``30 ft``). A cell with its own unit keeps it; a bare number with no unit in the header is an
+error (a schedule never gets a guessed unit). Importing is all or nothing: any row error
+refuses the whole file. The result columns an export adds (code, utilization, ...) are read
+past, so an export can be edited and imported again. Rows match existing columns on site + tag; only the schedule's own
+fields are merged into the record (restraints and other entries stay), a blank cell leaves the
+field as it was, and an unchanged row is skipped, so importing the same file twice changes
+nothing.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import os
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from fieldcol.errors import InputError
+from fieldcol.store import _validate as v
+from fieldcol.store._columns import overlay
+from fieldcol.store._schema import CODES, UNIT_SYSTEMS
+
+if TYPE_CHECKING:
+    from fieldcol.store._store import Store
+
+FIELDS = ("tag", "level", "grid", "location", "section", "length", "material", "demand", "basis")
+_UNIT_FIELDS = {"length": "length", "demand": "force"}
+_HEADER = re.compile(r"\s*([A-Za-z_ ]+?)\s*(?:\(\s*([^)]*?)\s*\))?\s*")
+_BARE_NUMBER = re.compile(r"[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?")
+EXPORT_FIELDS = ("tag", "level", "grid", "location", "section", "length", "material", "demand",
+                 "basis", "code", "utilization", "governing_mode", "checked_at", "app_version")
+#: columns an export adds; import reads past them, so an export can be edited and re-imported
+IGNORED = tuple(f for f in EXPORT_FIELDS if f not in FIELDS)
+
+
+@dataclass
+class RowError:
+    """One problem in one row: spreadsheet row number (header is row 1), field, reason."""
+    row: int
+    field: str
+    text: str
+    reason: str
+    hint: str | None = None
+
+    def __str__(self) -> str:
+        s = f"row {self.row}, {self.field}: cannot use '{self.text}': {self.reason}"
+        return s + (f" ({self.hint})" if self.hint else "")
+
+
+@dataclass
+class SchedulePlan:
+    """What importing one row would do: ``add``, ``update`` (with the fields changed) or ``unchanged``."""
+    row: int
+    tag: str
+    action: str
+    changes: list[str]
+    record: dict[str, Any]
+    level: str | None = None
+    grid: str | None = None
+    location: str | None = None
+
+
+@dataclass
+class SchedulePreview:
+    """The preview of an import: a plan per row and every row error."""
+    site: str
+    site_exists: bool
+    plans: list[SchedulePlan] = field(default_factory=list)
+    errors: list[RowError] = field(default_factory=list)
+    applied: bool = False
+
+    @property
+    def ok(self) -> bool:
+        """True when no row has an error.
+
+        Example:
+            >>> preview_schedule(store, "Depot", "cols.csv").ok  # doctest: +SKIP
+            True
+        """
+        return not self.errors
+
+    def counts(self) -> dict[str, int]:
+        """How many rows would be added, updated, left unchanged, and how many errors.
+
+        Example:
+            >>> preview.counts()  # doctest: +SKIP
+            {'add': 2, 'update': 0, 'unchanged': 0, 'errors': 0}
+        """
+        out = {"add": 0, "update": 0, "unchanged": 0}
+        for p in self.plans:
+            out[p.action] += 1
+        out["errors"] = len(self.errors)
+        return out
+
+    def lines(self) -> list[str]:
+        """The preview as text lines for a terminal.
+
+        Example:
+            >>> preview.lines()[-1]  # doctest: +SKIP
+            '2 to add, 0 to update, 0 unchanged, 0 row errors'
+        """
+        head = f"site {self.site}" + ("" if self.site_exists else " (new)")
+        out = [head]
+        for p in self.plans:
+            detail = f" ({', '.join(p.changes)})" if p.action == "update" else ""
+            out.append(f"  row {p.row:>4}  {p.action:<9} {p.tag}{detail}")
+        for e in self.errors:
+            out.append(f"  {e}")
+        c = self.counts()
+        out.append(f"{c['add']} to add, {c['update']} to update, {c['unchanged']} unchanged, "
+                   f"{c['errors']} row errors")
+        return out
+
+
+def _read_text(source: str | os.PathLike[str]) -> str:
+    p = Path(source)
+    if not p.is_file():
+        raise InputError("file", str(p), "no such file", None)
+    try:
+        return p.read_bytes().decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        raise InputError("file", str(p), f"not UTF-8 text ({e.reason} at byte {e.start})",
+                         "save the sheet as CSV UTF-8") from None
+
+
+def _header(cells: list[str]) -> list[tuple[str, str | None]]:
+    cols: list[tuple[str, str | None]] = []
+    seen = set()
+    for cell in cells:
+        m = _HEADER.fullmatch(cell)
+        name = m.group(1).strip().lower().replace(" ", "_") if m else cell.strip()
+        unit = (m.group(2) or None) if m else None
+        if not m or (name not in FIELDS and name not in IGNORED):
+            raise InputError("header", cell, "not a schedule column",
+                             "columns: " + ", ".join(FIELDS) + "; units like length (ft)")
+        if unit is not None and name not in _UNIT_FIELDS:
+            raise InputError("header", cell, f"{name} takes no unit", None)
+        if name in seen:
+            raise InputError("header", cell, "this column appears twice", None)
+        seen.add(name)
+        cols.append((name, unit))
+    if "tag" not in seen:
+        raise InputError("header", ",".join(cells), "no tag column", "the first row names "
+                         "the columns: tag, level, grid, section, length, material, demand")
+    return cols
+
+
+def _parse(text: str) -> tuple[list[tuple[str, str | None]], list[tuple[int, dict[str, str]]]]:
+    records = list(csv.reader(io.StringIO(text)))
+    header, rows = None, []
+    for n, cells in enumerate(records, start=1):
+        if not any(c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
+            continue
+        if header is None:
+            header = _header(cells)
+            continue
+        if len(cells) > len(header) and any(c.strip() for c in cells[len(header):]):
+            rows.append((n, {"__extra__": ",".join(cells[len(header):])}))
+            continue
+        rows.append((n, {name: (cells[i].strip() if i < len(cells) else "")
+                         for i, (name, _) in enumerate(header)}))
+    if header is None:
+        raise InputError("file", "", "the file holds no header row", "first row: tag,section,...")
+    return header, rows
+
+
+def _with_unit(cell: str, unit: str | None, fld: str) -> str:
+    if _BARE_NUMBER.fullmatch(cell):
+        if unit is None:
+            raise InputError(fld, cell, "a number with no unit",
+                             f"write e.g. '{cell} ft' or put the unit in the header: {fld} (ft)")
+        return f"{cell} {unit}"
+    return cell
+
+
+def _json_or_text(cell: str, fld: str) -> Any:
+    if cell.startswith("{"):
+        try:
+            obj = json.loads(cell)
+        except json.JSONDecodeError as e:
+            raise InputError(fld, cell, f"looks like a JSON object but is not ({e.msg})",
+                             None) from None
+        if not isinstance(obj, dict):
+            raise InputError(fld, cell, "expected a JSON object", None)
+        return obj
+    return cell
+
+
+def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[str, Any]:
+    """The row's values checked and ready for the record (only non-blank cells)."""
+    from fieldcol import units
+
+    out: dict[str, Any] = {}
+    for name, cell in cells.items():
+        if not cell or name in IGNORED:
+            continue
+        if name in ("length", "demand"):
+            typed = _with_unit(cell, units_by.get(name), name)
+            if name == "length":
+                units.parse_length(typed, name)
+            else:
+                units.parse_quantity(typed, "force", name)
+            out[name] = typed
+        elif name in ("section", "material"):
+            out[name] = _json_or_text(cell, name)
+        else:
+            out[name] = cell
+    return out
+
+
+def _merge(record: dict[str, Any], vals: dict[str, Any]) -> dict[str, Any]:
+    rec = json.loads(json.dumps(record))
+    for k in ("section", "length", "material"):
+        if k in vals:
+            rec[k] = vals[k]
+    if "demand" in vals or "basis" in vals:
+        demand = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
+        if "demand" in vals:
+            demand["axial"] = vals["demand"]
+        if "basis" in vals:
+            demand["basis"] = vals["basis"]
+        rec["demand"] = demand
+    return rec
+
+
+def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str]) -> SchedulePreview:
+    """What importing the CSV file ``source`` into ``site`` (a name) would do. Writes nothing.
+
+    Example:
+        >>> print("\\n".join(preview_schedule(store, "Depot", "cols.csv").lines()))  # doctest: +SKIP
+        site Depot
+          row    2  add       A/1-L1
+        1 to add, 0 to update, 0 unchanged, 0 row errors
+    """
+    site_name = v.text(site, "site")
+    header, rows = _parse(_read_text(source))
+    units_by = dict(header)
+    found = store.find_site(site_name)
+    preview = SchedulePreview(site_name, found is not None)
+    seen: dict[str, int] = {}
+    for n, cells in rows:
+        if "__extra__" in cells:
+            preview.errors.append(RowError(n, "row", cells["__extra__"],
+                                           "more cells than header columns", None))
+            continue
+        tag = cells.get("tag", "")
+        if not tag:
+            preview.errors.append(RowError(n, "tag", "", "the column tag is required", None))
+            continue
+        if tag in seen:
+            preview.errors.append(RowError(n, "tag", tag, f"tag already used on row {seen[tag]}",
+                                           None))
+            continue
+        seen[tag] = n
+        try:
+            vals = _row_fields(cells, units_by)
+        except InputError as e:
+            preview.errors.append(RowError(n, e.field, e.text, e.reason, e.hint))
+            continue
+        col = store.find_column(found.id, tag) if found else None
+        if col is None:
+            base: dict[str, Any] = {"tag": tag}
+            if found is not None:
+                base["code"] = found.code
+            rec = _merge(base, vals)
+            preview.plans.append(SchedulePlan(n, tag, "add", [], rec, vals.get("level"),
+                                              vals.get("grid"), vals.get("location")))
+            continue
+        rec = _merge(col.record, vals)
+        level_name = None
+        if col.level_id:
+            level_name = store._get("levels", col.level_id, live=False)["name"]
+        changes = [k for k in ("section", "length", "material") if rec.get(k) != col.record.get(k)]
+        if rec.get("demand") != col.record.get("demand"):
+            changes.append("demand")
+        for k, cur in (("level", level_name), ("grid", col.grid), ("location", col.location)):
+            if k in vals and vals[k] != cur:
+                changes.append(k)
+        preview.plans.append(SchedulePlan(
+            n, tag, "update" if changes else "unchanged", changes, rec,
+            vals.get("level", level_name), vals.get("grid", col.grid),
+            vals.get("location", col.location)))
+    return preview
+
+
+def apply_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
+                   create_site: dict[str, str] | None = None) -> SchedulePreview:
+    """Import the CSV into ``site`` in one transaction; refuses the whole file on any row error.
+
+    Args:
+        store: the open store. site: the site's name. source: the CSV file.
+        create_site: when the site does not exist, create it with these fields
+            (``{"code": "aisc360-22", "unit_system": "us"}``); otherwise a missing site is an
+            ``InputError``.
+
+    Returns:
+        The preview that was applied (``applied=True``).
+
+    Example:
+        >>> apply_schedule(store, "Depot", "cols.csv").counts()["add"]  # doctest: +SKIP
+        24
+    """
+    # plan and write inside one transaction, so the plan is of the rows actually written
+    with store._tx():
+        preview = preview_schedule(store, site, source)
+        if preview.errors:
+            e = preview.errors[0]
+            more = (f" (and {len(preview.errors) - 1} more row errors)"
+                    if len(preview.errors) > 1 else "")
+            raise InputError(f"row {e.row}.{e.field}", e.text, e.reason + more, e.hint)
+        if not preview.site_exists and create_site is None:
+            raise InputError("site", preview.site, "no site with this name",
+                             "create it with --create-site --code aisc360-22|en1993-1-1")
+        found = store.find_site(preview.site)
+        if found is None:
+            cs = dict(create_site or {})
+            code = v.choice(cs.pop("code", None), "code", CODES)
+            units = v.choice(cs.pop("unit_system", None), "unit_system", UNIT_SYSTEMS)
+            found = store.add_site(preview.site, code=code, unit_system=units, **cs)
+        for p in preview.plans:
+            if p.action == "add":
+                p.record.setdefault("code", found.code)
+                store.add_column(found.id, p.record, level=p.level, grid=p.grid,
+                                 location=p.location)
+            elif p.action == "update":
+                col = store.find_column(found.id, p.tag)
+                assert col is not None
+                store.update_column(col.id, record=p.record, level=p.level, grid=p.grid,
+                                    location=p.location)
+    preview.applied = True
+    return preview
+
+
+def _cell(x: Any) -> str:
+    if x is None:
+        return ""
+    return json.dumps(x) if isinstance(x, (dict, list)) else str(x)
+
+
+def export_csv(store: "Store", site: str, out: str | os.PathLike[str]) -> int:
+    """Write the site's live columns (current records) with their latest checks to CSV.
+
+    The first row is the usual caution as a ``#`` comment (import skips it).
+
+    Returns:
+        The number of columns written.
+
+    Example:
+        >>> export_csv(store, "Depot", "depot.csv")  # doctest: +SKIP
+        24
+    """
+    from fieldcol.cli import CAUTION
+    from fieldcol.store._photos import write_atomic
+
+    found = store.site_by_name(site)
+    out = Path(out)
+    if out.is_dir() or not out.parent.is_dir():
+        raise InputError("out", str(out), "not a file path in an existing folder", None)
+    rows = store._rows("""
+        SELECT c.id, c.tag, c.record, c.location, c.grid, l.name AS level,
+               k.code, k.utilization, k.governing_mode, k.checked_at, k.app_version
+        FROM columns c
+        LEFT JOIN levels l ON l.id = c.level_id
+        LEFT JOIN checks k ON k.id = (
+            SELECT id FROM checks WHERE column_id = c.id AND deleted_at IS NULL
+            ORDER BY checked_at DESC, created_at DESC LIMIT 1)
+        WHERE c.site_id = ? AND c.deleted_at IS NULL ORDER BY c.tag""", [found.id])
+    latest = store._latest_for([r["id"] for r in rows])
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow([f"# fieldcol export of {found.name}. {CAUTION}"])
+    w.writerow(EXPORT_FIELDS)
+    for r in rows:
+        rec, _ = overlay(json.loads(r["record"]), latest.get(r["id"], {}))
+        demand = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
+        util = "" if r["utilization"] is None else f"{r['utilization']:.6g}"
+        w.writerow([r["tag"], _cell(r["level"]), _cell(r["grid"]), _cell(r["location"]),
+                    _cell(rec.get("section")), _cell(rec.get("length")), _cell(rec.get("material")),
+                    _cell(demand.get("axial")), _cell(demand.get("basis")),
+                    _cell(r["code"] or rec.get("code")), util, _cell(r["governing_mode"]),
+                    _cell(r["checked_at"]), _cell(r["app_version"])])
+    write_atomic(out, buf.getvalue().encode("utf-8"))
+    return len(rows)

@@ -1,0 +1,25 @@
+"""The ``Store``: every table's operations on one SQLite file."""
+
+from __future__ import annotations
+
+from fieldcol.store._checks import ChecksMixin
+
+
+class Store(ChecksMixin):
+    """The site records on this device, in one SQLite file plus a photo folder beside it.
+
+    Every change is committed in its own transaction as it is made (autosave); a failed change
+    raises ``InputError`` and leaves what was saved untouched. Rows are never deleted, only
+    tombstoned (``delete``), and listings hide tombstones.
+
+    Threading: synchronous; calls are serialised by a lock, so drive it from one worker thread
+    (``asyncio.to_thread`` or a dedicated DB thread), never from the UI event loop.
+
+    Args:
+        path: the database file; ``None`` uses ``$FIELDCOL_DB`` or the app-data folder.
+        create: make a new store when the file does not exist (else ``InputError``).
+
+    Example:
+        >>> with Store("/tmp/doc-example.db") as s:  # doctest: +SKIP
+        ...     site = s.add_site("Depot", code="aisc360-22", unit_system="us")
+    """

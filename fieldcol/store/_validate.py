@@ -1,0 +1,154 @@
+"""Checks on what the engineer hands the store; each failure names its field."""
+
+from __future__ import annotations
+
+import json
+import math
+import re
+from datetime import date, datetime, timezone
+from typing import Any
+
+from fieldcol.errors import InputError
+
+
+def text(value: Any, field: str, *, required: bool = True) -> str | None:
+    """A trimmed text entry; ``None`` or blank is refused when ``required``.
+
+    Example:
+        >>> text("  Bay 3 ", "location")
+        'Bay 3'
+    """
+    if value is None:
+        if required:
+            raise InputError(field, "", "this is required", "type a value")
+        return None
+    if not isinstance(value, str):
+        raise InputError(field, value, "expected text", None)
+    v = value.strip()
+    if not v:
+        if required:
+            raise InputError(field, value, "this is required", "type a value")
+        return None
+    return v
+
+
+def choice(value: Any, field: str, allowed: tuple[str, ...], *, required: bool = True) -> str | None:
+    """One of ``allowed`` exactly (no case folding: stored vocabularies are lower case).
+
+    Example:
+        >>> choice("open", "status", ("open", "closed"))
+        'open'
+    """
+    if value is None and not required:
+        return None
+    if value not in allowed:
+        raise InputError(field, value if isinstance(value, str) else repr(value),
+                         "not one of the accepted values", "one of: " + ", ".join(allowed))
+    return value
+
+
+def iso_date(value: Any, field: str) -> str:
+    """A calendar date as ``YYYY-MM-DD`` (a ``datetime.date`` is accepted).
+
+    Example:
+        >>> iso_date("2026-03-04", "date")
+        '2026-03-04'
+    """
+    if isinstance(value, date) and not isinstance(value, datetime):
+        return value.isoformat()
+    if not isinstance(value, str) or not re.fullmatch(r"\d{4}-\d{2}-\d{2}", value.strip()):
+        raise InputError(field, value if isinstance(value, str) else repr(value),
+                         "not a date written YYYY-MM-DD", "e.g. 2026-03-04")
+    try:
+        return date.fromisoformat(value.strip()).isoformat()
+    except ValueError:
+        raise InputError(field, value, "no such date", "e.g. 2026-03-04") from None
+
+
+def utc_timestamp(value: Any, field: str) -> str:
+    """An instant with a time zone, returned as UTC ``YYYY-MM-DDTHH:MM:SS.ffffffZ``.
+
+    A time without a zone is refused rather than guessed: phones cross time zones.
+
+    Example:
+        >>> utc_timestamp("2026-03-04T10:00:00+01:00", "taken_at")
+        '2026-03-04T09:00:00.000000Z'
+    """
+    if isinstance(value, datetime):
+        dt = value
+    elif isinstance(value, str):
+        try:
+            dt = datetime.fromisoformat(value.strip().replace("Z", "+00:00"))
+        except ValueError:
+            raise InputError(field, value, "not an ISO 8601 time",
+                             "e.g. 2026-03-04T10:00:00Z") from None
+    else:
+        raise InputError(field, repr(value), "not a time", "e.g. 2026-03-04T10:00:00Z")
+    if dt.tzinfo is None:
+        raise InputError(field, str(value), "the time has no time zone",
+                         "add Z for UTC or an offset such as +01:00")
+    return format_utc(dt)
+
+
+def format_utc(dt: datetime) -> str:
+    """``dt`` in UTC as fixed-width ISO 8601, so text order is time order.
+
+    Example:
+        >>> format_utc(datetime(2026, 3, 4, tzinfo=timezone.utc))
+        '2026-03-04T00:00:00.000000Z'
+    """
+    return dt.astimezone(timezone.utc).strftime("%Y-%m-%dT%H:%M:%S.%fZ")
+
+
+def now_utc() -> str:
+    """The current instant, formatted like every stored timestamp.
+
+    Example:
+        >>> len(now_utc())
+        27
+    """
+    return format_utc(datetime.now(timezone.utc))
+
+
+def record(value: Any, field: str = "record") -> dict[str, Any]:
+    """A column record: a JSON object with a non-empty ``tag`` (deeper checks are the engine's).
+
+    Example:
+        >>> record({"tag": "A/1"})["tag"]
+        'A/1'
+    """
+    if not isinstance(value, dict):
+        raise InputError(field, repr(value), "a column record must be a JSON object",
+                         '{"tag": "B/4-L1", ...}')
+    tag = value.get("tag")
+    if not isinstance(tag, str) or not tag.strip():
+        raise InputError(f"{field}.tag", repr(tag), "the column tag is required", "e.g. B/4-L1")
+    json_text(value, field)
+    return value
+
+
+def json_text(value: Any, field: str) -> str:
+    """``value`` as JSON text; NaN, infinities and non-JSON types are refused, not coerced.
+
+    Example:
+        >>> json_text({"a": 1}, "record")
+        '{"a": 1}'
+    """
+    try:
+        return json.dumps(value, allow_nan=False, ensure_ascii=False)
+    except (TypeError, ValueError) as e:
+        raise InputError(field, repr(value)[:80], f"cannot be saved as JSON ({e})", None) from None
+
+
+def finite(value: Any, field: str) -> float | None:
+    """A finite number or ``None``.
+
+    Example:
+        >>> finite(2, "utilization")
+        2.0
+    """
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+        raise InputError(field, repr(value), "not a finite number", None)
+    return float(value)

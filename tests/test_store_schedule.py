@@ -1,0 +1,147 @@
+"""CSV column schedules: preview, row errors, all-or-nothing apply, idempotence, export.
+
+Unit factors: NIST SP 811 (1 ft = 0.3048 m exactly).
+"""
+
+from __future__ import annotations
+
+import csv
+from pathlib import Path
+
+import pytest
+
+from fieldcol.cli import CAUTION
+from fieldcol.errors import InputError
+from fieldcol.store import Store, apply_schedule, export_csv, preview_schedule
+
+GOOD = """tag,level,grid,section,length (ft),material,demand (kip)
+A/1-L1,L1,A/1,W14X90,30,A992,840
+A/2-L1,L1,A/2,W14X90,30 ft,A992,"610 kip"
+B/1-L1,L1,B/1,HSS8X8X1/2,28'-6",A500 Gr B,220
+"""
+
+
+@pytest.fixture
+def store(tmp_path: Path):
+    with Store(tmp_path / "s.db") as s:
+        s.add_site("Wool Exchange", code="aisc360-22", unit_system="us")
+        yield s
+
+
+def _write(tmp_path: Path, text: str, name: str = "sched.csv") -> Path:
+    p = tmp_path / name
+    p.write_text(text, encoding="utf-8")
+    return p
+
+
+def test_preview_writes_nothing_then_apply_then_idempotent(store: Store, tmp_path: Path):
+    src = _write(tmp_path, GOOD)
+    before = store.db.conn.execute("SELECT count(*) FROM columns").fetchone()[0]
+    pv = preview_schedule(store, "Wool Exchange", src)
+    assert pv.ok and pv.counts() == {"add": 3, "update": 0, "unchanged": 0, "errors": 0}
+    assert [p.row for p in pv.plans] == [2, 3, 4]
+    assert store.db.conn.execute("SELECT count(*) FROM columns").fetchone()[0] == before == 0
+    done = apply_schedule(store, "Wool Exchange", src)
+    assert done.applied
+    site = store.find_site("Wool Exchange")
+    a1 = store.find_column(site.id, "A/1-L1")
+    assert a1.record == {"tag": "A/1-L1", "code": "aisc360-22", "section": "W14X90",
+                         "length": "30 ft", "material": "A992",
+                         "demand": {"axial": "840 kip"}}
+    assert store.find_column(site.id, "A/2-L1").record["demand"] == {"axial": "610 kip"}
+    assert store.find_column(site.id, "B/1-L1").record["length"] == "28'-6\""
+    stamp = a1.updated_at
+    again = apply_schedule(store, "Wool Exchange", src)
+    assert again.counts() == {"add": 0, "update": 0, "unchanged": 3, "errors": 0}
+    assert store.find_column(site.id, "A/1-L1").updated_at == stamp
+    assert len(store.list_columns(site.id)) == 3
+
+
+def test_changed_rows_update_and_keep_other_fields(store: Store, tmp_path: Path):
+    apply_schedule(store, "Wool Exchange", _write(tmp_path, GOOD))
+    site = store.find_site("Wool Exchange")
+    col = store.find_column(site.id, "A/1-L1")
+    rec = dict(col.record, restraints={"weak": {"bottom": "pinned", "top": "pinned"}})
+    store.update_column(col.id, record=rec)
+    changed = GOOD.replace("A/1-L1,L1,A/1,W14X90,30,A992,840", "A/1-L1,L1,A/1,W14X109,30,,900")
+    pv = apply_schedule(store, "Wool Exchange", _write(tmp_path, changed, "v2.csv"))
+    assert pv.counts()["update"] == 1 and pv.plans[0].changes == ["section", "demand"]
+    got = store.find_column(site.id, "A/1-L1").record
+    assert got["section"] == "W14X109" and got["demand"]["axial"] == "900 kip"
+    assert got["material"] == "A992"  # a blank cell leaves the field as it was
+    assert got["restraints"] == {"weak": {"bottom": "pinned", "top": "pinned"}}
+
+
+def test_row_errors_name_row_and_field_and_refuse_everything(store: Store, tmp_path: Path):
+    bad = '''tag,section,length,demand (kip)
+C/1,W12X65,12 ft,300
+C/2,W12X65,12 fr,300
+,W12X65,12 ft,300
+C/1,W12X65,12 ft,300
+C/5,W12X65,12,300
+C/6,W12X65,12 ft,3 ft
+C/7,"{""shape"": ""i"", ""d"": ""12 in""",12 ft,10
+'''
+    pv = preview_schedule(store, "Wool Exchange", _write(tmp_path, bad))
+    got = [(e.row, e.field) for e in pv.errors]
+    assert got == [(3, "length"), (4, "tag"), (5, "tag"), (6, "length"), (7, "demand"),
+                   (8, "section")]
+    assert "12 fr" in str(pv.errors[0]) and "row 3" in str(pv.errors[0])
+    with pytest.raises(InputError) as e:
+        apply_schedule(store, "Wool Exchange", _write(tmp_path, bad))
+    assert e.value.field == "row 3.length"
+    assert store.list_columns() == []  # C/1 was fine but nothing was written
+
+
+def test_header_and_site_problems(store: Store, tmp_path: Path):
+    for text, field in [("section,length\nW8X31,10 ft\n", "header"),
+                        ("tag,colour\nA,red\n", "header"),
+                        ("tag,section (ft)\nA,W8X31\n", "header"),
+                        ("tag,tag\nA,B\n", "header"),
+                        ("", "file")]:
+        with pytest.raises(InputError) as e:
+            preview_schedule(store, "Wool Exchange", _write(tmp_path, text))
+        assert e.value.field == field, text
+    (tmp_path / "latin.csv").write_bytes("tag\nS\xe4ule\n".encode("latin-1"))
+    with pytest.raises(InputError) as e:
+        preview_schedule(store, "Wool Exchange", tmp_path / "latin.csv")
+    assert e.value.field == "file"
+    src = _write(tmp_path, GOOD)
+    pv = preview_schedule(store, "New Place", src)
+    assert not pv.site_exists and pv.counts()["add"] == 3
+    with pytest.raises(InputError) as e:
+        apply_schedule(store, "New Place", src)
+    assert e.value.field == "site" and store.find_site("New Place") is None
+    with pytest.raises(InputError) as e:
+        apply_schedule(store, "New Place", src, create_site={"code": "bs449"})
+    assert e.value.field == "code" and store.find_site("New Place") is None  # rolled back
+    apply_schedule(store, "New Place", src, create_site={"code": "en1993-1-1",
+                                                         "unit_system": "si"})
+    site = store.find_site("New Place")
+    assert site.code == "en1993-1-1"
+    assert store.find_column(site.id, "A/1-L1").record["code"] == "en1993-1-1"
+
+
+def test_export_then_reimport_changes_nothing(store: Store, tmp_path: Path):
+    apply_schedule(store, "Wool Exchange", _write(tmp_path, GOOD))
+    site = store.find_site("Wool Exchange")
+    col = store.find_column(site.id, "B/1-L1")
+    store.save_check(col.id, {"governing_mode": "flexural buckling",
+                              "utilization": {"value": 0.9125, "unit": ""}})
+    m = store.add_measurement(col.id, "length", "28 ft 4 in")
+    out = tmp_path / "out.csv"
+    assert export_csv(store, "Wool Exchange", out) == 3
+    rows = list(csv.reader(out.open(encoding="utf-8")))
+    assert rows[0][0].startswith("#") and CAUTION in rows[0][0]
+    table = [dict(zip(rows[1], r)) for r in rows[2:]]
+    b1 = next(r for r in table if r["tag"] == "B/1-L1")
+    assert (b1["utilization"], b1["governing_mode"], b1["length"]) == (
+        "0.9125", "flexural buckling", "28 ft 4 in")
+    assert b1["section"] == "HSS8X8X1/2" and b1["code"] == "aisc360-22"
+    pv = preview_schedule(store, "Wool Exchange", out)
+    assert pv.ok and pv.counts()["add"] == 0
+    assert [p.tag for p in pv.plans if p.action == "update"] == ["B/1-L1"]  # measured length
+    assert m.text == "28 ft 4 in"
+    with pytest.raises(InputError) as e:
+        export_csv(store, "Nowhere", out)
+    assert e.value.field == "site"
