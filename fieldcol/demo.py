@@ -234,8 +234,10 @@ def build_demo(store: "Store") -> DemoSummary:
         column whose check could not be run (with the reason).
 
     Example:
-        >>> build_demo(store).columns  # doctest: +SKIP
+        >>> build_demo(store).columns
         24
+        >>> build_demo(store).added
+        0
     """
     from fieldcol.assess import assess
 

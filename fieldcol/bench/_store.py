@@ -34,7 +34,7 @@ def build(folder: Path, *, scale: float = 1.0, seed: int = 7) -> Path:
     in every row), which is how a bulk load must be done; the app itself commits each change.
 
     Example:
-        >>> build(Path(tempfile.mkdtemp()), scale=0.01).name  # doctest: +SKIP
+        >>> build(Path("."), scale=0.001).name
         'bench.db'
     """
     from PIL import Image
@@ -145,8 +145,8 @@ def run(*, quick: bool = False) -> dict[str, float]:
         20) and the row counts built.
 
     Example:
-        >>> run(quick=True)["store_open_s"] < 0.5  # doctest: +SKIP
-        True
+        >>> run(quick=True)["store_columns"]
+        2000.0
     """
     from fieldcol.store import Store
 

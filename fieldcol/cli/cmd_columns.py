@@ -7,11 +7,7 @@ import sys
 
 
 def register(sub: argparse._SubParsersAction) -> None:
-    """Add the ``columns`` command to the CLI parser.
-
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
-    """
+    """Add the ``columns`` command to the CLI parser."""
     p = sub.add_parser("columns", help="list columns with their latest utilization",
                        description="List the columns in the store (tag, site, level, section, "
                        "length, latest utilization and governing mode).")
@@ -24,9 +20,7 @@ def register(sub: argparse._SubParsersAction) -> None:
 def run(args: argparse.Namespace) -> int:
     """List the columns; returns the exit status.
 
-    Example:
-        >>> run(argparse.Namespace(db="site.db", site=None, json=True))  # doctest: +SKIP
-        0
+    Example: ``fieldcol columns --db site.db --site "Kestrel Lane Print Works" --json``.
     """
     from fieldcol.cli import CAUTION, print_json
     from fieldcol.store import open_store
@@ -44,14 +38,32 @@ def run(args: argparse.Namespace) -> int:
         print_json([r.to_dict() for r in rows])
         print(CAUTION, file=sys.stderr)
         return 0
-    head = ("tag", "site", "level", "section", "length", "util.", "governing")
+    print_table(rows)
+    print(f"{len(rows)} columns")
+    print(CAUTION)
+    return 0
+
+
+def status_word(utilization: float | None, checked: bool) -> str:
+    """The status as a word (never colour alone): ``OK``, ``OVER`` or ``not checked``.
+
+    Example:
+        >>> status_word(1.05, True), status_word(0.4, True), status_word(None, False)
+        ('OVER', 'OK', 'not checked')
+    """
+    if utilization is None:
+        return "no demand" if checked else "not checked"
+    return "OK" if utilization <= 1.0 else "OVER"
+
+
+def print_table(rows: list) -> None:
+    """Print column rows (``fieldcol.store`` ``ColumnRow``) as an aligned table."""
+    head = ("tag", "site", "level", "section", "length", "util.", "status", "governing")
     table = [head] + [(r.tag, r.site, r.level or "", r.section or "", r.length or "",
                        "" if r.utilization is None else f"{r.utilization:.2f}",
-                       r.governing_mode or ("not checked" if r.checked_at is None else ""))
+                       status_word(r.utilization, r.checked_at is not None),
+                       r.governing_mode or "")
                       for r in rows]
     widths = [max(len(str(row[i])) for row in table) for i in range(len(head))]
     for row in table:
         print("  ".join(str(c).ljust(w) for c, w in zip(row, widths)).rstrip())
-    print(f"{len(rows)} columns")
-    print(CAUTION)
-    return 0

@@ -8,8 +8,7 @@ import argparse
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``export-csv`` command to the CLI parser.
 
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    Usage: ``fieldcol export-csv depot.csv --db site.db --site Depot``.
     """
     p = sub.add_parser("export-csv", help="export a site's columns and latest checks to CSV")
     p.add_argument("out", metavar="OUT.csv")
@@ -22,7 +21,10 @@ def run(args: argparse.Namespace) -> int:
     """Write the CSV; returns the exit status.
 
     Example:
-        >>> run(argparse.Namespace(db="s.db", site="Depot", out="depot.csv"))  # doctest: +SKIP
+        >>> from fieldcol.cli import main
+        >>> main(["export-csv", "depot.csv", "--db", "site.db", "--site", "Depot"])
+        1 columns written to depot.csv
+        fieldcol is an aid to, not a substitute for, the judgement ... local codes govern.
         0
     """
     from fieldcol.cli import CAUTION

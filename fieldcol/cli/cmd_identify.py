@@ -14,8 +14,7 @@ _DIMS = (("d", "depth (I or box) in any length unit"), ("bf", "I shape flange wi
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``identify`` command to the CLI parser.
 
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    Usage: ``fieldcol identify --d 13.9in --bf 14.5in --tf 0.70in --tw 0.45in``.
     """
     p = sub.add_parser(
         "identify", help="rank catalogue sections against site measurements",
@@ -41,9 +40,14 @@ def run(args: argparse.Namespace) -> int:
     """Print the ranked matches; returns the exit status (bad entries raise InputError).
 
     Example:
-        >>> run(argparse.Namespace(m_d="13.9in", m_bf="14.5in", m_tf="0.70in", m_tw="0.45in",
-        ...     m_b=None, m_t=None, m_D=None, gauge="0", family=None, limit=10, units="us",
-        ...     json=False))  # doctest: +SKIP
+        >>> from fieldcol.cli import main
+        >>> main(["identify", "--d", "13.9in", "--bf", "14.5in", "--tf", "0.70in",
+        ...       "--tw", "0.45in", "--units", "us", "--limit", "2"])
+        Measured: d 13.900 in, bf 14.500 in, tf 0.700 in, tw 0.450 in
+        ...
+           1  W14X90                   0.62  yes           d -0.100 in (-80%); ...
+           2  W14X99                   2.79  NO            d -0.300 in (-240%); ...
+        fieldcol is an aid to, not a substitute for, the judgement ... local codes govern.
         0
     """
     from fieldcol.cli import CAUTION, print_json

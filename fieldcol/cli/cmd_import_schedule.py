@@ -9,8 +9,7 @@ import sys
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``import-schedule`` command to the CLI parser.
 
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    Usage: ``fieldcol import-schedule cols.csv --db site.db --site Depot --apply``.
     """
     p = sub.add_parser(
         "import-schedule", help="import a CSV column schedule (preview unless --apply)",
@@ -34,8 +33,13 @@ def run(args: argparse.Namespace) -> int:
     """Preview or apply the import; exit status 0 when clean, 2 when rows have errors.
 
     Example:
-        >>> run(argparse.Namespace(db="s.db", site="Depot", file="cols.csv", apply=False,
-        ...     create_site=False, code=None, units=None))  # doctest: +SKIP
+        >>> from fieldcol.cli import main
+        >>> main(["import-schedule", "cols.csv", "--db", "site.db", "--site", "Depot"])
+        site Depot
+          row    2  add       A/1-L1
+          row    3  update    B/4-L1 (length)
+        1 to add, 1 to update, 0 unchanged, 0 row errors
+        nothing written (preview); add --apply to write
         0
     """
     import tempfile

@@ -8,8 +8,7 @@ import argparse
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``restore`` command to the CLI parser.
 
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    Usage: ``fieldcol restore site.zip --db new.db``.
     """
     p = sub.add_parser("restore", help="restore a backup into an empty store",
                        description="Restore a backup file made by 'fieldcol backup'. Every "
@@ -25,7 +24,11 @@ def run(args: argparse.Namespace) -> int:
     """Restore; returns the exit status.
 
     Example:
-        >>> run(argparse.Namespace(db="new.db", backup="s.zip", force=False))  # doctest: +SKIP
+        >>> from fieldcol.cli import main
+        >>> from fieldcol.store import backup
+        >>> _ = backup(store, "site.zip")
+        >>> main(["restore", "site.zip", "--db", "new.db"])
+        restored 7 rows and 2 photo files into .../new.db (schema version ...)
         0
     """
     from fieldcol.store import restore

@@ -39,8 +39,7 @@ KIND_WORDS = {"i": "I / H shape", "rect": "rectangular hollow", "round": "round 
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``section`` command to the CLI parser.
 
-    Example:
-        >>> register(argparse.ArgumentParser().add_subparsers())  # doctest: +SKIP
+    Usage: ``fieldcol section W14X90 --units si``.
     """
     p = sub.add_parser("section", help="show a catalogue section's dimensions and properties",
                        description="Show the dimensions and derived properties of a catalogue "
@@ -141,7 +140,13 @@ def run(args: argparse.Namespace) -> int:
     """Print one catalogue section; returns the exit status (bad names raise InputError).
 
     Example:
-        >>> run(argparse.Namespace(name=["W14X90"], units="si", json=False))  # doctest: +SKIP
+        >>> from fieldcol.cli import main
+        >>> main(["section", "W14X90"])
+        W14X90  (W, I / H shape, hot-rolled)
+        ...
+          A          26.43 in^2  gross area
+        ...
+        fieldcol is an aid to, not a substitute for, the judgement ... local codes govern.
         0
     """
     from fieldcol.cli import CAUTION, print_json

@@ -51,7 +51,7 @@ def open_store(path: str | os.PathLike[str] | None = None, *, create: bool = Tru
         An open ``Store`` (close it, or use it as a context manager).
 
     Example:
-        >>> with open_store("/tmp/fieldcol-doc.db") as s:  # doctest: +SKIP
+        >>> with open_store("fieldcol.db") as s:
         ...     s.list_sites()
         []
     """

@@ -120,8 +120,8 @@ class ColumnsMixin(SitesMixin):
             The saved ``Column``.
 
         Example:
-            >>> store.add_column(site.id, {"tag": "B/4-L1", "section": "W14X90"}).tag  # doctest: +SKIP
-            'B/4-L1'
+            >>> store.add_column(site.id, {"tag": "B/5-L1", "section": "W14X90"}, level="L1").tag
+            'B/5-L1'
         """
         self._get("sites", site_id, field="site")
         rec = v.record(record)
@@ -152,7 +152,7 @@ class ColumnsMixin(SitesMixin):
         A new record may change the tag (it must stay unique on the site).
 
         Example:
-            >>> store.update_column(col.id, grid="C/5").grid  # doctest: +SKIP
+            >>> store.update_column(col.id, grid="C/5").grid
             'C/5'
         """
         cur = self._get("columns", column_id, field="column")
@@ -179,7 +179,7 @@ class ColumnsMixin(SitesMixin):
         """The column with this id (tombstoned too, with ``deleted_at`` set).
 
         Example:
-            >>> store.get_column(col.id).tag  # doctest: +SKIP
+            >>> store.get_column(col.id).tag
             'B/4-L1'
         """
         return from_row(Column, self._get("columns", column_id, live=False, field="column"))
@@ -188,7 +188,7 @@ class ColumnsMixin(SitesMixin):
         """The live column with this tag on the site, or ``None``.
 
         Example:
-            >>> store.find_column(site.id, "B/4-L1").grid  # doctest: +SKIP
+            >>> store.find_column(site.id, "B/4-L1").grid
             'B/4'
         """
         rows = self._rows("SELECT * FROM columns WHERE site_id = ? AND tag = ? "
@@ -207,8 +207,9 @@ class ColumnsMixin(SitesMixin):
             limit, offset: the page (limit 1..1000).
 
         Example:
-            >>> [r.tag for r in store.list_columns(site.id, limit=2)]  # doctest: +SKIP
-            ['A/1-L1', 'A/2-L1']
+            >>> _ = store.add_column(site.id, {"tag": "A/1-L1"})
+            >>> [r.tag for r in store.list_columns(site.id, limit=2)]
+            ['A/1-L1', 'B/4-L1']
         """
         if isinstance(limit, bool) or not isinstance(limit, int) or not 1 <= limit <= 1000:
             raise InputError("limit", repr(limit), "a page holds 1 to 1000 rows", None)
@@ -256,7 +257,8 @@ class ColumnsMixin(SitesMixin):
         """The record the engine should read now: the stored record with the latest readings.
 
         Example:
-            >>> store.current_record(col.id)["length"]  # doctest: +SKIP
+            >>> _ = store.add_measurement(col.id, "length", "29 ft 10 in")
+            >>> store.current_record(col.id)["length"]
             '29 ft 10 in'
         """
         col = self.get_column(column_id)
@@ -285,7 +287,7 @@ class ColumnsMixin(SitesMixin):
             The saved ``Measurement``.
 
         Example:
-            >>> store.add_measurement(col.id, "section.tf", "0.62 in", gauge="caliper").value  # doctest: +SKIP
+            >>> store.add_measurement(col.id, "section.tf", "0.62 in", gauge="caliper").value
             15.748
         """
         from fieldcol import units
@@ -327,7 +329,8 @@ class ColumnsMixin(SitesMixin):
         """Correct a reading by adding a new one that points at it; the old one is kept.
 
         Example:
-            >>> store.correct_measurement(m.id, "0.52 in", note="misread").corrects == m.id  # doctest: +SKIP
+            >>> m = store.add_measurement(col.id, "section.tf", "0.62 in")
+            >>> store.correct_measurement(m.id, "0.52 in", note="misread").corrects == m.id
             True
         """
         old = from_row(Measurement, self._get("measurements", measurement_id, field="corrects"))
@@ -339,8 +342,13 @@ class ColumnsMixin(SitesMixin):
         """Every live reading of a column (optionally one quantity), oldest first.
 
         Example:
-            >>> [m.text for m in store.measurements(col.id, "length")]  # doctest: +SKIP
-            ['30 ft', "29'-10\\""]
+            >>> _ = store.add_measurement(col.id, "length", "30 ft", taken_at="2026-02-10T10:00Z")
+            >>> _ = store.add_measurement(col.id, "length", "29'-10\\"",
+            ...                           taken_at="2026-03-04T10:00Z")
+            >>> for m in store.measurements(col.id, "length"):
+            ...     print(m.taken_at[:10], m.text)
+            2026-02-10 30 ft
+            2026-03-04 29'-10"
         """
         sql = "SELECT * FROM measurements WHERE column_id = ? AND deleted_at IS NULL"
         params = [column_id]
@@ -354,7 +362,8 @@ class ColumnsMixin(SitesMixin):
         """The reading that counts for each quantity of a column (see ``latest_readings``).
 
         Example:
-            >>> store.current_measurements(col.id)["length"].text  # doctest: +SKIP
+            >>> _ = store.add_measurement(col.id, "length", "29 ft 10 in")
+            >>> store.current_measurements(col.id)["length"].text
             '29 ft 10 in'
         """
         return latest_readings(self.measurements(column_id))
@@ -373,7 +382,7 @@ class ColumnsMixin(SitesMixin):
 
         Example:
             >>> store.add_restraint_change(col.id, "2026-03-04", "brace_added", "angle to wall",
-            ...                            axis="weak").kind  # doctest: +SKIP
+            ...                            axis="weak").kind
             'brace_added'
         """
         self._get("columns", column_id, field="column")
@@ -392,7 +401,8 @@ class ColumnsMixin(SitesMixin):
         """Live restraint changes of a column, oldest first.
 
         Example:
-            >>> [rc.kind for rc in store.restraint_changes(col.id)]  # doctest: +SKIP
+            >>> _ = store.add_restraint_change(col.id, "2026-03-04", "brace_added", "strut")
+            >>> [rc.kind for rc in store.restraint_changes(col.id)]
             ['brace_added']
         """
         return [from_row(RestraintChange, r) for r in self._rows(
@@ -405,7 +415,9 @@ class ColumnsMixin(SitesMixin):
         """Save a retrofit option: what would be done and the column record it would give.
 
         Example:
-            >>> store.add_retrofit(col.id, "add weak-axis brace at mid-height", rec).status  # doctest: +SKIP
+            >>> braced = store.current_record(col.id)
+            >>> braced["restraints"]["weak"]["braces"] = [{"at": "15 ft"}]
+            >>> store.add_retrofit(col.id, "add weak-axis brace at mid-height", braced).status
             'proposed'
         """
         self._get("columns", column_id, field="column")
@@ -419,7 +431,8 @@ class ColumnsMixin(SitesMixin):
         """Mark a retrofit option ``proposed``, ``chosen``, ``rejected`` or ``built``.
 
         Example:
-            >>> store.set_retrofit_status(opt.id, "chosen").status  # doctest: +SKIP
+            >>> opt = store.add_retrofit(col.id, "add weak-axis brace at mid-height", rec)
+            >>> store.set_retrofit_status(opt.id, "chosen").status
             'chosen'
         """
         self._get("retrofits", retrofit_id, field="retrofit")
@@ -431,7 +444,8 @@ class ColumnsMixin(SitesMixin):
         """Live retrofit options of a column, oldest first.
 
         Example:
-            >>> len(store.retrofits(col.id))  # doctest: +SKIP
+            >>> _ = store.add_retrofit(col.id, "add weak-axis brace at mid-height", rec)
+            >>> len(store.retrofits(col.id))
             1
         """
         return [from_row(Retrofit, r) for r in self._rows(

@@ -47,8 +47,8 @@ class FindingsMixin(ColumnsMixin):
             status: ``open`` or ``closed``.
 
         Example:
-            >>> store.add_finding(site.id, "Base plate corroded", category="corrosion",
-            ...                   severity="high", column_id=col.id).status  # doctest: +SKIP
+            >>> store.add_finding(site.id, "Web dented at 4 ft", category="damage",
+            ...                   severity="medium", column_id=col.id).status
             'open'
         """
         self._get("sites", site_id, field="site")
@@ -81,7 +81,7 @@ class FindingsMixin(ColumnsMixin):
         """Change ``text=``, ``category=``, ``severity=``, ``status=`` or ``column_id=``.
 
         Example:
-            >>> store.update_finding(f.id, status="closed").status  # doctest: +SKIP
+            >>> store.update_finding(finding.id, status="closed").status
             'closed'
         """
         cur = self._get("findings", finding_id, field="finding")
@@ -92,7 +92,7 @@ class FindingsMixin(ColumnsMixin):
         """The finding with this id (tombstoned too).
 
         Example:
-            >>> store.get_finding(f.id).severity  # doctest: +SKIP
+            >>> store.get_finding(finding.id).severity
             'high'
         """
         return from_row(Finding, self._get("findings", finding_id, live=False, field="finding"))
@@ -102,7 +102,7 @@ class FindingsMixin(ColumnsMixin):
         """Live findings of a site, optionally by status or column, oldest first.
 
         Example:
-            >>> [f.text for f in store.list_findings(site.id, status="open")]  # doctest: +SKIP
+            >>> [f.text for f in store.list_findings(site.id, status="open")]
             ['Base plate corroded']
         """
         sql, params = "SELECT * FROM findings WHERE site_id = ? AND deleted_at IS NULL", [site_id]
@@ -119,7 +119,7 @@ class FindingsMixin(ColumnsMixin):
         """Live findings whose text or category hold every word of ``query``, best first.
 
         Example:
-            >>> [f.text for f in store.search_findings("corro")]  # doctest: +SKIP
+            >>> [f.text for f in store.search_findings("corro")]
             ['Base plate corroded']
         """
         sql = ("SELECT f.* FROM findings_fts JOIN findings f ON f.rowid = findings_fts.rowid "
@@ -151,8 +151,9 @@ class FindingsMixin(ColumnsMixin):
             The ``Photo`` (the existing one when the same bytes were stored before).
 
         Example:
-            >>> store.add_photo("IMG_0042.jpg", finding_id=f.id).format  # doctest: +SKIP
-            'JPEG'
+            >>> again = store.add_photo(jpeg, original_name="IMG_0043.jpg", finding_id=finding.id)
+            >>> again.format, again.id == photo.id  # the same bytes are kept once
+            ('JPEG', True)
         """
         data, name = _photos.read_bytes(source)
         pf = _photos.ingest(self.photos_dir, data)
@@ -180,7 +181,7 @@ class FindingsMixin(ColumnsMixin):
         """Attach a stored photo to exactly one finding, column or restraint change.
 
         Example:
-            >>> store.attach_photo(photo.id, column_id=col.id).column_id == col.id  # doctest: +SKIP
+            >>> store.attach_photo(photo.id, column_id=col.id).column_id == col.id
             True
         """
         self._get("photos", photo_id, field="photo")
@@ -205,7 +206,7 @@ class FindingsMixin(ColumnsMixin):
         """The photo row with this id (tombstoned too).
 
         Example:
-            >>> store.get_photo(photo.id).format  # doctest: +SKIP
+            >>> store.get_photo(photo.id).format
             'JPEG'
         """
         return from_row(Photo, self._get("photos", photo_id, live=False, field="photo"))
@@ -215,7 +216,7 @@ class FindingsMixin(ColumnsMixin):
         """Live photos attached to one finding, column or restraint change.
 
         Example:
-            >>> len(store.photos_of(finding_id=f.id))  # doctest: +SKIP
+            >>> len(store.photos_of(finding_id=finding.id))
             1
         """
         given = {k: val for k, val in dict(finding_id=finding_id, column_id=column_id,
@@ -233,7 +234,7 @@ class FindingsMixin(ColumnsMixin):
         """The file of a photo (or its thumbnail) on this device.
 
         Example:
-            >>> store.photo_path(photo, thumbnail=True).suffix  # doctest: +SKIP
+            >>> store.photo_path(photo, thumbnail=True).suffix
             '.jpg'
         """
         return self.photos_dir / (photo.thumb_path if thumbnail else photo.path)

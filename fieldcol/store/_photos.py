@@ -71,8 +71,9 @@ def ingest(photos_dir: Path, data: bytes, field: str = "photo") -> PhotoFile:
         A ``PhotoFile`` with paths relative to ``photos_dir``.
 
     Example:
-        >>> ingest(Path("/tmp/p"), b"not an image")  # doctest: +SKIP
-        InputError: photo: cannot use ...: not an image Pillow can read
+        >>> ingest(Path("photos"), b"not an image")
+        Traceback (most recent call last):
+        fieldcol.errors.InputError: photo: cannot use '12 bytes': not an image Pillow can read ...
     """
     from PIL import Image, ImageOps
 

@@ -167,7 +167,8 @@ class ColumnRow:
         """The row as a plain dict (the ``--json`` form of ``fieldcol columns``).
 
         Example:
-            >>> row.to_dict()["tag"]  # doctest: +SKIP
+            >>> row = store.list_columns(site.id)[0]
+            >>> row.to_dict()["tag"]
             'B/4-L1'
         """
         return {f.name: getattr(self, f.name) for f in fields(self)}

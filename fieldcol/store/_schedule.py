@@ -81,7 +81,7 @@ class SchedulePreview:
         """True when no row has an error.
 
         Example:
-            >>> preview_schedule(store, "Depot", "cols.csv").ok  # doctest: +SKIP
+            >>> preview_schedule(store, "Depot", "cols.csv").ok
             True
         """
         return not self.errors
@@ -90,8 +90,8 @@ class SchedulePreview:
         """How many rows would be added, updated, left unchanged, and how many errors.
 
         Example:
-            >>> preview.counts()  # doctest: +SKIP
-            {'add': 2, 'update': 0, 'unchanged': 0, 'errors': 0}
+            >>> preview_schedule(store, "Depot", "cols.csv").counts()
+            {'add': 1, 'update': 1, 'unchanged': 0, 'errors': 0}
         """
         out = {"add": 0, "update": 0, "unchanged": 0}
         for p in self.plans:
@@ -103,8 +103,8 @@ class SchedulePreview:
         """The preview as text lines for a terminal.
 
         Example:
-            >>> preview.lines()[-1]  # doctest: +SKIP
-            '2 to add, 0 to update, 0 unchanged, 0 row errors'
+            >>> preview_schedule(store, "Depot", "cols.csv").lines()[-1]
+            '1 to add, 1 to update, 0 unchanged, 0 row errors'
         """
         head = f"site {self.site}" + ("" if self.site_exists else " (new)")
         out = [head]
@@ -234,10 +234,15 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str]) 
     """What importing the CSV file ``source`` into ``site`` (a name) would do. Writes nothing.
 
     Example:
-        >>> print("\\n".join(preview_schedule(store, "Depot", "cols.csv").lines()))  # doctest: +SKIP
+        >>> print(Path("cols.csv").read_text(), end="")
+        tag,level,grid,section,length (ft)
+        A/1-L1,L1,A/1,W10X49,16
+        B/4-L1,L1,B/4,W14X90,29.5
+        >>> print("\\n".join(preview_schedule(store, "Depot", "cols.csv").lines()))
         site Depot
           row    2  add       A/1-L1
-        1 to add, 0 to update, 0 unchanged, 0 row errors
+          row    3  update    B/4-L1 (length)
+        1 to add, 1 to update, 0 unchanged, 0 row errors
     """
     site_name = v.text(site, "site")
     header, rows = _parse(_read_text(source))
@@ -304,8 +309,10 @@ def apply_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
         The preview that was applied (``applied=True``).
 
     Example:
-        >>> apply_schedule(store, "Depot", "cols.csv").counts()["add"]  # doctest: +SKIP
-        24
+        >>> apply_schedule(store, "Depot", "cols.csv").counts()
+        {'add': 1, 'update': 1, 'unchanged': 0, 'errors': 0}
+        >>> store.find_column(site.id, "B/4-L1").record["length"]
+        '29.5 ft'
     """
     # plan and write inside one transaction, so the plan is of the rows actually written
     with store._tx():
@@ -353,8 +360,10 @@ def export_csv(store: "Store", site: str, out: str | os.PathLike[str]) -> int:
         The number of columns written.
 
     Example:
-        >>> export_csv(store, "Depot", "depot.csv")  # doctest: +SKIP
-        24
+        >>> export_csv(store, "Depot", "depot.csv")
+        1
+        >>> Path("depot.csv").read_text().splitlines()[2]
+        'B/4-L1,L1,B/4,,W14X90,30 ft,A992,500 kip,lrfd,aisc360-22,0.841462,flexural-weak,...'
     """
     from fieldcol.cli import CAUTION
     from fieldcol.store._photos import write_atomic

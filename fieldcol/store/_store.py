@@ -20,6 +20,7 @@ class Store(ChecksMixin):
         create: make a new store when the file does not exist (else ``InputError``).
 
     Example:
-        >>> with Store("/tmp/doc-example.db") as s:  # doctest: +SKIP
-        ...     site = s.add_site("Depot", code="aisc360-22", unit_system="us")
+        >>> with Store("other.db") as s:
+        ...     s.add_site("Depot", code="aisc360-22", unit_system="us").name
+        'Depot'
     """
