@@ -92,3 +92,12 @@ def test_identify_says_plainly_when_nothing_matches(capsys):
 def test_identify_bad_entries_exit_2_naming_the_field(capsys, argv, field):
     code, _, err = _run(capsys, "identify", *argv)
     assert code == 2 and err.startswith(f"error: {field}:")
+
+
+def test_identify_answers_in_the_units_the_entries_were_typed_in(capsys):
+    assert main(["identify", "--d", "13.9in", "--bf", "14.5in", "--tf", "0.70in",
+                 "--tw", "0.45in", "--limit", "1"]) == 0
+    assert "d 13.900 in" in capsys.readouterr().out
+    assert main(["identify", "--d", "353", "--bf", "368", "--tf", "17.8", "--tw", "11.4",
+                 "--limit", "1"]) == 0
+    assert "d 353.00 mm" in capsys.readouterr().out

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import re
 
 NO_MATCH = "no catalogue match: use the measured section"
 _DIMS = (("d", "depth (I or box) in any length unit"), ("bf", "I shape flange width"),
@@ -30,8 +31,9 @@ def register(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--family", action="append",
                    help="only this family (W, HP, S, M, HSS, PIPE, IPE, HE, HEA, HEB, HEM); repeat")
     p.add_argument("--limit", type=int, default=10, help="how many candidates (default 10)")
-    p.add_argument("--units", choices=("us", "si"), default="si",
-                   help="display units, and the unit of a bare number (us: in, si: mm)")
+    p.add_argument("--units", choices=("us", "si"),
+                   help="display units, and the unit of a bare number (us: in, si: mm); "
+                        "default: us when the entries are in inches or feet, else si")
     p.add_argument("--json", action="store_true", help="print JSON (each quantity as value + unit)")
     p.set_defaults(func=run)
 
@@ -55,7 +57,7 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.sections import identify
     from fieldcol.units import parse_length
 
-    system = args.units
+    system = args.units or _system_of([getattr(args, f"m_{n}") for n, _ in _DIMS])
     unit = "in" if system == "us" else "mm"
     measured = {}
     for name, _ in _DIMS:
@@ -97,3 +99,9 @@ def run(args: argparse.Namespace) -> int:
     lines += ["", CAUTION]
     print("\n".join(lines))
     return 0
+
+
+def _system_of(entries: list[str | None]) -> str:
+    """``us`` when any entry is typed in inches or feet (13.9in, 14-1/2\", 1 ft), else ``si``."""
+    imperial = re.compile(r"(in|inch|inches|ft|feet|foot)\s*$|[\"'\u2032\u2033]")
+    return "us" if any(e and imperial.search(e.strip()) for e in entries) else "si"
