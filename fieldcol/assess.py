@@ -7,6 +7,7 @@ code check for every mode, and compares the demand. Everything it did is in the 
 
 from __future__ import annotations
 
+import json
 import math
 from dataclasses import dataclass, field
 from typing import Any, Mapping
@@ -57,6 +58,7 @@ class Assessment:
     utilization: float | None
     warnings: list[dict[str, str]] = field(default_factory=list)
     trace: Trace = field(default_factory=Trace)
+    record: dict[str, Any] = field(default_factory=dict)
 
     @property
     def governing_mode(self) -> str:
@@ -122,6 +124,7 @@ class Assessment:
             "modes": modes,
             "steps": [_step(st) for st in self.trace.steps],
             "warnings": self.warnings,
+            "input": self.record,
             "caution": CAUTION,
         }
 
@@ -212,7 +215,8 @@ def assess(record: Mapping[str, Any]) -> Assessment:
         utilization = demand / design if design > 0 else math.inf
         trace.add("U", "utilization", "Pr / design strength", utilization, "", EDITIONS[col.code])
     _condition_warnings(col, warnings)
-    return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace)
+    return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace,
+                      json.loads(json.dumps(record)))
 
 
 def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> CodeResult:

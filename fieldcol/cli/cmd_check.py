@@ -70,8 +70,9 @@ def sheet(d: dict, system: str) -> str:
 
     out = [f"Column {d['tag']}  -  {d['edition']} ({d['basis']}), K basis: {d['k_basis']}",
            f"Section {d['section']['name'] or 'measured ' + d['section']['kind']}, "
-           f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}", ""]
-    out.append("Calculation")
+           f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}",
+           f"fieldcol {d['app_version']}", ""]
+    out += ["Input"] + [f"  {line}" for line in _input_lines(d["input"])] + ["", "Calculation"]
     for st in d["steps"]:
         q = {"value": st["value"], "unit": st["unit"]} if isinstance(st["value"], float) else None
         if q is None and st["symbol"] == "section":
@@ -97,3 +98,15 @@ def sheet(d: dict, system: str) -> str:
         out.append(f"WARNING [{w['code']}]: {w['message']}")
     out += ["", CAUTION]
     return "\n".join(out)
+
+
+def _input_lines(rec: dict) -> list[str]:
+    """The record as entered, one line per part, so the sheet shows what was assumed."""
+    lines = [f"length {rec.get('length')}", f"section {json.dumps(rec.get('section'))}",
+             f"material {json.dumps(rec.get('material'))}"]
+    for axis, spec in (rec.get("restraints") or {}).items():
+        lines.append(f"{axis}: {json.dumps(spec)}")
+    for key in ("k_basis", "code", "demand", "condition", "gamma_M1"):
+        if key in rec:
+            lines.append(f"{key} {json.dumps(rec[key])}")
+    return lines
