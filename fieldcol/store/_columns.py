@@ -276,7 +276,7 @@ class ColumnsMixin(SitesMixin):
         Args:
             column_id: the column measured.
             quantity: dotted path of the record value it measures, e.g. ``"length"``,
-                ``"section.tf"``, ``"section.loss.tf"``, ``"condition.bow"``.
+                ``"section.tf"``, ``"section.loss.flange"``, ``"condition.bow"``.
             text: the entry as typed (``"0.56 in"``, ``"29'-10\\""``); a bare number means mm
                 (or the internal unit of ``kind``).
             kind: a ``fieldcol.units`` kind (``length``, ``force``, ``stress``, ...).
@@ -295,7 +295,7 @@ class ColumnsMixin(SitesMixin):
         col = self._get("columns", column_id, field="column")
         if not isinstance(quantity, str) or not _QUANTITY.fullmatch(quantity) or quantity == "tag":
             raise InputError("quantity", repr(quantity), "not a path into the column record",
-                             "e.g. length, section.tf, section.loss.tf")
+                             "e.g. length, section.tf, section.loss.flange")
         if kind not in units.INTERNAL_UNITS:
             raise InputError("kind", repr(kind), "not a kind of quantity",
                              ", ".join(units.INTERNAL_UNITS))
