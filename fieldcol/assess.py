@@ -15,7 +15,8 @@ from typing import Any, Mapping
 import numpy as np
 
 from fieldcol import CAUTION, __version__
-from fieldcol.codes import CodeResult, check_aisc360, check_elastic, check_en1993
+from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
+                            check_en1993)
 from fieldcol.demand import combine
 from fieldcol.errors import InputError
 from fieldcol.record import AXES, AxisInput, BraceInput, ColumnInput, parse_record
@@ -59,13 +60,29 @@ class Assessment:
     warnings: list[dict[str, str]] = field(default_factory=list)
     trace: Trace = field(default_factory=Trace)
     record: dict[str, Any] = field(default_factory=dict)
+    bow: BowResult | None = None
+
+    @property
+    def bow_governs(self) -> bool:
+        """True when the measured bow (as a beam-column) lowers the capacity below the axial one."""
+        if self.bow is None:
+            return False
+        cap = _first(self.bow.capacity)
+        return math.isfinite(cap) and cap < _first(self.result.design)
 
     @property
     def governing_mode(self) -> str:
+        """``flexural-strong``, ``flexural-weak``, ``torsional``, ``yield`` or ``bow``."""
+        if self.bow_governs:
+            return "bow"
         return str(np.asarray(self.result.governing).reshape(-1)[0])
 
     @property
     def design_strength(self) -> float:
+        """The design (or allowable) axial strength, N: the lower of the axial modes and,
+        when a bow beyond L/1000 was measured, the beam-column capacity with that bow."""
+        if self.bow_governs:
+            return _first(self.bow.capacity)
         return float(np.asarray(self.result.design).reshape(-1)[0])
 
     @property
@@ -78,8 +95,8 @@ class Assessment:
         Example:
             >>> a = assess({"tag": "C1", "section": "W14X90", "material": "A992",
             ...             "length": "30 ft"})
-            >>> sorted(a.to_dict())[:3]
-            ['app_version', 'basis', 'caution']
+            >>> a.to_dict()["governing_mode"], a.to_dict()["design_strength"]["unit"]
+            ('flexural-weak', 'N')
         """
         c, s, r = self.column, self.column.section, self.result
         one = _first
@@ -101,7 +118,13 @@ class Assessment:
             "app_version": __version__,
             "governing_mode": self.governing_mode,
             "nominal_strength": _q(r.nominal, "N"),
-            "design_strength": _q(r.design, "N"),
+            "design_strength": _q(self.design_strength, "N"),
+            "axial_design_strength": _q(r.design, "N"),
+            "bow": None if self.bow is None else {
+                "axis": self.bow.axis, "excess": _q(self.bow.excess, "mm"),
+                "flexural_strength": _q(self.bow.Mc, "N*mm"),
+                "capacity": _q(self.bow.capacity, "N"),
+                "interaction": None if self.bow.ratio is None else _q(self.bow.ratio, "")},
             "demand": None if self.demand is None else {**_q(self.demand, "N"),
                                                         "combination": self.demand_name},
             "utilization": None if self.utilization is None else _q(self.utilization, ""),
@@ -210,13 +233,45 @@ def assess(record: Mapping[str, Any]) -> Assessment:
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     design = _first(result.design)
+    bow = _bow(col, Fy, lengths, result, demand, trace, warnings)
     utilization = None
     if demand is not None:
         utilization = demand / design if design > 0 else math.inf
-        trace.add("U", "utilization", "Pr / design strength", utilization, "", EDITIONS[col.code])
+        trace.add("U", "utilization, axial", "Pr / design strength", utilization, "",
+                  EDITIONS[col.code])
+        if bow is not None and bow.ratio is not None and _first(bow.ratio) > utilization:
+            utilization = _first(bow.ratio)
+            trace.add("U", "utilization with the bow (beam-column interaction governs)",
+                      "interaction ratio", utilization, "", EDITIONS[col.code])
     _condition_warnings(col, warnings)
     return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace,
-                      json.loads(json.dumps(record)))
+                      json.loads(json.dumps(record)), bow)
+
+
+def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength], axial: CodeResult,
+         demand: float | None, trace: Trace, warnings: list[dict[str, str]]) -> BowResult | None:
+    """The measured bow as a beam-column check over the braced length it was measured on."""
+    if col.bow is None:
+        return None
+    L = lengths[col.bow_axis].segment
+    res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
+                    lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
+                    col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
+                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial)
+    trace.extend(res.trace)
+    for w in res.warnings:
+        if bool(np.asarray(w.mask).reshape(-1)[0]):
+            warnings.append({"code": w.code, "message": w.message})
+    excess = _first(res.excess)
+    if excess > 0:
+        warnings.append({
+            "code": "bow-over-tolerance",
+            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, the "
+                       "out-of-straightness the column curves allow for (AISC 303 / EN 1090-2 "
+                       f"tolerance): the excess {excess:.1f} mm is checked as an eccentricity "
+                       "(beam-column interaction)",
+        })
+    return res
 
 
 def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> CodeResult:
@@ -329,14 +384,6 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
 
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
     L = col.length
-    if col.bow is not None and col.bow > L / 1000:
-        warnings.append({
-            "code": "bow-over-tolerance",
-            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, the "
-                       "out-of-straightness the column curves allow for (AISC 303 / EN 1090-2 "
-                       "tolerance): treat the excess as an eccentricity and check the column as a "
-                       "beam-column (AISC 360-22 H1 / EN 1993-1-1 6.3.3)",
-        })
     if col.plumb is not None and col.plumb > L / 500:
         warnings.append({
             "code": "plumb-over-tolerance",

@@ -13,7 +13,8 @@ from typing import Any, Mapping
 
 from fieldcol.errors import InputError
 from fieldcol.materials import Material, get_material, material_from_values, with_tested_fy
-from fieldcol.sections import Section, from_catalogue, i_section, rect_hollow, round_hollow, with_loss
+from fieldcol.sections import (Section, from_catalogue, i_section, rect_hollow, round_hollow,
+                               with_loss, with_plates)
 from fieldcol.stability import Brace, End, cable_stiffness, end, partial_end
 from fieldcol.units import parse_length, parse_quantity
 
@@ -77,6 +78,7 @@ class ColumnInput:
     units: str
     bow: float | None = None       # mm, measured out-of-straightness
     plumb: float | None = None     # mm, measured out-of-plumb over the length
+    bow_axis: str = "weak"         # the axis the bow bends the column about
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -134,15 +136,20 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     condition = record.get("condition") or {}
     if not isinstance(condition, Mapping):
         raise InputError("condition", condition, "must be an object, e.g. {\"bow\": \"3/8 in\"}")
+    bad = sorted(set(condition) - {"bow", "bow_axis", "plumb"})
+    if bad:
+        raise InputError(f"condition.{bad[0]}", bad[0], "unknown key", "bow, bow_axis, plumb")
     bow = _opt_length(condition.get("bow"), "condition.bow")
     plumb = _opt_length(condition.get("plumb"), "condition.plumb")
+    bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
-                       code, basis, demand, float(gamma), units, bow, plumb)
+                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis)
 
 
 def parse_section(spec: Any, fld: str = "section") -> Section:
-    """A section from a catalogue name or an object of measured dimensions (with optional loss).
+    """A section from a catalogue name or an object of measured dimensions (with optional loss,
+    then optional cover plates ``"plates": {"thickness": .., "width": ..}`` on an I section).
 
     Example:
         >>> parse_section({"shape": "round", "D": "168.3 mm", "t": "7.1 mm"}).kind
@@ -186,6 +193,17 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
                              "flange, web, wall (remaining thickness) or uniform (loss per face)")
         vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()}
         sec = with_loss(sec, **vals)
+    plates = spec.get("plates")
+    if plates is not None:
+        # after the loss: plates are welded to the steel that remains
+        if not isinstance(plates, Mapping) or set(plates) - {"thickness", "width"}:
+            raise InputError(f"{fld}.plates", plates, "must be an object with thickness and width",
+                             '{"thickness": "3/8 in", "width": "12 in"} (width: the flange width '
+                             "when left out)")
+        tp = parse_length(plates.get("thickness", ""), f"{fld}.plates.thickness")
+        bp = (None if plates.get("width") in (None, "")
+              else parse_length(plates["width"], f"{fld}.plates.width"))
+        sec = with_plates(sec, tp, bp, field=f"{fld}.plates")
     return sec
 
 

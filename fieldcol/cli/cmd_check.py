@@ -86,6 +86,11 @@ def sheet(d: dict, system: str) -> str:
         out.append(f"  {name:<16} Lc {show(m['effective_length'], system):>14}  "
                    f"slenderness {show(m['slenderness'], system):>8}  "
                    f"Fcr {show(m['critical_stress'], system):>10}  Pn {show(m['nominal_strength'], system)}")
+    if d["bow"]:
+        b = d["bow"]
+        out += ["", f"Measured bow, {b['axis']} axis: excess over L/1000 {show(b['excess'], system)}; "
+                f"capacity with the bow {show(b['capacity'], system)} "
+                f"(axial alone {show(d['axial_design_strength'], system)})"]
     out += ["", f"Governing mode:    {d['governing_mode']}",
             f"Nominal strength:  {show(d['nominal_strength'], system)}",
             f"Design strength:   {show(d['design_strength'], system)}"]

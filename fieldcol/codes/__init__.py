@@ -23,8 +23,9 @@ Example:
 
 from ._result import MODES, CodeResult, ModeResult, Warning
 from .aisc360 import check_aisc360, critical_stress
+from .bow import BowResult, check_bow
 from .elastic import check_elastic
 from .en1993 import buckling_curves, check_en1993, reduction_factor
 
-__all__ = ["MODES", "CodeResult", "ModeResult", "Warning", "check_aisc360", "check_elastic",
+__all__ = ["MODES", "BowResult", "CodeResult", "check_bow", "ModeResult", "Warning", "check_aisc360", "check_elastic",
            "check_en1993", "critical_stress", "buckling_curves", "reduction_factor"]

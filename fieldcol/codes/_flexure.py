@@ -1,8 +1,10 @@
-"""Flexural strength about one axis for the beam-column checks: AISC 360-22 Chapter F and
-EN 1993-1-1 6.2.5 / 6.3.2.2, plus the vectorised root finder the interaction checks share.
+"""Flexural strength about one axis for the beam-column checks: AISC 360-22 Chapter F,
+EN 1993-1-1 6.2.5 / 6.3.2.2 with EN 1993-1-5 effective moduli for Class 4, and the vectorised
+root finder the interaction checks share.
 
-Every function takes the section arrays ``sec`` produced by ``_inputs.prepare`` (one value per
-column of the batch) and adds its steps to a ``Trace``. Units N, mm, MPa; moments N*mm.
+Every function takes the section arrays ``sec`` as ``_inputs.prepare`` gives them (one value per
+column of the batch) together with the bending properties it reads (Sx, Sy, Zx, Zy, ho), and adds
+its steps to a ``Trace``. Units N, mm, MPa; moments N*mm.
 """
 
 from __future__ import annotations
@@ -304,8 +306,9 @@ def en_effective_modulus(kind: str, axis: str, sec: dict[str, np.ndarray], eps: 
     flange: internal, psi = 1, (4.2)); the web stress ratio psi then follows from the section with
     that effective flange and the gross web(s) (EN 1993-1-5 4.4 (3)), k_sigma = 7.81 - 6.29 psi +
     9.78 psi^2 (Table 4.1), and the ineffective part of the web lies between be1 = 0.4 beff (at the
-    flange) and be2 = 0.6 beff (at the neutral axis). One pass, no iteration. An I about its weak axis
-    and a circular hollow section are not covered (NaN).
+    flange) and be2 = 0.6 beff (at the neutral axis). One pass, no iteration. An I about its weak
+    axis: the web stays effective, the compressed outstands are reduced with k_sigma from Table 4.2
+    (largest stress at the free edge). A circular hollow section is not covered (NaN).
 
     Args:
         kind: ``"i"``, ``"rect"`` or ``"round"``; axis: bending axis; sec: section arrays;
@@ -323,9 +326,10 @@ def en_effective_modulus(kind: str, axis: str, sec: dict[str, np.ndarray], eps: 
     from ._en_class import rho_internal, rho_outstand
 
     strong = axis == "strong"
-    nan = np.full(np.shape(sec["d"]), np.nan)
-    if kind == "round" or (kind == "i" and not strong):
-        return nan
+    if kind == "round":
+        return np.full(np.shape(sec["d"]), np.nan)
+    if kind == "i" and not strong:
+        return _weak_i_effective_modulus(sec, eps, t)
     if kind == "i":
         H, I, tf, tw = sec["d"], sec["Ix"], sec["tf"], sec["tw"]
         ct_f, ct_w, webs = sec["ct_flange"], sec["ct_web"], 1
@@ -363,6 +367,32 @@ def en_effective_modulus(kind: str, axis: str, sec: dict[str, np.ndarray], eps: 
     I_eff = I - lost_f * (z_f**2 + tf**2 / 12) - lost_w * (z_h**2 + hole**2 / 12) - A_eff * zc**2
     return t.add("W_eff", f"effective section modulus, {axis} axis (Class 4)", "I_eff / (H/2 + |shift|)",
                  I_eff / (H / 2 - zc), "mm^3", "EN 1993-1-5 4.3 (4); EN 1993-1-1 6.2.5 (6.15)")
+
+
+def _weak_i_effective_modulus(sec: dict[str, np.ndarray], eps: np.ndarray, t: Trace) -> np.ndarray:
+    # Weak-axis bending: the web lies on the neutral axis and stays effective; each compressed
+    # outstand carries its largest stress at the free edge, psi = root/tip stress (gross section,
+    # EN 1993-1-5 4.4 (3)), k_sigma = 0.578/(psi + 0.34) (Table 4.2), ineffective width at the tip.
+    from ._en_class import rho_outstand
+
+    bf, tf, Iy, A = sec["bf"], sec["tf"], sec["Iy"], sec["A"]
+    c = sec["ct_flange"] * tf
+    psi = (bf / 2 - c) / (bf / 2)
+    k = 0.578 / (psi + 0.34)
+    rho = t.add("rho,flange,M", "reduction factor of the compressed outstands (weak-axis bending)",
+                "k_sigma = 0.578/(psi + 0.34), psi = root/tip stress; (lp - 0.188)/lp^2 <= 1",
+                rho_outstand((c / tf) / (28.4 * eps * np.sqrt(k))), "", "EN 1993-1-5 4.4 (4.3), Table 4.2")
+    w = (1 - rho) * c
+    lost = 2 * w * tf                     # one compressed outstand in each flange
+    x = bf / 2 - w / 2
+    xc = -lost * x / (A - lost)
+    I_eff = Iy - lost * (x**2 + w**2 / 12) - (A - lost) * xc**2
+    # the centroid moves towards the tension edge, and the compressed edge of the effective section
+    # is the end of the effective outstand: take the farther of the two
+    far = np.maximum(bf / 2 + xc, bf / 2 - w - xc)
+    return t.add("W_eff", "effective section modulus, weak axis (Class 4)",
+                 "I_eff / max(bf/2 - |shift|, bf/2 - (1 - rho) c + |shift|)",
+                 I_eff / far, "mm^3", "EN 1993-1-5 4.3 (4); EN 1993-1-1 6.2.5 (6.15)")
 
 
 def largest_root(g: Callable[[np.ndarray], np.ndarray], hi: np.ndarray, steps: int = 80) -> np.ndarray:

@@ -5,24 +5,24 @@ curves were calibrated with an initial bow of L/1000) already allow for an out-o
 about L/1000 between supports. Only the excess e = bow - L/1000 is then an eccentricity of the axial
 load at mid-height, and the column is checked with the code's interaction equations:
 
-- ``aisc360-22``: Mr = Pr e B1 with B1 = Cm / (1 - alpha Pr / Pe1) (Appendix 8, (A-8-3)), Cm = 1.0
-  (for a half-sine initial bow the amplification 1/(1 - P/Pe) is exact: Timoshenko & Gere; no end
-  moments to reduce it),
-  Pe1 = pi^2 E I / L^2 with K1 = 1 on the member length and EI* = EI: the axial strength Pc comes
-  from Chapter E with effective lengths, the method for which Appendix 8 takes EI* = EI
-  (0.8 tau_b EI belongs to the direct analysis method). Mc from Chapter F (F2, F3, F6, F7, F8;
-  Cb = 1.0 and Lb = the twist length). Interaction H1-1.
-- ``en1993-1-1``: 6.3.3 (6.61) and (6.62) with the Annex B (method 2) factors, Table B.1 for hollow
+- ``aisc360-22``: Mr = Pr e B1 with B1 = Cm / (1 - alpha Pr / Pe1) (Appendix 8, (A-8-3)) and
+  Cm = 1.0 (for a half-sine initial bow the amplification 1/(1 - P/Pe) is exact: Timoshenko &
+  Gere; there are no end moments to reduce it). Pe1 = pi^2 E I / L^2 with K1 = 1 on the member
+  length and EI* = EI: the axial strength Pc comes from Chapter E with effective lengths, the
+  method for which Appendix 8 takes EI* = EI (0.8 tau_b EI belongs to the direct analysis method).
+  Mc from Chapter F (F2, F3, F4, F6, F7, F8; Cb = 1.0 and Lb = the twist length; I shapes with
+  slender webs (F5) are refused with a warning). Interaction H1-1.
+- ``en1993-1-1``: 6.3.3 (6.61) and (6.62) with the Annex B (method 2) factors: Table B.1 for hollow
   sections and weak-axis bending, Table B.2 (kzy) for an I bent about its strong axis;
   Cmy = Cmz = CmLT = 1.0 (conservative). M_Ed = N e is the first-order moment: the k factors and
   chi already carry the second-order amplification, so no separate 1/(1 - N/Ncr) is applied
   (it would count the effect twice). M_Rk = W_pl fy (Class 1, 2), W_el fy (Class 3) or W_eff fy
-  (Class 4: EN 1993-1-5 effective widths under bending alone, with N_Rk = A_eff fy from the axial
-  check), the class being that of the section in pure compression (conservative). An I with Class 4
-  flanges bent about its weak axis is refused (NaN capacity and a warning) where there is an
-  excess; a Class 4 web alone leaves W_el,z. In (6.62) chi_z is the lower of the weak-axis and the
-  torsional buckling factors for open sections, so that with no excess the capacity is the axial
-  resistance Nb,Rd.
+  (Class 4: EN 1993-1-5 effective widths under bending alone, the Class 3 factors of Annex B, and
+  N_Rk = A_eff fy from the axial check; no shift moment, the sections being doubly symmetric).
+  The class is that of the section in pure compression (conservative). A Class 4 circular hollow
+  section is outside EN 1993-1-1 (NaN and a warning). In (6.62) chi_z is the lower of the
+  weak-axis and the torsional buckling factors for open sections, so that with no excess the
+  capacity is the axial resistance Nb,Rd.
 - ``elastic``: the Perry-Robertson first-yield load with the whole measured bow as the
   imperfection (the method has none built in): sigma = fy se / (0.5 B + sqrt(0.25 B^2 - fy se)),
   B = fy + (1 + eta) se, eta = bow c / r^2, se = Pe/A with Pe about the bow axis from the elastic
@@ -35,7 +35,7 @@ equals it where there is no excess (elastic: no bow).
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Callable
 
 import numpy as np
@@ -44,7 +44,7 @@ from fieldcol.errors import InputError
 from fieldcol.sections._section import Section
 from fieldcol.trace import Trace
 
-from ._en_class import OUTSTAND, classify, element_class
+from ._en_class import classify
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
 from ._inputs import non_negative, positive, prepare
 from ._result import CodeResult, Warning
@@ -211,9 +211,8 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
         Mc, capacity, ratio, cls4 = _en(kind, axis, sec, v, e, Pr_b, gamma, modes,
                                        ax(axial.design, "design"), t)
         if (cls4 & (e > 0)).any():
-            warnings.append(Warning("class-4", "Class 4 section bent about this axis (an I about its weak "
-                                    "axis with Class 4 flanges, or a circular hollow section): no effective "
-                                    "section modulus here; no capacity with the bow", cls4 & (e > 0)))
+            warnings.append(Warning("class-4", "Class 4 circular hollow section: outside EN 1993-1-1 "
+                                    "(EN 1993-1-6); no capacity with the bow", cls4 & (e > 0)))
     else:
         Pe = ax(axial.modes[f"flexural-{axis}"].Pe, "Pe")
         Mc, capacity, ratio = _elastic(axis, sec, v, bow_b, Pr_b, Pe, ax(axial.design, "design"), t)
@@ -281,13 +280,6 @@ def _en(kind, axis, sec, v, e, Pr, gamma, modes, design, t):
     cls, _ = classify(kind, sec, eps, Trace())
     t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls, "",
           "EN 1993-1-1 Table 5.2")
-    if kind == "i" and axis == "weak":
-        # A Class 4 web lies on the weak axis: with flanges of Class 3 or better W_eff,z = W_el,z and
-        # the Class 3 rules apply with N_Rk = A_eff fy (EN 1993-1-1 6.3.3 (4), Table 6.7).
-        flange = element_class(sec["ct_flange"], OUTSTAND, eps)
-        cls = t.add("class,bending", "class used for weak-axis bending",
-                    "Class 4 web with flanges Class <= 3: 3 (W_eff,z = W_el,z); else the section class",
-                    np.where((cls == 4) & (flange <= 3), 3, cls), "", "EN 1993-1-1 Table 5.2; EN 1993-1-5 4.3")
     cls4 = np.asarray(cls == 4)
     Weff = en_effective_modulus(kind, axis, sec, eps, t) if cls4.any() else None
     M_Rk, chi_LT = en_moment(kind, axis, sec, cls, fy, E, G, v["Lc_twist"], t, Weff)
@@ -464,7 +456,6 @@ def _out(a: np.ndarray, full: tuple) -> np.ndarray:
 def _shaped(t: Trace, full: tuple) -> Trace:
     if full:
         return t
-    from dataclasses import replace
     t.steps[:] = [replace(st, value=st.value.reshape(()) if isinstance(st.value, np.ndarray)
                           and st.value.shape == (1,) else st.value) for st in t.steps]
     return t
