@@ -153,7 +153,10 @@ class Assessment:
 
     @property
     def status(self) -> str:
-        """``"ok"`` (utilization <= 1), ``"over"`` (> 1) or ``"no-demand"``."""
+        """``"ok"`` (utilization <= 1), ``"over"`` (> 1), ``"no-demand"``, or ``"not-covered"``
+        where the code gives no strength for this column (see the warnings)."""
+        if not math.isfinite(self.design_strength):
+            return "not-covered"
         if self.utilization is None:
             return "no-demand"
         return "ok" if self.utilization <= 1.0 else "over"
@@ -235,7 +238,8 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     design = _first(result.design)
     bow = _bow(col, Fy, lengths, result, demand, trace, warnings)
     utilization = None
-    if demand is not None:
+    if demand is not None and math.isfinite(design):
+        # where the code gives no strength (NaN) there is no utilization, only the warning
         utilization = demand / design if design > 0 else math.inf
         trace.add("U", "utilization, axial", "Pr / design strength", utilization, "",
                   EDITIONS[col.code])

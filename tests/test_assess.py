@@ -246,3 +246,12 @@ def test_alignment_chart_k_in_record_and_cli():
     out = subprocess.run([sys.executable, "-m", "fieldcol", "alignment", "--ga", "1", "--gb", "1",
                           "--sway", "--json"], capture_output=True, text=True, check=True).stdout
     assert json.loads(out)["K"] == pytest.approx(1.32, abs=0.01)
+
+
+def test_outside_the_code_gives_no_utilization_and_says_why():
+    # A round tube with D/t >= 0.45 E/Fy is outside AISC 360-22 E7 (Table B4.1a scope).
+    a = assess({"tag": "T", "section": {"shape": "round", "D": "500 mm", "t": "1 mm"},
+                "material": "A500 Gr B", "length": "3 m", "demand": {"axial": "10 kN"}})
+    assert a.status == "not-covered" and a.utilization is None
+    assert any(w["code"] == "outside-scope" for w in a.warnings)
+    assert a.to_dict()["design_strength"]["value"] is None

@@ -96,9 +96,11 @@ def sheet(d: dict, system: str) -> str:
             f"Design strength:   {show(d['design_strength'], system)}"]
     if d["demand"]:
         out.append(f"Demand:            {show(d['demand'], system)} ({d['demand']['combination']})")
-        u = d["utilization"]["value"]
-        word = "OK" if d["status"] == "ok" else "OVER CAPACITY"
-        out.append(f"Utilization:       {u:.3f}  {word}")
+        if d["utilization"] is None:
+            out.append("Utilization:       none: the code gives no strength here (see warnings)")
+        else:
+            word = "OK" if d["status"] == "ok" else "OVER CAPACITY"
+            out.append(f"Utilization:       {d['utilization']['value']:.3f}  {word}")
     for w in d["warnings"]:
         out.append(f"WARNING [{w['code']}]: {w['message']}")
     out += ["", CAUTION]
