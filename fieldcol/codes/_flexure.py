@@ -376,7 +376,9 @@ def _weak_i_effective_modulus(sec: dict[str, np.ndarray], eps: np.ndarray, t: Tr
     from ._en_class import rho_outstand
 
     bf, tf, Iy, A = sec["bf"], sec["tf"], sec["Iy"], sec["A"]
-    c = sec["ct_flange"] * tf
+    # the outstand cannot be wider than half the flange (a plated section's tf is the thickest
+    # plate, so ratio x tf can overstate it)
+    c = np.minimum(sec["ct_flange"] * tf, bf / 2)
     psi = (bf / 2 - c) / (bf / 2)
     k = 0.578 / (psi + 0.34)
     rho = t.add("rho,flange,M", "reduction factor of the compressed outstands (weak-axis bending)",

@@ -6,15 +6,17 @@ Public API:
     from_catalogue, catalogue_names        published sections by designation
     identify, Match                        rank catalogue sections against measurements
     with_loss                              the section left after corrosion
+    with_plates                            cover plates welded to both flanges of an I
 """
 
 from fieldcol.sections._catalogue import catalogue_names, from_catalogue
 from fieldcol.sections._condition import with_loss
 from fieldcol.sections._geometry import i_section, rect_hollow, round_hollow
 from fieldcol.sections._identify import Match, identify
+from fieldcol.sections._plates import with_plates
 from fieldcol.sections._section import Section
 
 __all__ = [
     "Section", "i_section", "rect_hollow", "round_hollow", "from_catalogue", "catalogue_names",
-    "identify", "Match", "with_loss",
+    "identify", "Match", "with_loss", "with_plates",
 ]
