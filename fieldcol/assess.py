@@ -19,7 +19,7 @@ from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, che
                             check_en1993)
 from fieldcol.demand import combine
 from fieldcol.errors import InputError
-from fieldcol.record import AXES, AxisInput, BraceInput, ColumnInput, parse_record
+from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record
 from fieldcol.stability import (brace_requirement, buckling_analysis, effective_length,
                                 k_alignment, twist_length)
 from fieldcol.trace import Step, Trace

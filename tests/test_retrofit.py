@@ -14,7 +14,6 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from fieldcol import CAUTION
-from fieldcol.assess import assess
 from fieldcol.cli import main
 from fieldcol.errors import InputError
 from fieldcol.retrofit import Comparison, apply_option, compare, label

@@ -32,6 +32,23 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def read_json(path: str, field: str = "file") -> Any:
+    """The JSON in a file (``-`` reads standard input); bad files raise InputError naming it.
+
+    Example: ``record = read_json("column.json")``.
+    """
+    from pathlib import Path
+
+    try:
+        text = sys.stdin.read() if path == "-" else Path(path).read_text()
+    except OSError as e:
+        raise InputError(field, path, e.strerror or "cannot read the file") from None
+    try:
+        return json.loads(text)
+    except json.JSONDecodeError as e:
+        raise InputError(field, path, f"not valid JSON: {e.msg} at line {e.lineno}") from None
+
+
 def print_json(obj: Any) -> None:
     """Print ``obj`` as indented JSON on stdout (numpy scalars become numbers)."""
     print(json.dumps(obj, indent=2, default=_json_default))

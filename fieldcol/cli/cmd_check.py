@@ -4,10 +4,7 @@ from __future__ import annotations
 
 import argparse
 import json
-import sys
-from pathlib import Path
 
-from fieldcol.errors import InputError
 
 # internal unit -> units.py kind, to show each step in the site's unit system
 _KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": "modulus",
@@ -27,12 +24,9 @@ def register(sub: argparse._SubParsersAction) -> None:
 def run(args: argparse.Namespace) -> int:
     from fieldcol.assess import assess
 
-    text = sys.stdin.read() if args.file == "-" else _read(args.file)
-    try:
-        record = json.loads(text)
-    except json.JSONDecodeError as e:
-        raise InputError("file", args.file, f"not valid JSON: {e.msg} at line {e.lineno}") from None
-    a = assess(record)
+    from fieldcol.cli import read_json
+
+    a = assess(read_json(args.file))
     if args.json:
         from fieldcol.cli import print_json
 
@@ -40,13 +34,6 @@ def run(args: argparse.Namespace) -> int:
         return 0
     print(sheet(a.to_dict(), args.units or a.column.units))
     return 0
-
-
-def _read(path: str) -> str:
-    try:
-        return Path(path).read_text()
-    except OSError as e:
-        raise InputError("file", path, e.strerror or "cannot read the file") from None
 
 
 def show(q: dict | None, system: str, digits: int = 4) -> str:

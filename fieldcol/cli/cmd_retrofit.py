@@ -5,7 +5,6 @@ from __future__ import annotations
 import argparse
 import json
 import math
-import sys
 from typing import Any
 
 from fieldcol.errors import InputError
@@ -30,14 +29,10 @@ def register(sub: argparse._SubParsersAction) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from fieldcol.cli.cmd_check import _read
+    from fieldcol.cli import read_json
     from fieldcol.retrofit import compare
 
-    text = sys.stdin.read() if args.file == "-" else _read(args.file)
-    try:
-        record = json.loads(text)
-    except json.JSONDecodeError as e:
-        raise InputError("file", args.file, f"not valid JSON: {e.msg} at line {e.lineno}") from None
+    record = read_json(args.file)
     options: list[Any] = []
     for i, raw in enumerate(args.option):
         try:
@@ -46,11 +41,7 @@ def run(args: argparse.Namespace) -> int:
             raise InputError(f"options[{i}]", raw, f"not valid JSON: {e.msg}",
                              f"e.g. --option '{_EXAMPLE}'") from None
     if args.options:
-        try:
-            more = json.loads(_read(args.options))
-        except json.JSONDecodeError as e:
-            raise InputError("--options", args.options, f"not valid JSON: {e.msg} at line "
-                             f"{e.lineno}") from None
+        more = read_json(args.options, "--options")
         if not isinstance(more, list):
             raise InputError("--options", args.options, "the file must hold a list of options",
                              f"[{_EXAMPLE}]")

@@ -140,7 +140,7 @@ def check_en1993(section: Section, fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_w
                       "EN 1993-1-1 Table 6.1")
         lb = t.add(f"lb,{tag}", f"non-dimensional slenderness, {tag}",
                    "sqrt(A fy / Ncr) (Aeff for Class 4)", np.sqrt(Aeff * fy / Ncr), "", clause)
-        Phi = t.add(f"Phi,{tag}", f"Phi, {tag}", "0.5 (1 + alpha (lb - 0.2) + lb^2)",
+        t.add(f"Phi,{tag}", f"Phi, {tag}", "0.5 (1 + alpha (lb - 0.2) + lb^2)",
                     0.5 * (1 + alpha * (lb - 0.2) + lb**2), "", f"{C6312} (6.49)")
         chi = t.add(f"chi,{tag}", f"reduction factor, {tag}", "1 / (Phi + sqrt(Phi^2 - lb^2)) <= 1",
                     reduction_factor(lb, alpha), "", f"{C6312} (6.49)")
