@@ -20,8 +20,8 @@ from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, che
 from fieldcol.demand import combine
 from fieldcol.errors import InputError
 from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record
-from fieldcol.stability import (brace_requirement, buckling_analysis, effective_length,
-                                k_alignment, twist_length)
+from fieldcol.stability import (Brace, brace_requirement, buckling_analysis, effective_length,
+                                k_alignment)
 from fieldcol.trace import Step, Trace
 
 EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
@@ -69,6 +69,12 @@ class Assessment:
             return False
         cap = _first(self.bow.capacity)
         return math.isfinite(cap) and cap < _first(self.result.design)
+
+    @property
+    def bow_unchecked(self) -> bool:
+        """True when a bow beyond L/1000 was measured but the code gives no beam-column capacity."""
+        return (self.bow is not None and _first(self.bow.excess) > 0
+                and not math.isfinite(_first(self.bow.capacity)))
 
     @property
     def governing_mode(self) -> str:
@@ -155,7 +161,7 @@ class Assessment:
     def status(self) -> str:
         """``"ok"`` (utilization <= 1), ``"over"`` (> 1), ``"no-demand"``, or ``"not-covered"``
         where the code gives no strength for this column (see the warnings)."""
-        if not math.isfinite(self.design_strength):
+        if not math.isfinite(self.design_strength) or self.bow_unchecked:
             return "not-covered"
         if self.utilization is None:
             return "no-demand"
@@ -217,28 +223,36 @@ def assess(record: Mapping[str, Any]) -> Assessment:
             tr.extend(res.trace)
         return res
 
-    Lcz = twist_length(col.length, col.twist_braces)
-    twist = AxisLength(Lcz, 1.0, Lcz, "common practice K_z = 1", tuple(range(len(col.twist_braces))))
+    twist = _twist_length(col)
     # First pass: every brace counted as given, to know the strength that the braces must hold.
-    first = {ax: _axis_length(col, ax, col.axes[ax], None, Trace()) for ax in AXES}
+    every = {ax: tuple((i, b.stiffness) for i, b in enumerate(col.axes[ax].braces)) for ax in AXES}
+    first = {ax: _axis_length(col, ax, col.axes[ax], every[ax], Trace()) for ax in AXES}
     first["twist"] = twist
     base = run(first, None)
     Pr = demand if demand is not None else _first(base.design)
-    counted: dict[str, tuple[int, ...]] = {}
-    for ax in AXES:
-        counted[ax] = _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
-    lengths = {ax: _axis_length(col, ax, col.axes[ax], counted[ax], trace) for ax in AXES}
-    trace.add("Lcz", "torsional buckling length (longest length between twist restraints)",
-              "max segment, K_z = 1", twist.Lc, "mm", "common practice")
+    counted = {ax: _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
+               for ax in AXES}
+    _assumed_rigid(col, warnings)
+    lengths = {ax: _axis_length(col, ax, col.axes[ax], counted[ax].model, trace) for ax in AXES}
+    trace.add("Lcz", "torsional buckling length: longest length between twist restraints "
+              "(K_z = 2 next to an end free to twist)", "max K_z,i L_i", twist.Lc, "mm",
+              "common practice")
     lengths["twist"] = twist
     result = run(lengths, trace)
     for w in result.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     design = _first(result.design)
-    bow = _bow(col, Fy, lengths, result, demand, trace, warnings)
+    spans = {ax: _longest_span(col.length, counted[ax].qualified) for ax in AXES}
+    bow = _bow(col, Fy, lengths, spans, result, demand, trace, warnings)
+    if col.code == "elastic":
+        warnings.append({"code": "reference-only",
+                         "message": "classical elastic buckling and yielding: no resistance "
+                                    "factor and no allowance for imperfections; a reference, "
+                                    "not a design check"})
     utilization = None
-    if demand is not None and math.isfinite(design):
+    if demand is not None and math.isfinite(design) and not (
+            bow is not None and _first(bow.excess) > 0 and not math.isfinite(_first(bow.capacity))):
         # where the code gives no strength (NaN) there is no utilization, only the warning
         utilization = demand / design if design > 0 else math.inf
         trace.add("U", "utilization, axial", "Pr / design strength", utilization, "",
@@ -252,12 +266,17 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                       json.loads(json.dumps(record)), bow)
 
 
-def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength], axial: CodeResult,
-         demand: float | None, trace: Trace, warnings: list[dict[str, str]]) -> BowResult | None:
-    """The measured bow as a beam-column check over the braced length it was measured on."""
+def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
+         spans: Mapping[str, float], axial: CodeResult, demand: float | None, trace: Trace,
+         warnings: list[dict[str, str]]) -> BowResult | None:
+    """The measured bow as a beam-column check over the length it was measured on: as recorded
+    (``bow_over``), else the longest span between the braces that hold the column about that axis."""
     if col.bow is None:
         return None
-    L = lengths[col.bow_axis].segment
+    L = col.bow_over if col.bow_over is not None else spans[col.bow_axis]
+    trace.add("L_bow", f"length over which the bow acts ({col.bow_axis} axis)",
+              "as recorded" if col.bow_over is not None else "longest span between counted braces",
+              L, "mm", "record")
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
@@ -267,7 +286,14 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength], axial: 
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     excess = _first(res.excess)
-    if excess > 0:
+    if excess > 0 and not math.isfinite(_first(res.capacity)):
+        warnings.append({
+            "code": "bow-not-checked",
+            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, but the "
+                       "code's flexural rules do not cover this section: the bow is NOT accounted "
+                       "for; no strength is given",
+        })
+    elif excess > 0:
         warnings.append({
             "code": "bow-over-tolerance",
             "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, the "
@@ -288,11 +314,12 @@ def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> Cod
     return check_elastic(*args)
 
 
-def _axis_length(col: ColumnInput, ax: str, spec: AxisInput, counted: tuple[int, ...] | None,
-                 trace: Trace) -> AxisLength:
+def _axis_length(col: ColumnInput, ax: str, spec: AxisInput,
+                 model: tuple[tuple[int, float], ...], trace: Trace) -> AxisLength:
+    """Effective length about one axis with the braces in ``model`` ((index, stiffness) pairs)."""
     fld = f"restraints.{ax}"
-    idx = tuple(range(len(spec.braces))) if counted is None else counted
-    braces = [spec.braces[i].brace() for i in idx]
+    idx = tuple(i for i, _ in model)
+    braces = [Brace(spec.braces[i].at, k) for i, k in model]
     if spec.k is not None:
         cuts = sorted({0.0, col.length, *(b.at for b in braces)})
         seg = max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
@@ -302,6 +329,11 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput, counted: tuple[int,
                   spec.k * seg, "mm", "record")
         return AxisLength(spec.k * seg, spec.k, seg, "override", idx)
     if spec.alignment is not None:
+        if spec.braces:
+            raise InputError(f"{fld}.alignment", "alignment with braces",
+                             "the alignment-chart K is for a column between two joints, not for "
+                             "lengths between braces",
+                             "use k_basis 'analysis' with partial end springs, or remove the braces")
         Ga, Gb, sway = spec.alignment
         k = float(k_alignment(Ga, Gb, sway, field=f"{fld}.alignment"))
         cuts = sorted({0.0, col.length, *(b.at for b in braces)})
@@ -335,19 +367,33 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput, counted: tuple[int,
     return AxisLength(eff.Lc, eff.K, seg.length, col.k_basis, idx)
 
 
+@dataclass(frozen=True)
+class _Counted:
+    """The braces of one axis after the Appendix 6.2 check."""
+
+    model: tuple[tuple[int, float], ...]   # (index, stiffness used) for the effective length
+    qualified: tuple[float, ...]           # positions of braces that hold the column (bow spans)
+
+
 def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool, trace: Trace,
-             warnings: list[dict[str, str]]) -> tuple[int, ...]:
+             warnings: list[dict[str, str]]) -> _Counted:
     """Which braces count: each must meet AISC 360-22 Appendix 6.2 stiffness and strength.
 
     EN 1993-1-1 gives no point-brace rule for columns; the same criterion is used for every code
     (common practice). Without a demand the brace must hold the strength the braced column
     claims (its design strength). Lbr is the shorter adjacent unbraced length (conservative).
+    A brace short of strength, or a single tension-only cable, never counts. For the table K a
+    brace short of stiffness does not count; the buckling analysis takes every finite brace at
+    phi k / 2 (LRFD and EN) or k / (2 Omega) (ASD): Appendix 6.2 asks for twice the ideal
+    stiffness divided by phi, so a brace that just qualifies reaches the braced load there.
     """
     if not spec.braces:
-        return ()
+        return _Counted((), ())
     basis = "asd" if col.basis == "asd" else "lrfd"
+    analysis = col.k_basis == "analysis"
+    reduce = {"lrfd": 0.75 / 2, "asd": 1 / (2 * 2.0)}[basis] if col.code != "elastic" else 1.0
     cuts = sorted({0.0, col.length, *(b.at for b in spec.braces)})
-    keep = []
+    model, qualified = [], []
     for i, b in enumerate(spec.braces):
         j = cuts.index(b.at)
         adj = [cuts[j] - cuts[j - 1]] if j > 0 else []
@@ -356,34 +402,86 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
         Lbr = min(adj)
         Pbr, beta = (float(v) for v in brace_requirement(Pr, Lbr, basis, field=b.field))
         what = "the demand" if given else "the braced design strength"
+        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {b.at:.0f} mm "
+                  f"({ax} axis), Pr = {what}; provided: "
+                  + (f"{b.stiffness:.4g} N/mm" if b.stiffness_given else "rigid (assumed)"),
+                  "(1/phi or Omega) 8 Pr / Lbr", beta, "N/mm", "AISC 360-22 App. 6.2")
+        trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {b.at:.0f} mm; provided: "
+                  + (f"{b.strength:.4g} N" if b.strength is not None else "not recorded"),
+                  "0.01 Pr", Pbr, "N", "AISC 360-22 App. 6.2")
         ok_k = b.stiffness >= beta
         ok_p = b.strength is None or b.strength >= Pbr
-        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {b.at:.0f} mm "
-                  f"({ax} axis), Pr = {what}", "(1/phi or Omega) 8 Pr / Lbr", beta, "N/mm",
-                  "AISC 360-22 App. 6.2")
-        if b.strength is not None:
-            trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {b.at:.0f} mm", "0.01 Pr",
-                      Pbr, "N", "AISC 360-22 App. 6.2")
-        if ok_k and ok_p:
-            keep.append(i)
+        if b.one_way:
+            warnings.append({"code": "brace-one-way",
+                             "message": f"the cable at {b.at:.0f} mm on the {ax} axis is a single "
+                                        "tension-only member: it holds the column one way only "
+                                        "and is not counted (record \"pair\": true for crossed or "
+                                        "opposed cables, or \"pretensioned\": true)"})
             continue
+        if ok_k and ok_p:
+            qualified.append(b.at)
+        if ok_p and (ok_k or analysis):
+            k_used = b.stiffness * reduce if analysis and math.isfinite(b.stiffness) else b.stiffness
+            model.append((i, k_used))
+            if analysis and math.isfinite(b.stiffness):
+                trace.add(f"k_{ax}[{i}]", f"brace stiffness used in the buckling analysis at "
+                          f"{b.at:.0f} mm", "phi k / 2 (ASD: k / (2 Omega))" if reduce < 1 else "k",
+                          k_used, "N/mm", "AISC 360-22 App. 6.2 (twice the ideal stiffness)")
+            if ok_k:
+                continue
         why = []
         if not ok_k:
             why.append(f"stiffness {b.stiffness:.4g} N/mm < required {beta:.4g} N/mm")
         if not ok_p:
             why.append(f"strength {b.strength:.4g} N < required {Pbr:.4g} N")
-        counted = col.k_basis == "analysis"
+        kept = analysis and ok_p
         warnings.append({
             "code": "brace-not-qualified",
             "message": f"brace at {b.at:.0f} mm on the {ax} axis does not qualify "
                        f"({'; '.join(why)}; AISC 360-22 App. 6.2): "
-                       + ("kept in the buckling analysis at its real stiffness, but it cannot "
-                          "be relied on to hold the column straight" if counted
+                       + ("kept in the buckling analysis at its reduced stiffness only" if kept
                           else "not counted as a brace point"),
         })
-        if counted:
-            keep.append(i)
-    return tuple(keep)
+    return _Counted(tuple(model), tuple(qualified))
+
+
+def _assumed_rigid(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
+    """Say which braces were taken as rigid and strong enough without a recorded value."""
+    where = []
+    for ax in AXES:
+        for b in col.axes[ax].braces:
+            missing = [w for w, gap in (("stiffness", not b.stiffness_given),
+                                        ("strength", b.strength is None)) if gap]
+            if missing:
+                where.append(f"{ax} axis at {b.at:.0f} mm (no {' or '.join(missing)})")
+    if where:
+        warnings.append({"code": "brace-assumed",
+                         "message": "brace values not recorded, taken as rigid and strong "
+                                    "enough: " + "; ".join(where) + ". Confirm on site: "
+                                    "AISC 360-22 App. 6.2 asks for 0.01 Pr and the stiffness "
+                                    "shown in the trace"})
+
+
+def _twist_length(col: ColumnInput) -> AxisLength:
+    """Lcz: the longest length between twist restraints, K_z = 1 between restraints and 2 next
+    to an end free to twist (common practice, as for a cantilever)."""
+    tw = col.twist
+    cuts = sorted({0.0, col.length, *tw.braces})
+    if not (tw.bottom_held or tw.top_held or tw.braces):
+        raise InputError("restraints.twist", "free at both ends",
+                         "nothing prevents the column from twisting (a mechanism)",
+                         "hold one end against twisting or add a twist restraint")
+    best = (0.0, 1.0, 0.0)
+    for a, b in zip(cuts[:-1], cuts[1:]):
+        k = 2.0 if (a == 0.0 and not tw.bottom_held) or (b == col.length and not tw.top_held) else 1.0
+        if k * (b - a) > best[0]:
+            best = (k * (b - a), k, b - a)
+    return AxisLength(best[0], best[1], best[2], "common practice K_z", tuple(range(len(tw.braces))))
+
+
+def _longest_span(length: float, at: tuple[float, ...]) -> float:
+    cuts = sorted({0.0, length, *at})
+    return max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
 
 
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:

@@ -8,6 +8,7 @@ A record is what an engineer recorded for one column. Values with units are stri
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 from typing import Any, Mapping
 
@@ -16,7 +17,8 @@ from fieldcol.materials import Material, get_material, material_from_values, wit
 from fieldcol.sections import (Section, from_catalogue, i_section, rect_hollow, round_hollow,
                                with_loss, with_plates)
 from fieldcol.stability import Brace, End, cable_stiffness, end, partial_end
-from fieldcol.units import parse_length, parse_quantity
+from fieldcol.units import parse_length as _parse_length
+from fieldcol.units import parse_quantity as _parse_quantity
 
 CODES = ("elastic", "aisc360-22", "en1993-1-1")
 K_BASES = ("theoretical", "recommended", "analysis")
@@ -35,6 +37,8 @@ class BraceInput:
     strength: float | None = None   # N, the brace's available strength if known
     added: str | None = None        # date or note, e.g. "2019 retrofit"
     field: str = ""
+    stiffness_given: bool = False   # False: no stiffness recorded, taken as rigid
+    one_way: bool = False           # a single tension-only cable: holds one direction only
 
     def brace(self) -> Brace:
         return Brace(self.at, self.stiffness)
@@ -49,6 +53,15 @@ class AxisInput:
     braces: tuple[BraceInput, ...] = ()
     k: float | None = None
     alignment: tuple[float, float, bool] | None = None   # (Ga, Gb, sway) for the chart K
+
+
+@dataclass(frozen=True)
+class TwistInput:
+    """Where twisting is prevented: points along the height and at each end."""
+
+    braces: tuple[float, ...] = ()
+    bottom_held: bool = True
+    top_held: bool = True
 
 
 @dataclass(frozen=True)
@@ -69,7 +82,7 @@ class ColumnInput:
     material: Material
     length: float
     axes: Mapping[str, AxisInput]
-    twist_braces: tuple[float, ...]
+    twist: TwistInput
     k_basis: str
     code: str
     basis: str
@@ -79,6 +92,7 @@ class ColumnInput:
     bow: float | None = None       # mm, measured out-of-straightness
     plumb: float | None = None     # mm, measured out-of-plumb over the length
     bow_axis: str = "weak"         # the axis the bow bends the column about
+    bow_over: float | None = None  # mm, the length the bow was measured over (default: the span)
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -124,7 +138,7 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         raise InputError(f"restraints.{extra[0]}", extra[0], "unknown axis",
                          "use strong, weak and twist")
     axes = {ax: _axis(restraints.get(ax) or {}, length, f"restraints.{ax}") for ax in AXES}
-    twist = _twist(restraints.get("twist") or {}, length)
+    twist = _twist(restraints.get("twist") or {}, length, axes)
     demand = _demand(record.get("demand"), code)
     basis = demand.basis if demand else _BASES[code][0]
     gamma = record.get("gamma_M1", 1.0)
@@ -136,15 +150,18 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     condition = record.get("condition") or {}
     if not isinstance(condition, Mapping):
         raise InputError("condition", condition, "must be an object, e.g. {\"bow\": \"3/8 in\"}")
-    bad = sorted(set(condition) - {"bow", "bow_axis", "plumb"})
+    bad = sorted(set(condition) - {"bow", "bow_axis", "bow_over", "plumb"})
     if bad:
-        raise InputError(f"condition.{bad[0]}", bad[0], "unknown key", "bow, bow_axis, plumb")
+        raise InputError(f"condition.{bad[0]}", bad[0], "unknown key",
+                         "bow, bow_axis, bow_over, plumb")
+    bow_over = (None if condition.get("bow_over") in (None, "")
+                else parse_length(condition["bow_over"], "condition.bow_over"))
     bow = _opt_length(condition.get("bow"), "condition.bow")
     plumb = _opt_length(condition.get("plumb"), "condition.plumb")
     bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
-                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis)
+                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over)
 
 
 def parse_section(spec: Any, fld: str = "section") -> Section:
@@ -232,6 +249,53 @@ def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None
     return material_from_values(**kw, name=str(spec.get("name", "as measured")), field=fld)
 
 
+# A record is what was typed on site: a number without its unit is ambiguous (30 what?), so every
+# dimensional value needs one; only zero may stand alone.
+_BARE = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?(\s*-?\s*\d+\s*/\s*\d+)?\s*$"
+                   r"|^\s*\d+\s*/\s*\d+\s*$")
+_EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3700 kN",
+             "stress": "50 ksi or 345 MPa", "area": "0.2 in2 or 130 mm2",
+             "stiffness": "20 kip/in or 3.5 kN/mm",
+             "rotational_stiffness": "50000 kip*in/rad or 5000 kN*m/rad"}
+
+
+def _unit_required(text: Any, kind: str, fld: str) -> None:
+    if isinstance(text, bool):
+        return
+    bare = isinstance(text, (int, float)) or (isinstance(text, str) and _BARE.match(text))
+    if not bare:
+        return
+    try:
+        if float(text) == 0:
+            return
+    except (TypeError, ValueError):
+        pass
+    raise InputError(fld, str(text), "a unit is needed", "e.g. " + _EXAMPLES[kind])
+
+
+def parse_length(text: Any, fld: str, *, allow_zero: bool = False) -> float:
+    """A length in mm from an entry that carries its unit (``"30 ft"``, ``12'-6\"``, ``"3.81 m"``).
+
+    Example:
+        >>> parse_length("12 ft 6 in", "length")
+        3810.0
+    """
+    _unit_required(text, "length", fld)
+    return _parse_length(text, fld, allow_zero=allow_zero)
+
+
+def parse_quantity(text: Any, kind: str, fld: str, *, allow_zero: bool = False) -> float:
+    """A quantity in the engine's unit of ``kind`` from an entry that carries its unit.
+
+    Example:
+        >>> round(parse_quantity("840 kip", "force", "demand.axial"))
+        3736506
+    """
+    if kind != "angle":  # an angle typed alone is in degrees
+        _unit_required(text, kind, fld)
+    return _parse_quantity(text, kind, fld, allow_zero=allow_zero)
+
+
 def _choice(value: Any, allowed: tuple[str, ...], fld: str) -> str:
     if isinstance(value, str) and value.strip().lower() in allowed:
         return value.strip().lower()
@@ -310,40 +374,97 @@ def _list(value: Any, fld: str) -> list:
     return value
 
 
+_BRACE_KEYS = {"at", "stiffness", "strength", "added", "cable"}
+_CABLE_KEYS = {"area", "length", "angle", "E", "pair", "pretensioned"}
+
+
 def _brace(spec: Any, length: float, fld: str) -> BraceInput:
     if not isinstance(spec, Mapping) or spec.get("at") in (None, ""):
         raise InputError(f"{fld}.at", spec, "a brace needs its position", '{"at": "15 ft"}')
-    at = parse_length(spec["at"], f"{fld}.at")
-    if not 0 < at <= length:
-        raise InputError(f"{fld}.at", spec["at"], "outside the column length",
-                         "measure from the bottom end; it must lie within the length")
-    stiffness = math.inf
-    if spec.get("stiffness") not in (None, "", "rigid"):
-        stiffness = parse_quantity(spec["stiffness"], "stiffness", f"{fld}.stiffness")
+    bad = sorted(set(spec) - _BRACE_KEYS)
+    if bad:
+        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", ", ".join(sorted(_BRACE_KEYS)))
+    at = _position(spec["at"], length, f"{fld}.at")
+    stiffness, given, one_way = math.inf, False, False
+    if spec.get("stiffness") == "rigid":  # the engineer's judgement, e.g. a floor beam framing in
+        given = True
+    elif spec.get("stiffness") not in (None, ""):
+        stiffness, given = parse_quantity(spec["stiffness"], "stiffness", f"{fld}.stiffness"), True
     if spec.get("cable"):
-        c = spec["cable"]
-        if not isinstance(c, Mapping):
-            raise InputError(f"{fld}.cable", c, "must be an object with area, length, angle")
-        area = parse_quantity(c.get("area", ""), "area", f"{fld}.cable.area")
-        clen = parse_length(c.get("length", ""), f"{fld}.cable.length")
-        angle = parse_quantity(c.get("angle", "0"), "angle", f"{fld}.cable.angle", allow_zero=True)
-        E = parse_quantity(c.get("E", "200000 MPa"), "stress", f"{fld}.cable.E")
-        stiffness = float(cable_stiffness(area, E, clen, angle, field=f"{fld}.cable"))
+        if given:
+            raise InputError(f"{fld}.stiffness", spec["stiffness"],
+                             "give either a stiffness or a cable, not both",
+                             "the cable's stiffness follows from its area, length and angle")
+        stiffness, one_way = _cable(spec["cable"], f"{fld}.cable")
+        given = True
     strength = None
     if spec.get("strength") not in (None, ""):
         strength = parse_quantity(spec["strength"], "force", f"{fld}.strength")
     added = spec.get("added")
-    return BraceInput(at, stiffness, strength, None if added is None else str(added), fld)
+    return BraceInput(at, stiffness, strength, None if added is None else str(added), fld,
+                      given, one_way)
 
 
-def _twist(spec: Any, length: float) -> tuple[float, ...]:
-    if not isinstance(spec, Mapping):
-        raise InputError("restraints.twist", spec, "must be an object with braces")
-    bad = sorted(set(spec) - {"braces"})
+def _position(text: Any, length: float, fld: str) -> float:
+    at = parse_length(text, fld)
+    if not 0 < at <= length:
+        raise InputError(fld, text, "outside the column length",
+                         "measure from the bottom end; it must lie within the length")
+    return at
+
+
+def _cable(c: Any, fld: str) -> tuple[float, bool]:
+    """Stiffness (A E / L) cos^2(theta) of a cable or rod brace (common practice), and whether
+    it holds one direction only (a single tension-only member, neither paired nor pretensioned)."""
+    if not isinstance(c, Mapping):
+        raise InputError(fld, c, "must be an object with area, length, angle")
+    bad = sorted(set(c) - _CABLE_KEYS)
     if bad:
-        raise InputError(f"restraints.twist.{bad[0]}", bad[0], "unknown key", "braces")
-    return tuple(_brace(b, length, f"restraints.twist.braces[{i}]").at
-                 for i, b in enumerate(_list(spec.get("braces"), "restraints.twist.braces")))
+        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", ", ".join(sorted(_CABLE_KEYS)))
+    if c.get("angle") in (None, ""):
+        raise InputError(f"{fld}.angle", "", "required: the angle between the cable and the "
+                         "direction the braced point moves", 'e.g. "45 deg" (0 = in line)')
+    area = parse_quantity(c.get("area", ""), "area", f"{fld}.area")
+    clen = parse_length(c.get("length", ""), f"{fld}.length")
+    angle = parse_quantity(c["angle"], "angle", f"{fld}.angle", allow_zero=True)
+    # a steel rod; wire rope is softer: give its E
+    E = parse_quantity(c.get("E", "200000 MPa"), "stress", f"{fld}.E")
+    flags = {}
+    for key in ("pair", "pretensioned"):
+        v = c.get(key, False)
+        if not isinstance(v, bool):
+            raise InputError(f"{fld}.{key}", v, "must be true or false")
+        flags[key] = v
+    k = float(cable_stiffness(area, E, clen, angle, field=fld))
+    return k, not (flags["pair"] or flags["pretensioned"])
+
+
+def _twist(spec: Any, length: float, axes: Mapping[str, AxisInput]) -> TwistInput:
+    fld = "restraints.twist"
+    if not isinstance(spec, Mapping):
+        raise InputError(fld, spec, "must be an object with braces, bottom, top")
+    bad = sorted(set(spec) - {"braces", "bottom", "top"})
+    if bad:
+        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", "braces, bottom, top")
+    at = []
+    for i, b in enumerate(_list(spec.get("braces"), f"{fld}.braces")):
+        bf = f"{fld}.braces[{i}]"
+        if not isinstance(b, Mapping) or b.get("at") in (None, ""):
+            raise InputError(f"{bf}.at", b, "a twist restraint needs its position", '{"at": "15 ft"}')
+        extra = sorted(set(b) - {"at", "added"})
+        if extra:
+            raise InputError(f"{bf}.{extra[0]}", extra[0],
+                             "a twist restraint is taken as rigid: no stiffness, strength or cable",
+                             "at, added")
+        at.append(_position(b["at"], length, f"{bf}.at"))
+    ends = {}
+    for name in ("bottom", "top"):
+        # an end free to sway and rotate about both axes cannot hold the section against
+        # twisting either, unless the record says so
+        free_both = all(axes[ax].__getattribute__(name).label == "free" for ax in AXES)
+        default = "free" if free_both else "held"
+        ends[name] = _choice(spec.get(name, default), ("held", "free"), f"{fld}.{name}") == "held"
+    return TwistInput(tuple(at), ends["bottom"], ends["top"])
 
 
 _LOAD_TYPES = ("dead", "live", "snow", "roof_live")

@@ -73,12 +73,14 @@ def table(comparisons: list, system: str) -> str:
         >>> from fieldcol.retrofit import compare
         >>> rec = {"tag": "C1", "section": "W14X90", "material": "A992", "length": "30 ft",
         ...        "demand": {"axial": "600 kip"}}
-        >>> print(table(compare(rec, [{"kind": "brace", "axis": "weak", "at": "15 ft"}]), "us"))
+        >>> brace = {"kind": "brace", "axis": "weak", "at": "15 ft", "stiffness": "rigid",
+        ...          "strength": "10 kip"}
+        >>> print(table(compare(rec, [brace]), "us"))
         Column C1  -  ANSI/AISC 360-22 (lrfd), demand 600.0 kip
         <BLANKLINE>
-        option               design strength     change   utilization             governing mode
-        as it stands         594.2 kip                    1.010 OVER              flexural-weak
-        brace weak at 15 ft  594.2 -> 836.7 kip  +40.8 %  1.010 OVER -> 0.717 OK  flexural-weak -> torsional
+        option                       design strength     change   utilization             governing mode
+        as it stands                 594.2 kip                    1.010 OVER              flexural-weak
+        brace weak at 15 ft (rigid)  594.2 -> 836.7 kip  +40.8 %  1.010 OVER -> 0.717 OK  flexural-weak -> torsional
         <BLANKLINE>
         fieldcol is an aid to, not a substitute for, the judgement of a licensed engineer; local codes govern.
     """
