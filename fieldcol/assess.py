@@ -15,6 +15,7 @@ from typing import Any, Mapping
 import numpy as np
 
 from fieldcol import CAUTION, __version__
+from fieldcol.codes.bow import TOLERANCE as BOW_TOLERANCE
 from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
                             check_en1993)
 from fieldcol.demand import combine
@@ -72,7 +73,8 @@ class Assessment:
 
     @property
     def bow_unchecked(self) -> bool:
-        """True when a bow beyond L/1000 was measured but the code gives no beam-column capacity."""
+        """True when a bow beyond the curve's allowance was measured but the code gives no
+        beam-column capacity."""
         return (self.bow is not None and _first(self.bow.excess) > 0
                 and not math.isfinite(_first(self.bow.capacity)))
 
@@ -86,7 +88,7 @@ class Assessment:
     @property
     def design_strength(self) -> float:
         """The design (or allowable) axial strength, N: the lower of the axial modes and,
-        when a bow beyond L/1000 was measured, the beam-column capacity with that bow."""
+        when a bow beyond the curve's allowance was measured, the beam-column capacity with it."""
         if self.bow_governs:
             return _first(self.bow.capacity)
         return float(np.asarray(self.result.design).reshape(-1)[0])
@@ -286,20 +288,20 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     excess = _first(res.excess)
+    n = BOW_TOLERANCE[col.code]
     if excess > 0 and not math.isfinite(_first(res.capacity)):
         warnings.append({
             "code": "bow-not-checked",
-            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, but the "
+            "message": f"measured bow {col.bow:.1f} mm exceeds L/{n:g} = {L / n:.1f} mm, but the "
                        "code's flexural rules do not cover this section: the bow is NOT accounted "
                        "for; no strength is given",
         })
     elif excess > 0:
         warnings.append({
             "code": "bow-over-tolerance",
-            "message": f"measured bow {col.bow:.1f} mm exceeds L/1000 = {L / 1000:.1f} mm, the "
-                       "out-of-straightness the column curves allow for (AISC 303 / EN 1090-2 "
-                       f"tolerance): the excess {excess:.1f} mm is checked as an eccentricity "
-                       "(beam-column interaction)",
+            "message": f"measured bow {col.bow:.1f} mm exceeds L/{n:g} = {L / n:.1f} mm, the "
+                       "out-of-straightness the column curve allows for: the excess "
+                       f"{excess:.1f} mm is checked as an eccentricity (beam-column interaction)",
         })
     return res
 

@@ -161,7 +161,7 @@ def test_h1_interaction_by_hand(basis, alpha):
     r = aisc(s, 50, L, bow, basis=basis)
     Pc = float(check_aisc360(s, 50 * KSI, E_US, G_US, L, L, L, basis=basis).design)
     Pe1 = math.pi**2 * E_US * float(s.Iy) / L**2        # (A-8-5), K1 = 1, EI* = EI
-    e = bow - L / 1000
+    e = bow - L / 1500      # AISC: L/1500 already in the column curve (Commentary E3, from memory)
     assert float(r.excess) == pytest.approx(e)
     Mc = float(r.Mc)
     cap = float(r.capacity)
@@ -175,18 +175,18 @@ def test_h1_interaction_by_hand(basis, alpha):
     heavy = 12 * IN
     Pr = 0.1 * Pc
     rb = aisc(s, 50, L, heavy, basis=basis, Pr=Pr)
-    assert float(rb.ratio) == pytest.approx(_h1(Pr, heavy - L / 1000, Pc, Mc, Pe1, alpha), rel=1e-12)
+    assert float(rb.ratio) == pytest.approx(_h1(Pr, heavy - L / 1500, Pc, Mc, Pe1, alpha), rel=1e-12)
     assert float(step(rb, "B1")) == pytest.approx(1 / (1 - alpha * Pr / Pe1), rel=1e-12)
 
 
 def test_within_tolerance_keeps_the_axial_strength():
     s = aisc_w("W14X90")
     L = 20 * FT
-    r = aisc(s, 50, L, [0.0, L / 1000, L / 1000 * 1.5], Pr=1000 * KIP)
+    r = aisc(s, 50, L, [0.0, L / 1500, L / 1500 * 1.5], Pr=1000 * KIP)
     Pc = float(check_aisc360(s, 50 * KSI, E_US, G_US, L, L, L).design)
-    # AISC 303 6.4.1 straightness L/1000 (from memory; allowed for by the column curves, AISC 360-22
-    # Commentary E3): no excess, no moment
-    assert r.excess.tolist() == [0.0, 0.0, pytest.approx(L / 2000)]
+    # AISC 360-22 Commentary E3 (from memory): the column curve holds about L/1500 of initial
+    # crookedness: no excess, no moment
+    assert r.excess.tolist() == [0.0, 0.0, pytest.approx(L / 3000)]
     assert r.capacity[:2].tolist() == [Pc, Pc]
     assert r.capacity[2] < Pc
     assert r.ratio[0] == pytest.approx(1000 * KIP / Pc)
@@ -331,8 +331,9 @@ def _fe_moduli(rects):
 
 def test_en_class_4_flanges_about_the_weak_axis():
     # welded I 600 x 400 x 8 / 10 in S355: outstand c/t = 195/8 = 24.4 > 14 eps (Table 5.2), Class 4.
-    # Weak-axis bending: psi = root/tip stress = 5/200, k_sigma = 0.578/(psi + 0.34) (EN 1993-1-5
-    # Table 4.2, from memory), rho by (4.3); the ineffective width (1 - rho) c sits at the free edge
+    # Weak-axis bending: psi = root/tip stress = 5/200, largest compression at the free edge:
+    # k_sigma = 0.57 - 0.21 psi + 0.07 psi^2 (EN 1993-1-5 Table 4.2, from memory), rho by (4.3);
+    # the ineffective width (1 - rho) c sits at the free edge
     d, bf, tf, tw, fy = 600.0, 400.0, 8.0, 10.0, 355.0
     s = i_section(d, bf, tf, tw, rolled=False)
     r = en(s, fy, 5000.0, [0.0, 5.0, 30.0])
@@ -342,7 +343,7 @@ def test_en_class_4_flanges_about_the_weak_axis():
     eps = math.sqrt(235 / fy)
     c = (bf - tw) / 2
     psi = (bf / 2 - c) / (bf / 2)
-    lp = (c / tf) / (28.4 * eps * math.sqrt(0.578 / (psi + 0.34)))
+    lp = (c / tf) / (28.4 * eps * math.sqrt(0.57 - 0.21 * psi + 0.07 * psi**2))
     rho = (lp - 0.188) / lp**2
     assert float(step(r, "rho,flange,M")[2]) == pytest.approx(rho, rel=1e-12)
     w = (1 - rho) * c
@@ -546,7 +547,7 @@ def test_missing_bending_property_is_refused():
 
 def test_trace_names_its_clauses():
     clauses = " ".join(st.clause for st in aisc(aisc_w("W14X90"), 50, 20 * FT, 1 * IN, Pr=500 * KIP).trace.steps)
-    for c in ("H1.1 (H1-1a), (H1-1b)", "(A-8-3)", "(A-8-5)", "F6", "AISC 303 6.4.1"):
+    for c in ("H1.1 (H1-1a), (H1-1b)", "(A-8-3)", "(A-8-5)", "F6", "Commentary E3"):
         assert c in clauses
     strong = " ".join(st.clause for st in aisc(aisc_w("W14X90"), 50, 20 * FT, 1 * IN, "strong").trace.steps)
     assert "F2" in strong and "F3" in strong
@@ -603,7 +604,8 @@ def test_capacity_never_grows_with_the_bow(code, col, fy, L, bows, axis):
     assert (np.diff(cap[ok]) <= 0).all()
     assert (cap[ok] <= design).all()
     # no excess (elastic: no bow): the axial design strength itself
-    none = np.array(bows) == 0 if code == "elastic" else np.array(bows) <= L / 1000
+    allowed = L / {"aisc360-22": 1500, "en1993-1-1": 1000}.get(code, 1000)
+    none = np.array(bows) == 0 if code == "elastic" else np.array(bows) <= allowed
     assert (cap[none] == design).all()
 
 

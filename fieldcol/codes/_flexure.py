@@ -372,7 +372,8 @@ def en_effective_modulus(kind: str, axis: str, sec: dict[str, np.ndarray], eps: 
 def _weak_i_effective_modulus(sec: dict[str, np.ndarray], eps: np.ndarray, t: Trace) -> np.ndarray:
     # Weak-axis bending: the web lies on the neutral axis and stays effective; each compressed
     # outstand carries its largest stress at the free edge, psi = root/tip stress (gross section,
-    # EN 1993-1-5 4.4 (3)), k_sigma = 0.578/(psi + 0.34) (Table 4.2), ineffective width at the tip.
+    # EN 1993-1-5 4.4 (3)), k_sigma = 0.57 - 0.21 psi + 0.07 psi^2 (Table 4.2, the row with the
+    # largest compression at the free edge), ineffective width at the tip.
     from ._en_class import rho_outstand
 
     bf, tf, Iy, A = sec["bf"], sec["tf"], sec["Iy"], sec["A"]
@@ -380,9 +381,9 @@ def _weak_i_effective_modulus(sec: dict[str, np.ndarray], eps: np.ndarray, t: Tr
     # plate, so ratio x tf can overstate it)
     c = np.minimum(sec["ct_flange"] * tf, bf / 2)
     psi = (bf / 2 - c) / (bf / 2)
-    k = 0.578 / (psi + 0.34)
+    k = 0.57 - 0.21 * psi + 0.07 * psi**2
     rho = t.add("rho,flange,M", "reduction factor of the compressed outstands (weak-axis bending)",
-                "k_sigma = 0.578/(psi + 0.34), psi = root/tip stress; (lp - 0.188)/lp^2 <= 1",
+                "k_sigma = 0.57 - 0.21 psi + 0.07 psi^2, psi = root/tip stress; (lp - 0.188)/lp^2 <= 1",
                 rho_outstand((c / tf) / (28.4 * eps * np.sqrt(k))), "", "EN 1993-1-5 4.4 (4.3), Table 4.2")
     w = (1 - rho) * c
     lost = 2 * w * tf                     # one compressed outstand in each flange

