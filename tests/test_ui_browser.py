@@ -134,10 +134,23 @@ def _shot(page, name: str) -> None:
 
 
 def _type_into(page, identifier: str, text: str) -> None:
+    """Replace the text of an entry and press Enter, once the entry holds exactly ``text``
+    (Flutter may swap the focused input element, so keys sent too early can go astray)."""
     field = page.locator(f"{_sel(identifier)} input").first
-    field.click(position={"x": 60, "y": 20})  # the top line: the error text sits lower
-    page.keyboard.press("Control+A")
-    page.keyboard.type(text)
+    for _ in range(5):
+        field.click(position={"x": 60, "y": 20})  # the top line: the error text sits lower
+        _poll(lambda: page.evaluate("document.activeElement && document.activeElement.tagName"),
+              lambda tag: tag == "INPUT", f"focus in {identifier}")
+        page.keyboard.press("Control+A")
+        page.keyboard.type(text)
+        try:
+            _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == text,
+                  f"{identifier} holds the typed text")
+            break
+        except AssertionError:
+            continue
+    else:
+        raise AssertionError(f"could not type {text!r} into {identifier}")
     page.keyboard.press("Enter")
 
 

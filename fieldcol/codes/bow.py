@@ -137,7 +137,7 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
         >>> r = check_bow("aisc360-22", s, 345.0, 200000.0, 77200.0, 4877.0, 4877.0, 4877.0, 4877.0,
         ...               [0.0, 28.6])
         >>> [round(float(c) / 1e3) for c in r.capacity]
-        [4346, 3252]
+        [4346, 3202]
     """
     if not isinstance(code, str) or code not in CODES:
         raise InputError("code", code, "unknown code", ", ".join(CODES))
