@@ -171,7 +171,7 @@ class Assessment:
 
     @property
     def _fy(self) -> float:
-        return float(self.column.material.fy_at(self.column.section.tmax))
+        return float(self.column.material.fy_at(self.column.section.tmax_nominal))
 
 
 def assess(record: Mapping[str, Any]) -> Assessment:
@@ -197,7 +197,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     trace = Trace()
     warnings: list[dict[str, str]] = []
     sec, mat = col.section, col.material
-    Fy = float(mat.fy_at(sec.tmax))
+    Fy = float(mat.fy_at(sec.tmax_nominal))
     trace.add("L", "column length between end restraints", "measured", col.length, "mm", "record")
     trace.add("Fy", f"yield stress, {mat.name}" + (" (coupon tests)" if mat.tested else ""),
               "grade table by thickness" if not mat.tested else "tested", Fy, "MPa", mat.source)

@@ -577,7 +577,8 @@ def _section(kind: str, a: float, b: float, c: float) -> Section:
     if kind == "i":   # depth, width, flange thickness; web 0.6 tf
         return i_section(a, b, c, 0.6 * c, 0.8 * c)
     if kind == "rect":
-        return rect_hollow(a, b, (2 + c / 3) * np.minimum(a, b) / 100)    # wall 4 % to 12 %
+        a, b = np.maximum(a, b), np.minimum(a, b)   # depth is the larger side (the strong axis)
+        return rect_hollow(a, b, (2 + c / 3) * b / 100)                  # wall 4 % to 12 %
     return round_hollow(a, (1 + c / 3) * a / 100)                          # wall 3 % to 11 %
 
 

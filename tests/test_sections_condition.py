@@ -119,3 +119,34 @@ def test_measured_wall_above_design_thickness_is_used_and_noted():
     t = with_loss(s, wall=12.5)
     assert float(t.tf) == 12.5
     assert any("measured value used" in n for n in t.notes)
+
+
+def test_loss_keeps_the_as_built_thickness_for_the_thickness_rules():
+    # EN 1993-1-1 Table 3.1 (fy by the product's thickness): a 42 mm S355 flange is in the
+    # 40-80 mm band (335 MPa) and stays there when corrosion takes 1.5 mm off each face.
+    from fieldcol.materials import get_material
+
+    s = i_section(400.0, 400.0, 42.0, 25.0, 27.0)
+    worn = with_loss(s, uniform=1.5)
+    assert float(worn.tf) == pytest.approx(39.0)
+    assert float(worn.tf_nominal) == 42.0 and float(worn.tmax_nominal) == 42.0
+    assert float(get_material("S355").fy_at(worn.tmax_nominal)) == 335.0
+    twice = with_loss(worn, uniform=0.5)
+    assert float(twice.tmax_nominal) == 42.0
+
+
+def test_hss_wall_measured_thicker_keeps_the_outside_size():
+    # a wall measured above the design wall (tdes = 0.93 tnom, AISC) adds steel inside
+    s = from_catalogue("HSS8X8X3/16")
+    thick = with_loss(s, wall=4.76)
+    assert float(thick.d) == pytest.approx(float(s.d)) and float(thick.bf) == pytest.approx(float(s.bf))
+    assert float(thick.A) > float(s.A)
+
+
+def test_rect_hollow_depth_must_be_the_larger_side():
+    from fieldcol.errors import InputError
+    from fieldcol.sections import rect_hollow
+
+    with pytest.raises(InputError) as e:
+        rect_hollow(100.0, 200.0, 6.0)
+    assert e.value.field == "d"

@@ -127,7 +127,9 @@ def check_en1993(section: Section, fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_w
         warnings.append(Warning("class-4", "Class 4 section: effective area Aeff per EN 1993-1-5 4.4 used",
                                 class4))
 
-    y, z, assumed = buckling_curves(kind, sec["rolled"], sec["d"] / sec["bf"], sec["tf"], hs)
+    # the Table 6.2 row follows the flange as rolled, not as corroded
+    tf_row = np.broadcast_to(np.asarray(section.tf_nominal, dtype=float), sec["tf"].shape)
+    y, z, assumed = buckling_curves(kind, sec["rolled"], sec["d"] / sec["bf"], tf_row, hs)
     t.add("curve,y", "buckling curve, strong (y-y) axis", "by kind, h/b, tf, grade", y, "", T62)
     t.add("curve,z", "buckling curve, weak (z-z) axis", "by kind, h/b, tf, grade", z, "", T62)
     if assumed.any():

@@ -147,7 +147,8 @@ def with_loss(section: Section, *, flange: object = None, web: object = None, wa
         else:
             t2 = t
         loss = t - t2
-        grow = np.zeros_like(loss) if from_inside else loss
+        # a wall measured thicker than the design wall keeps the outside size (the extra is inside)
+        grow = np.zeros_like(loss) if from_inside else np.maximum(loss, 0.0)
         notes.append("wall loss taken " + ("from the inside: outside dimensions kept"
                                            if from_inside else
                                            "from the outside: outside dimensions reduced"))
@@ -160,4 +161,5 @@ def with_loss(section: Section, *, flange: object = None, web: object = None, wa
     merged = list(section.notes)
     merged += [n for n in new.notes if n not in merged]
     merged += notes
-    return replace(new, notes=tuple(merged))
+    return replace(new, notes=tuple(merged), tf_as_built=section.tf_nominal,
+                   tmax_as_built=section.tmax_nominal)

@@ -242,6 +242,9 @@ def rect_hollow(d: ArrayLike, b: ArrayLike, t: ArrayLike, r_out: ArrayLike | Non
         a = _as_arrays(d=d, b=b, t=t, r_out=r_out)
     d, b, t, ro = a["d"], a["b"], a["t"], a["r_out"]
     _positive(a, "d", "b", "t")
+    # the strong axis is the one across the depth: a d smaller than b would swap the axes
+    _require(d >= b, "d", d, lambda i: f"d is smaller than b = {_at(b, i):g} mm",
+             "d is the larger outside dimension (the strong axis): swap d and b")
     _require(ro >= 0, "r_out", ro, "a corner radius cannot be negative", "use 0 for sharp corners")
     _require(2 * t < b, "t", t, lambda i: f"two walls fill the width b = {_at(b, i):g} mm",
              "check t and b")

@@ -146,7 +146,9 @@ def with_plates(section: Section, thickness: ArrayLike, width: ArrayLike | None 
              "thin rectangles")
     notes = tuple(n for n in section.notes) + (rules, note)
     return replace(
-        section, d=d, tf=np.maximum(tf0, tp), A=A, Ix=Ix, Iy=Iy, Sx=Ix / (d / 2),
+        section, d=d, tf=np.maximum(tf0, tp), A=A,
+        tf_as_built=np.maximum(section.tf_nominal, tp),
+        tmax_as_built=np.maximum(section.tmax_nominal, tp), Ix=Ix, Iy=Iy, Sx=Ix / (d / 2),
         Sy=Iy / (np.maximum(bf, bp) / 2), Zx=Zx, Zy=Zy, rx=np.sqrt(Ix / A), ry=np.sqrt(Iy / A),
         J=J, Cw=Cw, ho=ho, rolled=False, notes=notes,
         # the unplated ratios, broadcast to the batch shape of the result

@@ -67,11 +67,25 @@ class Section:
     name: str | None = None
     rolled: bool = True
     notes: tuple[str, ...] = field(default_factory=tuple)
+    tf_as_built: np.ndarray | None = None    # flange thickness before loss (None: tf is as built)
+    tmax_as_built: np.ndarray | None = None  # thickest plate before loss (None: tmax is as built)
 
     @property
     def tmax(self) -> np.ndarray:
-        """Thickest plate (mm): governs fy by thickness and the EN buckling curve."""
+        """Thickest plate (mm) as it is now."""
         return np.maximum(self.tf, self.tw)
+
+    @property
+    def tf_nominal(self) -> np.ndarray:
+        """Flange thickness as built (mm): it picks the EN 1993-1-1 Table 6.2 row. Corrosion
+        thins the plate but does not change the product it was rolled as."""
+        return self.tf if self.tf_as_built is None else self.tf_as_built
+
+    @property
+    def tmax_nominal(self) -> np.ndarray:
+        """Thickest plate as built (mm): fy by thickness (EN 1993-1-1 Table 3.1, EN 10025) is a
+        property of the product as rolled, which losing steel does not raise."""
+        return self.tmax if self.tmax_as_built is None else self.tmax_as_built
 
     def with_name(self, name: str | None) -> "Section":
         return replace(self, name=name)
