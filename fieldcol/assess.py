@@ -214,7 +214,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
             demand, demand_name = col.demand.axial, "given"
             trace.add("Pr", "required axial strength (given)", "record", demand, "N", "record")
         else:
-            comb = combine(col.demand.loads, col.demand.basis, trace)
+            comb = combine(col.demand.loads, col.demand.basis, trace, col.demand.psi0)
             demand, demand_name = comb.axial, comb.name
             trace.add("Pr", f"required axial strength, governing: {comb.name}", "max", demand,
                       "N", comb.clause)

@@ -32,14 +32,24 @@ _ASD = (
     ("D + 0.75L + 0.75Lr", {"dead": 1.0, "live": 0.75, "roof_live": 0.75}),
     ("D + 0.75L + 0.75S", {"dead": 1.0, "live": 0.75, "snow": 0.75}),
 )
-# EN 1990 (6.10), gamma_G 1.35, gamma_Q 1.5; psi0 imposed (categories A-D) 0.7, snow (sites at
-# or below 1000 m) 0.5, roof imposed (category H) 0.0 and not combined with snow (EN 1991-1-1 3.3.2).
-_EN = (
-    ("1.35G", {"dead": 1.35}),
-    ("1.35G + 1.5Q + 1.5(0.5)S", {"dead": 1.35, "live": 1.5, "snow": 0.75}),
-    ("1.35G + 1.5S + 1.5(0.7)Q", {"dead": 1.35, "snow": 1.5, "live": 1.05}),
-    ("1.35G + 1.5Qroof + 1.5(0.7)Q", {"dead": 1.35, "roof_live": 1.5, "live": 1.05}),
-)
+# EN 1990 (6.10), gamma_G 1.35, gamma_Q 1.5; recommended psi0 (Table A1.1): imposed 0.7
+# (categories A-D; storage, category E, is 1.0), snow 0.5 (sites at or below 1000 m; 0.7 above
+# and in Nordic countries); roof imposed (category H) 0.0 and not combined with snow
+# (EN 1991-1-1 3.3.2). The record may set psi0 for "live" and "snow".
+PSI0 = {"live": 0.7, "snow": 0.5}
+
+
+def _en(psi0: Mapping[str, float]) -> tuple:
+    q, s = psi0["live"], psi0["snow"]
+    return (
+        ("1.35G", {"dead": 1.35}),
+        (f"1.35G + 1.5Q + 1.5({s:g})S", {"dead": 1.35, "live": 1.5, "snow": 1.5 * s}),
+        (f"1.35G + 1.5S + 1.5({q:g})Q", {"dead": 1.35, "snow": 1.5, "live": 1.5 * q}),
+        (f"1.35G + 1.5Qroof + 1.5({q:g})Q", {"dead": 1.35, "roof_live": 1.5, "live": 1.5 * q}),
+    )
+
+
+_EN = _en(PSI0)
 _TABLES = {"lrfd": (_LRFD, "ASCE/SEI 7-22 2.3.1"), "asd": (_ASD, "ASCE/SEI 7-22 2.4.1"),
            "en": (_EN, "EN 1990 6.4.3.2 (6.10), Table A1.2(B)"),
            "none": (_ASD, "service loads, unfactored sums")}
@@ -54,13 +64,17 @@ class Combination:
     clause: str
 
 
-def combine(loads: Mapping[str, float], basis: str, trace: Trace | None = None) -> Combination:
+def combine(loads: Mapping[str, float], basis: str, trace: Trace | None = None,
+            psi0: Mapping[str, float] | None = None) -> Combination:
     """The largest required axial strength over the gravity combinations of ``basis``.
+
+    Gravity loads only: lateral loads (wind, seismic) and their combinations are not included.
 
     Args:
         loads: service loads in N by type (``dead``, ``live``, ``snow``, ``roof_live``).
         basis: ``"lrfd"``, ``"asd"``, ``"en"`` or ``"none"`` (elastic check: service sums).
         trace: if given, each combination is added as a step.
+        psi0: EN combination factors for ``live`` and ``snow`` (default ``PSI0``).
 
     Returns:
         Combination(name, axial N, clause).
@@ -70,6 +84,8 @@ def combine(loads: Mapping[str, float], basis: str, trace: Trace | None = None) 
         '1.2D + 1.6L + 0.5Lr'
     """
     table, clause = _TABLES[basis]
+    if basis == "en" and psi0:
+        table = _en({**PSI0, **psi0})
     best: Combination | None = None
     for name, factors in table:
         value = sum(f * loads.get(k, 0.0) for k, f in factors.items())

@@ -71,6 +71,7 @@ class Demand:
     axial: float | None                    # N, a factored (or ASD) force given directly
     loads: Mapping[str, float] = field(default_factory=dict)   # N, service loads by type
     basis: str = "lrfd"
+    psi0: Mapping[str, float] = field(default_factory=dict)    # EN combination factors set
 
 
 @dataclass(frozen=True)
@@ -475,6 +476,9 @@ def _demand(spec: Any, code: str) -> Demand | None:
         return None
     if not isinstance(spec, Mapping):
         raise InputError("demand", spec, "must be an object", '{"axial": "840 kip", "basis": "lrfd"}')
+    extra = sorted(set(spec) - {"loads", "basis", "psi0", "axial"})
+    if extra:
+        raise InputError(f"demand.{extra[0]}", extra[0], "unknown key", "axial, loads, basis, psi0")
     basis = _choice(spec.get("basis", _BASES[code][0]), _BASES[code], "demand.basis")
     if spec.get("axial") not in (None, ""):
         if spec.get("loads"):
@@ -490,4 +494,15 @@ def _demand(spec: Any, code: str) -> Demand | None:
                          ", ".join(_LOAD_TYPES))
     vals = {k: parse_quantity(v, "force", f"demand.loads.{k}", allow_zero=True)
             for k, v in loads.items()}
-    return Demand(None, vals, basis)
+    psi0 = spec.get("psi0") or {}
+    if psi0:
+        if code != "en1993-1-1" or not isinstance(psi0, Mapping):
+            raise InputError("demand.psi0", psi0, "psi0 factors apply to EN 1990 combinations",
+                             '{"live": 1.0} for storage (category E), {"snow": 0.7} above 1000 m')
+        for k, v in psi0.items():
+            if k not in ("live", "snow"):
+                raise InputError(f"demand.psi0.{k}", k, "unknown load type", "live, snow")
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
+                raise InputError(f"demand.psi0.{k}", v, "must be a number from 0 to 1",
+                                 "EN 1990 Table A1.1")
+    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()})

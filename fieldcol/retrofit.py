@@ -21,7 +21,8 @@ An option is a JSON object; values with units are text as typed, like the column
     absent); applied after any recorded section loss.
 ``{"kind": "remove_brace", "axis": .., "at": .., "twist": false}``
     the brace at ``at`` taken out (e.g. for a change of use); an error if there is none there
-    (positions match within 2 mm); ``twist: true`` also removes the twist restraint there.
+    (positions match within 2 mm); a twist restraint at the same point goes with it unless
+    ``twist: false`` (``twist: true`` insists that there is one).
 ``{"kind": "combined", "options": [..]}``
     a package of options applied in order.
 
@@ -364,12 +365,16 @@ def _remove_brace(new: dict, opt: Mapping, fld: str) -> None:
                          'measured from the bottom, e.g. "12 ft"')
     at = parse_length(opt["at"], f"{fld}.at")
     where = [(ax, f"braces on the {ax} axis") for ax in axes]
-    if _flag(opt, "twist", fld):
+    # a brace taken out takes its hold against twisting with it, unless told otherwise
+    explicit = "twist" in opt
+    if _flag({"twist": True, **opt}, "twist", fld):
         where.append(("twist", "twist restraints"))
     found = []
     for ax, what in where:
         braces = ((new.get("restraints") or {}).get(ax) or {}).get("braces") or []
         i = _find(braces, at, f"restraints.{ax}.braces")
+        if i is None and ax == "twist" and not explicit:
+            continue
         if i is None:
             there = ", ".join(str(b.get("at")) for b in braces)
             raise InputError(f"{fld}.at", opt["at"], f"none of the {what} is there",

@@ -358,3 +358,17 @@ def test_elastic_check_says_it_is_a_reference():
     a = assess({"tag": "E", "section": "W14X90", "material": "A992", "length": "30 ft",
                 "code": "elastic"})
     assert any(w["code"] == "reference-only" for w in a.warnings)
+
+
+def test_en_psi0_can_be_set_for_storage_and_high_sites():
+    # EN 1990 Table A1.1 (from memory): psi0 = 1.0 for storage (category E) imposed loads
+    base = {"tag": "E", "section": "HEB300", "material": "S355", "length": "6 m",
+            "code": "en1993-1-1"}
+    loads = {"dead": "100 kN", "live": "50 kN", "snow": "80 kN"}
+    a = assess({**base, "demand": {"loads": loads}})
+    assert a.demand == pytest.approx(1e3 * (1.35 * 100 + 1.5 * 80 + 1.5 * 0.7 * 50))
+    b = assess({**base, "demand": {"loads": loads, "psi0": {"live": 1.0}}})
+    assert b.demand == pytest.approx(1e3 * (1.35 * 100 + 1.5 * 80 + 1.5 * 1.0 * 50))
+    with pytest.raises(InputError) as e:
+        assess({**base, "demand": {"loads": loads, "psi0": {"live": 1.5}}})
+    assert e.value.field == "demand.psi0.live"

@@ -398,3 +398,12 @@ def test_not_covered_by_the_code_before_and_after(tmp_path, capsys):
     path.write_text(json.dumps(rec))
     assert main(["retrofit", str(path), "--option", json.dumps(c.option)]) == 0
     assert "NOT COVERED -> NOT COVERED" in capsys.readouterr().out
+
+
+def test_removing_a_brace_takes_its_twist_restraint_unless_told():
+    rec = _rec(restraints={"weak": {"braces": [{"at": "10 ft"}]},
+                           "twist": {"braces": [{"at": "10 ft"}]}})
+    gone = apply_option(rec, {"kind": "remove_brace", "axis": "weak", "at": "10 ft"})
+    assert gone["restraints"]["twist"]["braces"] == []
+    kept = apply_option(rec, {"kind": "remove_brace", "axis": "weak", "at": "10 ft", "twist": False})
+    assert kept["restraints"]["twist"]["braces"] == [{"at": "10 ft"}]
