@@ -112,9 +112,9 @@ def _wait(page, identifier: str):
     return loc
 
 
-def _poll(read, ok, what: str):
-    """Read until ``ok(value)`` or fail after TIMEOUT with the last value read."""
-    deadline = time.monotonic() + TIMEOUT
+def _poll(read, ok, what: str, timeout: float = TIMEOUT):
+    """Read until ``ok(value)`` or fail after ``timeout`` s with the last value read."""
+    deadline = time.monotonic() + timeout
     value = None
     while time.monotonic() < deadline:
         try:
@@ -145,7 +145,7 @@ def _type_into(page, identifier: str, text: str) -> None:
         page.keyboard.type(text)
         try:
             _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == text,
-                  f"{identifier} holds the typed text")
+                  f"{identifier} holds the typed text", timeout=3)
             break
         except AssertionError:
             continue

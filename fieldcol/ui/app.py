@@ -97,7 +97,7 @@ class FieldApp:
             else:
                 await self._show_sites()
         except InputError as e:  # e.g. an id that no longer exists: say so, keep the app usable
-            self._render("/", "fieldcol", [v._text(str(e), color=v.TONES["over"][0]),
+            self._render("/", "fieldcol", [v.text_line(str(e), color=v.TONES["over"][0]),
                                           ft.Button("Back to sites", on_click=self._go("/"),
                                                     height=v.TAP)], None)
 
@@ -152,7 +152,7 @@ class FieldApp:
         if not self.wide:
             self._render(f"/sites/{site_id}", title, self._list(), "/")
             return
-        hint = ft.Container(v._text("Pick a column to see its check.", color=v.MUTED),
+        hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
                             padding=24)
         self._render(f"/sites/{site_id}", title, self._two_panes(self._list(), hint), "/")
 
@@ -194,7 +194,7 @@ class FieldApp:
         self.recheck_button = ft.Semantics(identifier="check-again", content=ft.FilledButton(
             "Check again", icon=ft.Icons.REFRESH, on_click=self._recheck, height=v.TAP))
         self.note.value = ""
-        edit = v._card([v._text("Typed values are saved as you go (Enter or leave the field) "
+        edit = v._card([v.text_line("Typed values are saved as you go (Enter or leave the field) "
                                 "and the column is checked again.", size=14, color=v.MUTED),
                         *entries, self.recheck_button,
                         ft.Semantics(identifier="save-note", live_region=True,
@@ -202,7 +202,7 @@ class FieldApp:
                        title="Edit")
         self._fill(d)
         return ft.ListView([ft.Semantics(identifier="column-tag", header=True,
-                                         content=v._text(d.tag, size=24, bold=True)),
+                                         content=v.text_line(d.tag, size=24, bold=True)),
                             self.check_area, v.caution_box(), edit, self.record_area],
                            spacing=12, padding=12, expand=True)
 
@@ -213,6 +213,15 @@ class FieldApp:
         self.record_area.controls = body[1:] + v.record_body(d)
 
     # -- handlers -----------------------------------------------------------------------
+    async def _refresh_list(self) -> None:
+        """Reload the list beside the column (tablet) so it shows the new check."""
+        d = self.detail
+        if not self.wide or self.columns is None or d is None:
+            return
+        limit = min(1000, max(m.PAGE, len(self.columns.rows)))
+        self.columns = await asyncio.to_thread(m.column_page, self.store, d.site_id, limit=limit)
+        self.list_pane.content = self._list(selected=d.id)
+
     async def _save_field(self, e: Any) -> None:
         tf: ft.TextField = e.control
         name, text = tf.data, (tf.value or "")
@@ -245,11 +254,7 @@ class FieldApp:
                 self._fill(res.detail)
                 self.note.value = (f"Saved {label.lower()} {text}; checked again: "
                                    f"{res.detail.check.status.label}")
-                if self.wide and self.columns is not None:
-                    self.columns = await asyncio.to_thread(
-                        m.column_page, self.store, res.detail.site_id,
-                        limit=max(m.PAGE, len(self.columns.rows)))
-                    self.list_pane.content = self._list(selected=res.detail.id)
+                await self._refresh_list()
             self.page.update()
 
     async def _recheck(self, _e: Any = None) -> None:
@@ -267,6 +272,7 @@ class FieldApp:
                 self._fill(self.detail)
                 assert self.detail.check is not None
                 self.note.value = f"Checked again: {self.detail.check.status.label}"
+                await self._refresh_list()
             self.page.update()
 
 

@@ -435,7 +435,8 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     axial = demand.get("axial")
     demand_text = "none"
     if axial not in (None, ""):
-        demand_text = _demand_text(axial, system) + f" ({str(demand.get('basis', 'lrfd')).upper()})"
+        basis = str(demand.get("basis", "lrfd")).upper()
+        demand_text = f"{_demand_text(axial, system)} ({basis})"
     elif demand.get("loads"):
         demand_text = "loads: " + _describe(demand["loads"])
     record = [Line("Section", section_label(rec.get("section")) or "none"),

@@ -8,7 +8,7 @@ screen reader needs carries a ``Semantics`` identifier (``site-...``, ``column-.
 
 from __future__ import annotations
 
-from typing import Any, Awaitable, Callable
+from typing import Awaitable, Callable
 
 import flet as ft
 
@@ -32,13 +32,25 @@ ICONS = {"check_circle": ft.Icons.CHECK_CIRCLE, "warning": ft.Icons.WARNING,
 Handler = Callable[..., Awaitable[None] | None]
 
 
-def _text(value: str, *, size: int = 16, bold: bool = False, color: str = INK,
-          selectable: bool = False) -> ft.Text:
+def text_line(value: str, *, size: int = 16, bold: bool = False, color: str = INK,
+              selectable: bool = False) -> ft.Text:
+    """A text in the app's type scale: 16 px body, near black unless told.
+
+    Args:
+        value: the words.
+        size, bold, color: the look; selectable: can be copied.
+
+    Returns:
+        An ``ft.Text``.
+
+    Example: ``text_line("24 columns", bold=True)``.
+    """
     return ft.Text(value, size=size, color=color, selectable=selectable,
                    weight=ft.FontWeight.BOLD if bold else ft.FontWeight.NORMAL)
 
 
-def status_chip(status: m.Status, *, big: bool = False, identifier: str | None = None) -> ft.Control:
+def status_chip(status: m.Status, *, big: bool = False,
+                identifier: str | None = None) -> ft.Control:
     """The status as icon + number + word on a tinted chip.
 
     Args:
@@ -54,7 +66,7 @@ def status_chip(status: m.Status, *, big: bool = False, identifier: str | None =
     fg, bg, border = TONES[status.tone]
     chip = ft.Container(
         content=ft.Row([ft.Icon(ICONS[status.icon], color=fg, size=28 if big else 22),
-                        _text(status.label, size=22 if big else 17, bold=True, color=fg)],
+                        text_line(status.label, size=22 if big else 17, bold=True, color=fg)],
                        spacing=6, tight=True),
         bgcolor=bg, border=ft.Border.all(1.5, border), border_radius=8,
         padding=ft.Padding.symmetric(horizontal=10, vertical=6 if big else 4))
@@ -79,7 +91,7 @@ def caution_box() -> ft.Control:
 
 
 def _card(controls: list[ft.Control], *, title: str | None = None) -> ft.Container:
-    head = [_text(title, size=18, bold=True)] if title else []
+    head = [text_line(title, size=18, bold=True)] if title else []
     return ft.Container(content=ft.Column(head + controls, spacing=8,
                                           horizontal_alignment=ft.CrossAxisAlignment.STRETCH),
                         border=ft.Border.all(1, LINE), border_radius=10, padding=12,
@@ -87,7 +99,8 @@ def _card(controls: list[ft.Control], *, title: str | None = None) -> ft.Contain
 
 
 def _line(line: m.Line) -> ft.Control:
-    return ft.Column([_text(line.label, size=13, color=MUTED), _text(line.value, selectable=True)],
+    return ft.Column([text_line(line.label, size=13, color=MUTED),
+                      text_line(line.value, selectable=True)],
                      spacing=0)
 
 
@@ -116,19 +129,19 @@ def sites_body(cards: list[m.SiteCard], open_site: Callable[[str], Handler]) -> 
         over = m.Status(f"{c.over} over capacity", "warning" if c.over else "check_circle",
                         "over" if c.over else "ok", None)
         body = ft.Column([
-            _text(c.name, size=20, bold=True),
-            _text(c.address or "no address", color=MUTED),
-            _text(f"{c.code} · {c.unit_system}", size=14, color=MUTED),
-            ft.Row([_text(f"{c.columns} columns", bold=True), status_chip(over)],
+            text_line(c.name, size=20, bold=True),
+            text_line(c.address or "no address", color=MUTED),
+            text_line(f"{c.code} · {c.unit_system}", size=14, color=MUTED),
+            ft.Row([text_line(f"{c.columns} columns", bold=True), status_chip(over)],
                    wrap=True, spacing=10),
-        ] + ([_text(f"{c.not_checked} not checked", color=MUTED)] if c.not_checked else []),
+        ] + ([text_line(f"{c.not_checked} not checked", color=MUTED)] if c.not_checked else []),
             spacing=4)
         items.append(_tap_row(body, open_site(c.id), f"site-{c.name}",
                               f"{c.name}: {c.summary}"))
     if not cards:
-        items.append(_text("No sites yet. Start the app with --demo to see an example site.",
+        items.append(text_line("No sites yet. Start the app with --demo to see an example site.",
                            color=MUTED))
-    return [_text("Sites", size=24, bold=True), *items, caution_box()]
+    return [text_line("Sites", size=24, bold=True), *items, caution_box()]
 
 
 # -- columns of a site ---------------------------------------------------------------------
@@ -146,8 +159,8 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
     Example: ``column_row(page.rows[0], handler)``.
     """
     body = ft.Row([
-        ft.Column([_text(line.tag, size=19, bold=True),
-                   _text(" · ".join(x for x in (line.level, line.section, line.length) if x),
+        ft.Column([text_line(line.tag, size=19, bold=True),
+                   text_line(" · ".join(x for x in (line.level, line.section, line.length) if x),
                          size=14, color=MUTED)],
                   spacing=2, expand=True),
         status_chip(line.status),
@@ -179,8 +192,8 @@ def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
     shown = f"{len(page.rows)} columns" if more is None else \
         f"first {len(page.rows)} columns shown"
     head: list[ft.Control] = [
-        _text(c.name, size=20, bold=True),
-        _text(f"{shown} · {c.over} over capacity", size=14, color=MUTED), caution_box()]
+        text_line(c.name, size=20, bold=True),
+        text_line(f"{shown} · {c.over} over capacity", size=14, color=MUTED), caution_box()]
     rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
     tail: list[ft.Control] = []
     if more is not None:
@@ -205,20 +218,20 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
     if chk is None:
         return [_card([ft.Row([status_chip(m.status_of(None, False), big=True,
                                            identifier="status")]),
-                       _text("Tap 'Check again' to check this column.", color=MUTED)],
+                       text_line("Tap 'Check again' to check this column.", color=MUTED)],
                       title="Latest check")]
     fg = TONES[chk.status.tone][0]
     summary = _card([
         ft.Row([status_chip(chk.status, big=True, identifier="status")]),
-        _text(f"Utilization {chk.utilization} = demand {chk.demand} / design strength "
+        text_line(f"Utilization {chk.utilization} = demand {chk.demand} / design strength "
               f"{chk.design_strength}", size=16, color=INK),
-        ft.Semantics(identifier="governing", content=_text(
+        ft.Semantics(identifier="governing", content=text_line(
             f"Governing: {chk.governing}", bold=True, color=fg)),
-        _text(f"{chk.code} · checked {chk.checked_at}", size=13, color=MUTED),
+        text_line(f"{chk.code} · checked {chk.checked_at}", size=13, color=MUTED),
     ], title="Latest check")
     modes = _card([ft.Column([
-        _text(md.name + (" (governs)" if md.governing else ""), bold=md.governing),
-        _text((f"effective length {md.effective_length} · " if md.effective_length else "")
+        text_line(md.name + (" (governs)" if md.governing else ""), bold=md.governing),
+        text_line((f"effective length {md.effective_length} · " if md.effective_length else "")
               + f"nominal strength {md.strength}", size=14, color=MUTED)],
         spacing=1) for md in chk.modes], title="Every mode")
     out: list[ft.Control] = [summary, modes]
@@ -228,13 +241,13 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
                                  vertical_alignment=ft.CrossAxisAlignment.START)
                           for w in chk.warnings], title="Warnings"))
     steps = [ft.Container(content=ft.Column([
-        _text(f"{s.symbol} = {s.value}", bold=True, selectable=True),
-        _text(s.what, size=14),
-        _text(" · ".join(x for x in (s.formula, s.clause) if x), size=13, color=MUTED)],
+        text_line(f"{s.symbol} = {s.value}", bold=True, selectable=True),
+        text_line(s.what, size=14),
+        text_line(" · ".join(x for x in (s.formula, s.clause) if x), size=13, color=MUTED)],
         spacing=1), padding=ft.Padding.symmetric(vertical=4))
         for s in chk.steps]
     out.append(ft.Container(content=ft.ExpansionTile(
-        title=_text(f"Calculation trace ({len(chk.steps)} steps)", bold=True),
+        title=text_line(f"Calculation trace ({len(chk.steps)} steps)", bold=True),
         controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
         expanded_cross_axis_alignment=ft.CrossAxisAlignment.START,
         maintain_state=False), border=ft.Border.all(1, LINE), border_radius=10,
