@@ -112,6 +112,18 @@ def test_column_detail_matches_aisc_e3(demo):
     assert d.caution.startswith("fieldcol is an aid to")
 
 
+def test_condition_and_loss_in_site_units(demo):
+    store, site = demo
+    lines = dict((x.label, x.value) for x in m.column_detail(
+        store, _col(store, site, "B/2-G")).record)
+    assert lines["Condition"] == 'bow 1 1/8"'  # as measured with a string line
+    assert m.column_detail(store, _col(store, site, "B/2-G")).check.governing.startswith(
+        "measured bow")
+    lines = dict((x.label, x.value) for x in m.column_detail(
+        store, _col(store, site, "D/2-G")).record)
+    assert lines["Section"] == "HP10X42 with loss" and "0.33 in" in lines["Section loss"]
+
+
 def test_trace_values_carry_site_units(demo):
     store, site = demo
     steps = m.column_detail(store, _col(store, site, "C/3-G")).check.steps

@@ -446,7 +446,9 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
               Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
-        record.append(Line("Condition", _describe(cond)))
+        record.append(Line("Condition", ", ".join(
+            f"{k} {_length_text(x, system) if k in ('bow', 'plumb') else _describe(x)}"
+            for k, x in cond.items())))
     section = rec.get("section")
     if isinstance(section, dict) and section.get("loss"):
         record.append(Line("Section loss", _describe(section["loss"])))

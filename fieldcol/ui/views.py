@@ -136,12 +136,15 @@ def sites_body(cards: list[m.SiteCard], open_site: Callable[[str], Handler]) -> 
                    wrap=True, spacing=10),
         ] + ([text_line(f"{c.not_checked} not checked", color=MUTED)] if c.not_checked else []),
             spacing=4)
-        items.append(_tap_row(body, open_site(c.id), f"site-{c.name}",
-                              f"{c.name}: {c.summary}"))
+        card = _tap_row(body, open_site(c.id), f"site-{c.name}", f"{c.name}: {c.summary}")
+        card.col = {"xs": 12, "md": 6}  # two cards a row on a tablet
+        items.append(card)
     if not cards:
         items.append(text_line("No sites yet. Start the app with --demo to see an example site.",
                            color=MUTED))
-    return [text_line("Sites", size=24, bold=True), *items, caution_box()]
+    return [text_line("Sites", size=24, bold=True), ft.ResponsiveRow(items, spacing=12,
+                                                                  run_spacing=12),
+            caution_box()]
 
 
 # -- columns of a site ---------------------------------------------------------------------
