@@ -195,6 +195,25 @@ class ColumnsMixin(SitesMixin):
                           "AND deleted_at IS NULL", [site_id, v.text(tag, "tag")])
         return from_row(Column, rows[0]) if rows else None
 
+    def site_counts(self, site_id: str) -> dict[str, int]:
+        """How many live columns a site has, how many are over capacity and how many have no
+        check yet, by their latest checks (one query, for a site of any size).
+
+        Example:
+            >>> store.site_counts(site.id)
+            {'columns': 1, 'over': 0, 'not_checked': 0}
+        """
+        row = self._rows("""
+            SELECT COUNT(*) AS columns,
+                   COALESCE(SUM(CASE WHEN k.utilization > 1.0 THEN 1 ELSE 0 END), 0) AS over,
+                   COALESCE(SUM(CASE WHEN k.id IS NULL THEN 1 ELSE 0 END), 0) AS not_checked
+            FROM columns c
+            LEFT JOIN checks k ON k.id = (
+                SELECT id FROM checks WHERE column_id = c.id AND deleted_at IS NULL
+                ORDER BY checked_at DESC, created_at DESC LIMIT 1)
+            WHERE c.site_id = ? AND c.deleted_at IS NULL""", [site_id])[0]
+        return {k: int(row[k]) for k in ("columns", "over", "not_checked")}
+
     def list_columns(self, site_id: str | None = None, *, limit: int = 100,
                      offset: int = 0) -> list[ColumnRow]:
         """One page of live columns (all sites, or one), by site name then tag.

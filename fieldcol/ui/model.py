@@ -278,24 +278,12 @@ def _describe(value: Any) -> str:
 
 
 # -- sites and columns ----------------------------------------------------------------------
-def _all_rows(store: "Store", site_id: str) -> list[Any]:
-    rows, offset = [], 0
-    while True:
-        page = store.list_columns(site_id, limit=1000, offset=offset)
-        rows += page
-        if len(page) < 1000:
-            return rows
-        offset += 1000
-
-
-def _card(site: Any, rows: list[Any]) -> SiteCard:
+def _card(site: Any, counts: dict[str, int]) -> SiteCard:
     return SiteCard(
         id=site.id, name=site.name, address=site.address or "",
         code=CODE_NAMES.get(site.code, site.code),
         unit_system=SYSTEM_NAMES.get(site.unit_system, site.unit_system),
-        columns=len(rows),
-        over=sum(1 for r in rows if r.utilization is not None and r.utilization > 1.0),
-        not_checked=sum(1 for r in rows if r.checked_at is None))
+        columns=counts["columns"], over=counts["over"], not_checked=counts["not_checked"])
 
 
 def site_cards(store: "Store") -> list[SiteCard]:
@@ -310,7 +298,7 @@ def site_cards(store: "Store") -> list[SiteCard]:
     Example: ``[c.summary for c in site_cards(store)]`` gives ``['24 columns, 5 over capacity']``
     for the demo store.
     """
-    return [_card(s, _all_rows(store, s.id)) for s in store.list_sites()]
+    return [_card(s, store.site_counts(s.id)) for s in store.list_sites()]
 
 
 def column_page(store: "Store", site_id: str, *, offset: int = 0, limit: int = PAGE) -> ColumnPage:
@@ -338,9 +326,8 @@ def column_page(store: "Store", site_id: str, *, offset: int = 0, limit: int = P
         status=status_of(r.utilization, r.checked_at is not None),
         governing=MODE_NAMES.get(r.governing_mode or "", r.governing_mode or ""))
         for r in rows]
-    # the site card is built from this page only: the sites screen holds the full counts
-    return ColumnPage(site=_card(site, rows), rows=lines, offset=offset, limit=limit,
-                      has_more=more)
+    return ColumnPage(site=_card(site, store.site_counts(site_id)), rows=lines, offset=offset,
+                      limit=limit, has_more=more)
 
 
 # -- one column --------------------------------------------------------------------------
