@@ -148,7 +148,7 @@ class Assessment:
                          "historic": c.material.historic,
                          "Fy": _q(one(self._fy), "MPa"), "E": _q(c.material.E, "MPa"),
                          "G": _q(c.material.G, "MPa")},
-            "lengths": {ax: {"effective_length": _q(L.Lc, "mm"), "K": L.K,
+            "lengths": {ax: {"effective_length": _q(L.Lc, "mm"), "K": _q(L.K, ""),
                              "segment": _q(L.segment, "mm"), "method": L.method,
                              "braces_counted": list(L.braces_used)}
                         for ax, L in self.lengths.items()},
