@@ -24,6 +24,7 @@ from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record
 from fieldcol.stability import (Brace, brace_requirement, buckling_analysis, effective_length,
                                 k_alignment)
 from fieldcol.trace import Step, Trace
+from fieldcol.units import format_length, format_quantity
 
 EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
             "en1993-1-1": "EN 1993-1-1:2005+A1:2014"}
@@ -292,16 +293,16 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     if excess > 0 and not math.isfinite(_first(res.capacity)):
         warnings.append({
             "code": "bow-not-checked",
-            "message": f"measured bow {col.bow:.1f} mm exceeds L/{n:g} = {L / n:.1f} mm, but the "
+            "message": f"measured bow {_show(col, col.bow)} exceeds L/{n:g} = {_show(col, L / n)}, but the "
                        "code's flexural rules do not cover this section: the bow is NOT accounted "
                        "for; no strength is given",
         })
     elif excess > 0:
         warnings.append({
             "code": "bow-over-tolerance",
-            "message": f"measured bow {col.bow:.1f} mm exceeds L/{n:g} = {L / n:.1f} mm, the "
+            "message": f"measured bow {_show(col, col.bow)} exceeds L/{n:g} = {_show(col, L / n)}, the "
                        "out-of-straightness the column curve allows for: the excess "
-                       f"{excess:.1f} mm is checked as an eccentricity (beam-column interaction)",
+                       f"{_show(col, excess)} is checked as an eccentricity (beam-column interaction)",
         })
     return res
 
@@ -404,18 +405,18 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
         Lbr = min(adj)
         Pbr, beta = (float(v) for v in brace_requirement(Pr, Lbr, basis, field=b.field))
         what = "the demand" if given else "the braced design strength"
-        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {b.at:.0f} mm "
+        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {_show(col, b.at)} "
                   f"({ax} axis), Pr = {what}; provided: "
-                  + (f"{b.stiffness:.4g} N/mm" if b.stiffness_given else "rigid (assumed)"),
+                  + (_show(col, b.stiffness, "stiffness") if b.stiffness_given else "rigid (assumed)"),
                   "(1/phi or Omega) 8 Pr / Lbr", beta, "N/mm", "AISC 360-22 App. 6.2")
-        trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {b.at:.0f} mm; provided: "
-                  + (f"{b.strength:.4g} N" if b.strength is not None else "not recorded"),
+        trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {_show(col, b.at)}; provided: "
+                  + (_show(col, b.strength, "force") if b.strength is not None else "not recorded"),
                   "0.01 Pr", Pbr, "N", "AISC 360-22 App. 6.2")
         ok_k = b.stiffness >= beta
         ok_p = b.strength is None or b.strength >= Pbr
         if b.one_way:
             warnings.append({"code": "brace-one-way",
-                             "message": f"the cable at {b.at:.0f} mm on the {ax} axis is a single "
+                             "message": f"the cable at {_show(col, b.at)} on the {ax} axis is a single "
                                         "tension-only member: it holds the column one way only "
                                         "and is not counted (record \"pair\": true for crossed or "
                                         "opposed cables, or \"pretensioned\": true)"})
@@ -427,19 +428,20 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
             model.append((i, k_used))
             if analysis and math.isfinite(b.stiffness):
                 trace.add(f"k_{ax}[{i}]", f"brace stiffness used in the buckling analysis at "
-                          f"{b.at:.0f} mm", "phi k / 2 (ASD: k / (2 Omega))" if reduce < 1 else "k",
+                          f"{_show(col, b.at)}", "phi k / 2 (ASD: k / (2 Omega))" if reduce < 1 else "k",
                           k_used, "N/mm", "AISC 360-22 App. 6.2 (twice the ideal stiffness)")
             if ok_k:
                 continue
         why = []
         if not ok_k:
-            why.append(f"stiffness {b.stiffness:.4g} N/mm < required {beta:.4g} N/mm")
+            why.append(f"stiffness {_show(col, b.stiffness, 'stiffness')} < required "
+                       f"{_show(col, beta, 'stiffness')}")
         if not ok_p:
-            why.append(f"strength {b.strength:.4g} N < required {Pbr:.4g} N")
+            why.append(f"strength {_show(col, b.strength, 'force')} < required {_show(col, Pbr, 'force')}")
         kept = analysis and ok_p
         warnings.append({
             "code": "brace-not-qualified",
-            "message": f"brace at {b.at:.0f} mm on the {ax} axis does not qualify "
+            "message": f"brace at {_show(col, b.at)} on the {ax} axis does not qualify "
                        f"({'; '.join(why)}; AISC 360-22 App. 6.2): "
                        + ("kept in the buckling analysis at its reduced stiffness only" if kept
                           else "not counted as a brace point"),
@@ -455,7 +457,7 @@ def _assumed_rigid(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
             missing = [w for w, gap in (("stiffness", not b.stiffness_given),
                                         ("strength", b.strength is None)) if gap]
             if missing:
-                where.append(f"{ax} axis at {b.at:.0f} mm (no {' or '.join(missing)})")
+                where.append(f"{ax} axis at {_show(col, b.at)} (no {' or '.join(missing)})")
     if where:
         warnings.append({"code": "brace-assumed",
                          "message": "brace values not recorded, taken as rigid and strong "
@@ -491,9 +493,16 @@ def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> Non
     if col.plumb is not None and col.plumb > L / 500:
         warnings.append({
             "code": "plumb-over-tolerance",
-            "message": f"measured out-of-plumb {col.plumb:.1f} mm exceeds L/500 = {L / 500:.1f} mm "
+            "message": f"measured out-of-plumb {_show(col, col.plumb)} exceeds L/500 = {_show(col, L / 500)} "
                        "(AISC 303 erection tolerance): include the sway effect in the frame analysis",
         })
+
+
+def _show(col: ColumnInput, value: float, kind: str = "length") -> str:
+    """A value in the record's display units, for messages the engineer reads."""
+    if kind == "length":
+        return format_length(value, col.units)
+    return format_quantity(value, kind, col.units)
 
 
 def _first(v: Any) -> float:

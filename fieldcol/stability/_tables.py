@@ -218,7 +218,7 @@ def effective_length(L: float, bottom: End | str, top: End | str, braces: Sequen
         segments.append(Segment(cuts[i], cuts[i + 1], n, kind(sb), kind(st), k, k * n))
     gov = max(segments, key=lambda s: s.Lc)
     if trace is not None:
-        trace.add("K", f"effective length factor, segment {gov.bottom:g}-{gov.top:g} mm "
+        trace.add("K", f"effective length factor, segment {gov.bottom / L:.2f} L to {gov.top / L:.2f} L "
                        f"({gov.bottom_end}-{gov.top_end})", "table", gov.K, "", _CLAUSE[basis])
         trace.add("Lc", "effective length (longest K L over the segments)", "max(K_i L_i)",
                   gov.Lc, "mm", "common practice")

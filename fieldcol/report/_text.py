@@ -1,0 +1,317 @@
+"""Words and numbers for the report: quantities in the site's units, status words, records in words.
+
+Everything here turns stored data (a check's JSON, a column record as typed) into plain text;
+nothing draws. Kept apart from the drawing so the wording can be tested and reused alone.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+# engine unit -> fieldcol.units kind, so each value is shown in the site's unit system
+_KIND = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
+         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
+         "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+
+END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
+             "fixed": "fixed (rotation and position held)",
+             "free": "free (neither rotation nor position held)",
+             "guided": "guided (rotation held, free to sway)"}
+
+MODE_WORDS = {"yield": "yielding of the section", "flexural-strong": "flexural buckling, strong axis",
+              "flexural-weak": "flexural buckling, weak axis", "torsional": "torsional buckling",
+              "flexural-torsional": "flexural-torsional buckling", "bow": "measured bow (beam-column)",
+              "local": "local buckling"}
+
+RESTRAINT_KIND_WORDS = {"brace_added": "brace added", "brace_removed": "brace removed",
+                        "cable_found": "cable found", "end_condition_changed": "end condition changed",
+                        "other": "other"}
+
+SEVERITY_ORDER = ("urgent", "high", "medium", "low", "info")
+
+
+def quantity(q: dict[str, Any] | None, system: str, digits: int = 4) -> str:
+    """A ``{"value", "unit"}`` quantity from the engine's JSON in the display system.
+
+    Args:
+        q: the quantity (internal units), or ``None``.
+        system: ``"us"`` or ``"si"``.
+        digits: significant digits.
+
+    Returns:
+        e.g. ``"586 kip"``, ``"24'-0\\""``, ``"6.134 in"``; ``"-"`` when there is no value.
+
+    Example: ``quantity({"value": 4448.2216, "unit": "N"}, "us")`` gives ``'1 kip'``.
+    """
+    from fieldcol.units import display_unit, format_length, format_quantity, to_display
+
+    if q is None or q.get("value") is None:
+        return "-"
+    v, unit = q["value"], q.get("unit", "")
+    if not isinstance(v, (int, float)):
+        return str(v)
+    kind = _KIND.get(unit)
+    if kind == "length" and system == "us":
+        # feet-inches to 1/16 in suit lengths; a radius of gyration needs decimal inches
+        if abs(v) >= 300:
+            return format_length(v, system)
+        return f"{_number(float(to_display(v, 'length', 'us')), digits)} {display_unit('length', 'us')}"
+    if kind:
+        return format_quantity(v, kind, system, digits)
+    return _number(float(v), digits) + (f" {unit}" if unit else "")
+
+
+def _number(x: float, digits: int) -> str:
+    if not math.isfinite(x):
+        return "-"
+    if x == 0:
+        return "0"
+    if abs(x) >= 10 ** digits or abs(x) < 1e-3:
+        return f"{x:.{digits - 1}e}"
+    text = f"{x:.{digits}g}"
+    return text
+
+
+def step_value(step: dict[str, Any], system: str) -> str:
+    """The value of one trace step as text with its unit (flags read ``yes`` / ``no``).
+
+    Example: ``step_value({"symbol": "slender,web", "value": 0.0, "unit": ""}, "us")`` gives ``'no'``.
+    """
+    v = step.get("value")
+    if v is None:
+        return "-"
+    if isinstance(v, str):
+        return v
+    if str(step.get("symbol", "")).startswith("slender") and v in (0.0, 1.0):
+        return "yes" if v else "no"
+    return quantity({"value": v, "unit": step.get("unit", "")}, system)
+
+
+def utilization_text(u: float | None) -> str:
+    """A utilization as printed everywhere in the report: three decimals.
+
+    Example: ``utilization_text(1.109992)`` gives ``'1.110'``.
+    """
+    return "-" if u is None or not math.isfinite(u) else f"{u:.3f}"
+
+
+def status_word(checked: bool, status: str | None, utilization: float | None) -> str:
+    """The status word that always sits beside a check's number (never colour alone).
+
+    Args:
+        checked: whether the column has a saved check.
+        status: the engine's status (``ok``, ``over``, ``no-demand``, ``not-covered``).
+        utilization: the saved utilization.
+
+    Returns:
+        ``OK``, ``OVER``, ``not checked``, ``not covered`` or ``no demand``.
+
+    Example: ``status_word(True, "over", 1.11)`` gives ``'OVER'``.
+    """
+    if not checked:
+        return "not checked"
+    if status == "not-covered":
+        return "not covered"
+    if utilization is None or not math.isfinite(utilization):
+        return "no demand"
+    return "OK" if utilization <= 1.0 else "OVER"
+
+
+def when(iso: str | None) -> str:
+    """A stored UTC timestamp as ``YYYY-MM-DD HH:MM UTC`` (a bare date stays a date).
+
+    Example: ``when("2026-03-03T17:00:00.000000Z")`` gives ``'2026-03-03 17:00 UTC'``.
+    """
+    if not iso:
+        return "-"
+    if len(iso) <= 10:
+        return iso
+    tail = " UTC" if iso.endswith("Z") or iso.endswith("+00:00") else ""
+    return f"{iso[:10]} {iso[11:16]}{tail}"
+
+
+def exif_time(iso: str | None) -> str:
+    """A photo's EXIF time as recorded by the camera, or a plain note that there is none.
+
+    Example: ``exif_time("2026-02-10T11:00:00+00:00")`` gives ``'taken 2026-02-10 11:00:00 +00:00'``.
+    """
+    if not iso:
+        return "no EXIF time"
+    offset = f" {iso[19:]}" if len(iso) > 19 else " (camera clock)"
+    return f"taken {iso[:10]} {iso[11:19]}{offset}"
+
+
+def value_text(v: Any) -> str:
+    """A record value as typed: text stays text, anything else as compact JSON.
+
+    Example: ``value_text({"grade": "A7"})`` gives ``'grade A7'``.
+    """
+    if v is None:
+        return "not recorded"
+    if isinstance(v, str):
+        return v
+    if isinstance(v, bool):
+        return "yes" if v else "no"
+    if isinstance(v, (int, float)):
+        return f"{v:g}"
+    if isinstance(v, dict):
+        return ", ".join(f"{k.replace('_', ' ')} {value_text(x)}" for k, x in v.items())
+    if isinstance(v, list):
+        return "; ".join(value_text(x) for x in v)
+    return json.dumps(v)
+
+
+def section_text(section: Any) -> str:
+    """The record's section in words: a catalogue name, or measured dimensions, loss and plates.
+
+    Example: ``section_text({"shape": "i", "d": "16 in"})`` gives ``'measured I section: d 16 in'``.
+    """
+    if section is None:
+        return "not recorded"
+    if isinstance(section, str):
+        return section
+    if not isinstance(section, dict):
+        return value_text(section)
+    shape = {"i": "I section", "rect": "rectangular hollow section",
+             "round": "round hollow section"}.get(str(section.get("shape")), "section")
+    head = str(section["name"]) if section.get("name") else f"measured {shape}"
+    dims = [f"{k} {value_text(v)}" for k, v in section.items()
+            if k not in ("name", "shape", "loss", "plates", "welded")]
+    if section.get("welded"):
+        dims.append("welded")
+    parts = [head + (": " + ", ".join(dims) if dims else "")]
+    loss = section.get("loss")
+    if isinstance(loss, dict):
+        if "uniform" in loss:
+            parts.append(f"section loss {value_text(loss['uniform'])} per exposed face")
+        rest = {k: x for k, x in loss.items() if k != "uniform"}
+        if rest:
+            parts.append("remaining thickness measured: " + ", ".join(
+                f"{k} {value_text(x)}" for k, x in rest.items()))
+    plates = section.get("plates")
+    if isinstance(plates, dict):
+        parts.append("cover plates on both flanges: " + value_text(plates))
+    return "; ".join(parts)
+
+
+def material_text(material: Any) -> str:
+    """The record's material in words.
+
+    Example: ``material_text({"grade": "A7", "Fy": "35 ksi"})`` gives ``'A7, tested Fy 35 ksi'``.
+    """
+    if isinstance(material, dict):
+        grade = material.get("grade")
+        rest = [f"{'tested ' if grade and k == 'Fy' else ''}{k} {value_text(x)}"
+                for k, x in material.items() if k != "grade"]
+        return ", ".join(([str(grade)] if grade else []) + rest) or "not recorded"
+    return value_text(material)
+
+
+def _end_text(end: Any) -> str:
+    if end is None:
+        return "not recorded"
+    if isinstance(end, str):
+        return END_WORDS.get(end, end)
+    if isinstance(end, dict):
+        return "spring: " + value_text(end)
+    return value_text(end)
+
+
+def brace_text(brace: dict[str, Any]) -> str:
+    """One brace point in words: where, what it is, and whether and when it was added.
+
+    Example: ``brace_text({"at": "12 ft"})`` gives ``'at 12 ft; original (no date of addition recorded)'``.
+    """
+    if not isinstance(brace, dict):
+        return value_text(brace)
+    parts = [f"at {value_text(brace.get('at'))}"]
+    cable = brace.get("cable")
+    if isinstance(cable, dict):
+        parts.append("cable: " + value_text(cable))
+    for key in ("stiffness", "strength"):
+        if key in brace:
+            parts.append(f"{key} {value_text(brace[key])}")
+    for key in ("pair", "pretensioned"):
+        if brace.get(key):
+            parts.append(key)
+    parts.append(f"added: {value_text(brace['added'])}" if brace.get("added")
+                 else "original (no date of addition recorded)")
+    return "; ".join(parts)
+
+
+def restraint_lines(restraints: Any) -> list[tuple[str, str]]:
+    """Each axis's restraints as (label, words): ends, K override, alignment chart, braces.
+
+    Example: ``restraint_lines({"weak": {"bottom": "pinned"}})[0]`` gives
+    ``('weak axis, bottom', 'pinned (free to rotate, held in place)')``.
+    """
+    out: list[tuple[str, str]] = []
+    if not isinstance(restraints, dict) or not restraints:
+        return [("restraints", "not recorded")]
+    for axis in ("strong", "weak", "twist"):
+        spec = restraints.get(axis)
+        if spec is None:
+            continue
+        if not isinstance(spec, dict):
+            out.append((f"{axis} axis", value_text(spec)))
+            continue
+        label = "twist" if axis == "twist" else f"{axis} axis"
+        for end in ("bottom", "top"):
+            if end in spec:
+                out.append((f"{label}, {end}", _end_text(spec[end])))
+        if "k" in spec:
+            out.append((f"{label}, K", f"K taken as {value_text(spec['k'])} (override)"))
+        if "alignment" in spec:
+            out.append((f"{label}, K", "from the alignment chart: " + value_text(spec["alignment"])))
+        braces = spec.get("braces") or []
+        if axis == "twist":
+            for b in braces:
+                out.append((f"{label}, held", brace_text(b)))
+        else:
+            for i, b in enumerate(braces):
+                out.append((f"{label}, brace {i + 1}", brace_text(b)))
+            if not braces:
+                out.append((f"{label}, braces", "none recorded"))
+        for k, v in spec.items():
+            if k not in ("bottom", "top", "k", "alignment", "braces"):
+                out.append((f"{label}, {k}", value_text(v)))
+    return out
+
+
+def demand_text(demand: Any) -> str:
+    """The record's demand in words.
+
+    Example: ``demand_text({"axial": "650 kip", "basis": "lrfd"})`` gives ``'650 kip (LRFD)'``.
+    """
+    if not isinstance(demand, dict):
+        return "none recorded (design strength only)" if demand is None else value_text(demand)
+    if "axial" in demand:
+        basis = str(demand.get("basis", "")).upper()
+        return f"{value_text(demand['axial'])}" + (f" ({basis})" if basis else "")
+    if "loads" in demand:
+        extra = {k: v for k, v in demand.items() if k != "loads"}
+        text = "loads: " + value_text(demand["loads"])
+        return text + ("; " + value_text(extra) if extra else "")
+    return value_text(demand)
+
+
+def condition_text(condition: Any) -> str:
+    """The record's measured condition (bow, plumb) in words.
+
+    Example: ``condition_text({"bow": "1 in", "bow_axis": "weak"})`` gives
+    ``'bow 1 in about the weak axis'``.
+    """
+    if not isinstance(condition, dict) or not condition:
+        return "no bow or out-of-plumb recorded"
+    parts = []
+    if "bow" in condition:
+        axis = condition.get("bow_axis")
+        parts.append(f"bow {value_text(condition['bow'])}"
+                     + (f" about the {axis} axis" if axis else ""))
+    if "plumb" in condition:
+        parts.append(f"out of plumb {value_text(condition['plumb'])}")
+    parts += [f"{k.replace('_', ' ')} {value_text(v)}" for k, v in condition.items()
+              if k not in ("bow", "bow_axis", "plumb")]
+    return "; ".join(parts)

@@ -1,0 +1,237 @@
+"""PDF site reports read back with pypdf: tags, utilizations, status words, findings, caution.
+
+Outside references: pypdf (a general-purpose PDF library from PyPI) reads the file back as any
+reader would; page sizes are ISO 216 A4 (210 x 297 mm) and ANSI US Letter (8.5 x 11 in).
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+import pypdf
+import pytest
+
+from fieldcol import CAUTION
+from fieldcol.assess import assess
+from fieldcol.cli import main
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.errors import InputError
+from fieldcol.report import REPORT_CAUTION, site_report
+from fieldcol.report._layout import ASSETS
+from fieldcol.store import Store
+from fieldcol.units import format_quantity
+
+PT_PER_MM = 72 / 25.4  # 1 pt = 1/72 in (PDF 1.7, ISO 32000-1 8.3.2.3)
+
+
+def _flat(text: str) -> str:
+    # pypdf breaks wrapped lines where the PDF does; compare with whitespace collapsed
+    return re.sub(r"\s+", " ", text).strip()
+
+
+@pytest.fixture(scope="module")
+def demo(tmp_path_factory):
+    """The demo site in a real store, and its full report (written once for the module)."""
+    root = tmp_path_factory.mktemp("report")
+    store = Store(root / "demo.db")
+    build_demo(store)
+    site = store.site_by_name(SITE_NAME)
+    out = site_report(store, site.id, root / "kestrel.pdf", report_date="2026-03-10")
+    reader = pypdf.PdfReader(out)
+    pages = [_flat(p.extract_text()) for p in reader.pages]
+    yield store, site, out, reader, pages
+    store.close()
+
+
+def _column_text(pages: list[str], tag: str) -> str:
+    """The text of a column's section: from its heading to the next column's."""
+    start = next(i for i, t in enumerate(pages) if f"Column {tag} " in t)
+    end = next((i for i in range(start + 1, len(pages)) if " Column " in pages[i]
+                and re.search(r"report date \S+ Column \S+ ", pages[i])), len(pages))
+    return " ".join(pages[start:end])
+
+
+def test_every_tag_caution_and_page_numbers_on_every_page(demo):
+    store, site, out, reader, pages = demo
+    assert out.read_bytes()[:5] == b"%PDF-"
+    n = len(pages)
+    # sane: cover + summary + findings, then at least one page per column, at most ~5 each
+    assert 3 + 24 <= n <= 3 + 24 * 5
+    text = " ".join(pages)
+    for row in store.list_columns(site.id, limit=100):
+        assert f"Column {row.tag} " in text, row.tag
+        assert row.tag in pages[1], row.tag  # the summary table holds every column
+    for i, t in enumerate(pages, start=1):
+        assert CAUTION in t, f"page {i} lacks the caution"
+        assert f"page {i} of {n}" in t, f"page {i} lacks its number"
+        assert SITE_NAME in t and "report date 2026-03-10" in t, f"page {i} lacks its header"
+
+
+def test_cover_holds_site_code_units_counts_and_full_caution(demo):
+    store, site, _, _, pages = demo
+    cover = pages[0]
+    for text in (site.name, site.address, site.owner_ref, "AISC 360-22", "US customary",
+                 "2026-03-10", "fieldcol 0.1.0", _flat(REPORT_CAUTION), "coupon tests"):
+        assert text in cover, text
+    over = store.site_counts(site.id)["over"]
+    assert over == 5  # the demo's five columns over capacity (B/3, C/3, D/2, D/4, F/2)
+    assert f"Over capacity (OVER) {over} of 24" in cover
+
+
+@pytest.mark.parametrize("tag", ["C/3-G", "B/2-G", "A/1-G", "D/4-G", "E/3-M"])
+def test_utilization_printed_equals_the_saved_check(demo, tag):
+    store, site, _, _, pages = demo
+    col = next(r for r in store.list_columns(site.id, limit=100) if r.tag == tag)
+    chk = store.latest_check(col.id)
+    word = "OK" if chk.utilization <= 1.0 else "OVER"
+    shown = f"{chk.utilization:.3f} {word}"
+    section = _column_text(pages, tag)
+    assert f"Column {tag} {shown}" in section
+    assert f"Utilization {shown}" in section
+    # the summary row: tag ... utilization and word on the same line
+    assert re.search(re.escape(tag) + r" .{0,60}?" + re.escape(shown), pages[1]), tag
+    # design strength and demand in the site's units (us: kip), as saved
+    ds = format_quantity(chk.result["design_strength"]["value"], "force", "us")
+    assert f"Design strength {ds}" in section
+    assert ds.endswith(" kip")
+
+
+def test_over_columns_say_over_and_findings_show_their_text(demo):
+    store, site, _, _, pages = demo
+    c3 = _column_text(pages, "C/3-G")
+    assert "1.110 OVER" in c3
+    a1 = _column_text(pages, "A/1-G")
+    assert "OVER" not in a1 and " OK" in a1
+    findings = " ".join(pages[2:5])
+    for f in store.list_findings(site.id):
+        assert _flat(f.text) in findings, f.text
+    strap = next(f for f in store.list_findings(site.id) if f.category == "bracing"
+                 and "Strap" in f.text)
+    assert _flat(strap.text) in c3  # listed in its column's section too
+    # the demo photos carry an EXIF time, printed under their thumbnails
+    assert "taken 2026-02-10 11:00:00 +00:00" in findings
+
+
+def test_column_section_record_trace_and_histories(demo):
+    store, site, _, reader, pages = demo
+    c3 = _column_text(pages, "C/3-G")
+    for text in ("Record as entered", "W14X90", "weak axis, brace 1",
+                 "stiffness 0.6 kip/in; added: 2008 strap to timber partition",
+                 "Every mode", "flexural buckling, weak axis", "Calculation trace",
+                 "AISC 360-22 E3 (E3-1)", "Restraint history", "2008-09-01", "brace added",
+                 "Measurement history", "Warnings", "does not qualify"):
+        assert text in c3, text
+    assert "finding F" in _column_text(pages, "A/2-G")  # its finding's photo, captioned
+    d2 = _column_text(pages, "D/2-G")
+    # the typed mistake and its correction are both kept, and the correction counts
+    assert "0.23 in" in d2 and "0.33 in" in d2 and "corrected by a later entry" in d2
+    # long traces run onto further pages with the table heading repeated
+    repeated = sum(1 for t in pages if re.search(r"report date \S+ Symbol Value What Clause", t))
+    assert repeated >= 10
+    # the bundled fonts are embedded, not a system font
+    fonts = {str(f["/BaseFont"]) for p in reader.pages
+             for f in (p["/Resources"].get("/Font") or {}).values()
+             for f in [f.get_object()]}
+    assert fonts and all("DejaVu" in name for name in fonts), fonts
+
+
+def test_us_site_prints_on_letter(demo):
+    _, _, _, reader, _ = demo
+    box = reader.pages[0].mediabox
+    # ANSI Letter 8.5 x 11 in = 612 x 792 pt
+    assert (round(float(box.width)), round(float(box.height))) == (612, 792)
+
+
+def _si_site(store: Store) -> str:
+    site = store.add_site("Harbour Shed 3", code="en1993-1-1", unit_system="si",
+                          address="Quay Road", owner_ref="HS3-01")
+    pinned = {"bottom": "pinned", "top": "pinned"}
+    base = {"material": "S355", "length": "4.5 m", "code": "en1993-1-1",
+            "restraints": {"strong": pinned, "weak": pinned}, "demand": {"axial": "1500 kN"}}
+    for tag, section in (("K1", "HE 300 B"), ("K2", {"shape": "round", "D": "600 mm",
+                                                     "t": "4 mm"}), ("K3", "HE 200 A")):
+        col = store.add_column(site.id, {"tag": tag, "section": section, **base})
+        if tag != "K3":
+            rec = store.current_record(col.id)
+            store.save_check(col.id, assess(rec).to_dict(), record=rec)
+    return site.id
+
+
+def test_si_site_a4_kn_and_status_words(tmp_path: Path):
+    with Store(tmp_path / "si.db") as store:
+        site_id = _si_site(store)
+        out = site_report(store, site_id, tmp_path / "shed.pdf", report_date="2026-04-01")
+        k1 = store.latest_check(store.list_columns(site_id)[0].id)
+    reader = pypdf.PdfReader(out)
+    box = reader.pages[0].mediabox
+    # ISO 216 A4, 210 x 297 mm
+    assert (round(float(box.width)), round(float(box.height))) == (
+        round(210 * PT_PER_MM), round(297 * PT_PER_MM))
+    text = _flat(" ".join(p.extract_text() for p in reader.pages))
+    assert f"Column K1 {k1.utilization:.3f} OK" in text
+    assert "Column K2 not covered" in text  # a Class 4 CHS: no strength, never a number
+    assert "Column K3 not checked" in text
+    assert "EN 1993-1-1" in text and " kN" in text and "4500 mm" in text
+    assert " kip" not in text
+
+
+def test_columns_subset_and_bad_input(demo, tmp_path: Path):
+    store, site, _, _, _ = demo
+    out = site_report(store, site.id, tmp_path / "two.pdf", columns=["C/3-G", "A/2-G"])
+    text = _flat(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages))
+    assert "Column C/3-G " in text and "Column A/2-G " in text
+    assert "Column A/1-G " not in text and "(chosen from the site's 24)" in text
+    keep = tmp_path / "keep.pdf"
+    keep.write_bytes(b"%PDF- earlier report")
+    for columns, field in ((["C/3-G", "NOPE"], "columns"), (["C/3-G", "C/3-G"], "columns"),
+                           ("C/3-G", "columns")):
+        with pytest.raises(InputError) as e:
+            site_report(store, site.id, keep, columns=columns)
+        assert e.value.field == field
+    assert keep.read_bytes() == b"%PDF- earlier report"  # nothing already saved is lost
+    with pytest.raises(InputError) as e:
+        site_report(store, site.id, tmp_path / "report.txt")
+    assert e.value.field == "out"
+    with pytest.raises(InputError) as e:
+        site_report(store, site.id, tmp_path / "x.pdf", report_date="10/03/2026")
+    assert e.value.field == "report_date"
+    with pytest.raises(InputError) as e:
+        site_report(store, "no-such-id", tmp_path / "x.pdf")
+    assert e.value.field == "site"
+
+
+def test_missing_photo_file_is_said_not_fatal(tmp_path: Path):
+    with Store(tmp_path / "p.db") as store:
+        build_demo(store)
+        site = store.site_by_name(SITE_NAME)
+        col = next(r for r in store.list_columns(site.id) if r.tag == "A/2-G")
+        finding = store.list_findings(site.id, column_id=col.id)[0]
+        photo = store.photos_of(finding_id=finding.id)[0]
+        store.photo_path(photo, thumbnail=True).unlink()
+        out = site_report(store, site.id, tmp_path / "a2.pdf", columns=["A/2-G"])
+    text = _flat(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages))
+    assert "photo file missing on this device" in text
+
+
+def test_cli_writes_the_report_and_names_a_bad_site(demo, tmp_path: Path, capsys):
+    store, _, _, _, _ = demo
+    db = str(store.path)
+    out = tmp_path / "cli.pdf"
+    assert main(["report", "--db", db, "--site", SITE_NAME, str(out), "--column", "F/2-M",
+                 "--date", "2026-03-10"]) == 0
+    cap = capsys.readouterr()
+    assert CAUTION in cap.out and out.read_bytes()[:5] == b"%PDF-"
+    text = _flat(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages))
+    assert "Column F/2-M " in text and "OVER" in text
+    assert main(["report", "--db", db, "--site", "Nowhere", str(tmp_path / "n.pdf")]) == 2
+    err = capsys.readouterr().err
+    assert "site" in err and "Nowhere" in err
+    assert not (tmp_path / "n.pdf").exists()
+
+
+def test_fonts_are_bundled_with_their_licence():
+    fonts = ASSETS / "fonts"
+    for name in ("DejaVuSans.ttf", "DejaVuSans-Bold.ttf"):
+        assert (fonts / name).stat().st_size > 100_000
+    assert "Bitstream" in (fonts / "LICENSE-DejaVu.txt").read_text()
