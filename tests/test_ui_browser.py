@@ -135,14 +135,19 @@ def _shot(page, name: str) -> None:
     page.screenshot(path=str(SHOTS / name))
 
 
-def _type_into(page, identifier: str, text: str) -> None:
-    """Replace the text of an entry and press Enter, once the entry holds exactly ``text``
+def _entry(page, identifier: str):
+    """The text box (``input``, or ``textarea`` for a multi-line entry) inside an entry."""
+    return page.locator(f"{_sel(identifier)} input, {_sel(identifier)} textarea").first
+
+
+def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
+    """Replace the text of an entry (and press Enter), once the entry holds exactly ``text``
     (Flutter may swap the focused input element, so keys sent too early can go astray)."""
-    field = page.locator(f"{_sel(identifier)} input").first
+    field = _entry(page, identifier)
     for _ in range(5):
         field.click(position={"x": 60, "y": 20})  # the top line: the error text sits lower
         _poll(lambda: page.evaluate("document.activeElement && document.activeElement.tagName"),
-              lambda tag: tag == "INPUT", f"focus in {identifier}")
+              lambda tag: tag in ("INPUT", "TEXTAREA"), f"focus in {identifier}")
         page.keyboard.press("Control+A")
         page.keyboard.type(text)
         try:
@@ -153,7 +158,8 @@ def _type_into(page, identifier: str, text: str) -> None:
             continue
     else:
         raise AssertionError(f"could not type {text!r} into {identifier}")
-    page.keyboard.press("Enter")
+    if enter:
+        page.keyboard.press("Enter")
 
 
 def test_phone_open_an_over_column_and_edit_its_length(server, browser):
@@ -249,4 +255,183 @@ def test_tablet_two_panes(server, browser):
     demand = page.locator(f"{_sel('field-demand')} input").first
     _poll(lambda: demand.get_attribute("aria-description") or "",
           lambda d: "9 parsecs" in d, "the refused entry and its error survive the resize")
+    page.context.close()
+
+
+# -- findings, photos, history, retrofit options ---------------------------------------------
+def _tab(page, name: str) -> None:
+    """Show a tab of the column screen and wait until it says it is shown."""
+    tab = _wait(page, f"tab-{name}")
+    tab.click()
+    try:
+        _poll(lambda: _words(page, f"tab-{name}"), lambda t: "(shown)" in t,
+              f"the {name} tab shown")
+    except AssertionError:
+        SHOTS.mkdir(parents=True, exist_ok=True)
+        page.screenshot(path=str(SHOTS / f"failed-tab-{name}.png"))
+        (SHOTS / f"failed-tab-{name}.html").write_text(page.content())
+        raise
+
+
+def _words(page, identifier: str) -> str:
+    """Every word a control offers a screen reader: its text and the labels inside it
+    (Flutter puts some in ``aria-label``, e.g. on a card holding selectable text)."""
+    return page.locator(_sel(identifier)).first.evaluate(
+        "e => [e.innerText, ...[e, ...e.querySelectorAll('[aria-label]')]"
+        ".map(x => x.getAttribute('aria-label'))].filter(Boolean).join(' ')",
+        timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
+
+
+def _scroll_to(page, identifier: str, x: float = 195):
+    """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view."""
+    loc = page.locator(_sel(identifier)).first
+    height = page.viewport_size["height"]
+    page.mouse.move(x, height * 0.6)
+    for _ in range(30):
+        box = loc.bounding_box() if page.locator(_sel(identifier)).count() else None
+        if box and box["y"] >= 56 and box["y"] + box["height"] <= height:
+            return loc
+        page.mouse.wheel(0, 300 if box is None or box["y"] > 56 else -300)
+        time.sleep(0.2)
+    raise AssertionError(f"could not scroll {identifier} into view")
+
+
+def _drawn(page, identifier: str) -> float:
+    """How much the pixels inside a control vary (0 for a blank box): an image was drawn."""
+    import io
+
+    from PIL import Image, ImageStat
+
+    png = page.locator(_sel(identifier)).first.screenshot()
+    return max(ImageStat.Stat(Image.open(io.BytesIO(png)).convert("L")).stddev)
+
+
+def test_phone_findings_photo_history_and_a_new_finding(server, browser):
+    page = _open(browser, server, PHONE)
+    _wait(page, "site-Kestrel Lane Print Works").click()
+    _wait(page, "column-A/2-G").click()
+    _wait(page, "status")
+    _tab(page, "findings")
+    _wait(page, "finding-0")
+    _poll(lambda: _words(page, "finding-0"),
+          lambda t: "Base of column heavily corroded" in t and "high" in t and "open" in t,
+          "the finding's words")
+    photo = _wait(page, "photo-f0-0")
+    assert "taken 2026-02-10 11:00" in _words(page, "photo-f0-0")
+    box = photo.bounding_box()
+    assert box and box["width"] >= 48 and box["height"] >= 48, box
+    # the thumbnail is drawn (the demo photo is a grey column on a lighter wall, not a blank)
+    _poll(lambda: _drawn(page, "photo-f0-0"), lambda sd: sd > 20, "the thumbnail drawn")
+    _shot(page, "phone-findings.png")
+    photo.click()
+    _wait(page, "photo-large")
+    _poll(lambda: _drawn(page, "photo-large"), lambda sd: sd > 20, "the large photo drawn")
+    _shot(page, "phone-photo.png")
+    _wait(page, "photo-close").click()
+    _poll(lambda: page.locator(_sel("photo-large")).count(), lambda k: k == 0, "dialog closed")
+
+    # a bad entry (nothing typed): the error is at the field and nothing is listed
+    _wait(page, "new-finding").click()
+    _wait(page, "add-finding").click()
+    _poll(lambda: _entry(page, "finding-text").get_attribute("aria-description") or "",
+          lambda d: d.startswith("text: "), "the error at the finding's text")
+    _poll(lambda: _entry(page, "finding-category").get_attribute("aria-description") or "",
+          lambda d: d.startswith("category: "), "the error at the category")
+    assert _wait(page, "severity-error").inner_text().startswith("severity: ")
+    assert "not saved" in _wait(page, "finding-note").inner_text()
+    assert page.locator(_sel("finding-1")).count() == 0
+    _shot(page, "phone-finding-error.png")
+
+    # a good entry: saved at once, listed first, still there after a reload
+    words = f"Paint blistered at the splice, check {time.monotonic_ns() % 100000}"
+    _type_into(page, "finding-text", words, enter=False)
+    _type_into(page, "finding-category", "coating", enter=False)
+    _wait(page, "severity-low").click()
+    _poll(lambda: _words(page, "severity-low"), lambda t: "(chosen)" in t, "severity chosen")
+    _wait(page, "add-finding").click()
+    _poll(lambda: _wait(page, "finding-note").inner_text(), lambda t: "Saved finding" in t,
+          "the save note")
+    _poll(lambda: _words(page, "finding-0"),
+          lambda t: words in t and "low, open, coating" in t, "the new finding first")
+    _shot(page, "phone-finding-saved.png")
+    # opened again in a new session at the column's own address (a reload): read from the store
+    route = urlparse(page.url).path
+    assert route.startswith("/columns/"), page.url
+    assert all(urlparse(u).hostname not in ("127.0.0.1", "localhost") for u in page.refused)
+    page.context.close()
+    page = _open(browser, server, PHONE, route)
+    _wait(page, "status")
+    _tab(page, "findings")
+    _poll(lambda: _words(page, "finding-0") + " " + _words(page, "finding-1"),
+          lambda t: words in t and "Base of column" in t, "both findings after a reload")
+
+    # history: the reading as typed, who took it and when
+    _tab(page, "history")
+    _wait(page, "reading-0")
+    _poll(lambda: _words(page, "reading-0"),
+          lambda t: "typed 0.48 in" in t and "R. Amadi" in t and "in use" in t, "the reading")
+    _shot(page, "phone-history.png")
+    box = page.locator(_sel("tab-check")).first.bounding_box()
+    assert box and box["height"] >= 48 and box["width"] >= 48, box
+    assert all(urlparse(u).hostname not in ("127.0.0.1", "localhost") for u in page.refused)
+    page.context.close()
+
+
+def test_phone_corrected_reading_and_retrofit(server, browser):
+    page = _open(browser, server, PHONE)
+    _wait(page, "site-Kestrel Lane Print Works").click()
+    _wait(page, "column-A/1-G")
+    _scroll_to(page, "column-D/2-G").click()
+    _wait(page, "status")
+    _tab(page, "history")
+    _wait(page, "reading-1")
+    _poll(lambda: _words(page, "reading-0"),
+          lambda t: "typed 0.23 in" in t and "CORRECTED" in t, "the corrected reading, marked")
+    assert "corrects the reading typed 0.23 in" in _words(page, "reading-1")
+    _shot(page, "phone-history-corrected.png")
+    _tab(page, "retrofit")
+    assert "licensed engineer" in _wait(page, "caution").inner_text()
+    assert page.locator(_sel("retrofit-0")).count() == 0  # D/2-G has no saved option
+    # C/3-G has one: before -> after on a phone, with the caution
+    _wait(page, "back").click()
+    _wait(page, "column-A/1-G")
+    _scroll_to(page, "column-C/3-G").click()
+    _wait(page, "status")
+    _tab(page, "retrofit")
+    _wait(page, "retrofit-0-line")
+    _poll(lambda: _words(page, "retrofit-0-line"),
+          lambda t: re.search(r"Utilization 1\.11 OVER -> \d\.\d\d OK", t) is not None,
+          "the before -> after line")
+    assert "licensed engineer" in _wait(page, "caution").inner_text()
+    _shot(page, "phone-retrofit.png")
+    page.context.close()
+
+
+def test_tablet_retrofit_before_after_and_findings(server, browser):
+    page = _open(browser, server, TABLET)
+    _wait(page, "site-Kestrel Lane Print Works").click()
+    page.locator(_sel("column-C/3-G")).first.click()
+    _wait(page, "status")
+    _tab(page, "retrofit")
+    _wait(page, "retrofit-0-line")
+    text = _poll(lambda: _words(page, "retrofit-0-line"), lambda t: "->" in t,
+                 "the before -> after line")
+    m = re.search(r"Design strength (\d+(\.\d+)?) kip -> (\d+(\.\d+)?) kip", text)
+    assert m and float(m.group(3)) > float(m.group(1)), text
+    assert re.search(r"Utilization 1\.11 OVER -> \d\.\d\d OK for demand 650 kip", text), text
+    assert CAUTION in _wait(page, "caution").inner_text()
+    _shot(page, "tablet-retrofit.png")
+    _tab(page, "findings")
+    _wait(page, "finding-0")
+    _poll(lambda: _words(page, "finding-0"), lambda t: "Strap brace" in t, "the finding")
+    _poll(lambda: _drawn(page, "photo-f0-0"), lambda sd: sd > 20, "the thumbnail drawn")
+    _shot(page, "tablet-findings.png")
+    _tab(page, "history")
+    _wait(page, "change-0")
+    _poll(lambda: _words(page, "change-0"),
+          lambda t: "2008-09-01" in t and "brace added" in t and "R. Amadi" in t, "the change")
+    _shot(page, "tablet-history.png")
+    for ident in ("tab-check", "tab-findings", "tab-history", "tab-retrofit"):
+        box = page.locator(_sel(ident)).first.bounding_box()
+        assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
     page.context.close()
