@@ -29,8 +29,10 @@ def _fe(geom, area: float) -> dict[str, float]:
         sec.calculate_warping_properties()
         sec.calculate_plastic_properties()
     ixx, iyy, _ = sec.get_ic()
-    sxx, _syy = sec.get_s()  # plastic moduli
-    return {"A": sec.get_area(), "Ix": ixx, "Iy": iyy, "Zx": sxx, "J": sec.get_j()}
+    zx, zy = sec.get_s()                 # plastic moduli
+    sx, _, sy, _ = sec.get_z()           # elastic moduli (+ and - fibres alike here)
+    return {"A": sec.get_area(), "Ix": ixx, "Iy": iyy, "Zx": zx, "Zy": zy, "Sx": sx, "Sy": sy,
+            "J": sec.get_j(), "Cw": sec.get_gamma()}
 
 
 def _i_geom(s, n_r=8):

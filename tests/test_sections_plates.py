@@ -11,7 +11,6 @@ References:
 
 from __future__ import annotations
 
-import warnings
 
 import numpy as np
 import pytest
@@ -23,24 +22,12 @@ from fieldcol.record import parse_section
 from fieldcol.sections import from_catalogue, i_section, with_loss, with_plates
 
 library = pytest.importorskip("sectionproperties.pre.library")
-analysis = pytest.importorskip("sectionproperties.analysis")
+try:  # one finite-element helper for the section tests
+    from tests.test_sections_fe import _fe
+except ImportError:
+    from test_sections_fe import _fe
 
 IN = 25.4
-
-
-def _fe(geom, area: float) -> dict[str, float]:
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        mesh = geom.create_mesh(mesh_sizes=[area / 300])
-        sec = analysis.Section(mesh)
-        sec.calculate_geometric_properties()
-        sec.calculate_warping_properties()
-        sec.calculate_plastic_properties()
-    ixx, iyy, _ = sec.get_ic()
-    zx, zy = sec.get_s()                 # plastic moduli
-    sx, _, sy, _ = sec.get_z()           # elastic moduli (+ and - fibres alike here)
-    return {"A": sec.get_area(), "Ix": ixx, "Iy": iyy, "Zx": zx, "Zy": zy, "Sx": sx, "Sy": sy,
-            "J": sec.get_j(), "Cw": sec.get_gamma()}
 
 
 def _plated_geom(s0, tp: float, bp: float):
