@@ -32,3 +32,21 @@ class InputError(ValueError):
         """The same error with its field placed under ``prefix`` (``"section" + ".d"``)."""
         field = f"{prefix}.{self.field}" if self.field else prefix
         return InputError(field, self.text, self.reason, self.hint)
+
+
+class StoreBusyError(InputError):
+    """The store stayed locked by another writer past the busy timeout and bounded retries.
+
+    Nothing was saved; the caller may try again (the app shows "not saved" with a retry, the
+    command line exits 2 with this message).
+
+    Example:
+        >>> str(StoreBusyError("site.db"))
+        "db: cannot use 'site.db': the store is busy (another program is writing to it) (try again in a moment)"
+    """
+
+    def __init__(self, path: str, detail: str | None = None):
+        reason = "the store is busy (another program is writing to it)"
+        if detail:
+            reason += f": {detail}"
+        super().__init__("db", path, reason, "try again in a moment")
