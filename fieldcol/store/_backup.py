@@ -2,13 +2,15 @@
 
 The database inside is made with SQLite's online backup API, never by copying the live file
 (a copy taken mid-write, or without its WAL, can be torn). A manifest lists the SHA-256 of
-every file; restore checks each before it touches anything.
+every file; restore checks the whole archive (``fieldcol.store._archive``) before it touches
+anything, and refuses it whole on any fault.
 """
 
 from __future__ import annotations
 
 import json
 import os
+import re
 import sqlite3
 import tempfile
 import zipfile
@@ -19,8 +21,10 @@ from typing import TYPE_CHECKING, Any
 
 from fieldcol.errors import InputError
 from fieldcol.store import _validate as v
+from fieldcol.store._archive import Archive, ManifestShape, member_path, open_archive, staged
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._photos import file_sha256, write_atomic
+from fieldcol.store._paths import photos_dir, resolve_db_path
+from fieldcol.store._photos import _fsync_dir, file_sha256
 from fieldcol.store._schema import DATA_TABLES
 
 if TYPE_CHECKING:
@@ -82,11 +86,13 @@ def backup(store: "Store", out: str | os.PathLike[str]) -> BackupInfo:
         files = {DB_ENTRY: file_sha256(snap)}
         missing, present = [], []
         for rel in rels:
+            # a row naming a file outside the photo folder is never copied into a backup
+            ok = photo_name_ok(rel) or photo_name_ok(rel, thumb=True)
             p = store.photos_dir / rel
-            if p.is_file():
+            if ok and p.is_file():
                 present.append(rel)
                 files[f"photos/{rel}"] = file_sha256(p)
-            else:
+            elif ok:
                 missing.append(rel)
         manifest = {"format": FORMAT, "format_version": FORMAT_VERSION,
                     "app_version": __version__, "schema_version": schema,
@@ -105,7 +111,7 @@ def backup(store: "Store", out: str | os.PathLike[str]) -> BackupInfo:
 
 
 def read_manifest(src: str | os.PathLike[str]) -> dict[str, Any]:
-    """The manifest of a backup file, after checking every file in it against its hash.
+    """The manifest of a backup file, after checking its shape, names, sizes and every hash.
 
     Raises ``InputError`` (field ``backup``) for anything but an intact fieldcol backup.
 
@@ -114,49 +120,23 @@ def read_manifest(src: str | os.PathLike[str]) -> dict[str, Any]:
         >>> read_manifest("site.zip")["counts"]["columns"]
         1
     """
-    import hashlib
-
-    src = Path(src)
-    if not src.is_file():
-        raise InputError("backup", str(src), "no such file", None)
-    try:
-        with zipfile.ZipFile(src) as z:
-            try:
-                manifest = json.loads(z.read("manifest.json"))
-            except KeyError:
-                raise InputError("backup", str(src), "no manifest: not a fieldcol backup",
-                                 None) from None
-            if manifest.get("format") != FORMAT or not isinstance(manifest.get("files"), dict):
-                raise InputError("backup", str(src), "not a fieldcol backup", None)
-            if manifest.get("format_version", 0) > FORMAT_VERSION:
-                raise InputError("backup", str(src), "made by a newer fieldcol",
-                                 "update fieldcol to restore it")
-            names = set(z.namelist()) - {"manifest.json"}
-            listed = set(manifest["files"])
-            if names != listed:
-                raise InputError("backup", str(src), "the files do not match the manifest "
-                                 f"(extra {sorted(names - listed)[:3]}, "
-                                 f"missing {sorted(listed - names)[:3]})", None)
-            for name, want in manifest["files"].items():
-                h = hashlib.sha256()
-                with z.open(name) as f:
-                    for chunk in iter(lambda: f.read(1 << 20), b""):
-                        h.update(chunk)
-                if h.hexdigest() != want:
-                    raise InputError("backup", str(src), f"{name} is damaged (hash differs)",
-                                     "use another copy of the backup")
-                if name.startswith("photos/") and not name.startswith("photos/thumbs/"):
-                    if Path(name).stem != want:
-                        raise InputError("backup", str(src),
-                                         f"{name} does not hold the photo its name says", None)
-    except (zipfile.BadZipFile, json.JSONDecodeError, OSError) as e:
-        raise InputError("backup", str(src), f"cannot read it as a backup ({e})", None) from None
-    return manifest
+    arc = _open(src)
+    with tempfile.TemporaryDirectory(prefix="fieldcol-verify-") as tmp:
+        with staged(arc, Path(tmp) / "x"):
+            pass
+    return arc.manifest
 
 
 def restore(src: str | os.PathLike[str], db: str | os.PathLike[str] | None = None, *,
             force: bool = False) -> BackupInfo:
-    """Restore a backup into the store at ``db``, after verifying every hash.
+    """Restore a backup into the store at ``db``; a faulty backup is refused whole.
+
+    The archive is checked before anything is written where the store lives: the manifest's
+    shape, every member's name (resolved under the photo folder), declared sizes and
+    compression ratio, every SHA-256, SQLite's integrity check of the database, and every photo
+    row (its file must be one this restore writes, or one the backup lists as missing, under
+    our own naming: never a path such as ``/etc/passwd``). Members are unpacked into a folder
+    beside the store and moved into place only when all of it passed.
 
     A store that holds any row is refused unless ``force``; with ``force`` a safety backup of
     it is written first (``<db>.before-restore-<time>.zip``), so nothing is lost. The restored
@@ -176,59 +156,120 @@ def restore(src: str | os.PathLike[str], db: str | os.PathLike[str] | None = Non
     """
     from fieldcol.store._store import Store
 
-    manifest = read_manifest(src)
-    with tempfile.TemporaryDirectory(prefix="fieldcol-restore-") as tmp:
-        with zipfile.ZipFile(src) as z:
-            z.extract(DB_ENTRY, tmp)
-            snap = Path(tmp) / DB_ENTRY
-            check = sqlite3.connect(snap)
+    db_path = resolve_db_path(db)
+    photos = photos_dir(db_path)
+    arc = _open(src, space_for=db_path.parent)
+    with staged(arc, photos) as folder:
+        snap = folder / DB_ENTRY
+        _check_database(arc, snap)
+        target = Store(db_path, create=True)
+        try:
+            safety = None
+            if not target.is_empty():
+                if not force:
+                    raise InputError("db", str(target.path), "the store already holds records",
+                                     "restore into a new file, or use --force "
+                                     "(a safety backup of this store is written first)")
+                stamp = datetime.now(timezone.utc).strftime("%Y%m%dT%H%M%SZ")
+                safety = backup(target, target.path.with_name(
+                    f"{target.path.name}.before-restore-{stamp}.zip")).path
+            photo_names = [n for n in arc.files if n.startswith("photos/")]
+            for name in photo_names:  # files first: rows must never point at nothing
+                rel = name[len("photos/"):]
+                dest = member_path(target.photos_dir, rel, "backup", str(arc.path))
+                if not dest.is_file() or file_sha256(dest) != arc.files[name]:
+                    dest.parent.mkdir(parents=True, exist_ok=True)
+                    os.replace(folder / name, dest)
+                    _fsync_dir(dest.parent)
+            device = target.device_id
+            source = sqlite3.connect(snap)
             try:
-                ok = check.execute("PRAGMA integrity_check").fetchone()[0]
-                applied = [r[0] for r in check.execute(
-                    "SELECT name FROM _sqlite_migrations WHERE migration_set = 'fieldcol'")]
-            except sqlite3.DatabaseError as e:
-                raise InputError("backup", str(src), f"its database is unreadable ({e})",
-                                 None) from None
+                with target._lock:
+                    source.backup(target.db.conn)
             finally:
-                check.close()
-            if ok != "ok":
-                raise InputError("backup", str(src), f"its database is damaged ({ok})", None)
-            newer = [n for n in applied if n not in MIGRATION_NAMES]
-            if newer:
-                raise InputError("backup", str(src), "made by a newer fieldcol",
-                                 "update fieldcol to restore it")
-            target = Store(db, create=True)
-            try:
-                safety = None
-                if not target.is_empty():
-                    if not force:
-                        raise InputError("db", str(target.path),
-                                         "the store already holds records",
-                                         "restore into a new file, or use --force "
-                                         "(a safety backup of this store is written first)")
-                    stamp = datetime.now(timezone.utc).strftime("%Y%m%dT%H%M%SZ")
-                    safety = backup(target, target.path.with_name(
-                        f"{target.path.name}.before-restore-{stamp}.zip")).path
-                photo_names = [n for n in manifest["files"] if n.startswith("photos/")]
-                for name in photo_names:  # files first: rows must never point at nothing
-                    dest = target.photos_dir / name[len("photos/"):]
-                    if not dest.is_file() or file_sha256(dest) != manifest["files"][name]:
-                        write_atomic(dest, z.read(name))
-                device = target.device_id
-                source = sqlite3.connect(snap)
-                try:
-                    with target._lock:
-                        source.backup(target.db.conn)
-                finally:
-                    source.close()
-                with target._tx():
-                    target.db.execute("UPDATE meta SET value = ? WHERE key = 'device_id'",
-                                      [device])
-            finally:
-                target.close()
+                source.close()
+            with target._tx():
+                target.db.execute("UPDATE meta SET value = ? WHERE key = 'device_id'", [device])
+        finally:
+            target.close()
     # reopen: applies any newer schema steps to an older backup and re-checks the settings
-    with Store(db, create=False) as s:
+    with Store(db_path, create=False) as s:
         s.rebuild_search()
         counts = {t: s._rows(f"SELECT count(*) AS n FROM {t}")[0]["n"] for t in DATA_TABLES}
         return BackupInfo(s.path, s.schema_version, counts, len(photo_names),
-                          list(manifest.get("missing_photos", [])), safety)
+                          list(arc.manifest.get("missing_photos", [])), safety)
+
+
+#: what a backup's manifest holds besides format, format_version and files
+SHAPE = ManifestShape(FORMAT, FORMAT_VERSION, what="fieldcol backup",
+                      required={"schema_version": int, "counts": dict},
+                      optional={"app_version": str, "created_at": str, "device_id": str,
+                                "missing_photos": list})
+_PHOTO = re.compile(r"(?P<d>[0-9a-f]{2})/(?P<sha>[0-9a-f]{64})\.(jpg|png|webp)")
+_THUMB = re.compile(r"thumbs/(?P<d>[0-9a-f]{2})/(?P<sha>[0-9a-f]{64})\.jpg")
+
+
+def photo_name_ok(rel: str, *, thumb: bool = False) -> bool:
+    """True when ``rel`` is a photo file name as the store writes it (``ab/<sha256>.jpg``).
+
+    Example:
+        >>> photo_name_ok("/etc/passwd"), photo_name_ok("ab/" + "ab" * 32 + ".jpg")
+        (False, True)
+    """
+    m = (_THUMB if thumb else _PHOTO).fullmatch(rel) if isinstance(rel, str) else None
+    return bool(m) and m["sha"][:2] == m["d"]
+
+
+def _open(src: str | os.PathLike[str], space_for: Path | None = None) -> Archive:
+    arc = open_archive(src, SHAPE, field="backup", space_for=space_for)
+    if DB_ENTRY not in arc.files:
+        raise arc.refuse(f"it holds no {DB_ENTRY}")
+    for name, digest in arc.files.items():
+        if name == DB_ENTRY:
+            continue
+        rel = name[len("photos/"):] if name.startswith("photos/") else None
+        if rel is None or not (photo_name_ok(rel) or photo_name_ok(rel, thumb=True)):
+            raise arc.refuse(f"{name!r} is not a file a fieldcol backup holds")
+        if photo_name_ok(rel) and Path(rel).stem != digest:
+            raise arc.refuse(f"{name} does not hold the photo its name says")
+    missing = arc.manifest.get("missing_photos", [])
+    if not all(isinstance(m, str) and (photo_name_ok(m) or photo_name_ok(m, thumb=True))
+               for m in missing):
+        raise arc.refuse("manifest: missing_photos must list photo file names")
+    for table, n in arc.manifest["counts"].items():
+        if not isinstance(n, int) or isinstance(n, bool) or n < 0:
+            raise arc.refuse(f"manifest: counts[{table!r}] must be a whole number")
+    return arc
+
+
+def _check_database(arc: Archive, snap: Path) -> None:
+    """The staged database must be sound, of a schema we know, and name only photo files
+    this restore writes (or the backup lists as missing)."""
+    have = {n[len("photos/"):] for n in arc.files if n.startswith("photos/")}
+    allowed = have | set(arc.manifest.get("missing_photos", []))
+    try:
+        check = sqlite3.connect(f"file:{snap}?mode=ro", uri=True)
+    except sqlite3.Error as e:
+        raise arc.refuse(f"its database is unreadable ({e})") from None
+    try:
+        check.execute("PRAGMA trusted_schema=OFF")
+        ok = check.execute("PRAGMA integrity_check").fetchone()[0]
+        if ok != "ok":
+            raise arc.refuse(f"its database is damaged ({ok})", "use another copy")
+        applied = [r[0] for r in check.execute(
+            "SELECT name FROM _sqlite_migrations WHERE migration_set = 'fieldcol'")]
+        if [n for n in applied if n not in MIGRATION_NAMES]:
+            raise arc.refuse("made by a newer fieldcol", "update fieldcol to restore it")
+        if not applied:
+            raise arc.refuse("its database is not a fieldcol store")
+        for sha, path, thumb in check.execute("SELECT sha256, path, thumb_path FROM photos"):
+            if not (photo_name_ok(path) and photo_name_ok(thumb, thumb=True)
+                    and Path(path).stem == sha and Path(thumb).stem == sha):
+                raise arc.refuse(f"a photo row names a file outside the photo folder "
+                                 f"({str(path)[:80]!r})")
+            if path not in allowed or thumb not in allowed:
+                raise arc.refuse(f"a photo row names a file the backup does not hold ({path})")
+    except sqlite3.DatabaseError as e:
+        raise arc.refuse(f"its database is unreadable ({e})") from None
+    finally:
+        check.close()
