@@ -159,10 +159,16 @@ FINDINGS = [
 
 RETROFITS = [
     ("C/3-G", "Replace the strap with an L3x3x1/4 strut to the new steel partition frame at "
-     "12 ft", {"weak_braces": [{"at": "12 ft", "added": "proposed strut"}]}),
+     "12 ft", {"kind": "combined", "options": [
+         {"kind": "remove_brace", "axis": "weak", "at": "12 ft", "twist": False},
+         {"kind": "brace", "axis": "weak", "at": "12 ft"}]}),
     ("F/2-M", "Add a weak-axis brace at mid-height from the mezzanine edge beam",
-     {"weak_braces": [{"at": "6 ft", "added": "proposed brace"}]}),
+     {"kind": "brace", "axis": "weak", "at": "6 ft"}),
 ]
+# arrows, circles and labels drawn over a demo photo (fractions of the upright picture)
+MARKUP = {"G/1-dent": [{"kind": "circle", "at": [0.44, 0.67], "r": 0.09},
+                       {"kind": "arrow", "from": [0.82, 0.38], "to": [0.5, 0.62]},
+                       {"kind": "label", "at": [0.52, 0.3], "text": "dent, wall flattened"}]}
 
 
 @dataclass
@@ -299,16 +305,15 @@ def build_demo(store: "Store") -> DemoSummary:
                               column_id=cols[tag] if tag else None, finding_id=fid)
             added += 1
             if style:
-                store.add_photo(demo_photo(style, tag, f"{date}T11:00:00"),
-                                original_name=f"{tag.replace('/', '-')}-{style}.jpg",
-                                finding_id=fid, caption=text[:60])
-    for tag, desc, change in RETROFITS:
+                photo = store.add_photo(demo_photo(style, tag, f"{date}T11:00:00"),
+                                        original_name=f"{tag.replace('/', '-')}-{style}.jpg",
+                                        finding_id=fid, caption=text[:60])
+                if key in MARKUP:
+                    store.set_markup(photo.id, MARKUP[key])
+    for tag, desc, option in RETROFITS:
         rid = _id("retrofit", tag)
         if not have("retrofits", rid):
-            base = store.current_record(cols[tag])
-            new = json.loads(json.dumps(base))
-            new["restraints"]["weak"]["braces"] = change["weak_braces"]
-            store.add_retrofit(cols[tag], desc, new, retrofit_id=rid)
+            store.add_retrofit_option(cols[tag], option, description=desc, retrofit_id=rid)
             added += 1
     summary = DemoSummary(site_id, len(cols), 0, added)
     for tag, col_id in cols.items():

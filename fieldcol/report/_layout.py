@@ -14,6 +14,8 @@ from fpdf import FPDF
 from fpdf.enums import XPos, YPos
 from fpdf.fonts import FontFace
 
+from fieldcol.report._marks import draw_markup
+
 ASSETS = Path(__file__).resolve().parents[2] / "assets"
 FONT = "DejaVu"
 INK = (20, 20, 20)
@@ -29,9 +31,11 @@ SMALL_PT = 7.0
 
 @dataclass
 class PhotoCell:
-    """One photo to place: the image file (or None when the file is missing) and its caption."""
+    """One photo to place: the image file (or None when the file is missing), its caption and
+    the markup drawn over it (shapes as fractions of the upright photo)."""
     image: Path | None
     caption: str
+    markup: list[dict] | None = None
 
 
 class ReportPDF(FPDF):
@@ -188,6 +192,9 @@ class ReportPDF(FPDF):
                 if c.image is not None:
                     self.image(str(c.image), x=x, y=y0, w=w, h=h)
                     self.rect(x, y0, w, h)
+                    if c.markup:
+                        draw_markup(self, c.markup, x, y0, w, h, FONT)
+                        self.set_font(FONT, "", SMALL_PT)
                 else:
                     self.set_xy(x, y0)
                     self.multi_cell(width, 4, "photo file missing on this device", border=1,

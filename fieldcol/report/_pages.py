@@ -6,6 +6,7 @@ from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
 from fieldcol.report._layout import GREY, SMALL_PT, PhotoCell, ReportPDF
+from fieldcol.store._schema import FACE_WORDS
 
 if TYPE_CHECKING:
     from fieldcol.report._gather import ColumnData, SiteData
@@ -101,13 +102,21 @@ def _length(text: Any, system: str) -> str:
         return str(text)  # shown as typed: its check names what is wrong with it
 
 
+def _marks_words(shapes: list[dict]) -> str:
+    labels = [f'"{s["text"]}"' for s in shapes if s.get("kind") == "label"]
+    others = sum(s.get("kind") != "label" for s in shapes)
+    return ", ".join(labels + ([f"{others} mark{'s' if others > 1 else ''}"] if others else []))
+
+
 def _photo_cells(store: "Store", photos: list["Photo"], label: str) -> list[PhotoCell]:
     cells = []
     for p in photos:
         path = store.photo_path(p, thumbnail=True)
         name = p.original_name or p.sha256[:12]
+        marked = f", marked up: {_marks_words(p.markup)}" if p.markup else ""
         cells.append(PhotoCell(path if path.is_file() else None,
-                               f"{label}: {name}, {tx.exif_time(p.exif_taken_at)}"))
+                               f"{label}: {name}, {tx.exif_time(p.exif_taken_at)}{marked}",
+                               p.markup))
     return cells
 
 
@@ -130,6 +139,11 @@ def findings(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
         pdf.heading(f"{ref}  {f.severity.upper()}, {f.status}: {f.category}, {where}", 3,
                     keep=keep)
         pdf.para(f.text)
+        if f.face or f.height:
+            pdf.para("where: " + ", ".join(
+                ([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                + ([f"{_length(f.height, data.site.unit_system)} from the bottom"]
+                   if f.height else [])), size=SMALL_PT + 0.5)
         pdf.para(f"noted {tx.when(f.created_at)}", size=SMALL_PT + 0.5, colour=GREY)
         photos = data.finding_photos.get(f.id, [])
         if photos:

@@ -11,9 +11,9 @@ from fieldcol.store import _photos
 from fieldcol.store import _validate as v
 from fieldcol.store._columns import ColumnsMixin
 from fieldcol.store._records import Finding, Photo, PhotoLink, from_row
-from fieldcol.store._schema import FINDING_STATUSES, SEVERITIES
+from fieldcol.store._schema import FACES, FINDING_STATUSES, SEVERITIES
 
-_FINDING_FIELDS = ("text", "category", "severity", "status", "column_id")
+_FINDING_FIELDS = ("text", "category", "severity", "status", "column_id", "face", "height")
 _TOKEN = re.compile(r"\w+", re.UNICODE)
 
 
@@ -38,6 +38,7 @@ class FindingsMixin(ColumnsMixin):
     # -- findings --------------------------------------------------------------------------
     def add_finding(self, site_id: str, text: str, *, category: str, severity: str,
                     column_id: str | None = None, status: str = "open",
+                    face: str | None = None, height: str | None = None,
                     finding_id: str | None = None) -> Finding:
         """Note a finding about a site or one of its columns.
 
@@ -45,6 +46,10 @@ class FindingsMixin(ColumnsMixin):
             text: what was found. category: free text such as ``corrosion``, ``bow``, ``brace``.
             severity: ``info``, ``low``, ``medium``, ``high`` or ``urgent``.
             status: ``open`` or ``closed``.
+            face: which face of the column (``FACES``: ``all``, ``north`` .. ``web``, ``base``,
+                ``top``), or None when not said.
+            height: where up the column, as typed (``"4 ft"``, ``"1.2 m"``), measured from the
+                bottom; not above the top of the column; None when not said.
 
         Example:
             >>> store.add_finding(site.id, "Web dented at 4 ft", category="damage",
@@ -52,9 +57,12 @@ class FindingsMixin(ColumnsMixin):
             'open'
         """
         self._get("sites", site_id, field="site")
-        row = {"site_id": site_id, **self._finding_fields(
-            dict(text=text, category=category, severity=severity, status=status,
-                 column_id=column_id), site_id)}
+        given = dict(text=text, category=category, severity=severity, status=status,
+                     column_id=column_id)
+        # where on the column only when said: a store not yet migrated has no such columns
+        given.update({k: val for k, val in (("face", face), ("height", height))
+                      if val is not None})
+        row = {"site_id": site_id, **self._finding_fields(given, site_id)}
         return self.get_finding(self._insert("findings", row, row_id=finding_id))
 
     def _finding_fields(self, fields: dict, site_id: str) -> dict:
@@ -68,6 +76,10 @@ class FindingsMixin(ColumnsMixin):
                 out[k] = v.choice(val, k, SEVERITIES)
             elif k == "status":
                 out[k] = v.choice(val, k, FINDING_STATUSES)
+            elif k == "face":
+                out[k] = v.choice(val or None, k, FACES, required=False)
+            elif k == "height":
+                out[k] = self._finding_height(val, fields.get("column_id"), site_id)
             elif val is not None:
                 col = self._get("columns", val, field="column")
                 if col["site_id"] != site_id:
@@ -77,14 +89,56 @@ class FindingsMixin(ColumnsMixin):
                 out[k] = None
         return out
 
+    def _finding_height(self, value: object, column_id: str | None,
+                        site_id: str) -> str | None:
+        """The height as typed, checked: a length from the bottom, within the column."""
+        from fieldcol.units import format_length, parse_length
+
+        typed = v.text(value, "height", required=False)
+        if typed is None:
+            return None
+        at = parse_length(typed, "height", allow_zero=True)
+        if column_id is None:
+            return typed
+        try:
+            length = parse_length(self.current_record(column_id).get("length"), "length")
+        except InputError:
+            return typed  # the column's own length is not readable: its check says so
+        if at > length + 2.0:  # 2 mm: finer than a tape reading (common practice)
+            raise InputError("height", typed, "above the top of the column",
+                             f"measure from the bottom; the column is "
+                             f"{format_length(length, self.get_site(site_id).unit_system)} long")
+        return typed
+
+    def check_height(self, column_id: str, height: str | None) -> str | None:
+        """A finding's height as it would be kept: a length from the bottom, within the column.
+
+        Args:
+            column_id: the column.
+            height: as typed (``"4 ft"``, ``"1.2 m"``) or None.
+
+        Returns:
+            The trimmed text, or None; ``InputError`` on field ``height`` when refused.
+
+        Example:
+            >>> store.check_height(col.id, "31 ft")
+            Traceback (most recent call last):
+            fieldcol.errors.InputError: height: cannot use '31 ft': above the top of the column ...
+        """
+        col = self.get_column(column_id)
+        return self._finding_height(height, column_id, col.site_id)
+
     def update_finding(self, finding_id: str, **fields: object) -> Finding:
-        """Change ``text=``, ``category=``, ``severity=``, ``status=`` or ``column_id=``.
+        """Change ``text=``, ``category=``, ``severity=``, ``status=``, ``column_id=``,
+        ``face=`` or ``height=``.
 
         Example:
             >>> store.update_finding(finding.id, status="closed").status
             'closed'
         """
         cur = self._get("findings", finding_id, field="finding")
+        if "height" in fields and "column_id" not in fields:
+            fields = {**fields, "column_id": cur["column_id"]}  # the height is checked on it
         self._update("findings", finding_id, self._finding_fields(dict(fields), cur["site_id"]))
         return self.get_finding(finding_id)
 

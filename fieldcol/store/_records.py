@@ -96,6 +96,8 @@ class Finding(_Row):
     severity: str
     status: str
     column_id: str | None = None
+    face: str | None = None
+    height: str | None = None
 
 
 @dataclass(kw_only=True)
@@ -112,6 +114,7 @@ class Photo(_Row):
     exif_taken_at: str | None = None
     latitude: float | None = None
     longitude: float | None = None
+    markup: list[dict[str, Any]] | None = None
 
 
 @dataclass(kw_only=True)
@@ -146,6 +149,7 @@ class Retrofit(_Row):
     description: str
     record: dict[str, Any]
     status: str
+    option: dict[str, Any] | None = None
 
 
 @dataclass(kw_only=True)
@@ -174,7 +178,7 @@ class ColumnRow:
         return {f.name: getattr(self, f.name) for f in fields(self)}
 
 
-_JSON_FIELDS = {"record", "result", "detail"}
+_JSON_FIELDS = {"record", "result", "detail", "markup", "option"}
 R = TypeVar("R", bound=_Row)
 
 

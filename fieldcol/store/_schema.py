@@ -16,6 +16,11 @@ FINDING_STATUSES = ("open", "closed")
 RESTRAINT_KINDS = ("brace_added", "brace_removed", "cable_found", "end_condition_changed", "other")
 AXES = ("strong", "weak", "twist")
 RETROFIT_STATUSES = ("proposed", "chosen", "rejected", "built")
+#: which part of a column a finding concerns (``all``: the whole column, every face)
+FACES = ("all", "north", "east", "south", "west", "web", "base", "top")
+FACE_WORDS = {"all": "all faces", "north": "north face", "east": "east face",
+              "south": "south face", "west": "west face", "web": "web",
+              "base": "base and base plate", "top": "top and cap"}
 
 #: tables whose rows are records of the engineer's work (bookkeeping columns, tombstones)
 DATA_TABLES = ("sites", "visits", "levels", "columns", "measurements", "restraint_changes",
@@ -151,4 +156,14 @@ CREATE INDEX photo_links_targets ON photo_links(finding_id, column_id, restraint
 CREATE INDEX visits_site ON visits(site_id, date);
 CREATE INDEX restraint_changes_column ON restraint_changes(column_id, date);
 CREATE INDEX retrofits_column ON retrofits(column_id);
+"""
+
+#: version 5 (m005_field_notes): where on the column a finding is (face, height as typed), the
+#: markup drawn over a photo (JSON shapes; the file stays untouched) and a retrofit option kept
+#: as its definition, to be applied to the column as it stands (NULL: an older snapshot row)
+V5_SQL = f"""
+ALTER TABLE findings ADD COLUMN face TEXT CHECK (face IS NULL OR face IN {_in(FACES)});
+ALTER TABLE findings ADD COLUMN height TEXT;
+ALTER TABLE photos ADD COLUMN markup TEXT CHECK (markup IS NULL OR json_valid(markup));
+ALTER TABLE retrofits ADD COLUMN option TEXT CHECK (option IS NULL OR json_valid(option));
 """

@@ -2,10 +2,10 @@
 
 from __future__ import annotations
 
-from fieldcol.store._checks import ChecksMixin
+from fieldcol.store._notes import NotesMixin
 
 
-class Store(ChecksMixin):
+class Store(NotesMixin):
     """The site records on this device, in one SQLite file plus a photo folder beside it.
 
     Every change is committed in its own transaction as it is made (autosave); a failed change
