@@ -91,5 +91,19 @@ class NotesMixin(ChecksMixin):
         return from_row(Retrofit, self._get("retrofits",
                                             self._insert("retrofits", row, row_id=retrofit_id)))
 
+    def restore_retrofit(self, retrofit_id: str) -> Retrofit:
+        """Bring back a dropped (tombstoned) retrofit option: the undo of dropping it.
+
+        Example:
+            >>> r = store.add_retrofit_option(col.id, {"kind": "brace", "axis": "weak",
+            ...                                        "at": "15 ft"})
+            >>> store.delete("retrofits", r.id)
+            >>> store.restore_retrofit(r.id).deleted_at is None
+            True
+        """
+        self._get("retrofits", retrofit_id, field="retrofit", live=False)
+        self._update("retrofits", retrofit_id, {"deleted_at": None})
+        return from_row(Retrofit, self._get("retrofits", retrofit_id))
+
 
 __all__ = ["NotesMixin"]
