@@ -1,11 +1,32 @@
-"""The field app: routes, screens and handlers over one open store.
+"""The field app: routes, screens and the column screen's tabs over one open store.
 
 Routes: ``/`` (sites), ``/sites/<id>`` (a site's columns), ``/columns/<id>`` (one column).
-From ``WIDE`` px up, a site's columns stay beside the column shown (two panes). The column
-screen has four tabs: its check (and edits), findings (with photos and the add form), history
-(restraint changes, readings) and retrofit options (checked when the tab opens).
+From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
+
+The column screen is a row of tabs (``TABS``, in order; identifiers ``tab-<name>``; the row
+scrolls sideways on a phone) over the shown tab's body. Each tab is a class in its own module
+``fieldcol/ui/tab_<name>.py`` (the contract is in ``fieldcol/ui/_tab.py``)::
+
+    class Tab:
+        name: str; label: str
+        def __init__(self, app: FieldApp) -> None
+        async def load(self) -> None          # asyncio.to_thread(fn, app.store, app.detail.id)
+        def controls(self) -> list[ft.Control]
+
+What a tab may use of the app::
+
+    app.store        the open Store (call it only through asyncio.to_thread or app.saver)
+    app.detail       the shown column's model.ColumnDetail (None on the list screens)
+    app.saver        fieldcol.ui.saving.Saver: await app.saver.save(label, do, undo, field)
+    await app.changed()   reload the column (detail, status, its line in the list) after a
+                          saved change, and reload + redraw the open tab
+    app.redraw()     draw the column screen again (no I/O)
+    app.person       the engineer's name (None until set), app.visit_id (the open visit or None)
+    app.open_photo(p)     a click handler that shows a PhotoThumb large
+    app.lock         held while a change is written (saver takes it)
+
 Every store and engine call runs in ``asyncio.to_thread``: the UI loop never waits on SQLite
-or on a check. Entries are saved one at a time (a lock), each as its own transaction.
+or on a check.
 """
 
 from __future__ import annotations
@@ -21,11 +42,22 @@ from fieldcol.ui import model as m
 from fieldcol.ui import notes as n
 from fieldcol.ui import notes_views as nv
 from fieldcol.ui import views as v
+from fieldcol.ui._tab import Tab
+from fieldcol.ui.saving import Saver
+from fieldcol.ui.tab_check import CheckTab
+from fieldcol.ui.tab_condition import ConditionTab
+from fieldcol.ui.tab_findings import FindingsTab
+from fieldcol.ui.tab_history import HistoryTab
+from fieldcol.ui.tab_restraints import RestraintsTab
+from fieldcol.ui.tab_retrofit import RetrofitTab
+from fieldcol.ui.tab_section import SectionTab
 
 if TYPE_CHECKING:
     from fieldcol.store import Store
 
-BG = "#F4F6F8"
+#: the column screen's tabs, in the order shown
+TABS: list[type[Tab]] = [CheckTab, SectionTab, RestraintsTab, ConditionTab, FindingsTab,
+                         RetrofitTab, HistoryTab]
 
 
 class FieldApp:
@@ -43,28 +75,16 @@ class FieldApp:
         self.store = store
         self.lock = asyncio.Lock()
         self.wide = False
+        self.person: str | None = None
+        self.visit_id: str | None = None
         self.columns: m.ColumnPage | None = None
         self.detail: m.ColumnDetail | None = None
-        self.fields: dict[str, ft.TextField] = {}
-        self.failed: dict[str, str] = {}
-        self.check_area = ft.Column(spacing=12)
-        self.record_area = ft.Column(spacing=12)
-        self.note = ft.Text("", size=15, color=v.INK)
-        self.list_pane = ft.Container(width=400)
-        self.recheck_button: ft.Control | None = None
-        self.edit_card: ft.Control = ft.Container()
-        # the column screen's tabs and what they show
+        self.counts: dict[str, int] = {}
         self.tab = "check"
+        self.tabs: dict[str, Tab] = {}
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
-        self.findings: list[n.FindingLine] = []
-        self.history: n.History | None = None
-        self.retrofits: list[n.RetrofitLine] | None = None
-        self.n_retrofits = 0
-        self.retrofit_error: str | None = None
-        self.draft = {"text": "", "category": "", "severity": ""}  # the finding being typed
-        self.draft_errors: dict[str, str | None] = {}
-        self.form_open = False
-        self.finding_note = ft.Text("", size=15, color=v.INK)
+        self.list_pane = ft.Container(width=400)
+        self.saver = Saver(self)
 
     async def start(self) -> None:
         """Set up the page and show the route it opened on.
@@ -74,8 +94,8 @@ class FieldApp:
         p = self.page
         p.title = "fieldcol"
         p.theme_mode = ft.ThemeMode.LIGHT
-        p.theme = ft.Theme(color_scheme_seed="#1C4E9C")
-        p.bgcolor = BG
+        p.theme = ft.Theme(color_scheme_seed=v.ACCENT)
+        p.bgcolor = v.BG
         p.padding = 0
         p.on_route_change = self._on_route
         p.on_resize = self._on_resize
@@ -114,6 +134,7 @@ class FieldApp:
             else:
                 await self._show_sites()
         except InputError as e:  # e.g. an id that no longer exists: say so, keep the app usable
+            self.detail = None
             self._render("/", "fieldcol", [v.text_line(str(e), color=v.TONES["over"][0]),
                                           ft.Button("Back to sites", on_click=self._go("/"),
                                                     height=v.TAP)], None)
@@ -130,17 +151,21 @@ class FieldApp:
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
         bar = ft.AppBar(leading=leading, title=head,
-                        bgcolor="#1C4E9C", automatically_imply_leading=False)
+                        bgcolor=v.ACCENT, automatically_imply_leading=False)
         if isinstance(body, list):
             body = ft.ListView(body, spacing=12, padding=12, expand=True) if scroll \
                 else ft.Column(body, expand=True)
+        # the save bar sits under every screen: in thumb reach, never scrolled away
+        screen = ft.Column([ft.Container(body, expand=True), self.saver.bar], spacing=0,
+                           expand=True)
         self.page.views.clear()
-        self.page.views.append(ft.View(route=route, appbar=bar, controls=[body], padding=0,
-                                       bgcolor=BG))
+        self.page.views.append(ft.View(route=route, appbar=bar, controls=[screen], padding=0,
+                                       bgcolor=v.BG))
         self.page.update()
 
     # -- screens ------------------------------------------------------------------------
     async def _show_sites(self) -> None:
+        self.detail = None
         cards = await asyncio.to_thread(m.site_cards, self.store)
         self._render("/", "fieldcol · Sites",
                      v.sites_body(cards, lambda sid: self._go(f"/sites/{sid}")), None)
@@ -166,6 +191,7 @@ class FieldApp:
                               self._more if self.columns.has_more else None, selected)
 
     async def _show_site(self, site_id: str) -> None:
+        self.detail = None
         self.columns = None  # a fresh list each time the site is opened: checks may be new
         page = await self._load_columns(site_id)
         title = page.site.name
@@ -182,233 +208,83 @@ class FieldApp:
                        ft.Container(right, expand=True)], expand=True, spacing=0,
                       vertical_alignment=ft.CrossAxisAlignment.STRETCH)
 
-    async def _show_column(self, column_id: str) -> None:
-        same = self.detail is not None and self.detail.id == column_id
-        # the same column drawn again (a resize): what is typed but not saved stays
-        typed = {k: (tf.value, tf.error) for k, tf in self.fields.items()} if same else {}
-        failed = self.failed if same else {}
-        self.detail, notes = await asyncio.to_thread(self._load_column, column_id)
-        self.findings, self.history, self.n_retrofits = notes
-        if not same:
-            self.tab, self.retrofits = "check", None
-            self.draft = {"text": "", "category": "", "severity": ""}
-            self.draft_errors = {}
-            self.form_open = False
-            self.finding_note.value = ""
-        d = self.detail
-        note = self.note.value if same else ""
-        pane = self._column_pane(d)
-        self.note.value = note
-        self.failed = failed
-        for name, (value, error) in typed.items():
-            if name in self.fields:
-                self.fields[name].value, self.fields[name].error = value, error
-        if not self.wide:
-            self._render(f"/columns/{column_id}", f"Column {d.tag}", pane,
-                         f"/sites/{d.site_id}", title_id="column-tag")
-            return
-        await self._load_columns(d.site_id)
-        self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
-                     self._two_panes(self._list(selected=d.id), pane), f"/sites/{d.site_id}",
-                     title_id="column-tag")
-
-    def _load_column(self, column_id: str) -> tuple[m.ColumnDetail, tuple]:
-        """(worker thread) The column screen and its findings, history and option count."""
+    def _load_column(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int]]:
+        """(worker thread) The column screen and the numbers beside its tabs."""
         d = m.column_detail(self.store, column_id)
-        return d, (n.column_findings(self.store, column_id),
-                   n.column_history(self.store, column_id),
-                   len(self.store.retrofits(column_id)))
+        opened = len(self.store.list_findings(d.site_id, status="open", column_id=column_id))
+        return d, {"findings": opened, "retrofit": len(self.store.retrofits(column_id))}
 
-    def _column_pane(self, d: m.ColumnDetail) -> ft.Control:
-        self.fields = {}
-        entries: list[ft.Control] = []
-        for f in d.fields:
-            tf = v.edit_field(f, self._save_field)
-            self.fields[f.name] = tf
-            entries.append(ft.Semantics(identifier=f"field-{f.name}", content=tf))
-        self.recheck_button = ft.Semantics(identifier="check-again", content=ft.FilledButton(
-            "Check again", icon=ft.Icons.REFRESH, on_click=self._recheck, height=v.TAP))
-        self.note.value = ""
-        edit = v._card([v.text_line("Saved as you go (Enter or leave the field), then checked "
-                                    "again.", size=14, color=v.MUTED),
-                        *entries, self.recheck_button,
-                        ft.Semantics(identifier="save-note", live_region=True,
-                                     content=self.note)],
-                       title="Edit")
-        self._fill(d)
-        self.edit_card = edit
-        self.pane = ft.ListView(spacing=12, padding=12, expand=True)
-        self._show_tab()
-        return self.pane
-
-    # -- tabs -------------------------------------------------------------------------------
-    def _show_tab(self) -> None:
-        """Fill the column pane with the tag, the tab row and the chosen tab's controls."""
+    async def _show_column(self, column_id: str) -> None:
+        same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
+        self.detail, self.counts = await asyncio.to_thread(self._load_column, column_id)
+        if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
+            self.tabs = {cls.name: cls(self) for cls in TABS}
+            self.tab = "check"
         d = self.detail
-        assert d is not None
-        counts = {"findings": sum(f.status == "open" for f in self.findings),
-                  "retrofit": self.n_retrofits}
-        # the tag is in the title bar: the tabs take the place of a second heading
-        head: list[ft.Control] = [nv.section_tabs(self.tab, counts, self._choose_tab)]
-        if self.tab == "findings":
-            body = nv.findings_body(self.findings, self._finding_form(), self._open_photo,
-                                    self._toggle_finding)
-        elif self.tab == "history":
-            assert self.history is not None
-            body = nv.history_body(self.history, self._open_photo)
-        elif self.tab == "retrofit":
-            body = nv.retrofit_body(self.retrofits, self.retrofit_error)
+        self.pane = ft.ListView(spacing=12, padding=12, expand=True)
+        self.pane.controls = self._pane_controls()
+        if not self.wide:
+            self._render(f"/columns/{column_id}", f"Column {d.tag}", self.pane,
+                         f"/sites/{d.site_id}", title_id="column-tag")
         else:
-            body = [self.check_area, v.caution_box(), self.edit_card, self.record_area]
-        self.pane.controls = head + body
+            await self._load_columns(d.site_id)
+            self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
+                         self._two_panes(self._list(selected=d.id), self.pane),
+                         f"/sites/{d.site_id}", title_id="column-tag")
+        if not same:
+            await self._load_tab()
+
+    # -- the column screen's tabs ---------------------------------------------------------
+    def _pane_controls(self) -> list[ft.Control]:
+        tabs = [(t.name, t.label, t.icon) for t in self.tabs.values()]
+        row = v.tab_row(tabs, self.tab, self.counts, self._choose_tab, wrap=self.wide)
+        return [row, *self.tabs[self.tab].controls()]
+
+    def redraw(self) -> None:
+        """Draw the column screen (tab row and the shown tab) again; no I/O.
+
+        Example: ``app.redraw()`` after a tab changed what it shows.
+        """
+        if self.detail is None or not self.tabs:
+            return
+        self.pane.controls = self._pane_controls()
+        self.page.update()
+
+    async def _load_tab(self) -> None:
+        d, name = self.detail, self.tab
+        if d is None:
+            return
+        await self.tabs[name].load()
+        if self.detail is d or (self.detail is not None and self.detail.id == d.id):
+            if self.tab == name:
+                self.redraw()
 
     def _choose_tab(self, name: str) -> Callable[..., Any]:
         async def choose(_e: Any = None) -> None:
             self.tab = name
-            self._show_tab()
-            self.page.update()
-            if name == "retrofit" and self.retrofits is None and self.detail is not None:
-                cid = self.detail.id
-                error = None
-                try:
-                    options = await asyncio.to_thread(n.retrofit_options, self.store, cid)
-                except InputError as e:  # the column as it stands cannot be checked
-                    options, error = [], f"Retrofit options not checked: {e}"
-                if self.detail is None or self.detail.id != cid:
-                    return  # another column was opened meanwhile
-                self.retrofits, self.retrofit_error = options, error
-                if self.tab == "retrofit":
-                    self._show_tab()
-                    self.page.update()
+            self.redraw()
+            await self._load_tab()
         return choose
 
-    # -- findings ---------------------------------------------------------------------------
-    def _finding_form(self) -> ft.Control:
-        note = ft.Semantics(identifier="finding-note", live_region=True,
-                            content=self.finding_note)
-        self.finding_note.visible = bool(self.finding_note.value)  # no gap when silent
-        if not self.form_open:
-            return ft.Column([ft.Semantics(identifier="new-finding", content=ft.FilledButton(
-                "New finding", icon=ft.Icons.ADD, on_click=self._show_form(True),
-                height=v.TAP)), note], spacing=8)
+    async def changed(self) -> None:
+        """Reload after a saved change: the column (detail, status, counts, its line in the
+        list beside it) and the open tab; on a list screen, that screen.
 
-        def keep(key: str) -> Callable[..., Any]:
-            def on_change(e: Any) -> None:
-                self.draft[key] = e.control.value or ""
-                if self.draft_errors.pop(key, None) is not None:  # being corrected
-                    e.control.error = None
-                    e.control.update()
-            return on_change
-
-        text = ft.TextField(label="What was found (required)", value=self.draft["text"],
-                            on_change=keep("text"), multiline=True, min_lines=2, max_lines=5,
-                            text_size=17, color=v.INK, border_color=v.LINE,
-                            error=self.draft_errors.get("text"), error_max_lines=4,
-                            error_style=ft.TextStyle(size=14, color=v.TONES["over"][0]))
-        category = ft.TextField(label="Category", value=self.draft["category"],
-                                on_change=keep("category"), on_submit=self._add_finding,
-                                helper="e.g. corrosion, bow, bracing, damage",
-                                text_size=17, color=v.INK, border_color=v.LINE,
-                                error=self.draft_errors.get("category"), error_max_lines=4,
-                                error_style=ft.TextStyle(size=14, color=v.TONES["over"][0]),
-                                helper_style=ft.TextStyle(size=13, color=v.MUTED))
-        sev_error = self.draft_errors.get("severity")
-        controls: list[ft.Control] = [
-            ft.Semantics(identifier="finding-text", content=text),
-            ft.Semantics(identifier="finding-category", content=category),
-            v.text_line("Severity", size=14, color=v.MUTED),
-            nv.severity_choice(self.draft["severity"], self._choose_severity)]
-        if sev_error:
-            controls.append(ft.Semantics(identifier="severity-error", content=v.text_line(
-                sev_error, size=14, color=v.TONES["over"][0])))
-        controls.append(ft.Row([
-            ft.Semantics(identifier="add-finding", content=ft.FilledButton(
-                "Add finding", icon=ft.Icons.SAVE, on_click=self._add_finding, height=v.TAP)),
-            # hiding the form keeps what is typed: it comes back when the form is opened
-            ft.Semantics(identifier="hide-finding-form", content=ft.TextButton(
-                "Hide form", on_click=self._show_form(False), height=v.TAP))],
-            wrap=True, spacing=8))
-        return ft.Column([v._card(controls, title="New finding"), note], spacing=8)
-
-    def _show_form(self, shown: bool) -> Callable[..., Any]:
-        def show(_e: Any = None) -> None:
-            self.form_open = shown
-            self._show_tab()
-            self.page.update()
-        return show
-
-    def _choose_severity(self, s: str) -> Callable[..., Any]:
-        def choose(_e: Any = None) -> None:
-            self.draft["severity"] = s
-            self.draft_errors.pop("severity", None)
-            self._show_tab()
-            self.page.update()
-        return choose
-
-    async def _add_finding(self, _e: Any = None) -> None:
+        Example: ``await app.changed()`` (``app.saver.save`` calls it after each save).
+        """
         d = self.detail
         if d is None:
+            await self.show(self.page.route or "/")
             return
-        async with self.lock:
-            draft = dict(self.draft)
-            res = await asyncio.to_thread(n.add_finding, self.store, d.id, draft["text"],
-                                          draft["category"], draft["severity"])
-            if self.detail is None or self.detail.id != d.id:
-                return
-            self.findings = res.findings
-            if res.saved:
-                self.draft = {"text": "", "category": "", "severity": ""}
-                self.draft_errors = {}
-                self.form_open = False  # the new finding shows first in the list below
-                self.finding_note.value = f"Saved finding: {draft['text'].strip()}"
-            else:
-                self.draft_errors = dict(res.errors) or {res.error_field or "text": res.error}
-                self.finding_note.value = "Finding not saved: " + "; ".join(
-                    self.draft_errors.values())
-            self._show_tab()
-            self.page.update()
+        try:
+            self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)
+        except InputError:  # the column itself went (deleted): back to its site
+            self.detail = None
+            await self.page.push_route(f"/sites/{d.site_id}")
+            return
+        await self._refresh_list()
+        await self._load_tab()
 
-    def _toggle_finding(self, f: n.FindingLine) -> Callable[..., Any]:
-        async def toggle(_e: Any = None) -> None:
-            d = self.detail
-            if d is None:
-                return
-            new = "open" if f.status == "closed" else "closed"
-            async with self.lock:
-                res = await asyncio.to_thread(n.set_finding_status, self.store, d.id, f.id, new)
-                if self.detail is None or self.detail.id != d.id:
-                    return
-                self.findings = res.findings
-                self.finding_note.value = (f"Finding {'reopened' if new == 'open' else 'closed'}: "
-                                           f"{f.text}") if res.saved else \
-                    f"Not changed: {res.error}"
-                self._show_tab()
-                self.page.update()
-        return toggle
-
-    def _open_photo(self, p: n.PhotoThumb) -> Callable[..., Any]:
-        async def show(_e: Any = None) -> None:
-            try:
-                data = await asyncio.to_thread(n.photo_bytes, self.store, p.id)
-            except InputError as e:  # said in the dialog: the tab shown may have no note line
-                self.page.show_dialog(ft.AlertDialog(
-                    title=v.text_line("Photo not shown", size=16, bold=True),
-                    content=v.text_line(str(e)), actions=[ft.FilledButton(
-                        "Close", on_click=self._close_dialog, height=v.TAP)]))
-                return
-            self.page.show_dialog(nv.photo_dialog(p, data, self._close_dialog))
-        return show
-
-    def _close_dialog(self, _e: Any = None) -> None:
-        self.page.pop_dialog()
-
-    def _fill(self, d: m.ColumnDetail) -> None:
-        body = v.check_body(d)
-        # the summary sits above the caution and the edit area; the rest below them
-        self.check_area.controls = body[:1]
-        self.record_area.controls = body[1:] + v.record_body(d)
-
-    # -- handlers -----------------------------------------------------------------------
     async def _refresh_list(self) -> None:
         """Reload the list beside the column (tablet) so it shows the new check."""
         d = self.detail
@@ -418,60 +294,32 @@ class FieldApp:
         self.columns = await asyncio.to_thread(m.column_page, self.store, d.site_id, limit=limit)
         self.list_pane.content = self._list(selected=d.id)
 
-    async def _save_field(self, e: Any) -> None:
-        tf: ft.TextField = e.control
-        name, text = tf.data, (tf.value or "")
-        d = self.detail
-        if d is None:
-            return
-        async with self.lock:
-            d = self.detail
-            saved = next(f.value for f in d.fields if f.name == name)
-            if text.strip() == saved.strip():
-                if tf.error is not None:  # typed back to the saved value: nothing to report
-                    tf.error = None
-                    self.failed.pop(name, None)
-                    self.page.update()
-                return
-            if self.failed.get(name) == text:
-                return  # the same refused entry (Enter then blur): the error is already shown
-            res = await asyncio.to_thread(m.apply_edit, self.store, d.id, name, text)
-            label = m.EDIT_FIELDS[name][0]
-            if not res.saved:
-                self.failed[name] = text
-                tf.value = text  # the typed text stays for correction
-                tf.error = res.error
-                self.note.value = f"{label} not saved: {res.error}"
-            else:
-                self.failed.pop(name, None)
-                tf.error = None
-                self.detail = res.detail
-                self.retrofits = None  # checked against the old record: check them again
-                assert res.detail is not None and res.detail.check is not None
-                self._fill(res.detail)
-                self.note.value = (f"Saved {label.lower()} {text}; checked again: "
-                                   f"{res.detail.check.status.label}")
-                await self._refresh_list()
-            self.page.update()
+    # -- shared by tabs ---------------------------------------------------------------------
+    def open_photo(self, p: n.PhotoThumb) -> Callable[..., Any]:
+        """A click handler that shows a photo large in a dialog.
 
-    async def _recheck(self, _e: Any = None) -> None:
-        d = self.detail
-        if d is None:
-            return
-        async with self.lock:
-            self.note.value = "Checking..."
-            self.page.update()
+        Args:
+            p: the photo's ``PhotoThumb``.
+
+        Returns:
+            An async handler.
+
+        Example: ``nv.thumbnails(photos, app.open_photo, "f0")``.
+        """
+        async def show(_e: Any = None) -> None:
             try:
-                self.detail = await asyncio.to_thread(m.recheck, self.store, d.id)
-            except InputError as e:
-                self.note.value = f"Not checked: {e}"
-            else:
-                self._fill(self.detail)
-                self.retrofits = None
-                assert self.detail.check is not None
-                self.note.value = f"Checked again: {self.detail.check.status.label}"
-                await self._refresh_list()
-            self.page.update()
+                data = await asyncio.to_thread(n.photo_bytes, self.store, p.id)
+            except InputError as e:  # said in the dialog: the tab shown may have no note line
+                self.page.show_dialog(ft.AlertDialog(
+                    title=v.text_line("Photo not shown", size=17, bold=True),
+                    content=v.text_line(str(e)), actions=[ft.FilledButton(
+                        "Close", on_click=self._close_dialog, height=v.TAP)]))
+                return
+            self.page.show_dialog(nv.photo_dialog(p, data, self._close_dialog))
+        return show
+
+    def _close_dialog(self, _e: Any = None) -> None:
+        self.page.pop_dialog()
 
 
 _STORE: "Store | None" = None  # one store per process, shared by its sessions

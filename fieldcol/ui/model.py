@@ -9,6 +9,7 @@ Public API::
     site_cards(store) -> list[SiteCard]
     column_page(store, site_id, *, offset=0, limit=PAGE) -> ColumnPage
     column_detail(store, column_id) -> ColumnDetail
+    edit_change(column_id, field, text, *, person=None, visit_id=None) -> (do, undo)
     apply_edit(store, column_id, field, text) -> EditResult
     recheck(store, column_id) -> ColumnDetail
     status_of(utilization, checked, status=None) -> Status
@@ -20,7 +21,7 @@ from __future__ import annotations
 import copy
 import math
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Callable
 
 from fieldcol import CAUTION
 from fieldcol.errors import InputError
@@ -492,13 +493,75 @@ def _candidate(store: "Store", column_id: str, name: str, text: str) -> tuple[di
     return stored, current
 
 
+def edit_change(column_id: str, name: str, text: str, *, person: str | None = None,
+                visit_id: str | None = None) -> tuple[Callable[["Store"], ColumnDetail],
+                                                      Callable[["Store"], None]]:
+    """One typed entry of the column screen as a change and its undo, for ``Saver.save``.
+
+    ``do(store)`` reads the entry as typed (units accepted), checks the whole column with it
+    before anything is saved (a bad entry raises ``InputError`` and saves nothing; when the
+    clash lies deeper, e.g. a brace beyond a new length, the reason names the entry), then
+    saves it and the new check and returns the refreshed ``ColumnDetail``. A length is kept as
+    a new measurement (who took it, on which visit); the others change the record.
+    ``undo(store)`` puts back what ``do`` changed (the measurement tombstoned, or the record
+    as it was) and checks the column again.
+
+    Args:
+        column_id: the column.
+        name: ``length``, ``section``, ``material`` or ``demand``.
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+        person, visit_id: who typed it and on which visit (kept with a measurement).
+
+    Returns:
+        ``(do, undo)``.
+
+    Example: ``do, undo = edit_change(col.id, "length", "12 ft"); do(store); undo(store)``.
+    """
+    from fieldcol.assess import assess
+
+    kept: dict[str, Any] = {}
+
+    def do(store: "Store") -> ColumnDetail:
+        typed = text.strip() if isinstance(text, str) else text
+        if not isinstance(typed, str):
+            raise InputError(name, typed, "expected typed text", None)
+        try:
+            stored, current = _candidate(store, column_id, name, typed)
+            result = assess(current)
+        except InputError as e:
+            if e.field.startswith(name):
+                raise
+            # another value clashes with the entry: say which
+            raise InputError(e.field, e.text, f"{e.reason} (with {EDIT_FIELDS[name][0].lower()}"
+                             f" {typed})", e.hint) from None
+        if name == "length":
+            kept["measurement"] = store.add_measurement(
+                column_id, "length", typed, kind="length", taken_by=person, visit_id=visit_id,
+                note="typed on the column screen").id
+        else:
+            kept["record"] = copy.deepcopy(store.get_column(column_id).record)
+            store.update_column(column_id, record=stored)
+        store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
+        return column_detail(store, column_id)
+
+    def undo(store: "Store") -> None:
+        if "measurement" in kept:
+            store.delete("measurements", kept["measurement"])
+        elif "record" in kept:
+            store.update_column(column_id, record=kept["record"])
+        rec = store.current_record(column_id)
+        try:
+            store.save_check(column_id, assess(rec).to_dict(), record=rec)
+        except InputError:
+            pass  # the record as it was could not be checked either: the undo still stands
+
+    return do, undo
+
+
 def apply_edit(store: "Store", column_id: str, name: str, text: str) -> EditResult:
     """Save one typed entry of the column screen and check the column again.
 
-    The entry is read as typed (units accepted), then the whole column is checked with it
-    before anything is saved: a bad entry saves nothing and comes back with the error (its
-    ``error_field`` names the field, which may lie deeper, e.g. a brace beyond a new length).
-    A good length is kept as a new measurement (history kept); the others change the record.
+    The same change as ``edit_change`` (run at once), its outcome as a record.
 
     Args:
         store: an open store.
@@ -507,32 +570,18 @@ def apply_edit(store: "Store", column_id: str, name: str, text: str) -> EditResu
         text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
 
     Returns:
-        An ``EditResult``: ``saved`` with the refreshed ``detail``, or the ``error`` text.
+        An ``EditResult``: ``saved`` with the refreshed ``detail``, or the ``error`` text
+        (its ``error_field`` names the field, which may lie deeper).
 
     Example: ``apply_edit(store, col.id, "length", "12 fr").error`` gives
     ``"length: cannot use '12 fr': unknown length unit 'fr' (...)"`` and saves nothing.
     """
-    from fieldcol.assess import assess
-
-    text = text.strip() if isinstance(text, str) else text
-    if not isinstance(text, str):
-        e = InputError(name, text, "expected typed text", None)
-        return EditResult(name, str(text), False, str(e), e.field)
+    do, _undo = edit_change(column_id, name, text)
     try:
-        stored, current = _candidate(store, column_id, name, text)
-        result = assess(current)
+        detail = do(store)
     except InputError as e:
-        msg = str(e)
-        if not e.field.startswith(name):  # another value clashes with the entry: say which
-            msg += f" (with {EDIT_FIELDS[name][0].lower()} {text})"
-        return EditResult(name, text, False, msg, e.field)
-    if name == "length":
-        store.add_measurement(column_id, "length", text, kind="length",
-                              note="typed on the column screen")
-    else:
-        store.update_column(column_id, record=stored)
-    store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
-    return EditResult(name, text, True, detail=column_detail(store, column_id))
+        return EditResult(name, str(text), False, str(e), e.field)
+    return EditResult(name, text.strip(), True, detail=detail)
 
 
 def recheck(store: "Store", column_id: str) -> ColumnDetail:

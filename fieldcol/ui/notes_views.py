@@ -2,7 +2,7 @@
 
 They render ``fieldcol.ui.notes`` view-models. As in ``views``: touch targets of at least
 48 px, a severity or status is a word + icon (colour only on top), and each control a test or a
-screen reader needs carries a ``Semantics`` identifier (``tab-findings``, ``finding-<n>``,
+screen reader needs carries a ``Semantics`` identifier (``finding-<n>``,
 ``photo-<n>``, ``add-finding``, ``finding-text``, ``severity-<word>``, ``retrofit-<n>`` ...).
 """
 
@@ -14,7 +14,7 @@ import flet as ft
 
 from fieldcol.ui import notes as n
 from fieldcol.ui.views import (
-    INK, LINE, MUTED, TAP, TONES, Handler, _card, caution_box, status_chip, text_line,
+    ACCENT, INK, LINE, MUTED, TAP, TONES, Handler, _card, caution_box, status_chip, text_line,
 )
 
 ICONS = {"info_outline": ft.Icons.INFO_OUTLINE, "low_priority": ft.Icons.LOW_PRIORITY,
@@ -25,58 +25,15 @@ ICONS = {"info_outline": ft.Icons.INFO_OUTLINE, "low_priority": ft.Icons.LOW_PRI
          "cable": ft.Icons.CABLE, "swap_vert": ft.Icons.SWAP_VERT, "edit_note": ft.Icons.EDIT_NOTE}
 # severity tones: the word and icon say it, the tint only helps
 SEVERITY_TONES = {"info": "none", "low": "none", "medium": "none", "high": "over", "urgent": "over"}
-TABS = [("check", "Check", ft.Icons.FACT_CHECK_OUTLINED),
-        ("findings", "Findings", ft.Icons.ASSIGNMENT_LATE_OUTLINED),
-        ("history", "History", ft.Icons.HISTORY),
-        ("retrofit", "Retrofit", ft.Icons.CONSTRUCTION)]
-ACCENT = "#1C4E9C"
 
 
 def _tag(word: str, icon: str, tone: str) -> ft.Control:
     fg, bg, border = TONES[tone]
     return ft.Container(
         content=ft.Row([ft.Icon(ICONS.get(icon, ft.Icons.INFO_OUTLINE), color=fg, size=18),
-                        text_line(word, size=14, bold=True, color=fg)], spacing=4, tight=True),
+                        text_line(word, size=16, bold=True, color=fg)], spacing=4, tight=True),
         bgcolor=bg, border=ft.Border.all(1, border), border_radius=6,
         padding=ft.Padding.symmetric(horizontal=8, vertical=3))
-
-
-def section_tabs(current: str, counts: dict[str, int],
-                 choose: Callable[[str], Handler]) -> ft.Control:
-    """The row that switches the column screen between its check, findings, history and
-    retrofit options (the chosen one is bold, underlined and marked selected).
-
-    Args:
-        current: the tab shown (``check``, ``findings``, ``history``, ``retrofit``).
-        counts: a number to show beside a tab's word (e.g. ``{"findings": 2}``).
-        choose: gives the click handler for a tab name.
-
-    Returns:
-        A row of four 56 px tall buttons (identifiers ``tab-<name>``).
-
-    Example: ``section_tabs("check", {"findings": 1}, lambda name: handler)``.
-    """
-    items: list[ft.Control] = []
-    for name, word, icon in TABS:
-        on = name == current
-        label = word + (f" {counts[name]}" if counts.get(name) else "")
-        said = word + (f", {counts[name]} {'open' if name == 'findings' else 'saved'}"
-                       if counts.get(name) else "")
-        box = ft.Container(
-            content=ft.Column([ft.Icon(icon, color=ACCENT if on else MUTED, size=22),
-                               ft.Text(label, size=13, color=INK if on else MUTED,
-                                       weight=ft.FontWeight.BOLD if on else ft.FontWeight.NORMAL,
-                                       max_lines=1, no_wrap=True)],
-                              spacing=2, tight=True,
-                              horizontal_alignment=ft.CrossAxisAlignment.CENTER),
-            on_click=choose(name), ink=True, height=56, alignment=ft.Alignment.CENTER,
-            bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
-            border=ft.Border.only(bottom=ft.BorderSide(4 if on else 1, ACCENT if on else LINE)))
-        items.append(ft.Container(ft.Semantics(
-            identifier=f"tab-{name}", button=True, selected=on,
-            label=f"{said}{' (shown)' if on else ''}", content=box), expand=1))
-    return ft.Container(ft.Row(items, spacing=0), border_radius=8,
-                        border=ft.Border.all(1, LINE))
 
 
 # -- photos --------------------------------------------------------------------------------
@@ -98,10 +55,10 @@ def thumbnails(photos: list[n.PhotoThumb], open_photo: Callable[[n.PhotoThumb], 
     for i, p in enumerate(photos):
         image: ft.Control = ft.Image(src=p.thumb, width=120, height=120, fit=ft.BoxFit.COVER,
                                      border_radius=6) if p.thumb else \
-            ft.Container(text_line("photo file missing", size=13, color=MUTED), width=120,
+            ft.Container(text_line("photo file missing", size=16, color=MUTED), width=120,
                          height=120, alignment=ft.Alignment.CENTER)
         box = ft.Container(
-            content=ft.Column([image, text_line(p.taken, size=12, color=MUTED)], spacing=2,
+            content=ft.Column([image, text_line(p.taken, size=16, color=MUTED)], spacing=2,
                               tight=True, width=120),
             on_click=open_photo(p), ink=True, padding=4, border=ft.Border.all(1, LINE),
             border_radius=8)
@@ -130,7 +87,7 @@ def photo_dialog(p: n.PhotoThumb, data: bytes, close: Handler) -> ft.AlertDialog
                              content=ft.Column([
                                  ft.Image(src=data, fit=ft.BoxFit.CONTAIN, width=340,
                                           height=420),
-                                 text_line(f"{p.taken} · {p.size}", size=13, color=MUTED)],
+                                 text_line(f"{p.taken} · {p.size}", size=16, color=MUTED)],
                                  tight=True, spacing=6)),
         actions=[ft.Semantics(identifier="photo-close", content=ft.FilledButton(
             "Close", on_click=close, height=TAP))],
@@ -157,10 +114,10 @@ def finding_card(i: int, f: n.FindingLine, open_photo: Callable[[n.PhotoThumb], 
     closed = f.status == "closed"
     head = ft.Row([_tag(f.severity_word, f.severity_icon, SEVERITY_TONES.get(f.severity, "none")),
                    _tag(f.status_word, f.status_icon, "ok" if closed else "none"),
-                   text_line(f.category, size=14, color=MUTED)], wrap=True, spacing=8)
+                   text_line(f.category, size=16, color=MUTED)], wrap=True, spacing=8)
     # not selectable: selectable text would make the card read as a text box
     body: list[ft.Control] = [head, text_line(f.text, color=MUTED if closed else INK),
-                              text_line(f"noted {f.date}", size=13, color=MUTED)]
+                              text_line(f"noted {f.date}", size=16, color=MUTED)]
     if f.photos:
         body.append(thumbnails(f.photos, open_photo, f"f{i}"))
     body.append(ft.Semantics(identifier=f"finding-{i}-toggle", content=ft.OutlinedButton(
@@ -190,7 +147,7 @@ def severity_choice(current: str, choose: Callable[[str], Handler]) -> ft.Contro
         box = ft.Container(
             content=ft.Row([ft.Icon(ft.Icons.CHECK if on else ICONS[icon], size=18,
                                     color=INK if on else MUTED),
-                            text_line(word, size=15, bold=on, color=INK)], spacing=4, tight=True),
+                            text_line(word, size=16, bold=on, color=INK)], spacing=4, tight=True),
             # no alignment: an aligned Container fills the row; the Row centres it in TAP px
             on_click=choose(s), ink=True, height=TAP,
             padding=ft.Padding.symmetric(horizontal=12), border_radius=8,
@@ -222,7 +179,7 @@ def findings_body(findings: list[n.FindingLine], form: ft.Control,
     out: list[ft.Control] = [form, text_line(
         f"{len(findings)} finding{'s' if len(findings) != 1 else ''} on this column, "
         f"{opened} open" if findings else "No findings on this column yet.",
-        size=15, bold=True)]
+        size=16, bold=True)]
     out += [finding_card(i, f, open_photo, toggle(f)) for i, f in enumerate(findings)]
     return out
 
@@ -247,9 +204,9 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
                     text_line(f"{c.date} · {c.kind_word} · {c.axis}", bold=True)],
                    spacing=6, wrap=True),
             text_line(c.description),
-            text_line(c.seen_by, size=14, color=MUTED)]
+            text_line(c.seen_by, size=16, color=MUTED)]
         if c.details:
-            parts.append(text_line(c.details, size=14, color=MUTED))
+            parts.append(text_line(c.details, size=16, color=MUTED))
         if c.photos:
             parts.append(thumbnails(c.photos, open_photo, f"r{i}"))
         changes.append(ft.Semantics(identifier=f"change-{i}", content=ft.Container(
@@ -264,18 +221,18 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
                 "earlier": (ft.Icons.HISTORY, "earlier reading")}[r.state]
         value = f"typed {r.typed}" + ("" if r.value == r.typed else f" = {r.value}")
         parts = [
-            text_line(r.quantity, size=14, color=MUTED),
+            text_line(r.quantity, size=16, color=MUTED),
             ft.Row([text_line(value, bold=True,
                               color=MUTED if corrected else INK),
                     ft.Row([ft.Icon(mark[0], size=18, color=INK),
-                            text_line(mark[1], size=14, bold=corrected)], spacing=3, tight=True)],
+                            text_line(mark[1], size=16, bold=corrected)], spacing=3, tight=True)],
                    wrap=True, spacing=10),
-            text_line(f"{r.who} · {r.when}" + (f" · {r.gauge}" if r.gauge else ""), size=14,
+            text_line(f"{r.who} · {r.when}" + (f" · {r.gauge}" if r.gauge else ""), size=16,
                       color=MUTED)]
         if r.corrects:
-            parts.append(text_line(r.corrects, size=14))
+            parts.append(text_line(r.corrects, size=16))
         if r.note:
-            parts.append(text_line(f"note: {r.note}", size=14, color=MUTED))
+            parts.append(text_line(f"note: {r.note}", size=16, color=MUTED))
         readings.append(ft.Semantics(identifier=f"reading-{i}", content=ft.Container(
             ft.Column(parts, spacing=2), padding=ft.Padding.symmetric(vertical=6))))
     if not readings:
@@ -310,7 +267,7 @@ def retrofit_body(options: list[n.RetrofitLine] | None,
     for i, o in enumerate(options):
         body: list[ft.Control] = [
             text_line(o.description, bold=True),
-            text_line(f"{o.status} · saved {o.saved}", size=13, color=MUTED)]
+            text_line(f"{o.status} · saved {o.saved}", size=16, color=MUTED)]
         if o.error:
             body.append(text_line(o.line, color=TONES["over"][0]))
         else:
@@ -322,12 +279,12 @@ def retrofit_body(options: list[n.RetrofitLine] | None,
                               f"({o.gain})"),
                     text_line(f"Utilization {o.before.label} -> {o.after.label} for demand "
                               f"{o.demand}")], spacing=2)),
-                text_line(f"Governing: {o.governing_before} -> {o.governing_after}", size=14,
+                text_line(f"Governing: {o.governing_before} -> {o.governing_after}", size=16,
                           color=MUTED)]
             for w in o.warnings:
                 body.append(ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color="#7A5B00",
                                             size=20),
-                                    ft.Text(w, size=14, color=INK, expand=True)],
+                                    ft.Text(w, size=16, color=INK, expand=True)],
                                    vertical_alignment=ft.CrossAxisAlignment.START))
         out.append(ft.Semantics(identifier=f"retrofit-{i}", content=_card(body)))
     return out

@@ -20,6 +20,9 @@ WIDE = 768        # from this width up: list and detail side by side
 INK = "#111418"   # body text: near black on white reads in sunlight
 MUTED = "#3C434C"
 LINE = "#9AA3AD"
+ACCENT = "#1C4E9C"  # app bar, the chosen tab
+BG = "#F4F6F8"      # page background
+BAR_BG = "#E8EEF7"  # the save bar
 TONES = {  # (text, background, border) per tone: text contrast >= 7:1 on the background
     "ok": ("#0B5A1E", "#E6F4EA", "#0B5A1E"),
     "over": ("#9C1111", "#FDECEC", "#9C1111"),
@@ -84,7 +87,7 @@ def caution_box() -> ft.Control:
     """
     return ft.Semantics(identifier="caution", content=ft.Container(
         content=ft.Row([ft.Icon(ft.Icons.INFO_OUTLINE, color=INK, size=22),
-                        ft.Text(CAUTION, size=14, color=INK, expand=True)],
+                        ft.Text(CAUTION, size=16, color=INK, expand=True)],
                        vertical_alignment=ft.CrossAxisAlignment.START),
         bgcolor="#FFF6D6", border=ft.Border.all(1, "#7A5B00"), border_radius=8,
         padding=10))
@@ -99,7 +102,7 @@ def _card(controls: list[ft.Control], *, title: str | None = None) -> ft.Contain
 
 
 def _line(line: m.Line) -> ft.Control:
-    return ft.Column([text_line(line.label, size=13, color=MUTED),
+    return ft.Column([text_line(line.label, size=16, color=MUTED),
                       text_line(line.value, selectable=True)],
                      spacing=0)
 
@@ -109,6 +112,49 @@ def _tap_row(content: ft.Control, on_click: Handler, identifier: str, label: str
                        border=ft.Border.all(1, LINE), border_radius=10, bgcolor=ft.Colors.WHITE)
     # padding 12 around at least one 19 px line keeps the target above TAP px
     return ft.Semantics(identifier=identifier, label=label, button=True, content=box)
+
+
+def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict[str, int],
+            choose: Callable[[str], Handler], *, wrap: bool = False) -> ft.Control:
+    """The row of the column screen's tabs: on a phone it scrolls sideways, beside the list on a
+    tablet it wraps onto a second line (every tab in sight).
+
+    The tab shown is bold, underlined, tinted and marked selected; its label says "(shown)".
+
+    Args:
+        tabs: ``(name, label, icon)`` in order.
+        current: the name of the tab shown.
+        counts: a number to show beside a tab's label (e.g. ``{"findings": 2}``).
+        choose: gives the click handler for a tab name.
+        wrap: wrap onto more lines instead of scrolling.
+
+    Returns:
+        A row of 104 (wrapped: 96) x 60 px buttons (identifiers ``tab-<name>``).
+
+    Example: ``tab_row([("check", "Check", ft.Icons.FACT_CHECK)], "check", {}, handler)``.
+    """
+    items: list[ft.Control] = []
+    for name, word, icon in tabs:
+        on = name == current
+        label = word + (f" {counts[name]}" if counts.get(name) else "")
+        said = word + (f", {counts[name]} {'open' if name == 'findings' else 'saved'}"
+                       if counts.get(name) else "")
+        box = ft.Container(
+            content=ft.Column([ft.Icon(icon, color=ACCENT if on else MUTED, size=22),
+                               ft.Text(label, size=16, color=INK if on else MUTED,
+                                       weight=ft.FontWeight.BOLD if on else ft.FontWeight.NORMAL,
+                                       max_lines=1, no_wrap=True)],
+                              spacing=2, tight=True,
+                              horizontal_alignment=ft.CrossAxisAlignment.CENTER),
+            on_click=choose(name), ink=True, height=60, width=96 if wrap else 104,
+            alignment=ft.Alignment.CENTER, bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
+            border=ft.Border.only(bottom=ft.BorderSide(4 if on else 1, ACCENT if on else LINE)))
+        items.append(ft.Semantics(identifier=f"tab-{name}", button=True, selected=on,
+                                  label=f"{said}{' (shown)' if on else ''}", content=box))
+    row = ft.Row(items, spacing=0, wrap=True, run_spacing=0) if wrap else \
+        ft.Row(items, spacing=0, scroll=ft.ScrollMode.AUTO)
+    return ft.Container(row, border_radius=8,
+                        border=ft.Border.all(1, LINE), bgcolor=ft.Colors.WHITE)
 
 
 # -- sites ---------------------------------------------------------------------------------
@@ -131,7 +177,7 @@ def sites_body(cards: list[m.SiteCard], open_site: Callable[[str], Handler]) -> 
         body = ft.Column([
             text_line(c.name, size=20, bold=True),
             text_line(c.address or "no address", color=MUTED),
-            text_line(f"{c.code} · {c.unit_system}", size=14, color=MUTED),
+            text_line(f"{c.code} · {c.unit_system}", size=16, color=MUTED),
             ft.Row([text_line(f"{c.columns} columns", bold=True), status_chip(over)],
                    wrap=True, spacing=10),
         ] + ([text_line(f"{c.not_checked} not checked", color=MUTED)] if c.not_checked else []),
@@ -164,7 +210,7 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
     body = ft.Row([
         ft.Column([text_line(line.tag, size=19, bold=True),
                    text_line(" · ".join(x for x in (line.level, line.section, line.length) if x),
-                         size=14, color=MUTED)],
+                         size=16, color=MUTED)],
                   spacing=2, expand=True),
         status_chip(line.status),
     ], vertical_alignment=ft.CrossAxisAlignment.CENTER)
@@ -196,7 +242,7 @@ def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
         f"first {len(page.rows)} columns shown"
     head: list[ft.Control] = [
         text_line(c.name, size=20, bold=True),
-        text_line(f"{shown} · {c.over} over capacity", size=14, color=MUTED), caution_box()]
+        text_line(f"{shown} · {c.over} over capacity", size=16, color=MUTED), caution_box()]
     rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
     tail: list[ft.Control] = []
     if more is not None:
@@ -230,23 +276,23 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
               f"{chk.design_strength}", size=16, color=INK),
         ft.Semantics(identifier="governing", content=text_line(
             f"Governing: {chk.governing}", bold=True, color=fg)),
-        text_line(f"{chk.code} · checked {chk.checked_at}", size=13, color=MUTED),
+        text_line(f"{chk.code} · checked {chk.checked_at}", size=16, color=MUTED),
     ], title="Latest check")
     modes = _card([ft.Column([
         text_line(md.name + (" (governs)" if md.governing else ""), bold=md.governing),
         text_line((f"effective length {md.effective_length} · " if md.effective_length else "")
-              + f"nominal strength {md.strength}", size=14, color=MUTED)],
+              + f"nominal strength {md.strength}", size=16, color=MUTED)],
         spacing=1) for md in chk.modes], title="Every mode")
     out: list[ft.Control] = [summary, modes]
     if chk.warnings:
         out.append(_card([ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color="#7A5B00"),
-                                  ft.Text(w, size=15, color=INK, expand=True)],
+                                  ft.Text(w, size=16, color=INK, expand=True)],
                                  vertical_alignment=ft.CrossAxisAlignment.START)
                           for w in chk.warnings], title="Warnings"))
     steps = [ft.Container(content=ft.Column([
         text_line(f"{s.symbol} = {s.value}", bold=True, selectable=True),
-        text_line(s.what, size=14),
-        text_line(" · ".join(x for x in (s.formula, s.clause) if x), size=13, color=MUTED)],
+        text_line(s.what, size=16),
+        text_line(" · ".join(x for x in (s.formula, s.clause) if x), size=16, color=MUTED)],
         spacing=1), padding=ft.Padding.symmetric(vertical=4))
         for s in chk.steps]
     out.append(ft.Container(content=ft.ExpansionTile(
@@ -289,5 +335,5 @@ def edit_field(f: m.EditField, on_save: Handler) -> ft.TextField:
                         on_blur=on_save, text_size=18, color=INK, border_color=LINE,
                         content_padding=ft.Padding.symmetric(horizontal=12, vertical=14),
                         error_max_lines=5, helper_max_lines=2, data=f.name,
-                        error_style=ft.TextStyle(size=14, color=TONES["over"][0]),
-                        helper_style=ft.TextStyle(size=13, color=MUTED))
+                        error_style=ft.TextStyle(size=16, color=TONES["over"][0]),
+                        helper_style=ft.TextStyle(size=16, color=MUTED))

@@ -1,0 +1,92 @@
+"""The Check tab of the column screen: the latest check, the caution, the edit card (length,
+section, material, axial demand) and the record in words.
+
+API: ``CheckTab(app)`` with ``name = "check"``; see ``fieldcol.ui._tab``. Its entries save
+through ``app.saver`` (Enter or leaving the entry) with Undo; a refused entry keeps its text
+with the error under it in plain words. Entries typed but not saved survive a redraw (another
+save, a resize): the ``TextField`` objects live as long as the tab.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from fieldcol.ui import model as m
+from fieldcol.ui import views as v
+from fieldcol.ui._tab import Tab
+
+
+class CheckTab(Tab):
+    """The check, the caution and the edits of the column shown.
+
+    Example: ``CheckTab(app).controls()``.
+    """
+    name, label, icon = "check", "Check", ft.Icons.FACT_CHECK_OUTLINED
+
+    def __init__(self, app) -> None:  # noqa: ANN001 (FieldApp, see _tab)
+        super().__init__(app)
+        self.fields: dict[str, ft.TextField] = {}
+        self.saved: dict[str, str] = {}   # the value each entry showed as saved
+        self.failed: dict[str, str] = {}  # the text last refused per entry
+
+    def controls(self) -> list[ft.Control]:
+        """Summary, caution, edit card, then modes, warnings, trace and the record.
+
+        Example: ``tab.controls()``.
+        """
+        d = self.app.detail
+        assert d is not None
+        entries: list[ft.Control] = []
+        for f in d.fields:
+            tf = self.fields.get(f.name)
+            if tf is None:
+                tf = self.fields[f.name] = v.edit_field(f, self._save)
+            elif (tf.value or "") == self.saved.get(f.name, "") and not tf.error:
+                tf.value = f.value  # untouched: show the value as saved now
+            self.saved[f.name] = f.value
+            entries.append(ft.Semantics(identifier=f"field-{f.name}", content=tf))
+        recheck = ft.Semantics(identifier="check-again", content=ft.FilledButton(
+            "Check again", icon=ft.Icons.REFRESH, on_click=self._recheck, height=v.TAP))
+        edit = v._card([v.text_line("Saved when you press Enter or leave the entry, then "
+                                    "checked again; Undo in the bar below.", color=v.MUTED),
+                        *entries, recheck], title="Edit")
+        body = v.check_body(d)
+        return [*body[:1], v.caution_box(), edit, *body[1:], *v.record_body(d)]
+
+    async def _save(self, e: Any) -> None:
+        tf: ft.TextField = e.control
+        name, text = tf.data, (tf.value or "")
+        app, d = self.app, self.app.detail
+        if d is None:
+            return
+        saved = next(f.value for f in d.fields if f.name == name)
+        if text.strip() == saved.strip():
+            if tf.error is not None:  # typed back to the saved value: nothing to report
+                tf.error = None
+                self.failed.pop(name, None)
+                app.page.update()
+            return
+        if self.failed.get(name) == text:
+            return  # the same refused entry (Enter then blur): the error is already shown
+        label = m.EDIT_FIELDS[name][0].lower()
+        do, undo = m.edit_change(d.id, name, text, person=app.person, visit_id=app.visit_id)
+        res = await app.saver.save(
+            f"{label} {text.strip()}", do, undo, tf,
+            done=lambda r: f"Saved {label} {text.strip()}; checked again: "
+                           f"{r.check.status.label if r.check else 'not checked'}")
+        if res is None and tf.error:
+            self.failed[name] = text
+        else:
+            self.failed.pop(name, None)
+
+    async def _recheck(self, _e: Any = None) -> None:
+        app, d = self.app, self.app.detail
+        if d is None:
+            return
+        app.saver.say("Checking...", kind="info")
+        cid = d.id
+        await app.saver.save("check", lambda s: m.recheck(s, cid),
+                             done=lambda r: "Checked again: " + (
+                                 r.check.status.label if r.check else "not checked"))

@@ -1,0 +1,317 @@
+"""The app's control trees in-process: a real store file, a Flet session with no browser.
+
+The fake client below is the only place that touches Flet's internal session API (kept in this
+one module): it encodes every message as the real transport does (the encoding records the
+snapshots Flet diffs against) and answers ``push_route`` as a browser would, by setting the
+route and firing ``route_change``.
+
+The busy store is real: a second process holds SQLite's write lock on the same file.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import subprocess
+import sys
+import textwrap
+from concurrent.futures import ThreadPoolExecutor
+from typing import Any, Iterator
+
+import msgpack
+import pytest
+
+import flet as ft
+from flet.controls.base_control import BaseControl
+from flet.controls.context import _context_page
+from flet.messaging.connection import Connection
+from flet.messaging.protocol import MessageAction, configure_encode_object_for_msgpack
+from flet.messaging.session import Session
+from flet.pubsub.pubsub_hub import PubSubHub
+
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.store import _base, open_store
+from fieldcol.ui.app import TABS, FieldApp
+
+
+class _Client(Connection):
+    def __init__(self, loop: asyncio.AbstractEventLoop) -> None:
+        super().__init__()
+        self.loop = loop
+        self.executor = ThreadPoolExecutor(2)
+        self.pubsubhub = PubSubHub(loop=loop, executor=self.executor)
+        self.session: Session | None = None
+        self.tasks: list[asyncio.Task] = []
+        self._encode = configure_encode_object_for_msgpack(BaseControl)
+
+    def send_message(self, message: Any) -> None:
+        msgpack.packb([message.action.value, message.body], default=self._encode)
+        if message.action == MessageAction.INVOKE_METHOD:
+            body = message.body
+            assert self.session is not None
+            self.session.handle_invoke_method_results(body.control_id, body.call_id, None, None)
+            if body.name == "push_route":
+                route = body.args["route"]
+                self.session.apply_page_patch({"route": route})
+                page = self.session.page
+                self.tasks.append(self.loop.create_task(
+                    self.session.dispatch_event(page._i, "route_change", {"route": route})))
+
+
+class Screen:
+    """One app session on a 390 px (or wider) page, driven by taps and typing."""
+
+    def __init__(self, store: Any, width: int = 390) -> None:
+        self.loop = asyncio.get_running_loop()
+        self.client = _Client(self.loop)
+        self.client.page_url = "http://127.0.0.1"
+        self.session = Session(self.client)
+        self.client.session = self.session
+        self.session.apply_page_patch({"route": "/", "web": False, "platform": "android",
+                                       "width": width, "height": 844})
+        self.page = self.session.page
+        # what a client gets when it registers, encoded as sent (that records the snapshots)
+        msgpack.packb(self.session.get_page_patch(), default=self.client._encode)
+        self.session.start_updates_scheduler()
+        _context_page.set(self.page)
+        self.app = FieldApp(self.page, store)
+
+    async def start(self) -> None:
+        await self.app.start()
+        await self.settle()
+
+    async def settle(self) -> None:
+        for _ in range(200):
+            await asyncio.sleep(0.01)
+            pending = [t for t in self.client.tasks if not t.done()]
+            if not pending:
+                break
+            await asyncio.wait(pending, timeout=5)
+        await self.session.after_event(self.page)
+
+    def all(self) -> Iterator[Any]:
+        """Every control under the shown view (and the open dialog)."""
+        seen: set[int] = set()
+
+        def walk(c: Any) -> Iterator[Any]:
+            if c is None or id(c) in seen:
+                return
+            seen.add(id(c))
+            yield c
+            for name in ("content", "controls", "leading", "title", "actions", "appbar"):
+                child = getattr(c, name, None)
+                if isinstance(child, list):
+                    for x in child:
+                        yield from walk(x)
+                elif isinstance(child, BaseControl):
+                    yield from walk(child)
+        for view in self.page.views:
+            yield from walk(view)
+
+    def find(self, identifier: str) -> Any:
+        for c in self.all():
+            if isinstance(c, ft.Semantics) and c.identifier == identifier:
+                return c
+        raise AssertionError(f"no control {identifier!r} on screen")
+
+    def has(self, identifier: str) -> bool:
+        try:
+            self.find(identifier)
+            return True
+        except AssertionError:
+            return False
+
+    def text(self, identifier: str) -> str:
+        """Every text under a control, joined."""
+        out: list[str] = []
+        seen: set[int] = set()
+
+        def walk(c: Any) -> None:
+            if c is None or id(c) in seen:
+                return
+            seen.add(id(c))
+            if isinstance(c, ft.Text) and c.value:
+                out.append(str(c.value))
+            if isinstance(c, ft.TextField):
+                out.append(str(c.value or ""))
+            if isinstance(c, (ft.FilledButton, ft.OutlinedButton, ft.TextButton)) and \
+                    isinstance(c.content, str):
+                out.append(c.content)
+            for name in ("content", "controls"):
+                child = getattr(c, name, None)
+                if isinstance(child, list):
+                    for x in child:
+                        walk(x)
+                elif isinstance(child, BaseControl):
+                    walk(child)
+        walk(self.find(identifier))
+        return " ".join(out)
+
+    def inner(self, identifier: str, kind: type) -> Any:
+        node = self.find(identifier)
+        while not isinstance(node, kind):
+            node = node.content
+        return node
+
+    async def tap(self, identifier: str) -> None:
+        node = self.find(identifier)
+        while getattr(node, "on_click", None) is None:
+            node = node.content
+        await self.session.dispatch_event(node._i, "click", None)
+        await self.settle()
+
+    async def type(self, identifier: str, text: str, *, submit: bool = True) -> None:
+        tf = self.inner(identifier, ft.TextField)
+        self.session.apply_patch(tf._i, {"value": text})
+        await self.session.dispatch_event(tf._i, "change", text)
+        if submit:
+            await self.session.dispatch_event(tf._i, "submit", None)
+        await self.settle()
+
+    async def go(self, route: str) -> None:
+        await self.page.push_route(route)
+        await self.settle()
+
+
+@pytest.fixture
+def demo(tmp_path):
+    store = open_store(tmp_path / "demo.db")
+    build_demo(store)
+    site = store.site_by_name(SITE_NAME)
+    yield store, site
+    store.close()
+
+
+def _run(coro: Any) -> Any:
+    return asyncio.run(coro)
+
+
+# -- the column screen's structure ----------------------------------------------------------
+def test_tabs_in_order_each_its_own_module(demo):
+    assert [t.name for t in TABS] == ["check", "section", "restraints", "condition",
+                                      "findings", "retrofit", "history"]
+    assert all(t.__module__ == f"fieldcol.ui.tab_{t.name}" for t in TABS)
+
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        col = store.find_column(site.id, "C/3-G")
+        await s.go(f"/columns/{col.id}")
+        assert s.app.detail is not None and s.app.detail.tag == "C/3-G"
+        assert s.app.person is None and s.app.visit_id is None
+        for t in TABS:
+            assert s.has(f"tab-{t.name}")
+            await s.tap(f"tab-{t.name}")
+            assert "(shown)" in s.find(f"tab-{t.name}").label
+        # the tab row scrolls sideways on a phone (seven tabs do not fit in 390 px)
+        tab = s.find("tab-check")
+        row = next(c for c in s.all() if isinstance(c, ft.Row) and tab in c.controls)
+        assert row.scroll is not None and not row.wrap
+        await s.tap("tab-retrofit")
+        assert s.has("retrofit-0-line")
+        assert "licensed engineer" in s.text("caution")
+    _run(walk())
+
+
+# -- saving: undo, refusal in plain words, busy store with retry ------------------------------
+def _length(store, cid) -> str:
+    return store.current_record(cid)["length"]
+
+
+def test_saved_edit_offers_undo_and_undo_puts_it_back(demo):
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        before = _length(store, cid)
+        before_check = store.latest_check(cid).utilization
+        await s.go(f"/columns/{cid}")
+        await s.type("field-length", "12 ft")
+        assert _length(store, cid) == "12 ft", (s.text("save-note"), s.inner("field-length", ft.TextField).value)
+        note = s.text("save-note")
+        assert note.startswith("Saved length 12 ft; checked again: ") and "Undo" in note
+        assert s.has("save-undo")
+        # a mis-tap is never silent: the change says so and can be taken back
+        await s.tap("save-undo")
+        assert _length(store, cid) == before
+        assert abs(store.latest_check(cid).utilization - before_check) < 1e-9
+        assert s.text("save-note").startswith("Undone: length 12 ft")
+        assert not s.has("save-undo")  # only the last change, once
+        # the entry shows the value as saved again
+        assert s.inner("field-length", ft.TextField).value == before
+    _run(walk())
+
+
+def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        before = _length(store, cid)
+        await s.go(f"/columns/{cid}")
+        await s.type("field-length", "")
+        tf = s.inner("field-length", ft.TextField)
+        assert tf.error == "Length is needed. Type a length, e.g. 12'-6\" or 3.8 m."
+        assert "cannot use" not in tf.error
+        await s.type("field-length", "12 fr")
+        tf = s.inner("field-length", ft.TextField)
+        assert tf.value == "12 fr" and tf.error.startswith("Length '12 fr' not understood")
+        assert "not saved" in s.text("save-note")
+        assert _length(store, cid) == before
+        # the next change takes the message away
+        await s.type("field-length", "12 ft", submit=False)
+        assert s.inner("field-length", ft.TextField).error is None
+    _run(walk())
+
+
+_HOLDER = textwrap.dedent("""
+    import sqlite3, sys, time
+    con = sqlite3.connect(sys.argv[1], isolation_level=None)
+    con.execute("BEGIN IMMEDIATE")   # SQLite's write lock, held until told to let go
+    print("locked", flush=True)
+    sys.stdin.readline()
+    con.execute("ROLLBACK")
+""")
+
+
+def test_locked_store_says_not_saved_and_retry_saves(demo, monkeypatch):
+    store, site = demo
+    path = store.path
+    store.close()
+    # a short wait for the lock: the busy path is what is under test, not the timeout
+    monkeypatch.setattr(_base, "BUSY_TIMEOUT_S", 0.3)
+    store = open_store(path)
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        before = _length(store, cid)
+        await s.go(f"/columns/{cid}")
+        holder = subprocess.Popen([sys.executable, "-c", _HOLDER, str(path)],
+                                  stdin=subprocess.PIPE, stdout=subprocess.PIPE, text=True)
+        try:
+            assert holder.stdout.readline().strip() == "locked"
+            await s.type("field-length", "12 ft")
+            note = s.text("save-note")
+            assert note.startswith("Not saved: ") and "busy" in note, note
+            assert s.has("save-retry")
+            tf = s.inner("field-length", ft.TextField)
+            assert tf.value == "12 ft"  # what was typed stays
+            assert _length(store, cid) == before
+        finally:
+            holder.stdin.write("\n")
+            holder.stdin.flush()
+            holder.wait(10)
+        await s.tap("save-retry")
+        assert _length(store, cid) == "12 ft"
+        assert s.text("save-note").startswith("Saved length 12 ft")
+        assert s.has("save-undo")
+    try:
+        _run(walk())
+    finally:
+        store.close()
