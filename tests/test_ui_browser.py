@@ -144,6 +144,9 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
     """Replace the text of an entry (and press Enter), once the entry holds exactly ``text``
     (Flutter may swap the focused input element, so keys sent too early can go astray)."""
     field = _entry(page, identifier)
+    box = page.locator(_sel(identifier)).first.bounding_box()
+    if box:  # wholly in view first, clear of the save bar
+        _scroll_to(page, identifier, box["x"] + 10)
     for _ in range(5):
         field.click(position={"x": 60, "y": 20})  # the top line: the error text sits lower
         _poll(lambda: page.evaluate("document.activeElement && document.activeElement.tagName"),
