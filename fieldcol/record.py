@@ -7,6 +7,7 @@ A record is what an engineer recorded for one column. Values with units are stri
 
 from __future__ import annotations
 
+import difflib
 import math
 import re
 from dataclasses import dataclass, field
@@ -24,8 +25,193 @@ CODES = ("elastic", "aisc360-22", "en1993-1-1")
 K_BASES = ("theoretical", "recommended", "analysis")
 AXES = ("strong", "weak")
 _BASES = {"aisc360-22": ("lrfd", "asd"), "en1993-1-1": ("en",), "elastic": ("none",)}
-_RECORD_KEYS = {"tag", "section", "material", "length", "restraints", "k_basis", "code",
-                "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location"}
+_LOAD_TYPES = ("dead", "live", "snow", "roof_live")
+_SECTION_COMMON = ("loss", "plates")
+
+#: The keys each object of a column record may hold: one entry per object, so a new key is one
+#: line here (and one line in the README's record reference). Any other key is refused with its
+#: full path and the nearest known key: a mistyped key must never be read as "not given".
+KEYS: dict[str, tuple[str, ...]] = {
+    "column record": ("tag", "section", "material", "length", "restraints", "k_basis", "code",
+               "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location"),
+    "section by name": ("name", *_SECTION_COMMON),
+    "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
+    "section of shape rect": ("shape", "d", "b", "t", "r", *_SECTION_COMMON),
+    "section of shape round": ("shape", "D", "t", *_SECTION_COMMON),
+    "section loss": ("flange", "web", "wall", "uniform"),
+    "cover plates": ("thickness", "width"),
+    "material by grade": ("grade", "Fy"),
+    "material by values": ("Fy", "E", "G", "Fu", "name"),
+    "restraints": ("strong", "weak", "twist"),
+    "axis": ("bottom", "top", "braces", "k", "alignment"),
+    "spring end": ("rotation", "translation"),
+    "brace": ("at", "stiffness", "strength", "added", "cable", "kind", "seen_by", "note"),
+    "cable": ("area", "length", "angle", "E", "pair", "pretensioned"),
+    "alignment": ("Ga", "Gb", "sway"),
+    "twist": ("braces", "bottom", "top"),
+    "twist restraint": ("at", "added", "seen_by", "note"),
+    "condition": ("bow", "bow_axis", "bow_over", "plumb"),
+    "demand": ("axial", "loads", "basis", "psi0"),
+    "loads": _LOAD_TYPES,
+    "psi0": ("live", "snow"),
+}
+#: what a brace is, as recorded (a tie runs to a wall or a floor)
+BRACE_KINDS = ("strut", "rod", "cable", "tie")
+
+
+def check_keys(spec: Mapping[str, Any], obj: str, fld: str) -> None:
+    """Refuse any key of ``spec`` that ``KEYS[obj]`` does not list, naming its full path.
+
+    Args:
+        spec: the object as given.
+        obj: its entry in ``KEYS`` (e.g. ``"loss"``).
+        fld: its path in the record (``""`` for the record itself).
+
+    Raises:
+        InputError: field ``fld.key``, with the nearest known key as the hint.
+
+    Example:
+        >>> check_keys({"flange": "0.3 in", "Web": "0.2 in"}, "section loss", "section.loss")
+        Traceback (most recent call last):
+        ...
+        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform)
+    """
+    _known_only(spec, KEYS[obj], obj, fld)
+
+
+def _known_only(spec: Mapping[str, Any], allowed: tuple[str, ...], obj: str, fld: str) -> None:
+    for key in spec:
+        if key in allowed:
+            continue
+        name = str(key)
+        hint = "known keys: " + ", ".join(allowed)
+        near = suggest(name, allowed)
+        if near:
+            hint = f"did you mean '{near}'? " + hint
+        path = f"{fld}.{name}" if fld else name
+        raise InputError(path, name, f"not a known key of the {obj}", hint)
+
+
+def check_record_keys(record: Mapping[str, Any]) -> None:
+    """Only the keys ``KEYS`` lists, anywhere in a record that may be incomplete (a column just
+    added, a schedule row): values are not read here (``parse_record`` reads them).
+
+    Raises:
+        InputError: naming the first unknown key's full path.
+
+    Example:
+        >>> check_record_keys({"tag": "A/1", "restraints": {"weak": {"braces": [{"at": "2 m",
+        ...                    "stifness": "5 kN/mm"}]}}})
+        Traceback (most recent call last):
+        ...
+        fieldcol.errors.InputError: restraints.weak.braces[0].stifness: cannot use 'stifness': not a known key of the brace (did you mean 'stiffness'? known keys: at, stiffness, strength, added, cable, kind, seen_by, note)
+    """
+    def obj(value: Any) -> Mapping[str, Any]:
+        return value if isinstance(value, Mapping) else {}
+
+    def items(value: Any) -> list[tuple[int, Mapping[str, Any]]]:
+        return [(i, b) for i, b in enumerate(value) if isinstance(b, Mapping)] \
+            if isinstance(value, list) else []
+
+    check_keys(record, "column record", "")
+    sec = obj(record.get("section"))
+    if sec:
+        _section_keys(sec, "section")
+        for key, table in (("loss", "section loss"), ("plates", "cover plates")):
+            check_keys(obj(sec.get(key)), table, f"section.{key}")
+    _material_keys(obj(record.get("material")), "material")
+    res = obj(record.get("restraints"))
+    check_keys(res, "restraints", "restraints")
+    for ax in AXES:
+        spec, fld = obj(res.get(ax)), f"restraints.{ax}"
+        check_keys(spec, "axis", fld)
+        for e in ("bottom", "top"):
+            check_keys(obj(spec.get(e)), "spring end", f"{fld}.{e}")
+        check_keys(obj(spec.get("alignment")), "alignment", f"{fld}.alignment")
+        for i, b in items(spec.get("braces")):
+            check_keys(b, "brace", f"{fld}.braces[{i}]")
+            check_keys(obj(b.get("cable")), "cable", f"{fld}.braces[{i}].cable")
+    twist = obj(res.get("twist"))
+    check_keys(twist, "twist", "restraints.twist")
+    for i, b in items(twist.get("braces")):
+        check_keys(b, "twist restraint", f"restraints.twist.braces[{i}]")
+    check_keys(obj(record.get("condition")), "condition", "condition")
+    demand = obj(record.get("demand"))
+    check_keys(demand, "demand", "demand")
+    check_keys(obj(demand.get("loads")), "loads", "demand.loads")
+    check_keys(obj(demand.get("psi0")), "psi0", "demand.psi0")
+
+
+def _section_keys(spec: Mapping[str, Any], fld: str) -> None:
+    """The keys of a section object: by name, or of its shape (every shape's while the shape
+    itself is not readable, so a mistyped ``shape`` or ``name`` is named as such)."""
+    if "name" in spec:
+        check_keys(spec, "section by name", fld)
+        return
+    given = spec.get("shape")
+    given = given.strip().lower() if isinstance(given, str) else None
+    if given in ("i", "rect", "round"):
+        check_keys(spec, f"section of shape {given}", fld)
+    else:
+        every = tuple(dict.fromkeys(k for obj, keys in KEYS.items()
+                                    if obj.startswith(("section by", "section of")) for k in keys))
+        _known_only(spec, every, "section", fld)
+
+
+def _material_keys(spec: Mapping[str, Any], fld: str) -> None:
+    if "grade" not in spec:
+        check_keys(spec, "material by values", fld)
+        return
+    for key in spec:
+        if key in KEYS["material by values"] and key not in KEYS["material by grade"]:
+            # the grade's table gives E, G and Fu: a second value would be silently lost
+            raise InputError(f"{fld}.{key}", key, "a grade's " + key + " comes from its table",
+                             "give the grade with a tested Fy only, or leave out grade and "
+                             "give Fy, E, G, Fu")
+    check_keys(spec, "material by grade", fld)
+
+
+def suggest(word: str, known: tuple[str, ...]) -> str | None:
+    """The known word nearest to ``word`` (case ignored first), or None if none is close.
+
+    Example:
+        >>> suggest("stifness", ("at", "stiffness", "strength"))
+        'stiffness'
+    """
+    by_lower = {k.lower(): k for k in known}
+    if word.lower() in by_lower:
+        return by_lower[word.lower()]
+    near = difflib.get_close_matches(word.lower(), list(by_lower), n=1, cutoff=0.6)
+    return by_lower[near[0]] if near else None
+
+
+def _object(value: Any, fld: str, example: str) -> Mapping[str, Any]:
+    """An optional object: absent or null is "not given" (``{}``); anything else but an object
+    (``[]``, ``0``, ``false``, ``""``) is refused, never taken as not given."""
+    if value is None:
+        return {}
+    if not isinstance(value, Mapping):
+        raise InputError(fld, value, "must be an object", "e.g. " + example)
+    return value
+
+
+def _flag(spec: Mapping[str, Any], key: str, fld: str) -> bool:
+    """A true/false entry: a JSON boolean only (``"false"`` as text is not false)."""
+    v = spec.get(key, False)
+    if not isinstance(v, bool):
+        raise InputError(f"{fld}.{key}", v, "must be true or false (without quotes)")
+    return v
+
+
+def _opt_text(spec: Mapping[str, Any], key: str, fld: str) -> str | None:
+    """An optional text entry: absent or null is None; a number or an object is refused."""
+    v = spec.get(key)
+    if v is None:
+        return None
+    if not isinstance(v, str):
+        raise InputError(f"{fld}.{key}" if fld else key, v, "must be text (in quotes)",
+                         f'e.g. "{v}"' if isinstance(v, (int, float)) else None)
+    return v
 
 
 @dataclass(frozen=True)
@@ -117,10 +303,9 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     """
     if not isinstance(record, Mapping):
         raise InputError("record", record, "a column record must be a JSON object")
-    unknown = sorted(set(record) - _RECORD_KEYS)
-    if unknown:
-        raise InputError(unknown[0], record[unknown[0]], "not a field of a column record",
-                         "known fields: " + ", ".join(sorted(_RECORD_KEYS)))
+    check_record_keys(record)  # every typo first, wherever it is, before any value is read
+    for key in ("notes", "level", "grid", "location"):
+        _opt_text(record, key, "")
     for key in ("tag", "section", "material", "length"):
         if record.get(key) in (None, ""):
             raise InputError(key, "", "required", None)
@@ -131,15 +316,14 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     length = parse_length(record["length"], "length")
     section = parse_section(record["section"])
     material = parse_material(record["material"], shape=section.kind)
-    restraints = record.get("restraints") or {}
-    if not isinstance(restraints, Mapping):
-        raise InputError("restraints", restraints, "must be an object with strong, weak, twist")
-    extra = sorted(set(restraints) - {"strong", "weak", "twist"})
-    if extra:
-        raise InputError(f"restraints.{extra[0]}", extra[0], "unknown axis",
-                         "use strong, weak and twist")
-    axes = {ax: _axis(restraints.get(ax) or {}, length, f"restraints.{ax}") for ax in AXES}
-    twist = _twist(restraints.get("twist") or {}, length, axes)
+    restraints = _object(record.get("restraints"), "restraints",
+                         '{"strong": {..}, "weak": {..}, "twist": {..}}')
+    check_keys(restraints, "restraints", "restraints")
+    axes = {ax: _axis(_object(restraints.get(ax), f"restraints.{ax}",
+                              '{"bottom": "pinned", "top": "pinned"}'), length, f"restraints.{ax}")
+            for ax in AXES}
+    twist = _twist(_object(restraints.get("twist"), "restraints.twist",
+                           '{"braces": [{"at": "15 ft"}]}'), length, axes)
     demand = _demand(record.get("demand"), code)
     basis = demand.basis if demand else _BASES[code][0]
     gamma = record.get("gamma_M1", 1.0)
@@ -148,13 +332,8 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
                          "1.0 is recommended by EN 1993-1-1; National Annexes may differ")
     units = _choice(record.get("units", "si" if code == "en1993-1-1" else "us"), ("us", "si"),
                     "units")
-    condition = record.get("condition") or {}
-    if not isinstance(condition, Mapping):
-        raise InputError("condition", condition, "must be an object, e.g. {\"bow\": \"3/8 in\"}")
-    bad = sorted(set(condition) - {"bow", "bow_axis", "bow_over", "plumb"})
-    if bad:
-        raise InputError(f"condition.{bad[0]}", bad[0], "unknown key",
-                         "bow, bow_axis, bow_over, plumb")
+    condition = _object(record.get("condition"), "condition", '{"bow": "3/8 in"}')
+    check_keys(condition, "condition", "condition")
     bow_over = (None if condition.get("bow_over") in (None, "")
                 else parse_length(condition["bow_over"], "condition.bow_over"))
     bow = _opt_length(condition.get("bow"), "condition.bow")
@@ -178,9 +357,13 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "give a catalogue name or an object of dimensions",
                          'e.g. "W14X90" or {"shape": "i", "d": "14 in", ...}')
-    loss = spec.get("loss")
+    _section_keys(spec, fld)
     if "name" in spec:
-        sec = from_catalogue(spec["name"])
+        name = spec["name"]
+        if not isinstance(name, str) or not name.strip():
+            raise InputError(f"{fld}.name", name, "must be a catalogue name (text)",
+                             'e.g. "W14X90"')
+        sec = from_catalogue(name)
     else:
         shape = _choice(spec.get("shape"), ("i", "rect", "round"), f"{fld}.shape")
 
@@ -192,7 +375,7 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
             return parse_length(spec[key], f"{fld}.{key}")
 
         if shape == "i":
-            welded = bool(spec.get("welded", False))
+            welded = _flag(spec, "welded", fld)
             r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
             sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
         elif shape == "rect":
@@ -200,24 +383,17 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
             sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out)
         else:
             sec = round_hollow(dim("D"), dim("t"))
-    if loss not in (None, {}):
-        if not isinstance(loss, Mapping):
-            raise InputError(f"{fld}.loss", loss, "must be an object",
-                             'e.g. {"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
-        allowed = {"flange", "web", "wall", "uniform"}
-        bad = sorted(set(loss) - allowed)
-        if bad:
-            raise InputError(f"{fld}.loss.{bad[0]}", bad[0], "unknown kind of loss",
-                             "flange, web, wall (remaining thickness) or uniform (loss per face)")
+    loss = _object(spec.get("loss"), f"{fld}.loss",
+                   '{"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
+    if loss:
+        check_keys(loss, "section loss", f"{fld}.loss")
         vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()}
         sec = with_loss(sec, **vals)
     plates = spec.get("plates")
     if plates is not None:
         # after the loss: plates are welded to the steel that remains
-        if not isinstance(plates, Mapping) or set(plates) - {"thickness", "width"}:
-            raise InputError(f"{fld}.plates", plates, "must be an object with thickness and width",
-                             '{"thickness": "3/8 in", "width": "12 in"} (width: the flange width '
-                             "when left out)")
+        plates = _object(plates, f"{fld}.plates", '{"thickness": "3/8 in", "width": "12 in"}')
+        check_keys(plates, "cover plates", f"{fld}.plates")
         tp = parse_length(plates.get("thickness", ""), f"{fld}.plates.thickness")
         bp = (None if plates.get("width") in (None, "")
               else parse_length(plates["width"], f"{fld}.plates.width"))
@@ -239,15 +415,20 @@ def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None
         return get_material(spec, shape=shape, field=fld)
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "give a grade name or an object", 'e.g. "A992" or {"Fy": "50 ksi"}')
-    if spec.get("grade"):
-        mat = get_material(spec["grade"], shape=shape, field=f"{fld}.grade")
+    _material_keys(spec, fld)
+    if "grade" in spec:
+        grade = spec["grade"]
+        if not isinstance(grade, str) or not grade.strip():
+            raise InputError(f"{fld}.grade", grade, "must be a grade name (text)", 'e.g. "A36"')
+        mat = get_material(grade, shape=shape, field=f"{fld}.grade")
         if spec.get("Fy") not in (None, ""):
             mat = with_tested_fy(mat, parse_quantity(spec["Fy"], "stress", f"{fld}.Fy"))
         return mat
     kw = {k: spec[k] for k in ("Fy", "E", "G", "Fu") if spec.get(k) not in (None, "")}
     if "Fy" not in kw:
         raise InputError(f"{fld}.Fy", "", "required when no grade is given", 'e.g. "36 ksi"')
-    return material_from_values(**kw, name=str(spec.get("name", "as measured")), field=fld)
+    name = _opt_text(spec, "name", fld)
+    return material_from_values(**kw, name=name or "as measured", field=fld)
 
 
 # A record is what was typed on site: a number without its unit is ambiguous (30 what?), so every
@@ -313,12 +494,17 @@ def _end(spec: Any, fld: str) -> End:
     if isinstance(spec, str):
         return end(spec.strip().lower(), fld)
     if isinstance(spec, Mapping):
+        check_keys(spec, "spring end", fld)
         rot = spec.get("rotation")
         if rot in (None, ""):
             raise InputError(f"{fld}.rotation", "", "a partial end needs its rotational stiffness",
                              'e.g. {"rotation": "50000 kip*in/rad"}')
         k_rot = parse_quantity(rot, "rotational_stiffness", f"{fld}.rotation", allow_zero=True)
         tr = spec.get("translation", "held")
+        if not isinstance(tr, str):
+            raise InputError(f"{fld}.translation", tr, "must be held, free or a stiffness (text)",
+                             'e.g. "held" or "20 kip/in"')
+        tr = tr.strip().lower() if tr.strip().lower() in ("held", "free") else tr
         k_tr = math.inf if tr == "held" else (0.0 if tr == "free" else
                                               parse_quantity(tr, "stiffness", f"{fld}.translation",
                                                              allow_zero=True))
@@ -330,10 +516,7 @@ def _end(spec: Any, fld: str) -> End:
 def _axis(spec: Any, length: float, fld: str) -> AxisInput:
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "must be an object with bottom, top, braces")
-    bad = sorted(set(spec) - {"bottom", "top", "braces", "k", "alignment"})
-    if bad:
-        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key",
-                         "bottom, top, braces, k, alignment")
+    check_keys(spec, "axis", fld)
     bottom = _end(spec.get("bottom", "pinned"), f"{fld}.bottom")
     top = _end(spec.get("top", "pinned"), f"{fld}.top")
     braces = tuple(_brace(b, length, f"{fld}.braces[{i}]")
@@ -350,6 +533,8 @@ def _alignment(spec: Any, fld: str) -> tuple[float, float, bool] | None:
     """``{"Ga": 1.2, "Gb": 10, "sway": false}``: end stiffness ratios for the alignment chart."""
     if spec is None:
         return None
+    if isinstance(spec, Mapping):
+        check_keys(spec, "alignment", fld)
     if not isinstance(spec, Mapping) or "Ga" not in spec or "Gb" not in spec:
         raise InputError(fld, spec, "needs Ga and Gb", '{"Ga": 1.2, "Gb": 10, "sway": false}')
     vals = []
@@ -361,10 +546,7 @@ def _alignment(spec: Any, fld: str) -> tuple[float, float, bool] | None:
             raise InputError(f"{fld}.{key}", g, "G must be a number >= 0 (0 fixed, \"inf\" pinned)",
                              "common practice: 10 for a pinned base, 1 for a fixed base")
         vals.append(float(g))
-    sway = spec.get("sway", False)
-    if not isinstance(sway, bool):
-        raise InputError(f"{fld}.sway", sway, "must be true or false")
-    return vals[0], vals[1], sway
+    return vals[0], vals[1], _flag(spec, "sway", fld)
 
 
 def _list(value: Any, fld: str) -> list:
@@ -375,23 +557,24 @@ def _list(value: Any, fld: str) -> list:
     return value
 
 
-_BRACE_KEYS = {"at", "stiffness", "strength", "added", "cable"}
-_CABLE_KEYS = {"area", "length", "angle", "E", "pair", "pretensioned"}
-
-
 def _brace(spec: Any, length: float, fld: str) -> BraceInput:
-    if not isinstance(spec, Mapping) or spec.get("at") in (None, ""):
+    if not isinstance(spec, Mapping):
+        raise InputError(fld, spec, "a brace must be an object", '{"at": "15 ft"}')
+    check_keys(spec, "brace", fld)
+    if spec.get("at") in (None, ""):
         raise InputError(f"{fld}.at", spec, "a brace needs its position", '{"at": "15 ft"}')
-    bad = sorted(set(spec) - _BRACE_KEYS)
-    if bad:
-        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", ", ".join(sorted(_BRACE_KEYS)))
     at = _position(spec["at"], length, f"{fld}.at")
+    kind = spec.get("kind")
+    if kind is not None:
+        _choice(kind, BRACE_KINDS, f"{fld}.kind")
+    _opt_text(spec, "seen_by", fld)
+    _opt_text(spec, "note", fld)
     stiffness, given, one_way = math.inf, False, False
     if spec.get("stiffness") == "rigid":  # the engineer's judgement, e.g. a floor beam framing in
         given = True
     elif spec.get("stiffness") not in (None, ""):
         stiffness, given = parse_quantity(spec["stiffness"], "stiffness", f"{fld}.stiffness"), True
-    if spec.get("cable"):
+    if spec.get("cable") is not None:
         if given:
             raise InputError(f"{fld}.stiffness", spec["stiffness"],
                              "give either a stiffness or a cable, not both",
@@ -401,9 +584,8 @@ def _brace(spec: Any, length: float, fld: str) -> BraceInput:
     strength = None
     if spec.get("strength") not in (None, ""):
         strength = parse_quantity(spec["strength"], "force", f"{fld}.strength")
-    added = spec.get("added")
-    return BraceInput(at, stiffness, strength, None if added is None else str(added), fld,
-                      given, one_way)
+    added = _opt_text(spec, "added", fld)
+    return BraceInput(at, stiffness, strength, added, fld, given, one_way)
 
 
 def _position(text: Any, length: float, fld: str) -> float:
@@ -419,9 +601,7 @@ def _cable(c: Any, fld: str) -> tuple[float, bool]:
     it holds one direction only (a single tension-only member, neither paired nor pretensioned)."""
     if not isinstance(c, Mapping):
         raise InputError(fld, c, "must be an object with area, length, angle")
-    bad = sorted(set(c) - _CABLE_KEYS)
-    if bad:
-        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", ", ".join(sorted(_CABLE_KEYS)))
+    check_keys(c, "cable", fld)
     if c.get("angle") in (None, ""):
         raise InputError(f"{fld}.angle", "", "required: the angle between the cable and the "
                          "direction the braced point moves", 'e.g. "45 deg" (0 = in line)')
@@ -430,12 +610,7 @@ def _cable(c: Any, fld: str) -> tuple[float, bool]:
     angle = parse_quantity(c["angle"], "angle", f"{fld}.angle", allow_zero=True)
     # a steel rod; wire rope is softer: give its E
     E = parse_quantity(c.get("E", "200000 MPa"), "stress", f"{fld}.E")
-    flags = {}
-    for key in ("pair", "pretensioned"):
-        v = c.get(key, False)
-        if not isinstance(v, bool):
-            raise InputError(f"{fld}.{key}", v, "must be true or false")
-        flags[key] = v
+    flags = {key: _flag(c, key, fld) for key in ("pair", "pretensioned")}
     k = float(cable_stiffness(area, E, clen, angle, field=fld))
     return k, not (flags["pair"] or flags["pretensioned"])
 
@@ -444,19 +619,21 @@ def _twist(spec: Any, length: float, axes: Mapping[str, AxisInput]) -> TwistInpu
     fld = "restraints.twist"
     if not isinstance(spec, Mapping):
         raise InputError(fld, spec, "must be an object with braces, bottom, top")
-    bad = sorted(set(spec) - {"braces", "bottom", "top"})
-    if bad:
-        raise InputError(f"{fld}.{bad[0]}", bad[0], "unknown key", "braces, bottom, top")
+    check_keys(spec, "twist", fld)
     at = []
     for i, b in enumerate(_list(spec.get("braces"), f"{fld}.braces")):
         bf = f"{fld}.braces[{i}]"
-        if not isinstance(b, Mapping) or b.get("at") in (None, ""):
+        if not isinstance(b, Mapping):
+            raise InputError(bf, b, "a twist restraint must be an object", '{"at": "15 ft"}')
+        for key in b:
+            if key in ("stiffness", "strength", "cable"):
+                raise InputError(f"{bf}.{key}", key, "a twist restraint is taken as rigid: no "
+                                 "stiffness, strength or cable", ", ".join(KEYS["twist restraint"]))
+        check_keys(b, "twist restraint", bf)
+        if b.get("at") in (None, ""):
             raise InputError(f"{bf}.at", b, "a twist restraint needs its position", '{"at": "15 ft"}')
-        extra = sorted(set(b) - {"at", "added"})
-        if extra:
-            raise InputError(f"{bf}.{extra[0]}", extra[0],
-                             "a twist restraint is taken as rigid: no stiffness, strength or cable",
-                             "at, added")
+        for key in ("added", "seen_by", "note"):
+            _opt_text(b, key, bf)
         at.append(_position(b["at"], length, f"{bf}.at"))
     ends = {}
     for name in ("bottom", "top"):
@@ -468,40 +645,34 @@ def _twist(spec: Any, length: float, axes: Mapping[str, AxisInput]) -> TwistInpu
     return TwistInput(tuple(at), ends["bottom"], ends["top"])
 
 
-_LOAD_TYPES = ("dead", "live", "snow", "roof_live")
-
-
 def _demand(spec: Any, code: str) -> Demand | None:
     if spec in (None, {}):
         return None
     if not isinstance(spec, Mapping):
         raise InputError("demand", spec, "must be an object", '{"axial": "840 kip", "basis": "lrfd"}')
-    extra = sorted(set(spec) - {"loads", "basis", "psi0", "axial"})
-    if extra:
-        raise InputError(f"demand.{extra[0]}", extra[0], "unknown key", "axial, loads, basis, psi0")
+    check_keys(spec, "demand", "demand")
+    loads = _object(spec.get("loads"), "demand.loads", '{"dead": "200 kip", "live": "150 kip"}')
+    check_keys(loads, "loads", "demand.loads")
+    psi0 = _object(spec.get("psi0"), "demand.psi0", '{"live": 1.0}')
+    check_keys(psi0, "psi0", "demand.psi0")
     basis = _choice(spec.get("basis", _BASES[code][0]), _BASES[code], "demand.basis")
     if spec.get("axial") not in (None, ""):
-        if spec.get("loads"):
+        if loads:
             raise InputError("demand.loads", spec["loads"], "give either axial or loads, not both")
+        if psi0:
+            raise InputError("demand.psi0", psi0, "psi0 combines loads; the axial force given "
+                             "is used as it stands", "leave out psi0, or give loads instead")
         return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis)
-    loads = spec.get("loads")
-    if not isinstance(loads, Mapping) or not loads:
+    if not loads:
         raise InputError("demand", spec, "give axial or loads",
                          '{"axial": "840 kip"} or {"loads": {"dead": "200 kip", "live": "150 kip"}}')
-    bad = sorted(set(loads) - set(_LOAD_TYPES))
-    if bad:
-        raise InputError(f"demand.loads.{bad[0]}", bad[0], "unknown load type",
-                         ", ".join(_LOAD_TYPES))
     vals = {k: parse_quantity(v, "force", f"demand.loads.{k}", allow_zero=True)
             for k, v in loads.items()}
-    psi0 = spec.get("psi0") or {}
     if psi0:
-        if code != "en1993-1-1" or not isinstance(psi0, Mapping):
+        if code != "en1993-1-1":
             raise InputError("demand.psi0", psi0, "psi0 factors apply to EN 1990 combinations",
                              '{"live": 1.0} for storage (category E), {"snow": 0.7} above 1000 m')
         for k, v in psi0.items():
-            if k not in ("live", "snow"):
-                raise InputError(f"demand.psi0.{k}", k, "unknown load type", "live, snow")
             if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
                 raise InputError(f"demand.psi0.{k}", v, "must be a number from 0 to 1",
                                  "EN 1990 Table A1.1")

@@ -168,4 +168,4 @@ def test_bad_plates_in_a_record_name_the_record_field():
     assert e.value.field == "section.plates.thickness"
     with pytest.raises(InputError) as e:
         parse_section({"name": "W14X90", "plates": {"thickness": "1 in", "length": "2 ft"}})
-    assert e.value.field == "section.plates"
+    assert e.value.field == "section.plates.length"  # the unknown key itself

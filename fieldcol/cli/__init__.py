@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import argparse
 import importlib
-import json
 import pkgutil
 import sys
 from typing import Any, Sequence
@@ -33,35 +32,29 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def read_json(path: str, field: str = "file") -> Any:
-    """The JSON in a file (``-`` reads standard input); bad files raise InputError naming it.
+    """The JSON in a file (``-`` reads standard input), read strictly by ``fieldcol.jsontext``:
+    UTF-8 with or without a byte-order mark, UTF-16 and UTF-32 are read; duplicate keys, NaN,
+    Infinity, lone surrogates and deep nesting raise InputError naming the file.
 
     Example: ``record = read_json("column.json")``.
     """
     from pathlib import Path
 
+    from fieldcol import jsontext
+
     try:
-        text = sys.stdin.read() if path == "-" else Path(path).read_text()
+        data = sys.stdin.buffer.read() if path == "-" else Path(path).read_bytes()
     except OSError as e:
         raise InputError(field, path, e.strerror or "cannot read the file") from None
-    try:
-        return json.loads(text)
-    except json.JSONDecodeError as e:
-        raise InputError(field, path, f"not valid JSON: {e.msg} at line {e.lineno}") from None
+    return jsontext.loads(data, field, "standard input" if path == "-" else path)
 
 
 def print_json(obj: Any) -> None:
-    """Print ``obj`` as indented JSON on stdout (numpy scalars become numbers)."""
-    print(json.dumps(obj, indent=2, default=_json_default))
+    """Print ``obj`` as indented JSON on stdout: numpy values become numbers, and a number that
+    is not finite becomes ``null`` (never NaN or Infinity, which are not JSON)."""
+    from fieldcol import jsontext
 
-
-def _json_default(o: Any) -> Any:
-    import numpy as np
-
-    if isinstance(o, np.generic):
-        return o.item()
-    if isinstance(o, np.ndarray):
-        return o.tolist()
-    raise TypeError(f"not JSON serialisable: {type(o).__name__}")
+    print(jsontext.dumps(obj))
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -74,7 +67,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         return int(args.func(args) or 0)
     except InputError as e:
-        print(f"error: {e}", file=sys.stderr)
+        # an entry may hold text the terminal cannot show: escape it rather than crash
+        msg = str(e).encode("utf-8", "backslashreplace").decode("utf-8")
+        print(f"error: {msg}", file=sys.stderr)
         return 2
     except BrokenPipeError:
         # the reader (e.g. `head`) closed the pipe: not an error of ours

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import argparse
-import json
 import math
 from typing import Any
 
@@ -29,6 +28,7 @@ def register(sub: argparse._SubParsersAction) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from fieldcol import jsontext
     from fieldcol.cli import read_json
     from fieldcol.retrofit import compare
 
@@ -36,10 +36,9 @@ def run(args: argparse.Namespace) -> int:
     options: list[Any] = []
     for i, raw in enumerate(args.option):
         try:
-            options.append(json.loads(raw))
-        except json.JSONDecodeError as e:
-            raise InputError(f"options[{i}]", raw, f"not valid JSON: {e.msg}",
-                             f"e.g. --option '{_EXAMPLE}'") from None
+            options.append(jsontext.loads(raw, f"options[{i}]", raw))
+        except InputError as e:
+            raise InputError(e.field, e.text, e.reason, f"e.g. --option '{_EXAMPLE}'") from None
     if args.options:
         more = read_json(args.options, "--options")
         if not isinstance(more, list):

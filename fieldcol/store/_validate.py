@@ -111,7 +111,9 @@ def now_utc() -> str:
 
 
 def record(value: Any, field: str = "record") -> dict[str, Any]:
-    """A column record: a JSON object with a non-empty ``tag`` (deeper checks are the engine's).
+    """A column record: a JSON object with a non-empty ``tag`` and no key that
+    ``fieldcol.record.KEYS`` does not list, at any depth (a record may be incomplete: its values
+    are the engine's to read).
 
     Example:
         >>> record({"tag": "A/1"})["tag"]
@@ -123,6 +125,9 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
     tag = value.get("tag")
     if not isinstance(tag, str) or not tag.strip():
         raise InputError(f"{field}.tag", repr(tag), "the column tag is required", "e.g. B/4-L1")
+    from fieldcol.record import check_record_keys
+
+    check_record_keys(value)
     json_text(value, field)
     return value
 

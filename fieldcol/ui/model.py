@@ -486,7 +486,8 @@ def _candidate(store: "Store", column_id: str, name: str, text: str) -> tuple[di
         parse_quantity(text, "force", "demand.axial")
         for rec in (stored, current):
             old = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
-            rec["demand"] = {**{k: v for k, v in old.items() if k != "loads"}, "axial": text}
+            rec["demand"] = {**{k: v for k, v in old.items() if k not in ("loads", "psi0")},
+                             "axial": text}  # psi0 combines loads: it goes with them
     else:
         raise InputError("field", name, "not an entry of the column screen",
                          ", ".join(EDIT_FIELDS))
