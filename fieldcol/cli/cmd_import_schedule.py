@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
 
 
 def register(sub: argparse._SubParsersAction) -> None:
@@ -48,16 +49,20 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.store import apply_schedule, open_store, preview_schedule, resolve_db_path
 
     path = resolve_db_path(args.db)
+    code = args.code
     with tempfile.TemporaryDirectory(prefix="fieldcol-preview-") as tmp:
-        # a preview must not create the store file: read against an empty one instead
-        target = path if (path.exists() or args.apply) else f"{tmp}/empty.db"
-        with open_store(target) as store:
-            preview = preview_schedule(store, args.site, args.file)
+        # a preview, or an import refused, must not create the store file: read against an
+        # empty one first, and create the real one only to write a clean import
+        exists = path.exists()
+        with open_store(path if exists else f"{tmp}/empty.db") as store:
+            preview = preview_schedule(store, args.site, args.file, code=code)
             print("\n".join(preview.lines()))
+            if preview.errors:
+                if args.apply:
+                    raise preview.refusal()
+                print("nothing written: fix the rows above", file=sys.stderr)
+                return 2
             if not args.apply:
-                if preview.errors:
-                    print("nothing written: fix the rows above", file=sys.stderr)
-                    return 2
                 print("nothing written (preview); add --apply to write")
                 return 0
             create = None
@@ -65,12 +70,27 @@ def run(args: argparse.Namespace) -> int:
                 if not args.create_site:
                     raise InputError("site", args.site, "no site with this name",
                                      "add --create-site --code aisc360-22|en1993-1-1")
-                if args.code is None:
+                if code is None:
                     raise InputError("code", "", "a new site needs its design code",
                                      "--code aisc360-22 or --code en1993-1-1")
-                units = args.units or {"aisc360-22": "us", "en1993-1-1": "si"}[args.code]
-                create = {"code": args.code, "unit_system": units}
-            done = apply_schedule(store, args.site, args.file, create_site=create)
+                units = args.units or {"aisc360-22": "us", "en1993-1-1": "si"}[code]
+                create = {"code": code, "unit_system": units}
+            if exists:
+                done = apply_schedule(store, args.site, args.file, create_site=create)
+        if not exists:
+            try:
+                with open_store(path) as store:
+                    done = apply_schedule(store, args.site, args.file, create_site=create)
+            except BaseException:
+                _remove_new_store(path)
+                raise
     c = done.counts()
     print(f"written: {c['add']} added, {c['update']} updated, {c['unchanged']} unchanged")
     return 0
+
+
+def _remove_new_store(path: "Path") -> None:
+    """Take away a store file this command created for an import that then failed."""
+    for p in (path, path.with_name(path.name + "-wal"), path.with_name(path.name + "-shm"),
+              path.with_name(path.name + "-journal")):
+        p.unlink(missing_ok=True)

@@ -4,15 +4,19 @@ Import reads ``tag, level, grid, section, length, material, demand`` (plus optio
 ``location`` and ``basis``); units go in the header (``length (ft)``) or in each cell
 (``30 ft``). A cell with its own unit keeps it; a bare number with no unit in the header is an
 error (a schedule never gets a guessed unit). Importing is all or nothing: any row error
-refuses the whole file. The result columns an export adds (code, utilization, ...) are read
-past, so an export can be edited and imported again. Rows match existing columns on site + tag; only the schedule's own
-fields are merged into the record (restraints and other entries stay), a blank cell leaves the
-field as it was, and an unchanged row is skipped, so importing the same file twice changes
-nothing.
+refuses the whole file. Each row is read as the engine reads a record: an unknown section, grade or
+basis, a JSON cell with an unknown key, a cell left open by a quote, or a cell too long is a row
+error like a bad length. The result columns an export adds (code, utilization, ...) are read
+past, so an export can be edited and imported again. Rows match existing columns on site + tag;
+only the schedule's own fields are merged into the record (restraints and other entries stay), a
+blank cell leaves the field as it was, and a cell equal to what an export shows (the current
+record, latest readings included) is no change, so importing an unedited export, or the same file
+twice, changes nothing.
 """
 
 from __future__ import annotations
 
+import copy
 import csv
 import io
 import json
@@ -20,8 +24,9 @@ import os
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Iterator
 
+from fieldcol import jsontext
 from fieldcol.errors import InputError
 from fieldcol.store import _validate as v
 from fieldcol.store._columns import overlay
@@ -99,6 +104,16 @@ class SchedulePreview:
         out["errors"] = len(self.errors)
         return out
 
+    def refusal(self) -> InputError:
+        """The error that refuses the file: its first row error, with the count of the others.
+
+        Example: ``raise preview.refusal()`` gives ``row 3.length: cannot use '12 fr': unknown
+        length unit 'fr' (and 1 more row errors)``.
+        """
+        e = self.errors[0]
+        more = f" (and {len(self.errors) - 1} more row errors)" if len(self.errors) > 1 else ""
+        return InputError(f"row {e.row}.{e.field}", e.text, e.reason + more, e.hint)
+
     def lines(self) -> list[str]:
         """The preview as text lines for a terminal.
 
@@ -152,17 +167,49 @@ def _header(cells: list[str]) -> list[tuple[str, str | None]]:
     return cols
 
 
-def _parse(text: str) -> tuple[list[tuple[str, str | None]], list[tuple[int, dict[str, str]]]]:
-    records = list(csv.reader(io.StringIO(text)))
-    header, rows = None, []
-    for n, cells in enumerate(records, start=1):
+def _records(text: str) -> Iterator[tuple[int, list[str] | RowError]]:
+    """(spreadsheet row where the record starts, its cells or the error reading it)."""
+    reader = csv.reader(io.StringIO(text), strict=True)
+    while True:
+        start = reader.line_num + 1
+        try:
+            cells = next(reader)
+        except StopIteration:
+            return
+        except csv.Error as e:
+            if "field limit" in str(e):
+                yield start, RowError(start, "row", "", f"a cell longer than "
+                                      f"{csv.field_size_limit()} characters", None)
+            else:
+                yield start, RowError(start, "row", "", f"a quote is not closed ({e})",
+                                      'close it, or write a quote inside a cell as ""')
+            continue
+        # a schedule cell is one line: a cell spanning lines is a quote left open
+        if any("\n" in c or "\r" in c for c in cells):
+            yield start, RowError(start, "row", "", "a quote opened on this row is not closed "
+                                  f"before row {reader.line_num}", "close it on its own row")
+            continue
+        yield start, cells
+
+
+def _parse(text: str) -> tuple[list[tuple[str, str | None]],
+                                list[tuple[int, dict[str, str] | RowError]]]:
+    header = None
+    rows: list[tuple[int, dict[str, str] | RowError]] = []
+    for n, cells in _records(text):
+        if isinstance(cells, RowError):
+            if header is None:
+                raise InputError("header", "", cells.reason, cells.hint)
+            rows.append((n, cells))
+            continue
         if not any(c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
             continue
         if header is None:
             header = _header(cells)
             continue
         if len(cells) > len(header) and any(c.strip() for c in cells[len(header):]):
-            rows.append((n, {"__extra__": ",".join(cells[len(header):])}))
+            rows.append((n, RowError(n, "row", ",".join(cells[len(header):])[:80],
+                                     "more cells than header columns", None)))
             continue
         rows.append((n, {name: (cells[i].strip() if i < len(cells) else "")
                          for i, (name, _) in enumerate(header)}))
@@ -183,9 +230,9 @@ def _with_unit(cell: str, unit: str | None, fld: str) -> str:
 def _json_or_text(cell: str, fld: str) -> Any:
     if cell.startswith("{"):
         try:
-            obj = json.loads(cell)
-        except json.JSONDecodeError as e:
-            raise InputError(fld, cell, f"looks like a JSON object but is not ({e.msg})",
+            obj = jsontext.loads(cell, fld, cell)
+        except InputError as e:
+            raise InputError(fld, cell, f"looks like a JSON object but is not ({e.reason})",
                              None) from None
         if not isinstance(obj, dict):
             raise InputError(fld, cell, "expected a JSON object", None)
@@ -216,13 +263,15 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
 
 
 def _merge(record: dict[str, Any], vals: dict[str, Any]) -> dict[str, Any]:
-    rec = json.loads(json.dumps(record))
+    rec = copy.deepcopy(record)
     for k in ("section", "length", "material"):
         if k in vals:
             rec[k] = vals[k]
     if "demand" in vals or "basis" in vals:
-        demand = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
+        demand = dict(rec["demand"]) if isinstance(rec.get("demand"), dict) else {}
         if "demand" in vals:
+            # an axial force replaces the loads (and the psi0 that combines them)
+            demand = {k: v for k, v in demand.items() if k not in ("loads", "psi0")}
             demand["axial"] = vals["demand"]
         if "basis" in vals:
             demand["basis"] = vals["basis"]
@@ -230,8 +279,49 @@ def _merge(record: dict[str, Any], vals: dict[str, Any]) -> dict[str, Any]:
     return rec
 
 
-def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str]) -> SchedulePreview:
+def _shown(current: dict[str, Any], name: str) -> Any:
+    """What an export shows in column ``name`` for a record (readings included)."""
+    demand = current.get("demand") if isinstance(current.get("demand"), dict) else {}
+    if name == "demand":
+        return demand.get("axial")
+    if name == "basis":
+        return demand.get("basis")
+    return current.get(name)
+
+
+def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None) -> None:
+    """Read the row's entries as the engine would; the whole record when it is complete."""
+    from fieldcol.record import _BASES, check_record_keys, parse_material, parse_record, \
+        parse_section
+
+    check_record_keys(merged)
+    kind = None
+    if "section" in vals:
+        kind = parse_section(vals["section"], "section").kind
+    if "material" in vals:
+        if kind is None and merged.get("section") not in (None, ""):
+            try:
+                kind = parse_section(merged["section"], "section").kind
+            except InputError:
+                kind = None  # the record's own section is read with the whole record below
+        parse_material(vals["material"], "material", shape=kind)
+    if "basis" in vals:
+        allowed = _BASES.get(code or "", tuple(b for bs in _BASES.values() for b in bs))
+        v.choice(vals["basis"], "basis", allowed)
+    if all(merged.get(k) not in (None, "") for k in ("section", "material", "length")):
+        if code is None and "code" not in merged and "basis" in vals:
+            # a site yet to be named a code: read the row under the code its basis belongs to
+            merged = {**merged, "code": next(c for c, bs in _BASES.items()
+                                             if vals["basis"] in bs)}
+        parse_record(merged)
+
+
+def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
+                     code: str | None = None) -> SchedulePreview:
     """What importing the CSV file ``source`` into ``site`` (a name) would do. Writes nothing.
+
+    ``code`` is the design code of a site still to be created (an existing site's own code is
+    used otherwise): rows are read under it (a basis it does not know is a row error).
 
     Example:
         >>> print(Path("cols.csv").read_text(), end="")
@@ -248,12 +338,13 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str]) 
     header, rows = _parse(_read_text(source))
     units_by = dict(header)
     found = store.find_site(site_name)
+    if found is not None:
+        code = found.code
     preview = SchedulePreview(site_name, found is not None)
     seen: dict[str, int] = {}
     for n, cells in rows:
-        if "__extra__" in cells:
-            preview.errors.append(RowError(n, "row", cells["__extra__"],
-                                           "more cells than header columns", None))
+        if isinstance(cells, RowError):
+            preview.errors.append(cells)
             continue
         tag = cells.get("tag", "")
         if not tag:
@@ -264,21 +355,29 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str]) 
                                            None))
             continue
         seen[tag] = n
+        col = store.find_column(found.id, tag) if found else None
         try:
             vals = _row_fields(cells, units_by)
+            if col is None:
+                base: dict[str, Any] = {"tag": tag}
+                if code is not None:
+                    base["code"] = code
+                current = base
+            else:
+                base, current = col.record, store.current_record(col.id)
+                # a cell showing what an export shows is no change: an unedited export
+                # must not write the latest readings into the record
+                vals = {k: x for k, x in vals.items()
+                        if k in ("level", "grid", "location") or x != _shown(current, k)}
+            _check_row(_merge(current, vals), vals, current.get("code") or code)
         except InputError as e:
             preview.errors.append(RowError(n, e.field, e.text, e.reason, e.hint))
             continue
-        col = store.find_column(found.id, tag) if found else None
+        rec = _merge(base, vals)
         if col is None:
-            base: dict[str, Any] = {"tag": tag}
-            if found is not None:
-                base["code"] = found.code
-            rec = _merge(base, vals)
             preview.plans.append(SchedulePlan(n, tag, "add", [], rec, vals.get("level"),
                                               vals.get("grid"), vals.get("location")))
             continue
-        rec = _merge(col.record, vals)
         level_name = None
         if col.level_id:
             level_name = store._get("levels", col.level_id, live=False)["name"]
@@ -316,12 +415,12 @@ def apply_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
     """
     # plan and write inside one transaction, so the plan is of the rows actually written
     with store._tx():
-        preview = preview_schedule(store, site, source)
+        new_code = None
+        if create_site is not None and store.find_site(v.text(site, "site")) is None:
+            new_code = v.choice(create_site.get("code"), "code", CODES)
+        preview = preview_schedule(store, site, source, code=new_code)
         if preview.errors:
-            e = preview.errors[0]
-            more = (f" (and {len(preview.errors) - 1} more row errors)"
-                    if len(preview.errors) > 1 else "")
-            raise InputError(f"row {e.row}.{e.field}", e.text, e.reason + more, e.hint)
+            raise preview.refusal()
         if not preview.site_exists and create_site is None:
             raise InputError("site", preview.site, "no site with this name",
                              "create it with --create-site --code aisc360-22|en1993-1-1")
