@@ -127,3 +127,43 @@ def test_a_refused_apply_leaves_no_store_file(tmp_path, capsys):
     assert main([*args, str(good), "--apply", "--create-site", "--code", "aisc360-22"]) == 0
     with open_store(db) as store:
         assert [c.tag for c in store.list_columns()] == ["A/1"]
+
+
+# -- a long import does not hold the write lock while it reads its rows ----------------------
+
+def _rows(n: int) -> str:
+    return HEAD + "".join(f"Z/{i},L1,Z/{i},W14X90,30 ft,A992,800 kip,lrfd\n" for i in range(n))
+
+
+def test_planning_needs_no_write_lock(store, tmp_path):
+    import sqlite3
+
+    src = tmp_path / "long.csv"
+    src.write_text(_rows(40))
+    other = sqlite3.connect(store.path, timeout=0)   # another program, holding the write lock
+    other.execute("BEGIN IMMEDIATE")
+    try:
+        pv = preview_schedule(store, "Kestrel Lane Print Works", src)   # reads only: no wait
+        assert pv.counts()["add"] == 40
+    finally:
+        other.rollback()
+        other.close()
+    done = apply_schedule(store, "Kestrel Lane Print Works", src, preview=pv)
+    assert done.applied and len(store.list_columns(limit=100)) == 40
+
+
+def test_a_write_between_plan_and_apply_is_seen_and_planned_again(store, tmp_path):
+    src = tmp_path / "long.csv"
+    src.write_text(_rows(5))
+    pv = preview_schedule(store, "Kestrel Lane Print Works", src)
+    assert pv.counts()["add"] == 5
+    # meanwhile the app (another connection) adds one of the columns, and changes nothing else
+    with Store(store.path) as app:
+        site = app.find_site("Kestrel Lane Print Works")
+        app.add_column(site.id, {"tag": "Z/3", "section": "W12X65"})
+    done = apply_schedule(store, "Kestrel Lane Print Works", src, preview=pv)
+    assert done.counts() == {"add": 4, "update": 1, "unchanged": 0, "errors": 0}
+    tags = sorted(c.tag for c in store.list_columns(limit=100))
+    assert tags == ["Z/0", "Z/1", "Z/2", "Z/3", "Z/4"]          # no second Z/3
+    site = store.find_site("Kestrel Lane Print Works")
+    assert store.find_column(site.id, "Z/3").record["section"] == "W14X90"

@@ -75,8 +75,9 @@ def run(args: argparse.Namespace) -> int:
                                      "--code aisc360-22 or --code en1993-1-1")
                 units = args.units or {"aisc360-22": "us", "en1993-1-1": "si"}[code]
                 create = {"code": code, "unit_system": units}
-            if exists:
-                done = apply_schedule(store, args.site, args.file, create_site=create)
+            if exists:  # written as previewed, unless another program wrote meanwhile
+                done = apply_schedule(store, args.site, args.file, create_site=create,
+                                      preview=preview)
         if not exists:
             try:
                 with open_store(path) as store:

@@ -189,6 +189,11 @@ class StoreBase:
                 self.db.rollback()
                 raise
 
+    def _data_version(self) -> int:
+        """SQLite's ``data_version``: it changes when another connection commits a write."""
+        with self._lock:
+            return int(self.db.conn.execute("PRAGMA data_version").fetchone()[0])
+
     def _rows(self, sql: str, params: Any = ()) -> list[dict[str, Any]]:
         with self._lock:
             cur = self.db.conn.execute(sql, params)

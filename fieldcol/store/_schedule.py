@@ -80,6 +80,9 @@ class SchedulePreview:
     plans: list[SchedulePlan] = field(default_factory=list)
     errors: list[RowError] = field(default_factory=list)
     applied: bool = False
+    # the store and its data version the plan was read from (apply writes it only if unchanged)
+    _store: Any = field(default=None, repr=False, compare=False)
+    _version: int | None = field(default=None, repr=False, compare=False)
 
     @property
     def ok(self) -> bool:
@@ -337,10 +340,11 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], 
     site_name = v.text(site, "site")
     header, rows = _parse(_read_text(source))
     units_by = dict(header)
+    version = store._data_version()  # before the first read: a write after it is seen
     found = store.find_site(site_name)
     if found is not None:
         code = found.code
-    preview = SchedulePreview(site_name, found is not None)
+    preview = SchedulePreview(site_name, found is not None, _store=store, _version=version)
     seen: dict[str, int] = {}
     for n, cells in rows:
         if isinstance(cells, RowError):
@@ -394,15 +398,28 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], 
     return preview
 
 
+#: plans made outside the write lock before one is made inside it (others kept writing meanwhile)
+PLAN_TRIES = 3
+
+
 def apply_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
-                   create_site: dict[str, str] | None = None) -> SchedulePreview:
-    """Import the CSV into ``site`` in one transaction; refuses the whole file on any row error.
+                   create_site: dict[str, str] | None = None,
+                   preview: SchedulePreview | None = None) -> SchedulePreview:
+    """Import the CSV into ``site`` all or nothing; refuses the whole file on any row error.
+
+    Reading every row through the engine is the long part of an import, so it is planned
+    without holding the store's write lock (other writers, the app or a sync, carry on), then
+    written in one short transaction, and only if no other connection wrote in between (SQLite's
+    ``data_version``); otherwise it is planned again, and after ``PLAN_TRIES`` plans inside
+    the write lock. Either way the rows written are exactly the rows planned, all or none.
 
     Args:
         store: the open store. site: the site's name. source: the CSV file.
         create_site: when the site does not exist, create it with these fields
             (``{"code": "aisc360-22", "unit_system": "us"}``); otherwise a missing site is an
             ``InputError``.
+        preview: a preview of the same file made on this store (``preview_schedule``), written
+            as it stands when nothing changed since it was made (no second reading of the file).
 
     Returns:
         The preview that was applied (``applied=True``).
@@ -413,33 +430,48 @@ def apply_schedule(store: "Store", site: str, source: str | os.PathLike[str], *,
         >>> store.find_column(site.id, "B/4-L1").record["length"]
         '29.5 ft'
     """
-    # plan and write inside one transaction, so the plan is of the rows actually written
-    with store._tx():
-        new_code = None
-        if create_site is not None and store.find_site(v.text(site, "site")) is None:
-            new_code = v.choice(create_site.get("code"), "code", CODES)
-        preview = preview_schedule(store, site, source, code=new_code)
-        if preview.errors:
-            raise preview.refusal()
-        if not preview.site_exists and create_site is None:
-            raise InputError("site", preview.site, "no site with this name",
-                             "create it with --create-site --code aisc360-22|en1993-1-1")
-        found = store.find_site(preview.site)
-        if found is None:
-            cs = dict(create_site or {})
-            code = v.choice(cs.pop("code", None), "code", CODES)
-            units = v.choice(cs.pop("unit_system", None), "unit_system", UNIT_SYSTEMS)
-            found = store.add_site(preview.site, code=code, unit_system=units, **cs)
-        for p in preview.plans:
-            if p.action == "add":
-                p.record.setdefault("code", found.code)
-                store.add_column(found.id, p.record, level=p.level, grid=p.grid,
-                                 location=p.location)
-            elif p.action == "update":
-                col = store.find_column(found.id, p.tag)
-                assert col is not None
-                store.update_column(col.id, record=p.record, level=p.level, grid=p.grid,
-                                    location=p.location)
+    new_code = None
+    if create_site is not None and store.find_site(v.text(site, "site")) is None:
+        new_code = v.choice(create_site.get("code"), "code", CODES)
+    plan = preview if preview is not None and preview._store is store else None
+    for _ in range(PLAN_TRIES):
+        if plan is None:
+            plan = preview_schedule(store, site, source, code=new_code)
+        if plan.errors:
+            raise plan.refusal()
+        with store._tx():
+            if store._data_version() == plan._version:
+                return _write(store, plan, create_site)
+        plan = None  # another connection wrote meanwhile: what the plan read may be stale
+    with store._tx():  # still busy around us: plan and write under the lock
+        plan = preview_schedule(store, site, source, code=new_code)
+        if plan.errors:
+            raise plan.refusal()
+        return _write(store, plan, create_site)
+
+
+def _write(store: "Store", preview: SchedulePreview,
+           create_site: dict[str, str] | None) -> SchedulePreview:
+    """Write a plan (inside the caller's transaction)."""
+    if not preview.site_exists and create_site is None:
+        raise InputError("site", preview.site, "no site with this name",
+                         "create it with --create-site --code aisc360-22|en1993-1-1")
+    found = store.find_site(preview.site)
+    if found is None:
+        cs = dict(create_site or {})
+        code = v.choice(cs.pop("code", None), "code", CODES)
+        units = v.choice(cs.pop("unit_system", None), "unit_system", UNIT_SYSTEMS)
+        found = store.add_site(preview.site, code=code, unit_system=units, **cs)
+    for p in preview.plans:
+        if p.action == "add":
+            p.record.setdefault("code", found.code)
+            store.add_column(found.id, p.record, level=p.level, grid=p.grid,
+                             location=p.location)
+        elif p.action == "update":
+            col = store.find_column(found.id, p.tag)
+            assert col is not None
+            store.update_column(col.id, record=p.record, level=p.level, grid=p.grid,
+                                location=p.location)
     preview.applied = True
     return preview
 
