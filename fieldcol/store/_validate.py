@@ -9,6 +9,7 @@ from datetime import date, datetime, timezone
 from typing import Any
 
 from fieldcol.errors import InputError
+from fieldcol.recordkeys import check_record_keys
 
 
 def text(value: Any, field: str, *, required: bool = True) -> str | None:
@@ -112,7 +113,7 @@ def now_utc() -> str:
 
 def record(value: Any, field: str = "record") -> dict[str, Any]:
     """A column record: a JSON object with a non-empty ``tag`` and no key that
-    ``fieldcol.record.KEYS`` does not list, at any depth (a record may be incomplete: its values
+    ``fieldcol.recordkeys.KEYS`` does not list, at any depth (a record may be incomplete: its values
     are the engine's to read).
 
     Example:
@@ -125,8 +126,6 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
     tag = value.get("tag")
     if not isinstance(tag, str) or not tag.strip():
         raise InputError(f"{field}.tag", repr(tag), "the column tag is required", "e.g. B/4-L1")
-    from fieldcol.record import check_record_keys
-
     check_record_keys(value)
     json_text(value, field)
     return value
