@@ -54,6 +54,7 @@ from typing import Any, Iterator, Mapping
 from fieldcol.errors import InputError
 
 MANIFEST = "manifest.json"
+STAGING_PREFIX = ".fieldcol-staging-"
 _SHA256 = re.compile(r"[0-9a-f]{64}")
 _CHUNK = 1 << 20
 
@@ -307,7 +308,7 @@ def staged(arc: Archive, beside: Path, *, names: list[str] | None = None) -> Ite
     parent = Path(os.path.abspath(beside)).parent
     made = [p for p in (parent, *parent.parents) if not p.exists()]
     parent.mkdir(parents=True, exist_ok=True)
-    folder = Path(tempfile.mkdtemp(prefix=".fieldcol-staging-", dir=parent))
+    folder = Path(tempfile.mkdtemp(prefix=f"{STAGING_PREFIX}{os.getpid()}-", dir=parent))
     try:
         try:
             with zipfile.ZipFile(arc.path) as z:
@@ -349,6 +350,32 @@ def staged(arc: Archive, beside: Path, *, names: list[str] | None = None) -> Ite
                 p.rmdir()
             except OSError:
                 break
+
+
+def clean_staging(folder: Path) -> int:
+    """Remove staging folders in ``folder`` left by a process that was killed mid-extraction.
+
+    Returns:
+        How many were removed.
+
+    Example:
+        >>> clean_staging(Path("/no/such/folder"))
+        0
+    """
+    from fieldcol.store._photos import _alive
+
+    if not folder.is_dir():
+        return 0
+    removed = 0
+    for d in folder.glob(f"{STAGING_PREFIX}*"):
+        try:
+            pid = int(d.name[len(STAGING_PREFIX):].split("-", 1)[0])
+        except ValueError:
+            pid = 0
+        if d.is_dir() and not (pid > 0 and _alive(pid)):
+            shutil.rmtree(d, ignore_errors=True)
+            removed += 1
+    return removed
 
 
 def _check_info(info: zipfile.ZipInfo, limits: Limits, field: str, src: str) -> None:

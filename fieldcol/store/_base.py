@@ -23,7 +23,9 @@ from fieldcol.store import _validate as v
 from fieldcol.store._migrations import (
     MIGRATION_NAMES, SCHEMA_VERSION, migrations, schema_version, unknown_migrations,
 )
+from fieldcol.store._archive import clean_staging
 from fieldcol.store._paths import photos_dir, resolve_db_path
+from fieldcol.store._photos import clean_temporary
 from fieldcol.store._schema import DATA_TABLES
 
 BUSY_TIMEOUT_S = 10.0
@@ -55,6 +57,9 @@ class StoreBase:
             self._configure()
             self._migrate(_stop_before)
             self.device_id: str = self._ensure_device_id()
+            # leftovers of a photo intake or a restore that a killed process never finished
+            clean_temporary(self.photos_dir)
+            clean_staging(self.path.parent)
         except BaseException:
             conn.close()
             raise

@@ -214,7 +214,7 @@ def _parse(text: str) -> tuple[list[tuple[str, str | None]],
             rows.append((n, RowError(n, "row", ",".join(cells[len(header):])[:80],
                                      "more cells than header columns", None)))
             continue
-        rows.append((n, {name: (cells[i].strip() if i < len(cells) else "")
+        rows.append((n, {name: (unguard_cell(cells[i].strip()) if i < len(cells) else "")
                          for i, (name, _) in enumerate(header)}))
     if header is None:
         raise InputError("file", "", "the file holds no header row", "first row: tag,section,...")
@@ -479,7 +479,37 @@ def _write(store: "Store", preview: SchedulePreview,
 def _cell(x: Any) -> str:
     if x is None:
         return ""
-    return json.dumps(x) if isinstance(x, (dict, list)) else str(x)
+    return guard_cell(json.dumps(x) if isinstance(x, (dict, list)) else str(x))
+
+
+_TRIGGERS = ("=", "+", "-", "@", "\t", "\r")
+_NEGATIVE = re.compile(r"-(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?")
+
+
+def guard_cell(text: str) -> str:
+    """A cell a spreadsheet shows as text, never runs as a formula: text that begins with
+    ``=``, ``+``, ``-`` (unless a plain number), ``@``, a tab or a carriage return gets a
+    leading apostrophe (common practice against formula injection; import removes it).
+
+    Example:
+        >>> guard_cell("=HYPERLINK(1)"), guard_cell("-12.5"), guard_cell("-A"), guard_cell("B/4")
+        ("'=HYPERLINK(1)", '-12.5', "'-A", 'B/4')
+    """
+    if text.startswith(_TRIGGERS) and not _NEGATIVE.fullmatch(text):
+        return "'" + text
+    return text
+
+
+def unguard_cell(text: str) -> str:
+    """The cell as it was before ``guard_cell`` (an apostrophe before a trigger goes).
+
+    Example:
+        >>> unguard_cell("'=SUM(1)"), unguard_cell("'quoted")
+        ('=SUM(1)', "'quoted")
+    """
+    if text.startswith("'") and text[1:].startswith(_TRIGGERS):
+        return text[1:]
+    return text
 
 
 def export_csv(store: "Store", site: str, out: str | os.PathLike[str]) -> int:
@@ -521,7 +551,7 @@ def export_csv(store: "Store", site: str, out: str | os.PathLike[str]) -> int:
         rec, _ = overlay(json.loads(r["record"]), latest.get(r["id"], {}))
         demand = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
         util = "" if r["utilization"] is None else f"{r['utilization']:.6g}"
-        w.writerow([r["tag"], _cell(r["level"]), _cell(r["grid"]), _cell(r["location"]),
+        w.writerow([_cell(r["tag"]), _cell(r["level"]), _cell(r["grid"]), _cell(r["location"]),
                     _cell(rec.get("section")), _cell(rec.get("length")), _cell(rec.get("material")),
                     _cell(demand.get("axial")), _cell(demand.get("basis")),
                     _cell(r["code"] or rec.get("code")), util, _cell(r["governing_mode"]),
