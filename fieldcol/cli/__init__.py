@@ -10,6 +10,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import pkgutil
+import sqlite3
 import sys
 from typing import Any, Sequence
 
@@ -70,6 +71,18 @@ def main(argv: Sequence[str] | None = None) -> int:
         # an entry may hold text the terminal cannot show: escape it rather than crash
         msg = str(e).encode("utf-8", "backslashreplace").decode("utf-8")
         print(f"error: {msg}", file=sys.stderr)
+        return 2
+    except sqlite3.OperationalError as e:
+        from fieldcol.store._base import is_busy
+
+        if not is_busy(e):
+            raise
+        # a lock met outside the store's own retries (StoreBusyError is an InputError,
+        # handled above): still the same plain message
+        from fieldcol.errors import StoreBusyError
+
+        print(f"error: {StoreBusyError(getattr(args, 'db', None) or 'the store')}",
+              file=sys.stderr)
         return 2
     except BrokenPipeError:
         # the reader (e.g. `head`) closed the pipe: not an error of ours

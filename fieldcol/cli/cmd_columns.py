@@ -25,7 +25,7 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.cli import CAUTION, print_json
     from fieldcol.store import open_store
 
-    with open_store(args.db, create=False) as store:
+    with open_store(args.db, readonly=True) as store:
         site_id = store.site_by_name(args.site).id if args.site else None
         rows, offset = [], 0
         while True:

@@ -30,7 +30,7 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.cli import CAUTION
     from fieldcol.store import export_csv, open_store
 
-    with open_store(args.db, create=False) as store:
+    with open_store(args.db, readonly=True) as store:
         n = export_csv(store, args.site, args.out)
     print(f"{n} columns written to {args.out}")
     print(CAUTION)

@@ -30,7 +30,7 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.report import site_report
     from fieldcol.store import open_store
 
-    with open_store(args.db, create=False) as store:
+    with open_store(args.db, readonly=True) as store:
         site = store.site_by_name(args.site)
         out = site_report(store, site.id, args.out, columns=args.column, report_date=args.date)
     print(f"wrote {out}")

@@ -3,7 +3,7 @@
 Public API::
 
     Store(path=None, *, create=True)        # open (and migrate) a store; see Store's methods
-    open_store(path=None, *, create=True)   # the same, as a function
+    open_store(path=None, *, create=True, readonly=False)   # the same, as a function
     resolve_db_path(db=None) / data_dir()   # where the file lives (--db, $FIELDCOL_DB, app data)
     backup(store, out) / restore(src, db, *, force=False)
     preview_schedule(store, site_name, csv) / apply_schedule(store, site_name, csv,
@@ -39,13 +39,16 @@ from fieldcol.store._schema import CODES, SEVERITIES, UNIT_SYSTEMS
 from fieldcol.store._store import Store
 
 
-def open_store(path: str | os.PathLike[str] | None = None, *, create: bool = True) -> Store:
+def open_store(path: str | os.PathLike[str] | None = None, *, create: bool = True,
+               readonly: bool = False) -> Store:
     """Open the store at ``path`` (``None``: ``$FIELDCOL_DB`` or the app-data folder).
 
     Args:
         path: the database file.
         create: make a new store if the file does not exist; otherwise a missing file is an
             ``InputError`` on field ``db``.
+        readonly: open for reading only (listings, exports, reports): never creates,
+            upgrades or writes; a store from an older fieldcol is an ``InputError``.
 
     Returns:
         An open ``Store`` (close it, or use it as a context manager).
@@ -55,7 +58,7 @@ def open_store(path: str | os.PathLike[str] | None = None, *, create: bool = Tru
         ...     s.list_sites()
         []
     """
-    return Store(path, create=create)
+    return Store(path, create=create, readonly=readonly)
 
 
 __all__ = [

@@ -9,16 +9,18 @@ never on the event loop: a commit with ``synchronous=FULL`` waits for the disk.
 from __future__ import annotations
 
 import os
+import random
 import sqlite3
 import threading
+import time
 import uuid
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Any, Iterator, Self
+from typing import Any, Callable, Iterator, Self, TypeVar
 
 from sqlite_utils import Database
 
-from fieldcol.errors import InputError
+from fieldcol.errors import InputError, StoreBusyError
 from fieldcol.store import _validate as v
 from fieldcol.store._migrations import (
     MIGRATION_NAMES, SCHEMA_VERSION, migrations, schema_version, unknown_migrations,
@@ -28,27 +30,84 @@ from fieldcol.store._paths import photos_dir, resolve_db_path
 from fieldcol.store._photos import clean_temporary
 from fieldcol.store._schema import DATA_TABLES
 
-BUSY_TIMEOUT_S = 10.0
+#: how long one attempt waits for another writer (``$FIELDCOL_BUSY_TIMEOUT`` overrides it)
+T = TypeVar("T")
+
+BUSY_TIMEOUT_S = 5.0
+#: attempts before giving up with ``StoreBusyError`` (so about 15 s in all by default)
+BUSY_ATTEMPTS = 3
+
+
+def busy_timeout(env: dict[str, str] | None = None) -> float:
+    """Seconds one attempt waits for the write lock: ``$FIELDCOL_BUSY_TIMEOUT`` or 5.
+
+    Example:
+        >>> busy_timeout({"FIELDCOL_BUSY_TIMEOUT": "0.5"}), busy_timeout({})
+        (0.5, 5.0)
+    """
+    env = dict(os.environ) if env is None else env
+    text = env.get("FIELDCOL_BUSY_TIMEOUT", "").strip()
+    if not text:
+        return BUSY_TIMEOUT_S
+    try:
+        value = float(text)
+    except ValueError:
+        value = -1.0
+    if not 0 < value <= 3600:
+        raise InputError("FIELDCOL_BUSY_TIMEOUT", text, "expected seconds, more than 0",
+                         "e.g. 5")
+    return value
+
+
+def is_busy(e: BaseException) -> bool:
+    """True for SQLite's "database is locked / busy" (another connection holds the lock).
+
+    Example:
+        >>> is_busy(sqlite3.OperationalError("database is locked"))
+        True
+    """
+    if not isinstance(e, sqlite3.OperationalError):
+        return False
+    code = getattr(e, "sqlite_errorcode", None)
+    if code is not None:
+        return code & 0xFF in (sqlite3.SQLITE_BUSY, sqlite3.SQLITE_LOCKED)
+    text = str(e).lower()
+    return "database is locked" in text or "database is busy" in text
+
+
+def _busy_setting(given: float | None) -> float:
+    if given is None:
+        return busy_timeout()
+    if not isinstance(given, (int, float)) or not 0 < given <= 3600:
+        raise InputError("busy_timeout", repr(given), "expected seconds, more than 0", "e.g. 5")
+    return float(given)
 
 
 class StoreBase:
     """The connection, its settings, and insert / update / tombstone helpers."""
 
     def __init__(self, path: str | os.PathLike[str] | None = None, *, create: bool = True,
+                 readonly: bool = False, busy_timeout: float | None = None,
                  _stop_before: str | None = None):
         self.path: Path = resolve_db_path(path)
         if self.path.is_dir():
             raise InputError("db", str(self.path), "this is a folder, not a database file",
                              "give a file path such as site.db")
-        if not self.path.exists() and not create:
+        if not self.path.exists() and (readonly or not create):
             raise InputError("db", str(self.path), "no fieldcol store there",
                              "check the path, or create one (fieldcol demo, import-schedule)")
         self.photos_dir: Path = photos_dir(self.path)
+        self.readonly = readonly
+        self._busy_s = _busy_setting(busy_timeout)
         self._lock = threading.RLock()
         try:
-            self.path.parent.mkdir(parents=True, exist_ok=True)
-            conn = sqlite3.connect(str(self.path), timeout=BUSY_TIMEOUT_S,
-                                   check_same_thread=False)
+            if readonly:
+                conn = sqlite3.connect(f"{self.path.as_uri()}?mode=ro", uri=True,
+                                       timeout=self._busy_s, check_same_thread=False)
+            else:
+                self.path.parent.mkdir(parents=True, exist_ok=True)
+                conn = sqlite3.connect(str(self.path), timeout=self._busy_s,
+                                       check_same_thread=False)
         except (OSError, sqlite3.Error) as e:
             raise InputError("db", str(self.path), f"cannot open or create it ({e})",
                              "check the folder exists and may be written") from None
@@ -57,9 +116,10 @@ class StoreBase:
             self._configure()
             self._migrate(_stop_before)
             self.device_id: str = self._ensure_device_id()
-            # leftovers of a photo intake or a restore that a killed process never finished
-            clean_temporary(self.photos_dir)
-            clean_staging(self.path.parent)
+            if not readonly:
+                # leftovers of a photo intake or a restore that a killed process never finished
+                clean_temporary(self.photos_dir)
+                clean_staging(self.path.parent)
         except BaseException:
             conn.close()
             raise
@@ -68,21 +128,48 @@ class StoreBase:
     def _configure(self) -> None:
         try:
             with self.db.ensure_autocommit_on():
-                mode = self.db.conn.execute("PRAGMA journal_mode=WAL").fetchone()[0]
-                self.db.conn.execute("PRAGMA synchronous=FULL")
+                self.db.conn.execute(f"PRAGMA busy_timeout={int(self._busy_s * 1000)}")
                 self.db.conn.execute("PRAGMA foreign_keys=ON")
-                self.db.conn.execute(f"PRAGMA busy_timeout={int(BUSY_TIMEOUT_S * 1000)}")
+                if self.readonly:
+                    mode = self.db.conn.execute("PRAGMA journal_mode").fetchone()[0]
+                else:
+                    # switching a new file to WAL can be refused at once while another
+                    # program is creating it (no busy wait): retried like a write
+                    mode = self._retry_busy(lambda: self.db.conn.execute(
+                        "PRAGMA journal_mode=WAL").fetchone()[0])
+                    self.db.conn.execute("PRAGMA synchronous=FULL")
+        except StoreBusyError:
+            raise
         except sqlite3.DatabaseError as e:
             raise InputError("db", str(self.path), f"SQLite cannot use this file ({e})",
                              "choose a fieldcol store file in a folder that may be written") from None
-        if str(mode).lower() != "wal":
+        if str(mode).lower() != "wal" and not (self.readonly and self._is_new_file()):
             raise InputError("db", str(self.path), f"the file system refused WAL mode ({mode})",
                              "put the store on a local disk")
 
+    def _is_new_file(self) -> bool:
+        return not self.db.table_names()
+
     def _migrate(self, stop_before: str | None) -> None:
+        """Bring the schema up to date. Only one program does it: the check and every step
+        run in one write transaction, so others wait, then find the work done."""
+        if self._schema_state(stop_before) == "current":
+            return
+        if self.readonly:
+            if not self.db.table_names():
+                raise InputError("db", str(self.path), "this SQLite file is not a fieldcol store",
+                                 "choose another path")
+            raise InputError("db", str(self.path), "the store was written by an older fieldcol "
+                             "and is upgraded only when it is opened for writing",
+                             "open it once in the app, or run fieldcol backup on it")
+        with self._tx():
+            if self._schema_state(stop_before) == "pending":
+                migrations.apply(self.db, stop_before=stop_before)
+
+    def _schema_state(self, stop_before: str | None) -> str:
         names = set(self.db.table_names())
         ours = schema_version(self.db) > 0
-        if names and not ours:
+        if names and not ours and not (names <= {"_sqlite_migrations"}):
             # never 'upgrade' somebody else's database into ours
             raise InputError("db", str(self.path), "this SQLite file is not a fieldcol store",
                              "choose another path")
@@ -91,12 +178,31 @@ class StoreBase:
             raise InputError("db", str(self.path),
                              f"made by a newer fieldcol (schema steps {', '.join(newer)})",
                              "update fieldcol before opening this store")
-        migrations.apply(self.db, stop_before=stop_before)
+        pending = [m.name for m in migrations.pending(self.db)]
+        if stop_before in pending:
+            pending = pending[:pending.index(stop_before)]
+        return "pending" if pending else "current"
+
+    def _retry_busy(self, attempt: "Callable[[], T]") -> "T":
+        """Run ``attempt`` (which waits up to the busy timeout itself) a bounded number of
+        times while SQLite reports the store busy; then ``StoreBusyError``."""
+        for n in range(BUSY_ATTEMPTS):
+            try:
+                return attempt()
+            except sqlite3.OperationalError as e:
+                if not is_busy(e):
+                    raise
+                if n + 1 < BUSY_ATTEMPTS:  # a short, uneven pause so waiters do not collide
+                    time.sleep(random.uniform(0.01, 0.1) * (n + 1))
+        raise StoreBusyError(str(self.path), f"still locked after {BUSY_ATTEMPTS} waits "
+                             f"of {self._busy_s:g} s")
 
     def _ensure_device_id(self) -> str:
         row = self.db.conn.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()
         if row:
             return row[0]
+        if self.readonly:
+            return ""
         device = str(uuid.uuid4())
         with self._tx():
             self.db.execute("INSERT OR IGNORE INTO meta (key, value) VALUES ('device_id', ?)",
@@ -174,24 +280,29 @@ class StoreBase:
 
         The outermost block takes the write lock up front (``BEGIN IMMEDIATE``): a deferred
         transaction that reads and then writes can fail at once with "database is locked" when
-        another connection wrote in between, whatever the busy timeout. Nested blocks are
-        savepoints (sqlite-utils' ``atomic``).
+        another connection wrote in between, whatever the busy timeout. Taking the lock waits
+        the busy timeout, ``BUSY_ATTEMPTS`` times, then raises ``StoreBusyError`` (nothing
+        saved). Nested blocks are savepoints (sqlite-utils' ``atomic``).
         """
         with self._lock:
             if self.db.conn.in_transaction:
                 with self.db.atomic():
                     yield self.db
                 return
-            self.db.conn.execute("BEGIN IMMEDIATE")
+            self._retry_busy(lambda: self.db.conn.execute("BEGIN IMMEDIATE"))
             try:
                 yield self.db
-            except BaseException:
+            except BaseException as e:
                 self.db.rollback()
+                if is_busy(e):
+                    raise StoreBusyError(str(self.path)) from None
                 raise
             try:
                 self.db.conn.execute("COMMIT")
-            except BaseException:
+            except BaseException as e:
                 self.db.rollback()
+                if is_busy(e):
+                    raise StoreBusyError(str(self.path)) from None
                 raise
 
     def _data_version(self) -> int:
@@ -200,10 +311,15 @@ class StoreBase:
             return int(self.db.conn.execute("PRAGMA data_version").fetchone()[0])
 
     def _rows(self, sql: str, params: Any = ()) -> list[dict[str, Any]]:
-        with self._lock:
+        def read() -> list[dict[str, Any]]:
             cur = self.db.conn.execute(sql, params)
             names = [d[0] for d in cur.description]
             return [dict(zip(names, r)) for r in cur.fetchall()]
+
+        with self._lock:
+            if self.db.conn.in_transaction:
+                return read()
+            return self._retry_busy(read)  # WAL readers rarely wait (a checkpoint, a recovery)
 
     def _book(self) -> dict[str, Any]:
         now = v.now_utc()

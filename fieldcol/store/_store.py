@@ -18,6 +18,9 @@ class Store(NotesMixin):
     Args:
         path: the database file; ``None`` uses ``$FIELDCOL_DB`` or the app-data folder.
         create: make a new store when the file does not exist (else ``InputError``).
+        readonly: open for reading only (never creates, upgrades or writes).
+        busy_timeout: seconds one attempt waits for another writer (default 5, or
+            ``$FIELDCOL_BUSY_TIMEOUT``); after three, ``StoreBusyError``.
 
     Example:
         >>> with Store("other.db") as s:
