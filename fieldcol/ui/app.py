@@ -358,15 +358,31 @@ def make_main(store: "Store") -> Callable[[ft.Page], Any]:
     return main
 
 
-def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550) -> None:
+def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550,
+        key: str | None = None) -> None:
     """Serve the app to browsers (web mode, no CDN: it works with no network) until stopped.
+
+    The web app is Flet's own, served by uvicorn behind ``fieldcol.ui._access.Guard``: beyond
+    loopback (or with a key) every request and WebSocket needs the access key.
 
     Args:
         store: an open ``Store``.
         host, port: where to listen.
+        key: the access key; required when ``host`` is not loopback.
 
     Example: ``run(open_store("site.db"), port=8550)``.
     """
-    # serve only: never try to open a browser on the machine running the server
-    os.environ["FLET_FORCE_WEB_SERVER"] = "true"
-    ft.run(make_main(store), view=ft.AppView.WEB_BROWSER, host=host, port=port, no_cdn=True)
+    import uvicorn
+    import flet_web.fastapi as flet_fastapi
+
+    from fieldcol.ui._access import Guard, is_loopback
+
+    if key is None and not is_loopback(host):
+        raise InputError("host", host, "beyond this machine the app needs an access key",
+                         "pass key=new_key()")
+    web = flet_fastapi.app(make_main(store), no_cdn=True)
+    config = uvicorn.Config(Guard(web, key, port), host=host, port=port,
+                            ws="websockets-sansio", log_level="warning",
+                            access_log=False,  # an access log would record keys in addresses
+                            timeout_graceful_shutdown=3)
+    uvicorn.Server(config).run()
