@@ -31,10 +31,10 @@ import difflib
 import re
 from dataclasses import dataclass, replace
 from functools import lru_cache
-from pathlib import Path
 
 import numpy as np
 
+from fieldcol._resources import shipped
 from fieldcol.errors import InputError
 from fieldcol.units import parse_quantity
 
@@ -47,7 +47,7 @@ __all__ = [
     "DATA_FILE",
 ]
 
-DATA_FILE = Path(__file__).resolve().parents[1] / "data" / "materials.csv"
+DATA_FILE = shipped("data") / "materials.csv"
 FAMILIES = ("aisc", "en", "csa", "historic", "custom")
 SHAPES = ("rect", "round")
 

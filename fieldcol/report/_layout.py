@@ -14,9 +14,10 @@ from fpdf import FPDF
 from fpdf.enums import XPos, YPos
 from fpdf.fonts import FontFace
 
+from fieldcol._resources import shipped
 from fieldcol.report._marks import draw_markup
 
-ASSETS = Path(__file__).resolve().parents[2] / "assets"
+ASSETS = shipped("assets")
 FONT = "DejaVu"
 INK = (20, 20, 20)
 GREY = (90, 90, 90)

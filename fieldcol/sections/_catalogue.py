@@ -11,15 +11,15 @@ import difflib
 import functools
 import re
 from dataclasses import dataclass, replace
-from pathlib import Path
 
 import numpy as np
 
+from fieldcol._resources import shipped
 from fieldcol.errors import InputError
 from fieldcol.sections._geometry import S_SLOPE, i_section, rect_hollow, round_hollow
 from fieldcol.sections._section import Section
 
-DATA_DIR = Path(__file__).resolve().parents[2] / "data"
+DATA_DIR = shipped("data")
 _FILES = (("sections_aisc.csv", 25.4), ("sections_en.csv", 1.0))  # (file, mm per file unit)
 
 FAMILIES = ("W", "HP", "S", "M", "HSS", "PIPE", "IPE", "HEA", "HEB", "HEM")
@@ -65,7 +65,7 @@ def catalogue_arrays() -> CatalogueArrays:
     """
     cols: dict[str, list] = {k: [] for k in CatalogueArrays.__dataclass_fields__}
     for fname, scale in _FILES:
-        with open(DATA_DIR / fname, newline="", encoding="utf-8") as fh:
+        with (DATA_DIR / fname).open(newline="", encoding="utf-8") as fh:
             rows = csv.DictReader(line for line in fh if not line.startswith("#"))
             for rec in rows:
                 cols["names"].append(rec["designation"])
