@@ -21,6 +21,7 @@ from typing import Any, Callable, Iterator, Self, TypeVar
 from sqlite_utils import Database
 
 from fieldcol.errors import InputError, StoreBusyError
+from fieldcol.store import _oplog
 from fieldcol.store import _validate as v
 from fieldcol.store._migrations import (
     MIGRATION_NAMES, SCHEMA_VERSION, migrations, schema_version, unknown_migrations,
@@ -114,8 +115,10 @@ class StoreBase:
         try:
             self.db = Database(conn, execute_plugins=False)
             self._configure()
-            self._migrate(_stop_before)
+            self._sync_schema: _oplog.Schema | None = None
+            stepped = self._migrate(_stop_before)
             self.device_id: str = self._ensure_device_id()
+            self._start_oplog(stepped)
             if not readonly:
                 # leftovers of a photo intake or a restore that a killed process never finished
                 clean_temporary(self.photos_dir)
@@ -150,11 +153,11 @@ class StoreBase:
     def _is_new_file(self) -> bool:
         return not self.db.table_names()
 
-    def _migrate(self, stop_before: str | None) -> None:
+    def _migrate(self, stop_before: str | None) -> bool:
         """Bring the schema up to date. Only one program does it: the check and every step
         run in one write transaction, so others wait, then find the work done."""
         if self._schema_state(stop_before) == "current":
-            return
+            return False
         if self.readonly:
             if not self.db.table_names():
                 raise InputError("db", str(self.path), "this SQLite file is not a fieldcol store",
@@ -165,6 +168,16 @@ class StoreBase:
         with self._tx():
             if self._schema_state(stop_before) == "pending":
                 migrations.apply(self.db, stop_before=stop_before)
+        return True
+
+    def _start_oplog(self, stepped: bool) -> None:
+        """Read the synced tables; after a schema step, log what the step wrote and note new tables."""
+        if "sync_ops" not in self.db.table_names():
+            return
+        if stepped:
+            with self._tx():
+                _oplog.install(self.db.conn, self.device_id)
+        self._sync_schema = _oplog.Schema(self.db.conn)
 
     def _schema_state(self, stop_before: str | None) -> str:
         names = set(self.db.table_names())
@@ -298,6 +311,9 @@ class StoreBase:
                     raise StoreBusyError(str(self.path)) from None
                 raise
             try:
+                if self._sync_schema is not None:
+                    # the change and its operations commit together
+                    _oplog.flush(self.db.conn, self.device_id, self._sync_schema)
                 self.db.conn.execute("COMMIT")
             except BaseException as e:
                 self.db.rollback()

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import os
 import re
+import uuid
 from pathlib import Path
 
 from fieldcol.errors import InputError
@@ -12,6 +13,8 @@ from fieldcol.store import _validate as v
 from fieldcol.store._columns import ColumnsMixin
 from fieldcol.store._records import Finding, Photo, PhotoLink, from_row
 from fieldcol.store._schema import FACES, FINDING_STATUSES, SEVERITIES
+
+_PHOTO_IDS = uuid.UUID("5b0c6a52-8f1e-4d0a-9c39-f1e1dc0c0a11")
 
 _FINDING_FIELDS = ("text", "category", "severity", "status", "column_id", "face", "height")
 _TOKEN = re.compile(r"\w+", re.UNICODE)
@@ -223,7 +226,10 @@ class FindingsMixin(ColumnsMixin):
                     "exif_taken_at", "latitude", "longitude")}
                 row["original_name"] = v.text(original_name or name, "original_name",
                                               required=False)
-                photo_id = self._insert("photos", row)
+                # the id follows the content, so the same photo taken in on two devices is
+                # one row when they sync, never two rows fighting over one hash
+                photo_id = self._insert("photos", row,
+                                        row_id=str(uuid.uuid5(_PHOTO_IDS, pf.sha256)))
             if finding_id or column_id or restraint_change_id:
                 self.attach_photo(photo_id, finding_id=finding_id, column_id=column_id,
                                   restraint_change_id=restraint_change_id, caption=caption)

@@ -10,6 +10,7 @@ from __future__ import annotations
 from sqlite_utils import Database
 from sqlite_utils.migrations import Migrations
 
+from fieldcol.store import _oplog
 from fieldcol.store._schema import V1_SQL, V2_SQL, V5_SQL
 
 migrations = Migrations("fieldcol")
@@ -26,6 +27,15 @@ def _m001_initial(db: Database) -> None:
 @migrations(name="m002_indexes")
 def _m002_indexes(db: Database) -> None:
     db.executescript(V2_SQL)
+
+
+@migrations(name="m003_sync")
+def _m003_sync(db: Database) -> None:
+    for statement in _oplog.M003_SQL.split(";"):
+        if statement.strip():  # one by one: executescript would commit mid-step
+            db.execute(statement)
+    row = db.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()
+    _oplog.install(db.conn, row[0] if row else None)
 
 
 @migrations(name="m005_field_notes")

@@ -1,0 +1,692 @@
+"""The operations log: every change to a data table as per-field operations, and their merge.
+
+Capture is by construction: triggers on every data table note the id of each row written, and
+the store's outermost transaction turns those rows into operations (one per field whose value
+changed) just before it commits. Any write path, including tables and columns added later, is
+covered as long as it runs inside ``Store._tx()``.
+
+Merge is a pure function of the set of operations, so every replica ends the same whatever the
+order or repetition of delivery:
+
+* a field's value is that of its operation with the greatest ``(hlc, op_id)``;
+* two operations on one field conflict when neither editor had seen the other (``seen`` is the
+  row version the editor had in hand); the value that lost is kept in ``sync_conflicts``;
+* an edit racing a delete keeps the row alive and the delete is flagged for review;
+* a unique key (a site's name, a column's tag on its site) taken by two rows from two devices:
+  the row whose key was set first keeps it, the other shows ``"<key> (<first 8 of its id>)"``
+  and is flagged; both rows stay and nothing is merged behind the engineer's back.
+
+Timestamps: a hybrid logical clock (``hlc``), milliseconds since 1970 shifted left 16 bits plus
+a counter, never going back and always past every clock seen from other devices.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+import sqlite3
+import time
+import uuid
+from dataclasses import asdict, dataclass
+from datetime import datetime, timezone
+from typing import Any, Iterable
+
+from fieldcol.errors import InputError
+
+#: the key travels with every operation, not as a field
+DERIVED = ("id",)
+#: bookkeeping that changes with every edit: last writer wins, never flagged
+UNFLAGGED = ("updated_at", "device_id", "created_at")
+BOOK = ("id", "created_at", "updated_at", "device_id", "deleted_at")
+#: an operation stamped further ahead of the receiver's clock than this is refused
+FUTURE_TOLERANCE_MS = 15 * 60 * 1000
+_SHIFT = 16
+_FILE_FIELDS = {
+    ("photos", "path"): re.compile(r"[0-9a-f]{2}/[0-9a-f]{64}\.(jpg|png|webp)"),
+    ("photos", "thumb_path"): re.compile(r"thumbs/[0-9a-f]{2}/[0-9a-f]{64}\.jpg"),
+    ("photos", "sha256"): re.compile(r"[0-9a-f]{64}"),
+}
+
+M003_SQL = """
+CREATE TABLE sync_ops (
+    seq INTEGER PRIMARY KEY AUTOINCREMENT,
+    op_id TEXT NOT NULL UNIQUE,
+    device_id TEXT NOT NULL,
+    hlc INTEGER NOT NULL,
+    tbl TEXT NOT NULL,
+    row_id TEXT NOT NULL,
+    field TEXT NOT NULL,
+    value TEXT,
+    seen INTEGER NOT NULL DEFAULT 0,
+    source TEXT NOT NULL
+);
+CREATE INDEX sync_ops_row ON sync_ops(tbl, row_id);
+CREATE TABLE sync_fields (
+    tbl TEXT NOT NULL,
+    row_id TEXT NOT NULL,
+    field TEXT NOT NULL,
+    hlc INTEGER NOT NULL,
+    op_id TEXT NOT NULL,
+    value TEXT,
+    mat TEXT,
+    PRIMARY KEY (tbl, row_id, field)
+) WITHOUT ROWID;
+CREATE INDEX sync_fields_value ON sync_fields(tbl, field, value);
+CREATE TABLE sync_rows (
+    tbl TEXT NOT NULL,
+    row_id TEXT NOT NULL,
+    max_hlc INTEGER NOT NULL,
+    pending INTEGER NOT NULL DEFAULT 0,
+    PRIMARY KEY (tbl, row_id)
+) WITHOUT ROWID;
+CREATE TABLE sync_conflicts (
+    id TEXT PRIMARY KEY NOT NULL,
+    kind TEXT NOT NULL CHECK (kind IN ('value', 'delete', 'duplicate')),
+    tbl TEXT NOT NULL,
+    row_id TEXT NOT NULL,
+    field TEXT NOT NULL,
+    value TEXT,
+    op_id TEXT,
+    device_id TEXT,
+    hlc INTEGER,
+    open INTEGER NOT NULL
+);
+CREATE INDEX sync_conflicts_row ON sync_conflicts(tbl, row_id);
+CREATE TABLE sync_cursors (
+    name TEXT PRIMARY KEY NOT NULL,
+    value INTEGER NOT NULL
+);
+CREATE TABLE sync_dirty (
+    tbl TEXT NOT NULL,
+    row_id TEXT NOT NULL,
+    PRIMARY KEY (tbl, row_id)
+) WITHOUT ROWID;
+"""
+
+
+@dataclass(frozen=True)
+class Op:
+    """One field of one row set to one value by one device at one clock reading.
+
+    ``value`` is the JSON text of the stored value; ``seen`` the row version (greatest ``hlc``
+    of its operations) the editor had when making the change.
+    """
+    op_id: str
+    device_id: str
+    hlc: int
+    tbl: str
+    row_id: str
+    field: str
+    value: str | None
+    seen: int
+
+    def to_json(self) -> dict[str, Any]:
+        """The operation as a JSON object (for bundles and the hub).
+
+        Example:
+            >>> Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json()["field"]
+            'name'
+        """
+        return asdict(self)
+
+    @staticmethod
+    def from_json(obj: Any, where: str = "op") -> "Op":
+        """Check and build an operation from a JSON object; raises InputError naming the field.
+
+        Example:
+            >>> Op.from_json({"op_id": "o", "device_id": "d", "hlc": 5, "tbl": "sites",
+            ...               "row_id": "r", "field": "name", "value": '"A"', "seen": 0}).hlc
+            5
+        """
+        if not isinstance(obj, dict):
+            raise InputError(where, repr(obj)[:40], "an operation is a JSON object", None)
+        out: dict[str, Any] = {}
+        for k in ("op_id", "device_id", "tbl", "row_id", "field"):
+            val = obj.get(k)
+            if not isinstance(val, str) or not 0 < len(val) <= 200:
+                raise InputError(f"{where}.{k}", repr(val)[:40], "expected a short text", None)
+            out[k] = val
+        for k in ("hlc", "seen"):
+            val = obj.get(k)
+            if isinstance(val, bool) or not isinstance(val, int) or not 0 <= val < 2 ** 62:
+                raise InputError(f"{where}.{k}", repr(val)[:40], "expected a clock reading", None)
+            out[k] = val
+        val = obj.get("value")
+        if val is not None:
+            if not isinstance(val, str) or len(val) > 1_000_000:
+                raise InputError(f"{where}.value", repr(val)[:40], "expected JSON text", None)
+            try:
+                decoded = json.loads(val)
+            except ValueError:
+                raise InputError(f"{where}.value", val[:40], "not valid JSON", None) from None
+            if not (decoded is None or isinstance(decoded, (str, int, float))):
+                raise InputError(f"{where}.value", val[:40], "a field holds text or a number",
+                                 None)
+        out["value"] = val
+        return Op(**out)
+
+
+@dataclass(frozen=True)
+class ApplyResult:
+    """What applying a batch of operations did: ``new`` operations kept (repeats are skipped),
+    ``rows`` rows written, ``pending`` rows waiting for operations not yet received."""
+    new: int
+    rows: int
+    pending: int
+
+
+@dataclass(frozen=True)
+class Conflict:
+    """A value that lost to a concurrent edit, a delete that lost to an edit, or a duplicate key.
+
+    ``value`` is the other value (JSON text), ``kept`` the value the row shows now.
+    """
+    id: str
+    kind: str
+    tbl: str
+    row_id: str
+    field: str
+    value: Any
+    kept: Any
+    device_id: str | None
+    open: bool
+
+
+# -- the clock -----------------------------------------------------------------------------
+def wall_ms() -> int:
+    """This device's clock in milliseconds since 1970 (UTC).
+
+    Example:
+        >>> wall_ms() > 1_700_000_000_000
+        True
+    """
+    return time.time_ns() // 1_000_000
+
+
+def hlc_ms(hlc: int) -> int:
+    """The wall-clock part of a clock reading, in milliseconds.
+
+    Example:
+        >>> hlc_ms((1_700_000_000_000 << 16) + 3)
+        1700000000000
+    """
+    return hlc >> _SHIFT
+
+
+def hlc_iso(hlc: int) -> str:
+    """A clock reading as a UTC timestamp like the store's others.
+
+    Example:
+        >>> hlc_iso(1_700_000_000_000 << 16)
+        '2023-11-14T22:13:20.000000Z'
+    """
+    return datetime.fromtimestamp(hlc_ms(hlc) / 1000, timezone.utc).strftime(
+        "%Y-%m-%dT%H:%M:%S.%fZ")
+
+
+def _hlc_state(conn: sqlite3.Connection) -> int:
+    row = conn.execute("SELECT value FROM meta WHERE key = 'sync_hlc'").fetchone()
+    return int(row[0]) if row else 0
+
+
+def _hlc_save(conn: sqlite3.Connection, value: int) -> None:
+    conn.execute("INSERT INTO meta (key, value) VALUES ('sync_hlc', ?) "
+                 "ON CONFLICT(key) DO UPDATE SET value = excluded.value", [str(value)])
+
+
+def hlc_tick(conn: sqlite3.Connection) -> int:
+    """The next clock reading on this device (later than every one it made or saw).
+
+    Example:
+        >>> a = hlc_tick(store.db.conn); b = hlc_tick(store.db.conn); b > a
+        True
+    """
+    new = max(wall_ms() << _SHIFT, _hlc_state(conn) + 1)
+    _hlc_save(conn, new)
+    return new
+
+
+# -- tables ----------------------------------------------------------------------------------
+class Schema:
+    """What the merge needs to know of the synced tables, read from SQLite itself."""
+
+    def __init__(self, conn: sqlite3.Connection):
+        names = [r[0] for r in conn.execute(
+            "SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY rowid")]
+        self.columns: dict[str, list[str]] = {}
+        self.required: dict[str, set[str]] = {}
+        self.fks: dict[str, list[tuple[str, str]]] = {}
+        self.uniques: dict[str, list[tuple[str, tuple[str, ...], bool]]] = {}
+        for t in names:
+            if t.startswith(("sync_", "sqlite_", "_")) or t == "meta":
+                continue
+            info = conn.execute(f"PRAGMA table_info({t})").fetchall()
+            cols = [r[1] for r in info]
+            if not set(BOOK) <= set(cols):
+                continue
+            self.columns[t] = cols
+            self.required[t] = {r[1] for r in info if r[3] and r[1] not in DERIVED}
+            self.fks[t] = [(r[3], r[2]) for r in conn.execute(f"PRAGMA foreign_key_list({t})")]
+            self.uniques[t] = self._uniques(conn, t, info)
+        self.tables = self._ordered()
+
+    @staticmethod
+    def _uniques(conn: sqlite3.Connection, t: str,
+                 info: list[Any]) -> list[tuple[str, tuple[str, ...], bool]]:
+        """(renameable text key, scope columns, partial on live rows) of each unique index."""
+        types = {r[1]: (r[2] or "").upper() for r in info}
+        out = []
+        for idx in conn.execute(f"PRAGMA index_list({t})").fetchall():
+            if not idx[2] or idx[3] == "pk":
+                continue
+            cols = [r[2] for r in conn.execute(f"PRAGMA index_info({idx[1]})")]
+            keys = [c for c in cols if c and types.get(c) == "TEXT"
+                    and not c.endswith("_id") and c not in ("id", "sha256")]
+            if not keys or None in cols:
+                continue
+            sql = conn.execute("SELECT sql FROM sqlite_master WHERE name = ?", [idx[1]]).fetchone()
+            live = bool(sql and sql[0] and "deleted_at IS NULL" in sql[0])
+            out.append((keys[-1], tuple(c for c in cols if c != keys[-1]), live))
+        return out
+
+    def _ordered(self) -> list[str]:
+        """Tables parents first (a row's references are written before it)."""
+        done: list[str] = []
+        todo = list(self.columns)
+        while todo:
+            for t in todo:
+                if all(p == t or p in done or p not in self.columns for _, p in self.fks[t]):
+                    done.append(t)
+                    todo.remove(t)
+                    break
+            else:  # a cycle: keep the file's order for the rest
+                done += todo
+                break
+        return done
+
+    def check(self, op: Op, where: str = "op") -> None:
+        """Refuse an operation naming a table or field this store does not have.
+
+        Example:
+            >>> Schema(store.db.conn).check(Op("o", "d", 1, "sites", "r", "colour", None, 0))
+            Traceback (most recent call last):
+            fieldcol.errors.InputError: op.field: cannot use 'colour': sites has no such field (update fieldcol if the other device is newer)
+        """
+        if op.tbl not in self.columns:
+            raise InputError(f"{where}.tbl", op.tbl, "not a synced table of this store",
+                             "update fieldcol if the other device is newer")
+        if op.field not in self.columns[op.tbl] or op.field in DERIVED:
+            raise InputError(f"{where}.field", op.field, f"{op.tbl} has no such field",
+                             "update fieldcol if the other device is newer")
+        if (op.tbl, op.field) in _FILE_FIELDS and op.value is not None:
+            # a row naming a file: only our own content-addressed layout, never a path out
+            name = json.loads(op.value)
+            if not isinstance(name, str) or not _FILE_FIELDS[(op.tbl, op.field)].fullmatch(name):
+                raise InputError(f"{where}.value", op.value[:80],
+                                 "not a photo file name of this store", None)
+
+
+def install(conn: sqlite3.Connection, device_id: str | None) -> None:
+    """Create the triggers that note written rows, and log rows that have no operations yet.
+
+    Run after every schema step (new tables and columns are picked up); rows with no
+    operations become operations of the device that last wrote them, at that time.
+    """
+    schema = Schema(conn)
+    for t in schema.tables:
+        for when in ("INSERT", "UPDATE"):
+            conn.execute(
+                f"CREATE TRIGGER IF NOT EXISTS sync_note_{t}_{when.lower()} AFTER {when} ON {t} "
+                f"BEGIN INSERT INTO sync_dirty (tbl, row_id) SELECT '{t}', NEW.id WHERE NOT EXISTS "
+                f"(SELECT 1 FROM sync_dirty WHERE tbl = '{t}' AND row_id = NEW.id); END")
+        # (not INSERT OR IGNORE: an upsert's conflict rule would override the trigger's)
+        conn.execute(f"INSERT OR IGNORE INTO sync_dirty (tbl, row_id) SELECT '{t}', id FROM {t} "
+                     f"WHERE id NOT IN (SELECT row_id FROM sync_rows WHERE tbl = '{t}')")
+    flush(conn, device_id or "", schema, backfill=True)
+
+
+# -- capture ---------------------------------------------------------------------------------
+def _dump(value: Any) -> str | None:
+    return None if value is None else json.dumps(value, ensure_ascii=False)
+
+
+def _iso_ms(text: Any) -> int:
+    try:
+        return int(datetime.fromisoformat(str(text).replace("Z", "+00:00")).timestamp() * 1000)
+    except ValueError:
+        return 0
+
+
+def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
+          backfill: bool = False) -> int:
+    """Turn the rows noted as written into operations (one per changed field); returns how many.
+
+    Called inside the writing transaction, so a change and its operations commit together.
+    With ``backfill`` rows keep the device and time of their last write (first logging).
+    """
+    dirty = conn.execute("SELECT tbl, row_id FROM sync_dirty").fetchall()
+    if not dirty:
+        return 0
+    hlc = hlc_tick(conn)
+    made = 0
+    for tbl, row_id in dirty:
+        if tbl not in schema.columns:
+            continue
+        cur = conn.execute(f"SELECT * FROM {tbl} WHERE id = ?", [row_id])
+        names = [d[0] for d in cur.description]
+        row = cur.fetchone()
+        if row is None:
+            continue
+        now = dict(zip(names, row))
+        known = {r[0]: (r[1], r[2]) for r in conn.execute(
+            "SELECT field, mat, value FROM sync_fields WHERE tbl = ? AND row_id = ?", [tbl, row_id])}
+        have = {f: m for f, (m, _) in known.items()}
+        seen_row = conn.execute("SELECT max_hlc FROM sync_rows WHERE tbl = ? AND row_id = ?",
+                                [tbl, row_id]).fetchone()
+        seen = seen_row[0] if seen_row else 0
+        at, dev = hlc, device_id
+        if backfill:
+            at = max(_iso_ms(now.get("updated_at")) << _SHIFT, seen + 1)
+            dev = now.get("device_id") or device_id
+        ops = []
+        for k, val in now.items():
+            if k in DERIVED:
+                continue
+            j = _dump(val)
+            if have.get(k) != j:
+                ops.append(Op(str(uuid.uuid4()), dev, at, tbl, row_id, k, j, seen))
+        if not ops:
+            continue
+        _store_ops(conn, ops, "local")
+        conn.executemany(
+            "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+            "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+            "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
+            [(o.tbl, o.row_id, o.field, o.hlc, o.op_id, o.value, o.value) for o in ops])
+        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
+                     [tbl, row_id, at])
+        made += len(ops)
+        changed = {o.field for o in ops}
+        for key, scope, live in schema.uniques[tbl]:
+            if changed & {key, "deleted_at", *scope}:
+                for raw in {known.get(key, (None, None))[1], _dump(now.get(key))}:
+                    if raw is not None:
+                        _settle_key(conn, tbl, key, scope, live, raw)
+    conn.execute("DELETE FROM sync_dirty")
+    return made
+
+
+def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str) -> list[Op]:
+    """Insert operations, skipping ids already held; returns those that were new."""
+    new = []
+    for o in ops:
+        cur = conn.execute(
+            "INSERT OR IGNORE INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, "
+            "seen, source) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
+            [o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value, o.seen, source])
+        if cur.rowcount == 1:
+            new.append(o)
+    return new
+
+
+# -- merge -----------------------------------------------------------------------------------
+def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source: str,
+          max_future_ms: int | None = FUTURE_TOLERANCE_MS) -> ApplyResult:
+    """Merge operations from elsewhere into this store (call inside one transaction).
+
+    Repeats are skipped by operation id, so applying the same batch twice changes nothing.
+
+    Args:
+        conn: the store's connection, inside a transaction.
+        ops: the operations, in any order.
+        schema: ``Schema(conn)``.
+        source: where they came from (``"hub"``, ``"bundle"``, ``"push"``, ``"local"``).
+        max_future_ms: refuse operations stamped further ahead of this clock (None: accept).
+
+    Returns:
+        An ``ApplyResult``.
+
+    Example:
+        >>> r = apply(store.db.conn, [], Schema(store.db.conn), source="bundle"); r.new
+        0
+    """
+    ops = list(ops)
+    for i, o in enumerate(ops):
+        schema.check(o, f"ops[{i}]")
+    if ops and max_future_ms is not None:
+        latest = max(ops, key=lambda o: o.hlc)
+        if hlc_ms(latest.hlc) > wall_ms() + max_future_ms:
+            raise InputError("clock", hlc_iso(latest.hlc),
+                             f"an operation from device {latest.device_id} is stamped ahead of "
+                             "this clock", "check the clock of that device, then sync again")
+    new = _store_ops(conn, ops, source)
+    if new:
+        _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
+    touched: dict[tuple[str, str], None] = {}
+    old_raw: dict[tuple[str, str, str], str | None] = {}
+    unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
+    for o in sorted(new, key=lambda o: (o.hlc, o.op_id)):
+        touched[(o.tbl, o.row_id)] = None
+        cur = conn.execute("SELECT hlc, op_id, value FROM sync_fields WHERE tbl = ? AND row_id = ? "
+                           "AND field = ?", [o.tbl, o.row_id, o.field]).fetchone()
+        if cur is None or (o.hlc, o.op_id) > (cur[0], cur[1]):
+            if (o.tbl, o.field) in unique_fields and cur is not None:
+                old_raw.setdefault((o.tbl, o.row_id, o.field), cur[2])
+            conn.execute(
+                "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                "VALUES (?, ?, ?, ?, ?, ?, NULL) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+                "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value",
+                [o.tbl, o.row_id, o.field, o.hlc, o.op_id, o.value])
+        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
+                     [o.tbl, o.row_id, o.hlc])
+    for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
+        touched[(r[0], r[1])] = None
+    written = _materialize(conn, schema, list(touched), old_raw)
+    pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
+    return ApplyResult(len(new), written, pending)
+
+
+def _materialize(conn: sqlite3.Connection, schema: Schema, rows: list[tuple[str, str]],
+                 old_raw: dict[tuple[str, str, str], str | None]) -> int:
+    rank = {t: i for i, t in enumerate(schema.tables)}
+    todo = sorted(rows, key=lambda r: (rank.get(r[0], 99), r[1]))
+    written = 0
+    while todo:
+        left = []
+        for tbl, row_id in todo:
+            if _write_row(conn, schema, tbl, row_id, old_raw):
+                written += 1
+            else:
+                left.append((tbl, row_id))
+        if len(left) == len(todo):
+            break
+        todo = left
+    for tbl, row_id in todo:
+        conn.execute("UPDATE sync_rows SET pending = 1 WHERE tbl = ? AND row_id = ?", [tbl, row_id])
+    return written
+
+
+def _concurrent(a: tuple, b: tuple) -> bool:
+    """Neither editor had seen the other's operation (a, b: (hlc, op_id, value, seen, ...))."""
+    return a[3] < b[0] and b[3] < a[0]
+
+
+def _write_row(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
+               old_raw: dict[tuple[str, str, str], str | None]) -> bool:
+    """Write one row as its operations say; False when it must wait (parent or field missing,
+    or a value this schema refuses: its operations stay and it is tried again on every apply)."""
+    conn.execute("SAVEPOINT sync_row")
+    try:
+        ok = _write_row_inner(conn, schema, tbl, row_id, old_raw)
+    except sqlite3.IntegrityError:
+        ok = False
+    if not ok:
+        conn.execute("ROLLBACK TO sync_row")
+    conn.execute("RELEASE sync_row")
+    return ok
+
+
+def _write_row_inner(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
+                     old_raw: dict[tuple[str, str, str], str | None]) -> bool:
+    ops_by_field: dict[str, list[tuple]] = {}
+    for r in conn.execute("SELECT hlc, op_id, value, seen, device_id, field FROM sync_ops "
+                          "WHERE tbl = ? AND row_id = ?", [tbl, row_id]):
+        ops_by_field.setdefault(r[5], []).append(r)
+    for lst in ops_by_field.values():
+        lst.sort()
+    raw = {f: lst[-1][2] for f, lst in ops_by_field.items()}
+    conflicts: list[tuple] = []
+    # same field, neither editor saw the other: the loser's value is kept for review
+    for f, lst in ops_by_field.items():
+        if f in UNFLAGGED:
+            continue
+        win = lst[-1]
+        for i, x in enumerate(lst[:-1]):
+            for y in lst[i + 1:]:
+                if y[3] < x[0] and y[2] != x[2]:
+                    conflicts.append((f"value:{x[1]}", "value", f, x[2], x[1], x[4], x[0],
+                                      int(win[3] < x[0])))
+                    break
+    deleted = raw.get("deleted_at")
+    if deleted is not None:
+        d = ops_by_field["deleted_at"][-1]
+        racing = any(_concurrent(e, d) for f, lst in ops_by_field.items()
+                     if f not in ("deleted_at", *UNFLAGGED) for e in lst)
+        if racing:
+            deleted = None
+        conflicts_delete = [(f"delete:{x[1]}", "delete", "deleted_at", x[2], x[1], x[4], x[0],
+                             int(racing and x is d))
+                            for x in ops_by_field["deleted_at"] if x[2] is not None
+                            and any(_concurrent(e, x) for f, lst in ops_by_field.items()
+                                    if f not in ("deleted_at", *UNFLAGGED) for e in lst)]
+        conflicts += conflicts_delete
+    vals = {f: (json.loads(j) if j is not None else None) for f, j in raw.items()}
+    vals["deleted_at"] = json.loads(deleted) if deleted is not None else None
+    if any(vals.get(c) is None for c in schema.required[tbl]):
+        return False
+    for col, parent in schema.fks[tbl]:
+        ref = vals.get(col)
+        if ref is not None and parent in schema.columns and (parent, ref) != (tbl, row_id) and \
+                conn.execute(f"SELECT 1 FROM {parent} WHERE id = ?", [ref]).fetchone() is None:
+            return False
+    row = {c: vals.get(c) for c in schema.columns[tbl] if c not in DERIVED}
+    row["id"] = row_id
+    mats = {f: _dump(row.get(f)) for f in raw}
+    dup_groups = []
+    for key, scope, live in schema.uniques[tbl]:
+        groups = {raw.get(key)}
+        if (tbl, row_id, key) in old_raw:
+            groups.add(old_raw[(tbl, row_id, key)])
+        dup_groups += [(key, scope, live, g) for g in groups if g is not None]
+    # free this row's keys first, so neither a rename nor a duplicate trips the unique index
+    for key, _, _, _ in dup_groups:
+        if conn.execute(f"SELECT 1 FROM {tbl} WHERE id = ?", [row_id]).fetchone():
+            conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [_parked(row_id), row_id])
+        row[key] = _parked(row_id)
+    names = list(row)
+    conn.execute(
+        f"INSERT INTO {tbl} ({', '.join(names)}) VALUES ({', '.join('?' for _ in names)}) "
+        f"ON CONFLICT(id) DO UPDATE SET "
+        + ", ".join(f"{c} = excluded.{c}" for c in names if c != "id"),
+        [row[c] for c in names])
+    for key, scope, live, g in dup_groups:
+        _settle_key(conn, tbl, key, scope, live, g)
+    conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, row_id])
+    conn.executemany("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND field = ?",
+                     [(m, tbl, row_id, f) for f, m in mats.items()
+                      if f not in {k for k, *_ in dup_groups}])
+    conn.execute("UPDATE sync_rows SET pending = 0 WHERE tbl = ? AND row_id = ?", [tbl, row_id])
+    conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? AND kind != 'duplicate'",
+                 [tbl, row_id])
+    conn.executemany(
+        "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, device_id, hlc, "
+        "open) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
+        [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6], c[7]) for c in conflicts])
+    return True
+
+
+def _parked(row_id: str) -> str:
+    """A stand-in key no engineer types, held while claims to one key are re-dealt."""
+    return f"~parked~{row_id}"
+
+
+def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, ...],
+                live: bool, raw_value: str) -> None:
+    """Give every row claiming one unique key its shown value: the first claim keeps it."""
+    claims = conn.execute(
+        "SELECT row_id, hlc, op_id FROM sync_fields WHERE tbl = ? AND field = ? AND value = ?",
+        [tbl, key, raw_value]).fetchall()
+    groups: dict[tuple, list[tuple]] = {}
+    for row_id, hlc, op_id in claims:
+        cur = conn.execute(f"SELECT {', '.join(('deleted_at',) + scope) or 'id'} FROM {tbl} "
+                           "WHERE id = ?", [row_id]).fetchone()
+        if cur is None:
+            continue
+        if live and cur[0] is not None:
+            groups.setdefault(("dead", row_id), []).append((hlc, op_id, row_id))
+            continue
+        groups.setdefault(tuple(cur[1:]), []).append((hlc, op_id, row_id))
+    value = json.loads(raw_value)
+    for members in groups.values():
+        members.sort()
+        for _, _, row_id in members:  # park every claim first: a swap never trips the index
+            conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [_parked(row_id), row_id])
+        for i, (hlc, op_id, row_id) in enumerate(members):
+            shown = value if i == 0 else f"{value} ({row_id[:8]})"
+            conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [shown, row_id])
+            conn.execute("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND field = ?",
+                         [_dump(shown), tbl, row_id, key])
+            conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, row_id])
+            cid = f"duplicate:{tbl}:{row_id}:{key}"
+            if i == 0:
+                conn.execute("UPDATE sync_conflicts SET open = 0 WHERE id = ?", [cid])
+            else:
+                dev = conn.execute("SELECT device_id FROM sync_ops WHERE op_id = ?",
+                                   [op_id]).fetchone()
+                conn.execute(
+                    "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, "
+                    "device_id, hlc, open) VALUES (?, 'duplicate', ?, ?, ?, ?, ?, ?, ?, 1) "
+                    "ON CONFLICT(id) DO UPDATE SET value = excluded.value, op_id = excluded.op_id, "
+                    "open = 1", [cid, tbl, row_id, key, raw_value, op_id, dev[0] if dev else None,
+                                 hlc])
+
+
+# -- reading back ----------------------------------------------------------------------------
+def list_conflicts(conn: sqlite3.Connection, *, open_only: bool = True) -> list[Conflict]:
+    """The conflicts kept for review (open ones, or all with ``open_only=False``).
+
+    Example:
+        >>> list_conflicts(store.db.conn)
+        []
+    """
+    sql = ("SELECT c.id, c.kind, c.tbl, c.row_id, c.field, c.value, f.mat, c.device_id, c.open "
+           "FROM sync_conflicts c LEFT JOIN sync_fields f ON f.tbl = c.tbl AND f.row_id = c.row_id "
+           "AND f.field = c.field")
+    if open_only:
+        sql += " WHERE c.open = 1"
+    out = []
+    for r in conn.execute(sql + " ORDER BY c.tbl, c.row_id, c.field, c.id"):
+        out.append(Conflict(r[0], r[1], r[2], r[3], r[4],
+                            json.loads(r[5]) if r[5] is not None else None,
+                            json.loads(r[6]) if r[6] is not None else None, r[7], bool(r[8])))
+    return out
+
+
+def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
+              exclude_source: str | None = None) -> list[tuple[int, Op]]:
+    """Operations with a local sequence after ``seq``, oldest first, at most ``limit``.
+
+    Example:
+        >>> ops_after(store.db.conn, 10**9, 5)
+        []
+    """
+    sql = ("SELECT seq, op_id, device_id, hlc, tbl, row_id, field, value, seen FROM sync_ops "
+           "WHERE seq > ?")
+    params: list[Any] = [seq]
+    if exclude_source:
+        sql += " AND source != ?"
+        params.append(exclude_source)
+    params.append(limit)
+    return [(r[0], Op(*r[1:])) for r in conn.execute(sql + " ORDER BY seq LIMIT ?", params)]

@@ -1,0 +1,207 @@
+"""The store's side of sync: merging operations, cursors, conflicts, device-local settings."""
+
+from __future__ import annotations
+
+import json
+import uuid
+from typing import Any, Iterable
+
+from fieldcol.errors import InputError
+from fieldcol.store import _oplog
+from fieldcol.store._base import StoreBase
+from fieldcol.store._oplog import ApplyResult, Conflict, Op
+
+#: settings that belong to this device and never travel
+LOCAL_SETTINGS = ("hub_url", "hub_token")
+
+
+class SyncMixin(StoreBase):
+    """Operations in and out, sync cursors, conflicts to review, device-local settings."""
+
+    def _schema(self) -> _oplog.Schema:
+        if self._sync_schema is None:
+            raise InputError("db", str(self.path), "this store has no operations log yet",
+                             "open it with this version of fieldcol once to update it")
+        return self._sync_schema
+
+    def apply_ops(self, ops: Iterable[Op], *, source: str,
+                  max_future_ms: int | None = _oplog.FUTURE_TOLERANCE_MS) -> ApplyResult:
+        """Merge operations from another device, the hub or a bundle, in one transaction.
+
+        Args:
+            ops: the operations (repeats are skipped by id).
+            source: ``"hub"``, ``"bundle"`` or ``"push"``.
+            max_future_ms: refuse operations stamped further ahead of this clock.
+
+        Returns:
+            An ``ApplyResult`` (new operations, rows written, rows waiting).
+
+        Example:
+            >>> store.apply_ops(store.ops_after(0, 10), source="bundle").new  # all known
+            0
+        """
+        with self._tx():
+            return _oplog.apply(self.db.conn, ops, self._schema(), source=source,
+                                max_future_ms=max_future_ms)
+
+    def ops_after(self, seq: int, limit: int = 1000, *,
+                  exclude_source: str | None = None) -> list[Op]:
+        """Operations logged here after local sequence ``seq``, oldest first.
+
+        Example:
+            >>> len(store.ops_after(0, 3))
+            3
+        """
+        return [op for _, op in self.ops_with_seq(seq, limit, exclude_source=exclude_source)]
+
+    def ops_with_seq(self, seq: int, limit: int = 1000, *,
+                     exclude_source: str | None = None) -> list[tuple[int, Op]]:
+        """Like ``ops_after`` with each operation's local sequence number.
+
+        Example:
+            >>> store.ops_with_seq(0, 1)[0][0] >= 1
+            True
+        """
+        with self._lock:
+            return _oplog.ops_after(self.db.conn, seq, limit, exclude_source=exclude_source)
+
+    def last_op_seq(self) -> int:
+        """The local sequence number of the newest operation (0 when none).
+
+        Example:
+            >>> store.last_op_seq() > 0
+            True
+        """
+        with self._lock:
+            return self.db.conn.execute("SELECT coalesce(max(seq), 0) FROM sync_ops").fetchone()[0]
+
+    def count_ops(self, *, device_id: str | None = None) -> int:
+        """How many operations are logged here (made by ``device_id`` when given).
+
+        Example:
+            >>> store.count_ops() >= store.count_ops(device_id=store.device_id)
+            True
+        """
+        sql, params = "SELECT count(*) FROM sync_ops", []
+        if device_id is not None:
+            sql += " WHERE device_id = ?"
+            params.append(device_id)
+        with self._lock:
+            return self.db.conn.execute(sql, params).fetchone()[0]
+
+    # -- cursors and settings -----------------------------------------------------------------
+    def cursor(self, name: str) -> int:
+        """A sync cursor's value (0 when never moved).
+
+        Example:
+            >>> store.cursor("hub-pull")
+            0
+        """
+        with self._lock:
+            row = self.db.conn.execute("SELECT value FROM sync_cursors WHERE name = ?",
+                                       [name]).fetchone()
+            return row[0] if row else 0
+
+    def set_cursor(self, name: str, value: int) -> None:
+        """Move a sync cursor (inside the caller's transaction when there is one).
+
+        Example:
+            >>> store.set_cursor("hub-pull", 7); store.cursor("hub-pull")
+            7
+        """
+        with self._tx():
+            self.db.execute("INSERT INTO sync_cursors (name, value) VALUES (?, ?) ON CONFLICT(name) "
+                            "DO UPDATE SET value = excluded.value", [name, int(value)])
+
+    def setting(self, key: str) -> str | None:
+        """A device-local setting (hub address, token); None when unset.
+
+        Example:
+            >>> store.setting("hub_url") is None
+            True
+        """
+        if key not in LOCAL_SETTINGS:
+            raise InputError("setting", key, "not a setting of this device", ", ".join(LOCAL_SETTINGS))
+        with self._lock:
+            row = self.db.conn.execute("SELECT value FROM meta WHERE key = ?",
+                                       [f"setting.{key}"]).fetchone()
+            return row[0] if row else None
+
+    def set_setting(self, key: str, value: str | None) -> None:
+        """Keep (or with None forget) a device-local setting; it never syncs.
+
+        Example:
+            >>> store.set_setting("hub_url", "http://127.0.0.1:8765"); store.setting("hub_url")
+            'http://127.0.0.1:8765'
+        """
+        if key not in LOCAL_SETTINGS:
+            raise InputError("setting", key, "not a setting of this device", ", ".join(LOCAL_SETTINGS))
+        with self._tx():
+            if value is None:
+                self.db.execute("DELETE FROM meta WHERE key = ?", [f"setting.{key}"])
+            else:
+                self.db.execute("INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT(key) "
+                                "DO UPDATE SET value = excluded.value", [f"setting.{key}", value])
+
+    # -- conflicts ------------------------------------------------------------------------------
+    def conflicts(self, *, open_only: bool = True) -> list[Conflict]:
+        """Values kept for review: concurrent edits that lost, deletes that lost to an edit,
+        duplicate keys (see ``fieldcol.store._oplog``).
+
+        Example:
+            >>> store.conflicts()
+            []
+        """
+        with self._lock:
+            return _oplog.list_conflicts(self.db.conn, open_only=open_only)
+
+    def resolve_conflict(self, conflict_id: str, keep: str) -> None:
+        """Settle a conflict: ``keep="shown"`` keeps the value the row shows now, ``"other"``
+        takes the value that lost. Either way a new operation records the decision, made with
+        both values in view, so it travels and closes the conflict everywhere; both values stay
+        in the operations log.
+
+        Example:
+            >>> store.resolve_conflict("no-such", "shown")
+            Traceback (most recent call last):
+            fieldcol.errors.InputError: conflict: cannot use 'no-such': no such conflict (list them with store.conflicts())
+        """
+        if keep not in ("shown", "other"):
+            raise InputError("keep", keep, "keep the shown value or the other one", "shown or other")
+        with self._tx():
+            found = [c for c in _oplog.list_conflicts(self.db.conn, open_only=False)
+                     if c.id == conflict_id]
+            if not found:
+                raise InputError("conflict", conflict_id, "no such conflict",
+                                 "list them with store.conflicts()")
+            c = found[0]
+            if c.kind == "duplicate":
+                # keeping both: the shown, suffixed key becomes the row's own
+                value = c.kept if keep == "shown" else c.value
+            elif c.kind == "delete":
+                value = None if keep == "shown" else c.value
+            else:
+                value = c.kept if keep == "shown" else c.value
+            seen = self.db.conn.execute("SELECT max_hlc FROM sync_rows WHERE tbl = ? AND row_id = ?",
+                                        [c.tbl, c.row_id]).fetchone()
+            op = Op(str(uuid.uuid4()), self.device_id, _oplog.hlc_tick(self.db.conn), c.tbl,
+                    c.row_id, c.field, None if value is None else json.dumps(value),
+                    seen[0] if seen else 0)
+            _oplog.apply(self.db.conn, [op], self._schema(), source="local")
+
+    def sync_summary(self) -> dict[str, Any]:
+        """Counts for the sync screen: operations logged, made here, rows waiting, open conflicts.
+
+        Example:
+            >>> sorted(store.sync_summary())
+            ['conflicts', 'ops', 'ops_here', 'waiting']
+        """
+        with self._lock:
+            c = self.db.conn
+            return {"ops": c.execute("SELECT count(*) FROM sync_ops").fetchone()[0],
+                    "ops_here": c.execute("SELECT count(*) FROM sync_ops WHERE device_id = ?",
+                                          [self.device_id]).fetchone()[0],
+                    "waiting": c.execute("SELECT count(*) FROM sync_rows WHERE pending = 1")
+                    .fetchone()[0],
+                    "conflicts": c.execute("SELECT count(*) FROM sync_conflicts WHERE open = 1")
+                    .fetchone()[0]}

@@ -1,0 +1,232 @@
+"""The device's side of sync with the office hub: push, photos, pull.
+
+Order of a sync: say hello (schema, clocks, what the hub holds from us), upload the photos the
+outgoing operations name, push the operations in batches (the push cursor moves only after the
+hub's acknowledgement), download the photos incoming operations name, then apply each pulled
+batch together with the pull cursor in one transaction. Any step may be cut; the next sync
+repeats it harmlessly (operations are taken by id, photos by content hash).
+"""
+
+from __future__ import annotations
+
+import hashlib
+from dataclasses import dataclass, field
+from typing import Any, Callable
+
+import httpx
+
+from fieldcol.errors import InputError
+from fieldcol.store import Store
+from fieldcol.store._migrations import MIGRATION_NAMES
+from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, Op, wall_ms
+from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
+
+PUSH_BATCH = 2000
+PULL_BATCH = 5000
+CHUNK = 1 << 20
+TIMEOUT_S = 30.0
+
+
+@dataclass
+class SyncReport:
+    """What one sync moved: operations and photos sent and received, conflicts, warnings."""
+    sent: int = 0
+    received: int = 0
+    photos_sent: int = 0
+    photos_received: int = 0
+    conflicts: list[Conflict] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+
+    def lines(self) -> list[str]:
+        """Plain lines for the command line and the sync screen.
+
+        Example:
+            >>> SyncReport(sent=3).lines()[0]
+            'sent 3 changes and 0 photos; received 0 changes and 0 photos'
+        """
+        out = [f"sent {self.sent} changes and {self.photos_sent} photos; received "
+               f"{self.received} changes and {self.photos_received} photos"]
+        out += self.warnings
+        if self.conflicts:
+            out.append(f"{len(self.conflicts)} conflicts to review:")
+            out += [f"  {c.tbl} {c.row_id[:8]} {c.field}: shows {c.kept!r}, other {c.value!r} "
+                    f"({c.kind})" for c in self.conflicts]
+        return out
+
+
+class _Hub:
+    """Thin HTTP calls; every failure becomes an InputError naming what to fix."""
+
+    def __init__(self, url: str, token: str, transport: httpx.BaseTransport | None = None):
+        if not url.startswith(("http://", "https://")):
+            raise InputError("hub", url, "not a hub address", "e.g. https://hub.example or "
+                             "http://127.0.0.1:8765")
+        if not token:
+            raise InputError("token", "", "no token given", "ask for one: fieldcol hub add-device")
+        self.url = url.rstrip("/")
+        self.http = httpx.Client(base_url=self.url, timeout=TIMEOUT_S, transport=transport,
+                                 headers={"Authorization": f"Bearer {token}"})
+
+    def close(self) -> None:
+        self.http.close()
+
+    def call(self, method: str, path: str, **kw: Any) -> httpx.Response:
+        try:
+            r = self.http.request(method, path, **kw)
+        except httpx.HTTPError as e:
+            raise InputError("hub", self.url, f"cannot reach the hub ({type(e).__name__}: {e})",
+                             "check the address and the network, then sync again") from None
+        if r.status_code == 401:
+            raise InputError("token", "****", "the hub refused this token (wrong or revoked)",
+                             "ask the office for a new one: fieldcol hub add-device")
+        if r.status_code >= 400:
+            try:
+                body = r.json()
+                f, reason, hint = body.get("field", "hub"), body.get("reason", ""), body.get("hint")
+            except ValueError:
+                f, reason, hint = "hub", r.text[:200], None
+            if f == "clock":
+                raise InputError("clock", "this device", f"the hub refused changes: {reason}",
+                                 "check the clock on this device; the changes stay here and go "
+                                 "at the next sync")
+            raise InputError(str(f), path, f"the hub said {r.status_code}: {reason}", hint)
+        return r
+
+
+def sync_with_hub(store: Store, url: str, token: str, *,
+                  progress: Callable[[str, int, int], None] | None = None,
+                  transport: httpx.BaseTransport | None = None) -> SyncReport:
+    """Sync this store with the hub at ``url``.
+
+    Args:
+        store: this device's store.
+        url: the hub's address.
+        token: this device's token.
+        progress: called with (step, done, total) as the sync goes.
+        transport: an httpx transport (tests cut connections with one).
+
+    Returns:
+        A ``SyncReport``. Raises ``InputError`` (field ``token``, ``hub``, ``clock`` or
+        ``schema``) when it cannot finish; what was done before stays done.
+
+    Example: ``sync_with_hub(store, "http://127.0.0.1:8765", token).lines()``.
+    """
+    say = progress or (lambda step, done, total: None)
+    report = SyncReport()
+    hub = _Hub(url, token, transport)
+    try:
+        hello = hub.call("GET", "/v1/hello", params={"device": store.device_id}).json()
+        hub_id = str(hello["hub_id"])
+        push_c, pull_c = f"push:{hub_id}", f"pull:{hub_id}"
+        missing = [s for s in hello["schema"] if s not in MIGRATION_NAMES]
+        if missing:
+            raise InputError("schema", "this device", "this device's fieldcol is older than the "
+                             "hub's", "update fieldcol on this device, then sync")
+        skew = wall_ms() - int(hello["now_ms"])
+        if skew > FUTURE_TOLERANCE_MS:
+            report.warnings.append(f"this device's clock is {skew // 60000} minutes ahead of the "
+                                   "hub's: check the clock")
+        elif skew < -24 * 3600 * 1000:
+            report.warnings.append(f"this device's clock is {-skew // 86_400_000} days behind "
+                                   "the hub's: check the clock (changes made offline may lose "
+                                   "to others)")
+        # a hub restored from an older copy has lost what we sent: send it all again
+        if int(hello["max_seq"]) < store.cursor(pull_c) or \
+                int(hello["have_from_you"]) < _own_ops_upto(store, store.cursor(push_c)):
+            store.set_cursor(push_c, 0)
+            store.set_cursor(pull_c, 0)
+            report.warnings.append("the hub holds less than it acknowledged (restored from a "
+                                   "backup?): everything was sent again")
+        _push(store, hub, push_c, report, say)
+        _pull(store, hub, pull_c, report, say)
+        report.conflicts = store.conflicts()
+    finally:
+        hub.close()
+    return report
+
+
+def _own_ops_upto(store: Store, seq: int) -> int:
+    with store._lock:
+        return store.db.conn.execute("SELECT count(*) FROM sync_ops WHERE device_id = ? AND "
+                                     "seq <= ?", [store.device_id, seq]).fetchone()[0]
+
+
+def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+          say: Callable[[str, int, int], None]) -> None:
+    total = max(0, store.last_op_seq() - store.cursor(cursor))
+    done = 0
+    while True:
+        batch = store.ops_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
+        if not batch:
+            break
+        ops = [op for _, op in batch]
+        for sha, name in needed_photos(ops).items():  # photos before the rows naming them
+            if _upload(store, hub, sha):
+                report.photos_sent += 1
+        hub.call("POST", "/v1/push", json={"device": store.device_id,
+                                           "schema": list(MIGRATION_NAMES),
+                                           "ops": [o.to_json() for o in ops]})
+        store.set_cursor(cursor, batch[-1][0])  # only after the acknowledgement
+        report.sent += len(ops)
+        done += len(ops)
+        say("send", done, total)
+
+
+def _upload(store: Store, hub: _Hub, sha: str) -> bool:
+    """Send one photo, continuing an unfinished upload; False when the hub had it."""
+    f = photo_file(store, sha)
+    if f is None:
+        return False  # not on this device either: the row goes, the photo cannot
+    status = hub.call("GET", f"/v1/photos/{sha}/status").json()
+    if status["have"]:
+        return False
+    size = f.stat().st_size
+    offset = int(status["received"])
+    with open(f, "rb") as fh:
+        while offset < size:
+            fh.seek(offset)
+            chunk = fh.read(CHUNK)
+            r = hub.call("PUT", f"/v1/photos/{sha}", params={"offset": offset, "total": size},
+                         content=chunk).json()
+            offset = int(r["received"])
+            if r["have"]:
+                break
+    return True
+
+
+def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+          say: Callable[[str, int, int], None]) -> None:
+    while True:
+        after = store.cursor(cursor)
+        body = hub.call("GET", "/v1/pull", params={"after": after, "limit": PULL_BATCH}).json()
+        rows = body["ops"]
+        if not rows:
+            break
+        ops = [Op.from_json(o, f"pull.ops[{i}]") for i, (_, o) in enumerate(rows)]
+        for sha, name in needed_photos(ops).items():  # files before the rows naming them
+            if not have_photo(store, sha, name):
+                if _download(store, hub, sha):
+                    report.photos_received += 1
+                else:
+                    report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the device "
+                                           "that took it has not sent it)")
+        with store._tx():
+            result = store.apply_ops(ops, source="hub", max_future_ms=None)
+            store.set_cursor(cursor, int(rows[-1][0]))
+        report.received += result.new
+        say("receive", int(rows[-1][0]), int(body["max_seq"]))
+
+
+def _download(store: Store, hub: _Hub, sha: str) -> bool:
+    if not hub.call("GET", f"/v1/photos/{sha}/status").json()["have"]:
+        return False
+    data = bytearray()
+    while True:
+        r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)})
+        if not r.content:
+            break
+        data += r.content
+        if hashlib.sha256(data).hexdigest() == sha:
+            break
+    take_photo(store, sha, bytes(data))
+    return True

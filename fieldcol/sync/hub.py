@@ -1,0 +1,204 @@
+"""The office hub's HTTP interface (FastAPI): push, pull, photos, all behind device tokens.
+
+Every route needs ``Authorization: Bearer <token>``; a missing, wrong or revoked token gets
+401 and nothing else. Bodies are capped (``MAX_JSON_BYTES``, ``MAX_CHUNK_BYTES``); the only
+value from a request that names a file is a content hash, checked as 64 hex digits.
+
+Routes (JSON unless said)::
+
+    GET  /v1/hello?device=ID            hub id, schema, newest sequence, ops held from ID, clock
+    POST /v1/push   {device, schema, ops}        -> {acked, new, max_seq}
+    GET  /v1/pull?after=N&limit=M                -> {ops: [[seq, op], ...], max_seq}
+    GET  /v1/photos/{sha}/status                 -> {have, received}
+    PUT  /v1/photos/{sha}?offset=K&total=T (raw bytes)  -> {have, received}
+    GET  /v1/photos/{sha}?offset=K (raw bytes)
+
+Errors: ``{"field", "reason", "hint"}`` with 400 (bad JSON), 401, 409 (clock, offset), 413
+(too large), 422 (a bad value), 426 (the device must update).
+"""
+
+from __future__ import annotations
+
+import json
+from typing import Any
+
+from fastapi import FastAPI, Request
+from fastapi.responses import JSONResponse, Response
+
+from fieldcol.errors import InputError
+from fieldcol.store._oplog import Op, wall_ms
+from fieldcol.sync._hubstore import SHA, HubStore
+
+MAX_JSON_BYTES = 16 << 20
+MAX_CHUNK_BYTES = 4 << 20
+MAX_PULL = 5000
+
+
+class _Refused(Exception):
+    def __init__(self, status: int, field: str, reason: str, hint: str | None = None):
+        self.status, self.body = status, {"field": field, "reason": reason, "hint": hint}
+
+
+async def _body(request: Request, cap: int) -> bytes:
+    """The request body, refused as soon as it passes ``cap`` (declared or streamed)."""
+    declared = request.headers.get("content-length")
+    if declared is not None and (not declared.isdigit() or int(declared) > cap):
+        raise _Refused(413, "body", f"larger than {cap} bytes")
+    out = bytearray()
+    async for chunk in request.stream():
+        out += chunk
+        if len(out) > cap:
+            raise _Refused(413, "body", f"larger than {cap} bytes")
+    return bytes(out)
+
+
+def _json(raw: bytes) -> Any:
+    try:
+        return json.loads(raw)
+    except (ValueError, UnicodeDecodeError) as e:
+        raise _Refused(400, "body", f"not valid JSON ({e})") from None
+
+
+def _int(value: str | None, field: str, default: int | None = None) -> int:
+    if value is None and default is not None:
+        return default
+    if value is None or not value.isdigit() or len(value) > 18:
+        raise _Refused(422, field, "expected a whole number")
+    return int(value)
+
+
+def create_app(hub: HubStore) -> FastAPI:
+    """The hub's web application over ``hub`` (serve it with uvicorn).
+
+    Example:
+        >>> create_app(HubStore("hubdata")).title
+        'fieldcol hub'
+    """
+    app = FastAPI(title="fieldcol hub", docs_url=None, redoc_url=None, openapi_url=None)
+
+    @app.middleware("http")
+    async def guard(request: Request, call_next: Any) -> Response:
+        auth = request.headers.get("authorization", "")
+        token = auth[7:] if auth.lower().startswith("bearer ") else None
+        device = hub.device_for_token(token)
+        if device is None:
+            return JSONResponse({"field": "token", "reason": "missing, wrong or revoked token",
+                                 "hint": None}, status_code=401)
+        request.state.device = device
+        return await call_next(request)
+
+    @app.exception_handler(_Refused)
+    async def refused(request: Request, e: _Refused) -> Response:
+        return JSONResponse(e.body, status_code=e.status)
+
+    @app.exception_handler(InputError)
+    async def bad_input(request: Request, e: InputError) -> Response:
+        status = 409 if e.field in ("clock", "offset") else 422
+        return JSONResponse({"field": e.field, "reason": e.reason, "hint": e.hint},
+                            status_code=status)
+
+    @app.get("/v1/hello")
+    def hello(request: Request, device: str = "") -> dict[str, Any]:
+        hub.touch(request.state.device.name, device or None)
+        return {"hub_id": hub.hub_id, "schema": hub.schema, "max_seq": hub.max_seq(),
+                "have_from_you": hub.count_from(device) if device else 0, "now_ms": wall_ms()}
+
+    @app.post("/v1/push")
+    async def push(request: Request) -> dict[str, Any]:
+        body = _json(await _body(request, MAX_JSON_BYTES))
+        if not isinstance(body, dict) or not isinstance(body.get("ops"), list):
+            raise _Refused(422, "ops", "expected {device, schema, ops: [...]}")
+        _check_schema(hub, body.get("schema"))
+        ops = [Op.from_json(o, f"ops[{i}]") for i, o in enumerate(body["ops"])]
+        from starlette.concurrency import run_in_threadpool
+        result = await run_in_threadpool(hub.push, ops)
+        hub.touch(request.state.device.name, body.get("device") if isinstance(
+            body.get("device"), str) else None)
+        return {"acked": len(ops), "new": result.new, "max_seq": hub.max_seq()}
+
+    @app.get("/v1/pull")
+    def pull(after: str = "0", limit: str = "1000") -> dict[str, Any]:
+        n = min(_int(limit, "limit"), MAX_PULL)
+        rows = hub.pull(_int(after, "after"), n)
+        return {"ops": [[seq, op.to_json()] for seq, op in rows], "max_seq": hub.max_seq()}
+
+    @app.get("/v1/photos/{sha}/status")
+    def photo_status(sha: str) -> dict[str, Any]:
+        _sha(sha)
+        have, got = hub.photo_status(sha)
+        return {"have": have, "received": got}
+
+    @app.put("/v1/photos/{sha}")
+    async def photo_put(sha: str, request: Request) -> dict[str, Any]:
+        _sha(sha)
+        offset = _int(request.query_params.get("offset"), "offset")
+        total = _int(request.query_params.get("total"), "total")
+        data = await _body(request, MAX_CHUNK_BYTES)
+        from starlette.concurrency import run_in_threadpool
+        have, got = await run_in_threadpool(hub.photo_append, sha, offset, total, data)
+        return {"have": have, "received": got}
+
+    @app.get("/v1/photos/{sha}")
+    def photo_get(sha: str, offset: str = "0") -> Response:
+        _sha(sha)
+        data = hub.photo_read(sha, _int(offset, "offset"), MAX_CHUNK_BYTES)
+        if data is None:
+            return JSONResponse({"field": "sha256", "reason": "the hub does not hold this photo",
+                                 "hint": None}, status_code=404)
+        return Response(data, media_type="application/octet-stream")
+
+    return app
+
+
+def _sha(sha: str) -> None:
+    if not SHA.fullmatch(sha):
+        raise _Refused(422, "sha256", "not a content hash (64 hex digits)")
+
+
+def _check_schema(hub: HubStore, theirs: Any) -> None:
+    if not isinstance(theirs, list) or not all(isinstance(s, str) for s in theirs):
+        raise _Refused(422, "schema", "expected the list of schema steps")
+    missing = [s for s in hub.schema if s not in theirs]
+    if missing:
+        raise _Refused(426, "schema", "this device's fieldcol is older than the hub's",
+                       "update fieldcol on this device, then sync")
+    newer = [s for s in theirs if s not in hub.schema]
+    if newer:
+        raise _Refused(409, "schema", "the hub's fieldcol is older than this device's",
+                       "update fieldcol on the hub, then sync")
+
+
+def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
+          certfile: str | None = None, keyfile: str | None = None) -> None:
+    """Run the hub until stopped (Ctrl-C). Listening beyond loopback needs TLS or ``insecure_ok``.
+
+    Example: ``serve("hubdata", "127.0.0.1", 8765)`` (blocks).
+    """
+    import uvicorn
+
+    if not _loopback(host) and not (certfile and keyfile) and not insecure_ok:
+        raise InputError("host", host, "the hub listens beyond this computer only with TLS",
+                         "keep 127.0.0.1 behind a TLS reverse proxy, give --tls-cert and "
+                         "--tls-key, or pass --insecure-ok on a network you trust")
+    hub = HubStore(data_dir)
+    try:
+        uvicorn.run(create_app(hub), host=host, port=port, log_level="warning",
+                    ssl_certfile=certfile, ssl_keyfile=keyfile)
+    finally:
+        hub.close()
+
+
+def _loopback(host: str) -> bool:
+    """True for addresses that only this computer can reach.
+
+    Example:
+        >>> _loopback("127.0.0.1"), _loopback("0.0.0.0"), _loopback("localhost")
+        (True, False, True)
+    """
+    import ipaddress
+    if host == "localhost":
+        return True
+    try:
+        return ipaddress.ip_address(host).is_loopback
+    except ValueError:
+        return False

@@ -1,0 +1,212 @@
+"""The operations log: capture of every write, and a merge that ends the same on every replica.
+
+Convergence, idempotence and commutativity of the merge are the properties any replicated store
+must have (common practice); checked here on real SQLite files.
+"""
+
+from __future__ import annotations
+
+import random
+from pathlib import Path
+
+import pytest
+from hypothesis import HealthCheck, given, settings, strategies as st
+
+from fieldcol.store import Store
+from fieldcol.store._oplog import Op
+from fieldcol.store._schema import DATA_TABLES
+
+
+def dump(s: Store) -> dict:
+    """Every data row and every conflict, as comparable plain data."""
+    out = {}
+    for t in DATA_TABLES:
+        out[t] = sorted(tuple(r.items()) for r in s._rows(f"SELECT * FROM {t}"))
+    out["conflicts"] = sorted((c.id, c.kind, c.tbl, c.row_id, c.field, repr(c.value), repr(c.kept),
+                               c.open) for c in s.conflicts(open_only=False))
+    return out
+
+
+def send(a: Store, b: Store) -> int:
+    """Everything ``a`` holds, merged into ``b``; returns how many were new there."""
+    return b.apply_ops(a.ops_after(0, 10**7), source="bundle").new
+
+
+def site(s: Store, name: str = "Kestrel Lane Print Works"):
+    return s.add_site(name, code="aisc360-22", unit_system="us")
+
+
+def test_every_write_logs_its_fields_in_the_same_transaction(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a:
+        st_ = site(a)
+        n = a.count_ops()
+        assert n >= 4  # name, code, unit_system, created_at
+        a.update_site(st_.id, address="1 Kestrel Lane")
+        ops = a.ops_after(0, 100)[n:]
+        assert [(o.field, o.value) for o in ops if o.field != "updated_at"] == [
+            ("address", '"1 Kestrel Lane"')]
+        assert ops[0].seen > 0  # the editor had seen the row's first version
+        a.delete("sites", st_.id)
+        assert a.ops_after(0, 100)[-1].field == "deleted_at"
+
+
+def test_a_failed_write_logs_nothing(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a:
+        site(a)
+        n = a.count_ops()
+        with pytest.raises(Exception):
+            site(a)  # same name: refused
+        assert a.count_ops() == n
+
+
+def test_two_devices_merge_fields_and_keep_the_losing_value(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        col = a.add_column(s.id, {"tag": "C1", "section": "W10X49", "length": "14 ft"})
+        send(a, b)
+        a.update_site(s.id, address="north yard")        # different fields: both kept
+        b.update_site(s.id, owner_ref="KL-7")
+        a.update_column(col.id, location="by the press")  # same field: a conflict
+        b.update_column(col.id, location="by the dock")
+        send(a, b)
+        send(b, a)
+        assert dump(a) == dump(b)
+        got = a.get_site(s.id)
+        assert (got.address, got.owner_ref) == ("north yard", "KL-7")
+        (c,) = a.conflicts()
+        assert c.kind == "value" and c.field == "location"
+        assert {c.value, c.kept} == {"by the press", "by the dock"}
+        # settling it closes it everywhere; both values stay in the log
+        a.resolve_conflict(c.id, "other")
+        send(a, b)
+        assert a.conflicts() == [] and b.conflicts() == []
+        assert b.get_column(col.id).location == c.value
+        assert dump(a) == dump(b)
+
+
+def test_an_edit_racing_a_delete_wins_and_is_flagged(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        f = a.add_finding(s.id, "Web crack at splice", category="crack", severity="high")
+        send(a, b)
+        a.delete("findings", f.id)
+        b.update_finding(f.id, status="closed")
+        send(a, b)
+        send(b, a)
+        assert dump(a) == dump(b)
+        assert a.get_finding(f.id).deleted_at is None
+        (c,) = a.conflicts()
+        assert c.kind == "delete"
+        a.resolve_conflict(c.id, "other")  # delete it after all, having seen the edit
+        send(a, b)
+        assert b.get_finding(f.id).deleted_at is not None and b.conflicts() == []
+
+
+def test_the_same_tag_from_two_devices_keeps_both_rows(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        send(a, b)
+        ca = a.add_column(s.id, {"tag": "C7", "section": "W10X49", "length": "14 ft"})
+        cb = b.add_column(s.id, {"tag": "C7", "section": "W12X65", "length": "14 ft"})
+        send(a, b)
+        send(b, a)
+        assert dump(a) == dump(b)
+        tags = sorted(r.tag for r in a.list_columns(s.id))
+        assert tags[0] == "C7" and tags[1].startswith("C7 (")
+        (c,) = a.conflicts()
+        assert c.kind == "duplicate"
+        # one engineer renames the second: the first keeps the plain tag everywhere
+        second = cb if a.get_column(cb.id).tag != "C7" else ca
+        a.update_column(second.id, record={**a.get_column(second.id).record, "tag": "C7a"})
+        send(a, b)
+        assert sorted(r.tag for r in b.list_columns(s.id)) == ["C7", "C7a"]
+        assert dump(a) == dump(b)
+
+
+def test_applying_twice_changes_nothing(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        a.add_column(s.id, {"tag": "C1", "section": "W10X49", "length": "14 ft"})
+        assert send(a, b) > 0
+        before = dump(b)
+        assert send(a, b) == 0
+        assert dump(b) == before
+
+
+def test_a_child_before_its_parent_waits_then_lands(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        a.add_column(s.id, {"tag": "C1", "section": "W10X49", "length": "14 ft"})
+        ops = a.ops_after(0, 1000)
+        cols = [o for o in ops if o.tbl == "columns"]
+        r = b.apply_ops(cols, source="bundle")
+        assert r.pending == 1 and b.list_sites() == []
+        r = b.apply_ops(ops, source="bundle")
+        assert r.pending == 0 and len(b.list_columns(s.id)) == 1
+
+
+def test_unknown_fields_are_refused_whole(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a:
+        from fieldcol.errors import InputError
+        n = a.count_ops()
+        bad = Op("x", "d", 1 << 16, "sites", "r", "name; DROP TABLE sites", '"A"', 0)
+        with pytest.raises(InputError) as e:
+            a.apply_ops([bad], source="bundle")
+        assert e.value.field == "ops[0].field" and a.count_ops() == n
+
+
+# -- convergence, whatever the order ------------------------------------------------------------
+SITES = ["s1", "s2"]
+NAMES = ["North", "South", "Mill"]
+ACTIONS = st.lists(st.tuples(st.integers(0, 2), st.sampled_from(["edit", "rename", "delete",
+                                                                 "sync", "column", "tag"]),
+                             st.integers(0, 1), st.integers(0, 2)), min_size=1, max_size=14)
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(actions=ACTIONS, seed=st.integers(0, 10**6))
+def test_any_order_any_repeats_converge(tmp_path_factory, actions, seed):
+    """Three devices edit offline; their operations arrive shuffled and repeated; all end equal."""
+    root = tmp_path_factory.mktemp("conv")
+    stores = [Store(root / f"d{i}.db") for i in range(3)]
+    try:
+        base = stores[0]
+        ids = [site(base, f"Site {k}").id for k in SITES]
+        for other in stores[1:]:
+            send(base, other)
+        for dev, act, which, val in actions:
+            s = stores[dev]
+            sid = ids[which]
+            try:
+                if act == "edit":
+                    s.update_site(sid, address=f"{NAMES[val]} yard")
+                elif act == "rename":
+                    s.update_site(sid, name=NAMES[val])
+                elif act == "delete":
+                    s.delete("sites", sid)
+                elif act == "sync":
+                    send(stores[(dev + 1) % 3], s)
+                elif act == "column":
+                    s.add_column(sid, {"tag": f"C{val}", "section": "W10X49", "length": "14 ft"})
+                elif act == "tag":
+                    cols = s.list_columns(sid)
+                    if cols:
+                        rec = s.get_column(cols[0].id).record
+                        s.update_column(cols[0].id, record={**rec, "tag": f"C{val}"})
+            except Exception as e:  # refused locally (deleted row, taken name): fine
+                from fieldcol.errors import InputError
+                assert isinstance(e, InputError)
+        rng = random.Random(seed)
+        every = [op for s in stores for op in s.ops_after(0, 10**6)]
+        for s in stores:
+            batch = every + rng.sample(every, len(every) // 3)
+            rng.shuffle(batch)
+            cut = rng.randrange(len(batch) + 1)
+            s.apply_ops(batch[:cut], source="bundle")
+            s.apply_ops(batch[cut:], source="bundle")
+        first = dump(stores[0])
+        for s in stores[1:]:
+            assert dump(s) == first
+    finally:
+        for s in stores:
+            s.close()
