@@ -24,7 +24,7 @@ from fieldcol.store import Store
 from fieldcol.sync import client
 from fieldcol.sync.client import sync_with_hub
 
-from _hubrun import RunningHub
+from fieldcol.sync._loopback import RunningHub
 from test_sync_oplog import dump
 
 SITE = "Kestrel Lane Print Works"

@@ -1,0 +1,128 @@
+"""Sync speed: a site's records and photos from one device through a hub on loopback to another.
+
+``sync_2000_columns_s``: a site of 2,000 columns and 20,000 readings pushed by the device that
+recorded it and pulled by an empty device, through a real hub over HTTP on 127.0.0.1.
+``sqlite_copy_2000_columns_s``: the same rows copied into a new SQLite file with plain inserts,
+in the same run (the floor a sync is compared with; goal: sync within 3 times of it).
+``sync_photos_mb_per_s``: 200 photos of 2 MB uploaded by one device and
+downloaded by another, megabytes moved per second over both legs (``quick``: a hundredth of
+the rows, 2 photos of 0.2 MB).
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import random
+import sqlite3
+import tempfile
+import time
+import uuid
+from pathlib import Path
+from typing import Any
+
+
+def _site(store: Any, n_cols: int, n_read: int) -> None:
+    """One site of ``n_cols`` columns and ``n_read`` readings, written in one transaction."""
+    from fieldcol.store._validate import now_utc
+
+    rnd = random.Random(3)
+    now, dev = now_utc(), store.device_id
+    site = store.add_site("Bench sync site", code="aisc360-22", unit_system="us")
+    cols = []
+    for i in range(n_cols):
+        rec = {"tag": f"C{i:04d}", "section": rnd.choice(("W10X49", "W12X65", "W14X90")),
+               "length": f"{rnd.randint(10, 30)} ft"}
+        cols.append((str(uuid.uuid4()), now, now, dev, site.id, rec["tag"], json.dumps(rec)))
+    reads = []
+    for i in range(n_read):
+        c = cols[i % n_cols][0]
+        val = round(rnd.uniform(0.2, 3.0), 2)
+        reads.append((str(uuid.uuid4()), now, now, dev, c, "bow", "measured", f"{val} in", val,
+                      "in", "R. Osei", now))
+    with store._tx():  # a bulk load; the log is made at its commit like any other write
+        store.db.conn.executemany(
+            "INSERT INTO columns (id, created_at, updated_at, device_id, site_id, tag, record) "
+            "VALUES (?, ?, ?, ?, ?, ?, ?)", cols)
+        store.db.conn.executemany(
+            "INSERT INTO measurements (id, created_at, updated_at, device_id, column_id, "
+            "quantity, kind, text, value, unit, taken_by, taken_at) "
+            "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", reads)
+
+
+def _copy(src: Path, dst: Path) -> float:
+    """Seconds to copy the site's rows into a new SQLite file with plain inserts."""
+    t0 = time.perf_counter()
+    a = sqlite3.connect(str(src))
+    b = sqlite3.connect(str(dst))
+    b.execute("PRAGMA journal_mode=WAL")
+    b.execute("PRAGMA synchronous=FULL")
+    for t in ("sites", "columns", "measurements"):
+        sql = a.execute("SELECT sql FROM sqlite_master WHERE name = ?", [t]).fetchone()[0]
+        b.execute(sql)
+        rows = a.execute(f"SELECT * FROM {t}").fetchall()
+        marks = ", ".join("?" for _ in rows[0]) if rows else ""
+        if rows:
+            b.executemany(f"INSERT INTO {t} VALUES ({marks})", rows)
+    b.commit()
+    a.close()
+    b.close()
+    return time.perf_counter() - t0
+
+
+def _photo(base: bytes, i: int) -> bytes:
+    # one noisy JPEG made distinct by bytes after its end marker (readers stop at the marker)
+    return base + f"bench photo {i:06d}".encode()
+
+
+def _base_jpeg(mb: float) -> bytes:
+    import os
+
+    from PIL import Image
+
+    side = int(900 * mb ** 0.5)
+    img = Image.frombytes("RGB", (side, side), os.urandom(side * side * 3))
+    buf = io.BytesIO()
+    img.save(buf, "JPEG", quality=90)
+    return buf.getvalue()
+
+
+def run(*, quick: bool = False) -> dict[str, float]:
+    """Time the sync of a 2,000-column site and of 200 photos through a loopback hub.
+
+    Example:
+        >>> sorted(run(quick=True))
+        ['sqlite_copy_2000_columns_s', 'sync_2000_columns_s', 'sync_photos_mb_per_s']
+    """
+    from fieldcol.store import Store
+    from fieldcol.sync._loopback import RunningHub
+    from fieldcol.sync.client import sync_with_hub
+
+    n_cols, n_read = (20, 200) if quick else (2_000, 20_000)
+    n_photos, photo_mb = (2, 0.2) if quick else (200, 2.0)
+    with tempfile.TemporaryDirectory() as tmp:
+        root = Path(tmp)
+        hub = RunningHub(root / "hub")
+        try:
+            with Store(root / "a.db") as a, Store(root / "b.db") as b:
+                ta, tb = hub.token("a"), hub.token("b")
+                _site(a, n_cols, n_read)
+                t0 = time.perf_counter()
+                sync_with_hub(a, hub.url, ta)
+                sync_with_hub(b, hub.url, tb)
+                t_sync = time.perf_counter() - t0
+                assert len(b.list_columns(b.list_sites()[0].id, limit=5)) == 5
+                t_copy = _copy(root / "a.db", root / "copy.db")
+                base = _base_jpeg(photo_mb)
+                for i in range(n_photos):
+                    a.add_photo(_photo(base, i))
+                size_mb = n_photos * len(base) / 1e6
+                t0 = time.perf_counter()
+                sync_with_hub(a, hub.url, ta)
+                sync_with_hub(b, hub.url, tb)
+                t_photos = time.perf_counter() - t0
+        finally:
+            hub.stop()
+    return {"sync_2000_columns_s": round(t_sync, 3),
+            "sqlite_copy_2000_columns_s": round(t_copy, 3),
+            "sync_photos_mb_per_s": round(2 * size_mb / t_photos, 1)}
