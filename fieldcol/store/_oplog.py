@@ -418,15 +418,23 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
 
 
 def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str) -> list[Op]:
-    """Insert operations, skipping ids already held; returns those that were new."""
+    """Insert operations, skipping ids already held (or repeated); returns those that were new."""
+    held: set[str] = set()
+    ids = list({o.op_id for o in ops})
+    for i in range(0, len(ids), 500):
+        part = ids[i:i + 500]
+        held.update(r[0] for r in conn.execute(
+            f"SELECT op_id FROM sync_ops WHERE op_id IN ({', '.join('?' for _ in part)})", part))
     new = []
     for o in ops:
-        cur = conn.execute(
-            "INSERT OR IGNORE INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, "
-            "seen, source) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
-            [o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value, o.seen, source])
-        if cur.rowcount == 1:
+        if o.op_id not in held:
+            held.add(o.op_id)
             new.append(o)
+    conn.executemany(
+        "INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, source) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
+        [(o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value, o.seen, source)
+         for o in new])
     return new
 
 
@@ -460,43 +468,86 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
             raise InputError("clock", hlc_iso(latest.hlc),
                              f"an operation from device {latest.device_id} is stamped ahead of "
                              "this clock", "check the clock of that device, then sync again")
+    flush(conn, _local_device(conn), schema)  # local edits first: what follows is not ours
     new = _store_ops(conn, ops, source)
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
-    touched: dict[tuple[str, str], None] = {}
+    by_row: dict[tuple[str, str], list[Op]] = {}
+    for o in new:
+        by_row.setdefault((o.tbl, o.row_id), []).append(o)
+    known = _known_rows(conn, list(by_row))
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
-    for o in sorted(new, key=lambda o: (o.hlc, o.op_id)):
-        touched[(o.tbl, o.row_id)] = None
-        cur = conn.execute("SELECT hlc, op_id, value FROM sync_fields WHERE tbl = ? AND row_id = ? "
-                           "AND field = ?", [o.tbl, o.row_id, o.field]).fetchone()
-        if cur is None or (o.hlc, o.op_id) > (cur[0], cur[1]):
-            if (o.tbl, o.field) in unique_fields and cur is not None:
-                old_raw.setdefault((o.tbl, o.row_id, o.field), cur[2])
-            conn.execute(
-                "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-                "VALUES (?, ?, ?, ?, ?, ?, NULL) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
-                "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value",
-                [o.tbl, o.row_id, o.field, o.hlc, o.op_id, o.value])
-        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
-                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
-                     [o.tbl, o.row_id, o.hlc])
+    fields_rows, rows_rows = [], []
+    for (tbl, row_id), lst in by_row.items():
+        best: dict[str, Op] = {}
+        for o in lst:
+            b = best.get(o.field)
+            if b is None or (o.hlc, o.op_id) > (b.hlc, b.op_id):
+                best[o.field] = o
+        cur = {}
+        if (tbl, row_id) in known:
+            cur = {r[0]: r[1:] for r in conn.execute(
+                "SELECT field, hlc, op_id, value FROM sync_fields WHERE tbl = ? AND row_id = ?",
+                [tbl, row_id])}
+        for f, o in best.items():
+            c = cur.get(f)
+            if c is None or (o.hlc, o.op_id) > (c[0], c[1]):
+                if (tbl, f) in unique_fields and c is not None:
+                    old_raw[(tbl, row_id, f)] = c[2]
+                fields_rows.append((tbl, row_id, f, o.hlc, o.op_id, o.value))
+        rows_rows.append((tbl, row_id, max(o.hlc for o in lst)))
+    conn.executemany(
+        "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+        "VALUES (?, ?, ?, ?, ?, ?, NULL) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+        "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value", fields_rows)
+    conn.executemany(
+        "INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+        "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
+        rows_rows)
+    # a row first seen in this batch has all its operations in hand: no need to read them back
+    preloaded = {k: [(o.hlc, o.op_id, o.value, o.seen, o.device_id, o.field) for o in lst]
+                 for k, lst in by_row.items() if k not in known}
+    touched = dict.fromkeys(by_row)
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
         touched[(r[0], r[1])] = None
-    written = _materialize(conn, schema, list(touched), old_raw)
+    written = _materialize(conn, schema, list(touched), old_raw, preloaded)
+    conn.execute("DELETE FROM sync_dirty")  # rows written here are the merge's, not edits
     pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
     return ApplyResult(len(new), written, pending)
 
 
+def _local_device(conn: sqlite3.Connection) -> str:
+    row = conn.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()
+    return row[0] if row else ""
+
+
+def _known_rows(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> set[tuple[str, str]]:
+    """Which of these rows already had operations here."""
+    out: set[tuple[str, str]] = set()
+    by_tbl: dict[str, list[str]] = {}
+    for t, r in keys:
+        by_tbl.setdefault(t, []).append(r)
+    for t, ids in by_tbl.items():
+        for i in range(0, len(ids), 500):
+            part = ids[i:i + 500]
+            out.update((t, r[0]) for r in conn.execute(
+                f"SELECT row_id FROM sync_rows WHERE tbl = ? AND row_id IN "
+                f"({', '.join('?' for _ in part)})", [t, *part]))
+    return out
+
+
 def _materialize(conn: sqlite3.Connection, schema: Schema, rows: list[tuple[str, str]],
-                 old_raw: dict[tuple[str, str, str], str | None]) -> int:
+                 old_raw: dict[tuple[str, str, str], str | None],
+                 preloaded: dict[tuple[str, str], list[tuple]] | None = None) -> int:
     rank = {t: i for i, t in enumerate(schema.tables)}
     todo = sorted(rows, key=lambda r: (rank.get(r[0], 99), r[1]))
     written = 0
     while todo:
         left = []
         for tbl, row_id in todo:
-            if _write_row(conn, schema, tbl, row_id, old_raw):
+            if _write_row(conn, schema, tbl, row_id, old_raw,
+                          (preloaded or {}).get((tbl, row_id))):
                 written += 1
             else:
                 left.append((tbl, row_id))
@@ -514,12 +565,13 @@ def _concurrent(a: tuple, b: tuple) -> bool:
 
 
 def _write_row(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
-               old_raw: dict[tuple[str, str, str], str | None]) -> bool:
+               old_raw: dict[tuple[str, str, str], str | None],
+               ops: list[tuple] | None = None) -> bool:
     """Write one row as its operations say; False when it must wait (parent or field missing,
     or a value this schema refuses: its operations stay and it is tried again on every apply)."""
     conn.execute("SAVEPOINT sync_row")
     try:
-        ok = _write_row_inner(conn, schema, tbl, row_id, old_raw)
+        ok = _write_row_inner(conn, schema, tbl, row_id, old_raw, ops)
     except sqlite3.IntegrityError:
         ok = False
     if not ok:
@@ -529,10 +581,14 @@ def _write_row(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
 
 
 def _write_row_inner(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
-                     old_raw: dict[tuple[str, str, str], str | None]) -> bool:
+                     old_raw: dict[tuple[str, str, str], str | None],
+                     ops: list[tuple] | None) -> bool:
+    fresh = ops is not None
+    if ops is None:
+        ops = conn.execute("SELECT hlc, op_id, value, seen, device_id, field FROM sync_ops "
+                           "WHERE tbl = ? AND row_id = ?", [tbl, row_id]).fetchall()
     ops_by_field: dict[str, list[tuple]] = {}
-    for r in conn.execute("SELECT hlc, op_id, value, seen, device_id, field FROM sync_ops "
-                          "WHERE tbl = ? AND row_id = ?", [tbl, row_id]):
+    for r in ops:
         ops_by_field.setdefault(r[5], []).append(r)
     for lst in ops_by_field.values():
         lst.sort()
@@ -593,13 +649,14 @@ def _write_row_inner(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id:
         [row[c] for c in names])
     for key, scope, live, g in dup_groups:
         _settle_key(conn, tbl, key, scope, live, g)
-    conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, row_id])
     conn.executemany("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND field = ?",
                      [(m, tbl, row_id, f) for f, m in mats.items()
                       if f not in {k for k, *_ in dup_groups}])
-    conn.execute("UPDATE sync_rows SET pending = 0 WHERE tbl = ? AND row_id = ?", [tbl, row_id])
-    conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? AND kind != 'duplicate'",
-                 [tbl, row_id])
+    if not fresh:
+        conn.execute("UPDATE sync_rows SET pending = 0 WHERE tbl = ? AND row_id = ?",
+                     [tbl, row_id])
+        conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? "
+                     "AND kind != 'duplicate'", [tbl, row_id])
     conn.executemany(
         "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, device_id, hlc, "
         "open) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
