@@ -156,6 +156,7 @@ def import_bundle(store: Store, src: str | os.PathLike[str]) -> BundleInfo:
         A ``BundleInfo`` (``new``: operations this store did not have).
 
     Example:
+        >>> _ = export_bundle(store, "b.zip")
         >>> import_bundle(store, "b.zip").new  # its own operations: nothing new
         0
     """
