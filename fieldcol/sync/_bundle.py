@@ -72,7 +72,7 @@ def parse_since(text: str | None) -> int:
     """The clock reading a ``--since`` date or time means (0 when None).
 
     Example:
-        >>> parse_since("2026-12-01") == 1_764_547_200_000 << 16
+        >>> parse_since("2026-12-01") == 1_796_083_200_000 << 16
         True
     """
     if text is None:
