@@ -48,7 +48,7 @@ class SyncReport:
                f"{self.received} changes and {self.photos_received} photos"]
         out += self.warnings
         if self.conflicts:
-            out.append(f"{len(self.conflicts)} conflicts to review:")
+            out.append(f"conflicts to review ({len(self.conflicts)}):")
             out += [f"  {c.tbl} {c.row_id[:8]} {c.field}: shows {c.kept!r}, other {c.value!r} "
                     f"({c.kind})" for c in self.conflicts]
         return out

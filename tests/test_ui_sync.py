@@ -1,0 +1,73 @@
+"""The sync screen in a real browser: a device with a conflict syncs with a real hub on loopback.
+
+The screen is served on its own (``fieldcol.ui.sync_view.serve``) in a subprocess; Debian
+chromium driven by Playwright, every request leaving the machine refused. Screenshot
+``sync.png`` at phone width under ``$FIELDCOL_SHOTS``.
+"""
+
+from __future__ import annotations
+
+import os
+import socket
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+from fieldcol.store import Store
+from fieldcol.sync._loopback import RunningHub, free_port
+from fieldcol.sync.client import sync_with_hub
+
+from test_sync_oplog import send
+from test_ui_browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
+
+
+
+def test_sync_screen_syncs_and_shows_conflicts(tmp_path: Path, browser):
+    hub = RunningHub(tmp_path / "hub")
+    db = tmp_path / "device.db"
+    with Store(db) as a, Store(tmp_path / "other.db") as b:
+        site = a.add_site("Kestrel Lane Print Works", code="aisc360-22", unit_system="us")
+        col = a.add_column(site.id, {"tag": "C4", "section": "W10X49", "length": "14 ft"})
+        send(a, b)
+        a.update_column(col.id, location="by the press")
+        b.update_column(col.id, location="by the dock")
+        sync_with_hub(b, hub.url, hub.token("office-tablet"))
+        token = hub.token("site-phone")
+        a.set_setting("hub_url", hub.url)
+        a.set_setting("hub_token", token)
+    port = free_port()
+    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true"}
+    proc = subprocess.Popen([sys.executable, "-c", "import sys; from fieldcol.ui.sync_view import "
+                             "serve; serve(sys.argv[1], int(sys.argv[2]))", str(db), str(port)],
+                            env=env, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    try:
+        deadline = time.monotonic() + 60
+        while True:
+            try:
+                socket.create_connection(("127.0.0.1", port), timeout=0.5).close()
+                break
+            except OSError:
+                assert proc.poll() is None and time.monotonic() < deadline
+                time.sleep(0.1)
+        page = _open(browser, f"http://127.0.0.1:{port}", PHONE)
+        _wait(page, "sync-now").click()
+        _poll(lambda: page.locator(_sel("sync-status")).first.inner_text(),
+              lambda t: "finished" in t, "sync status", timeout=60)
+        _wait(page, "conflict-0")
+        SHOTS.mkdir(parents=True, exist_ok=True)
+        time.sleep(1)
+        page.screenshot(path=str(SHOTS / "sync.png"))
+        html = page.content()
+        assert "by the press" in html and "by the dock" in html  # both values in view
+        _wait(page, "conflict-0-other").click()
+        _poll(lambda: page.locator(_sel("sync-status")).first.inner_text(),
+              lambda t: "Saved your choice" in t, "choice saved")
+        assert page.refused == [] or all("rive" in u for u in page.refused)
+    finally:
+        proc.terminate()
+        proc.wait(10)
+        hub.stop()
+    with Store(db) as a:
+        assert a.conflicts() == []
+        assert a.get_column(col.id).location in ("by the press", "by the dock")
