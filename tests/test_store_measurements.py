@@ -94,3 +94,21 @@ def test_bad_readings_name_their_field_and_change_nothing(setup):
         s.add_measurement(col.id, "length", "30 ft", visit_id=far.id)
     assert e.value.field == "visit"
     assert len(s.measurements(col.id)) == 1
+
+
+def test_measured_dimensions_do_not_overrule_a_catalogue_name(tmp_path):
+    # a section named from the catalogue takes its nominal dimensions (AISC Shapes Database);
+    # the readings that identified it stay in the history; a section kept as measured reads them
+    from fieldcol.store import open_store
+
+    with open_store(tmp_path / "o.db") as store:
+        site = store.add_site("Depot", code="aisc360-22", unit_system="us")
+        col = store.add_column(site.id, {"tag": "A", "section": {"name": "W14X90"}})
+        store.add_measurement(col.id, "section.d", "14.1 in", gauge="caliper")
+        store.add_measurement(col.id, "section.loss.flange", "0.6 in")
+        assert store.current_record(col.id)["section"] == {"name": "W14X90",
+                                                           "loss": {"flange": "0.6 in"}}
+        store.update_column(col.id, record={"tag": "A", "section": {"shape": "i", "d": "14 in"}})
+        assert store.current_record(col.id)["section"]["d"] == "14.1 in"
+        m = store.measurements(col.id)[0]
+        assert store.get_measurement(m.id).text == "14.1 in"

@@ -121,7 +121,10 @@ def test_condition_and_loss_in_site_units(demo):
         "measured bow")
     lines = dict((x.label, x.value) for x in m.column_detail(
         store, _col(store, site, "D/2-G")).record)
-    assert lines["Section"] == "HP10X42 with loss" and "0.33 in" in lines["Section loss"]
+    assert lines["Section"] == "HP10X42 with loss"
+    # loss.flange holds the REMAINING thickness (README, column record): never a "loss" label
+    assert "Section loss" not in lines
+    assert lines["Remaining thickness measured"] == "flange 0.33 in"
 
 
 def test_trace_values_carry_site_units(demo):

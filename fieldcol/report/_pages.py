@@ -7,6 +7,7 @@ from typing import TYPE_CHECKING, Any
 from fieldcol.report import _text as tx
 from fieldcol.report._layout import GREY, SMALL_PT, PhotoCell, ReportPDF
 from fieldcol.store._schema import FACE_WORDS
+from fieldcol.store import quantity_name
 
 if TYPE_CHECKING:
     from fieldcol.report._gather import ColumnData, SiteData
@@ -298,7 +299,7 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
         if m.corrects and m.corrects in by_id:
             state += f"; corrects '{by_id[m.corrects].text}'"
         note = "; ".join(x for x in (m.gauge, m.note) if x)
-        rows.append([m.quantity, m.text, shown, f"{m.taken_by or '-'}, {tx.when(m.taken_at)}",
+        rows.append([quantity_name(m.quantity), m.text, shown, f"{m.taken_by or '-'}, {tx.when(m.taken_at)}",
                      note or "-", state])
     pdf.table(["Quantity", "As typed", "Value", "Who, when", "Gauge, note", "Status"], rows,
               (28, 18, 18, 34, 46, 30))

@@ -11,6 +11,7 @@ Public API::
     export_csv(store, site_name, out)
     SCHEMA_VERSION, records: Site, Visit, Level, Column, Measurement, RestraintChange,
     Finding, Photo, PhotoLink, Check, Retrofit, ColumnRow
+    quantity_name(path), QUANTITY_NAMES     # a reading's quantity in words
 
 The database lives in the platform's app-data folder (``$FLET_APP_STORAGE_DATA`` on mobile,
 else ``$XDG_DATA_HOME/fieldcol`` or ``~/.local/share/fieldcol``), never in the app's own folder;
@@ -25,7 +26,9 @@ from __future__ import annotations
 import os
 
 from fieldcol.store._backup import backup, restore
-from fieldcol.store._columns import latest_readings, overlay, section_label
+from fieldcol.store._columns import (
+    QUANTITY_NAMES, SECTION_DIMENSIONS, latest_readings, overlay, quantity_name, section_label,
+)
 from fieldcol.store._migrations import SCHEMA_VERSION
 from fieldcol.store._paths import data_dir, photos_dir, resolve_db_path
 from fieldcol.store._records import (
@@ -67,4 +70,5 @@ __all__ = [
     "RowError", "SCHEMA_VERSION", "CODES", "UNIT_SYSTEMS", "SEVERITIES", "Site", "Visit",
     "Level", "Column", "Measurement", "RestraintChange", "Finding", "Photo", "PhotoLink",
     "Check", "Retrofit", "ColumnRow", "latest_readings", "overlay", "section_label",
+    "quantity_name", "QUANTITY_NAMES", "SECTION_DIMENSIONS",
 ]

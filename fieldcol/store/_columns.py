@@ -59,11 +59,44 @@ def latest_readings(readings: Iterable[Measurement]) -> dict[str, Measurement]:
     return best
 
 
+# the outside dimensions and plates of a section as measured: readings of these identify a
+# catalogue section, and a section named from the catalogue takes its own nominal values
+SECTION_DIMENSIONS = ("section.d", "section.bf", "section.tf", "section.tw", "section.b",
+                      "section.t", "section.D")
+
+QUANTITY_NAMES = {
+    "length": "Length",
+    "section.d": "Depth", "section.bf": "Flange width", "section.tf": "Flange thickness",
+    "section.tw": "Web thickness", "section.b": "Width", "section.t": "Wall thickness",
+    "section.D": "Outside diameter",
+    "section.loss.flange": "Flange thickness remaining",
+    "section.loss.web": "Web thickness remaining",
+    "section.loss.wall": "Wall thickness remaining",
+    "section.loss.uniform": "Loss per exposed face",
+    "section.plates.thickness": "Cover plate thickness",
+    "section.plates.width": "Cover plate width",
+    "condition.bow": "Bow", "condition.plumb": "Out of plumb",
+}
+
+
+def quantity_name(quantity: str) -> str:
+    """A reading's quantity in words, saying what it is (a remaining thickness is never called
+    a loss); a path without a name comes back as it is.
+
+    Example:
+        >>> quantity_name("section.loss.flange"), quantity_name("section.loss.uniform")
+        ('Flange thickness remaining', 'Loss per exposed face')
+    """
+    return QUANTITY_NAMES.get(quantity, quantity)
+
+
 def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dict[str, Any], list[str]]:
     """The record with each measured quantity's latest reading written at its dotted path.
 
     Missing objects on the path are created; a path through a value that is not an object
-    (e.g. ``section.tf`` on a catalogue name) is left alone and returned in the second item.
+    (e.g. ``section.tf`` on a catalogue name) is left alone and returned in the second item,
+    and so is a measured dimension (``SECTION_DIMENSIONS``) of a section named from the
+    catalogue (``{"name": "W14X90", ...}``): the readings that identified it stay in the history.
 
     Example:
         >>> m = Measurement(id="1", column_id="c", quantity="length", kind="length",
@@ -73,7 +106,11 @@ def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dic
     """
     out = copy.deepcopy(record)
     skipped: list[str] = []
+    named = isinstance(out.get("section"), dict) and bool(out["section"].get("name"))
     for quantity, m in sorted(latest.items()):
+        if named and quantity in SECTION_DIMENSIONS:
+            skipped.append(quantity)
+            continue
         text = m.text if not _BARE_NUMBER.fullmatch(m.text) else f"{m.value:.10g} {m.unit}".strip()
         node: Any = out
         parts = quantity.split(".")
@@ -356,6 +393,16 @@ class ColumnsMixin(SitesMixin):
         return self.add_measurement(old.column_id, old.quantity, text, kind=old.kind,
                                     gauge=old.gauge, taken_by=taken_by or old.taken_by,
                                     visit_id=old.visit_id, note=note, corrects=old.id)
+
+    def get_measurement(self, measurement_id: str) -> Measurement:
+        """One live reading by its id (an ``InputError`` on field ``reading`` if gone).
+
+        Example:
+            >>> m = store.add_measurement(col.id, "condition.bow", "3/8 in", gauge="string line")
+            >>> store.get_measurement(m.id).gauge
+            'string line'
+        """
+        return from_row(Measurement, self._get("measurements", measurement_id, field="reading"))
 
     def measurements(self, column_id: str, quantity: str | None = None) -> list[Measurement]:
         """Every live reading of a column (optionally one quantity), oldest first.

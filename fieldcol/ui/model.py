@@ -434,12 +434,15 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
               Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
-        record.append(Line("Condition", ", ".join(
-            f"{k} {_length_text(x, system) if k in ('bow', 'plumb') else _describe(x)}"
-            for k, x in cond.items())))
-    section = rec.get("section")
-    if isinstance(section, dict) and section.get("loss"):
-        record.append(Line("Section loss", _describe(section["loss"])))
+        parts = []
+        if cond.get("bow") not in (None, ""):
+            parts.append(f"bow {_length_text(cond['bow'], system)}"
+                         + (f" about the {cond['bow_axis']} axis" if cond.get("bow_axis") else ""))
+        if cond.get("plumb") not in (None, ""):
+            parts.append(f"out of plumb {_length_text(cond['plumb'], system)}")
+        if parts:
+            record.append(Line("Condition", ", ".join(parts)))
+    record += loss_lines(rec.get("section"), system)
     chk = store.latest_check(column_id)
     fields = [EditField(name, label, _entry_text(rec.get(name) if name != "demand" else axial),
                         hint) for name, (label, hint) in EDIT_FIELDS.items()]
@@ -447,6 +450,60 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
         id=col.id, tag=col.tag, site_id=site.id, site_name=site.name, unit_system=system,
         identity=identity, record=record, restraints=_restraint_lines(rec, system),
         check=None if chk is None else _check_view(chk, system), fields=fields)
+
+
+_ELEMENT_WORDS = {"flange": "flange", "web": "web", "wall": "wall"}
+
+
+def loss_lines(section: Any, system: str) -> list[Line]:
+    """A section's recorded loss and cover plates in words that say what each value is.
+
+    ``loss.flange`` / ``web`` / ``wall`` hold the REMAINING thickness measured; ``loss.uniform``
+    holds the loss per exposed face: they are never shown under one label.
+
+    Args:
+        section: the record's ``section`` (a name or an object).
+        system: ``us`` or ``si``.
+
+    Returns:
+        ``Line`` s, none when nothing is recorded.
+
+    Example:
+        >>> [(x.label, x.value) for x in loss_lines({"name": "HP10X42",
+        ...     "loss": {"flange": "0.33 in"}}, "us")]
+        [('Remaining thickness measured', 'flange 0.33 in')]
+    """
+    if not isinstance(section, dict):
+        return []
+    out = []
+    loss = section.get("loss") if isinstance(section.get("loss"), dict) else {}
+    remaining = [f"{_ELEMENT_WORDS[k]} {_thickness_text(x, system)}" for k, x in loss.items()
+                 if k in _ELEMENT_WORDS]
+    if remaining:
+        out.append(Line("Remaining thickness measured", ", ".join(remaining)))
+    if loss.get("uniform") not in (None, ""):
+        out.append(Line("Loss per exposed face", _thickness_text(loss["uniform"], system)))
+    plates = section.get("plates")
+    if isinstance(plates, dict):
+        width = plates.get("width")
+        out.append(Line("Cover plates, both flanges",
+                        f"{_thickness_text(plates.get('thickness'), system)} thick, "
+                        + (f"{_thickness_text(width, system)} wide" if width not in (None, "")
+                           else "as wide as the flange")))
+    return out
+
+
+def _thickness_text(text: Any, system: str) -> str:
+    """A thickness as decimal inches (as a gauge shows it) or mm; as typed if unreadable."""
+    from fieldcol.units import format_quantity, parse_length
+
+    try:
+        mm = parse_length(text, "thickness", allow_zero=True)
+    except InputError:
+        return str(text)
+    if system == "us":
+        return f"{mm / 25.4 + 1e-9:.3f}".rstrip("0").rstrip(".") + " in"
+    return format_quantity(mm, "length", system)
 
 
 def _demand_text(axial: Any, system: str) -> str:

@@ -40,12 +40,6 @@ CHANGE_WORDS = {"brace_added": ("brace added", "add_link"),
                 "end_condition_changed": ("end changed", "swap_vert"),
                 "other": ("other change", "edit_note")}
 AXIS_WORDS = {"strong": "strong axis", "weak": "weak axis", "twist": "twist"}
-QUANTITY_NAMES = {"length": "Length", "section.loss.flange": "Flange thickness remaining",
-                  "section.loss.web": "Web thickness remaining",
-                  "section.loss.wall": "Wall thickness remaining",
-                  "section.loss.uniform": "Loss per exposed face", "condition.bow": "Bow",
-                  "condition.plumb": "Out of plumb", "section.tf": "Flange thickness",
-                  "section.tw": "Web thickness", "section.d": "Depth", "section.bf": "Flange width"}
 RETROFIT_WORDS = {"proposed": "proposed", "chosen": "chosen", "rejected": "rejected",
                   "built": "built"}
 
@@ -355,7 +349,7 @@ def column_history(store: "Store", column_id: str) -> History:
     Example: ``[r.state for r in column_history(store, d2.id).readings]`` gives
     ``['corrected', 'in use']`` for the demo's D/2-G.
     """
-    from fieldcol.store import latest_readings
+    from fieldcol.store import latest_readings, quantity_name
 
     col = store.get_column(column_id)
     system = store.get_site(col.site_id).unit_system
@@ -377,7 +371,7 @@ def column_history(store: "Store", column_id: str) -> History:
         state = "in use" if m.id in in_use else "corrected" if m.id in corrected else "earlier"
         old = by_id.get(m.corrects or "")
         lines.append(ReadingLine(
-            id=m.id, quantity=QUANTITY_NAMES.get(m.quantity, m.quantity), typed=m.text,
+            id=m.id, quantity=quantity_name(m.quantity), typed=m.text,
             value=_reading_value(m.value, m.kind, system), who=m.taken_by or "not recorded",
             when=_when(m.taken_at), gauge=m.gauge or "", note=m.note or "", state=state,
             corrects=f"corrects the reading typed {old.text}" if old else ""))
