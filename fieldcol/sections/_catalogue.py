@@ -137,26 +137,40 @@ def _key(text: str) -> tuple | None:
 
 
 @functools.lru_cache(maxsize=1)
-def _index() -> dict[tuple, list[int]]:
-    idx: dict[tuple, list[int]] = {}
+def _index() -> dict[tuple, list[tuple[int, tuple[float, ...]]]]:
+    """(prefix, grade, count of numbers) -> [(row, its numbers)], every name parsed once."""
+    idx: dict[tuple, list[tuple[int, tuple[float, ...]]]] = {}
     for i, name in enumerate(catalogue_arrays().names):
         k = _key(name)
         assert k is not None, name
-        idx.setdefault((k[0], k[1], len(k[2])), []).append(i)
+        idx.setdefault((k[0], k[1], len(k[2])), []).append((i, k[2]))
     return idx
 
 
+@functools.lru_cache(maxsize=4096)
 def _find(name: str) -> int | None:
     k = _key(name)
     if k is None:
         return None
-    cat = catalogue_arrays()
-    for i in _index().get((k[0], k[1], len(k[2])), []):
-        ref = _key(str(cat.names[i]))
+    for i, ref in _index().get((k[0], k[1], len(k[2])), []):
         # 0.0011 in lets a typed .188 stand for 3/16 and .313 for 5/16
-        if all(abs(a - b) <= 0.0011 for a, b in zip(k[2], ref[2])):
+        if all(abs(a - b) <= 0.0011 for a, b in zip(k[2], ref)):
             return i
     return None
+
+
+def catalogue_name(text: str) -> str | None:
+    """The catalogue designation of a name typed any sensible way, or ``None`` (no error, no
+    suggestions: cheap enough for every keystroke of a type-ahead).
+
+    Example:
+        >>> catalogue_name("w 14 x 90"), catalogue_name("W14X91")
+        ('W14X90', None)
+    """
+    if not isinstance(text, str) or not text.strip():
+        return None
+    i = _find(text)
+    return None if i is None else str(catalogue_arrays().names[i])
 
 
 def _close_names(name: str, n: int = 5) -> list[str]:

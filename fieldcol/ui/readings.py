@@ -247,38 +247,52 @@ def _value_text_mm(mm: float, system: str) -> str:
 
 
 # -- saving ---------------------------------------------------------------------------------
-def check_now(store: "Store", column_id: str) -> str:
+def check_now(store: "Store", column_id: str, known: tuple[dict, Any] | None = None) -> str:
     """Check the column as it stands and save the check; its status label, ``""`` when the
     record cannot be checked (the check that stands stays the last one saved).
 
-    Example: ``check_now(store, b2.id)`` gives ``'0.52 OK'`` or similar.
+    Args:
+        store: an open store.
+        column_id: the column.
+        known: (record, assessment) already worked out for the record expected now: used
+            when the record is that one, so a save checks the column once, not twice.
+
+    Returns:
+        The status label, e.g. ``"0.84 OK"``.
+
+    Example: ``check_now(store, b2.id)`` gives ``'1.18 OVER'`` for the demo's B/2-G.
     """
     from fieldcol.assess import assess
     from fieldcol.ui.model import status_of
 
     rec = store.current_record(column_id)
-    try:
-        res = assess(rec)
-    except InputError:
-        return ""
+    if known is not None and known[0] == rec and known[1] is not None:
+        res = known[1]
+    else:
+        try:
+            res = assess(rec)
+        except InputError:
+            return ""
     d = res.to_dict()
     chk = store.save_check(column_id, d, record=rec)
     return status_of(chk.utilization, True, d.get("status")).label
 
 
-def _try(before: dict[str, Any], record: dict[str, Any], field: str, typed: str) -> None:
-    """Check the record with the new value; an error comes back naming the entry in plain
-    words. A column that cannot be checked before (e.g. no length yet) still takes the
-    reading: it is kept as taken, and the check follows once the record is complete."""
+def _try(store: "Store", column_id: str, record: dict[str, Any], field: str,
+         typed: str) -> tuple[dict, Any]:
+    """Check the record with the new value: (record, assessment), the assessment ``None``
+    when the column could not be checked before either (e.g. no length yet): such a column
+    still takes the reading, kept as taken, and is checked once its record is complete. A
+    value that itself makes the column uncheckable is refused naming the entry."""
     from fieldcol.assess import assess
 
     try:
-        assess(before)
-    except InputError:
-        return
-    try:
-        assess(record)
+        return record, assess(record)
     except InputError as e:
+        try:
+            assess(store.current_record(column_id))
+        except InputError:
+            return record, None
         raise InputError(field, typed, e.reason, e.hint) from None
 
 
@@ -358,8 +372,8 @@ def add_reading(store: "Store", column_id: str, kind: str, text: str, *,
             current.get("section"), str) else current["section"]
         changed = True
     before = copy.deepcopy(col.record)
-    _try(store.current_record(column_id), _with_reading(store, column_id, current, quantity,
-                                                        typed), name, typed)
+    known = _try(store, column_id, _with_reading(store, column_id, current, quantity, typed),
+                 name, typed)
     if changed:
         store.update_column(column_id, record=stored)
     try:
@@ -371,7 +385,7 @@ def add_reading(store: "Store", column_id: str, kind: str, text: str, *,
         raise
     label = f"{name} {typed}" + (f" about the {axis} axis" if kind == "bow" else "")
     return Change(column_id, label, (m.id,), before if changed else None,
-                  check_now(store, column_id))
+                  check_now(store, column_id, known))
 
 
 def correct_reading(store: "Store", reading_id: str, text: str, *, note: str | None = None,
@@ -400,11 +414,12 @@ def correct_reading(store: "Store", reading_id: str, text: str, *, note: str | N
     if typed == old.text:
         raise InputError(name, typed, "the same as the reading it corrects",
                          "type the right value")
-    _try(store.current_record(old.column_id),
-         _with_reading(store, old.column_id, col.record, old.quantity, typed, old.id), name, typed)
+    known = _try(store, old.column_id,
+                 _with_reading(store, old.column_id, col.record, old.quantity, typed, old.id),
+                 name, typed)
     m = store.correct_measurement(old.id, typed, note=note or None, taken_by=person or None)
     return Change(old.column_id, f"correction of {name}: {typed}", (m.id,), None,
-                  check_now(store, old.column_id))
+                  check_now(store, old.column_id, known))
 
 
 def undo_change(store: "Store", change: Change) -> None:

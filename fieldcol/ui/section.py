@@ -11,6 +11,7 @@ Public API::
     section_view(store, column_id) -> SectionView
     catalogue_search(text, limit=8) -> list[str]
     find_matches(shape, typed, gauge, system, limit=5) -> list[MatchLine]
+    read_dimensions(shape, typed, system) -> dict[str, tuple[str, float]]
     choose_section(store, column_id, name) -> Change
     save_measured(store, column_id, shape, typed, gauge, *, accept, person, visit_id) -> Change
     set_plates(store, column_id, thickness, width) -> Change
@@ -19,6 +20,7 @@ Public API::
 
 from __future__ import annotations
 
+import bisect
 import copy
 import functools
 import re
@@ -110,24 +112,41 @@ def _squeeze(text: str) -> str:
     return re.sub(r"[\s_\-]", "", text.upper().replace("×", "X").replace("*", "X"))
 
 
+@dataclass(frozen=True)
+class _Index:
+    """Every spelling a catalogue name answers to, sorted (prefix look-ups by bisection) and
+    joined into one text (a substring look-up is one scan in C)."""
+    forms: list[str]
+    names: list[str]
+    blob: str
+    starts: list[int]
+
+
 @functools.lru_cache(maxsize=1)
-def _index() -> tuple[tuple[str, tuple[str, ...]], ...]:
-    """(name, the squeezed spellings it answers to) for every catalogue section, built once."""
+def _index() -> _Index:
+    """The type-ahead index, built once per process."""
     from fieldcol.sections import catalogue_names
 
-    out = []
+    pairs = []
     for name in catalogue_names():
         forms = {_squeeze(name)}
         m = re.fullmatch(r"HE([ABM])\s*(\d+)", name.upper())
         if m:  # HEB 300 is also written HE 300 B
             forms.add(f"HE{m.group(2)}{m.group(1)}")
-        out.append((name, tuple(forms)))
-    return tuple(out)
+        pairs += [(f, name) for f in forms]
+    pairs.sort()
+    offsets, pos = [], 0
+    for f, _ in pairs:
+        offsets.append(pos)
+        pos += len(f) + 1
+    return _Index([f for f, _ in pairs], [n for _, n in pairs],
+                  "\n".join(f for f, _ in pairs), offsets)
 
 
 def catalogue_search(text: str, limit: int = 8) -> list[str]:
     """Catalogue names for a type-ahead: the exact section first (any sensible spelling), then
-    names starting with what is typed, then names holding it; spaces, dashes and case ignored.
+    names starting with what is typed (shortest first), then names holding it; spaces, dashes
+    and case ignored.
 
     Args:
         text: what is typed so far (``"w14"``, ``"heb3"``, ``"hss8x8"``).
@@ -144,20 +163,27 @@ def catalogue_search(text: str, limit: int = 8) -> list[str]:
         >>> catalogue_search("heb 30", 2), catalogue_search("he 300 b", 2)
         (['HEB 300'], ['HEB 300'])
     """
-    from fieldcol.sections import from_catalogue
+    from fieldcol.sections import catalogue_name
 
     key = _squeeze(text or "")
     if not key:
         return []
-    out: list[str] = []
-    try:
-        out.append(str(from_catalogue(text).name))
-    except InputError:
-        pass
+    exact = catalogue_name(text)
+    out: list[str] = [exact] if exact else []
+    idx = _index()
+    i = bisect.bisect_left(idx.forms, key)
+    starts = []
+    while i < len(idx.forms) and idx.forms[i].startswith(key):
+        starts.append(idx.names[i])
+        i += 1
     # the shortest completions first, then in reading order: "W14X9" gives W14X90, W14X99
-    starts = sorted((n for n, forms in _index() if any(f.startswith(key) for f in forms)),
-                    key=lambda n: (len(n), n))
-    holds = [n for n, forms in _index() if any(key in f for f in forms)]
+    starts.sort(key=lambda n: (len(n), n))
+    holds = []
+    if len(out) + len(starts) < limit:
+        at = idx.blob.find(key)
+        while at >= 0 and len(holds) < 4 * limit:
+            holds.append(idx.names[bisect.bisect_right(idx.starts, at) - 1])
+            at = idx.blob.find(key, at + 1)
     for n in starts + holds:
         if n not in out:
             out.append(n)
@@ -268,8 +294,24 @@ def section_view(store: "Store", column_id: str) -> SectionView:
 
 
 # -- matching -------------------------------------------------------------------------------
-def _dimension_mm(shape: str, typed: dict[str, str], system: str) -> dict[str, tuple[str, float]]:
-    """Each dimension typed: (text kept with its unit, mm); every one is required."""
+def read_dimensions(shape: str, typed: dict[str, str],
+                    system: str) -> dict[str, tuple[str, float]]:
+    """Read the dimensions typed for a measured section; every one is required.
+
+    Args:
+        shape: ``i``, ``rect`` or ``round``.
+        typed: dimension key -> text as typed (a bare number is in the site's unit).
+        system: ``us`` or ``si``.
+
+    Returns:
+        key -> (the text kept, with its unit; the value in mm). An ``InputError`` names the
+        dimension in words (``flange width``).
+
+    Example:
+        >>> text, mm = read_dimensions("round", {"D": "6.625", "t": "0.28"}, "us")["D"]
+        >>> text, round(mm, 3)
+        ('6.625 in', 168.275)
+    """
     from fieldcol.units import parse_length
 
     if shape not in DIMENSIONS:
@@ -321,7 +363,7 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
     """
     from fieldcol.sections import identify
 
-    dims = _dimension_mm(shape, typed, system)
+    dims = read_dimensions(shape, typed, system)
     found = identify(**{k: mm for k, (_, mm) in dims.items()}, gauge=gauge_tolerance(gauge),
                      limit=limit)
     labels = dict(DIMENSIONS[shape])
@@ -367,17 +409,16 @@ def _save_record(store: "Store", column_id: str, section: Any, what: str,
         latest = {q: m for q, m in latest.items() if q not in SECTION_DIMENSIONS}
     current = overlay(stored, latest)[0]
     try:
-        assess(store.current_record(column_id))
-        ok_before = True
-    except InputError:
-        ok_before = False
-    if ok_before:
+        known = (current, assess(current))
+    except InputError as e:
         try:
-            assess(current)
-        except InputError as e:
+            assess(store.current_record(column_id))
+        except InputError:  # not checkable before either: the section is still recorded
+            known = None
+        else:
             raise InputError(what, e.text, e.reason, e.hint) from None
     store.update_column(column_id, record=stored)
-    return Change(column_id, what, (), before, check_now(store, column_id))
+    return Change(column_id, what, (), before, check_now(store, column_id, known))
 
 
 def choose_section(store: "Store", column_id: str, name: str) -> Change:
@@ -438,7 +479,7 @@ def save_measured(store: "Store", column_id: str, shape: str, typed: dict[str, s
 
     col = store.get_column(column_id)
     system = store.get_site(col.site_id).unit_system
-    dims = _dimension_mm(shape, typed, system)
+    dims = read_dimensions(shape, typed, system)
     kept = _kept(col.record.get("section"))
     if accept:
         try:
