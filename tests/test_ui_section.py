@@ -238,3 +238,16 @@ def test_bad_readings_are_refused_in_plain_words(demo):
     assert store.measurements(cid) == []
     assert r.typed_length("3", "si", "bow") == "3 mm"
     assert r.typed_length("1/8 in", "si", "bow") == "1/8 in"
+
+
+def test_a_name_that_does_not_fit_what_was_measured_is_flagged(demo):
+    # W14X109 nominal d 14.3 in, tf 0.860 in (AISC Shapes Database v15.0): a W14X90 measured
+    # to A6 tolerance lies outside it
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    sx.save_measured(store, cid, "i", _w14x90_typed(), "caliper", accept="W14X90")
+    assert sx.section_view(store, cid).notes == []
+    sx.choose_section(store, cid, "W14X109")
+    (note,) = sx.section_view(store, cid).notes
+    assert note.startswith("The dimensions measured lie outside the rolling tolerances of "
+                           "W14X109") and "Depth -0.3 in" in note  # 14.0 - 14.3

@@ -175,11 +175,13 @@ def _exif_time(stamp: str | None) -> str:
     return f"taken {text}" + (f" {offset}" if offset else " (camera clock)")
 
 
-def _reading_value(value: float, kind: str, system: str) -> str:
+def _reading_value(value: float, kind: str, system: str, quantity: str = "") -> str:
     from fieldcol.units import format_quantity
 
-    if kind == "length" and system == "us" and abs(value) < 304.8:
-        # a thickness or a bow reads in decimal inches, as gauges show it (1/16 in steps hide it)
+    if kind == "length" and system == "us" and (abs(value) < 304.8 or quantity.startswith(
+            ("section.", "condition."))):
+        # a thickness, a bow or a section's size reads in decimal inches, as gauges and
+        # tapes show it (feet-inches to 1/16 in would hide what was measured)
         return f"{value / 25.4:.3f}".rstrip("0").rstrip(".") + " in"
     return format_quantity(value, kind, system)
 
@@ -372,7 +374,7 @@ def column_history(store: "Store", column_id: str) -> History:
         old = by_id.get(m.corrects or "")
         lines.append(ReadingLine(
             id=m.id, quantity=quantity_name(m.quantity), typed=m.text,
-            value=_reading_value(m.value, m.kind, system), who=m.taken_by or "not recorded",
+            value=_reading_value(m.value, m.kind, system, m.quantity), who=m.taken_by or "not recorded",
             when=_when(m.taken_at), gauge=m.gauge or "", note=m.note or "", state=state,
             corrects=f"corrects the reading typed {old.text}" if old else ""))
     return History(changes, lines)

@@ -80,6 +80,7 @@ class SectionView:
     plates_allowed: bool
     gauge: str
     caution: str = CAUTION
+    notes: list[str] = field(default_factory=list)
 
     @property
     def typed(self) -> dict[str, str]:
@@ -283,6 +284,11 @@ def section_view(store: "Store", column_id: str) -> SectionView:
             value=_length(m.value, system), gauge=m.gauge or "", who=m.taken_by or "",
             when=(m.taken_at or "").replace("T", " ")[:16] + " UTC"))
         gauge = gauge or (m.gauge or "")
+    notes = []
+    if source == "catalogue" and len(measured) == len(DIMENSIONS[shape]):
+        note = _misfit(name, shape, {m.key: m.value for m in measured}, gauge, system)
+        if note:
+            notes.append(note)
     plates = section.get("plates") if isinstance(section, dict) else None
     return SectionView(
         column_id=column_id, unit=unit_of(system), shape=shape, name=name, source=source,
@@ -290,7 +296,7 @@ def section_view(store: "Store", column_id: str) -> SectionView:
         condition=loss_lines(section, system),
         plates=(str(plates.get("thickness", "")), str(plates.get("width") or ""))
         if isinstance(plates, dict) else None,
-        plates_allowed=shape == "i", gauge=gauge or "caliper")
+        plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes)
 
 
 # -- matching -------------------------------------------------------------------------------
@@ -383,6 +389,23 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
             icon="check_circle" if mt.within_tolerance else "warning", deviations=devs,
             score=mt.score))
     return out
+
+
+def _misfit(name: str, shape: str, typed: dict[str, str], gauge: str | None,
+            system: str) -> str:
+    """A warning when the dimensions measured lie outside the named section's rolling
+    tolerances (``""`` when they fit, or cannot be compared)."""
+    try:
+        lines = find_matches(shape, typed, gauge, system, limit=5000)
+    except InputError:
+        return ""
+    line = next((x for x in lines if x.name == name), None)
+    if line is not None and line.within:
+        return ""
+    why = "; ".join(x for x in line.deviations if "outside" in x) if line is not None else \
+        "not among the nearest sections"
+    return (f"The dimensions measured lie outside the rolling tolerances of {name} ({why}): "
+            "check the name, or keep the section as measured.")
 
 
 # -- saving ---------------------------------------------------------------------------------
