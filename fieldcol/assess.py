@@ -258,7 +258,9 @@ def assess(record: Mapping[str, Any]) -> Assessment:
             bow is not None and _first(bow.excess) > 0 and not math.isfinite(_first(bow.capacity))):
         # where the code gives no strength (NaN) there is no utilization, only the warning
         utilization = demand / design if design > 0 else math.inf
-        trace.add("U", "utilization, axial", "Pr / design strength", utilization, "",
+        trace.add("U", "utilization, axial",
+                  "N_Ed / N_b,Rd" if col.code == "en1993-1-1" else "Pr / design strength",
+                  utilization, "",
                   EDITIONS[col.code])
         if bow is not None and bow.ratio is not None and _first(bow.ratio) > utilization:
             utilization = _first(bow.ratio)

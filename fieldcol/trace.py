@@ -64,13 +64,13 @@ class Trace:
 _SUFFIX = {"aisc360-22": {"strong": "x", "weak": "y", "twist": "z", "torsion": "z", "T": "z"},
            "en1993-1-1": {"strong": "y", "weak": "z", "twist": "T", "torsion": "T", "T": "T"}}
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
-_EN_NAMES = {"Lc": "L_cr", "Ncr": "N_cr", "alpha": "α", "lb": "λ̄", "Phi": "Φ", "chi": "χ",
-             "Nb": "χ_{s} A f_y", "ignore": "λ̄_{s} ≤ 0.2", "Pcr": "N_cr", "K": "K", "curve": "curve",
+_EN_NAMES = {"Lc": "L_cr", "Ncr": "N_cr", "alpha": "α", "lb": "λ-bar", "Phi": "Φ", "chi": "χ",
+             "Nb": "χ_{s} A f_y", "ignore": "λ-bar_{s} ≤ 0.2", "Pcr": "N_cr", "K": "K", "curve": "curve",
              "Fy": "f_y", "fy": "f_y", "Pr": "N_Ed", "Ix": "I_y", "Iy": "I_z", "rx": "i_y",
              "ry": "i_z", "J": "I_t", "Cw": "I_w", "eps": "ε", "Aeff": "A_eff", "Nc": "N_c,Rk",
              "Pn": "N_Rk", "Nb,Rd": "N_b,Rd", "Lcz": "L_cr,T", "beta_br": "β_br",
              "gamma_M1": "γ_M1", "L": "L", "U": "N_Ed / N_b,Rd", "chi_LT": "χ_LT",
-             "lb,LT": "λ̄_LT", "alpha_LT": "α_LT", "Pn,yield": "N_c,Rk"}
+             "lb,LT": "λ-bar_LT", "alpha_LT": "α_LT", "Pn,yield": "N_c,Rk"}
 _US_NAMES = {"beta_br": "β_br", "phiPn": "φPn", "Pn/Omega": "Pn/Ω", "Lc/r": "Lc/r",
              "Pcr": "Pcr", "Lc": "Lc", "K": "K{s}", "Fe": "Fe", "Fcr": "Fcr", "Pn": "Pn",
              "slender": "slender"}

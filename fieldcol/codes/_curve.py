@@ -63,7 +63,7 @@ def column_curve(code: str, fy: float, E: float, *, curve: str = "b", x_max: flo
             raise InputError("curve", curve, "not a buckling curve of EN 1993-1-1 Table 6.1",
                              ", ".join(ALPHA))
         x = np.linspace(0.0, 3.0 if x_max is None else float(x_max), points)
-        return ColumnCurve(x, reduction_factor(x, ALPHA[curve]) * fy, "λ̄", "χ fy",
+        return ColumnCurve(x, reduction_factor(x, ALPHA[curve]) * fy, "λ-bar", "χ fy",
                            f"EN 1993-1-1 curve {curve}")
     if code not in ("aisc360-22", "elastic"):
         raise InputError("code", code, "not a code of the check", "aisc360-22, en1993-1-1, elastic")

@@ -46,7 +46,7 @@ class Capacity:
     name: str              # "Weak axis (z-z)"
     strength: str          # design (or allowable) strength with its unit
     length: str            # buckling length, "" for squash
-    slenderness: str       # "Lc/r 86.4" or "λ̄ 1.12"
+    slenderness: str       # "Lc/r 86.4" or "λ-bar 1.12"
     governs: bool
     applies: bool = True   # False: reported only (torsion of a closed section)
 
@@ -197,7 +197,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     names = _AXIS_NAMES.get(code, _AXIS_NAMES["aisc360-22"])
     closed = ((result.get("section") or {}).get("kind") or "i") != "i"
     caps = []
-    xname = "λ̄" if code == "en1993-1-1" else "Lc/r"
+    xname = "λ-bar" if code == "en1993-1-1" else "Lc/r"
     for mode in ("flexural-strong", "flexural-weak", "torsional", "yield"):
         m = modes.get(mode)
         if not m:
@@ -263,7 +263,7 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
         held = (f"{braces} brace{'s' if braces != 1 else ''} counted" if braces
                 else "no brace counted")
         sfx = _SUFFIX.get(code, {}).get(gov, "")
-        slen = (f"λ̄_{sfx} {sl:.3g}" if code == "en1993-1-1" else f"Lc/r {sl:.1f}") if sl else ""
+        slen = (f"λ-bar_{sfx} {sl:.3g}" if code == "en1993-1-1" else f"Lc/r {sl:.1f}") if sl else ""
         why = (f"its buckling length {_fmt(Lc, 'length', system)}"
                + (f" (K {K:.2f} x {_fmt(seg, 'length', system)}, {method}; {held})"
                   if K is not None and seg is not None and ax != "twist" else
@@ -320,8 +320,8 @@ def _chart(result: Mapping[str, Any], code: str, system: str, gov: str) -> Chart
                                [(float(x), stress(float(y))) for x, y in zip(c.x, c.stress)]))
         if not curves:
             return None
-        cap = "χ f_y against λ̄, EN 1993-1-1 6.3.1.2; points: this column (χ A f_y / A)"
-        xn, sn = "λ̄", "χ f_y"
+        cap = "χ f_y against λ-bar, EN 1993-1-1 6.3.1.2; points: this column (χ A f_y / A)"
+        xn, sn = "λ-bar", "χ f_y"
     else:
         c = column_curve(code, fy, E, x_max=x_max, points=61)
         curves.append((c.label, [(float(x), stress(float(y))) for x, y in zip(c.x, c.stress)]))

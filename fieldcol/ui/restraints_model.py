@@ -157,7 +157,7 @@ def _summary(b: Mapping[str, Any], kind: str) -> str:
     elif b.get("stiffness"):
         parts.append(f"stiffness {b['stiffness']}")
     else:
-        parts.append("stiffness not recorded")
+        parts.append("stiffness not recorded: taken as rigid")
     if b.get("strength"):
         parts.append(f"good for {b['strength']}")
     return ", ".join(parts)
