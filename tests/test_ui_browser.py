@@ -144,6 +144,8 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
     """Replace the text of an entry (and press Enter), once the entry holds exactly ``text``
     (Flutter may swap the focused input element, so keys sent too early can go astray)."""
     field = _entry(page, identifier)
+    if not page.locator(_sel(identifier)).count():  # a long tab builds what is near the screen
+        _scroll_to(page, identifier, page.viewport_size["width"] - 100)
     box = page.locator(_sel(identifier)).first.bounding_box()
     if box:  # wholly in view first, clear of the save bar
         _scroll_to(page, identifier, box["x"] + 10)
@@ -194,6 +196,8 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     _shot(page, "phone-column.png")
     # touch targets usable with gloves: at least 48 px (Material minimum, common practice)
     for ident in ("back", "field-length", "field-demand"):
+        if ident != "back":  # the entries sit below the result: scrolled into view first
+            _scroll_to(page, ident)
         box = page.locator(_sel(ident)).first.bounding_box()
         assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
 

@@ -72,8 +72,8 @@ class CheckTab(Tab):
             body = v.check_body(d)
             return [*body[:1], v.caution_box(), edit, *v.record_body(d)]
         chart = cv.chart_card(s, width=330)   # fits the phone and the tablet's right pane
-        return [*cv.result_cards(s), v.caution_box(), *([chart] if chart else []),
-                cv.trace_tile(s), edit, *v.record_body(d)]
+        return [*cv.result_cards(s), v.caution_box(), edit, *([chart] if chart else []),
+                cv.trace_tile(s), *v.record_body(d)]
 
     async def _save(self, e: Any) -> None:
         tf: ft.TextField = e.control
