@@ -211,13 +211,13 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     assert "not saved" in (_wait(page, "save-note") and _words(page, "save-note"))
     _shot(page, "phone-column-error.png")
     # the result sits above the entries: scrolled back up to read it
-    assert STATUS.search(_scroll_to(page, "status").inner_text()).group(0) == before
+    assert STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0) == before
 
     # a good entry: saved at once and checked again
     _type_into(page, "field-length", "12 ft")
     note = (_wait(page, "save-note") and _words(page, "save-note"))
     assert "cannot use" not in (length.get_attribute("aria-description") or "")
-    after = _poll(lambda: STATUS.search(_scroll_to(page, "status").inner_text()).group(0),
+    after = _poll(lambda: STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0),
                   lambda s: s != before, "status after a good length")
     note = (_wait(page, "save-note") and _words(page, "save-note"))
     assert "Saved length 12 ft" in note and after in note
@@ -265,6 +265,7 @@ def test_tablet_two_panes(server, browser):
     _poll(lambda: page.locator(_sel("column-A/1-G")).count(), lambda n: n == 0,
           "the list pane goes on a phone")
     assert STATUS.search(_wait(page, "status").inner_text())
+    _scroll_to(page, "field-demand")   # below the result on a phone
     demand = page.locator(f"{_sel('field-demand')} input").first
     _poll(lambda: demand.get_attribute("aria-description") or "",
           lambda d: "9 parsecs" in d, "the refused entry and its error survive the resize")
@@ -295,8 +296,9 @@ def _words(page, identifier: str) -> str:
         timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
 
 
-def _scroll_to(page, identifier: str, x: float = 195):
-    """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view."""
+def _scroll_to(page, identifier: str, x: float = 195, *, up: bool = False):
+    """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view
+    (``up``: a control not built yet lies above the screen)."""
     loc = page.locator(_sel(identifier)).first
     height = page.viewport_size["height"]
     page.mouse.move(x, height * 0.6)
@@ -305,7 +307,8 @@ def _scroll_to(page, identifier: str, x: float = 195):
         # a margin at the bottom: a row cut by the screen's edge reports only its visible part
         if box and box["y"] >= 56 and box["y"] + box["height"] <= height - 64:
             return loc
-        page.mouse.wheel(0, 300 if box is None or box["y"] > 56 else -300)
+        down = (not up) if box is None else box["y"] > 56
+        page.mouse.wheel(0, 300 if down else -300)
         time.sleep(0.2)
     raise AssertionError(f"could not scroll {identifier} into view")
 
