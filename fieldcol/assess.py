@@ -235,7 +235,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     Pr = demand if demand is not None else _first(base.design)
     counted = {ax: _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
                for ax in AXES}
-    _assumed_rigid(col, warnings)
+    _assumed_rigid(col, counted, warnings)
     lengths = {ax: _axis_length(col, ax, col.axes[ax], counted[ax].model, trace) for ax in AXES}
     trace.add("Lcz", "torsional buckling length: longest length between twist restraints "
               "(K_z = 2 next to an end free to twist)", "max K_z,i L_i", twist.Lc, "mm",
@@ -258,7 +258,9 @@ def assess(record: Mapping[str, Any]) -> Assessment:
             bow is not None and _first(bow.excess) > 0 and not math.isfinite(_first(bow.capacity))):
         # where the code gives no strength (NaN) there is no utilization, only the warning
         utilization = demand / design if design > 0 else math.inf
-        trace.add("U", "utilization, axial", "Pr / design strength", utilization, "",
+        trace.add("U", "utilization, axial",
+                  "N_Ed / N_b,Rd" if col.code == "en1993-1-1" else "Pr / design strength",
+                  utilization, "",
                   EDITIONS[col.code])
         if bow is not None and bow.ratio is not None and _first(bow.ratio) > utilization:
             utilization = _first(bow.ratio)
@@ -395,6 +397,8 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
     basis = "asd" if col.basis == "asd" else "lrfd"
     analysis = col.k_basis == "analysis"
     reduce = {"lrfd": 0.75 / 2, "asd": 1 / (2 * 2.0)}[basis] if col.code != "elastic" else 1.0
+    rule = _brace_rule(col)
+    P = "N_Ed" if col.code == "en1993-1-1" else "Pr"
     cuts = sorted({0.0, col.length, *(b.at for b in spec.braces)})
     model, qualified = [], []
     for i, b in enumerate(spec.braces):
@@ -405,21 +409,21 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
         Lbr = min(adj)
         Pbr, beta = (float(v) for v in brace_requirement(Pr, Lbr, basis, field=b.field))
         what = "the demand" if given else "the braced design strength"
-        trace.add(f"beta_br_{ax}[{i}]", f"brace stiffness required at {_show(col, b.at)} "
-                  f"({ax} axis), Pr = {what}; provided: "
-                  + (_show(col, b.stiffness, "stiffness") if b.stiffness_given else "rigid (assumed)"),
-                  "(1/phi or Omega) 8 Pr / Lbr", beta, "N/mm", "AISC 360-22 App. 6.2")
-        trace.add(f"Pbr_{ax}[{i}]", f"brace strength required at {_show(col, b.at)}; provided: "
+        where = f"brace at {_show(col, b.at)}, {ax} axis"
+        trace.add("beta_br", f"stiffness the {where} needs ({P} = {what}); given: "
+                  + (_show(col, b.stiffness, "stiffness") if b.stiffness_given else "not recorded"),
+                  f"(1/phi or Omega) 8 {P} / Lbr", beta, "N/mm", rule)
+        trace.add("P_br", f"strength the {where} needs; given: "
                   + (_show(col, b.strength, "force") if b.strength is not None else "not recorded"),
-                  "0.01 Pr", Pbr, "N", "AISC 360-22 App. 6.2")
+                  f"0.01 {P}", Pbr, "N", rule)
         ok_k = b.stiffness >= beta
         ok_p = b.strength is None or b.strength >= Pbr
         if b.one_way:
             warnings.append({"code": "brace-one-way",
-                             "message": f"the cable at {_show(col, b.at)} on the {ax} axis is a single "
-                                        "tension-only member: it holds the column one way only "
-                                        "and is not counted (record \"pair\": true for crossed or "
-                                        "opposed cables, or \"pretensioned\": true)"})
+                             "message": f"The cable at {_show(col, b.at)} ({ax} axis) is not counted: "
+                                        "a single cable pulls one way only and cannot hold the "
+                                        "column the other way. If it has a partner cable on the "
+                                        "other side, or is pretensioned, record that."})
             continue
         if ok_k and ok_p:
             qualified.append(b.at)
@@ -427,43 +431,60 @@ def _qualify(col: ColumnInput, ax: str, spec: AxisInput, Pr: float, given: bool,
             k_used = b.stiffness * reduce if analysis and math.isfinite(b.stiffness) else b.stiffness
             model.append((i, k_used))
             if analysis and math.isfinite(b.stiffness):
-                trace.add(f"k_{ax}[{i}]", f"brace stiffness used in the buckling analysis at "
-                          f"{_show(col, b.at)}", "phi k / 2 (ASD: k / (2 Omega))" if reduce < 1 else "k",
-                          k_used, "N/mm", "AISC 360-22 App. 6.2 (twice the ideal stiffness)")
+                trace.add("k_br", f"stiffness of the {where} used in the buckling analysis",
+                          "phi k / 2 (ASD: k / (2 Omega))" if reduce < 1 else "k",
+                          k_used, "N/mm", f"{rule} (twice the ideal stiffness)")
             if ok_k:
                 continue
         why = []
         if not ok_k:
-            why.append(f"stiffness {_show(col, b.stiffness, 'stiffness')} < required "
+            why.append(f"it gives {_show(col, b.stiffness, 'stiffness')} of stiffness and needs "
                        f"{_show(col, beta, 'stiffness')}")
         if not ok_p:
-            why.append(f"strength {_show(col, b.strength, 'force')} < required {_show(col, Pbr, 'force')}")
+            why.append(f"it is good for {_show(col, b.strength, 'force')} and needs "
+                       f"{_show(col, Pbr, 'force')}")
         kept = analysis and ok_p
         warnings.append({
             "code": "brace-not-qualified",
-            "message": f"brace at {_show(col, b.at)} on the {ax} axis does not qualify "
-                       f"({'; '.join(why)}; AISC 360-22 App. 6.2): "
-                       + ("kept in the buckling analysis at its reduced stiffness only" if kept
-                          else "not counted as a brace point"),
+            "message": f"The brace at {_show(col, b.at)} ({ax} axis) does not qualify: "
+                       f"{' and '.join(why)} ({rule}). "
+                       + ("It stays in the buckling analysis at its own, lower stiffness only."
+                          if kept else "It is not counted as a brace point."),
         })
     return _Counted(tuple(model), tuple(qualified))
 
 
-def _assumed_rigid(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
-    """Say which braces were taken as rigid and strong enough without a recorded value."""
-    where = []
+def _brace_rule(col: ColumnInput) -> str:
+    """The clause the brace requirement comes from, as this check should cite it."""
+    if col.code == "en1993-1-1":
+        return ("AISC 360-22 App. 6.2; EN 1993-1-1 gives no stiffness rule for a column brace "
+                "point, common practice")
+    return "AISC 360-22 App. 6.2"
+
+
+def _assumed_rigid(col: ColumnInput, counted: Mapping[str, _Counted],
+                   warnings: list[dict[str, str]]) -> None:
+    """Say which counted braces were taken as rigid or strong enough without a recorded value.
+
+    Braces left out of the check are not named here: saying a brace was both left out and
+    taken as rigid would contradict the warning that left it out.
+    """
     for ax in AXES:
-        for b in col.axes[ax].braces:
+        for i, _k in counted[ax].model:
+            b = col.axes[ax].braces[i]
+            taken = [w for w, gap in (("rigid", not b.stiffness_given),
+                                      ("strong enough", b.strength is None)) if gap]
+            if not taken:
+                continue
             missing = [w for w, gap in (("stiffness", not b.stiffness_given),
                                         ("strength", b.strength is None)) if gap]
-            if missing:
-                where.append(f"{ax} axis at {_show(col, b.at)} (no {' or '.join(missing)})")
-    if where:
-        warnings.append({"code": "brace-assumed",
-                         "message": "brace values not recorded, taken as rigid and strong "
-                                    "enough: " + "; ".join(where) + ". Confirm on site: "
-                                    "AISC 360-22 App. 6.2 asks for 0.01 Pr and the stiffness "
-                                    "shown in the trace"})
+            warnings.append({
+                "code": "brace-assumed",
+                "message": f"The brace at {_show(col, b.at)} ({ax} axis) has no "
+                           f"{' or '.join(missing)} recorded: it is taken as "
+                           f"{' and '.join(taken)}. Confirm it on site against what the trace "
+                           f"shows it needs ({_brace_rule(col)}).",
+            })
 
 
 def _twist_length(col: ColumnInput) -> AxisLength:

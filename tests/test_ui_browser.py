@@ -144,6 +144,8 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
     """Replace the text of an entry (and press Enter), once the entry holds exactly ``text``
     (Flutter may swap the focused input element, so keys sent too early can go astray)."""
     field = _entry(page, identifier)
+    if not page.locator(_sel(identifier)).count():  # a long tab builds what is near the screen
+        _scroll_to(page, identifier, page.viewport_size["width"] - 100)
     box = page.locator(_sel(identifier)).first.bounding_box()
     if box:  # wholly in view first, clear of the save bar
         _scroll_to(page, identifier, box["x"] + 10)
@@ -194,6 +196,8 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     _shot(page, "phone-column.png")
     # touch targets usable with gloves: at least 48 px (Material minimum, common practice)
     for ident in ("back", "field-length", "field-demand"):
+        if ident != "back":  # the entries sit below the result: scrolled into view first
+            _scroll_to(page, ident)
         box = page.locator(_sel(ident)).first.bounding_box()
         assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
 
@@ -205,16 +209,18 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     assert "12 fr" in page.locator(_sel("field-length")).first.inner_text() \
         or length.input_value() == "12 fr"
     assert "not saved" in (_wait(page, "save-note") and _words(page, "save-note"))
-    assert STATUS.search(status.inner_text()).group(0) == before
     _shot(page, "phone-column-error.png")
+    # the result sits above the entries: scrolled back up to read it
+    assert STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0) == before
 
     # a good entry: saved at once and checked again
     _type_into(page, "field-length", "12 ft")
-    after = _poll(lambda: STATUS.search(page.locator(_sel("status")).first.inner_text()).group(0),
+    note = (_wait(page, "save-note") and _words(page, "save-note"))
+    assert "cannot use" not in (length.get_attribute("aria-description") or "")
+    after = _poll(lambda: STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0),
                   lambda s: s != before, "status after a good length")
     note = (_wait(page, "save-note") and _words(page, "save-note"))
     assert "Saved length 12 ft" in note and after in note
-    assert "cannot use" not in (length.get_attribute("aria-description") or "")
     _shot(page, "phone-column-saved.png")
 
     # back on the list, the column shows its new check
@@ -259,6 +265,7 @@ def test_tablet_two_panes(server, browser):
     _poll(lambda: page.locator(_sel("column-A/1-G")).count(), lambda n: n == 0,
           "the list pane goes on a phone")
     assert STATUS.search(_wait(page, "status").inner_text())
+    _scroll_to(page, "field-demand")   # below the result on a phone
     demand = page.locator(f"{_sel('field-demand')} input").first
     _poll(lambda: demand.get_attribute("aria-description") or "",
           lambda d: "9 parsecs" in d, "the refused entry and its error survive the resize")
@@ -269,10 +276,22 @@ def test_tablet_two_panes(server, browser):
 def _tab(page, name: str) -> None:
     """Show a tab of the column screen and wait until it says it is shown."""
     tab = _wait(page, f"tab-{name}")
+    for _ in range(10):  # the tab row scrolls sideways on a phone: bring the tab on screen
+        box = tab.bounding_box()
+        if box is None or box["x"] + box["width"] <= page.viewport_size["width"]:
+            break
+        page.mouse.move(page.viewport_size["width"] / 2, box["y"] + box["height"] / 2)
+        page.mouse.wheel(200, 0)
+        time.sleep(0.2)
     tab.click()
     try:
-        _poll(lambda: _words(page, f"tab-{name}"), lambda t: "(shown)" in t,
-              f"the {name} tab shown")
+        try:
+            _poll(lambda: _words(page, f"tab-{name}"), lambda t: "(shown)" in t,
+                  f"the {name} tab shown", timeout=8)
+        except AssertionError:  # a tap while the column's first tab was still being drawn
+            _wait(page, f"tab-{name}").click()
+            _poll(lambda: _words(page, f"tab-{name}"), lambda t: "(shown)" in t,
+                  f"the {name} tab shown")
     except AssertionError:
         SHOTS.mkdir(parents=True, exist_ok=True)
         page.screenshot(path=str(SHOTS / f"failed-tab-{name}.png"))
@@ -289,8 +308,9 @@ def _words(page, identifier: str) -> str:
         timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
 
 
-def _scroll_to(page, identifier: str, x: float = 195):
-    """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view."""
+def _scroll_to(page, identifier: str, x: float = 195, *, up: bool = False):
+    """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view
+    (``up``: a control not built yet lies above the screen)."""
     loc = page.locator(_sel(identifier)).first
     height = page.viewport_size["height"]
     page.mouse.move(x, height * 0.6)
@@ -299,7 +319,8 @@ def _scroll_to(page, identifier: str, x: float = 195):
         # a margin at the bottom: a row cut by the screen's edge reports only its visible part
         if box and box["y"] >= 56 and box["y"] + box["height"] <= height - 64:
             return loc
-        page.mouse.wheel(0, 300 if box is None or box["y"] > 56 else -300)
+        down = (not up) if box is None else box["y"] > 56
+        page.mouse.wheel(0, 300 if down else -300)
         time.sleep(0.2)
     raise AssertionError(f"could not scroll {identifier} into view")
 

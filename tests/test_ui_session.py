@@ -315,3 +315,40 @@ def test_locked_store_says_not_saved_and_retry_saves(demo, monkeypatch):
         _run(walk())
     finally:
         store.close()
+
+
+# -- restraints: a brace at mid-height in two taps, logged, undone; the check under the status
+def test_brace_at_mid_height_in_two_taps_then_undo(demo):
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        col = store.find_column(site.id, "A/1-G")
+        await s.go(f"/columns/{col.id}")
+        # the Check tab: capacity per axis and what governs right under the status, the curve
+        assert "weak axis governs" in s.text("governing")
+        assert s.has("capacity-flexural-weak") and s.has("column-curve") and s.has("trace")
+        await s.tap("tab-restraints")
+        assert "weak axis governs" in s.text("restraint-governs")
+        n0 = len(store.restraint_changes(col.id))
+        await s.tap("add-brace")
+        assert s.inner("brace-at", ft.TextField).value == "8 ft"
+        await asyncio.sleep(0.6)   # the sketch follows the form after a short pause
+        await s.settle()
+        assert "weak axis" not in s.text("restraint-governs")
+        await s.tap("save-brace")
+        changes = store.restraint_changes(col.id)
+        assert len(changes) == n0 + 1 and changes[-1].kind == "brace_added"
+        assert "8 ft" in changes[-1].description
+        assert s.has("brace-0") and s.has("save-undo")
+        await s.tap("save-undo")
+        assert len(store.restraint_changes(col.id)) == n0
+        assert not s.has("brace-0")
+        # a height beyond the column: plain words under the entry, the text kept, nothing saved
+        await s.tap("add-brace")
+        await s.type("brace-at", "40 ft")
+        tf = s.inner("brace-at", ft.TextField)
+        assert tf.value == "40 ft" and tf.error and "outside the column length" in tf.error
+        assert "restraints." not in tf.error and "[" not in tf.error
+        assert len(store.restraint_changes(col.id)) == n0
+    _run(walk())

@@ -21,11 +21,12 @@ Example:
     ['flexural-weak', 'flexural-strong']
 """
 
+from ._curve import ColumnCurve, column_curve
 from ._result import MODES, CodeResult, ModeResult, Warning
 from .aisc360 import check_aisc360, critical_stress
 from .bow import BowResult, check_bow
 from .elastic import check_elastic
 from .en1993 import buckling_curves, check_en1993, reduction_factor
 
-__all__ = ["MODES", "BowResult", "CodeResult", "check_bow", "ModeResult", "Warning", "check_aisc360", "check_elastic",
+__all__ = ["MODES", "BowResult", "CodeResult", "ColumnCurve", "column_curve", "check_bow", "ModeResult", "Warning", "check_aisc360", "check_elastic",
            "check_en1993", "critical_stress", "buckling_curves", "reduction_factor"]

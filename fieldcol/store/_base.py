@@ -326,6 +326,18 @@ class StoreBase:
         with self._lock:
             return int(self.db.conn.execute("PRAGMA data_version").fetchone()[0])
 
+    @contextmanager
+    def transaction(self) -> Iterator[None]:
+        """Several store calls as one transaction: all of them are saved, or none.
+
+        Example:
+            >>> with store.transaction():
+            ...     _ = store.update_column(col.id, grid="C/5")
+            ...     _ = store.add_restraint_change(col.id, "2026-03-04", "other", "regridded")
+        """
+        with self._tx():
+            yield
+
     def _rows(self, sql: str, params: Any = ()) -> list[dict[str, Any]]:
         def read() -> list[dict[str, Any]]:
             cur = self.db.conn.execute(sql, params)

@@ -1,5 +1,7 @@
-"""The Check tab of the column screen: the latest check, the caution, the edit card (length,
-section, material, axial demand) and the record in words.
+"""The Check tab of the column screen: right under the status, the capacity about each axis and
+in torsion, what governs and why, the utilization and the warnings; then the column-curve chart,
+the caution, the full trace one tap away, the edit card (length, section, material, axial
+demand) and the record in words.
 
 API: ``CheckTab(app)`` with ``name = "check"``; see ``fieldcol.ui._tab``. Its entries save
 through ``app.saver`` (Enter or leaving the entry) with Undo; a refused entry keeps its text
@@ -9,10 +11,13 @@ save, a resize): the ``TextField`` objects live as long as the tab.
 
 from __future__ import annotations
 
+import asyncio
 from typing import Any
 
 import flet as ft
 
+from fieldcol.ui import _check_views as cv
+from fieldcol.ui import check_model as cm
 from fieldcol.ui import model as m
 from fieldcol.ui import views as v
 from fieldcol.ui._tab import Tab
@@ -30,6 +35,16 @@ class CheckTab(Tab):
         self.fields: dict[str, ft.TextField] = {}
         self.saved: dict[str, str] = {}   # the value each entry showed as saved
         self.failed: dict[str, str] = {}  # the text last refused per entry
+        self.summary: cm.CheckSummary | None = None
+
+    async def load(self) -> None:
+        """The latest check as the tab shows it (worker thread).
+
+        Example: ``await tab.load()``.
+        """
+        d = self.app.detail
+        if d is not None:
+            self.summary = await asyncio.to_thread(cm.latest_summary, self.app.store, d.id)
 
     def controls(self) -> list[ft.Control]:
         """Summary, caution, edit card, then modes, warnings, trace and the record.
@@ -52,8 +67,13 @@ class CheckTab(Tab):
         edit = v._card([v.text_line("Saved when you press Enter or leave the entry, then "
                                     "checked again; Undo in the bar below.", color=v.MUTED),
                         *entries, recheck], title="Edit")
-        body = v.check_body(d)
-        return [*body[:1], v.caution_box(), edit, *body[1:], *v.record_body(d)]
+        s = self.summary
+        if s is None or d.check is None:
+            body = v.check_body(d)
+            return [*body[:1], v.caution_box(), edit, *v.record_body(d)]
+        chart = cv.chart_card(s, width=330)   # fits the phone and the tablet's right pane
+        return [*cv.result_cards(s), v.caution_box(), edit, *([chart] if chart else []),
+                cv.trace_tile(s), *v.record_body(d)]
 
     async def _save(self, e: Any) -> None:
         tf: ft.TextField = e.control

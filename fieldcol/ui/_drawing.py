@@ -1,0 +1,172 @@
+"""Drawings of the Restraints and Check tabs on a Flet canvas: the side view of one axis and
+the column curve chart. Plain shapes from the view-models; no I/O."""
+
+from __future__ import annotations
+
+import flet as ft
+import flet.canvas as cv
+
+from fieldcol.ui.check_model import Chart
+from fieldcol.ui.restraints_model import AxisSketch
+
+INK = "#111418"
+MUTED = "#5F6872"
+STEEL = "#1C4E9C"
+SHAPE = "#B3261E"      # the buckled shape: a dashed red-brown line, told apart by its dash too
+OFF = "#8A6D00"        # a brace that does not count: hollow and dashed
+
+
+def _paint(color: str, width: float = 2.0, *, fill: bool = False,
+           dash: list[float] | None = None) -> ft.Paint:
+    return ft.Paint(color=color, stroke_width=width,
+                    style=ft.PaintingStyle.FILL if fill else ft.PaintingStyle.STROKE,
+                    stroke_dash_pattern=dash)
+
+
+def _text(x: float, y: float, value: str, size: int = 14, color: str = INK,
+          bold: bool = False, align: ft.Alignment = ft.Alignment.TOP_LEFT) -> cv.Text:
+    return cv.Text(x, y, value, style=ft.TextStyle(size=size, color=color,
+                                                   weight=ft.FontWeight.BOLD if bold else None),
+                   alignment=align)
+
+
+def _support(kind: str, x: float, y: float, top: bool) -> list[cv.Shape]:
+    """The symbol of an end: fixed (hatched block), pinned (triangle), guided (a sleeve that
+    slides), spring (a zig-zag), free (nothing held: an open circle)."""
+    s = -1 if top else 1
+    out: list[cv.Shape] = []
+    if kind == "fixed":
+        out.append(cv.Line(x - 22, y, x + 22, y, _paint(INK, 4)))
+        for i in range(5):
+            out.append(cv.Line(x - 20 + 10 * i, y, x - 28 + 10 * i, y + 10 * s, _paint(INK, 1.5)))
+    elif kind == "pinned":
+        out.append(cv.Path([cv.Path.MoveTo(x, y), cv.Path.LineTo(x - 12, y + 18 * s),
+                            cv.Path.LineTo(x + 12, y + 18 * s), cv.Path.Close()], _paint(INK, 2)))
+        out.append(cv.Line(x - 18, y + 18 * s, x + 18, y + 18 * s, _paint(INK, 2)))
+    elif kind == "guided":
+        out.append(cv.Line(x - 22, y, x + 22, y, _paint(INK, 4)))
+        out.append(cv.Circle(x - 12, y + 7 * s, 5, _paint(INK, 2)))
+        out.append(cv.Circle(x + 12, y + 7 * s, 5, _paint(INK, 2)))
+        out.append(cv.Line(x - 22, y + 14 * s, x + 22, y + 14 * s, _paint(INK, 2)))
+    elif kind == "spring":
+        pts = [cv.Path.MoveTo(x, y)]
+        for i in range(1, 7):
+            pts.append(cv.Path.LineTo(x + (8 if i % 2 else -8), y + 3 * i * s))
+        pts.append(cv.Path.LineTo(x, y + 21 * s))
+        out.append(cv.Path(pts, _paint(INK, 2)))
+        out.append(cv.Line(x - 18, y + 21 * s, x + 18, y + 21 * s, _paint(INK, 3)))
+    else:  # free
+        out.append(cv.Circle(x, y, 6, _paint(INK, 2)))
+    return out
+
+
+def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Canvas:
+    """The side view of one axis: the column, its ends, its braces (filled: counted; hollow and
+    dashed: left out) and its first buckled shape (dashed), the axis that governs boxed.
+
+    Args:
+        a: an ``AxisSketch``.
+        width, height: the drawing size, px.
+
+    Returns:
+        A ``Canvas``.
+
+    Example: ``axis_canvas(sketch(record, "us").axes[1])``.
+    """
+    top, bottom = 70.0, height - 40.0
+    x0 = width / 2
+    amp = width * 0.28
+
+    def y(zf: float) -> float:
+        return bottom - zf * (bottom - top)
+
+    shapes: list[cv.Shape] = []
+    if a.governs:
+        shapes.append(cv.Rect(2, 2, width - 4, height - 4, border_radius=8,
+                              paint=_paint(SHAPE, 3)))
+    title = ("Strong axis" if a.axis == "strong" else "Weak axis")
+    shapes.append(_text(x0, 6, title, 15, INK, True, ft.Alignment.TOP_CENTER))
+    shapes.append(_text(x0, 24, ("GOVERNS · " if a.governs else "") + f"Lc {a.Lc_text}", 13,
+                        SHAPE if a.governs else MUTED, a.governs, ft.Alignment.TOP_CENTER))
+    shapes.append(cv.Line(x0, y(0), x0, y(1), _paint(STEEL, 5)))
+    if a.shape:
+        path = [cv.Path.MoveTo(x0 + amp * a.shape[0][1], y(a.shape[0][0]))]
+        path += [cv.Path.LineTo(x0 + amp * w, y(z)) for z, w in a.shape[1:]]
+        shapes.append(cv.Path(path, _paint(SHAPE, 3, dash=[8, 5])))
+    shapes += _support(a.bottom, x0, y(0), top=False)
+    shapes += _support(a.top, x0, y(1), top=True)
+    for zf, kind, counted in a.braces:
+        yy = y(zf)
+        if counted:
+            shapes.append(cv.Line(x0, yy, 8, yy, _paint(INK, 3)))
+            shapes.append(cv.Circle(x0, yy, 6, _paint(INK, fill=True)))
+        else:
+            shapes.append(cv.Line(x0, yy, 8, yy, _paint(OFF, 2, dash=[4, 4])))
+            shapes.append(cv.Circle(x0, yy, 6, _paint(OFF, 2)))
+        if kind in ("cable", "rod"):
+            shapes.append(cv.Line(x0, yy, 10, max(top, yy - 40), _paint(INK if counted else OFF, 1.5)))
+        shapes.append(_text(10, yy + 4, kind if counted else f"{kind} (not counted)", 12,
+                            INK if counted else OFF))
+    shapes.append(_text(x0, height - 16, a.note, 13, MUTED, False, ft.Alignment.TOP_CENTER))
+    return cv.Canvas(shapes=shapes, width=width, height=height)
+
+
+def curve_canvas(chart: Chart, width: float = 340, height: float = 240) -> cv.Canvas:
+    """The column curve(s) of the code with this column's points (the governing one filled and
+    labelled), axes labelled with the code's symbols and units.
+
+    Args:
+        chart: a ``Chart``.
+        width, height: the drawing size, px.
+
+    Returns:
+        A ``Canvas``.
+
+    Example: ``curve_canvas(latest_summary(store, cid).chart)``.
+    """
+    left, right, top, bottom = 48.0, width - 10.0, 30.0, height - 36.0
+
+    def px(x: float) -> float:
+        return left + (right - left) * min(max(x / chart.x_max, 0.0), 1.0)
+
+    def py(s: float) -> float:
+        return bottom - (bottom - top) * min(max(s / chart.stress_max, 0.0), 1.0)
+
+    shapes: list[cv.Shape] = [cv.Line(left, bottom, right, bottom, _paint(INK, 1.5)),
+                              cv.Line(left, top, left, bottom, _paint(INK, 1.5))]
+    for xv in _ticks(chart.x_max):
+        shapes.append(cv.Line(px(xv), bottom, px(xv), bottom + 5, _paint(INK, 1)))
+        shapes.append(_text(px(xv), bottom + 6, f"{xv:g}", 12, MUTED, False,
+                            ft.Alignment.TOP_CENTER))
+    for sv in _ticks(chart.stress_max):
+        shapes.append(cv.Line(left - 5, py(sv), left, py(sv), _paint(INK, 1)))
+        shapes.append(cv.Line(left, py(sv), right, py(sv), _paint("#D5DAE0", 1)))
+        shapes.append(_text(left - 7, py(sv) - 8, f"{sv:g}", 12, MUTED, False,
+                            ft.Alignment.TOP_RIGHT))
+    shapes.append(_text(right, bottom + 20, chart.x_name, 14, INK, True, ft.Alignment.TOP_RIGHT))
+    shapes.append(_text(4, 4, f"{chart.stress_name} ({chart.stress_unit})", 14, INK, True))
+    dashes = [None, [6, 4], [2, 3]]
+    for i, (label, pts) in enumerate(chart.curves):
+        path = [cv.Path.MoveTo(px(pts[0][0]), py(pts[0][1]))]
+        path += [cv.Path.LineTo(px(x), py(s)) for x, s in pts[1:]]
+        shapes.append(cv.Path(path, _paint(STEEL, 2.5, dash=dashes[i % 3])))
+        lx, ls = pts[len(pts) * 3 // 4]
+        shapes.append(_text(px(lx), py(ls) - 18 - 14 * i, label, 12, STEEL))
+    for p in chart.points:
+        x, yv = px(p.x), py(p.stress)
+        if p.governs:
+            shapes.append(cv.Circle(x, yv, 7, _paint(SHAPE, fill=True)))
+            shapes.append(_text(x + 9, yv - 22, f"{p.label}: governs", 13, SHAPE, True))
+        else:  # named in the key under the chart: labels of close points would overlap
+            shapes.append(cv.Circle(x, yv, 6, _paint(INK, 2)))
+    return cv.Canvas(shapes=shapes, width=width, height=height)
+
+
+def _ticks(top: float) -> list[float]:
+    """Round tick values from 0 to ``top``: steps of 1, 2 or 5 times a power of ten."""
+    import math
+
+    raw = top / 4
+    p = 10 ** math.floor(math.log10(raw)) if raw > 0 else 1
+    step = next(m * p for m in (1, 2, 2.5, 5, 10) if m * p >= raw)
+    return [i * step for i in range(int(top // step) + 1)]

@@ -1,0 +1,178 @@
+"""The Restraints and Check tabs' view-models on a real store holding the invented demo site.
+
+Outside references: Timoshenko & Gere, Theory of Elastic Stability (a rigid support at
+mid-height of a pinned column halves its buckling length: two half-waves); AISC 360-22 E3 and
+App. 6.2; EN 1993-1-1 6.3.1 (symbols N_b,Rd, chi, lambda-bar).
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.errors import InputError
+from fieldcol.store import open_store
+from fieldcol.ui import check_model as cm
+from fieldcol.ui import restraints_model as rm
+
+FT = 304.8  # mm per foot, exact by definition
+
+
+@pytest.fixture
+def demo(tmp_path):
+    store = open_store(tmp_path / "demo.db")
+    build_demo(store)
+    site = store.site_by_name(SITE_NAME)
+    yield store, site
+    store.close()
+
+
+def _col(store, site, tag):
+    return store.find_column(site.id, tag).id
+
+
+def test_adding_a_brace_at_mid_height_logs_it_and_changes_what_governs(demo):
+    store, site = demo
+    cid = _col(store, site, "A/1-G")    # W10X49, 16 ft, pinned, no braces: weak axis governs
+    before = cm.latest_summary(store, cid)
+    assert before.governs == "Buckling about the weak axis governs"
+    n0 = len(store.restraint_changes(cid))
+    draft = rm.empty_draft(store.current_record(cid), who="T. Nguyen")
+    assert draft["at"] == "8 ft" and draft["axis"] == "weak"
+    saved = rm.save_brace(store, cid, {**draft, "stiffness": "rigid", "twist": True},
+                          who="T. Nguyen")
+    changes = store.restraint_changes(cid)
+    assert len(changes) == n0 + 1
+    rc = changes[-1]
+    assert rc.kind == "brace_added" and rc.axis == "weak" and rc.seen_by == "T. Nguyen"
+    assert "8 ft" in rc.description and rc.detail["brace"]["kind"] == "strut"
+    after = cm.latest_summary(store, cid)
+    # Timoshenko & Gere: the weak-axis length halves, so the strong axis now governs
+    assert after.governs == "Buckling about the strong axis governs"
+    weak = next(c for c in after.capacities if c.mode == "flexural-weak")
+    assert weak.length == "8'-0\""
+    view = rm.restraints_view(store.current_record(cid), "us")
+    (b,) = view.braces
+    assert (b.axis, b.at_text, b.kind, b.seen_by) == ("weak", "8'-0\"", "strut", "T. Nguyen")
+    # undo: the record as it was, the change gone from the history, checked again
+    rm.restore(store, saved)
+    assert len(store.restraint_changes(cid)) == n0
+    assert rm.restraints_view(store.current_record(cid), "us").braces == []
+    assert cm.latest_summary(store, cid).governs == before.governs
+
+
+def test_a_brace_on_both_axes_is_one_brace_and_goes_away_whole(demo):
+    store, site = demo
+    cid = _col(store, site, "D/1-G")
+    rm.save_brace(store, cid, {"at": "10 ft", "axis": "both", "kind": "tie",
+                               "twist": True}, who="R. Amadi")
+    rec = store.get_column(cid).record
+    assert rec["restraints"]["strong"]["braces"] == rec["restraints"]["weak"]["braces"]
+    assert rec["restraints"]["twist"]["braces"][0]["at"] == "10 ft"
+    (b,) = rm.restraints_view(rec, "us").braces
+    assert b.axis == "both" and len(b.refs) == 2 and b.draft["twist"] is True
+    rm.remove_brace(store, cid, b.refs, who="R. Amadi")
+    rec = store.get_column(cid).record
+    assert "braces" not in rec["restraints"]["strong"] and "twist" not in rec["restraints"]
+    assert store.restraint_changes(cid)[-1].kind == "brace_removed"
+
+
+def test_changing_a_brace_keeps_one_entry_and_logs_the_change(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")   # the 0.6 kip/in strap that does not qualify
+    (b,) = rm.restraints_view(store.current_record(cid), "us").braces
+    rm.save_brace(store, cid, {**b.draft, "stiffness": "60 kip/in", "strength": "10 kip"},
+                  refs=b.refs, who="R. Amadi")
+    (b2,) = rm.restraints_view(store.current_record(cid), "us").braces
+    assert b2.draft["stiffness"] == "60 kip/in"
+    assert "changed" in store.restraint_changes(cid)[-1].description
+    s = cm.latest_summary(store, cid)
+    # AISC 360-22 App. 6.2: 60 kip/in > 48.15 kip/in needed: the strap now counts
+    assert not any("does not qualify" in w for w in s.warnings)
+
+
+def test_a_bad_entry_names_the_form_field_and_saves_nothing(demo):
+    store, site = demo
+    cid = _col(store, site, "A/1-G")
+    rec0 = store.get_column(cid).record
+    n0 = len(store.restraint_changes(cid))
+    for draft, name in (({"at": "30 ft", "axis": "weak"}, "at"),
+                        ({"at": "", "axis": "weak"}, "at"),
+                        ({"at": "8 ft", "axis": "weak", "stiffness": "20"}, "stiffness"),
+                        ({"at": "8 ft", "axis": "weak", "kind": "cable", "area": "0.2 in2"},
+                         "length")):
+        with pytest.raises(InputError) as e:
+            rm.save_brace(store, cid, draft, who="x")
+        assert e.value.field == name, (draft, e.value.field)
+        assert "[" not in rm.plain(e.value)
+    assert store.get_column(cid).record == rec0 and len(store.restraint_changes(cid)) == n0
+
+
+def test_ends_and_twist_points_are_saved_and_logged(demo):
+    store, site = demo
+    cid = _col(store, site, "A/1-G")
+    rm.set_end(store, cid, "weak", "bottom", "fixed", who="R. Amadi")
+    assert store.get_column(cid).record["restraints"]["weak"]["bottom"] == "fixed"
+    assert store.restraint_changes(cid)[-1].kind == "end_condition_changed"
+    rm.set_end(store, cid, "strong", "top", "spring", rotation="50000 kip*in/rad")
+    assert store.get_column(cid).record["k_basis"] == "analysis"
+    assert "buckling analysis" in store.restraint_changes(cid)[-1].description
+    view = rm.restraints_view(store.current_record(cid), "us")
+    assert view.ends[("strong", "top")].kind == "spring"
+    with pytest.raises(InputError) as e:
+        rm.set_end(store, cid, "strong", "top", "spring")
+    assert e.value.field == "rotation"
+    rm.add_twist(store, cid, "8 ft", who="R. Amadi")
+    assert rm.restraints_view(store.current_record(cid), "us").twist == [(0, "8'-0\"")]
+    rm.remove_twist(store, cid, 0)
+    assert rm.restraints_view(store.current_record(cid), "us").twist == []
+
+
+def test_sketch_follows_the_brace_being_typed(demo):
+    store, site = demo
+    rec = store.current_record(_col(store, site, "A/1-G"))
+    s0 = rm.sketch(rec, "us")
+    assert [a.note for a in s0.axes] == ["one half-wave", "one half-wave"]
+    assert [a.governs for a in s0.axes] == [False, True]
+    live = rm.sketch_with(rec, {"at": "8 ft", "axis": "weak", "twist": True}, (), "us")
+    weak = live.axes[1]
+    # Timoshenko & Gere: a rigid brace at mid-height gives two half-waves, zero at the brace
+    assert weak.note == "2 half-waves" and weak.braces == [(0.5, "strut", True)]
+    assert min(abs(w) for z, w in weak.shape if abs(z - 0.5) < 1e-9) < 1e-9
+    assert [a.governs for a in live.axes] == [True, False]
+    bad = rm.sketch_with(rec, {"at": "40 ft", "axis": "weak"}, (), "us")
+    assert bad.error_field == "at" and bad.axes == s0.axes
+
+
+def test_check_summary_speaks_the_code(demo):
+    store, site = demo
+    s = cm.latest_summary(store, _col(store, site, "C/3-G"))
+    assert s.title == "AISC 360-22 check" and s.status_word == "OVER"
+    assert [c.name for c in s.capacities] == ["Strong axis (x)", "Weak axis (y)", "Torsion (z)",
+                                              "Squash (yield)"]
+    assert s.result_line.startswith("Pr 650 kip / φPn ")
+    assert not any("[" in t.symbol for t in s.trace)
+    assert s.chart is not None and s.chart.x_name == "Lc/r" and s.chart.stress_unit == "ksi"
+    gov = [p for p in s.chart.points if p.governs]
+    assert len(gov) == 1 and gov[0].label.startswith("weak")
+    # the point sits on the AISC 360-22 E3 curve (a compact section: Pn / Ag = Fcr)
+    (label, pts), = s.chart.curves
+    import numpy as np
+    xs, ys = zip(*pts)
+    assert float(np.interp(gov[0].x, xs, ys)) == pytest.approx(gov[0].stress, rel=2e-3)
+
+
+def test_en_check_summary_uses_en_symbols():
+    from fieldcol.assess import assess
+
+    r = assess({"tag": "C", "section": "HE 200 B", "material": "S355", "length": "6 m",
+                "code": "en1993-1-1", "demand": {"axial": "900 kN"}}).to_dict()
+    s = cm.check_summary(r, "si")
+    assert s.title == "EN 1993-1-1 check" and "(en)" not in s.title.lower()
+    assert s.result_line.startswith("N_Ed 900 kN / N_b,Rd ")
+    assert s.capacities[1].name == "Weak axis (z-z)" and s.capacities[1].slenderness.startswith("λ-bar_z")
+    syms = {t.symbol for t in s.trace}
+    assert {"χ_z", "λ-bar_z", "N_b,Rd", "N_cr,z"} <= syms
+    assert s.chart.x_name == "λ-bar" and [c[0] for c in s.chart.curves] == ["curve b (y-y)",
+                                                                          "curve c (z-z)"]
+    assert "λ-bar_z" in s.why
