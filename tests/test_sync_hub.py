@@ -312,6 +312,15 @@ def test_tokens_sizes_and_bad_json_are_refused(tmp_path: Path, hub):
     assert hub.hub.max_seq() == 0
 
 
+def test_a_token_or_access_key_never_reads_as_a_command_line_option(tmp_path: Path):
+    # A token starting with "-" made `fieldcol sync --token <token>` fail in argparse.
+    from fieldcol.sync._hubstore import HubStore
+    from fieldcol.ui._access import new_key
+    hs = HubStore(tmp_path / "h")
+    toks = [hs.add_device(f"d{i}") for i in range(200)] + [new_key() for _ in range(2000)]
+    assert all(t[0].isalnum() for t in toks)
+
+
 def test_sync_command_prints_what_moved_and_exits_2_on_bad_token_or_no_hub(tmp_path: Path, hub,
                                                                             capsys):
     (a, ta), = _devices(tmp_path, hub, 1)

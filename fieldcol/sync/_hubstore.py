@@ -117,7 +117,7 @@ class HubStore:
         if not isinstance(name, str) or not _NAME.fullmatch(name):
             raise InputError("name", str(name), "a device name is 1 to 64 letters, digits, "
                              "spaces, dots, dashes or underscores", "e.g. tablet-1")
-        token = secrets.token_urlsafe(32)
+        token = secrets.token_hex(32)  # hex: a token never starts with "-", which a shell or argparse reads as an option
         with self._lock, self._dev:
             try:
                 self._dev.execute("INSERT INTO devices (name, token_hash, created_at) "

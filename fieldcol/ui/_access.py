@@ -60,13 +60,13 @@ def is_loopback(host: str) -> bool:
 
 
 def new_key() -> str:
-    """A fresh access key (32 random bytes, URL-safe text).
+    """A fresh access key (32 random bytes as hex).
 
     Example:
         >>> len(new_key()) >= 43
         True
     """
-    return secrets.token_urlsafe(32)
+    return secrets.token_hex(32)  # hex: never starts with "-", which argparse reads as an option
 
 
 def check_key(text: str) -> str:
