@@ -10,7 +10,7 @@ from __future__ import annotations
 from sqlite_utils import Database
 from sqlite_utils.migrations import Migrations
 
-from fieldcol.store._schema import V1_SQL, V2_SQL, V5_SQL
+from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL
 
 migrations = Migrations("fieldcol")
 
@@ -26,6 +26,11 @@ def _m001_initial(db: Database) -> None:
 @migrations(name="m002_indexes")
 def _m002_indexes(db: Database) -> None:
     db.executescript(V2_SQL)
+
+
+@migrations(name="m004_people")
+def _m004_people(db: Database) -> None:
+    db.executescript(V4_SQL)
 
 
 @migrations(name="m005_field_notes")

@@ -3,9 +3,10 @@
 from __future__ import annotations
 
 from fieldcol.store._notes import NotesMixin
+from fieldcol.store._people import PeopleMixin
 
 
-class Store(NotesMixin):
+class Store(NotesMixin, PeopleMixin):
     """The site records on this device, in one SQLite file plus a photo folder beside it.
 
     Every change is committed in its own transaction as it is made (autosave); a failed change
