@@ -38,7 +38,8 @@ def site_server(tmp_path_factory):
     port = _free_port()
     db = tmp_path_factory.mktemp("uisite") / "site.db"
     log = open(db.with_suffix(".log"), "w")
-    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true"}
+    # a short wait per attempt for the write lock: the busy path is under test, not the wait
+    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true", "FIELDCOL_BUSY_TIMEOUT": "1"}
     proc = subprocess.Popen([sys.executable, "-m", "fieldcol", "app", "--db", str(db),
                              "--port", str(port)], stdout=log, stderr=subprocess.STDOUT, env=env)
     deadline = time.monotonic() + 60

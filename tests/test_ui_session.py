@@ -29,7 +29,7 @@ from flet.messaging.session import Session
 from flet.pubsub.pubsub_hub import PubSubHub
 
 from fieldcol.demo import SITE_NAME, build_demo
-from fieldcol.store import _base, open_store
+from fieldcol.store import open_store
 from fieldcol.ui.app import TABS, FieldApp
 
 
@@ -283,7 +283,7 @@ def test_locked_store_says_not_saved_and_retry_saves(demo, monkeypatch):
     path = store.path
     store.close()
     # a short wait for the lock: the busy path is what is under test, not the timeout
-    monkeypatch.setattr(_base, "BUSY_TIMEOUT_S", 0.3)
+    monkeypatch.setenv("FIELDCOL_BUSY_TIMEOUT", "0.3")
     store = open_store(path)
 
     async def walk():
