@@ -183,7 +183,8 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     assert over and all(STATUS.search(t) for t in texts), texts
     _shot(page, "phone-columns.png")
     boxes = [rows.nth(i).bounding_box() for i in range(rows.count())]
-    whole = [b for b in boxes if b and b["y"] >= 56 and b["y"] + b["height"] <= PHONE["height"]]
+    # a row cut by the screen's bottom edge reports its visible part, ending right at the edge
+    whole = [b for b in boxes if b and b["y"] >= 56 and b["y"] + b["height"] < PHONE["height"] - 1]
     assert len(whole) >= 5 and all(b["height"] >= 48 for b in whole), boxes
 
     tag = over[0].split(":")[0].strip()

@@ -29,7 +29,7 @@ from flet.messaging.session import Session
 from flet.pubsub.pubsub_hub import PubSubHub
 
 from fieldcol.demo import SITE_NAME, build_demo
-from fieldcol.store import _base, open_store
+from fieldcol.store import open_store
 from fieldcol.ui.app import TABS, FieldApp
 
 
@@ -283,7 +283,7 @@ def test_locked_store_says_not_saved_and_retry_saves(demo, monkeypatch):
     path = store.path
     store.close()
     # a short wait for the lock: the busy path is what is under test, not the timeout
-    monkeypatch.setattr(_base, "BUSY_TIMEOUT_S", 0.3)
+    monkeypatch.setenv("FIELDCOL_BUSY_TIMEOUT", "0.3")
     store = open_store(path)
 
     async def walk():
@@ -351,4 +351,79 @@ def test_brace_at_mid_height_in_two_taps_then_undo(demo):
         assert tf.value == "40 ft" and tf.error and "outside the column length" in tf.error
         assert "restraints." not in tf.error and "[" not in tf.error
         assert len(store.restraint_changes(col.id)) == n0
+# -- who is here, sites, columns --------------------------------------------------------------
+def test_first_start_asks_who_then_stamps_rows(tmp_path):
+    store = open_store(tmp_path / "new.db")
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        assert s.has("who-name") and s.app.person is None
+        await s.type("who-name", "R. Amadi", submit=False)
+        await s.type("who-initials", "R4", submit=False)
+        await s.type("who-device", "site tablet 2", submit=False)
+        await s.tap("save-who")
+        tf = s.inner("who-initials", ft.TextField)
+        assert tf.error and tf.error.startswith("Initials 'R4' not understood")
+        assert s.inner("who-name", ft.TextField).value == "R. Amadi"  # typed text kept
+        await s.type("who-initials", "RA", submit=False)
+        assert s.inner("who-initials", ft.TextField).error is None  # gone once changed
+        await s.tap("save-who")
+        assert s.app.person == "R. Amadi" and not s.has("who-name")
+        # a site, made from the form: a refusal names the field, then it is created
+        await s.tap("new-site")
+        await s.tap("code-2")  # EN 1993-1-1: gamma_M1 appears
+        assert s.has("site-gamma_m1")
+        await s.tap("save-site")
+        assert s.inner("site-name", ft.TextField).error == \
+            "Site name is needed. Type a name." or "is needed" in \
+            s.inner("site-name", ft.TextField).error
+        await s.type("site-name", "Kiln Shed", submit=False)
+        await s.type("site-gamma_m1", "1.1", submit=False)
+        await s.tap("units-si")
+        await s.tap("save-site")
+        site = store.find_site("Kiln Shed")
+        assert (site.code, site.gamma_m1, site.unit_system, site.created_by) == \
+            ("en1993-1-1", 1.1, "si", "R. Amadi")
+        assert s.page.route == f"/sites/{site.id}"
+        # a column: tag proposed, saved with the site's code and gamma_M1
+        await s.tap("new-column")
+        await s.type("column-new-tag", "K1", submit=False)
+        await s.type("column-new-level", "Ground", submit=False)
+        await s.tap("save-column")
+        col = store.find_column(site.id, "K1")
+        assert col.record["code"] == "en1993-1-1" and col.record["gamma_M1"] == 1.1
+        assert s.page.route == f"/columns/{col.id}" and s.app.detail.tag == "K1"
+    try:
+        _run(walk())
+    finally:
+        store.close()
+
+
+def test_duplicate_in_one_tap_then_delete_and_undo(demo):
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        src = store.find_column(site.id, "B/3-G")
+        await s.go(f"/columns/{src.id}")
+        await s.tap("duplicate-column")
+        new = store.find_column(site.id, "B/4-G") and None
+        tags = {r.tag for r in store.list_columns(site.id, limit=1000)}
+        assert "B/5-G" in tags  # B/4-G is taken in the demo: the first free number
+        copy = store.find_column(site.id, "B/5-G")
+        rec, old = store.current_record(copy.id), store.current_record(src.id)
+        assert rec["section"] != "" and rec["length"] == old["length"]
+        assert rec.get("restraints") == old.get("restraints") and "demand" not in rec
+        assert store.measurements(copy.id) == [] and store.latest_check(copy.id) is None
+        assert s.app.detail.tag == "B/5-G" and s.has("save-undo")
+        # delete: a tombstone, then Undo brings it back
+        await s.tap("delete-column")
+        assert store.find_column(site.id, "B/5-G") is None
+        assert store.has_row("columns", copy.id)
+        assert s.text("save-note").startswith("Deleted column B/5-G")
+        await s.tap("save-undo")
+        assert store.find_column(site.id, "B/5-G") is not None
+        assert new is None
     _run(walk())

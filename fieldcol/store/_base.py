@@ -123,6 +123,10 @@ class StoreBase:
                 # leftovers of a photo intake or a restore that a killed process never finished
                 clean_temporary(self.photos_dir)
                 clean_staging(self.path.parent)
+            row = self.db.conn.execute(
+                "SELECT value FROM meta WHERE key = 'person.name'").fetchone()
+            #: the person new rows are stamped with (``created_by``); set by ``set_who``
+            self.person: str | None = row[0] if row else None
         except BaseException:
             conn.close()
             raise
@@ -358,6 +362,8 @@ class StoreBase:
         full = self._book()
         if row_id is not None:
             full["id"] = row_id
+        if self.person is not None and "created_by" not in row:
+            full["created_by"] = self.person
         full.update(row)
         cols = ", ".join(full)
         marks = ", ".join("?" for _ in full)
@@ -432,6 +438,22 @@ class StoreBase:
         with self._tx():
             self.db.execute(f"UPDATE {table} SET deleted_at = ?, updated_at = ?, device_id = ? "
                             "WHERE id = ?", [now, now, self.device_id, row_id])
+
+    def undelete(self, table: str, row_id: str) -> None:
+        """Bring back a tombstoned row (the undo of ``delete``).
+
+        Example:
+            >>> store.delete("findings", finding.id); store.undelete("findings", finding.id)
+            >>> [f.text for f in store.list_findings(site.id)]
+            ['Base plate corroded']
+        """
+        if table not in DATA_TABLES:
+            raise InputError("table", table, "not a table of the store", ", ".join(DATA_TABLES))
+        self._get(table, row_id, live=False)
+        with self._tx():
+            self._execute_checked(f"UPDATE {table} SET deleted_at = NULL, updated_at = ?, "
+                                  "device_id = ? WHERE id = ?",
+                                  [v.now_utc(), self.device_id, row_id])
 
 
 __all__ = ["StoreBase", "SCHEMA_VERSION", "MIGRATION_NAMES"]

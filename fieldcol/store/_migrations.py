@@ -11,9 +11,16 @@ from sqlite_utils import Database
 from sqlite_utils.migrations import Migrations
 
 from fieldcol.store import _oplog
-from fieldcol.store._schema import V1_SQL, V2_SQL, V5_SQL
+from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL
 
 migrations = Migrations("fieldcol")
+
+
+def _each(db: Database, sql: str) -> None:
+    """Run a step's statements one by one: executescript would commit mid-step."""
+    for statement in sql.split(";"):
+        if statement.strip():
+            db.execute(statement)
 
 
 @migrations(name="m001_initial")
@@ -31,16 +38,19 @@ def _m002_indexes(db: Database) -> None:
 
 @migrations(name="m003_sync")
 def _m003_sync(db: Database) -> None:
-    for statement in _oplog.M003_SQL.split(";"):
-        if statement.strip():  # one by one: executescript would commit mid-step
-            db.execute(statement)
+    _each(db, _oplog.M003_SQL)
     row = db.execute("SELECT value FROM meta WHERE key = 'device_id'").fetchone()
     _oplog.install(db.conn, row[0] if row else None)
 
 
+@migrations(name="m004_people")
+def _m004_people(db: Database) -> None:
+    _each(db, V4_SQL)
+
+
 @migrations(name="m005_field_notes")
 def _m005_field_notes(db: Database) -> None:
-    db.executescript(V5_SQL)
+    _each(db, V5_SQL)
 
 
 #: names in order; the schema version is the count applied

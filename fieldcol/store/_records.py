@@ -17,6 +17,7 @@ class _Row:
     updated_at: str = ""
     device_id: str = ""
     deleted_at: str | None = None
+    created_by: str | None = None
 
 
 @dataclass(kw_only=True)
@@ -28,6 +29,9 @@ class Site(_Row):
     address: str | None = None
     owner_ref: str | None = None
     notes: str | None = None
+    basis: str | None = None
+    gamma_m1: float | None = None
+    material: str | None = None
 
 
 @dataclass(kw_only=True)
@@ -37,6 +41,9 @@ class Visit(_Row):
     date: str
     who: str | None = None
     notes: str | None = None
+    weather: str | None = None
+    access: str | None = None
+    ended_at: str | None = None
 
 
 @dataclass(kw_only=True)

@@ -158,6 +158,19 @@ CREATE INDEX restraint_changes_column ON restraint_changes(column_id, date);
 CREATE INDEX retrofits_column ON retrofits(column_id);
 """
 
+#: version 4 (m004_people): who made each row (``created_by``, the person set on the device),
+#: a site's design basis (LRFD / ASD), EN gamma_M1 and default material for new columns, and
+#: a visit's weather and access notes and when it ended
+BASES = ("lrfd", "asd")
+V4_SQL = "".join(f"ALTER TABLE {t} ADD COLUMN created_by TEXT;\n" for t in DATA_TABLES) + f"""
+ALTER TABLE sites ADD COLUMN basis TEXT CHECK (basis IS NULL OR basis IN {_in(BASES)});
+ALTER TABLE sites ADD COLUMN gamma_m1 REAL CHECK (gamma_m1 IS NULL OR gamma_m1 BETWEEN 1.0 AND 1.5);
+ALTER TABLE sites ADD COLUMN material TEXT;
+ALTER TABLE visits ADD COLUMN weather TEXT;
+ALTER TABLE visits ADD COLUMN access TEXT;
+ALTER TABLE visits ADD COLUMN ended_at TEXT;
+"""
+
 #: version 5 (m005_field_notes): where on the column a finding is (face, height as typed), the
 #: markup drawn over a photo (JSON shapes; the file stays untouched) and a retrofit option kept
 #: as its definition, to be applied to the column as it stands (NULL: an older snapshot row)

@@ -8,9 +8,24 @@ from fieldcol.errors import InputError
 from fieldcol.store import _validate as v
 from fieldcol.store._base import StoreBase
 from fieldcol.store._records import Level, Site, Visit, from_row
-from fieldcol.store._schema import CODES, UNIT_SYSTEMS
+from fieldcol.store._schema import BASES, CODES, UNIT_SYSTEMS
 
-_SITE_FIELDS = ("name", "address", "owner_ref", "code", "unit_system", "notes")
+_SITE_FIELDS = ("name", "address", "owner_ref", "code", "unit_system", "notes", "basis",
+                "gamma_m1", "material")
+
+
+def _gamma(val: Any) -> float | None:
+    """gamma_M1 as typed (text or number), 1.0 to 1.5, or None when blank."""
+    if val is None or (isinstance(val, str) and not val.strip()):
+        return None
+    try:
+        g = float(val)
+    except (TypeError, ValueError):
+        raise InputError("gamma_m1", str(val), "not a number", "e.g. 1.0 or 1.1") from None
+    if not 1.0 <= g <= 1.5:
+        raise InputError("gamma_m1", str(val), "must be from 1.0 to 1.5",
+                         "1.0 is the EN 1993-1-1 recommended value")
+    return g
 
 
 class SitesMixin(StoreBase):
@@ -32,6 +47,10 @@ class SitesMixin(StoreBase):
                 out[k] = v.choice(val, "code", CODES)
             elif k == "unit_system":
                 out[k] = v.choice(val, "unit_system", UNIT_SYSTEMS)
+            elif k == "basis":
+                out[k] = v.choice(val, "basis", BASES, required=False)
+            elif k == "gamma_m1":
+                out[k] = _gamma(val)
             else:
                 out[k] = v.text(val, k, required=False)
         return out

@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 from fieldcol.store._notes import NotesMixin
+from fieldcol.store._people import PeopleMixin
 from fieldcol.store._sync import SyncMixin
 
 
-class Store(NotesMixin, SyncMixin):
+class Store(NotesMixin, PeopleMixin, SyncMixin):
     """The site records on this device, in one SQLite file plus a photo folder beside it.
 
     Every change is committed in its own transaction as it is made (autosave); a failed change

@@ -1,6 +1,8 @@
 """The field app: routes, screens and the column screen's tabs over one open store.
 
-Routes: ``/`` (sites), ``/sites/<id>`` (a site's columns), ``/columns/<id>`` (one column).
+Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
+theme), ``/sites/new``, ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``,
+``/sites/<id>/new-column``, ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
 
 The column screen is a row of tabs (``TABS``, in order; identifiers ``tab-<name>``; the row
@@ -38,7 +40,9 @@ from typing import TYPE_CHECKING, Any, Callable
 import flet as ft
 
 from fieldcol.errors import InputError
+from fieldcol.ui import forms as fm
 from fieldcol.ui import model as m
+from fieldcol.ui import sites as st
 from fieldcol.ui import notes as n
 from fieldcol.ui import notes_views as nv
 from fieldcol.ui import views as v
@@ -85,6 +89,9 @@ class FieldApp:
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
         self.saver = Saver(self)
+        self.theme = "light"
+        self.forms: dict[str, dict[str, ft.TextField]] = {}  # per route: what is typed stays
+        self.choices: dict[str, dict[str, str]] = {}        # per route: choices made
 
     async def start(self) -> None:
         """Set up the page and show the route it opened on.
@@ -93,7 +100,11 @@ class FieldApp:
         """
         p = self.page
         p.title = "fieldcol"
-        p.theme_mode = ft.ThemeMode.LIGHT
+        who, self.theme = await asyncio.to_thread(
+            lambda: (self.store.who(), self.store.setting("theme")))
+        self.person = who.name if who else None
+        p.theme_mode = ft.ThemeMode.DARK if self.theme == "dark" else ft.ThemeMode.LIGHT
+        p.dark_theme = ft.Theme(color_scheme_seed=v.ACCENT)
         p.theme = ft.Theme(color_scheme_seed=v.ACCENT)
         p.bgcolor = v.BG
         p.padding = 0
@@ -127,7 +138,15 @@ class FieldApp:
         """
         parts = [x for x in route.split("?")[0].split("/") if x]
         try:
-            if len(parts) == 2 and parts[0] == "sites":
+            if parts == ["settings"]:
+                await self._show_settings()
+            elif parts == ["sites", "new"]:
+                await self._show_site_form(None)
+            elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "edit":
+                await self._show_site_form(parts[1])
+            elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "new-column":
+                await self._show_column_form(parts[1])
+            elif len(parts) == 2 and parts[0] == "sites":
                 await self._show_site(parts[1])
             elif len(parts) == 2 and parts[0] == "columns":
                 await self._show_column(parts[1])
@@ -140,7 +159,8 @@ class FieldApp:
                                                     height=v.TAP)], None)
 
     def _render(self, route: str, title: str, body: list[ft.Control] | ft.Control,
-                back: str | None, *, scroll: bool = True, title_id: str | None = None) -> None:
+                back: str | None, *, scroll: bool = True, title_id: str | None = None,
+                actions: list[ft.Control] | None = None) -> None:
         leading = None
         if back is not None:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
@@ -150,7 +170,7 @@ class FieldApp:
                                    weight=ft.FontWeight.BOLD)
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
-        bar = ft.AppBar(leading=leading, title=head,
+        bar = ft.AppBar(leading=leading, title=head, actions=actions or [],
                         bgcolor=v.ACCENT, automatically_imply_leading=False)
         if isinstance(body, list):
             body = ft.ListView(body, spacing=12, padding=12, expand=True) if scroll \
@@ -164,11 +184,106 @@ class FieldApp:
         self.page.update()
 
     # -- screens ------------------------------------------------------------------------
+    def _action(self, icon: ft.IconData, tip: str, identifier: str,
+                on_click: Callable[..., Any]) -> ft.Control:
+        return ft.Semantics(identifier=identifier, button=True, label=tip, content=ft.IconButton(
+            icon, on_click=on_click, tooltip=tip, icon_color=ft.Colors.WHITE, icon_size=28))
+
     async def _show_sites(self) -> None:
         self.detail = None
         cards = await asyncio.to_thread(m.site_cards, self.store)
-        self._render("/", "fieldcol · Sites",
-                     v.sites_body(cards, lambda sid: self._go(f"/sites/{sid}")), None)
+        body = v.sites_body(cards, lambda sid: self._go(f"/sites/{sid}"))
+        top: list[ft.Control] = []
+        if self.person is None:  # first start: ask who is here before anything is recorded
+            top = [v.text_line("Before you record: who is using this device?", size=18,
+                               bold=True),
+                   *fm.who_form(self.forms.setdefault("/who", {}), None, self._save_who)]
+        new = ft.Semantics(identifier="new-site", content=ft.FilledButton(
+            "New site", icon=ft.Icons.ADD, on_click=self._go("/sites/new"), height=v.TAP))
+        self._render("/", "fieldcol · Sites", top + [new] + body, None,
+                     actions=[self._action(ft.Icons.SETTINGS, "Settings", "settings",
+                                           self._go("/settings"))])
+
+    async def _save_who(self, _e: Any = None) -> None:
+        route = "/who" if self.person is None and (self.page.route or "/") == "/" else "/settings"
+        f = self.forms.get(route, {})
+        do, undo = st.who_change(*(f[k].value or "" for k in ("name", "initials", "device")))
+        who = await self.saver.save("who is recording", do, undo, f,
+                                    done=lambda p: f"Saved: {p.name} ({p.initials}) on "
+                                                   f"{p.device}")
+        if who is not None:
+            self.person = who.name
+            self.forms.pop("/who", None)
+            await self.show(self.page.route or "/")
+
+    async def _show_settings(self) -> None:
+        self.detail = None
+        who = await asyncio.to_thread(self.store.who)
+        fields = self.forms.setdefault("/settings", {})
+
+        def choose(theme: str) -> Callable[..., Any]:
+            async def pick(_e: Any = None) -> None:
+                old = self.theme
+                done = await self.saver.save(
+                    f"theme {theme}", lambda s: s.set_setting("theme", theme),
+                    lambda s: s.set_setting("theme", old))
+                if done is not None:
+                    self.theme = theme
+                    self.page.theme_mode = ft.ThemeMode.DARK if theme == "dark" \
+                        else ft.ThemeMode.LIGHT
+                    await self.show("/settings")
+            return pick
+        self._render("/settings", "Settings",
+                     fm.who_form(fields, who, self._save_who, self.theme, choose), "/")
+
+    async def _show_site_form(self, site_id: str | None) -> None:
+        self.detail = None
+        route = "/sites/new" if site_id is None else f"/sites/{site_id}/edit"
+        if route not in self.choices:
+            self.choices[route] = await asyncio.to_thread(st.site_values, self.store, site_id)
+        values = self.choices[route]
+        fields = self.forms.setdefault(route, {})
+
+        def choose(key: str, value: str) -> Callable[..., Any]:
+            async def pick(_e: Any = None) -> None:
+                values[key] = value
+                await self.show(route)
+            return pick
+
+        async def save(_e: Any = None) -> None:
+            typed = {**values, **{k: tf.value or "" for k, tf in fields.items()}}
+            do, undo = st.site_change(site_id, typed)
+            name = typed.get("name", "").strip()
+            sid = await self.saver.save(f"site {name}".strip(), do, undo, fields)
+            if sid is not None:
+                self.forms.pop(route, None)
+                self.choices.pop(route, None)
+                await self.page.push_route(f"/sites/{sid}")
+        back = "/" if site_id is None else f"/sites/{site_id}"
+        self._render(route, "New site" if site_id is None else "Edit site",
+                     fm.site_form(fields, values, choose, save, site_id is None), back)
+
+    async def _show_column_form(self, site_id: str) -> None:
+        self.detail = None
+        route = f"/sites/{site_id}/new-column"
+        fields = self.forms.setdefault(route, {})
+        tag = ""
+        if not fields:
+            def propose(store: "Store") -> str:
+                rows = store.list_columns(site_id, limit=1000)
+                return st.next_tag(store, site_id, rows[-1].tag) if rows else "C1"
+            tag = await asyncio.to_thread(propose, self.store)
+
+        async def save(_e: Any = None) -> None:
+            typed = {k: tf.value or "" for k, tf in fields.items()}
+            do, undo = st.add_column_change(site_id, typed)
+            cid = await self.saver.save(f"column {typed.get('tag', '').strip()}".strip(), do,
+                                        undo, fields)
+            if cid is not None:
+                self.forms.pop(route, None)
+                self.columns = None
+                await self.page.push_route(f"/columns/{cid}")
+        self._render(route, "New column", fm.column_form(fields, tag, save), f"/sites/{site_id}")
 
     async def _load_columns(self, site_id: str) -> m.ColumnPage:
         if self.columns is None or self.columns.site.id != site_id:
@@ -187,8 +302,17 @@ class FieldApp:
 
     def _list(self, selected: str | None = None) -> ft.Control:
         assert self.columns is not None
+        sid = self.columns.site.id
+        tools = ft.Row([
+            ft.Semantics(identifier="new-column", content=ft.FilledButton(
+                "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{sid}/new-column"),
+                height=v.TAP)),
+            ft.Semantics(identifier="edit-site", content=ft.OutlinedButton(
+                "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{sid}/edit"),
+                height=v.TAP))], wrap=True, spacing=8)
         return v.columns_list(self.columns, lambda cid: self._go(f"/columns/{cid}"),
-                              self._more if self.columns.has_more else None, selected)
+                              self._more if self.columns.has_more else None, selected,
+                              tools=tools)
 
     async def _show_site(self, site_id: str) -> None:
         self.detail = None
@@ -223,16 +347,47 @@ class FieldApp:
         d = self.detail
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.pane.controls = self._pane_controls()
+        actions = [self._action(ft.Icons.CONTENT_COPY, "Duplicate: the next column like this one",
+                                "duplicate-column", self._duplicate),
+                   self._action(ft.Icons.DELETE_OUTLINE, "Delete this column (Undo follows)",
+                                "delete-column", self._delete)]
         if not self.wide:
             self._render(f"/columns/{column_id}", f"Column {d.tag}", self.pane,
-                         f"/sites/{d.site_id}", title_id="column-tag")
+                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         else:
             await self._load_columns(d.site_id)
             self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
                          self._two_panes(self._list(selected=d.id), self.pane),
-                         f"/sites/{d.site_id}", title_id="column-tag")
+                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         if not same:
             await self._load_tab()
+
+    async def _duplicate(self, _e: Any = None) -> None:
+        d = self.detail
+        if d is None:
+            return
+        do, undo = st.duplicate_change(d.id)
+        cid = await self.saver.save(f"copy of {d.tag}", do, undo,
+                                    done=lambda c: f"Added the next column like {d.tag} "
+                                                   "(section, length, restraints, material; "
+                                                   "no demand or readings)")
+        if cid is not None:
+            self.columns = None
+            await self.page.push_route(f"/columns/{cid}")
+
+    async def _delete(self, _e: Any = None) -> None:
+        d = self.detail
+        if d is None:
+            return
+        do, undo = st.delete_change(d.id)
+        self.detail = None  # the screen goes with the column
+        sid = await self.saver.save(f"deletion of column {d.tag}", do, undo,
+                                    done=f"Deleted column {d.tag}")
+        if sid is None:
+            self.detail = d
+            return
+        self.columns = None
+        await self.page.push_route(f"/sites/{sid}")
 
     # -- the column screen's tabs ---------------------------------------------------------
     def _pane_controls(self) -> list[ft.Control]:
@@ -274,7 +429,9 @@ class FieldApp:
         """
         d = self.detail
         if d is None:
-            await self.show(self.page.route or "/")
+            route = self.page.route or "/"
+            if not route.startswith("/columns/"):  # a column going away moves on by itself
+                await self.show(route)
             return
         try:
             self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)

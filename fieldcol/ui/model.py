@@ -561,7 +561,8 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
     clash lies deeper, e.g. a brace beyond a new length, the reason names the entry), then
     saves it and the new check and returns the refreshed ``ColumnDetail``. A length is kept as
     a new measurement (who took it, on which visit); the others change the record.
-    ``undo(store)`` puts back what ``do`` changed (the measurement tombstoned, or the record
+    A column still being entered (not checkable before the entry either) takes the entry
+    without a check. ``undo(store)`` puts back what ``do`` changed (the measurement tombstoned, or the record
     as it was) and checks the column again.
 
     Args:
@@ -583,15 +584,20 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
         typed = text.strip() if isinstance(text, str) else text
         if not isinstance(typed, str):
             raise InputError(name, typed, "expected typed text", None)
+        stored, current = _candidate(store, column_id, name, typed)
         try:
-            stored, current = _candidate(store, column_id, name, typed)
             result = assess(current)
         except InputError as e:
             if e.field.startswith(name):
                 raise
-            # another value clashes with the entry: say which
-            raise InputError(e.field, e.text, f"{e.reason} (with {EDIT_FIELDS[name][0].lower()}"
-                             f" {typed})", e.hint) from None
+            try:
+                assess(store.current_record(column_id))
+            except InputError:
+                result = None  # not checkable before either (a column still being entered)
+            else:
+                # the entry makes a checkable column uncheckable: say which value clashes
+                raise InputError(e.field, e.text, f"{e.reason} (with "
+                                 f"{EDIT_FIELDS[name][0].lower()} {typed})", e.hint) from None
         if name == "length":
             kept["measurement"] = store.add_measurement(
                 column_id, "length", typed, kind="length", taken_by=person, visit_id=visit_id,
@@ -599,7 +605,8 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
         else:
             kept["record"] = copy.deepcopy(store.get_column(column_id).record)
             store.update_column(column_id, record=stored)
-        store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
+        if result is not None:
+            store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
         return column_detail(store, column_id)
 
     def undo(store: "Store") -> None:

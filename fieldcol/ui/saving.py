@@ -176,13 +176,13 @@ class Saver:
 
     def _button(self, word: str, icon: ft.IconData, identifier: str,
                 on_click: Callable[..., Any]) -> ft.Control:
-        return ft.Semantics(identifier=identifier, button=True, content=ft.FilledButton(
+        return ft.Semantics(identifier=identifier, content=ft.FilledButton(
             word, icon=icon, on_click=on_click, height=v.TAP))
 
     # -- saving ---------------------------------------------------------------------------
     async def save(self, label: str, do: Callable[["Store"], T],
                    undo: Callable[["Store"], Any] | None = None,
-                   field: ft.TextField | None = None, *,
+                   field: ft.TextField | dict[str, ft.TextField] | None = None, *,
                    done: str | Callable[[T], str] | None = None) -> T | None:
         """Run ``do(store)`` in a worker thread under the app's lock and say how it went.
 
@@ -190,7 +190,8 @@ class Saver:
             label: what is saved, in words, e.g. ``"length 12 ft"`` ("Saved length 12 ft").
             do: the change, ``do(store) -> T``; raises ``InputError`` for a bad entry.
             undo: puts the change back, ``undo(store)``; offered as Undo when given.
-            field: the entry the change came from: a refusal shows under it.
+            field: the entry the change came from: a refusal shows under it; or a form's
+                entries by field name: the refusal shows under the one it names.
             done: the message on success instead of "Saved <label>" (text or f(result)).
 
         Returns:
@@ -210,12 +211,15 @@ class Saver:
             return None
         except InputError as e:
             words = plain_error(e)
-            if field is not None:
-                self._show_at(field, words)
+            at = field.get(e.field) or field.get(e.field.split(".")[0]) \
+                if isinstance(field, dict) else field
+            if at is not None:
+                self._show_at(at, words)
             self.say(f"{label[:1].upper() + label[1:]} not saved: {words}", kind="error")
             return None
-        if field is not None and field.error:
-            field.error = None
+        for tf in (field.values() if isinstance(field, dict) else [field]):
+            if tf is not None and tf.error:
+                tf.error = None
         self.last = _Change(label, undo) if undo is not None else None
         text = done(result) if callable(done) else (done or f"Saved {label}")
         button = self._button("Undo", ft.Icons.UNDO, "save-undo", self.undo_last) \

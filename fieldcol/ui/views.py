@@ -223,7 +223,8 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
 
 
 def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
-                 more: Handler | None, selected: str | None = None) -> ft.Control:
+                 more: Handler | None, selected: str | None = None,
+                 tools: ft.Control | None = None) -> ft.Control:
     """A lazy list of a site's columns, with a "Show more" button when a page follows.
 
     Args:
@@ -231,6 +232,7 @@ def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
         open_column: gives the click handler for a column id.
         more: loads the next page (``None`` when there is none).
         selected: the id drawn highlighted.
+        tools: buttons shown under the heading (add a column, edit the site).
 
     Returns:
         An expanding ``ListView``.
@@ -242,7 +244,8 @@ def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
         f"first {len(page.rows)} columns shown"
     head: list[ft.Control] = [
         text_line(c.name, size=20, bold=True),
-        text_line(f"{shown} · {c.over} over capacity", size=16, color=MUTED), caution_box()]
+        text_line(f"{shown} · {c.over} over capacity", size=16, color=MUTED),
+        *([tools] if tools is not None else []), caution_box()]
     rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
     tail: list[ft.Control] = []
     if more is not None:
