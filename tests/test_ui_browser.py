@@ -309,6 +309,16 @@ def _words(page, identifier: str) -> str:
         timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
 
 
+def _to_top(page, x: float = 195) -> None:
+    """Scroll the list under ``x`` back to its top (a list builds only what is near the
+    screen, so a control far above is not there to scroll to)."""
+    page.mouse.move(x, page.viewport_size["height"] * 0.6)
+    for _ in range(8):
+        page.mouse.wheel(0, -1500)
+        time.sleep(0.15)
+    time.sleep(0.5)
+
+
 def _scroll_to(page, identifier: str, x: float = 195, *, up: bool = False):
     """Scroll the list under ``x`` with the mouse wheel until the control is wholly in view
     (``up``: a control not built yet lies above the screen)."""
@@ -376,13 +386,14 @@ def test_phone_findings_photo_history_and_a_new_finding(server, browser):
 
     # a bad entry (nothing typed): the error is at the field and nothing is listed
     _wait(page, "new-finding").click()
-    _wait(page, "add-finding").click()
+    _wait(page, "save-finding").click()
+    # each error in plain words at its field, never the internal form ("text: cannot use")
     _poll(lambda: _entry(page, "finding-text").get_attribute("aria-description") or "",
-          lambda d: d.startswith("text: "), "the error at the finding's text")
+          lambda d: d.startswith("Say what was found"), "the error at the finding's text")
     _poll(lambda: _entry(page, "finding-category").get_attribute("aria-description") or "",
-          lambda d: d.startswith("category: "), "the error at the category")
-    assert _wait(page, "severity-error").inner_text().startswith("severity: ")
-    assert "not saved" in _wait(page, "finding-note").inner_text()
+          lambda d: d.startswith("Give a category"), "the error at the category")
+    assert _wait(page, "severity-error").inner_text().startswith("Pick a severity")
+    assert "Not saved" in _wait(page, "finding-note").inner_text()
     assert page.locator(_sel("finding-1")).count() == 0
     _shot(page, "phone-finding-error.png")
 
@@ -392,7 +403,7 @@ def test_phone_findings_photo_history_and_a_new_finding(server, browser):
     _type_into(page, "finding-category", "coating", enter=False)
     _wait(page, "severity-low").click()
     _poll(lambda: _words(page, "severity-low"), lambda t: "(chosen)" in t, "severity chosen")
-    _wait(page, "add-finding").click()
+    _wait(page, "save-finding").click()
     _poll(lambda: _wait(page, "finding-note").inner_text(), lambda t: "Saved finding" in t,
           "the save note")
     _poll(lambda: _words(page, "finding-0"),
@@ -440,12 +451,13 @@ def test_phone_corrected_reading_and_retrofit(server, browser):
     _wait(page, "column-A/1-G")
     _open_column(page, _scroll_to(page, "column-C/3-G"))
     _tab(page, "retrofit")
-    _wait(page, "retrofit-0-line")
+    _scroll_to(page, "retrofit-0-line")  # kept options come after the builder and the sweep
     _poll(lambda: _words(page, "retrofit-0-line"),
           lambda t: re.search(r"Utilization 1\.11 OVER -> \d\.\d\d OK", t) is not None,
           "the before -> after line")
-    assert "licensed engineer" in _wait(page, "caution").inner_text()
     _shot(page, "phone-retrofit.png")
+    _to_top(page)
+    assert "licensed engineer" in _wait(page, "caution").inner_text()
     page.context.close()
 
 
@@ -455,14 +467,15 @@ def test_tablet_retrofit_before_after_and_findings(server, browser):
     page.locator(_sel("column-C/3-G")).first.click()
     _wait(page, "status")
     _tab(page, "retrofit")
-    _wait(page, "retrofit-0-line")
+    _scroll_to(page, "retrofit-0-line", 600)
     text = _poll(lambda: _words(page, "retrofit-0-line"), lambda t: "->" in t,
                  "the before -> after line")
     m = re.search(r"Design strength (\d+(\.\d+)?) kip -> (\d+(\.\d+)?) kip", text)
     assert m and float(m.group(3)) > float(m.group(1)), text
     assert re.search(r"Utilization 1\.11 OVER -> \d\.\d\d OK for demand 650 kip", text), text
-    assert CAUTION in _wait(page, "caution").inner_text()
     _shot(page, "tablet-retrofit.png")
+    _to_top(page, 600)  # the caution and the row of tabs are at the top of the pane
+    assert CAUTION in _wait(page, "caution").inner_text()
     _tab(page, "findings")
     _wait(page, "finding-0")
     _poll(lambda: _words(page, "finding-0"), lambda t: "Strap brace" in t, "the finding")

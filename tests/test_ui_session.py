@@ -351,6 +351,9 @@ def test_brace_at_mid_height_in_two_taps_then_undo(demo):
         assert tf.value == "40 ft" and tf.error and "outside the column length" in tf.error
         assert "restraints." not in tf.error and "[" not in tf.error
         assert len(store.restraint_changes(col.id)) == n0
+    _run(walk())
+
+
 # -- who is here, sites, columns --------------------------------------------------------------
 def test_first_start_asks_who_then_stamps_rows(tmp_path):
     store = open_store(tmp_path / "new.db")
@@ -409,7 +412,6 @@ def test_duplicate_in_one_tap_then_delete_and_undo(demo):
         src = store.find_column(site.id, "B/3-G")
         await s.go(f"/columns/{src.id}")
         await s.tap("duplicate-column")
-        new = store.find_column(site.id, "B/4-G") and None
         tags = {r.tag for r in store.list_columns(site.id, limit=1000)}
         assert "B/5-G" in tags  # B/4-G is taken in the demo: the first free number
         copy = store.find_column(site.id, "B/5-G")
@@ -425,5 +427,84 @@ def test_duplicate_in_one_tap_then_delete_and_undo(demo):
         assert s.text("save-note").startswith("Deleted column B/5-G")
         await s.tap("save-undo")
         assert store.find_column(site.id, "B/5-G") is not None
-        assert new is None
+    _run(walk())
+
+
+# -- findings and retrofit tabs --------------------------------------------------------------
+def _no_hidden_child_in_semantics(s: Screen) -> None:
+    # a Semantics whose content is hidden draws a red error box in the page: hide the
+    # Semantics itself (seen on Flet 1.0.5 web, /work notes "Seen on a running app")
+    bad = [c.identifier for c in s.all() if isinstance(c, ft.Semantics)
+           and c.visible is not False and c.content is not None and c.content.visible is False]
+    assert not bad, bad
+
+
+def test_findings_tab_face_height_in_plain_words_and_undo(demo):
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        col = store.find_column(site.id, "A/1-G")
+        await s.go(f"/columns/{col.id}")
+        await s.tap("tab-findings")
+        _no_hidden_child_in_semantics(s)
+        assert s.has("photo-defect") and s.has("column-photo-add")
+        await s.tap("new-finding")
+        await s.tap("save-finding")
+        text = s.inner("finding-text", ft.TextField)
+        assert text.error and text.error.startswith("Say what was found")
+        assert "cannot use" not in (text.error or "")
+        await s.type("finding-text", "Web pitted 3 mm deep", submit=False)
+        assert s.inner("finding-text", ft.TextField).error is None  # gone once fixed
+        await s.type("finding-category", "corrosion", submit=False)
+        await s.tap("severity-medium")
+        await s.tap("face-web")
+        await s.type("finding-height", "99 ft", submit=False)
+        await s.tap("save-finding")
+        assert "above the top of the column" in (s.inner("finding-height", ft.TextField).error
+                                                 or "")
+        assert s.inner("finding-text", ft.TextField).value == "Web pitted 3 mm deep"  # kept
+        assert store.list_findings(site.id, column_id=col.id) == []
+        await s.type("finding-height", "4 ft", submit=False)
+        await s.tap("save-finding")
+        (f,) = store.list_findings(site.id, column_id=col.id)
+        assert (f.text, f.face, f.height) == ("Web pitted 3 mm deep", "web", "4 ft")
+        assert "web at 4'-0\" from the bottom" in s.find("finding-0").label
+        _no_hidden_child_in_semantics(s)
+        await s.tap("save-undo")
+        assert store.list_findings(site.id, column_id=col.id) == []
+    _run(walk())
+
+
+def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        col = store.find_column(site.id, "A/1-G")
+        await s.go(f"/columns/{col.id}")
+        await s.tap("tab-retrofit")
+        _no_hidden_child_in_semantics(s)
+        assert "licensed engineer" in s.text("caution")
+        await s.tap("option-kind-combined")
+        await s.tap("part-kind-plates")
+        await s.type("option-thickness", "3/8 in", submit=False)
+        await s.tap("option-add-part")
+        assert s.has("option-part-0")
+        await s.tap("part-kind-brace")
+        await s.tap("option-axis-weak")
+        await s.type("option-at", "6 ft", submit=False)
+        await s.tap("option-add-part")
+        await s.tap("option-compare")
+        assert s.has("retrofit-compare")
+        words = s.text("retrofit-compare")
+        assert "As it stands" in words and "With the option" in words and "kip" in words
+        await s.tap("option-keep")
+        (r,) = store.retrofits(col.id)
+        assert r.option["kind"] == "combined" and len(r.option["options"]) == 2
+        assert s.has("retrofit-0-line") and s.has("retrofit-compare")
+        await s.tap("retrofit-0-drop")
+        assert store.retrofits(col.id) == []
+        await s.tap("save-undo")
+        assert [x.id for x in store.retrofits(col.id)] == [r.id]
     _run(walk())

@@ -453,7 +453,7 @@ class FieldApp:
 
     # -- shared by tabs ---------------------------------------------------------------------
     def open_photo(self, p: n.PhotoThumb) -> Callable[..., Any]:
-        """A click handler that shows a photo large in a dialog.
+        """A click handler that shows a photo large: zoom, and its markup to draw or change.
 
         Args:
             p: the photo's ``PhotoThumb``.
@@ -461,22 +461,11 @@ class FieldApp:
         Returns:
             An async handler.
 
-        Example: ``nv.thumbnails(photos, app.open_photo, "f0")``.
+        Example: ``thumbnails(photos, app.open_photo, "r0")``.
         """
-        async def show(_e: Any = None) -> None:
-            try:
-                data = await asyncio.to_thread(n.photo_bytes, self.store, p.id)
-            except InputError as e:  # said in the dialog: the tab shown may have no note line
-                self.page.show_dialog(ft.AlertDialog(
-                    title=v.text_line("Photo not shown", size=17, bold=True),
-                    content=v.text_line(str(e)), actions=[ft.FilledButton(
-                        "Close", on_click=self._close_dialog, height=v.TAP)]))
-                return
-            self.page.show_dialog(nv.photo_dialog(p, data, self._close_dialog))
-        return show
+        from fieldcol.ui.photo_views import photo_opener
 
-    def _close_dialog(self, _e: Any = None) -> None:
-        self.page.pop_dialog()
+        return photo_opener(self)(p)
 
 
 _STORE: "Store | None" = None  # one store per process, shared by its sessions
@@ -537,7 +526,10 @@ def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550,
     if key is None and not is_loopback(host):
         raise InputError("host", host, "beyond this machine the app needs an access key",
                          "pass key=new_key()")
-    web = flet_fastapi.app(make_main(store), no_cdn=True)
+    from fieldcol.ui.intake import configure_uploads
+
+    # photos picked in a browser arrive as uploads (signed URLs) into a private folder
+    web = flet_fastapi.app(make_main(store), no_cdn=True, upload_dir=configure_uploads())
     config = uvicorn.Config(Guard(web, key, port), host=host, port=port,
                             ws="websockets-sansio", log_level="warning",
                             access_log=False,  # an access log would record keys in addresses

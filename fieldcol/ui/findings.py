@@ -10,7 +10,7 @@ Public API::
     check_draft(store, column_id, draft) -> dict[str, str]     # field -> plain words
     save_finding(store, column_id, draft, finding_id=None) -> Saved
     undo_saved(store, saved) -> None
-    set_status(store, finding_id, status) -> str               # the status before
+    set_status(store, column_id, finding_id, status) -> str    # the status before
     SEVERITIES, SEVERITY_WORDS, STATUS_WORDS, FACES, FACE_WORDS
 """
 
@@ -236,12 +236,15 @@ def undo_saved(store: "Store", saved: Saved) -> None:
         store.update_finding(saved.finding_id, **saved.before)
 
 
-def set_status(store: "Store", finding_id: str, status: str) -> str:
-    """Close or reopen a finding; gives the status it had (for undo).
+def set_status(store: "Store", column_id: str, finding_id: str, status: str) -> str:
+    """Close or reopen a finding of this column; gives the status it had (for undo).
 
-    Example: ``set_status(store, fid, "closed")`` gives ``'open'``.
+    Example: ``set_status(store, cid, fid, "closed")`` gives ``'open'``.
     """
-    before = store.get_finding(finding_id).status
+    f = store.get_finding(finding_id)
+    if f.column_id != column_id:
+        raise InputError("finding", finding_id, "not a finding of this column", None)
+    before = f.status
     store.update_finding(finding_id, status=status)
     return before
 
