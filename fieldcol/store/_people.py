@@ -16,7 +16,10 @@ from fieldcol.store._base import StoreBase
 from fieldcol.store._records import Visit, from_row
 
 _INITIALS = re.compile(r"[A-Za-z][A-Za-z.\- ]{0,7}")
-SETTINGS = {"theme": ("light", "dark")}
+#: this device's own settings (kept in ``meta``, never synced): the values a setting takes
+#: (its first is the default), or ``None`` for free text with no default
+SETTINGS: dict[str, tuple[str, ...] | None] = {"theme": ("light", "dark"), "hub_url": None,
+                                               "hub_token": None}
 
 
 @dataclass(frozen=True)
@@ -86,29 +89,40 @@ class PeopleMixin(StoreBase):
         self.person = person.name
         return person
 
-    def setting(self, key: str) -> str:
-        """A setting of this device (``theme``: ``light`` or ``dark``), its first value unless set.
+    def setting(self, key: str) -> str | None:
+        """A setting of this device: ``theme`` (``light`` unless set), ``hub_url`` and
+        ``hub_token`` (``None`` unless set). Settings stay on the device; they never sync.
 
         Example:
             >>> store.setting("theme")
             'light'
+            >>> store.setting("hub_url") is None
+            True
         """
-        if key not in SETTINGS:
-            raise InputError("setting", key, "not a setting", ", ".join(SETTINGS))
-        return self._meta(f"ui.{key}") or SETTINGS[key][0]
+        choices = self._setting_choices(key)
+        value = self._meta(f"setting.{key}")
+        return value if value is not None or choices is None else choices[0]
 
-    def set_setting(self, key: str, value: str) -> str:
-        """Change a setting of this device.
+    def set_setting(self, key: str, value: str | None) -> str | None:
+        """Change a setting of this device (``None`` forgets it); returns the value kept.
 
         Example:
             >>> store.set_setting("theme", "dark")
             'dark'
+            >>> store.set_setting("hub_url", "http://127.0.0.1:8765")
+            'http://127.0.0.1:8765'
         """
-        if key not in SETTINGS:
-            raise InputError("setting", key, "not a setting", ", ".join(SETTINGS))
-        value = v.choice(value, key, SETTINGS[key])
-        self._set_meta({f"ui.{key}": value})
+        choices = self._setting_choices(key)
+        if value is not None:
+            value = v.choice(value, key, choices) if choices else v.text(value, key)
+        self._set_meta({f"setting.{key}": value})
         return value
+
+    @staticmethod
+    def _setting_choices(key: str) -> tuple[str, ...] | None:
+        if key not in SETTINGS:
+            raise InputError("setting", key, "not a setting of this device", ", ".join(SETTINGS))
+        return SETTINGS[key]
 
     # -- visits -------------------------------------------------------------------------
     def start_visit(self, site_id: str, date: str, *, people: str | None = None,

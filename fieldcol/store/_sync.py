@@ -12,7 +12,6 @@ from fieldcol.store._base import StoreBase
 from fieldcol.store._oplog import ApplyResult, Conflict, Op
 
 #: settings that belong to this device and never travel
-LOCAL_SETTINGS = ("hub_url", "hub_token")
 
 
 class SyncMixin(StoreBase):
@@ -112,36 +111,6 @@ class SyncMixin(StoreBase):
         with self._tx():
             self.db.execute("INSERT INTO sync_cursors (name, value) VALUES (?, ?) ON CONFLICT(name) "
                             "DO UPDATE SET value = excluded.value", [name, int(value)])
-
-    def setting(self, key: str) -> str | None:
-        """A device-local setting (hub address, token); None when unset.
-
-        Example:
-            >>> store.setting("hub_url") is None
-            True
-        """
-        if key not in LOCAL_SETTINGS:
-            raise InputError("setting", key, "not a setting of this device", ", ".join(LOCAL_SETTINGS))
-        with self._lock:
-            row = self.db.conn.execute("SELECT value FROM meta WHERE key = ?",
-                                       [f"setting.{key}"]).fetchone()
-            return row[0] if row else None
-
-    def set_setting(self, key: str, value: str | None) -> None:
-        """Keep (or with None forget) a device-local setting; it never syncs.
-
-        Example:
-            >>> store.set_setting("hub_url", "http://127.0.0.1:8765"); store.setting("hub_url")
-            'http://127.0.0.1:8765'
-        """
-        if key not in LOCAL_SETTINGS:
-            raise InputError("setting", key, "not a setting of this device", ", ".join(LOCAL_SETTINGS))
-        with self._tx():
-            if value is None:
-                self.db.execute("DELETE FROM meta WHERE key = ?", [f"setting.{key}"])
-            else:
-                self.db.execute("INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT(key) "
-                                "DO UPDATE SET value = excluded.value", [f"setting.{key}", value])
 
     # -- conflicts ------------------------------------------------------------------------------
     def conflicts(self, *, open_only: bool = True) -> list[Conflict]:
