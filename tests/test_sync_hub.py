@@ -140,7 +140,7 @@ def test_push_cut_after_the_hub_committed_then_resumed(tmp_path: Path, hub):
 
 
 def test_pull_cut_midway_then_resumed(tmp_path: Path, hub, monkeypatch):
-    monkeypatch.setattr(client, "PULL_BATCH", 5)
+    monkeypatch.setattr(client, "PULL_BATCH", 1)  # a row per operation: 5 in all
     (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
     s = _site(a)
     for i in range(4):

@@ -36,18 +36,49 @@ def site(s: Store, name: str = "Kestrel Lane Print Works"):
     return s.add_site(name, code="aisc360-22", unit_system="us")
 
 
-def test_every_write_logs_its_fields_in_the_same_transaction(tmp_path: Path):
+def test_every_write_logs_its_row_in_the_same_transaction(tmp_path: Path):
     with Store(tmp_path / "a.db") as a:
         st_ = site(a)
         n = a.count_ops()
-        assert n >= 4  # name, code, unit_system, created_at
+        (made,) = a.ops_after(0, 100)  # one operation for the row, carrying its fields
+        assert made.field == "*" and {"name", "code", "unit_system", "created_at"} <= set(
+            made.fields())
         a.update_site(st_.id, address="1 Kestrel Lane")
         ops = a.ops_after(0, 100)[n:]
-        assert [(o.field, o.value) for o in ops if o.field != "updated_at"] == [
-            ("address", '"1 Kestrel Lane"')]
+        assert len(ops) == 1
+        assert {f: v for f, v in ops[0].fields().items() if f != "updated_at"} == {
+            "address": '"1 Kestrel Lane"'}
         assert ops[0].seen > 0  # the editor had seen the row's first version
         a.delete("sites", st_.id)
-        assert a.ops_after(0, 100)[-1].field == "deleted_at"
+        assert "deleted_at" in a.ops_after(0, 100)[-1].fields()
+
+
+def test_operations_of_one_field_each_still_merge(tmp_path: Path):
+    """Operations of one field each (an older device, a settled conflict) mix with row ones."""
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        send(a, b)
+        (row,) = [o for o in a.ops_after(0, 100) if o.tbl == "sites"]
+        one = Op("f1", "old-device", row.hlc + 5, "sites", s.id, "address", '"by the canal"',
+                 row.hlc)
+        for st_ in (a, b):
+            st_.apply_ops([one], source="bundle")
+        assert a.get_site(s.id).address == b.get_site(s.id).address == "by the canal"
+        assert dump(a) == dump(b)
+
+
+def test_a_bulk_write_of_many_rows_merges_in_bulk_and_ends_equal(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        with a.transaction():
+            cols = [a.add_column(s.id, {"tag": f"C{i}", "section": "W10X49", "length": "14 ft"})
+                    for i in range(30)]
+        a.update_column(cols[3].id, location="by the press")
+        ops = a.ops_after(0, 10**6)
+        assert len(ops) < 40  # a row each (plus the site and the edit), not a field each
+        b.apply_ops(list(reversed(ops)), source="bundle")  # children before parents, too
+        assert dump(a) == dump(b)
+        assert b.get_column(cols[3].id).location == "by the press"
 
 
 def test_a_failed_write_logs_nothing(tmp_path: Path):
@@ -153,6 +184,12 @@ def test_unknown_fields_are_refused_whole(tmp_path: Path):
         with pytest.raises(InputError) as e:
             a.apply_ops([bad], source="bundle")
         assert e.value.field == "ops[0].field" and a.count_ops() == n
+        bad_row = Op("y", "d", 1 << 16, "sites", "r", "*", '{"name": "A", "colour": "red"}', 0)
+        with pytest.raises(InputError) as e:
+            a.apply_ops([bad_row], source="bundle")
+        assert e.value.field == "ops[0].value" and a.count_ops() == n
+        with pytest.raises(InputError):
+            Op.from_json({**bad_row.to_json(), "value": '["not", "an", "object"]'})
 
 
 # -- convergence, whatever the order ------------------------------------------------------------

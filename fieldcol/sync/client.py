@@ -21,7 +21,7 @@ from fieldcol.store._migrations import MIGRATION_NAMES
 from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, Op, wall_ms
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
-PUSH_BATCH = 2000
+PUSH_BATCH = 5000
 PULL_BATCH = 5000
 CHUNK = 1 << 20
 TIMEOUT_S = 30.0
