@@ -23,7 +23,8 @@ from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, tak
 
 PUSH_BATCH = 5000
 PULL_BATCH = 5000
-CHUNK = 1 << 20
+#: the hub takes 4 MiB a request: most photos go whole in one
+CHUNK = 4 << 20
 TIMEOUT_S = 30.0
 
 
@@ -221,12 +222,14 @@ def _download(store: Store, hub: _Hub, sha: str) -> bool:
     if not hub.call("GET", f"/v1/photos/{sha}/status").json()["have"]:
         return False
     data = bytearray()
+    digest = hashlib.sha256()  # hashed as it arrives: each piece once
     while True:
         r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)})
         if not r.content:
             break
         data += r.content
-        if hashlib.sha256(data).hexdigest() == sha:
+        digest.update(r.content)
+        if digest.copy().hexdigest() == sha:
             break
     take_photo(store, sha, bytes(data))
     return True
