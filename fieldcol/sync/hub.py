@@ -20,7 +20,8 @@ Errors: ``{"field", "reason", "hint"}`` with 400 (bad JSON), 401, 409 (clock, of
 from __future__ import annotations
 
 import json
-from typing import Any
+import threading
+from typing import Any, Callable
 
 from fastapi import FastAPI, Request
 from fastapi.responses import JSONResponse, Response
@@ -169,8 +170,13 @@ def _check_schema(hub: HubStore, theirs: Any) -> None:
 
 
 def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
-          certfile: str | None = None, keyfile: str | None = None) -> None:
+          certfile: str | None = None, keyfile: str | None = None,
+          office: Callable[[Any], None] | None = None) -> None:
     """Run the hub until stopped (Ctrl-C). Listening beyond loopback needs TLS or ``insecure_ok``.
+
+    ``office``: a callable serving the office view over the hub's records (given the hub's
+    ``Store``; it blocks), run in a thread beside the hub; the caller supplies it, so sync never
+    imports the app.
 
     Example: ``serve("hubdata", "127.0.0.1", 8765)`` (blocks).
     """
@@ -182,10 +188,26 @@ def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
                          "--tls-key, or pass --insecure-ok on a network you trust")
     hub = HubStore(data_dir)
     try:
+        if office is not None:
+            start_office(hub, office)
         uvicorn.run(create_app(hub), host=host, port=port, log_level="warning",
                     ssl_certfile=certfile, ssl_keyfile=keyfile)
     finally:
         hub.close()
+
+
+def start_office(hub: Any, office: Callable[[Any], None]) -> threading.Thread:
+    """Start ``office(store)`` over the hub's records in a daemon thread (it ends with the hub).
+
+    Example: ``start_office(HubStore("hubdata"), office_runner("127.0.0.1", 8766))``.
+    """
+    store = getattr(hub, "store", None)
+    if store is None:
+        raise InputError("office-port", "", "this hub keeps no records the office view can "
+                         "read", "serve the office view from a hub with its own store")
+    thread = threading.Thread(target=office, args=(store,), name="fieldcol-office", daemon=True)
+    thread.start()
+    return thread
 
 
 def _loopback(host: str) -> bool:
