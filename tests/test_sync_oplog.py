@@ -10,7 +10,7 @@ import random
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, given, settings, strategies as st
+from hypothesis import HealthCheck, Phase, given, settings, strategies as st
 
 from fieldcol.store import Store
 from fieldcol.store._oplog import Op
@@ -200,11 +200,32 @@ ACTIONS = st.lists(st.tuples(st.integers(0, 2), st.sampled_from(["edit", "rename
                              st.integers(0, 1), st.integers(0, 2)), min_size=1, max_size=14)
 
 
-@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@pytest.fixture(scope="module")
+def blank(tmp_path_factory) -> Path:
+    """A new store's file without its device id: each copy opens as a device of its own (a
+    copy costs far less than creating the schema, so hypothesis can try hundreds of cases)."""
+    import sqlite3
+
+    path = tmp_path_factory.mktemp("blank") / "blank.db"
+    Store(path).close()
+    conn = sqlite3.connect(path)
+    with conn:
+        conn.execute("DELETE FROM meta WHERE key = 'device_id'")
+    conn.close()
+    return path
+
+
+# no shrinking: a failure prints its case at once (shrinking one can take many minutes)
+@settings(max_examples=300, deadline=None, phases=[Phase.explicit, Phase.reuse, Phase.generate],
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(actions=ACTIONS, seed=st.integers(0, 10**6))
-def test_any_order_any_repeats_converge(tmp_path_factory, actions, seed):
+def test_any_order_any_repeats_converge(tmp_path_factory, blank, actions, seed):
     """Three devices edit offline; their operations arrive shuffled and repeated; all end equal."""
+    import shutil
+
     root = tmp_path_factory.mktemp("conv")
+    for i in range(3):
+        shutil.copy(blank, root / f"d{i}.db")
     stores = [Store(root / f"d{i}.db") for i in range(3)]
     try:
         base = stores[0]

@@ -29,9 +29,9 @@ import re
 import sqlite3
 import time
 import uuid
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
-from typing import Any, Iterable
+from typing import Any, Callable, Iterable
 
 from fieldcol.errors import InputError
 
@@ -128,6 +128,8 @@ class Op:
     field: str
     value: str | None
     seen: int
+    #: field -> value as decoded when the operation was read and checked (not its identity)
+    decoded: dict[str, Any] | None = _field(default=None, compare=False, repr=False)
 
     def to_json(self) -> dict[str, Any]:
         """The operation as a JSON object (for bundles and the hub).
@@ -136,7 +138,9 @@ class Op:
             >>> Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json()["field"]
             'name'
         """
-        return asdict(self)
+        return {"op_id": self.op_id, "device_id": self.device_id, "hlc": self.hlc,
+                "tbl": self.tbl, "row_id": self.row_id, "field": self.field,
+                "value": self.value, "seen": self.seen}
 
     def fields(self) -> dict[str, str | None]:
         """Field -> JSON text of the value it sets (None: SQL NULL), for both shapes.
@@ -172,6 +176,7 @@ class Op:
                 raise InputError(f"{where}.{k}", repr(val)[:40], "expected a clock reading", None)
             out[k] = val
         val = obj.get("value")
+        values = {out["field"]: None}
         if val is not None or out["field"] == ROW:
             if not isinstance(val, str) or len(val) > MAX_VALUE_CHARS:
                 raise InputError(f"{where}.value", repr(val)[:40], "expected JSON text", None)
@@ -187,11 +192,14 @@ class Op:
                     if not 0 < len(k) <= 200 or not _scalar(v):
                         raise InputError(f"{where}.value.{k[:40]}", repr(v)[:40],
                                          "a field holds text or a number", None)
+                values = decoded
             elif not _scalar(decoded):
                 raise InputError(f"{where}.value", val[:40], "a field holds text or a number",
                                  None)
+            else:
+                values = {out["field"]: decoded}
         out["value"] = val
-        return Op(**out)
+        return Op(**out, decoded=values)
 
 
 def _scalar(v: Any) -> bool:
@@ -360,7 +368,10 @@ class Schema:
         if op.tbl not in self.columns:
             raise InputError(f"{where}.tbl", op.tbl, "not a synced table of this store",
                              "update fieldcol if the other device is newer")
-        if op.field == ROW:
+        if op.decoded is not None:
+            values = op.decoded
+            at = f"{where}.value" if op.field == ROW else f"{where}.field"
+        elif op.field == ROW:
             try:
                 values = json.loads(op.value or "")
             except ValueError:
@@ -530,8 +541,27 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
                      "excluded.max_hlc)", rows_rows)
     for args in dict.fromkeys(settle):
         _settle_key(conn, *args)
+    _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     conn.execute("DELETE FROM sync_dirty")
     return len(fields_rows)
+
+
+def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:
+    """Work out again the conflicts of edited rows that had some: an edit made having seen
+    both values settles them here exactly as on a replica that receives it later."""
+    for tbl, ids in _by_table(keys).items():
+        for part in _chunks(ids):
+            had = [r[0] for r in conn.execute(
+                f"SELECT DISTINCT row_id FROM sync_conflicts WHERE tbl = ? AND kind != "
+                f"'duplicate' AND row_id IN ({_marks(part)})", [tbl, *part])]
+            for row_id in had:
+                ops = [e for r in conn.execute(
+                    "SELECT op_id, device_id, hlc, tbl, row_id, field, value, seen FROM sync_ops "
+                    "WHERE tbl = ? AND row_id = ?", [tbl, row_id]) for e in _entries(Op(*r))]
+                conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? "
+                             "AND kind != 'duplicate'", [tbl, row_id])
+                _insert_conflicts(conn, [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6],
+                                          c[7]) for c in _resolve(ops)[2]])
 
 
 def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str, *,
@@ -607,18 +637,21 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
     new = _store_ops(conn, ops, source)
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
-    by_row: dict[tuple[str, str], list[Entry]] = {}
+    by_ops: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]] = {}
     for o in new:
-        by_row.setdefault((o.tbl, o.row_id), []).extend(_entries(o, decoded[id(o)]))
-    known = _known_rows(conn, list(by_row))
-    current = _current_fields(conn, [k for k in by_row if k in known])
+        by_ops.setdefault((o.tbl, o.row_id), []).append((o, decoded[id(o)]))
+    known = _known_rows(conn, list(by_ops))
+
+    def entries(key: tuple[str, str]) -> list[Entry]:
+        return [e for o, values in by_ops[key] for e in _entries(o, values)]
+
+    by_row = {k: entries(k) for k in by_ops if k in known}
+    current = _current_fields(conn, list(by_row))
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
-    fields_rows, rows_rows = [], []
-    for (tbl, row_id), lst in by_row.items():
-        rows_rows.append((tbl, row_id, max(e[0] for e in lst)))
-        if (tbl, row_id) not in known:
-            continue  # its fields are written with the row
+    fields_rows = []
+    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()]
+    for (tbl, row_id), lst in by_row.items():  # rows held already; new ones are written whole
         best: dict[str, Entry] = {}
         for e in lst:
             b = best.get(e[5])
@@ -639,14 +672,14 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         "INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
         "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
         rows_rows)
-    fresh = {k: lst for k, lst in by_row.items() if k not in known}
-    written, slow = _write_fresh(conn, schema, fresh)
+    fresh = {k: lst for k, lst in by_ops.items() if k not in known}
+    written, slow = _write_fresh(conn, schema, fresh, entries)
     touched = dict.fromkeys(slow)
-    touched.update(dict.fromkeys(k for k in by_row if k in known))
+    touched.update(dict.fromkeys(by_row))
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
         touched[(r[0], r[1])] = None
     written += _materialize(conn, schema, list(touched), old_raw,
-                            {k: fresh[k] for k in slow})
+                            {k: entries(k) for k in slow})
     conn.execute("DELETE FROM sync_dirty")  # rows written here are the merge's, not edits
     pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
     return ApplyResult(len(new), written, pending)
@@ -768,46 +801,66 @@ def _insert_conflicts(conn: sqlite3.Connection, rows: list[tuple]) -> None:
 
 
 def _write_fresh(conn: sqlite3.Connection, schema: Schema,
-                 fresh: dict[tuple[str, str], list[Entry]]) -> tuple[int, list[tuple[str, str]]]:
+                 fresh: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]],
+                 entries: Callable[[tuple[str, str]], list[Entry]]
+                 ) -> tuple[int, list[tuple[str, str]]]:
     """Write rows first seen in this batch, a table at a time (parents first), with a few
     statements per table. Returns (rows written, rows left for the one-by-one path): those
     missing a field or a parent, claiming a key some other row claims, or refused by SQLite.
-    Their fields are stored (not yet shown) so that path finds them."""
-    by_tbl: dict[str, dict[str, list[Entry]]] = {}
+    Their fields are stored (not yet shown) so that path finds them.
+
+    ``fresh``: each row's operations with their decoded values; ``entries(key)``: its fields
+    as ``_resolve`` takes them (for a row with several operations)."""
+    by_tbl: dict[str, dict[str, list[tuple[Op, dict[str, Any]]]]] = {}
     for (t, r), lst in fresh.items():
         by_tbl.setdefault(t, {})[r] = lst
     written: dict[str, set[str]] = {}
     slow: list[tuple[str, str]] = []
     count = 0
     for tbl in (t for t in schema.tables if t in by_tbl):
-        ready = []
+        cols = [c for c in schema.columns[tbl] if c not in DERIVED]
+        required = schema.required[tbl]
+        ready = []  # (row_id, row, raw texts, sync_fields rows, conflicts)
         for row_id, lst in by_tbl[tbl].items():
-            win, deleted, conflicts = _resolve(lst)
+            if len(lst) == 1:  # one operation: its values are the row, nothing to weigh
+                op, values = lst[0]
+                row = {c: values.get(c) for c in cols}
+                row["id"] = row_id
+                if any(row[c] is None for c in required):
+                    slow.append((tbl, row_id))
+                    continue
+                raw = {f: _dump(v) for f, v in values.items()}
+                frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
+                ready.append((row_id, row, raw, frows, []))
+                continue
+            win, deleted, conflicts = _resolve(entries((tbl, row_id)))
             row = _row_values(schema, tbl, row_id, win, deleted)
             if row is None:
                 slow.append((tbl, row_id))
-            else:
-                ready.append((row_id, row, win, conflicts))
+                continue
+            frows = [(tbl, row_id, f, e[0], e[1], e[2],
+                      e[2] if f != "deleted_at" else _dump(row["deleted_at"]))
+                     for f, e in win.items()]
+            ready.append((row_id, row, {f: e[2] for f, e in win.items()}, frows, conflicts))
         for col, parent in schema.fks[tbl]:
             if parent not in schema.columns or not ready:
                 continue
             refs = {x[1][col] for x in ready if x[1].get(col) is not None}
-            ok = written.get(parent, set()) | _existing(conn, parent, refs)
-            slow += [(tbl, x[0]) for x in ready if x[1].get(col) not in ok | {None}]
-            ready = [x for x in ready if x[1].get(col) in ok | {None}]
+            ok = written.get(parent, set()) | _existing(conn, parent, refs) | {None}
+            slow += [(tbl, x[0]) for x in ready if x[1].get(col) not in ok]
+            ready = [x for x in ready if x[1].get(col) in ok]
         for key, _scope, _live in schema.uniques[tbl]:
-            raws = [x[2][key][2] for x in ready if key in x[2] and x[2][key][2] is not None]
+            raws = [x[2][key] for x in ready if x[2].get(key) is not None]
             twice = {r for r in raws if raws.count(r) > 1} if len(set(raws)) < len(raws) else set()
             busy = twice | _claimed(conn, tbl, key, set(raws))
             keep = []
             for x in ready:
-                (slow.append((tbl, x[0])) if key in x[2] and x[2][key][2] in busy
-                 else keep.append(x))
+                (slow.append((tbl, x[0])) if x[2].get(key) in busy else keep.append(x))
             ready = keep
         if not ready:
             continue
         ready.sort(key=lambda x: x[0])  # B-tree inserts in key order touch each page once
-        names = list(ready[0][1])
+        names = ["id", *cols]
         conn.execute("SAVEPOINT sync_bulk")
         try:
             conn.executemany(f"INSERT INTO {tbl} ({', '.join(names)}) VALUES "
@@ -818,19 +871,17 @@ def _write_fresh(conn: sqlite3.Connection, schema: Schema,
             slow += [(tbl, x[0]) for x in ready]
             continue
         conn.execute("RELEASE sync_bulk")
-        conn.executemany(
-            "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-            "VALUES (?, ?, ?, ?, ?, ?, ?)",
-            [(tbl, row_id, f, e[0], e[1], e[2],
-              e[2] if f != "deleted_at" else _dump(row["deleted_at"]))
-             for row_id, row, win, _ in ready for f, e in sorted(win.items())])
-        _insert_conflicts(conn, [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6], c[7])
-                                 for row_id, _, _, cs in ready for c in cs])
+        frows = [r for x in ready for r in x[3]]
+        frows.sort(key=lambda r: (r[1], r[2]))
+        conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                         "VALUES (?, ?, ?, ?, ?, ?, ?)", frows)
+        _insert_conflicts(conn, [(c[0], c[1], tbl, x[0], c[2], c[3], c[4], c[5], c[6], c[7])
+                                 for x in ready for c in x[4]])
         written[tbl] = {x[0] for x in ready}
         count += len(ready)
     rows = []
     for tbl, row_id in slow:
-        win, _, _ = _resolve(fresh[(tbl, row_id)])
+        win, _, _ = _resolve(entries((tbl, row_id)))
         rows += [(tbl, row_id, f, e[0], e[1], e[2]) for f, e in win.items()]
     conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
                      "VALUES (?, ?, ?, ?, ?, ?, NULL)", rows)
@@ -968,7 +1019,9 @@ def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, 
             conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, row_id])
             cid = f"duplicate:{tbl}:{row_id}:{key}"
             if i == 0:
-                conn.execute("UPDATE sync_conflicts SET open = 0 WHERE id = ?", [cid])
+                # the record follows the state, not the path: a collision seen only while
+                # operations arrived in some order leaves nothing once it is gone
+                conn.execute("DELETE FROM sync_conflicts WHERE id = ?", [cid])
             else:
                 dev = conn.execute("SELECT device_id FROM sync_ops WHERE op_id = ?",
                                    [op_id]).fetchone()
