@@ -107,6 +107,29 @@ def test_three_devices_every_order_end_identical(tmp_path: Path, hub):
     assert len(a.list_columns(s.id)) == 18
 
 
+def test_one_tag_from_two_devices_is_kept_twice_and_recorded(tmp_path: Path, hub):
+    """Two engineers each add column "C9" to the same site offline: both columns reach every
+    replica, the first tagged keeps "C9", the other shows it with a suffix, and a duplicate
+    record says so on every replica (nothing dropped, nothing merged behind anyone's back)."""
+    (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
+    s = _site(a)
+    sync_with_hub(a, hub.url, ta)
+    sync_with_hub(b, hub.url, tb)
+    ca = _col(a, s.id, "C9")
+    cb = _col(b, s.id, "C9")
+    for st, tok in ((a, ta), (b, tb), (a, ta)):
+        sync_with_hub(st, hub.url, tok)
+    _same([a, b, hub.hub.store])
+    for st in (a, b, hub.hub.store):
+        rows = {r.id: r.tag for r in st.list_columns(s.id)}
+        assert set(rows) == {ca.id, cb.id}
+        first, second = sorted(rows.values())
+        assert first == "C9" and second.startswith("C9 (") and second.endswith(")")
+        (c,) = st.conflicts()
+        assert (c.kind, c.field, c.value) == ("duplicate", "tag", "C9")
+        assert rows[c.row_id] == second
+
+
 class _CutAfter(httpx.HTTPTransport):
     """Deliver requests, but lose the answer to the n-th one whose path matches."""
 
