@@ -31,7 +31,7 @@ import time
 import uuid
 from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
-from typing import Any, Callable, Iterable
+from typing import Any, Iterable
 
 from fieldcol.errors import InputError
 
@@ -673,7 +673,9 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
         rows_rows)
     fresh = {k: lst for k, lst in by_ops.items() if k not in known}
-    written, slow = _write_fresh(conn, schema, fresh, entries)
+    from fieldcol.store._opbulk import write_fresh  # (it builds on this module)
+
+    written, slow = write_fresh(conn, schema, fresh, entries)
     touched = dict.fromkeys(slow)
     touched.update(dict.fromkeys(by_row))
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
@@ -718,24 +720,6 @@ def _current_fields(conn: sqlite3.Connection, keys: list[tuple[str, str]]
                     f"SELECT row_id, field, hlc, op_id, value FROM sync_fields WHERE tbl = ? "
                     f"AND row_id IN ({_marks(part)})", [t, *part]):
                 out.setdefault((t, rid), {})[f] = (hlc, op_id, value)
-    return out
-
-
-def _existing(conn: sqlite3.Connection, tbl: str, ids: Iterable[str]) -> set[str]:
-    out: set[str] = set()
-    for part in _chunks(list(ids)):
-        out.update(r[0] for r in conn.execute(
-            f"SELECT id FROM {tbl} WHERE id IN ({_marks(part)})", part))
-    return out
-
-
-def _claimed(conn: sqlite3.Connection, tbl: str, key: str, raws: Iterable[str]) -> set[str]:
-    """Which of these key values some row here already claims."""
-    out: set[str] = set()
-    for part in _chunks(list(raws)):
-        out.update(r[0] for r in conn.execute(
-            f"SELECT value FROM sync_fields INDEXED BY {_key_index(key)} WHERE tbl = ? AND "
-            f"field = '{key}' AND value IN ({_marks(part)})", [tbl, *part]))
     return out
 
 
@@ -798,94 +782,6 @@ def _insert_conflicts(conn: sqlite3.Connection, rows: list[tuple]) -> None:
     conn.executemany(
         "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, device_id, hlc, "
         "open) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows)
-
-
-def _write_fresh(conn: sqlite3.Connection, schema: Schema,
-                 fresh: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]],
-                 entries: Callable[[tuple[str, str]], list[Entry]]
-                 ) -> tuple[int, list[tuple[str, str]]]:
-    """Write rows first seen in this batch, a table at a time (parents first), with a few
-    statements per table. Returns (rows written, rows left for the one-by-one path): those
-    missing a field or a parent, claiming a key some other row claims, or refused by SQLite.
-    Their fields are stored (not yet shown) so that path finds them.
-
-    ``fresh``: each row's operations with their decoded values; ``entries(key)``: its fields
-    as ``_resolve`` takes them (for a row with several operations)."""
-    by_tbl: dict[str, dict[str, list[tuple[Op, dict[str, Any]]]]] = {}
-    for (t, r), lst in fresh.items():
-        by_tbl.setdefault(t, {})[r] = lst
-    written: dict[str, set[str]] = {}
-    slow: list[tuple[str, str]] = []
-    count = 0
-    for tbl in (t for t in schema.tables if t in by_tbl):
-        cols = [c for c in schema.columns[tbl] if c not in DERIVED]
-        required = schema.required[tbl]
-        ready = []  # (row_id, row, raw texts, sync_fields rows, conflicts)
-        for row_id, lst in by_tbl[tbl].items():
-            if len(lst) == 1:  # one operation: its values are the row, nothing to weigh
-                op, values = lst[0]
-                row = {c: values.get(c) for c in cols}
-                row["id"] = row_id
-                if any(row[c] is None for c in required):
-                    slow.append((tbl, row_id))
-                    continue
-                raw = {f: _dump(v) for f, v in values.items()}
-                frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
-                ready.append((row_id, row, raw, frows, []))
-                continue
-            win, deleted, conflicts = _resolve(entries((tbl, row_id)))
-            row = _row_values(schema, tbl, row_id, win, deleted)
-            if row is None:
-                slow.append((tbl, row_id))
-                continue
-            frows = [(tbl, row_id, f, e[0], e[1], e[2],
-                      e[2] if f != "deleted_at" else _dump(row["deleted_at"]))
-                     for f, e in win.items()]
-            ready.append((row_id, row, {f: e[2] for f, e in win.items()}, frows, conflicts))
-        for col, parent in schema.fks[tbl]:
-            if parent not in schema.columns or not ready:
-                continue
-            refs = {x[1][col] for x in ready if x[1].get(col) is not None}
-            ok = written.get(parent, set()) | _existing(conn, parent, refs) | {None}
-            slow += [(tbl, x[0]) for x in ready if x[1].get(col) not in ok]
-            ready = [x for x in ready if x[1].get(col) in ok]
-        for key, _scope, _live in schema.uniques[tbl]:
-            raws = [x[2][key] for x in ready if x[2].get(key) is not None]
-            twice = {r for r in raws if raws.count(r) > 1} if len(set(raws)) < len(raws) else set()
-            busy = twice | _claimed(conn, tbl, key, set(raws))
-            keep = []
-            for x in ready:
-                (slow.append((tbl, x[0])) if x[2].get(key) in busy else keep.append(x))
-            ready = keep
-        if not ready:
-            continue
-        ready.sort(key=lambda x: x[0])  # B-tree inserts in key order touch each page once
-        names = ["id", *cols]
-        conn.execute("SAVEPOINT sync_bulk")
-        try:
-            conn.executemany(f"INSERT INTO {tbl} ({', '.join(names)}) VALUES "
-                             f"({_marks(names)})", [[x[1][c] for c in names] for x in ready])
-        except sqlite3.IntegrityError:  # e.g. a key shown suffixed elsewhere: look closer
-            conn.execute("ROLLBACK TO sync_bulk")
-            conn.execute("RELEASE sync_bulk")
-            slow += [(tbl, x[0]) for x in ready]
-            continue
-        conn.execute("RELEASE sync_bulk")
-        frows = [r for x in ready for r in x[3]]
-        frows.sort(key=lambda r: (r[1], r[2]))
-        conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-                         "VALUES (?, ?, ?, ?, ?, ?, ?)", frows)
-        _insert_conflicts(conn, [(c[0], c[1], tbl, x[0], c[2], c[3], c[4], c[5], c[6], c[7])
-                                 for x in ready for c in x[4]])
-        written[tbl] = {x[0] for x in ready}
-        count += len(ready)
-    rows = []
-    for tbl, row_id in slow:
-        win, _, _ = _resolve(entries((tbl, row_id)))
-        rows += [(tbl, row_id, f, e[0], e[1], e[2]) for f, e in win.items()]
-    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-                     "VALUES (?, ?, ?, ?, ?, ?, NULL)", rows)
-    return count, slow
 
 
 def _materialize(conn: sqlite3.Connection, schema: Schema, rows: list[tuple[str, str]],
