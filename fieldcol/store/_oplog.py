@@ -188,10 +188,14 @@ class Op:
                 if not isinstance(decoded, dict) or not decoded:
                     raise InputError(f"{where}.value", val[:40], "a row's fields are a JSON "
                                      "object of field names and values", None)
-                for k, v in decoded.items():
-                    if not 0 < len(k) <= 200 or not _scalar(v):
-                        raise InputError(f"{where}.value.{k[:40]}", repr(v)[:40],
-                                         "a field holds text or a number", None)
+                # checked by C-level passes (a sync checks every field of every row); the
+                # loop below runs only to name what is wrong
+                if not (_SCALARS.issuperset(map(type, decoded.values()))
+                        and 0 < min(map(len, decoded)) and max(map(len, decoded)) <= 200):
+                    for k, v in decoded.items():
+                        if not 0 < len(k) <= 200 or not _scalar(v):
+                            raise InputError(f"{where}.value.{k[:40]}", repr(v)[:40],
+                                             "a field holds text or a number", None)
                 values = decoded
             elif not _scalar(decoded):
                 raise InputError(f"{where}.value", val[:40], "a field holds text or a number",
@@ -200,6 +204,10 @@ class Op:
                 values = {out["field"]: decoded}
         out["value"] = val
         return Op(**out, decoded=values)
+
+
+#: the kinds of value a field holds (bool: a JSON true or false, read as before)
+_SCALARS = frozenset({type(None), str, int, float, bool})
 
 
 def _scalar(v: Any) -> bool:
