@@ -372,3 +372,13 @@ def test_hub_device_commands(tmp_path: Path, capsys):
     assert main(["hub", "revoke-device", "tablet-1", "--data", data]) == 0
     assert main(["hub", "serve", "--data", data, "--host", "0.0.0.0", "--port", "8765"]) == 2
     assert "TLS" in capsys.readouterr().err
+
+
+def test_the_office_view_is_refused_beyond_loopback_without_tls_or_on_the_hubs_port(
+        tmp_path: Path, capsys):
+    data = str(tmp_path / "hub")
+    assert main(["hub", "serve", "--data", data, "--host", "0.0.0.0", "--tls-cert", "c.pem",
+                 "--tls-key", "k.pem", "--office-port", "8766"]) == 2
+    assert "office-port" in capsys.readouterr().err
+    assert main(["hub", "serve", "--data", data, "--port", "8765", "--office-port", "8765"]) == 2
+    assert "other than the hub's" in capsys.readouterr().err
