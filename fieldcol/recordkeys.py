@@ -20,12 +20,13 @@ _SECTION_COMMON = ("loss", "plates")
 #: full path and the nearest known key: a mistyped key must never be read as "not given".
 KEYS: dict[str, tuple[str, ...]] = {
     "column record": ("tag", "section", "material", "length", "restraints", "k_basis", "code",
-               "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location"),
+               "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location",
+               "knowledge"),
     "section by name": ("name", *_SECTION_COMMON),
     "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
     "section of shape rect": ("shape", "d", "b", "t", "r", *_SECTION_COMMON),
     "section of shape round": ("shape", "D", "t", *_SECTION_COMMON),
-    "section loss": ("flange", "web", "wall", "uniform"),
+    "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
     "cover plates": ("thickness", "width"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
@@ -37,8 +38,10 @@ KEYS: dict[str, tuple[str, ...]] = {
     "alignment": ("Ga", "Gb", "sway"),
     "twist": ("braces", "bottom", "top"),
     "twist restraint": ("at", "added", "seen_by", "note"),
-    "condition": ("bow", "bow_axis", "bow_over", "plumb"),
-    "demand": ("axial", "loads", "basis", "psi0"),
+    "condition": ("bow", "bow_axis", "bow_over", "plumb", "plumb_axis"),
+    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions"),
+    "moments": AXES,
+    "reaction": ("load", "axis", "eccentricity", "side"),
     "loads": LOAD_TYPES,
     "psi0": ("live", "snow"),
 }
@@ -127,6 +130,9 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
     check_keys(demand, "demand", "demand")
     check_keys(obj(demand.get("loads")), "loads", "demand.loads")
     check_keys(obj(demand.get("psi0")), "psi0", "demand.psi0")
+    check_keys(obj(demand.get("moments")), "moments", "demand.moments")
+    for i, r in items(demand.get("reactions")):
+        check_keys(r, "reaction", f"demand.reactions[{i}]")
 
 
 def _section_keys(spec: Mapping[str, Any], fld: str) -> None:

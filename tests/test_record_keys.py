@@ -38,8 +38,12 @@ CATALOGUE = {
         "twist": {"braces": [{"at": "8 ft", "added": "2019", "seen_by": "R. Okafor",
                               "note": "angle cleat"}], "bottom": "held", "top": "held"}},
     "k_basis": "analysis", "code": "aisc360-22", "units": "us",
-    "condition": {"bow": "1/4 in", "bow_axis": "weak", "bow_over": "16 ft", "plumb": "1/2 in"},
-    "demand": {"axial": "200 kip", "basis": "lrfd"},
+    "condition": {"bow": "1/4 in", "bow_axis": "weak", "bow_over": "16 ft", "plumb": "1/2 in",
+                  "plumb_axis": "weak"},
+    "demand": {"axial": "200 kip", "basis": "lrfd", "moments": {"weak": "5 kip*ft"},
+               "reactions": [{"load": "20 kip", "axis": "strong", "eccentricity": "6 in",
+                              "side": "+"}]},
+    "knowledge": "usual",
 }
 MEASURED_I = {
     "tag": "C/3-G", "length": "4 m", "code": "en1993-1-1", "gamma_M1": 1.0,
@@ -55,7 +59,7 @@ MEASURED_I = {
 }
 RECT = {"tag": "R1", "length": "12 ft", "material": "A500 Gr B",
         "section": {"shape": "rect", "d": "8 in", "b": "6 in", "t": "0.25 in", "r": "0.5 in",
-                    "loss": {"wall": "0.2 in"}}}
+                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in"}}}
 ROUND = {"tag": "P1", "length": "12 ft", "material": "A500 Gr B",
          "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in"}}
 BASES = [CATALOGUE, MEASURED_I, RECT, ROUND]
