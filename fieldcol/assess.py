@@ -78,6 +78,8 @@ class Assessment:
     beam: BeamColumnResult | None = None
     band: Any = None                 # fieldcol.band.BandResult when the record has a loss band
     knowledge: float = 1.0
+    spans: dict[str, float] = field(default_factory=dict)      # mm between points held, per axis
+    sources: dict[str, Any] = field(default_factory=dict)      # moments by source (bending.py)
 
     def capacities(self) -> dict[str, float]:
         """The capacity (N, before the knowledge factor) of every check that applies, by mode:
@@ -366,7 +368,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                       "knowledge factor of existing-building assessment practice")
     _condition_warnings(col, warnings)
     return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace,
-                      json.loads(json.dumps(record)), bow, beam, band, kappa)
+                      json.loads(json.dumps(record)), bow, beam, band, kappa, spans, sources)
 
 
 _APP5 = ("AISC 360-22 App. 5.2", "AISC 360-22 App. 5.2; EN 1993-1-1 gives no rule for existing "

@@ -1,4 +1,5 @@
-"""``fieldcol check COLUMN.json``: the axial capacity of one column record, as a calculation sheet."""
+"""``fieldcol check COLUMN.json [--samples N]``: the capacity of one column record, as a calculation
+sheet, and with ``--samples`` its spread from what is uncertain."""
 
 from __future__ import annotations
 
@@ -8,7 +9,8 @@ import json
 
 # internal unit -> units.py kind, to show each step in the site's unit system
 _KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": "modulus",
-         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness", "N*mm/rad": "rotational_stiffness"}
+         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness", "N*mm/rad": "rotational_stiffness",
+         "N*mm": "moment"}
 
 
 def register(sub: argparse._SubParsersAction) -> None:
@@ -18,6 +20,17 @@ def register(sub: argparse._SubParsersAction) -> None:
     p.add_argument("file", help="column record JSON file ('-' reads standard input)")
     p.add_argument("--json", action="store_true", help="print the result as JSON")
     p.add_argument("--units", choices=("us", "si"), help="display units (default: the record's)")
+    p.add_argument("--samples", type=int, metavar="N",
+                   help="also sample the design strength N times from the spread of the "
+                        "measurements and the yield stress (100 to 1000000), e.g. 10000")
+    p.add_argument("--seed", type=int, default=20261204, help="random seed of --samples (same seed, same answer)")
+    p.add_argument("--fy-cov", type=float, metavar="X",
+                   help="coefficient of variation of the yield stress (default 0.07; 0.05 coupon-tested, "
+                        "0.10 untested historic grade)")
+    p.add_argument("--thickness-sd", type=float, default=0.1, metavar="MM",
+                   help="standard deviation of plate thicknesses, mm (default 0.1)")
+    p.add_argument("--size-sd", type=float, default=1.0, metavar="MM",
+                   help="standard deviation of depth and width, mm (default 1.0)")
     p.set_defaults(func=run)
 
 
@@ -26,13 +39,20 @@ def run(args: argparse.Namespace) -> int:
 
     from fieldcol.cli import read_json
 
-    a = assess(read_json(args.file))
+    record = read_json(args.file)
+    a = assess(record)
+    d = a.to_dict()
+    if args.samples is not None:
+        from fieldcol.uncertainty import Spreads, run_samples
+
+        d["uncertainty"] = run_samples(record, args.samples, seed=args.seed, check=a, spreads=Spreads(
+            args.thickness_sd, args.size_sd, args.fy_cov)).to_dict()
     if args.json:
         from fieldcol.cli import print_json
 
-        print_json(a.to_dict())
+        print_json(d)
         return 0
-    print(sheet(a.to_dict(), args.units or a.column.units))
+    print(sheet(d, args.units or a.column.units))
     return 0
 
 
@@ -78,7 +98,17 @@ def sheet(d: dict, system: str) -> str:
         out += ["", f"Measured bow, {b['axis']} axis: excess over L/1000 {show(b['excess'], system)}; "
                 f"capacity with the bow {show(b['capacity'], system)} "
                 f"(axial alone {show(d['axial_design_strength'], system)})"]
-    out += ["", f"Governing mode:    {d['governing_mode']}",
+    if d.get("beam_column"):
+        b = d["beam_column"]
+        out += ["", f"Axial force with bending ({b['equation']}): interaction "
+                f"{show(b['interaction'], system)}; capacity with the moments in proportion "
+                f"{show(b['capacity'], system)}; Mc strong {show(b['flexural_strength']['strong'], system)}, "
+                f"weak {show(b['flexural_strength']['weak'], system)}"]
+    if d.get("section_band"):
+        b = d["section_band"]
+        out += ["", f"Loss band {show(b['from'], system)} to {show(b['to'], system)}: section strength "
+                f"{show(b['section_strength'], system)}, capacity {show(b['capacity'], system)}"]
+    out += ["", f"Governing mode:    {d['governing_mode']} ({d.get('governing_words', '')})",
             f"Nominal strength:  {show(d['nominal_strength'], system)}",
             f"Design strength:   {show(d['design_strength'], system)}"]
     if d["demand"]:
@@ -88,6 +118,18 @@ def sheet(d: dict, system: str) -> str:
         else:
             word = "OK" if d["status"] == "ok" else "OVER CAPACITY"
             out.append(f"Utilization:       {d['utilization']['value']:.3f}  {word}")
+    u = d.get("uncertainty")
+    if u:
+        sp = u["spreads"]
+        out += ["", f"Uncertainty ({u['samples']} samples, seed {u['seed']}; thickness sd "
+                f"{sp['thickness_sd_mm']:g} mm, size sd {sp['size_sd_mm']:g} mm, Fy CoV {sp['fy_cov']:g} "
+                f"({sp['fy_cov_basis']})):",
+                f"  design strength 5th percentile {show(u['percentile_5'], system)}, median "
+                f"{show(u['median'], system)}, 95th percentile {show(u['percentile_95'], system)}"]
+        if u["probability_demand_exceeds_capacity"] is not None:
+            out.append(f"  probability that the demand exceeds the capacity: "
+                       f"{u['probability_demand_exceeds_capacity']:.4f}")
+        out += [f"  ({n})" for n in u["notes"]]
     for w in d["warnings"]:
         out.append(f"WARNING [{w['code']}]: {w['message']}")
     out += ["", CAUTION]

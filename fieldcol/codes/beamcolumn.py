@@ -198,11 +198,19 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
         den = 1.0 - alpha * P / Pe
         return np.where(den > 0, np.maximum(1.0, Cm / np.where(den > 0, den, 1.0)), np.inf)
 
+    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
+
     def Mr(P, ax):
+        # only the sources this batch has: the bisection calls this some 160 times
         lam = P / Pr
-        return (lam * M["given"][ax] + amp(P, Pe1[ax], 0.6) * lam * M["ends"][ax]
-                + np.where(M["bow"][ax] > 0, amp(P, Pe1[ax], 1.0) * P * M["bow"][ax], 0.0)
-                + np.where(M["sway"][ax] > 0, amp(P, Pe2[ax], 1.0) * P * M["sway"][ax], 0.0))
+        out = lam * M["given"][ax] if used[("given", ax)] else np.zeros(P.shape)
+        if used[("ends", ax)]:
+            out = out + amp(P, Pe1[ax], 0.6) * lam * M["ends"][ax]
+        if used[("bow", ax)]:
+            out = out + np.where(M["bow"][ax] > 0, amp(P, Pe1[ax], 1.0) * P * M["bow"][ax], 0.0)
+        if used[("sway", ax)]:
+            out = out + np.where(M["sway"][ax] > 0, amp(P, Pe2[ax], 1.0) * P * M["sway"][ax], 0.0)
+        return out
 
     def g(P):
         m = Mr(P, "strong") / Mc["strong"] + Mr(P, "weak") / Mc["weak"]
