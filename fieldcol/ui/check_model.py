@@ -18,6 +18,7 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Mapping
 
 from fieldcol import CAUTION
+from fieldcol.assess import MODE_WORDS
 
 if TYPE_CHECKING:
     from fieldcol.store import Store
@@ -246,7 +247,7 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
              "flexural-weak": "Buckling about the weak axis",
              "torsional": "Twisting (torsional buckling)", "yield": "Squashing (yield)",
              "bow": "The measured bow (bending with the axial load)", "": "No strength"}
-    head = words.get(gov, gov) + (" governs" if gov else ": the code gives none for this column")
+    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (" governs" if gov else ": the code gives none for this column")
     if gov in ("flexural-strong", "flexural-weak", "torsional"):
         ax = {"flexural-strong": "strong", "flexural-weak": "weak", "torsional": "twist"}[gov]
         m = modes.get(gov) or {}
