@@ -270,8 +270,8 @@ def brace_sweep(record: Mapping[str, Any], axis: str, *, points: int = 11,
         InputError: a bad axis, count or stiffness (named), or a record that cannot be checked.
 
     Example:
-        >>> s = brace_sweep({"tag": "C", "section": "W10X49", "material": "A992", "length": "14 ft"},
-        ...                 "weak", points=5)
+        >>> s = brace_sweep({"tag": "C", "section": "W14X90", "material": "A992", "length": "30 ft",
+        ...                  "restraints": {"strong": {"k": 0.5}}}, "weak", points=5, twist=True)
         >>> round(s.best[0] / s.length, 2)
         0.5
     """

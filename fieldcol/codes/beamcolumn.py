@@ -123,7 +123,7 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
         ...     span={"strong": L, "weak": L}, Lc={"strong": L, "weak": L, "twist": L},
         ...     moments={"given": {"strong": 250 * 1.3558e6, "weak": 80 * 1.3558e6}})
         >>> str(r.equation[0]), round(float(r.ratio[0]), 2)
-        ('H1-1a', 0.93)
+        ('H1-1a', 0.92)
     """
     unknown = set(moments) - set(SOURCES)
     if unknown:
