@@ -175,7 +175,10 @@ def run_samples(record: Mapping[str, Any], samples: int, *, seed: int = SEED,
         caps = [np.asarray(ax.design, dtype=float)]
         Pr = a.demand
         ratios = [] if not Pr else [Pr / caps[0]]
-        if a.bow is not None and math.isfinite(float(np.asarray(a.bow.capacity).reshape(-1)[0])):
+        # with other moments the beam-column check carries the bow over the same span (and never
+        # gives more), so the bow alone is sampled only without them or over a length of its own
+        if a.bow is not None and math.isfinite(float(np.asarray(a.bow.capacity).reshape(-1)[0])) and (
+                a.beam is None or col.bow_over is not None):
             Lb = col.bow_over if col.bow_over is not None else a.spans[col.bow_axis]
             bw = check_bow(col.code, sec, Fy, mat.E, mat.G, Lb, L["strong"], L["weak"], L["twist"], col.bow,
                            col.bow_axis, basis=basis, gamma_M1=col.gamma_M1, Pr=Pr or None, axial=ax)

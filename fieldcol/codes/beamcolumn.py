@@ -162,7 +162,8 @@ def _I(sec: dict, ax: str) -> np.ndarray:
 def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, formula: str,
            clause: str) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design))
+        # 64 halvings leave the bracket below one ulp of any capacity above 1e-4 of the axial one
+        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
         val, eq = g(Pr)
         ratio = np.where(Mc_nan, np.nan, np.maximum(val, Pr / design))
     t.add("P", "axial capacity with the moments in proportion", formula, cap, "N", clause)
@@ -279,35 +280,55 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t):
     c12 = cls <= 2
     open_i = kind == "i"
 
+    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
+    has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
+
     def M_Ed(N, ax):
+        # only the sources this batch has: the bisection calls this some 130 times
         lam = N / N_Ed
-        with np.errstate(divide="ignore", invalid="ignore"):
-            sway_amp = np.where(N < Ncr[ax], 1.0 / (1.0 - N / Ncr[ax]), np.inf)
-        return (lam * (M["given"][ax] + M["ends"][ax]) + N * M["bow"][ax]
-                + np.where(M["sway"][ax] > 0, sway_amp * N * M["sway"][ax], 0.0))
+        out = np.zeros(N.shape)
+        if used[("given", ax)] or used[("ends", ax)]:
+            out = out + lam * (M["given"][ax] + M["ends"][ax])
+        if used[("bow", ax)]:
+            out = out + N * M["bow"][ax]
+        if used[("sway", ax)]:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                sway_amp = np.where(N < Ncr[ax], 1.0 / (1.0 - N / Ncr[ax]), np.inf)
+            out = out + np.where(M["sway"][ax] > 0, sway_amp * N * M["sway"][ax], 0.0)
+        return out
 
     def factors(N):
         ny, nz = N / Ny, N / Nz
-        kyy = np.where(c12, Cmy * np.minimum(1 + (lb_y - 0.2) * ny, 1 + 0.8 * ny),
-                       Cmy * np.minimum(1 + 0.6 * lb_y * ny, 1 + 0.6 * ny))
-        kzz12 = (Cmz * np.minimum(1 + (2 * lb_z - 0.6) * nz, 1 + 1.4 * nz) if open_i
-                 else Cmz * np.minimum(1 + (lb_z - 0.2) * nz, 1 + 0.8 * nz))
-        kzz = np.where(c12, kzz12, Cmz * np.minimum(1 + 0.6 * lb_z * nz, 1 + 0.6 * nz))
-        kyz = np.where(c12, 0.6 * kzz, kzz)
-        if open_i:
-            d = Cmy - 0.25          # CmLT = Cmy
-            k12 = np.where(lb_z < 0.4, np.minimum(0.6 + lb_z, 1 - 0.1 * lb_z * nz / d),
-                           np.maximum(1 - 0.1 * lb_z * nz / d, 1 - 0.1 * nz / d))
-            k3 = np.maximum(1 - 0.05 * lb_z * nz / d, 1 - 0.05 * nz / d)
-            kzy = np.where(c12, k12, k3)
-        else:
-            kzy = np.where(c12, 0.6 * kyy, 0.8 * kyy)
+        zero = np.zeros(N.shape)
+        kyy = kzy = kyz = kzz = zero
+        if has["strong"]:
+            kyy = np.where(c12, Cmy * np.minimum(1 + (lb_y - 0.2) * ny, 1 + 0.8 * ny),
+                           Cmy * np.minimum(1 + 0.6 * lb_y * ny, 1 + 0.6 * ny))
+            if open_i:
+                d = Cmy - 0.25          # CmLT = Cmy
+                k12 = np.where(lb_z < 0.4, np.minimum(0.6 + lb_z, 1 - 0.1 * lb_z * nz / d),
+                               np.maximum(1 - 0.1 * lb_z * nz / d, 1 - 0.1 * nz / d))
+                k3 = np.maximum(1 - 0.05 * lb_z * nz / d, 1 - 0.05 * nz / d)
+                kzy = np.where(c12, k12, k3)
+            else:
+                kzy = np.where(c12, 0.6 * kyy, 0.8 * kyy)
+        if has["weak"]:
+            kzz12 = (Cmz * np.minimum(1 + (2 * lb_z - 0.6) * nz, 1 + 1.4 * nz) if open_i
+                     else Cmz * np.minimum(1 + (lb_z - 0.2) * nz, 1 + 0.8 * nz))
+            kzz = np.where(c12, kzz12, Cmz * np.minimum(1 + 0.6 * lb_z * nz, 1 + 0.6 * nz))
+            kyz = np.where(c12, 0.6 * kzz, kzz)
         return kyy, kyz, kzy, kzz
 
     def both(N):
         kyy, kyz, kzy, kzz = factors(N)
-        my, mz = M_Ed(N, "strong") / My_Rd, M_Ed(N, "weak") / Mz_Rd
-        return N / Ny + kyy * my + kyz * mz, N / Nz + kzy * my + kzz * mz
+        a, b = N / Ny, N / Nz
+        if has["strong"]:
+            my = M_Ed(N, "strong") / My_Rd
+            a, b = a + kyy * my, b + kzy * my
+        if has["weak"]:
+            mz = M_Ed(N, "weak") / Mz_Rd
+            a, b = a + kyz * mz, b + kzz * mz
+        return a, b
 
     def g(N):
         a, b = both(N)
@@ -322,8 +343,10 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t):
         Mr = {ax: t.add(f"M_Ed_{ax}", f"design moment, {ax} axis (first order; sway: 1/(1 - N/Ncr))",
                         "given + end + N e + N D/(1 - N/Ncr)", M_Ed(N_Ed, ax), "N*mm", C633) for ax in AXES}
         kyy, kyz, kzy, kzz = factors(N_Ed)
-        for name, k in (("kyy", kyy), ("kyz", kyz), ("kzy", kzy), ("kzz", kzz)):
-            t.add(name, f"interaction factor {name} at N_Ed", "Annex B", k, "", ANNEX_B)
+        for name, k, ax in (("kyy", kyy, "strong"), ("kyz", kyz, "weak"), ("kzy", kzy, "strong"),
+                            ("kzz", kzz, "weak")):
+            if has[ax]:    # a factor on a moment the column does not carry is not shown
+                t.add(name, f"interaction factor {name} at N_Ed", "Annex B", k, "", ANNEX_B)
         u61, u62 = both(N_Ed)
     t.add("(6.61)", "interaction, strong-axis buckling",
           "N/(chi_y N_Rk/gM1) + kyy My/(chi_LT My,Rk/gM1) + kyz Mz/(Mz,Rk/gM1)", u61, "", f"{C633} (6.61)")
