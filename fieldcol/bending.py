@@ -124,7 +124,8 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
         return None, src
     if not demand:
         warnings.append({"code": "moments-without-axial",
-                         "message": "moments were recorded but the axial demand is zero: they are not checked"})
+                         "message": "moments (or the out-of-plumb of a column free to sway) were recorded "
+                                    "without an axial demand: they are not checked; give the demand"})
         return None, src
     trace.extend(sub)
     res = check_beam_column(col.code, col.section, Fy, col.material.E, col.material.G, demand, axial,

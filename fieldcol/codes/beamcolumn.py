@@ -185,12 +185,17 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
         Mc[ax] = t.add(f"Mc_{ax}", f"available flexural strength, {ax} axis",
                        "phi_b Mn, phi_b = 0.90" if lrfd else "Mn / Omega_b, Omega_b = 1.67",
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
-        Pe1[ax] = t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
-                        "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway",
-                        np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2, "N", f"{APP8}.1 (A-8-5)")
-        Pe2[ax] = t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
-                        "pi^2 EI / Lc^2 (the story's other columns left out: conservative)",
-                        np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2, "N", f"{APP8}.2 (A-8-7)")
+        Pe1[ax] = np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2
+        Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2
+        # the amplifiers' loads are shown only where a moment they amplify is present
+        if np.any(M["ends"][ax] + M["bow"][ax] > 0):
+            t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
+                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway", Pe1[ax], "N",
+                  f"{APP8}.1 (A-8-5)")
+        if np.any(M["sway"][ax] > 0):
+            t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
+                  "pi^2 EI / Lc^2 (the story's other columns left out: conservative)", Pe2[ax], "N",
+                  f"{APP8}.2 (A-8-7)")
     t.add("Pc", "available axial strength (governing mode)", "phi_c Pn or Pn / Omega_c", Pc, "N", "AISC 360-22 E1")
     t.add("Cm", "equivalent uniform moment factor", "end moment, other end 0: 0.6 - 0.4 M1/M2 = 0.6; bow: 1.0",
           0.6, "", f"{APP8}.1 (A-8-4)")
