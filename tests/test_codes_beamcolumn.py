@@ -285,3 +285,16 @@ def test_mode_words_name_every_mode():
     from fieldcol.codes import MODES
 
     assert set(MODES) | {"bow", "beam-column", "section-band"} <= set(MODE_WORDS)
+
+
+def test_the_check_screen_says_what_governs_with_bending_and_in_a_band():
+    from fieldcol.ui.check_model import check_summary
+
+    a = assess({"tag": "H1B", "section": "W14X99", "material": "A992", "length": "14 ft",
+                "demand": {"axial": "400 kip", "moments": {"strong": "250 kip*ft", "weak": "80 kip*ft"}}})
+    s = check_summary(a.to_dict(), "us")
+    assert "H1-1a" in s.result_line and MODE_WORDS["beam-column"].capitalize() in s.governs
+    b = assess({"tag": "B", "material": "A992", "length": "14 ft", "demand": {"axial": "200 kip"},
+                "section": {"name": "W10X49", "loss": {"flange": "0.3 in", "from": "0 in", "to": "1 ft"}}})
+    s = check_summary(b.to_dict(), "us")
+    assert "loss band" in s.result_line and "steel was lost" in s.why
