@@ -630,10 +630,15 @@ def _longest_span(length: float, at: tuple[float, ...]) -> float:
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
     L = col.length
     if col.plumb is not None and col.plumb > L / 500:
+        spec = col.axes[col.plumb_axis]
+        sway = not (math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation))
+        then = ("checked here as P-delta with the column's own buckling load; include the story's "
+                "other columns in the frame analysis" if sway and col.demand is not None else
+                "include the sway effect in the frame analysis")
         warnings.append({
             "code": "plumb-over-tolerance",
             "message": f"measured out-of-plumb {_show(col, col.plumb)} exceeds L/500 = {_show(col, L / 500)} "
-                       "(AISC 303 erection tolerance): include the sway effect in the frame analysis",
+                       f"(AISC 303 erection tolerance): {then}",
         })
 
 

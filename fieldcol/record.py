@@ -263,7 +263,7 @@ def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | No
     z0 = parse_length(loss["from"], f"{lf}.from", allow_zero=True)
     z1 = parse_length(loss["to"], f"{lf}.to")
     if not 0 <= z0 < z1 <= length:
-        raise InputError(f"{lf}.to", loss["to"], "the band must lie within the column, from below to",
+        raise InputError(f"{lf}.to", loss["to"], "the band must lie within the column, 'from' below 'to'",
                          "heights measured from the bottom end")
     return LossBand(parse_section(spec, fld, band=True), z0, z1, lf)
 
