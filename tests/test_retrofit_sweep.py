@@ -46,3 +46,20 @@ def test_bad_sweeps_name_the_field():
     with pytest.raises(InputError) as e:
         brace_sweep(PINNED, "weak", stiffness=["10"])
     assert e.value.field == "stiffness[0]"
+
+
+def test_the_retrofit_command_sweeps(tmp_path):
+    import json
+    import subprocess
+    import sys
+
+    f = tmp_path / "c.json"
+    f.write_text(json.dumps(FIXED_PINNED))
+    out = subprocess.run([sys.executable, "-m", "fieldcol", "retrofit", str(f), "--sweep", "weak", "--points", "3",
+                          "--stiffness", "10 kip/in", "--stiffness", "rigid", "--twist", "--json"],
+                         capture_output=True, text=True, check=True).stdout
+    d = json.loads(out)
+    assert d["stiffness"] == ["10 kip/in", "rigid"] and len(d["strengths"][1]) == 3
+    text = subprocess.run([sys.executable, "-m", "fieldcol", "retrofit", str(f), "--sweep", "weak", "--points", "3"],
+                          capture_output=True, text=True, check=True).stdout
+    assert "Best:" in text and "licensed engineer" in text
