@@ -190,6 +190,7 @@ class Assessment:
                 "stiffness_factor": {ax: _q(f, "") for ax, f in self.band.factors.items()}},
             "bow": None if self.bow is None else {
                 "axis": self.bow.axis, "excess": _q(self.bow.excess, "mm"),
+                "allowance": f"L/{BOW_TOLERANCE[c.code]:g}",
                 "flexural_strength": _q(self.bow.Mc, "N*mm"),
                 "capacity": _q(self.bow.capacity, "N"),
                 "interaction": None if self.bow.ratio is None else _q(self.bow.ratio, "")},

@@ -95,7 +95,8 @@ def sheet(d: dict, system: str) -> str:
                    f"Fcr {show(m['critical_stress'], system):>10}  Pn {show(m['nominal_strength'], system)}")
     if d["bow"]:
         b = d["bow"]
-        out += ["", f"Measured bow, {b['axis']} axis: excess over L/1000 {show(b['excess'], system)}; "
+        out += ["", f"Measured bow, {b['axis']} axis: excess over {b.get('allowance', 'L/1000')} "
+                f"{show(b['excess'], system)}; "
                 f"capacity with the bow {show(b['capacity'], system)} "
                 f"(axial alone {show(d['axial_design_strength'], system)})"]
     if d.get("beam_column"):
