@@ -244,9 +244,9 @@ def channels(channel: Part, gap: float, *, toes: str = "out", tie: Lacing | Batt
     Example:
         >>> from fieldcol.sections._parts import Part
         >>> c = Part("channel", 300, 100, 16, 10)
-        >>> b = channels(c, 200, tie=Battens(600, 200, 10))
+        >>> b = channels(c, 50, tie=Battens(600, 200, 10))
         >>> b.open_axes[0].axis, round(b.open_axes[0].h0)
-        ('weak', 200)
+        ('weak', 109)
     """
     if gap < 0:
         raise InputError(f"{field}.gap", f"{gap:g} mm", "must be zero or more", None)

@@ -148,7 +148,7 @@ def angle(d: float, b: float, t: float, r1: float = 0.0, r2: float = 0.0,
     Example:
         >>> a = properties(angle(100, 100, 10))
         >>> round(a["A"]), round(a["cx"], 2)
-        (1900, 28.42)
+        (1900, 28.68)
     """
     return _rounded([(0.0, 0.0, 0.0), (b, 0.0, 0.0), (b, t, r2), (t, t, r1), (t, d, r2),
                      (0.0, d, 0.0)], name)
@@ -165,7 +165,7 @@ def channel(d: float, bf: float, tf: float, tw: float, r1: float = 0.0, r2: floa
 
     Example:
         >>> round(properties(channel(200, 75, 10, 8))["A"])
-        3040
+        2940
     """
     half = slope * (bf - tw) / 2
     t_root, t_toe = tf + half, tf - half
