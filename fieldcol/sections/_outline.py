@@ -147,7 +147,7 @@ def angle(d: float, b: float, t: float, r1: float = 0.0, r2: float = 0.0,
 
     Example:
         >>> a = properties(angle(100, 100, 10))
-        >>> round(a["A"]), round(a["cx"], 2)
+        >>> round(a["A"]), round(float(a["cx"]), 2)
         (1900, 28.68)
     """
     return _rounded([(0.0, 0.0, 0.0), (b, 0.0, 0.0), (b, t, r2), (t, t, r1), (t, d, r2),
