@@ -93,6 +93,7 @@ class OpenAxis:
     tie: Lacing | Battens | None
     chord: str
     back_to_back: bool = False
+    cmax: float = 0.0      # farthest fibre of one chord from its own centroid, across the axis
 
 
 @dataclass(frozen=True)
@@ -290,8 +291,10 @@ def channels(channel: Part, gap: float, *, toes: str = "out", tie: Lacing | Batt
                              "for channels without lacing, battens or plates",
                              "give the pitch of the stitch rivets or bolts")
         ri = float(np.sqrt(own["Imin"] / own["A"]))
+        cmax = max(own["cx"], channel.b - own["cx"])
         axes = (OpenAxis(_turn_axis("weak", turned), h0, own["A"], own["Iy"], ri, a, tie,
-                         channel.name or "channel", back_to_back=gap <= 25.0 and toes == "out"),)
+                         channel.name or "channel", back_to_back=gap <= 25.0 and toes == "out",
+                         cmax=cmax),)
     return BuiltUp("channels", sec, tuple(outl), tuple(parts), connection, axes, tuple(elements),
                    closed, pitch, (note,))
 
@@ -330,10 +333,12 @@ def angles_box(angle: Part, depth: float, width: float, tie: Lacing | Battens, *
                                   f"{connection}",))
     a = tie.pitch if isinstance(tie, Lacing) else tie.spacing
     # about y the chords are the right and left pairs; about x the top and bottom pairs
+    leg_x, leg_y = outl[0].box()[2] - outl[0].box()[0], outl[0].box()[3] - outl[0].box()[1]
+    cx, cy = abs(outl[0].box()[2] - properties(outl[0])["cx"]), abs(outl[0].box()[3] - properties(outl[0])["cy"])
     about_y = OpenAxis(_turn_axis("weak", turned), 2 * abs(pr["cx"]), 2 * own["A"],
-                       2 * own["Iy"], ri, a, tie, "two angles")
+                       2 * own["Iy"], ri, a, tie, "two angles", cmax=max(cx, leg_x - cx))
     about_x = OpenAxis(_turn_axis("strong", turned), 2 * abs(pt["cy"]), 2 * own["A"],
-                       2 * own["Ix"], ri, a, tie, "two angles")
+                       2 * own["Ix"], ri, a, tie, "two angles", cmax=max(cy, leg_y - cy))
     return BuiltUp("angles-box", sec, tuple(outl), tuple(parts), connection, (about_x, about_y),
                    tuple(angle.elements()), True, None, sec.notes)
 
