@@ -312,6 +312,10 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
 def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> CodeResult:
     mat, sec = col.material, col.section
     args = (sec, Fy, mat.E, mat.G, L["strong"].Lc, L["weak"].Lc, L["twist"].Lc)
+    if col.built is not None:
+        from fieldcol.codes.builtup import check_builtup
+        return check_builtup(col.code, col.built, *args[1:], basis=col.basis,
+                             gamma_M1=col.gamma_M1)
     if col.code == "aisc360-22":
         return check_aisc360(*args, basis=col.basis)
     if col.code == "en1993-1-1":

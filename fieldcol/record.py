@@ -121,6 +121,7 @@ class ColumnInput:
     plumb: float | None = None     # mm, measured out-of-plumb over the length
     bow_axis: str = "weak"         # the axis the bow bends the column about
     bow_over: float | None = None  # mm, the length the bow was measured over (default: the span)
+    built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -155,7 +156,13 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         raise InputError("tag", tag, "the column tag must be text, e.g. B/4-L2")
     code = _choice(record.get("code", "aisc360-22"), CODES, "code")
     length = parse_length(record["length"], "length")
-    section = parse_section(record["section"])
+    spec = record["section"]
+    built = None
+    if isinstance(spec, Mapping) and "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        _section_keys(spec, "section")
+        built = parse_built(spec["built"])
+    section = built.section if built is not None else parse_section(spec)
     material = parse_material(record["material"], shape=section.kind)
     restraints = _object(record.get("restraints"), "restraints",
                          '{"strong": {..}, "weak": {..}, "twist": {..}}')
@@ -182,7 +189,8 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
-                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over)
+                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
+                       built)
 
 
 def parse_section(spec: Any, fld: str = "section") -> Section:
@@ -199,6 +207,9 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
         raise InputError(fld, spec, "give a catalogue name or an object of dimensions",
                          'e.g. "W14X90" or {"shape": "i", "d": "14 in", ...}')
     _section_keys(spec, fld)
+    if "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        return parse_built(spec["built"], f"{fld}.built").section
     if "name" in spec:
         name = spec["name"]
         if not isinstance(name, str) or not name.strip():
