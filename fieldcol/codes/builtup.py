@@ -123,6 +123,28 @@ def modified_slenderness(KLr_o: Any, a: Any, ri: Any, connection: str, Ki: float
     return np.sqrt(o**2 + ar**2)
 
 
+def chord_force(axis: OpenAxis, N: float, L: float, E: float) -> tuple[float, float, float]:
+    """EN 1993-1-1 6.4.1 (6.69)-(6.71) (from memory): the chord force at mid-length with the
+    bow e0 = L/500, (N_ch,Ed, M_Ed, V_Ed) in N, N mm, N.
+
+    M_Ed = N e0 / (1 - N/Ncr - N/Sv), Ncr = pi^2 E Ieff / L^2;
+    N_ch,Ed = 0.5 N + M_Ed h0 Ach / (2 Ieff); V_Ed = pi M_Ed / L. Infinite when N reaches the
+    shear-flexible critical load.
+
+    Example:
+        >>> ax = OpenAxis("weak", 300.0, 5000.0, 2e6, 20.0, 800.0, Lacing("single", 40, 8, 800), "c")
+        >>> round(chord_force(ax, 1.0e6, 6000.0, 210000.0)[0])
+        544595
+    """
+    Ieff, _ = effective_inertia(axis, L)
+    Ncr = np.pi**2 * E * Ieff / L**2
+    amp = 1 - N / Ncr - N / shear_stiffness(axis, E)
+    if amp <= 0:
+        return np.inf, np.inf, np.inf
+    M = N * (L / 500) / amp
+    return 0.5 * N + M * axis.h0 * axis.Ach / (2 * Ieff), M, np.pi * M / L
+
+
 def _limits_aisc(kind: str, name: str, Fy: float, E: float, web_ratio: float) -> float:
     root = np.sqrt(E / Fy)
     if kind == "leg":
@@ -380,13 +402,10 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
                           ax.tie.area * fy / gamma_M1, "N", "EN 1993-1-1 6.3.1")
 
     def ratio(N: float) -> float:
-        amp = 1 - N / Ncr - N / Sv
-        if amp <= 0:
+        Nch, M, V = chord_force(ax, N, L, E)
+        if not np.isfinite(Nch):
             return np.inf
-        M = N * e0 / amp
-        Nch = 0.5 * N + M * ax.h0 * ax.Ach / (2 * Ieff)
         worst = Nch / Nb_ch
-        V = np.pi * M / L
         if isinstance(ax.tie, Battens):
             k = 1 + 0.6 * min(lam_bar, 1.0) * (0.5 * N / Nb_ch)
             worst = max(worst, 0.5 * N / Nb_ch + k * (V * ax.a / 4) / (W * fy / gamma_M1))
