@@ -157,3 +157,35 @@ def test_bad_built_up_entries_name_their_path(change, field):
     with pytest.raises(InputError) as e:
         assess(rec)
     assert e.value.field == field
+
+
+def test_the_store_list_the_check_sheet_and_the_report_name_a_built_up_column(tmp_path):
+    import pypdf
+
+    from fieldcol.cli.cmd_check import sheet
+    from fieldcol.report import site_report
+    from fieldcol.store import Store
+
+    with Store(tmp_path / "b.db") as store:
+        site = store.add_site("Kestrel Lane Print Works", code="aisc360-22", unit_system="us")
+        col = store.add_column(site.id, BATTENED)
+        rec = store.current_record(col.id)
+        d = assess(rec).to_dict()
+        store.save_check(col.id, d, record=rec)
+        listed = store.list_columns(site.id)[0]
+        out = site_report(store, site.id, tmp_path / "r.pdf", report_date="2026-04-01")
+    assert "built-up channels" in str(listed.__dict__)
+    assert sheet(d, "us").splitlines()[1].startswith("Section built-up (channels)")
+    text = " ".join(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages).split())
+    assert "built-up section: arrangement channels, channel C12X20.7" in text
+    assert "aid to, not a substitute for, the judgement of a licensed engineer" in text
+
+
+def test_a_bow_across_the_open_axis_of_a_battened_column_is_not_covered():
+    # the chords bend apart: the I-shape beam-column rules are not used, and the column is
+    # said to be not covered rather than given a number
+    rec = {**BATTENED, "condition": {"bow": "1 in", "bow_axis": "weak"}}
+    a = assess(rec)
+    assert a.status == "not-covered" and any(w["code"] == "bow-not-checked" for w in a.warnings)
+    small = assess({**BATTENED, "condition": {"bow": "1/16 in", "bow_axis": "weak"}})
+    assert small.status == "ok"

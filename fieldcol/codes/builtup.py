@@ -230,8 +230,6 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
     """
     t = Trace()
     sec = built.section
-    for note in built.notes:
-        t.add("built", "built-up section", "", note, "", "record")
     slender = classify(built, code, Fy, E, t)
     # the components were classified above; the composite's own I-shape ratios are not meaningful
     plain = replace(sec, lam_flange=np.array(1.0), lam_web=np.array(1.0),
@@ -240,6 +238,7 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
     r = {"strong": float(sec.rx), "weak": float(sec.ry)}
     warnings: list[Warning] = []
     one = np.ones(1, dtype=bool)
+    post = Trace()          # steps that follow the code's own check of the composite
     if code == "aisc360-22":
         Lm = dict(Lc)
         worst = max(Lc[ax] / r[ax] for ax in Lc)
@@ -276,17 +275,19 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
             ax = built.open_axis(o)
             if ax is None:
                 I = float(getattr(sec, _I[o]))
-                Ncr = np.pi**2 * E * I / Lc[o]**2
-                lb = t.add(f"lb,{o}", f"slenderness, {o} axis (solid)", "sqrt(A fy / Ncr)",
+                Ncr = post.add(f"Ncr,{o}", f"elastic critical load, {o} axis (solid)",
+                               "pi^2 E I / Lc^2", np.pi**2 * E * I / Lc[o]**2, "N",
+                               "EN 1993-1-1 6.3.1.2")
+                lb = post.add(f"lb,{o}", f"slenderness, {o} axis (solid)", "sqrt(A fy / Ncr)",
                            np.sqrt(A * Fy / Ncr), "", "EN 1993-1-1 6.3.1.3")
-                chi = t.add(f"chi,{o}", f"reduction factor, {o} axis, curve c (built-up, "
+                chi = post.add(f"chi,{o}", f"reduction factor, {o} axis, curve c (built-up, "
                             "common practice)", "(6.49), alpha 0.49",
                             float(reduction_factor(lb, 0.49)), "", "EN 1993-1-1 6.3.1.2")
                 res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(lb),
                                                  np.array(Ncr), np.array(chi * Fy),
                                                  np.array(chi * A * Fy))
             else:
-                cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, t, warnings, one)
+                cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
                 res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan),
                                                  np.array(Neff), np.array(cap * gamma_M1 / A),
                                                  np.array(cap * gamma_M1))
@@ -296,24 +297,46 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
         for ax in built.open_axes:
             o = ax.axis
             Pe = np.pi**2 * E * float(getattr(sec, _I[o])) / Lc[o]**2
-            Sv = t.add(f"Sv,{o}", f"shear stiffness of the {_tie_name(ax)}, {o} axis",
+            Sv = post.add(f"Sv,{o}", f"shear stiffness of the {_tie_name(ax)}, {o} axis",
                        _sv_formula(ax), shear_stiffness(ax, E), "N", _sv_clause(ax))
-            Pcr = t.add(f"Pcr,{o}", f"elastic buckling load with shear flexibility, {o} axis",
+            Pcr = post.add(f"Pcr,{o}", f"elastic buckling load with shear flexibility, {o} axis",
                         "1 / (1/Pe + 1/Sv) (Engesser)", 1 / (1 / Pe + 1 / Sv), "N",
                         "elastic stability (Engesser)")
             A = float(sec.A)
-            Fcr = min(Pcr / A, Fy)
+            Fcr = post.add(f"Fcr,{o}", f"critical stress, {o} axis", "min(Pcr / A, Fy)",
+                           min(Pcr / A, Fy), "MPa", "elastic stability")
+            post.add(f"Pn,{o}", f"strength, {o} axis", "Fcr A", Fcr * A, "N", "elastic stability")
             res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]),
                                              np.array(Lc[o] / r[o]), np.array(Pcr),
                                              np.array(Fcr), np.array(Fcr * A))
         factor, clause = 1.0, "elastic stability"
-    t.extend(res.trace)
+    t.steps.extend(st for st in res.trace.steps if not _replaced(st.symbol, code, {o.axis for o in built.open_axes}))
+    t.extend(post)
     res.trace = t
     res = _rechoose(res, built, factor, clause)
     res.warnings.extend(warnings)
     if slender:
         res = _not_covered(res, ())
     return res
+
+
+_AISC_LOCAL = {"kc", "lr,flange", "lr,web", "slender,flange", "slender,web"}
+_EN_LOCAL = {"eps", "class,flange", "class,web", "class", "Aeff", "curve,y", "curve,z"}
+_EN_FLEX = ("Ncr", "alpha", "lb", "Phi", "chi", "ignore", "Nb")
+
+
+def _replaced(symbol: str, code: str, opened: set[str]) -> bool:
+    """Steps of the code's own check that the built-up rules replace: its classification of
+    the composite as one I shape, its choice of the governing mode, and (EN) its flexural
+    modes, which the built-up check computes again with curve c and 6.4."""
+    if symbol in ("Pn", "mode", "phiPn", "Pn/Omega", "Nb,Rd", "Pd"):
+        return True
+    if code == "aisc360-22":
+        return symbol in _AISC_LOCAL
+    head, _, axis = symbol.partition(",")
+    if code == "en1993-1-1":
+        return symbol in _EN_LOCAL or (head in _EN_FLEX and axis in ("strong", "weak"))
+    return symbol == "P" or (head in ("Pcr", "Fcr", "Pn") and axis in opened)
 
 
 def _tie_name(ax: OpenAxis) -> str:
