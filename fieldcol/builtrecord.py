@@ -11,7 +11,7 @@ from typing import Any, Mapping
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import check_keys
 from fieldcol.sections._builtup import (ARRANGEMENTS, CONNECTIONS, LACING_KINDS, Battens, BuiltUp,
-                                        Lacing, angles_box, angles_web, channels)
+                                        Lacing, angles_box, angles_star, angles_web, channels)
 from fieldcol.sections._parts import Part, catalogue_part, measured
 
 
@@ -89,6 +89,14 @@ def _plates(spec: Mapping[str, Any], key: str, fld: str) -> tuple[float, float] 
     return _len(p, "width", f"{fld}.{key}"), _len(p, "thickness", f"{fld}.{key}")
 
 
+# the keys each arrangement reads: any other is refused, never silently left out
+_COMMON = ("arrangement", "connection")
+USED = {"angles-web": _COMMON + ("angle", "web", "flange_plates", "long_leg", "pitch"),
+        "channels": _COMMON + ("channel", "gap", "toes", "lacing", "battens", "plates", "pitch"),
+        "angles-box": _COMMON + ("angle", "depth", "width", "lacing", "battens"),
+        "angles-star": _COMMON + ("angle", "gap", "pitch")}
+
+
 def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:
     """A built-up section from its record object.
 
@@ -105,19 +113,23 @@ def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:
     if not arr:
         raise InputError(f"{fld}.arrangement", "", "required", "one of " + ", ".join(ARRANGEMENTS))
     conn = _choice(spec.get("connection"), CONNECTIONS, f"{fld}.connection", "riveted")
-    tie = _tie(spec, fld)
+    for key in spec:
+        if key not in USED[arr] and spec.get(key) is not None:
+            raise InputError(f"{fld}.{key}", key, f"not used by {arr}",
+                             f"{arr} takes " + ", ".join(USED[arr]))
+    if arr == "angles-star":
+        return angles_star(_part(spec.get("angle"), "angle", f"{fld}.angle"),
+                           _len(spec, "gap", fld), _len(spec, "pitch", fld), connection=conn,
+                           field=fld)
     if arr == "angles-web":
         web = _obj(spec.get("web") or {}, f"{fld}.web", "web plate")
-        for key in ("gap", "toes", "depth", "width", "plates", "channel", "lacing", "battens"):
-            if spec.get(key) is not None:
-                raise InputError(f"{fld}.{key}", key, "not used by angles-web",
-                                 "angles-web takes angle, web, flange_plates, long_leg, pitch")
         return angles_web(_part(spec.get("angle"), "angle", f"{fld}.angle"),
                           _len(web, "depth", f"{fld}.web"), _len(web, "thickness", f"{fld}.web"),
                           flange_plates=_plates(spec, "flange_plates", fld), connection=conn,
                           long_leg=_choice(spec.get("long_leg"), ("flange", "web"),
                                            f"{fld}.long_leg", "flange"),
                           pitch=_len(spec, "pitch", fld, required=False), field=fld)
+    tie = _tie(spec, fld)
     if arr == "channels":
         return channels(_part(spec.get("channel"), "channel", f"{fld}.channel"),
                         _len(spec, "gap", fld),

@@ -189,3 +189,26 @@ def test_a_bow_across_the_open_axis_of_a_battened_column_is_not_covered():
     assert a.status == "not-covered" and any(w["code"] == "bow-not-checked" for w in a.warnings)
     small = assess({**BATTENED, "condition": {"bow": "1/16 in", "bow_axis": "weak"}})
     assert small.status == "ok"
+
+
+def test_a_star_of_angles_is_checked_with_torsion_in_play():
+    # a cross of thin legs has no warping stiffness: torsional buckling is a real mode (E4),
+    # not set aside as for a laced column
+    rec = {"tag": "S/1", "length": "10 ft", "material": "A36",
+           "section": {"built": {"arrangement": "angles-star", "angle": "L3X3X3/8",
+                                 "gap": "3/8 in", "pitch": "30 in"}}}
+    a = assess(rec)
+    assert a.column.built.arrangement == "angles-star"
+    modes = a.result.modes
+    assert float(a.result.nominal) == pytest.approx(min(float(m.Pn) for m in modes.values()))
+    with pytest.raises(InputError) as e:
+        assess({**rec, "section": {"built": {**rec["section"]["built"], "battens": {}}}})
+    assert e.value.field == "section.built.battens"
+
+
+def test_a_key_another_arrangement_reads_is_refused_not_ignored():
+    rec = {**BATTENED, "section": {"built": {**BATTENED["section"]["built"],
+                                             "depth": "20 in"}}}
+    with pytest.raises(InputError) as e:
+        assess(rec)
+    assert e.value.field == "section.built.depth" and "not used by channels" in str(e.value)

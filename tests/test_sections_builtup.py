@@ -140,3 +140,18 @@ def test_bad_parts_and_arrangements_name_their_field():
     with pytest.raises(InputError) as e:
         channels(Part("channel", 300, 100, 16, 10), 200)
     assert e.value.field == "section.built.pitch"
+
+
+def test_four_angles_in_a_star_match_the_fe_analysis_and_have_no_warping():
+    from fieldcol.sections._builtup import angles_star
+
+    ang = catalogue_part("L3X3X3/8", "section.built.angle")       # AISC v15.0 row
+    g = 10.0
+    b = angles_star(ang, g, 760.0)
+    parts = [_angle(ang, sx, sy, sx * g / 2, sy * g / 2) for sx in (1, -1) for sy in (1, -1)]
+    _close(b.section, _fe(parts))
+    assert float(b.section.Cw) == 0.0 and not b.closed
+    assert {o.axis for o in b.open_axes} == {"strong", "weak"}
+    with pytest.raises(InputError) as e:
+        angles_star(catalogue_part("L4X3X3/8", "a"), g, 760.0)
+    assert e.value.field == "section.built.angle"

@@ -8,6 +8,9 @@ Arrangements (``arrangement``):
     then solid).
   * ``angles-box``: four angles at the corners of a rectangle, toes in, laced or battened on
     every face (both axes open).
+  * ``angles-star``: four equal angles heel to heel in a cross (a star), back to back on
+    packing plates of thickness ``gap``, joined by those packings at a ``pitch`` (both axes
+    open; the parts stand apart only by the packing).
 
 Properties come from the parts' outlines (``_outline.properties``), placed and summed: A, I,
 r exact for the idealised outline; J as each part's thin rectangles (riveted parts twist
@@ -34,7 +37,7 @@ from fieldcol.sections._outline import Outline, plate, properties
 from fieldcol.sections._parts import Part
 from fieldcol.sections._section import Section
 
-ARRANGEMENTS = ("angles-web", "channels", "angles-box")
+ARRANGEMENTS = ("angles-web", "channels", "angles-box", "angles-star")
 CONNECTIONS = ("riveted", "bolted", "welded")
 LACING_KINDS = ("single", "double", "posts")
 
@@ -142,7 +145,7 @@ def _channel_at(part: Part, toward: int, x_back: float) -> Outline:
 
 def _section(outlines: list[Outline], parts: list[Part], *, J: float, ho: float | None,
              closed: bool, elements: list[tuple[str, float, str]], tmax: float, tmin: float,
-             notes: tuple[str, ...]) -> tuple[Section, bool]:
+             notes: tuple[str, ...], warping: bool = True) -> tuple[Section, bool]:
     """The composite Section (and whether it was turned a quarter to make x the strong axis)."""
     p = properties(outlines)
     turned = p["Iy"] > p["Ix"] * (1 + 1e-9)
@@ -156,7 +159,8 @@ def _section(outlines: list[Outline], parts: list[Part], *, J: float, ho: float 
     cy, cx = (xmax, ymax) if turned else (ymax, xmax)
     A = p["A"]
     hoo = ho if ho is not None else d
-    Cw = 0.0 if closed else Iy * hoo**2 / 4
+    # a cross of thin legs meeting at one line has (nearly) no warping stiffness
+    Cw = 0.0 if closed or not warping else Iy * hoo**2 / 4
     out = {"outstand": 0.0, "leg": 0.0, "internal": 0.0, "stem": 0.0}
     for _n, ratio, kind in elements:
         out[kind] = max(out[kind], ratio)
@@ -280,8 +284,9 @@ def channels(channel: Part, gap: float, *, toes: str = "out", tie: Lacing | Batt
             + ("cover plates" if plates else
                "laced" if isinstance(tie, Lacing) else "battened" if isinstance(tie, Battens)
                else "stitched") + f", {connection}")
-    sec, turned = _section(outl, parts, J=J, ho=None, closed=closed, elements=elements,
-                           tmax=tmax, tmin=tmin, notes=(note,))
+    # back to back, the two channels warp as an I of depth d - tf
+    sec, turned = _section(outl, parts, J=J, ho=channel.d - channel.tf, closed=closed,
+                           elements=elements, tmax=tmax, tmin=tmin, notes=(note,))
     axes = ()
     if plates is None:
         a = tie.pitch if isinstance(tie, Lacing) else tie.spacing if isinstance(tie, Battens) \
@@ -341,6 +346,49 @@ def angles_box(angle: Part, depth: float, width: float, tie: Lacing | Battens, *
                        2 * own["Ix"], ri, a, tie, "two angles", cmax=max(cy, leg_y - cy))
     return BuiltUp("angles-box", sec, tuple(outl), tuple(parts), connection, (about_x, about_y),
                    tuple(angle.elements()), True, None, sec.notes)
+
+
+def angles_star(angle: Part, gap: float, pitch: float, *, connection: str = "riveted",
+                field: str = "section.built") -> BuiltUp:
+    """Four angles heel to heel in a cross, their backs ``gap`` apart (the packing plates),
+    joined by the packings every ``pitch`` (mm).
+
+    Example:
+        >>> from fieldcol.sections._parts import Part
+        >>> b = angles_star(Part("angle", 100, 100, 10, 10), 10, 600)
+        >>> round(float(b.section.Ix) / float(b.section.Iy), 6)
+        1.0
+    """
+    if abs(angle.d - angle.b) > 1e-9:
+        raise InputError(f"{field}.angle", angle.name or f"{angle.d:g} x {angle.b:g} mm",
+                         "a star is made of equal angles", "give an equal-leg angle")
+    if gap < 0:
+        raise InputError(f"{field}.gap", f"{gap:g} mm", "must be zero or more", None)
+    if pitch is None or pitch <= 0:
+        raise InputError(f"{field}.pitch", "", "the spacing of the packing plates is needed",
+                         "give the pitch of the packings along the column")
+    outl = [_angle_at(angle, sx, sy, sx * gap / 2, sy * gap / 2, True)
+            for sx in (1, -1) for sy in (1, -1)]
+    parts = [angle] * 4
+    own = angle.own()
+    ri = float(np.sqrt(own["Imin"] / own["A"]))
+    pr = properties([outl[0], outl[1]])          # the pair on the right of the y axis
+    pt = properties([outl[0], outl[2]])          # the pair above the x axis
+    sec, turned = _section(outl, parts, J=sum(p.J for p in parts), ho=None, closed=False,
+                           elements=list(angle.elements()), tmax=angle.tf, tmin=angle.tf,
+                           warping=False,
+                           notes=(f"four angles {angle.name or 'measured'} in a star, "
+                                  f"{gap:.0f} mm packings every {pitch:.0f} mm, {connection}",))
+    leg = angle.b
+    cx = properties(outl[0])["cx"] - gap / 2
+    about_y = OpenAxis(_turn_axis("weak", turned), 2 * abs(pr["cx"]), 2 * own["A"],
+                       2 * own["Iy"], ri, pitch, None, "two angles", back_to_back=True,
+                       cmax=max(cx, leg - cx))
+    about_x = OpenAxis(_turn_axis("strong", turned), 2 * abs(pt["cy"]), 2 * own["A"],
+                       2 * own["Ix"], ri, pitch, None, "two angles", back_to_back=True,
+                       cmax=max(cx, leg - cx))
+    return BuiltUp("angles-star", sec, tuple(outl), tuple(parts), connection,
+                   (about_x, about_y), tuple(angle.elements()), False, pitch, sec.notes)
 
 
 def with_notes(b: BuiltUp, *more: str) -> BuiltUp:

@@ -27,11 +27,12 @@ if TYPE_CHECKING:
     from fieldcol.store import Store
 
 ARRANGEMENTS = [("channels", "Two channels"), ("angles-web", "Angles and web plate"),
-                ("angles-box", "Four angles")]
+                ("angles-box", "Four angles"), ("angles-star", "Angles in a star")]
 TIES = {"channels": [("battens", "Battens"), ("lacing", "Lacing"), ("plates", "Cover plates"),
                      ("stitch", "Rivets only")],
         "angles-web": [("none", "No flange plates"), ("flange_plates", "Flange plates")],
-        "angles-box": [("battens", "Battens"), ("lacing", "Lacing")]}
+        "angles-box": [("battens", "Battens"), ("lacing", "Lacing")],
+        "angles-star": [("packings", "Packings")]}
 CONNECTIONS = [("riveted", "Riveted"), ("bolted", "Bolted"), ("welded", "Welded")]
 
 
@@ -56,6 +57,9 @@ _BASE = {
                    Entry("web.thickness", "Web plate thickness")],
     "angles-box": [Entry("angle", "Angle", "part", _PART_HINT["angle"]),
                    Entry("depth", "Depth out to out"), Entry("width", "Width out to out")],
+    "angles-star": [Entry("angle", "Angle", "part", "an equal angle, e.g. L3X3X3/8"),
+                    Entry("gap", "Packing thickness", hint="between the angles' backs"),
+                    Entry("pitch", "Packing pitch", hint="along the column")],
 }
 _TIE = {
     "battens": [Entry("battens.spacing", "Batten spacing", hint="centre to centre"),
@@ -79,6 +83,8 @@ MEASURE = {
                   "thickness, and the flange plates if there are any.",
     "angles-box": "Measure one angle and the outside size of the box, then the battens or the "
                   "lacing on one face.",
+    "angles-star": "Measure one angle, the packing between the backs and the spacing of the "
+                   "packings along the column.",
 }
 
 
