@@ -127,6 +127,7 @@ class ColumnInput:
     band: "LossBand | None" = None  # section loss over a band of height (the member stays gross)
     knowledge: float = 1.0         # knowledge factor on every capacity (1.0: not applied)
     knowledge_label: str = "not given"
+    built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
 
 
 @dataclass(frozen=True)
@@ -182,7 +183,13 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         raise InputError("tag", tag, "the column tag must be text, e.g. B/4-L2")
     code = _choice(record.get("code", "aisc360-22"), CODES, "code")
     length = parse_length(record["length"], "length")
-    section = parse_section(record["section"])
+    spec = record["section"]
+    built = None
+    if isinstance(spec, Mapping) and "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        _section_keys(spec, "section")
+        built = parse_built(spec["built"])
+    section = built.section if built is not None else parse_section(spec)
     material = parse_material(record["material"], shape=section.kind)
     restraints = _object(record.get("restraints"), "restraints",
                          '{"strong": {..}, "weak": {..}, "twist": {..}}')
@@ -213,7 +220,7 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
                        code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
-                       plumb_axis, band, kappa, kappa_label)
+                       plumb_axis, band, kappa, kappa_label, built)
 
 
 #: Knowledge settings of the kind used in existing-building assessment (ASCE 41 data collection
@@ -284,6 +291,9 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         raise InputError(fld, spec, "give a catalogue name or an object of dimensions",
                          'e.g. "W14X90" or {"shape": "i", "d": "14 in", ...}')
     _section_keys(spec, fld)
+    if "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        return parse_built(spec["built"], f"{fld}.built").section
     if "name" in spec:
         name = spec["name"]
         if not isinstance(name, str) or not name.strip():

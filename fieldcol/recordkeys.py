@@ -26,6 +26,16 @@ KEYS: dict[str, tuple[str, ...]] = {
     "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
     "section of shape rect": ("shape", "d", "b", "t", "r", *_SECTION_COMMON),
     "section of shape round": ("shape", "D", "t", *_SECTION_COMMON),
+    "section built up": ("built",),
+    "built-up section": ("arrangement", "connection", "angle", "channel", "web", "flange_plates",
+                         "long_leg", "pitch", "gap", "toes", "plates", "depth", "width", "lacing",
+                         "battens"),
+    "measured angle": ("d", "b", "t", "r1", "r2"),
+    "measured channel": ("d", "bf", "tf", "tw", "r1", "r2", "slope"),
+    "plate": ("width", "thickness"),
+    "web plate": ("depth", "thickness"),
+    "lacing": ("kind", "width", "thickness", "pitch", "planes"),
+    "battens": ("spacing", "depth", "thickness", "planes"),
     "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
     "cover plates": ("thickness", "width"),
     "material by grade": ("grade", "Fy"),
@@ -138,6 +148,10 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
 def _section_keys(spec: Mapping[str, Any], fld: str) -> None:
     """The keys of a section object: by name, or of its shape (every shape's while the shape
     itself is not readable, so a mistyped ``shape`` or ``name`` is named as such)."""
+    if "built" in spec:
+        check_keys(spec, "section built up", fld)
+        _built_keys(spec["built"], f"{fld}.built")
+        return
     if "name" in spec:
         check_keys(spec, "section by name", fld)
         return
@@ -149,6 +163,17 @@ def _section_keys(spec: Mapping[str, Any], fld: str) -> None:
         every = tuple(dict.fromkeys(k for obj, keys in KEYS.items()
                                     if obj.startswith(("section by", "section of")) for k in keys))
         _known_only(spec, every, "section", fld)
+
+
+def _built_keys(spec: Any, fld: str) -> None:
+    if not isinstance(spec, Mapping):
+        return
+    check_keys(spec, "built-up section", fld)
+    for key, table in (("angle", "measured angle"), ("channel", "measured channel"),
+                       ("web", "web plate"), ("flange_plates", "plate"), ("plates", "plate"),
+                       ("lacing", "lacing"), ("battens", "battens")):
+        if isinstance(spec.get(key), Mapping):
+            check_keys(spec[key], table, f"{fld}.{key}")
 
 
 def _material_keys(spec: Mapping[str, Any], fld: str) -> None:

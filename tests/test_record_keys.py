@@ -62,7 +62,30 @@ RECT = {"tag": "R1", "length": "12 ft", "material": "A500 Gr B",
                     "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in"}}}
 ROUND = {"tag": "P1", "length": "12 ft", "material": "A500 Gr B",
          "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in"}}
-BASES = [CATALOGUE, MEASURED_I, RECT, ROUND]
+BUILT = [
+    {"tag": "K/7", "length": "18 ft", "material": "A7",
+     "section": {"built": {"arrangement": "channels", "connection": "riveted",
+                           "channel": {"d": "12 in", "bf": "3 in", "tf": "1/2 in", "tw": "5/16 in",
+                                       "r1": "0.4 in", "r2": "0 in", "slope": 0.1667},
+                           "gap": "6 in", "toes": "out", "pitch": "24 in",
+                           "lacing": {"kind": "single", "width": "2 in", "thickness": "3/8 in",
+                                      "pitch": "16 in", "planes": 2}}}},
+    {"tag": "K/8", "length": "18 ft", "material": "A7",
+     "section": {"built": {"arrangement": "channels", "channel": "C10X15.3", "gap": "5 in",
+                           "plates": {"width": "14 in", "thickness": "3/8 in"}}}},
+    {"tag": "K/9", "length": "5 m", "material": "S235", "code": "en1993-1-1",
+     "section": {"built": {"arrangement": "angles-box",
+                           "angle": {"d": "90 mm", "b": "90 mm", "t": "9 mm", "r1": "11 mm",
+                                     "r2": "0 mm"},
+                           "depth": "420 mm", "width": "300 mm",
+                           "battens": {"spacing": "600 mm", "depth": "180 mm",
+                                       "thickness": "8 mm", "planes": 2}}}},
+    {"tag": "K/10", "length": "16 ft", "material": "A7",
+     "section": {"built": {"arrangement": "angles-web", "angle": "L4X4X1/2", "long_leg": "flange",
+                           "web": {"depth": "14 in", "thickness": "3/8 in"},
+                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"}}}},
+]
+BASES = [CATALOGUE, MEASURED_I, RECT, ROUND, *BUILT]
 
 
 def _keys(node, path=""):

@@ -71,12 +71,18 @@ def show(q: dict | None, system: str, digits: int = 4) -> str:
     return f"{v:.{digits}g}" if isinstance(v, float) else str(v)
 
 
+def _built_or_measured(section: dict) -> str:
+    if section.get("built"):
+        return f"built-up ({section['built']})"
+    return "measured " + section["kind"]
+
+
 def sheet(d: dict, system: str) -> str:
     """The calculation sheet of an assessment's JSON form."""
     from fieldcol import CAUTION
 
     out = [f"Column {d['tag']}  -  {d['edition']} ({d['basis']}), K basis: {d['k_basis']}",
-           f"Section {d['section']['name'] or 'measured ' + d['section']['kind']}, "
+           f"Section {d['section']['name'] or _built_or_measured(d['section'])}, "
            f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}",
            f"fieldcol {d['app_version']}", ""]
     out += ["Input"] + [f"  {line}" for line in _input_lines(d["input"])] + ["", "Calculation"]

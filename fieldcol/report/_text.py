@@ -176,6 +176,8 @@ def section_text(section: Any) -> str:
         return value_text(section)
     shape = {"i": "I section", "rect": "rectangular hollow section",
              "round": "round hollow section"}.get(str(section.get("shape")), "section")
+    if isinstance(section.get("built"), dict):
+        return "built-up section: " + value_text(section["built"])
     head = str(section["name"]) if section.get("name") else f"measured {shape}"
     dims = [f"{k} {value_text(v)}" for k, v in section.items()
             if k not in ("name", "shape", "loss", "plates", "welded")]

@@ -31,6 +31,9 @@ def section_label(section: Any) -> str | None:
     if section is None or isinstance(section, str):
         return section
     if isinstance(section, dict):
+        built = section.get("built")
+        if isinstance(built, dict):
+            return f"built-up {built.get('arrangement', '?')}"
         base = section.get("name") or f"measured {section.get('shape', '?')}"
         return f"{base} with loss" if section.get("loss") else str(base)
     return str(section)
