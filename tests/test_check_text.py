@@ -72,3 +72,22 @@ def test_stored_column_checked_as_it_stands(demo_db, capsys):
 def test_bad_requests_name_the_field(demo_db, argv, field, capsys):
     assert main(argv + ["--db", demo_db]) == 2
     assert capsys.readouterr().err.startswith(f"error: {field}")
+
+
+def test_a_named_command_builds_only_its_own_parser_and_the_same_one():
+    import argparse
+
+    from fieldcol.cli import _named_command, build_parser
+
+    def subs(parser):
+        return next(a for a in parser._actions
+                    if isinstance(a, argparse._SubParsersAction)).choices
+
+    every = subs(build_parser())
+    for name, full in every.items():
+        assert _named_command([name, "x"]) == name
+        alone = subs(build_parser(name))
+        assert list(alone) == [name]
+        assert alone[name].format_help() == full.format_help()
+    assert _named_command(["--db", "x", "check"]) is None  # options first: the full parser
+    assert _named_command(["../check"]) is None and _named_command(["nope"]) is None

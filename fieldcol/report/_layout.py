@@ -54,6 +54,8 @@ class ReportPDF(FPDF):
         self.site_name, self.report_date, self.caution = site_name, report_date, caution
         self._widths: dict[tuple[str, float, str], float] = {}
         self.missing: set[str] = set()
+        self.memo: dict[str, object] = {}   # pictures of records seen before in this report
+        self._wrapped: dict[tuple[str, float, float, str], list[str]] = {}
         fonts = ASSETS / "fonts"
         self.add_font(FONT, "", str(fonts / "DejaVuSans.ttf"))
         self.add_font(FONT, "B", str(fonts / "DejaVuSans-Bold.ttf"))
@@ -266,8 +268,7 @@ class ReportPDF(FPDF):
         bold_set = set(bold_rows)
 
         def cells(row: Sequence[str], style: str) -> list[list[str]]:
-            self.set_font(FONT, style, size)
-            return [self.wrap(str(c), w - 2 * PAD_X) for c, w in zip(row, ws)]
+            return [self.wrap_cell(str(c), w, style, size) for c, w in zip(row, ws)]
 
         def draw(lines: list[list[str]], styles: Sequence[str], top: float, n: int,
                  first: int, fill: tuple[int, int, int] | None) -> float:
@@ -277,7 +278,7 @@ class ReportPDF(FPDF):
                 self.rect(x0, top, full, h, style="F")
             cx = x0
             for col, (cl, w) in enumerate(zip(lines, ws)):
-                self.set_font(FONT, styles[col], size)
+                self.font(styles[col], size)
                 self.lines_at(cx + PAD_X, top + pad, cl[first:first + n], lh)
                 cx += w
             return h
@@ -387,9 +388,22 @@ class ReportPDF(FPDF):
                 self.add_page()
 
     def wrap_cell(self, text: str, width: float, style: str, size: float) -> list[str]:
-        """A cell's text wrapped to its width less the padding, in ``style`` and ``size``."""
-        self.set_font(FONT, style, size)
-        return self.wrap(text, width - 2 * PAD_X)
+        """A cell's text wrapped to its width less the padding, in ``style`` and ``size``
+        (kept: a table is measured before it is drawn)."""
+        key = (style, size, round(width, 3), text)
+        lines = self._wrapped.get(key)
+        if lines is None:
+            self.font(style, size)
+            lines = self._wrapped[key] = self.wrap(text, width - 2 * PAD_X)
+            if len(self._wrapped) > 20000:  # a long report: keep the cache bounded
+                self._wrapped.clear()
+        return lines
+
+    def font(self, style: str, size: float) -> None:
+        """``set_font`` of the report's family, skipped when nothing changes (it is called for
+        every cell)."""
+        if self.font_style != style or self.font_size_pt != size or self.font_family != FONT.lower():
+            self.set_font(FONT, style, size)
 
     def photos(self, cells: Sequence[PhotoCell], *, per_row: int = 4,
                max_height: float = 44.0) -> None:

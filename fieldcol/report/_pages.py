@@ -3,6 +3,7 @@ per column, the photo grid."""
 
 from __future__ import annotations
 
+import json
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
@@ -286,7 +287,12 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     y0, page0 = pdf.get_y(), pdf.page
     left_w = pdf.epw - RIGHT_W - 4
     rx = pdf.l_margin + left_w + 4
-    used = _drawings.sketch(pdf, sketch(rec, system), rx, y0, RIGHT_W, 56)
+    # columns of one type share their side view: work it out once per record (tag aside)
+    key = "sketch " + json.dumps({k: v for k, v in rec.items() if k != "tag"},
+                                 sort_keys=True, default=str)
+    if key not in pdf.memo:
+        pdf.memo[key] = sketch(rec, system)
+    used = _drawings.sketch(pdf, pdf.memo[key], rx, y0, RIGHT_W, 56)
     used += _drawings.curve(pdf, summ.chart if summ else None, rx, y0 + used + 2, RIGHT_W, 44)
     right_end = y0 + used + 2
     pdf.set_y(y0)
