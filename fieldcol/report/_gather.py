@@ -143,9 +143,13 @@ def _number_photos(data: SiteData) -> None:
             data.photo_refs[p.id] = f"P{len(data.photos) + 1}"
             data.photos.append((data.photo_refs[p.id], p, what, where))
 
+    from fieldcol.store._schema import FACE_WORDS
+
     for f in data.findings:
-        where = (f"column {data.tags_by_id.get(f.column_id, '?')}" if f.column_id
-                 else "whole site")
+        where = ", ".join([f"column {data.tags_by_id.get(f.column_id, '?')}" if f.column_id
+                           else "whole site"]
+                          + ([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                          + ([f"{f.height} up"] if f.height else []))
         for p in data.finding_photos.get(f.id, []):
             add(p, f"{data.finding_refs[f.id]} {f.category}", where)
     for c in data.columns:

@@ -337,10 +337,12 @@ class ReportPDF(FPDF):
                 * lh + 2 * pad for r in rows]
 
     def table_flow(self, headings: Sequence[str], rows: Sequence[Sequence[str]],
-                   widths: Sequence[float], *, size: float = TABLE_PT, gap: float = 4.0) -> None:
+                   widths: Sequence[float], *, size: float = TABLE_PT, gap: float = 4.0,
+                   continued: str = "") -> None:
         """A long table flowed in two columns down the page, as a newspaper does: the space
         left on this page first (left column, then right), then the next page; the last part
-        is balanced between the two columns.
+        is balanced between the two columns. ``continued`` heads each further page (e.g.
+        "Calculation trace of C/3-G, continued"), so rows carried over say what they belong to.
 
         Example: ``pdf.table_flow(["Symbol", "Value", "What"], rows, (1, 1, 4), size=6)``.
         """
@@ -386,6 +388,9 @@ class ReportPDF(FPDF):
             i = end
             if i < n:
                 self.add_page()
+                if continued:
+                    self.write_block(continued, size=8, bold=True)
+                    self.ln(0.8)
 
     def wrap_cell(self, text: str, width: float, style: str, size: float) -> list[str]:
         """A cell's text wrapped to its width less the padding, in ``style`` and ``size``

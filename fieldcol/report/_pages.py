@@ -240,7 +240,7 @@ def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
         marked = f"; marked: {_marks_words(p.markup)}" if p.markup else ""
-        who = f"; by {p.created_by}" if p.created_by else ""
+        who = f", by {p.created_by}" if p.created_by else ", by: not recorded"
         name = p.original_name or p.sha256[:12]
         cells.append(PhotoCell(path if path.is_file() else None,
                                f"{ref}  {what}, {where}{marked}. {name}, "
@@ -326,7 +326,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
-    _trace(pdf, summ)
+    _trace(pdf, summ, col.tag)
     _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
     if c.retrofits:
@@ -396,7 +396,7 @@ def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
              for name, m in (d.get("modes") or {}).items()]
     gov = [i for i, name in enumerate(d.get("modes") or {}) if name == d.get("governing_mode")]
     pdf.table(["Mode", "Eff. length", "Slenderness", "Crit. stress",
-               "Nominal"], mrows, (40, 19, 19, 20, 20), bold_rows=gov, size=6.8,
+               "Nominal"], mrows, (36, 19, 22, 20, 20), bold_rows=gov, size=6.8,
               width=width)
 
 
@@ -409,7 +409,7 @@ def _warnings(pdf: ReportPDF, c: "ColumnData") -> None:
                          for w in warnings], (14, 156), size=7.0)
 
 
-def _trace(pdf: ReportPDF, summ: Any) -> None:
+def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
     if summ is None or not summ.trace:
         return
     rows = []
@@ -424,7 +424,8 @@ def _trace(pdf: ReportPDF, summ: Any) -> None:
             what, value = f"{what}: {value}", "(text)"  # long text reads better in the wide column
         rows.append([t.symbol, value, f"{what} [{t.clause}]" if t.clause else what])
     pdf.heading("Calculation trace", 3, keep=30)
-    pdf.table_flow(["Symbol", "Value", "What [clause]"], rows, (13, 16, 61), size=5.8)
+    pdf.table_flow(["Symbol", "Value", "What [clause]"], rows, (13, 16, 61), size=5.8,
+                   continued=f"Calculation trace of column {tag}, continued")
 
 
 def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> None:
