@@ -144,7 +144,7 @@ def curve(pdf: ReportPDF, ch: "Chart | None", x: float, y: float, w: float, h: f
         pdf.text(x, y + 6, "not drawn: no column curve for this check")
         pdf.set_text_color(*INK)
         return 9.0
-    px, py, pw, ph = x + 9.0, y + 5.0, w - 11.0, h - 13.0
+    px, py, pw, ph = x + 9.0, y + 7.5, w - 11.0, h - 18.0
     sx = lambda v: px + pw * min(v, ch.x_max) / ch.x_max  # noqa: E731
     sy = lambda v: py + ph - ph * min(v, ch.stress_max) / ch.stress_max  # noqa: E731
     pdf.set_draw_color(*GREY)
@@ -167,14 +167,15 @@ def curve(pdf: ReportPDF, ch: "Chart | None", x: float, y: float, w: float, h: f
         lab = f"{t:g}"
         pdf.text(px - 1.2 - pdf.width_of(lab), sy(t) + 0.8, lab)
         t += step
-    pdf.text(px + pw - pdf.width_of(ch.x_name), py + ph + 5.6, ch.x_name)
-    pdf.text(px + 1, py + 1.6, f"{ch.stress_name} ({ch.stress_unit})")
+    pdf.text(px + (pw - pdf.width_of(ch.x_name)) / 2, py + ph + 5.4, ch.x_name)
+    pdf.text(px - 1.0, py - 1.4, f"{ch.stress_name} ({ch.stress_unit})")
     for k, (label, pts) in enumerate(ch.curves):
         pdf.set_draw_color(*(SHAPE if k == 0 else GREY))
         pdf.set_line_width(0.4)
         pdf.polyline([(sx(a), sy(b)) for a, b in pts if a <= ch.x_max])
     pdf.set_line_width(0.2)
-    for p in ch.points:
+    placed: list[tuple[float, float, float, float]] = []
+    for p in sorted(ch.points, key=lambda q: q.x):
         cx, cy = sx(p.x), sy(p.stress)
         pdf.set_draw_color(*(ACCENT if p.governs else INK))
         pdf.set_fill_color(*(ACCENT if p.governs else (255, 255, 255)))
@@ -182,11 +183,20 @@ def curve(pdf: ReportPDF, ch: "Chart | None", x: float, y: float, w: float, h: f
         _small(pdf, 5.4, p.governs)
         pdf.set_text_color(*(ACCENT if p.governs else INK))
         text = p.label + (" governs" if p.governs else "")
-        tx = cx + 1.4 if cx + 1.4 + pdf.width_of(text) < px + pw else cx - 1.4 - pdf.width_of(text)
-        pdf.text(tx, cy - 1.0, text)
+        tw = pdf.width_of(text)
+        tx = cx + 1.4 if cx + 1.4 + tw < px + pw else cx - 1.4 - tw
+        ty = cy - 1.0
+        # points close together: step a label down until it clears the ones already placed
+        for _ in range(6):
+            if not any(tx < x1 and x0 < tx + tw and ty - 2.0 < y1 and y0 < ty
+                       for x0, y0, x1, y1 in placed):
+                break
+            ty += 2.2
+        placed.append((tx, ty - 2.0, tx + tw, ty))
+        pdf.text(tx, ty, text)
     pdf.set_text_color(*GREY)
     _small(pdf, 5.2)
-    pdf.lines_at(x, y + h - 4.2, pdf.wrap(ch.caption, w)[:2], 2.1)
+    pdf.lines_at(x, py + ph + 6.2, pdf.wrap(ch.caption, w)[:2], 2.1)
     pdf.set_text_color(*INK)
     pdf.set_draw_color(*RULE)
     pdf.set_fill_color(255, 255, 255)
