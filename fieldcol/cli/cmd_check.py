@@ -1,5 +1,6 @@
-"""``fieldcol check COLUMN.json [--samples N]``: the capacity of one column record, as a calculation
-sheet, and with ``--samples`` its spread from what is uncertain."""
+"""``fieldcol check COLUMN.json`` (or ``--db --site --column``): the capacity of one column
+record, as a calculation sheet, plain text or JSON, and with ``--samples`` its spread from what
+is uncertain."""
 
 from __future__ import annotations
 
@@ -14,11 +15,19 @@ _KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": 
 
 
 def register(sub: argparse._SubParsersAction) -> None:
-    p = sub.add_parser("check", help="axial capacity of one column record (JSON file)",
+    p = sub.add_parser("check", help="axial capacity of one column record (JSON file or store)",
                        description="Check the axial capacity of one column record: every mode, "
-                                   "the governing one, the utilization and the full trace.")
-    p.add_argument("file", help="column record JSON file ('-' reads standard input)")
-    p.add_argument("--json", action="store_true", help="print the result as JSON")
+                                   "the governing one, the utilization and the full trace. The "
+                                   "record is a JSON file, or a column kept in a store "
+                                   "(--db, --site, --column: its record as it stands now).")
+    p.add_argument("file", nargs="?", help="column record JSON file ('-' reads standard input)")
+    out = p.add_mutually_exclusive_group()
+    out.add_argument("--json", action="store_true", help="print the result as JSON")
+    out.add_argument("--text", action="store_true",
+                     help="print plain text within --width characters: result, modes, warnings "
+                          "and the trace with its clauses, for a terminal or a calculation "
+                          "package")
+    p.add_argument("--width", type=int, default=100, help="line width for --text (default 100)")
     p.add_argument("--units", choices=("us", "si"), help="display units (default: the record's)")
     p.add_argument("--samples", type=int, metavar="N",
                    help="also sample the design strength N times from the spread of the "
@@ -31,16 +40,39 @@ def register(sub: argparse._SubParsersAction) -> None:
                    help="standard deviation of plate thicknesses, mm (default 0.1)")
     p.add_argument("--size-sd", type=float, default=1.0, metavar="MM",
                    help="standard deviation of depth and width, mm (default 1.0)")
+    p.add_argument("--db", help="the store file (default: $FIELDCOL_DB or the app-data folder)")
+    p.add_argument("--site", help="the site (by name) of --column")
+    p.add_argument("--column", metavar="TAG", help="check this stored column instead of a file")
     p.set_defaults(func=run)
 
 
 def run(args: argparse.Namespace) -> int:
+    """Check one record and print it; returns the exit status.
+
+    Example: ``fieldcol check --db site.db --site "Kestrel Lane Print Works" --column C/3-G
+    --text``.
+    """
     from fieldcol.assess import assess
+    from fieldcol.errors import InputError
 
-    from fieldcol.cli import read_json
+    if args.column is not None or args.site is not None:
+        if args.file is not None:
+            raise InputError("file", args.file, "give a record file or a stored column, not both",
+                             "drop the file, or --site and --column")
+        if not args.site or not args.column:
+            missing = "site" if not args.site else "column"
+            raise InputError(missing, "", f"--{missing} is needed to check a stored column",
+                             '--site "Site name" --column TAG')
+        record, source, system = _stored(args)
+    elif args.file is None:
+        raise InputError("file", "", "no column record given",
+                         "a JSON file ('-' for standard input), or --site and --column")
+    else:
+        from fieldcol.cli import read_json
 
-    record = read_json(args.file)
+        record, source, system = read_json(args.file), f"record {args.file}", None
     a = assess(record)
+    system = args.units or system or a.column.units
     d = a.to_dict()
     if args.samples is not None:
         from fieldcol.uncertainty import Spreads, run_samples
@@ -51,9 +83,33 @@ def run(args: argparse.Namespace) -> int:
         from fieldcol.cli import print_json
 
         print_json(d)
-        return 0
-    print(sheet(d, args.units or a.column.units))
+    elif args.text:
+        from fieldcol.report._plain import column_text
+
+        if args.width < 60:
+            raise InputError("width", str(args.width), "too narrow for the trace", "60 or more")
+        print(column_text(d, system, width=args.width, source=source))
+    else:
+        print(sheet(d, system))
     return 0
+
+
+def _stored(args: argparse.Namespace) -> tuple[dict, str, str]:
+    """The stored column's record as it stands now (latest readings), where it came from and
+    the site's units."""
+    from fieldcol.errors import InputError
+    from fieldcol.store import open_store
+
+    with open_store(args.db, readonly=True) as store:
+        site = store.site_by_name(args.site)
+        col = store.find_column(site.id, args.column)
+        if col is None:
+            known = ", ".join(r.tag for r in store.list_columns(site.id, limit=10))
+            raise InputError("column", args.column, "no column with this tag on the site",
+                             ("known: " + known) if known else "the site has no columns")
+        record = store.current_record(col.id)
+    return record, f"store {args.db or 'default'}, site {site.name}, column {col.tag}", \
+        site.unit_system
 
 
 def show(q: dict | None, system: str, digits: int = 4) -> str:
