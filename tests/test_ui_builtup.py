@@ -74,3 +74,28 @@ def test_the_tab_shows_the_sketch_then_saves(demo):  # noqa: F811
         await s.tap("built-show")
         assert s.inner("built-gap", ft.TextField).error
     _run(walk())
+
+
+def test_readings_of_a_plain_section_stay_out_of_a_built_up_one(demo):  # noqa: F811
+    # C/3-G's earlier section readings (a measured I) must not be written into the parts
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    sx.save_measured(store, cid, "i", {"d": "14.02", "bf": "14.52", "tf": "0.71", "tw": "0.44"},
+                     "caliper", person="T. Nguyen")
+    r.add_reading(store, cid, "thickness", "0.6", element="flange", person="T. Nguyen")
+    bm.save_built(store, cid, "channels", "battens", BATTENED)
+    rec = store.current_record(cid)
+    assert set(rec["section"]) == {"built"}
+    assert store.latest_check(cid).result["section"]["built"] == "channels"
+
+
+def test_a_thickness_reading_on_a_built_up_column_is_refused_not_ignored(demo):  # noqa: F811
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    bm.save_built(store, cid, "channels", "battens", BATTENED)
+    n = len(store.measurements(cid))
+    with pytest.raises(InputError) as e:
+        r.add_reading(store, cid, "thickness", "0.3", element="flange", person="T. Nguyen")
+    assert e.value.field == "element" and "built-up" in str(e.value)
+    assert len(store.measurements(cid)) == n
+    assert r.add_reading(store, cid, "bow", "1/8", axis="strong", person="T. Nguyen").label
