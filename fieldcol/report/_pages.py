@@ -362,13 +362,16 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
                      f"{d.get('material', {}).get('name', '-')}, Fy "
                      f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
             ("Design strength", f"{tx.quantity(d.get('design_strength'), system)} (nominal "
-                                f"{tx.quantity(d.get('nominal_strength'), system)})"),
+                                f"{tx.quantity(d.get('nominal_strength'), system)})"
+             if (d.get("design_strength") or {}).get("value") is not None
+             else "none: the code gives no strength for this column (see the warning)"),
             ("Demand", "none recorded" if not dem else
              f"{tx.quantity(dem, system)} ({dem.get('combination', '-')})"),
             ("Utilization", util),
-            ("Governing mode", tx.MODE_WORDS.get(d.get("governing_mode") or "",
-                                                 d.get("governing_mode") or "-")
-             + (f": {summ.why}" if summ is not None and summ.why else ""))]
+            ("Governing mode", (tx.MODE_WORDS.get(d.get("governing_mode") or "",
+                                                  d.get("governing_mode") or "")
+                                + (f": {summ.why}" if summ is not None and summ.why else ""))
+             if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
         rows.append(("Measured bow", f"{bow.get('axis')} axis, excess "
