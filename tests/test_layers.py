@@ -30,3 +30,13 @@ def test_core_imports_nothing_from_outer_layers():
     for f in files:
         bad = [m for m in _imports(f) if m.startswith(FORBIDDEN)]
         assert not bad, f"{f.relative_to(ROOT)} imports {bad}"
+
+
+def test_store_and_sync_import_no_face():
+    """The store and sync sit under every face (command line, app, report): they import none
+    of them, not even for a constant (the caution lives in ``fieldcol/__init__.py``)."""
+    faces = ("fieldcol.cli", "fieldcol.ui", "fieldcol.report", "flet")
+    for layer in ("store", "sync"):
+        for f in sorted((ROOT / layer).rglob("*.py")):
+            bad = [m for m in _imports(f) if m.startswith(faces)]
+            assert not bad, f"{f.relative_to(ROOT)} imports {bad}"
