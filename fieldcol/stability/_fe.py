@@ -27,8 +27,8 @@ _SOFT = 1e-8  # dimensionless spring below which a support is no support at all
 
 @lru_cache(maxsize=1)
 def _start() -> np.ndarray:
-    """A fixed start for inverse iteration, with no symmetry that could hide the mode (made on first use: numpy.random costs ~15 ms to import, on
-    every command's start otherwise)."""
+    """A fixed start for inverse iteration, with no symmetry that could hide the mode (made on
+    first use: numpy.random costs ~15 ms to import, on every command's start otherwise)."""
     v = np.random.default_rng(20261201).uniform(0.5, 1.5, 2004)
     v.flags.writeable = False
     return v
