@@ -37,3 +37,23 @@ def test_import_case_imports_every_row_in_a_fresh_process():
     assert res["import_rows"] == 40
     assert res["import_100k_s"] >= res["import_apply_s"] > 0
     assert res["import_peak_mb"] > 0
+
+
+def test_contents_over_two_pages_points_at_the_right_pages(tmp_path: Path):
+    import re
+
+    from fieldcol.report import site_report
+    from fieldcol.report._pages import contents_pages
+
+    n = 170  # more sheets than the first contents page lists (3 x 52)
+    assert contents_pages(n) == 2 and contents_pages(156) == 1
+    path, name = build_site(tmp_path, n)
+    with Store(path, readonly=True) as s:
+        out = site_report(s, s.site_by_name(name).id, tmp_path / "big.pdf",
+                          report_date="2026-03-10")
+    pages = [re.sub(r"\s+", " ", p.extract_text()) for p in pypdf.PdfReader(out).pages]
+    toc = pages[1] + " " + pages[2]
+    assert "Contents" in pages[1] and "Column register" in pages[3]
+    for tag in ("A/1-G", "Z/2-G", "N/7-G", "J/6-G"):  # first, middle, on the second page, last
+        page = int(re.search(re.escape(tag) + r" (\d+)", toc).group(1))
+        assert f"Column {tag} " in pages[page - 1], tag

@@ -191,8 +191,8 @@ def render_contents(pdf: ReportPDF, outline: list) -> None:
 # -- registers ---------------------------------------------------------------------------------
 def register(pdf: ReportPDF, data: "SiteData") -> None:
     """Every column on one line, worst first (on the page the contents placeholder opened)."""
-    pdf.start_section("Column register")
     pdf.heading("Column register")
+    pdf.start_section("Column register")  # after the heading: on the page it landed on
     heads, rows = register_rows(data)
     if not rows:
         pdf.para("This site has no columns yet: there is nothing to check.")
@@ -234,8 +234,8 @@ def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     if not data.photos:
         return
     pdf.add_page()
-    pdf.start_section("Photographs")
     pdf.heading("Photographs")
+    pdf.start_section("Photographs")
     cells = []
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
