@@ -316,3 +316,14 @@ def test_retrofit_options_checked_against_the_column_as_it_stands(demo):
     # point bracing of columns, LRFD): stiffness (1/0.75) 8 Pr / Lbr, strength 0.01 Pr
     stiffness = 8 * 650 / (12 * 12) / 0.75
     assert f"stiffness {stiffness:.2f} kip/in, strength {0.01 * 650:.1f} kip" in c3
+
+
+def test_findings_register_open_first_most_severe_first(demo):
+    store, site, _, _, pages = demo
+    page = _register_page(pages)
+    text = page[page.index("Findings register"):]
+    rows = re.findall(r"\b(F\d+) (urgent|high|medium|low|info) (open|closed) ", text)
+    assert [r[0] for r in rows] == [f"F{i + 1}" for i in range(len(store.list_findings(site.id)))]
+    order = ("urgent", "high", "medium", "low", "info")  # common practice: worst first
+    keys = [(status != "open", order.index(sev)) for _, sev, status in rows]
+    assert keys == sorted(keys)
