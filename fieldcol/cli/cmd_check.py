@@ -57,7 +57,8 @@ def run(args: argparse.Namespace) -> int:
     else:
         from fieldcol.cli import read_json
 
-        record, source, system = read_json(args.file), f"record {args.file}", None
+        source = "record from standard input" if args.file == "-" else f"record {args.file}"
+        record, system = read_json(args.file), None
     a = assess(record)
     system = args.units or system or a.column.units
     if args.json:
