@@ -40,3 +40,16 @@ def test_store_and_sync_import_no_face():
         for f in sorted((ROOT / layer).rglob("*.py")):
             bad = [m for m in _imports(f) if m.startswith(faces)]
             assert not bad, f"{f.relative_to(ROOT)} imports {bad}"
+
+
+def test_report_and_check_text_run_without_flet():
+    """The report draws the app's side view and column curve from its plain view-models
+    (``ui.restraints_model``, ``ui.check_model``): they, and so the report, never load Flet."""
+    import subprocess
+    import sys
+
+    code = ("import sys; import fieldcol.report._pages, fieldcol.report._drawings, "
+            "fieldcol.report._plain, fieldcol.ui.check_model, fieldcol.ui.restraints_model; "
+            "bad = [m for m in sys.modules if m == 'flet' or m.startswith('flet.')]; "
+            "assert not bad, bad")
+    subprocess.run([sys.executable, "-c", code], check=True, cwd=ROOT.parent)
