@@ -288,12 +288,16 @@ def assess(record: Mapping[str, Any]) -> Assessment:
         return res
 
     twist = _twist_length(col)
-    # First pass: every brace counted as given, to know the strength that the braces must hold.
-    every = {ax: tuple((i, b.stiffness) for i, b in enumerate(col.axes[ax].braces)) for ax in AXES}
-    first = {ax: _axis_length(col, ax, col.axes[ax], every[ax], Trace()) for ax in AXES}
-    first["twist"] = twist
-    base = run(first, None)
-    Pr = demand if demand is not None else _first(base.design)
+    if demand is not None:
+        Pr = demand  # the braces must hold the demand
+    else:
+        # no demand: a first pass with every brace counted as given finds the braced design
+        # strength, which the braces must then hold (skipped with a demand: half the check)
+        every = {ax: tuple((i, b.stiffness) for i, b in enumerate(col.axes[ax].braces))
+                 for ax in AXES}
+        first = {ax: _axis_length(col, ax, col.axes[ax], every[ax], Trace()) for ax in AXES}
+        first["twist"] = twist
+        Pr = _first(run(first, None).design)
     counted = {ax: _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
                for ax in AXES}
     _assumed_rigid(col, counted, warnings)

@@ -302,3 +302,28 @@ def test_empty_site_unchecked_long_and_non_latin_text_still_build(tmp_path: Path
     assert "cannot be shown in this report's font" in text and "U+67F1" in text
     rows = out.with_suffix(".csv").read_text(encoding="utf-8-sig")
     assert rows.splitlines()[1].startswith("'=CMD|")  # a formula-looking tag is guarded
+
+
+def test_retrofit_options_checked_against_the_column_as_it_stands(demo):
+    store, site, _, _, pages = demo
+    col = next(r for r in store.list_columns(site.id, limit=100) if r.tag == "C/3-G")
+    option = store.retrofits(col.id)[0]
+    after = assess(option.record)
+    c3 = _column_text(pages, "C/3-G")
+    assert "Retrofit options" in c3 and "as it stands (latest check)" in c3
+    assert f"{after.utilization:.3f} OK" in c3
+    # the brace at 12 ft must give, for Pr = 650 kip and Lbr = 12 ft (AISC 360-22 Appendix 6.2,
+    # point bracing of columns, LRFD): stiffness (1/0.75) 8 Pr / Lbr, strength 0.01 Pr
+    stiffness = 8 * 650 / (12 * 12) / 0.75
+    assert f"stiffness {stiffness:.2f} kip/in, strength {0.01 * 650:.1f} kip" in c3
+
+
+def test_findings_register_open_first_most_severe_first(demo):
+    store, site, _, _, pages = demo
+    page = _register_page(pages)
+    text = page[page.index("Findings register"):]
+    rows = re.findall(r"\b(F\d+) (urgent|high|medium|low|info) (open|closed) ", text)
+    assert [r[0] for r in rows] == [f"F{i + 1}" for i in range(len(store.list_findings(site.id)))]
+    order = ("urgent", "high", "medium", "low", "info")  # common practice: worst first
+    keys = [(status != "open", order.index(sev)) for _, sev, status in rows]
+    assert keys == sorted(keys)

@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import argparse
 import importlib
-import sqlite3
 import sys
 from typing import Any, Sequence
 
@@ -100,7 +99,17 @@ def main(argv: Sequence[str] | None = None) -> int:
         msg = str(e).encode("utf-8", "backslashreplace").decode("utf-8")
         print(f"error: {msg}", file=sys.stderr)
         return 2
-    except sqlite3.OperationalError as e:
+    except BrokenPipeError:
+        # the reader (e.g. `head`) closed the pipe: not an error of ours
+        import os
+
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
+    except Exception as e:
+        # no store was opened unless sqlite3 was imported: it need not be imported to start
+        sqlite3 = sys.modules.get("sqlite3")
+        if sqlite3 is None or not isinstance(e, sqlite3.OperationalError):
+            raise
         from fieldcol.store._base import is_busy
 
         if not is_busy(e):
@@ -112,9 +121,3 @@ def main(argv: Sequence[str] | None = None) -> int:
         print(f"error: {StoreBusyError(getattr(args, 'db', None) or 'the store')}",
               file=sys.stderr)
         return 2
-    except BrokenPipeError:
-        # the reader (e.g. `head`) closed the pipe: not an error of ours
-        import os
-
-        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
-        return 0

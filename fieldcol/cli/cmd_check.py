@@ -70,7 +70,8 @@ def run(args: argparse.Namespace) -> int:
     else:
         from fieldcol.cli import read_json
 
-        record, source, system = read_json(args.file), f"record {args.file}", None
+        source = "record from standard input" if args.file == "-" else f"record {args.file}"
+        record, system = read_json(args.file), None
     a = assess(record)
     system = args.units or system or a.column.units
     d = a.to_dict()
@@ -107,9 +108,8 @@ def _stored(args: argparse.Namespace) -> tuple[dict, str, str]:
             known = ", ".join(r.tag for r in store.list_columns(site.id, limit=10))
             raise InputError("column", args.column, "no column with this tag on the site",
                              ("known: " + known) if known else "the site has no columns")
-        record = store.current_record(col.id)
-    return record, f"store {args.db or 'default'}, site {site.name}, column {col.tag}", \
-        site.unit_system
+        record, path = store.current_record(col.id), store.path
+    return record, f"store {path}, site {site.name}, column {col.tag}", site.unit_system
 
 
 def show(q: dict | None, system: str, digits: int = 4) -> str:

@@ -191,8 +191,8 @@ def render_contents(pdf: ReportPDF, outline: list) -> None:
 # -- registers ---------------------------------------------------------------------------------
 def register(pdf: ReportPDF, data: "SiteData") -> None:
     """Every column on one line, worst first (on the page the contents placeholder opened)."""
-    pdf.start_section("Column register")
     pdf.heading("Column register")
+    pdf.start_section("Column register")  # after the heading: on the page it landed on
     heads, rows = register_rows(data)
     if not rows:
         pdf.para("This site has no columns yet: there is nothing to check.")
@@ -234,8 +234,8 @@ def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     if not data.photos:
         return
     pdf.add_page()
-    pdf.start_section("Photographs")
     pdf.heading("Photographs")
+    pdf.start_section("Photographs")
     cells = []
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
@@ -330,10 +330,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
     if c.retrofits:
-        pdf.heading("Retrofit options", 3)
-        pdf.table(["Option", "Status", "Recorded"],
-                  [[r.description, r.status, tx.when(r.created_at)] for r in c.retrofits],
-                  (120, 22, 34), size=7.2)
+        _retrofits(pdf, c, system)
 
 
 def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: float) -> None:
@@ -362,13 +359,16 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
                      f"{d.get('material', {}).get('name', '-')}, Fy "
                      f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
             ("Design strength", f"{tx.quantity(d.get('design_strength'), system)} (nominal "
-                                f"{tx.quantity(d.get('nominal_strength'), system)})"),
+                                f"{tx.quantity(d.get('nominal_strength'), system)})"
+             if (d.get("design_strength") or {}).get("value") is not None
+             else "none: the code gives no strength for this column (see the warning)"),
             ("Demand", "none recorded" if not dem else
              f"{tx.quantity(dem, system)} ({dem.get('combination', '-')})"),
             ("Utilization", util),
-            ("Governing mode", tx.MODE_WORDS.get(d.get("governing_mode") or "",
-                                                 d.get("governing_mode") or "-")
-             + (f": {summ.why}" if summ is not None and summ.why else ""))]
+            ("Governing mode", (tx.MODE_WORDS.get(d.get("governing_mode") or "",
+                                                  d.get("governing_mode") or "")
+                                + (f": {summ.why}" if summ is not None and summ.why else ""))
+             if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
         rows.append(("Measured bow", f"{bow.get('axis')} axis, excess "
@@ -464,3 +464,44 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
                      f"{m.taken_by or '-'}, {tx.when(m.taken_at)}", note or "-", state])
     pdf.table(["Quantity", "As typed", "Value", "Who, when", "Gauge, note", "Status"], rows,
               (28, 18, 18, 34, 46, 30), size=7.0)
+
+
+def _outcome(d: dict, system: str, checked: bool = True) -> list[str]:
+    """Design strength, utilization with its word, and what governs, of a check's JSON."""
+    u = (d.get("utilization") or {}).get("value")
+    word = tx.status_word(checked, d.get("status"), u)
+    gov = d.get("governing_mode") or ""
+    return [tx.quantity(d.get("design_strength"), system),
+            f"{tx.utilization_text(u)} {word}" if word in ("OK", "OVER") else word,
+            tx.MODE_WORDS.get(gov, gov or "-")]
+
+
+def _retrofits(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
+    """Each retrofit option checked against the column as it stands: design strength,
+    utilization, what governs, and what a new brace must resist and how stiff it must be."""
+    from fieldcol.assess import assess
+    from fieldcol.errors import InputError
+
+    pdf.heading("Retrofit options", 3, keep=16)
+    rows = [["as it stands (latest check)", "-",
+             *(_outcome(c.check.result, system) if c.check else ["-", "not checked", "-"]), "-"]]
+    for r in c.retrofits:
+        try:
+            d = assess(r.record).to_dict()
+        except InputError as e:
+            rows.append([r.description, r.status, f"cannot be checked: {e}", "", "", ""])
+            continue
+        needs: dict[str, list[str]] = {}
+        for st in d.get("steps") or []:
+            sym = st.get("symbol")
+            if sym not in ("beta_br", "P_br"):
+                continue
+            # "stiffness the brace at 12'-0", weak axis needs ...": where, then what and how much
+            what = str(st.get("what", ""))
+            where = what.split("the brace ", 1)[-1].split(" needs", 1)[0]
+            needs.setdefault(where, []).append(
+                f"{'stiffness' if sym == 'beta_br' else 'strength'} {tx.step_value(st, system)}")
+        rows.append([r.description, r.status, *_outcome(d, system),
+                     "; ".join(f"{w}: {', '.join(v)}" for w, v in needs.items()) or "-"])
+    pdf.table(["Option", "Status", "Design strength", "Utilization", "Governs",
+               "A brace must give"], rows, (58, 14, 18, 18, 28, 46), size=6.8)
