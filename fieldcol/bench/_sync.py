@@ -97,7 +97,7 @@ def run(*, quick: bool = False) -> dict[str, float]:
 
     Example:
         >>> sorted(run(quick=True))[:2]
-        ['bundle_import_5000_rows_s', 'sqlite_copy_2000_columns_s']
+        ['bundle_import_5000_rows_s', 'sqlite_copy_2000_columns_cpu_s']
     """
     from fieldcol.store import Store
     from fieldcol.sync._bundle import export_bundle, import_bundle
