@@ -44,7 +44,7 @@ def test_varied_columns_and_results(demo):
     rows = s.list_columns(first.site_id)
     assert 20 <= len(rows) <= 30 and first.skipped == {}
     sections = {r.section for r in rows}
-    for prefix in ("W", "HP", "HSS", "Pipe", "measured i"):
+    for prefix in ("W", "HP", "HSS", "Pipe", "measured I"):
         assert any(x.startswith(prefix) for x in sections), prefix
     assert any(x.endswith("with loss") for x in sections)
     records = [s.current_record(r.id) for r in rows]

@@ -26,7 +26,7 @@ def section_label(section: Any) -> str | None:
 
     Example:
         >>> section_label({"shape": "i", "d": "14 in"})
-        'measured i'
+        'measured I'
     """
     if section is None or isinstance(section, str):
         return section
@@ -34,7 +34,8 @@ def section_label(section: Any) -> str | None:
         built = section.get("built")
         if isinstance(built, dict):
             return f"built-up {built.get('arrangement', '?')}"
-        base = section.get("name") or f"measured {section.get('shape', '?')}"
+        shape = {"i": "I", "rect": "RHS", "round": "CHS"}.get(section.get("shape"), "section")
+        base = section.get("name") or f"measured {shape}"
         return f"{base} with loss" if section.get("loss") else str(base)
     return str(section)
 
