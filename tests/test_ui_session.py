@@ -41,6 +41,7 @@ class _Client(Connection):
         self.pubsubhub = PubSubHub(loop=loop, executor=self.executor)
         self.session: Session | None = None
         self.tasks: list[asyncio.Task] = []
+        self.invoked: list[tuple[str, dict]] = []  # methods the app asked the client to run
         self._encode = configure_encode_object_for_msgpack(BaseControl)
 
     def send_message(self, message: Any) -> None:
@@ -48,6 +49,7 @@ class _Client(Connection):
         if message.action == MessageAction.INVOKE_METHOD:
             body = message.body
             assert self.session is not None
+            self.invoked.append((body.name, dict(body.args or {})))
             self.session.handle_invoke_method_results(body.control_id, body.call_id, None, None)
             if body.name == "push_route":
                 route = body.args["route"]
@@ -507,4 +509,41 @@ def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
         assert store.retrofits(col.id) == []
         await s.tap("save-undo")
         assert [x.id for x in store.retrofits(col.id)] == [r.id]
+    _run(walk())
+
+
+# -- the column list: filters, search, and the place it was scrolled to ----------------------
+@pytest.mark.parametrize("width", [390, 820])
+def test_list_filters_search_and_scroll_kept_on_back(demo, width):
+    async def walk():
+        store, site = demo
+        s = Screen(store, width)
+        await s.start()
+        await s.go(f"/sites/{site.id}")
+        rows = lambda: [c.identifier for c in s.all()  # noqa: E731
+                        if isinstance(c, ft.Semantics) and (c.identifier or "").startswith(
+                            "column-") and c.identifier not in ("column-search", "column-tag")]
+        assert len(rows()) == 24
+        await s.tap("filter-status-over")
+        assert len(rows()) == 5 and "(chosen)" in s.find("filter-status-over").label
+        assert "5 of 24 columns match" in s.text("columns-shown")
+        await s.tap("filter-status-all")
+        await s.type("column-search", "c/", submit=False)
+        await asyncio.sleep(0.4)  # the list follows a pause in typing
+        await s.settle()
+        assert rows() and all(r.startswith("column-C/") for r in rows()), rows()
+        tag = rows()[2][len("column-"):]
+        # scrolled down, a column opened, Back: the same rows and the same place
+        lv = s.app.list.view
+        await s.session.dispatch_event(lv._i, "scroll", {
+            "event_type": "end", "pixels": 612.0, "min_scroll_extent": 0.0,
+            "max_scroll_extent": 2000.0, "viewport_dimension": 700.0})
+        assert s.app.list.at == 612.0
+        await s.tap(f"column-{tag}")
+        assert s.app.detail is not None and s.app.detail.tag == tag
+        s.client.invoked.clear()
+        await s.go(f"/sites/{site.id}")
+        assert all(r.startswith("column-C/") for r in rows()) and s.text(
+            "column-search") == "c/"
+        assert ("scroll_to", 612.0) in [(n, a.get("offset")) for n, a in s.client.invoked]
     _run(walk())

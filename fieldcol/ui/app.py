@@ -47,6 +47,7 @@ from fieldcol.ui import notes as n
 from fieldcol.ui import notes_views as nv
 from fieldcol.ui import views as v
 from fieldcol.ui._tab import Tab
+from fieldcol.ui.column_list import ColumnList
 from fieldcol.ui.saving import Saver
 from fieldcol.ui.tab_check import CheckTab
 from fieldcol.ui.tab_condition import ConditionTab
@@ -81,7 +82,7 @@ class FieldApp:
         self.wide = False
         self.person: str | None = None
         self.visit_id: str | None = None
-        self.columns: m.ColumnPage | None = None
+        self.list = ColumnList(self)
         self.detail: m.ColumnDetail | None = None
         self.counts: dict[str, int] = {}
         self.tab = "check"
@@ -270,7 +271,7 @@ class FieldApp:
         tag = ""
         if not fields:
             def propose(store: "Store") -> str:
-                rows = store.list_columns(site_id, limit=1000)
+                rows = store.page_columns(site_id, limit=1000)
                 return st.next_tag(store, site_id, rows[-1].tag) if rows else "C1"
             tag = await asyncio.to_thread(propose, self.store)
 
@@ -281,50 +282,40 @@ class FieldApp:
                                         undo, fields)
             if cid is not None:
                 self.forms.pop(route, None)
-                self.columns = None
+                self.list.forget()
                 await self.page.push_route(f"/columns/{cid}")
         self._render(route, "New column", fm.column_form(fields, tag, save), f"/sites/{site_id}")
 
-    async def _load_columns(self, site_id: str) -> m.ColumnPage:
-        if self.columns is None or self.columns.site.id != site_id:
-            self.columns = await asyncio.to_thread(m.column_page, self.store, site_id)
-        return self.columns
+    def open_column(self, column_id: str) -> Callable[..., Any]:
+        """The click handler that opens a column (its route).
 
-    async def _more(self, _e: Any = None) -> None:
-        cur = self.columns
-        if cur is None:
-            return
-        nxt = await asyncio.to_thread(m.column_page, self.store, cur.site.id,
-                                      offset=cur.offset + len(cur.rows), limit=cur.limit)
-        self.columns = m.ColumnPage(site=cur.site, rows=cur.rows + nxt.rows, offset=cur.offset,
-                                    limit=cur.limit, has_more=nxt.has_more)
-        await self.show(self.page.route or "/")
+        Example: ``ft.Container(on_click=app.open_column(cid))``.
+        """
+        return self._go(f"/columns/{column_id}")
 
-    def _list(self, selected: str | None = None) -> ft.Control:
-        assert self.columns is not None
-        sid = self.columns.site.id
+    def _list(self, site_id: str, selected: str | None = None) -> ft.Control:
         tools = ft.Row([
             ft.Semantics(identifier="new-column", content=ft.FilledButton(
-                "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{sid}/new-column"),
+                "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{site_id}/new-column"),
                 height=v.TAP)),
             ft.Semantics(identifier="edit-site", content=ft.OutlinedButton(
-                "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{sid}/edit"),
+                "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{site_id}/edit"),
                 height=v.TAP))], wrap=True, spacing=8)
-        return v.columns_list(self.columns, lambda cid: self._go(f"/columns/{cid}"),
-                              self._more if self.columns.has_more else None, selected,
-                              tools=tools)
+        return self.list.control(selected, tools)
 
     async def _show_site(self, site_id: str) -> None:
         self.detail = None
-        self.columns = None  # a fresh list each time the site is opened: checks may be new
-        page = await self._load_columns(site_id)
+        # the rows shown before read again (checks may be new), then back where they were
+        page = await self.list.load(site_id, fresh=True)
         title = page.site.name
         if not self.wide:
-            self._render(f"/sites/{site_id}", title, self._list(), "/")
-            return
-        hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
-                            padding=24)
-        self._render(f"/sites/{site_id}", title, self._two_panes(self._list(), hint), "/")
+            self._render(f"/sites/{site_id}", title, self._list(site_id), "/")
+        else:
+            hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
+                                padding=24)
+            self._render(f"/sites/{site_id}", title,
+                         self._two_panes(self._list(site_id), hint), "/")
+        await self.list.restore()
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
         self.list_pane.content = left
@@ -355,10 +346,11 @@ class FieldApp:
             self._render(f"/columns/{column_id}", f"Column {d.tag}", self.pane,
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         else:
-            await self._load_columns(d.site_id)
+            await self.list.load(d.site_id)
             self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
-                         self._two_panes(self._list(selected=d.id), self.pane),
+                         self._two_panes(self._list(d.site_id, selected=d.id), self.pane),
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+            await self.list.restore()  # the list beside stays where it was scrolled
         if not same:
             await self._load_tab()
 
@@ -372,7 +364,7 @@ class FieldApp:
                                                    "(section, length, restraints, material; "
                                                    "no demand or readings)")
         if cid is not None:
-            self.columns = None
+            self.list.forget()
             await self.page.push_route(f"/columns/{cid}")
 
     async def _delete(self, _e: Any = None) -> None:
@@ -386,7 +378,7 @@ class FieldApp:
         if sid is None:
             self.detail = d
             return
-        self.columns = None
+        self.list.forget()
         await self.page.push_route(f"/sites/{sid}")
 
     # -- the column screen's tabs ---------------------------------------------------------
@@ -443,13 +435,12 @@ class FieldApp:
         await self._load_tab()
 
     async def _refresh_list(self) -> None:
-        """Reload the list beside the column (tablet) so it shows the new check."""
+        """Read the list beside the column again (tablet) so it shows the new check."""
         d = self.detail
-        if not self.wide or self.columns is None or d is None:
+        if not self.wide or self.list.page is None or d is None:
             return
-        limit = min(1000, max(m.PAGE, len(self.columns.rows)))
-        self.columns = await asyncio.to_thread(m.column_page, self.store, d.site_id, limit=limit)
-        self.list_pane.content = self._list(selected=d.id)
+        await self.list.load(d.site_id, fresh=True)
+        self.list.control(d.id, self.list.tools)
 
     # -- shared by tabs ---------------------------------------------------------------------
     def open_photo(self, p: n.PhotoThumb) -> Callable[..., Any]:

@@ -157,6 +157,18 @@ def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict
                         border=ft.Border.all(1, LINE), bgcolor=ft.Colors.WHITE)
 
 
+def choice_chip(identifier: str, word: str, chosen: bool, on_click: Handler) -> ft.Control:
+    """One choice of a row of choices (a filter): 48 px high, the chosen one filled, ticked and
+    said "(chosen)" (never colour alone).
+
+    Example: ``choice_chip("filter-status-over", "Over capacity", True, handler)``.
+    """
+    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP) \
+        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP)
+    return ft.Semantics(identifier=identifier, button=True, selected=chosen,
+                        label=f"{word}{' (chosen)' if chosen else ''}", content=button)
+
+
 # -- sites ---------------------------------------------------------------------------------
 def sites_body(cards: list[m.SiteCard], open_site: Callable[[str], Handler]) -> list[ft.Control]:
     """The sites screen: one tappable card per site.
@@ -220,38 +232,6 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
         row.content.bgcolor = "#E3ECF9"
         row.content.border = ft.Border.all(2, "#1C4E9C")
     return row
-
-
-def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
-                 more: Handler | None, selected: str | None = None,
-                 tools: ft.Control | None = None) -> ft.Control:
-    """A lazy list of a site's columns, with a "Show more" button when a page follows.
-
-    Args:
-        page: ``model.column_page(...)`` (the rows shown so far).
-        open_column: gives the click handler for a column id.
-        more: loads the next page (``None`` when there is none).
-        selected: the id drawn highlighted.
-        tools: buttons shown under the heading (add a column, edit the site).
-
-    Returns:
-        An expanding ``ListView``.
-
-    Example: ``columns_list(page, lambda cid: handler, None)``.
-    """
-    c = page.site
-    shown = f"{len(page.rows)} columns" if more is None else \
-        f"first {len(page.rows)} columns shown"
-    head: list[ft.Control] = [
-        text_line(c.name, size=20, bold=True),
-        text_line(f"{shown} · {c.over} over capacity", size=16, color=MUTED),
-        *([tools] if tools is not None else []), caution_box()]
-    rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
-    tail: list[ft.Control] = []
-    if more is not None:
-        tail.append(ft.Semantics(identifier="more-columns", content=ft.OutlinedButton(
-            "Show more columns", on_click=more, height=TAP)))
-    return ft.ListView(head + rows + tail, spacing=8, expand=True, padding=12)
 
 
 # -- one column ----------------------------------------------------------------------------
