@@ -547,3 +547,37 @@ def test_list_filters_search_and_scroll_kept_on_back(demo, width):
             "column-search") == "c/"
         assert ("scroll_to", 612.0) in [(n, a.get("offset")) for n, a in s.client.invoked]
     _run(walk())
+
+
+# -- a visit: started from the site, what is recorded during it belongs to it ---------------
+def test_visit_started_recorded_and_ended(demo):
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/sites/{site.id}")
+        await s.tap("new-visit")
+        assert s.inner("visit-date", ft.TextField).value  # today, proposed
+        await s.type("visit-date", "2026-13-40", submit=False)
+        await s.tap("start-visit")
+        assert "Date" in (s.inner("visit-date", ft.TextField).error or "")
+        assert store.open_visit() is None  # refused: nothing started
+        await s.type("visit-date", "2026-12-04", submit=False)
+        await s.type("visit-weather", "wet, 6 C", submit=False)
+        await s.type("visit-access", "north door only", submit=False)
+        await s.tap("start-visit")
+        assert "Visit under way: 2026-12-04" in s.text("visit-now")
+        assert "wet, 6 C" in s.text("visit-now")
+        vid = store.open_visit().id
+        col = store.find_column(site.id, "C/3-G")
+        await s.go(f"/columns/{col.id}")
+        assert s.app.visit_id == vid
+        await s.type("field-length", "23 ft")
+        (m,) = [x for x in store.measurements(col.id, "length") if x.text == "23 ft"]
+        assert m.visit_id == vid
+        await s.go(f"/sites/{site.id}")
+        await s.tap("end-visit")
+        assert store.open_visit() is None and s.has("new-visit")
+        await s.tap("save-undo")  # ended by mistake: open again
+        assert store.open_visit().id == vid
+    _run(walk())

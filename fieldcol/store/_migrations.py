@@ -11,7 +11,7 @@ from sqlite_utils import Database
 from sqlite_utils.migrations import Migrations
 
 from fieldcol.store import _oplog
-from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL
+from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL, V6_SQL
 
 migrations = Migrations("fieldcol")
 
@@ -51,6 +51,11 @@ def _m004_people(db: Database) -> None:
 @migrations(name="m005_field_notes")
 def _m005_field_notes(db: Database) -> None:
     _each(db, V5_SQL)
+
+
+@migrations(name="m006_visits")
+def _m006_visits(db: Database) -> None:
+    _each(db, V6_SQL)
 
 
 #: names in order; the schema version is the count applied

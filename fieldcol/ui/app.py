@@ -2,7 +2,7 @@
 
 Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
 theme), ``/sites/new``, ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``,
-``/sites/<id>/new-column``, ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
+``/sites/<id>/new-column``, ``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
 
 The column screen is a row of tabs (``TABS``, in order; identifiers ``tab-<name>``; the row
@@ -34,6 +34,7 @@ or on a check.
 from __future__ import annotations
 
 import asyncio
+import datetime
 import os
 from typing import TYPE_CHECKING, Any, Callable
 
@@ -82,6 +83,7 @@ class FieldApp:
         self.wide = False
         self.person: str | None = None
         self.visit_id: str | None = None
+        self.visit: Any = None  # the visit open on this device (any site), or None
         self.list = ColumnList(self)
         self.detail: m.ColumnDetail | None = None
         self.counts: dict[str, int] = {}
@@ -147,6 +149,8 @@ class FieldApp:
                 await self._show_site_form(parts[1])
             elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "new-column":
                 await self._show_column_form(parts[1])
+            elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "visit":
+                await self._show_visit_form(parts[1])
             elif len(parts) == 2 and parts[0] == "sites":
                 await self._show_site(parts[1])
             elif len(parts) == 2 and parts[0] == "columns":
@@ -293,20 +297,66 @@ class FieldApp:
         """
         return self._go(f"/columns/{column_id}")
 
+    async def _load_visit(self, site_id: str) -> None:
+        self.visit = await asyncio.to_thread(self.store.open_visit)
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == site_id else None
+
+    def _visit_tool(self, site_id: str) -> ft.Control:
+        vis = self.visit
+        if vis is not None and vis.site_id == site_id:
+            said = f"Visit under way: {vis.date}" + "".join(
+                f" · {x}" for x in (vis.who, vis.weather, vis.access) if x)
+            return ft.Semantics(identifier="visit-now", content=ft.Row([
+                ft.Icon(ft.Icons.EVENT_AVAILABLE, color=v.INK, size=24),
+                ft.Container(v.text_line(said), expand=True),
+                ft.Semantics(identifier="end-visit", content=ft.OutlinedButton(
+                    "End visit", icon=ft.Icons.STOP, on_click=self._end_visit,
+                    height=v.TAP))], wrap=True, spacing=8))
+        return ft.Semantics(identifier="new-visit", content=ft.OutlinedButton(
+            "Start a visit", icon=ft.Icons.EVENT, on_click=self._go(f"/sites/{site_id}/visit"),
+            height=v.TAP))
+
+    async def _end_visit(self, _e: Any = None) -> None:
+        vis = self.visit
+        if vis is None:
+            return
+        do, undo = st.end_visit_change(vis.id)
+        await self.saver.save(f"end of the visit of {vis.date}", do, undo,
+                              done=f"Visit of {vis.date} ended")
+
+    async def _show_visit_form(self, site_id: str) -> None:
+        self.detail = None
+        route = f"/sites/{site_id}/visit"
+        fields = self.forms.setdefault(route, {})
+        async def save(_e: Any = None) -> None:
+            typed = {k: tf.value or "" for k, tf in fields.items()}
+            do, undo = st.visit_change(site_id, typed)
+            vis = await self.saver.save(f"visit of {typed.get('date', '').strip()}", do, undo,
+                                        fields, done=lambda x: f"Visit of {x.date} started: "
+                                        "what is recorded now belongs to it")
+            if vis is not None:
+                self.forms.pop(route, None)
+                await self.page.push_route(f"/sites/{site_id}")
+        self._render(route, "New visit",
+                     fm.visit_form(fields, datetime.date.today().isoformat(), self.person, save),
+                     f"/sites/{site_id}")
+
     def _list(self, site_id: str, selected: str | None = None) -> ft.Control:
-        tools = ft.Row([
+        tools = ft.Column([self._visit_tool(site_id), ft.Row([
             ft.Semantics(identifier="new-column", content=ft.FilledButton(
                 "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{site_id}/new-column"),
                 height=v.TAP)),
             ft.Semantics(identifier="edit-site", content=ft.OutlinedButton(
                 "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{site_id}/edit"),
-                height=v.TAP))], wrap=True, spacing=8)
+                height=v.TAP))], wrap=True, spacing=8)], spacing=8)
         return self.list.control(selected, tools)
 
     async def _show_site(self, site_id: str) -> None:
         self.detail = None
         # the rows shown before read again (checks may be new), then back where they were
         page = await self.list.load(site_id, fresh=True)
+        await self._load_visit(site_id)
         title = page.site.name
         if not self.wide:
             self._render(f"/sites/{site_id}", title, self._list(site_id), "/")
@@ -332,6 +382,7 @@ class FieldApp:
     async def _show_column(self, column_id: str) -> None:
         same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
         self.detail, self.counts = await asyncio.to_thread(self._load_column, column_id)
+        await self._load_visit(self.detail.site_id)
         if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
             self.tabs = {cls.name: cls(self) for cls in TABS}
             self.tab = "check"

@@ -59,6 +59,10 @@ FIELD_WORDS: dict[str, tuple[str, str]] = {
     "category": ("Category", "type e.g. corrosion, bow or bracing"),
     "severity": ("Severity", "pick one of the choices"),
     "date": ("Date", "type a date as YYYY-MM-DD, e.g. 2026-12-03"),
+    "people": ("Who is on site", "type names, e.g. R. Amadi, T. Osei"),
+    "weather": ("Weather", "type a few words, e.g. wet, 6 C"),
+    "access": ("Access notes", "type a few words"),
+    "visit": ("The visit", "start a visit for this site"),
     "gamma_m1": ("gamma_M1", "type a factor such as 1.0 or 1.1"),
     "db": ("The database", "try again in a moment"),
 }
