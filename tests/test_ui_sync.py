@@ -19,7 +19,7 @@ from fieldcol.sync._loopback import RunningHub, free_port
 from fieldcol.sync.client import sync_with_hub
 
 from test_sync_oplog import send
-from test_ui_browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
+from _browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
 
 
 

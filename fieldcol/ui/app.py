@@ -36,20 +36,22 @@ from __future__ import annotations
 import asyncio
 import datetime
 import os
+import sqlite3
 from typing import TYPE_CHECKING, Any, Callable
 
 import flet as ft
 
-from fieldcol.errors import InputError
+from fieldcol.errors import InputError, StoreBusyError
 from fieldcol.ui import forms as fm
 from fieldcol.ui import model as m
 from fieldcol.ui import sites as st
 from fieldcol.ui import notes as n
 from fieldcol.ui import notes_views as nv
+from fieldcol.ui import palette
 from fieldcol.ui import views as v
 from fieldcol.ui._tab import Tab
 from fieldcol.ui.column_list import ColumnList
-from fieldcol.ui.saving import Saver
+from fieldcol.ui.saving import Saver, failure_words
 from fieldcol.ui.tab_check import CheckTab
 from fieldcol.ui.tab_condition import ConditionTab
 from fieldcol.ui.tab_findings import FindingsTab
@@ -106,9 +108,7 @@ class FieldApp:
         who, self.theme = await asyncio.to_thread(
             lambda: (self.store.who(), self.store.setting("theme")))
         self.person = who.name if who else None
-        p.theme_mode = ft.ThemeMode.DARK if self.theme == "dark" else ft.ThemeMode.LIGHT
-        p.dark_theme = ft.Theme(color_scheme_seed=v.ACCENT)
-        p.theme = ft.Theme(color_scheme_seed=v.ACCENT)
+        palette.apply(p, self.theme)
         p.bgcolor = v.BG
         p.padding = 0
         p.on_route_change = self._on_route
@@ -157,11 +157,32 @@ class FieldApp:
                 await self._show_column(parts[1])
             else:
                 await self._show_sites()
+        except (sqlite3.Error, OSError, StoreBusyError) as e:
+            # the store could not be read (busy, locked, a disk fault): never a blank screen
+            self._failed(route, e)
         except InputError as e:  # e.g. an id that no longer exists: say so, keep the app usable
             self.detail = None
             self._render("/", "fieldcol", [v.text_line(str(e), color=v.TONES["over"][0]),
                                           ft.Button("Back to sites", on_click=self._go("/"),
                                                     height=v.TAP)], None)
+
+    def _failed(self, route: str, e: BaseException) -> None:
+        """A screen that could not be loaded: what happened in plain words, and Try again."""
+        self.detail = None
+
+        async def again(_e: Any = None) -> None:
+            await self.show(route)
+        self._render(route, "fieldcol", [v._card([
+            ft.Row([ft.Icon(ft.Icons.ERROR_OUTLINE, color=v.TONES["over"][0], size=28),
+                    ft.Container(v.text_line("This screen could not be loaded.", size=18,
+                                             bold=True), expand=True)]),
+            ft.Semantics(identifier="load-error", content=v.text_line(failure_words(e))),
+            v.text_line("Nothing was lost: what was saved stays saved.", color=v.MUTED),
+            ft.Row([ft.Semantics(identifier="try-again", content=ft.FilledButton(
+                        "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP)),
+                    ft.Semantics(identifier="to-sites", content=ft.OutlinedButton(
+                        "Sites", icon=ft.Icons.HOME, on_click=self._go("/"), height=v.TAP))],
+                   wrap=True, spacing=8)])], None)
 
     def _render(self, route: str, title: str, body: list[ft.Control] | ft.Control,
                 back: str | None, *, scroll: bool = True, title_id: str | None = None,
@@ -170,8 +191,8 @@ class FieldApp:
         if back is not None:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
                 ft.Icons.ARROW_BACK, on_click=self._go(back), tooltip="Back",
-                icon_color=ft.Colors.WHITE, icon_size=28))
-        head: ft.Control = ft.Text(title, size=20, color=ft.Colors.WHITE,
+                icon_color=v.ON_ACCENT, icon_size=28))
+        head: ft.Control = ft.Text(title, size=20, color=v.ON_ACCENT,
                                    weight=ft.FontWeight.BOLD)
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
@@ -192,7 +213,7 @@ class FieldApp:
     def _action(self, icon: ft.IconData, tip: str, identifier: str,
                 on_click: Callable[..., Any]) -> ft.Control:
         return ft.Semantics(identifier=identifier, button=True, label=tip, content=ft.IconButton(
-            icon, on_click=on_click, tooltip=tip, icon_color=ft.Colors.WHITE, icon_size=28))
+            icon, on_click=on_click, tooltip=tip, icon_color=v.ON_ACCENT, icon_size=28))
 
     async def _show_sites(self) -> None:
         self.detail = None
@@ -452,7 +473,19 @@ class FieldApp:
         d, name = self.detail, self.tab
         if d is None:
             return
-        await self.tabs[name].load()
+        try:
+            await self.tabs[name].load()
+        except (sqlite3.Error, OSError, StoreBusyError) as e:
+            async def again(_e: Any = None) -> None:
+                await self._load_tab()
+            self.pane.controls = [self.pane.controls[0], v._card([
+                ft.Semantics(identifier="load-error", content=v.text_line(
+                    f"This tab could not be loaded. {failure_words(e)}")),
+                ft.Semantics(identifier="try-again", content=ft.FilledButton(
+                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])] \
+                if self.pane.controls else []
+            self.page.update()
+            return
         if self.detail is d or (self.detail is not None and self.detail.id == d.id):
             if self.tab == name:
                 self.redraw()

@@ -46,7 +46,7 @@ def choice_row(options: list[tuple[str, str]], current: str,
                            spacing=6, tight=True),
             on_click=choose(value), ink=True, height=v.TAP,
             padding=ft.Padding.symmetric(horizontal=12), border_radius=8,
-            bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
+            bgcolor=v.CHOSEN_BG if on else v.CARD,
             border=ft.Border.all(2.5 if on else 1, v.ACCENT if on else v.LINE))
         ident = f"{prefix}-{i}" if "/" in value else f"{prefix}-{value}"
         items.append(ft.Semantics(identifier=ident, button=True, selected=on,

@@ -491,8 +491,11 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     axial = demand.get("axial")
     demand_text = "none"
     if axial not in (None, ""):
-        basis = str(demand.get("basis", "lrfd")).upper()
-        demand_text = f"{_demand_text(axial, system)} ({basis})"
+        code = str(rec.get("code") or site.code)
+        # LRFD / ASD are AISC's bases: an EN site's demand is a design value, said without one
+        basis = "" if code.startswith("en") else \
+            f" ({str(demand.get('basis', 'lrfd')).upper()})"
+        demand_text = f"{_demand_text(axial, system)}{basis}"
     elif demand.get("loads"):
         demand_text = "loads: " + _describe(demand["loads"])
     record = [Line("Section", section_label(rec.get("section")) or "none"),

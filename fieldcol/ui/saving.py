@@ -8,6 +8,7 @@ Public API::
     app.saver.say(text)                      # a plain message in the same bar (no action)
     app.saver.bar                            # the bar control (identifier ``save-note``)
     plain_error(e: InputError) -> str        # the plain words for an error
+    failure_words(e: BaseException) -> str   # a store / device failure in plain words
     FIELD_WORDS: dict[str, tuple[str, str]]  # field -> (words, example); extend for new fields
 
 ``do(store) -> T`` runs in a worker thread under ``app.lock``. What happens next:
@@ -110,7 +111,14 @@ def plain_error(e: InputError) -> str:
     return _sentence(first) + (" " + _sentence(e.hint or example) if (e.hint or example) else "")
 
 
-def _failure_words(e: BaseException) -> str:
+def failure_words(e: BaseException) -> str:
+    """A store or device failure in plain words (busy, refused, no space), for "Not saved"
+    and for a screen that could not be loaded.
+
+    Example:
+        >>> failure_words(sqlite3.OperationalError("database is locked"))[:24]
+        'The database is busy (an'
+    """
     if isinstance(e, StoreBusyError):
         return plain_error(e)
     if isinstance(e, sqlite3.OperationalError) and "locked" in str(e).lower():
@@ -223,7 +231,7 @@ class Saver:
             async def retry() -> None:
                 await self.save(label, do, undo, field, done=done)
             self._retry_do = retry
-            self.say(f"Not saved: {_failure_words(e)}", kind="error", button=self._retry)
+            self.say(f"Not saved: {failure_words(e)}", kind="error", button=self._retry)
             return None
         except InputError as e:
             words = plain_error(e)
