@@ -158,12 +158,19 @@ def scheme(p: Palette) -> ft.ColorScheme:
 
 
 def theme(p: Palette) -> ft.Theme:
-    """A Flet theme with the palette's colour scheme and the page's background.
+    """A Flet theme with the palette's colour scheme, the page's background, and no text
+    style under 16 px.
 
     Example: ``page.dark_theme = theme(DARK)``.
     """
+    # nothing under 16 px on a phone: Flutter's default text, button labels, helper lines and
+    # captions are 11-14 px otherwise
+    sixteen = ft.TextStyle(size=16)
     return ft.Theme(color_scheme=scheme(p), scaffold_bgcolor=p.surface,
-                    card_bgcolor=p.surface_container_lowest)
+                    card_bgcolor=p.surface_container_lowest,
+                    text_theme=ft.TextTheme(body_medium=sixteen, body_small=sixteen,
+                                            label_large=sixteen, label_medium=sixteen,
+                                            label_small=sixteen, title_small=sixteen))
 
 
 def apply(page: ft.Page, mode: str) -> None:
