@@ -294,7 +294,10 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
         except AssertionError:
             continue
         page.keyboard.press("Control+A")
-        page.keyboard.type(text)
+        if text:
+            page.keyboard.type(text)
+        else:  # emptied: the selection deleted
+            page.keyboard.press("Delete")
         try:
             _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == text,
                   f"{identifier} holds the typed text", timeout=3)

@@ -192,19 +192,19 @@ def test_tablet_the_list_beside_stays_put(server, browser):
     page = _open(browser, base, SIZES["tablet"])
     _click(page, f"site-{SITE}")
     _wait(page, "column-A/1-G")
-    _find(page, "column-D/5-G", x=200)
-    y0 = _y(page, "column-D/5-G")
-    _click(page, "column-D/5-G", scroll=False,
+    _find(page, "column-F/2-M", x=200)
+    y0 = _y(page, "column-F/2-M")
+    _click(page, "column-F/2-M", scroll=False,
            done=lambda: page.locator(_sel("status")).count() > 0)
-    _poll(lambda: _words(page, "column-tag"), lambda t: "D/5-G" in t, "the column beside")
-    _poll(lambda: _y(page, "column-D/5-G"), lambda y: abs(y - y0) <= 4,
+    _poll(lambda: _words(page, "column-tag"), lambda t: "F/2-M" in t, "the column beside")
+    _poll(lambda: _y(page, "column-F/2-M"), lambda y: abs(y - y0) <= 4,
           "the list did not jump to the top")
     # every tab in sight beside the list
     width = page.viewport_size["width"]
     for name in ("check", "section", "restraints", "condition", "findings", "retrofit",
                  "history"):
-        box = _box(page, f"tab-{name}")
-        assert box and box["x"] >= 0 and box["x"] + box["width"] <= width + 1, (name, box)
+        box = _poll(lambda: _box(page, f"tab-{name}"), bool, f"tab-{name} drawn")
+        assert box["x"] >= 0 and box["x"] + box["width"] <= width + 1, (name, box)
     _shot(page, "list-tablet-beside.png")
     page.context.close()
 
@@ -217,8 +217,8 @@ def test_phone_every_tab_in_sight(server, browser):
     width = page.viewport_size["width"]
     for name in ("check", "section", "restraints", "condition", "findings", "retrofit",
                  "history"):
-        box = _box(page, f"tab-{name}")
-        assert box and box["x"] >= 0 and box["x"] + box["width"] <= width + 1, (name, box)
+        box = _poll(lambda: _box(page, f"tab-{name}"), bool, f"tab-{name} drawn")
+        assert box["x"] >= 0 and box["x"] + box["width"] <= width + 1, (name, box)
         assert box["height"] >= 48 and box["width"] >= 48, (name, box)
     _shot(page, "tabs-phone.png")
     page.context.close()
@@ -245,7 +245,8 @@ def test_dark_theme_everywhere(server, browser, size):
     _click(page, "back", scroll=False,
            done=lambda: page.locator(_sel(f"site-{SITE}")).count() > 0)
     _click(page, f"site-{SITE}")
-    _click(page, "column-C/3-G", done=lambda: page.locator(_sel("status")).count() > 0)
+    _click(page, "column-C/3-G", x=200 if size == "tablet" else None,
+           done=lambda: page.locator(_sel("status")).count() > 0)
     time.sleep(1)
     assert _page_luminance(page) < 0.05
     _shot(page, f"dark-column{suffix}.png")
