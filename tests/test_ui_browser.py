@@ -28,8 +28,9 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
 
     site.click()
     _wait(page, "column-A/1-G")
-    rows = page.locator('[flt-semantics-identifier^="column-"]')
-    _poll(lambda: rows.count(), lambda n: n >= 8, "column rows")
+    rows = page.locator('[flt-semantics-identifier^="column-"]'
+                        ':not([flt-semantics-identifier="column-search"])')
+    _poll(lambda: rows.count(), lambda n: n >= 6, "column rows")
     texts = [rows.nth(i).inner_text() for i in range(rows.count())]
     over = [t for t in texts if re.search(r"\d\.\d\d OVER", t)]
     assert over and all(STATUS.search(t) for t in texts), texts
@@ -37,10 +38,11 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     boxes = [rows.nth(i).bounding_box() for i in range(rows.count())]
     # a row cut by the screen's bottom edge reports its visible part, ending right at the edge
     whole = [b for b in boxes if b and b["y"] >= 56 and b["y"] + b["height"] < PHONE["height"] - 1]
-    assert len(whole) >= 5 and all(b["height"] >= 48 for b in whole), boxes
+    # under the search and the filters, still several whole rows on the first screen
+    assert len(whole) >= 4 and all(b["height"] >= 48 for b in whole), boxes
 
     tag = over[0].split(":")[0].strip()
-    page.locator(_sel(f"column-{tag}")).first.click()
+    _click(page, f"column-{tag}", done=lambda: page.locator(_sel("status")).count())
     status = _wait(page, "status")
     before = _poll(lambda: STATUS.search(status.inner_text()).group(0),
                    lambda s: s.endswith("OVER"), "status of the OVER column")
@@ -91,11 +93,11 @@ def test_tablet_two_panes(server, browser):
     site.click()
     _wait(page, "column-A/1-G")
     _shot(page, "tablet-columns.png")
-    page.locator(_sel("column-C/3-G")).first.click()
+    _click(page, "column-C/3-G", x=200, done=lambda: page.locator(_sel("status")).count())
     status = _wait(page, "status")
     _poll(lambda: status.inner_text(), lambda t: STATUS.search(t) is not None, "status")
     # the list stays beside the column on a tablet
-    assert page.locator(_sel("column-A/1-G")).count() == 1
+    assert page.locator(_sel("column-C/3-G")).count() == 1
     assert CAUTION in _wait(page, "caution").inner_text()
     _shot(page, "tablet-column.png")
     for ident, x in (("back", 0), ("column-C/3-G", 200), ("field-length", 600),
@@ -214,7 +216,7 @@ def test_phone_corrected_reading_and_retrofit(server, browser):
     assert page.locator(_sel("retrofit-0")).count() == 0  # D/2-G has no saved option
     # C/3-G has one: before -> after on a phone, with the caution
     _click(page, "back")
-    _wait(page, "column-A/1-G")
+    _wait(page, "column-D/2-G")  # Back: the list where it was left
     _open_column(page, "column-C/3-G")
     _tab(page, "retrofit")
     _scroll_to(page, "retrofit-0-line")  # kept options come after the builder and the sweep
@@ -230,7 +232,7 @@ def test_phone_corrected_reading_and_retrofit(server, browser):
 def test_tablet_retrofit_before_after_and_findings(server, browser):
     page = _open(browser, server, TABLET)
     _click(page, "site-Kestrel Lane Print Works")
-    page.locator(_sel("column-C/3-G")).first.click()
+    _click(page, "column-C/3-G", x=200, done=lambda: page.locator(_sel("status")).count())
     _wait(page, "status")
     _tab(page, "retrofit")
     _scroll_to(page, "retrofit-0-line", 600)

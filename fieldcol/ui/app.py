@@ -364,13 +364,13 @@ class FieldApp:
                      f"/sites/{site_id}")
 
     def _list(self, site_id: str, selected: str | None = None) -> ft.Control:
-        tools = ft.Column([self._visit_tool(site_id), ft.Row([
-            ft.Semantics(identifier="new-column", content=ft.FilledButton(
-                "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{site_id}/new-column"),
-                height=v.TAP)),
-            ft.Semantics(identifier="edit-site", content=ft.OutlinedButton(
-                "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{site_id}/edit"),
-                height=v.TAP))], wrap=True, spacing=8)], spacing=8)
+        new = ft.Semantics(identifier="new-column", content=ft.FilledButton(
+            "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{site_id}/new-column"),
+            height=v.TAP))
+        visit = self._visit_tool(site_id)
+        tools = ft.Row([new, visit], wrap=True, spacing=8, run_spacing=8) \
+            if self.visit is None or self.visit.site_id != site_id \
+            else ft.Column([visit, new], spacing=8)
         return self.list.control(selected, tools)
 
     async def _show_site(self, site_id: str) -> None:
@@ -379,13 +379,15 @@ class FieldApp:
         page = await self.list.load(site_id, fresh=True)
         await self._load_visit(site_id)
         title = page.site.name
+        actions = [self._action(ft.Icons.EDIT, "Edit site", "edit-site",
+                                self._go(f"/sites/{site_id}/edit"))]
         if not self.wide:
-            self._render(f"/sites/{site_id}", title, self._list(site_id), "/")
+            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions)
         else:
             hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
                                 padding=24)
             self._render(f"/sites/{site_id}", title,
-                         self._two_panes(self._list(site_id), hint), "/")
+                         self._two_panes(self._list(site_id), hint), "/", actions=actions)
         await self.list.restore()
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:

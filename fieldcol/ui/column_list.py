@@ -156,14 +156,14 @@ class ColumnList:
         status = [("all", "All", None)] + [(k, w, k) for k, w in m.STATUS_FILTERS.items()]
         out = [v.choice_chip(f"filter-status-{key}", word, p.status == value,
                              self._choose(status=value)) for key, word, value in status]
-        rows: list[ft.Control] = [ft.Row(out, wrap=True, spacing=8, run_spacing=8)]
         if len(p.levels) > 1 or p.level is not None:
             levels = [("all", "All levels", None)] + [(lv, lv, lv) for lv in p.levels]
-            rows.append(ft.Row([v.choice_chip(f"filter-level-{key}", word, p.level == value,
-                                              self._choose(level=value))
-                                for key, word, value in levels],
-                               wrap=True, spacing=8, run_spacing=8))
-        return rows
+            out += [ft.VerticalDivider(width=9, color=v.LINE)] + [
+                v.choice_chip(f"filter-level-{key}", word, p.level == value,
+                              self._choose(level=value)) for key, word, value in levels]
+        # one row that slides sideways: the rows of columns start high on a phone; what is
+        # chosen is also said in the count line above, so nothing chosen is out of sight
+        return [ft.Row(out, spacing=8, scroll=ft.ScrollMode.AUTO, height=v.TAP + 4)]
 
     def _fill(self) -> None:
         p = self.page
@@ -176,10 +176,13 @@ class ColumnList:
         else:
             shown = f"{len(p.rows)} of {c.columns} columns shown" if p.has_more \
                 else f"{c.columns} columns"
+        picked = ", ".join(x for x in (
+            m.STATUS_FILTERS.get(p.status or "", ""), p.level or "",
+            f"tag has '{p.search}'" if p.search else "") if x)
         head: list[ft.Control] = [
-            v.text_line(c.name, size=20, bold=True),
             ft.Semantics(identifier="columns-shown", content=v.text_line(
-                f"{shown} · {c.over} over capacity", color=v.MUTED)),
+                f"{shown} · {c.over} over capacity" + (f" · {picked}" if picked else ""),
+                color=v.MUTED)),
             *([self.tools] if self.tools is not None else []),
             ft.Semantics(identifier="column-search", content=self.search),
             *self._chips(), v.caution_box()]
