@@ -204,7 +204,9 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
     down = not up
     while time.monotonic() < deadline:
         box = _box(page, identifier)
-        if box and box["y"] >= TOP and box["y"] + box["height"] <= height - BOTTOM:
+        # strictly below the bar: a control cut by the list's top edge reports its visible
+        # part, starting right at the edge
+        if box and box["y"] > TOP and box["y"] + box["height"] <= height - BOTTOM:
             return page.locator(_sel(identifier)).first
         if box and before and box["y"] == before["y"] and box["y"] >= 0 \
                 and box["y"] + box["height"] <= height:
@@ -352,6 +354,6 @@ def _drawn(page, identifier: str) -> float:
 
 def _big_enough(page, *identifiers: str) -> None:
     """Touch targets usable with gloves: at least 48 px (Material guidance, common practice)."""
-    for ident in identifiers:
-        box = page.locator(_sel(ident)).first.bounding_box()
+    for ident in identifiers:  # each wholly in view first: a control cut by an edge reads short
+        box = _find(page, ident).bounding_box()
         assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
