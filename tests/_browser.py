@@ -242,11 +242,12 @@ def _to_top(page, x: float | None = None) -> None:
 
 
 def _click(page, identifier: str, *, done: Callable[[], Any] | None = None,
-           x: float | None = None, scroll: bool = True, tries: int = 5) -> None:
+           x: float | None = None, scroll: bool = True, up: bool = False,
+           tries: int = 5) -> None:
     """Tap a control until the tap took.
 
     The control is found again before each tap (scrolled into view unless ``scroll`` is
-    false); a tap refused because the node moved or was replaced while the app redrew it is
+    false; ``up``: look above first); a tap refused because the node moved or was replaced while the app redrew it is
     made again. With ``done`` (a check that the tap did its job) the tap is repeated until
     ``done()`` holds, and a control gone because ``done()`` already holds is fine.
     """
@@ -255,7 +256,8 @@ def _click(page, identifier: str, *, done: Callable[[], Any] | None = None,
         if done is not None and attempt and _true(done):
             return
         try:
-            loc = _find(page, identifier, x, timeout=8) if scroll else _wait(page, identifier, 8)
+            loc = _find(page, identifier, x, up=up, timeout=8) if scroll \
+                else _wait(page, identifier, 8)
             loc.click(timeout=5000)
         except (sync_api.Error, AssertionError) as e:  # moved, replaced, or gone for now
             last = e
