@@ -24,7 +24,8 @@ import pytest
 from PIL import Image, ImageDraw
 
 from _browser import (  # noqa: F401  (browser is a fixture)
-    SIZES, TIMEOUT, _choose, _click, _find, _offline, _open, _poll, _sel, _shot, _type_into,
+    SIZES, TIMEOUT, _choose, _click, _find, _offline, _open, _poll, _sel, _shot, _tab,
+    _type_into,
     _wait, _words, app_server, browser,
 )
 from fieldcol import CAUTION
@@ -66,7 +67,7 @@ def test_photo_of_a_defect_then_marked_up(server, browser, tmp_path, size):
     page = _open(browser, base, SIZES[size])
     tag = "A/1-G" if size == "phone" else "B/1-G"
     _column(page, tag)
-    _click(page, "tab-findings")
+    _tab(page, "findings")
     _wait(page, "photo-defect")
     # no error box anywhere on the tab (a hidden note inside a Semantics drew one)
     assert "must be provided" not in page.locator("body").inner_text()
@@ -133,7 +134,7 @@ def test_build_compare_keep_and_sweep_a_retrofit_option(server, browser, size):
     page = _open(browser, base, SIZES[size])
     tag = "C/4-G" if size == "phone" else "A/2-G"
     _column(page, tag)
-    _click(page, "tab-retrofit")
+    _tab(page, "retrofit")
     assert CAUTION in _words(page, "caution")
     _click(page, "option-kind-brace")
     _click(page, "option-axis-weak")
@@ -157,8 +158,8 @@ def test_build_compare_keep_and_sweep_a_retrofit_option(server, browser, size):
                           "ON c.id = r.column_id WHERE c.tag = ? AND r.deleted_at IS NULL", [tag])
     assert json.loads(row[0]) == {"kind": "brace", "axis": "weak", "at": "7 ft"}
     _click(page, "sweep-run")
-    _wait(page, "sweep-chart")
-    chart = _find(page, "sweep-chart")
+    chart = _find(page, "sweep-chart")  # drawn below the button: scrolled to (a list builds
+                                         # only what is near the screen)
     _poll(lambda: _words(page, "sweep-chart"), lambda t: "at most" in t, "the sweep")
     assert chart.bounding_box()["width"] >= 280
     _shot(page, f"retrofit-sweep{'' if size == 'phone' else '-tablet'}.png")
