@@ -270,6 +270,10 @@ def test_brace_sweep_peaks_at_mid_height_for_a_pin_ended_column(tmp_path):
         assert s.best.strength > s.before and "from the bottom" in s.words
         with pytest.raises(InputError):
             rm.brace_sweep(store, col.id, "sideways")
+        # the chart of it is drawn (in the theme's colours) without a fault
+        from fieldcol.ui.tab_retrofit import sweep_chart
+        chart = sweep_chart(s, 330)
+        assert chart.identifier == "sweep-chart" and chart.label == s.words
 
 
 # -- report: markup drawn over the photo -----------------------------------------------------

@@ -58,7 +58,8 @@ def test_migrate_from_each_earlier_version_with_data(tmp_path: Path, start: int)
         assert s.restraint_changes(before["col"]) == []
         indexes = {r[0] for r in s.db.conn.execute(
             "SELECT name FROM sqlite_master WHERE type = 'index'")}
-        assert {"columns_site_tag", "measurements_column", "checks_column"} <= indexes
+        assert {"columns_site_tag", "measurements_column", "checks_column",
+                "findings_visit", "photo_links_visit"} <= indexes
 
 
 def test_version_two_adds_the_indexes(tmp_path: Path):

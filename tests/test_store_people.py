@@ -67,3 +67,42 @@ def test_store_from_before_m004_gains_the_columns_keeps_rows(tmp_path: Path):
         assert s.get_site(site.id).created_by is None
         assert s.get_site(site.id).basis is None
         assert [r.tag for r in s.list_columns(site.id)] == ["M1"]
+
+
+def test_what_is_recorded_during_a_visit_belongs_to_it(tmp_path):
+    """A finding, a restraint change, a photo link and a reading made while a visit is open on
+    the device carry its id; on another site, or once it ended, they do not."""
+    import io
+
+    from PIL import Image
+
+    with Store(tmp_path / "v.db") as s:
+        site = s.add_site("Quarry Sheds", code="aisc360-22", unit_system="us")
+        other = s.add_site("Mill Annexe", code="aisc360-22", unit_system="us")
+        col = s.add_column(site.id, {"tag": "Q/1", "section": "W10X49", "length": "14 ft"})
+        far = s.add_column(other.id, {"tag": "M/1", "section": "W10X49", "length": "14 ft"})
+        visit = s.start_visit(site.id, "2026-12-04", people="R. Amadi, T. Osei",
+                              weather="wet, 6 C", access="north door only")
+        f = s.add_finding(site.id, "Pitting at the base", category="corrosion",
+                          severity="medium", column_id=col.id)
+        rc = s.add_restraint_change(col.id, "2026-12-04", "brace_added", "strut at 7 ft",
+                                    axis="weak")
+        buf = io.BytesIO()
+        Image.new("RGB", (20, 20), (200, 10, 10)).save(buf, "JPEG")
+        s.add_photo(buf.getvalue(), finding_id=f.id)
+        m = s.add_measurement(col.id, "length", "13 ft 11 in")
+        elsewhere = s.add_restraint_change(far.id, "2026-12-04", "brace_added", "rod", axis="weak")
+        got = {t: s.db.conn.execute(f"SELECT visit_id FROM {t} WHERE id = ?", [i]).fetchone()[0]
+               for t, i in (("findings", f.id), ("restraint_changes", rc.id),
+                            ("measurements", m.id))}
+        assert got == {"findings": visit.id, "restraint_changes": visit.id,
+                       "measurements": visit.id}
+        (link,) = s.db.conn.execute("SELECT visit_id FROM photo_links WHERE finding_id = ?",
+                                    [f.id]).fetchall()
+        assert link[0] == visit.id
+        assert s.db.conn.execute("SELECT visit_id FROM restraint_changes WHERE id = ?",
+                                 [elsewhere.id]).fetchone()[0] is None
+        s.end_visit()
+        later = s.add_finding(site.id, "Loose bolt", category="connection", severity="low")
+        assert s.db.conn.execute("SELECT visit_id FROM findings WHERE id = ?",
+                                 [later.id]).fetchone()[0] is None

@@ -8,10 +8,11 @@ tests/test_sections_builtup.py.
 
 from __future__ import annotations
 
-from test_ui_browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, _open, _poll, _sel, _shot, _tab, _type_into, _words, browser, server,
+from _browser import (  # noqa: F401  (server and browser are fixtures)
+    PHONE, _big_enough, _click, _find, _offline, _open, _poll, _sel, _shot, _tab, _type_into,
+    _words, browser, server,
 )
-from test_ui_browser_section import _big_enough, _column, _find, _offline
+from test_ui_browser_section import _column
 
 
 def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
@@ -23,7 +24,7 @@ def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
                       ("battens.depth", "8"), ("battens.thickness", "3/8")):
         _find(page, f"built-{key}")
         _type_into(page, f"built-{key}", text, enter=False)
-    _find(page, "built-show").click()
+    _click(page, "built-show")
     _find(page, "built-preview")
     _poll(lambda: _words(page, "built-preview"),
           lambda t: "Area" in t and "Chords apart (weak axis)" in t,
@@ -31,13 +32,13 @@ def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
     assert page.locator(_sel("built-sketch")).count() == 1
     _big_enough(page, "built-show", "save-built")
     _shot(page, "section-built-up.png")
-    _find(page, "save-built").click()
+    _click(page, "save-built")
     _poll(lambda: _words(page, "save-note"),
           lambda t: "Saved built-up section; checked again:" in t, "the save note")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "Built up: two channels" in t,
           "the section now")
-    page.locator(_sel("save-undo")).first.click()
+    _click(page, "save-undo")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "Built up" not in t, "undone")
     _offline(page)

@@ -10,31 +10,13 @@ $FIELDCOL_SHOTS (``restraint-brace.png``, ``check.png``; ``-tablet`` at 820 px).
 
 from __future__ import annotations
 
-from test_ui_browser import (PHONE, TABLET, _open, _poll, _sel, _shot, _wait, browser,  # noqa: F401
-                             server)
-
-
-def _find(page, identifier: str, *, down: bool = True):
-    """The element with this identifier, scrolled onto the screen (a long list builds only
-    what is near the screen, and a tap must land on the screen)."""
-    loc = page.locator(_sel(identifier)).first
-    height = page.viewport_size["height"]
-    page.mouse.move(page.viewport_size["width"] / 2, height / 2)
-    for _ in range(40):
-        if loc.count():
-            box = loc.bounding_box()
-            if box and 60 <= box["y"] and box["y"] + min(box["height"], height - 80) <= height:
-                return loc
-            if box:
-                down = box["y"] > 60
-        page.mouse.wheel(0, 250 if down else -250)
-        page.wait_for_timeout(200)
-    return _wait(page, identifier)
+from _browser import (PHONE, TABLET, _click, _find, _open, _poll, _sel, _shot, _wait,  # noqa: F401
+                      browser, server)
 
 
 def _column(page, tag: str) -> None:
-    _wait(page, "site-Kestrel Lane Print Works").click()
-    _wait(page, f"column-{tag}").click()
+    _click(page, "site-Kestrel Lane Print Works")
+    _click(page, f"column-{tag}")
     _wait(page, "status")
 
 
@@ -54,36 +36,36 @@ def _walk(page, suffix: str, tag: str) -> None:
     _find(page, "column-curve")
     _shot(page, f"check-curve{suffix}.png")
     # the full trace one tap away (its symbols are checked in tests/test_ui_restraints_model.py)
-    _find(page, "trace").click()
+    _click(page, "trace")
     _shot(page, f"check-trace{suffix}.png")
 
     # Restraints: add a brace at mid-height in two taps and see what governs change
-    _find(page, "tab-restraints", down=False).click()
+    _click(page, "tab-restraints", up=True)
     told = _wait(page, "restraint-governs")
     _poll(lambda: told.inner_text(), lambda t: "weak axis governs" in t, "weak axis governs")
-    _find(page, "add-brace").click()
+    _click(page, "add-brace")
     _wait(page, "brace-at")   # filled with mid-height (tests/test_ui_restraints_model.py)
     # the sketch follows the brace being typed, before it is saved
-    _poll(lambda: _find(page, "restraint-governs", down=False).inner_text(),
+    _poll(lambda: _find(page, "restraint-governs", up=True).inner_text(),
           lambda t: "weak axis" not in t, "sketch follows the form")
     _shot(page, f"restraint-form{suffix}.png")
-    _find(page, "save-brace").click()
+    _click(page, "save-brace")
     _wait(page, "save-undo")   # saved, with Undo offered
     _find(page, "brace-0")
-    _poll(lambda: _find(page, "restraint-governs", down=False).inner_text(),
+    _poll(lambda: _find(page, "restraint-governs", up=True).inner_text(),
           lambda t: "governs" in t and "weak axis" not in t, "governing mode changed")
-    _find(page, "restraint-sketch", down=False)
+    _find(page, "restraint-sketch", up=True)
     page.mouse.wheel(0, -2000)   # the side view and what governs at the top of the shot
     _shot(page, f"restraint-brace{suffix}.png")
     assert not page.refused or all("rive" in u for u in page.refused), page.refused
 
     # the history holds the dated restraint change
-    _find(page, "tab-history", down=False).click()
+    _click(page, "tab-history", up=True)
     _poll(lambda: page.locator("body").inner_text(), lambda t: "brace at 8 ft" in t.lower()
           or "strut at 8 ft" in t.lower(), "restraint change in the history")
     # undo puts it back
-    _find(page, "tab-restraints", down=False).click()
-    _wait(page, "save-undo").click()
+    _click(page, "tab-restraints", up=True)
+    _click(page, "save-undo")
     _poll(lambda: page.locator(_sel("restraint-governs")).first.inner_text(),
           lambda t: "weak axis governs" in t, "undone")
 

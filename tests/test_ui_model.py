@@ -64,14 +64,17 @@ def test_column_rows_and_paging(demo):
     assert c3.status.label == "1.11 OVER" and c3.status.icon == "warning"
     assert by_tag["A/1-G"].status.label == "0.37 OK"
     assert by_tag["C/2-G"].length == "23'-10\""  # the measured length, not the drawn 24 ft
-    seen, offset = [], 0
-    while True:
-        p = m.column_page(store, site.id, offset=offset, limit=10)
+    seen, after, pages = [], None, 0
+    while True:  # keyset paging: each page starts after the last (tag, id) seen
+        p = m.column_page(store, site.id, after=after, limit=10)
         seen += [r.tag for r in p.rows]
-        offset += 10
+        after, pages = p.after, pages + 1
         if not p.has_more:
             break
-    assert seen == [r.tag for r in page.rows] and offset == 30
+    assert seen == [r.tag for r in page.rows] and pages == 3
+    grown = m.column_page(store, site.id, limit=10)
+    grown = m.next_page(store, grown, limit=10)
+    assert [r.tag for r in grown.rows] == seen[:20] and grown.has_more
 
 
 def test_status_words_never_colour_alone():

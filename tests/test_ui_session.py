@@ -41,6 +41,7 @@ class _Client(Connection):
         self.pubsubhub = PubSubHub(loop=loop, executor=self.executor)
         self.session: Session | None = None
         self.tasks: list[asyncio.Task] = []
+        self.invoked: list[tuple[str, dict]] = []  # methods the app asked the client to run
         self._encode = configure_encode_object_for_msgpack(BaseControl)
 
     def send_message(self, message: Any) -> None:
@@ -48,6 +49,7 @@ class _Client(Connection):
         if message.action == MessageAction.INVOKE_METHOD:
             body = message.body
             assert self.session is not None
+            self.invoked.append((body.name, dict(body.args or {})))
             self.session.handle_invoke_method_results(body.control_id, body.call_id, None, None)
             if body.name == "push_route":
                 route = body.args["route"]
@@ -203,10 +205,10 @@ def test_tabs_in_order_each_its_own_module(demo):
             assert s.has(f"tab-{t.name}")
             await s.tap(f"tab-{t.name}")
             assert "(shown)" in s.find(f"tab-{t.name}").label
-        # the tab row scrolls sideways on a phone (seven tabs do not fit in 390 px)
+        # every tab in sight at 390 px: four to a row, two rows, nothing scrolled off the edge
         tab = s.find("tab-check")
-        row = next(c for c in s.all() if isinstance(c, ft.Row) and tab in c.controls)
-        assert row.scroll is not None and not row.wrap
+        row = next(c for c in s.all() if isinstance(c, ft.ResponsiveRow) and tab in c.controls)
+        assert all(c.col == {"xs": 3} for c in row.controls) and len(row.controls) == 7
         await s.tap("tab-retrofit")
         assert s.has("retrofit-0-line")
         assert "licensed engineer" in s.text("caution")
@@ -508,3 +510,123 @@ def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
         await s.tap("save-undo")
         assert [x.id for x in store.retrofits(col.id)] == [r.id]
     _run(walk())
+
+
+# -- the column list: filters, search, and the place it was scrolled to ----------------------
+@pytest.mark.parametrize("width", [390, 820])
+def test_list_filters_search_and_scroll_kept_on_back(demo, width):
+    async def walk():
+        store, site = demo
+        s = Screen(store, width)
+        await s.start()
+        await s.go(f"/sites/{site.id}")
+        rows = lambda: [c.identifier for c in s.all()  # noqa: E731
+                        if isinstance(c, ft.Semantics) and (c.identifier or "").startswith(
+                            "column-") and c.identifier not in ("column-search", "column-tag")]
+        assert len(rows()) == 24
+        await s.tap("filter-status-over")
+        assert len(rows()) == 5 and "(chosen)" in s.find("filter-status-over").label
+        assert "5 of 24 columns match" in s.text("columns-shown")
+        await s.tap("filter-status-all")
+        await s.type("column-search", "c/", submit=False)
+        await asyncio.sleep(0.4)  # the list follows a pause in typing
+        await s.settle()
+        assert rows() and all(r.startswith("column-C/") for r in rows()), rows()
+        tag = rows()[2][len("column-"):]
+        # scrolled down, a column opened, Back: the same rows and the same place
+        lv = s.app.list.view
+        await s.session.dispatch_event(lv._i, "scroll", {
+            "event_type": "end", "pixels": 612.0, "min_scroll_extent": 0.0,
+            "max_scroll_extent": 2000.0, "viewport_dimension": 700.0})
+        assert s.app.list.at == 612.0
+        await s.tap(f"column-{tag}")
+        assert s.app.detail is not None and s.app.detail.tag == tag
+        s.client.invoked.clear()
+        await s.go(f"/sites/{site.id}")
+        assert all(r.startswith("column-C/") for r in rows()) and s.text(
+            "column-search") == "c/"
+        assert ("scroll_to", 612.0) in [(n, a.get("offset")) for n, a in s.client.invoked]
+    _run(walk())
+
+
+# -- a visit: started from the site, what is recorded during it belongs to it ---------------
+def test_visit_started_recorded_and_ended(demo):
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/sites/{site.id}")
+        await s.tap("new-visit")
+        assert s.inner("visit-date", ft.TextField).value  # today, proposed
+        await s.type("visit-date", "2026-13-40", submit=False)
+        await s.tap("start-visit")
+        assert "Date" in (s.inner("visit-date", ft.TextField).error or "")
+        assert store.open_visit() is None  # refused: nothing started
+        await s.type("visit-date", "2026-12-04", submit=False)
+        await s.type("visit-weather", "wet, 6 C", submit=False)
+        await s.type("visit-access", "north door only", submit=False)
+        await s.tap("start-visit")
+        assert "Visit under way: 2026-12-04" in s.text("visit-now")
+        assert "wet, 6 C" in s.text("visit-now")
+        vid = store.open_visit().id
+        col = store.find_column(site.id, "C/3-G")
+        await s.go(f"/columns/{col.id}")
+        assert s.app.visit_id == vid
+        await s.type("field-length", "23 ft")
+        (m,) = [x for x in store.measurements(col.id, "length") if x.text == "23 ft"]
+        assert m.visit_id == vid
+        await s.go(f"/sites/{site.id}")
+        await s.tap("end-visit")
+        assert store.open_visit() is None and s.has("new-visit")
+        await s.tap("save-undo")  # ended by mistake: open again
+        assert store.open_visit().id == vid
+    _run(walk())
+
+
+# -- a screen that cannot be read: words and Try again, never a blank -----------------------
+def test_a_failed_load_offers_try_again(demo):
+    import sqlite3
+
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        # another program damages the schema under the app (a real fault, put right after)
+        other = sqlite3.connect(store.path, isolation_level=None)
+        other.execute("ALTER TABLE levels RENAME TO levels_away")
+        try:
+            await s.go(f"/sites/{site.id}")
+            assert s.has("try-again") and "could not be loaded" in s.text("try-again") + \
+                " ".join(c.value for c in s.all() if isinstance(c, ft.Text) and c.value)
+            assert "refused" in s.text("load-error") or "busy" in s.text("load-error")
+            await s.tap("try-again")
+            assert s.has("try-again")  # still damaged: still the same screen
+        finally:
+            other.execute("ALTER TABLE levels_away RENAME TO levels")
+            other.close()
+        await s.tap("try-again")
+        assert not s.has("try-again") and s.has("column-C/3-G")
+    _run(walk())
+
+
+# -- an EN site speaks EN: no AISC basis anywhere on its column -------------------------------
+def test_an_en_column_never_says_lrfd(tmp_path):
+    store = open_store(tmp_path / "en.db")
+    try:
+        site = store.add_site("Harbour Crane Shed", code="en1993-1-1", unit_system="si")
+        col = store.add_column(site.id, {"tag": "H/1", "code": "en1993-1-1", "section": "HE 300 B",
+                                         "length": "4.2 m",
+                                         "material": "S355", "demand": {"axial": "1800 kN"}})
+
+        async def walk():
+            s = Screen(store)
+            await s.start()
+            await s.go(f"/columns/{col.id}")
+            await s.tap("check-again")
+            words = " ".join(str(c.value) for c in s.all()
+                             if isinstance(c, (ft.Text, ft.TextField)) and c.value)
+            assert "1800 kN" in words.replace("1,800", "1800") or "kN" in words
+            assert "LRFD" not in words and "ASD" not in words, words
+        _run(walk())
+    finally:
+        store.close()

@@ -22,7 +22,7 @@ from fieldcol.sync._hubstore import HubStore
 from fieldcol.sync.client import SyncReport
 
 from test_sync_oplog import send
-from test_ui_browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
+from _browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
 
 
 

@@ -29,7 +29,7 @@ from fieldcol.store._migrations import (
 from fieldcol.store._archive import clean_staging
 from fieldcol.store._paths import photos_dir, resolve_db_path
 from fieldcol.store._photos import clean_temporary
-from fieldcol.store._schema import DATA_TABLES
+from fieldcol.store._schema import DATA_TABLES, VISIT_TABLES
 
 #: how long one attempt waits for another writer (``$FIELDCOL_BUSY_TIMEOUT`` overrides it)
 T = TypeVar("T")
@@ -365,12 +365,56 @@ class StoreBase:
         if self.person is not None and "created_by" not in row:
             full["created_by"] = self.person
         full.update(row)
+        if table in VISIT_TABLES and full.get("visit_id") is None:
+            visit = self._visit_for(table, full)
+            if visit is not None:
+                full["visit_id"] = visit
         cols = ", ".join(full)
         marks = ", ".join("?" for _ in full)
         with self._tx():
             self._execute_checked(f"INSERT INTO {table} ({cols}) VALUES ({marks})",
                                   list(full.values()))
         return full["id"]
+
+    def _visit_for(self, table: str, row: dict[str, Any]) -> str | None:
+        """The visit open on this device, when it is to the site the new row belongs to: what
+        is recorded during a visit belongs to it (m007_visits; older schemas have no column)."""
+        if table not in self._visit_tables():
+            return None
+        got = self.db.execute("SELECT value FROM meta WHERE key = 'visit.open'").fetchone()
+        vid = got[0] if got else None
+        if vid is None:
+            return None
+        found = self.db.execute("SELECT site_id FROM visits WHERE id = ? AND deleted_at IS NULL "
+                                "AND ended_at IS NULL", [vid]).fetchone()
+        if found is None:
+            return None
+        if row.get("site_id"):
+            site = row["site_id"]
+        elif row.get("column_id"):
+            site = self._site_of("columns", row["column_id"])
+        elif row.get("finding_id"):
+            site = self._site_of("findings", row["finding_id"])
+        elif row.get("restraint_change_id"):
+            got = self.db.execute("SELECT c.site_id FROM restraint_changes r JOIN columns c ON "
+                                  "c.id = r.column_id WHERE r.id = ?",
+                                  [row["restraint_change_id"]]).fetchone()
+            site = got[0] if got else None
+        else:
+            site = None
+        return vid if site == found[0] else None
+
+    def _site_of(self, table: str, row_id: str) -> str | None:
+        got = self.db.execute(f"SELECT site_id FROM {table} WHERE id = ?", [row_id]).fetchone()
+        return got[0] if got else None
+
+    def _visit_tables(self) -> frozenset[str]:
+        cached = getattr(self, "_visit_cols", None)
+        if cached is None:
+            cached = frozenset(t for t in VISIT_TABLES if any(
+                r[1] == "visit_id" for r in self.db.execute(f"PRAGMA table_info({t})")))
+            self._visit_cols = cached
+        return cached
 
     def _update(self, table: str, row_id: str, changes: dict[str, Any]) -> None:
         if not changes:

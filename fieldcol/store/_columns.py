@@ -283,9 +283,66 @@ class ColumnsMixin(SitesMixin):
         if site_id is not None:
             where += " AND c.site_id = ?"
             params.append(site_id)
+        return self._column_rows(where, params, "s.name, c.tag", limit, offset)
+
+    def page_columns(self, site_id: str, *, after: tuple[str, str] | None = None,
+                     limit: int = 50, search: str | None = None, level: str | None = None,
+                     status: str | None = None) -> list[ColumnRow]:
+        """One page of a site's live columns by (tag, id), starting after a row (keyset
+        paging: the next page costs the same on a site of any size, unlike an offset).
+
+        Args:
+            site_id: the site.
+            after: ``(tag, id)`` of the last row of the previous page, or ``None`` for the first.
+            limit: rows in the page (1..1000).
+            search: part of a tag, any case (``b/4`` finds ``B/4-L1``).
+            level: a level's name, exactly; ``""`` for columns with no level.
+            status: ``over`` (latest check over capacity), ``ok`` (within capacity) or
+                ``not-checked`` (no check yet); ``None`` for all.
+
+        Returns:
+            Up to ``limit`` rows, by tag then id.
+
+        Example:
+            >>> first = store.page_columns(site.id, limit=1)
+            >>> [r.tag for r in store.page_columns(site.id, after=(first[0].tag, first[0].id))]
+            ['B/4-L1']
+        """
+        if isinstance(limit, bool) or not isinstance(limit, int) or not 1 <= limit <= 1000:
+            raise InputError("limit", repr(limit), "a page holds 1 to 1000 rows", None)
+        where = "c.deleted_at IS NULL AND s.deleted_at IS NULL AND c.site_id = ?"
+        params: list[Any] = [site_id]
+        if after is not None:
+            if not (isinstance(after, (tuple, list)) and len(after) == 2
+                    and all(isinstance(x, str) for x in after)):
+                raise InputError("after", repr(after), "give the (tag, id) of the last row", None)
+            where += " AND (c.tag > ? OR (c.tag = ? AND c.id > ?))"
+            params += [after[0], after[0], after[1]]
+        if search is not None and search.strip():
+            # LIKE with our own escape: a typed % or _ is a character of the tag, not a pattern
+            text = search.strip().replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")
+            where += " AND c.tag LIKE ? ESCAPE '\\'"
+            params.append(f"%{text}%")
+        if level is not None:
+            if level == "":
+                where += " AND c.level_id IS NULL"
+            else:
+                where += " AND l.name = ?"
+                params.append(level)
+        if status is not None:
+            test = {"over": "k.utilization > 1.0", "ok": "k.utilization <= 1.0",
+                    "not-checked": "k.id IS NULL"}.get(status)
+            if test is None:
+                raise InputError("status", status, "not a status to filter by",
+                                 "use over, ok or not-checked")
+            where += f" AND {test}"
+        return self._column_rows(where, params, "c.tag, c.id", limit, 0)
+
+    def _column_rows(self, where: str, params: list[Any], order: str, limit: int,
+                     offset: int) -> list[ColumnRow]:
         rows = self._rows(f"""
             SELECT c.id, c.tag, c.record, c.location, c.grid, s.name AS site, l.name AS level,
-                   k.utilization, k.governing_mode, k.checked_at
+                   k.id AS check_id, k.utilization, k.governing_mode, k.checked_at
             FROM columns c
             JOIN sites s ON s.id = c.site_id
             LEFT JOIN levels l ON l.id = c.level_id
@@ -293,7 +350,7 @@ class ColumnsMixin(SitesMixin):
                 SELECT id FROM checks WHERE column_id = c.id AND deleted_at IS NULL
                 ORDER BY checked_at DESC, created_at DESC LIMIT 1)
             WHERE {where}
-            ORDER BY s.name, c.tag LIMIT ? OFFSET ?""", [*params, limit, offset])
+            ORDER BY {order} LIMIT ? OFFSET ?""", [*params, limit, offset])
         latest = self._latest_for([r["id"] for r in rows])
         out = []
         for r in rows:

@@ -11,7 +11,7 @@ from sqlite_utils import Database
 from sqlite_utils.migrations import Migrations
 
 from fieldcol.store import _oplog
-from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL
+from fieldcol.store._schema import V1_SQL, V2_SQL, V4_SQL, V5_SQL, V6_SQL
 
 migrations = Migrations("fieldcol")
 
@@ -61,6 +61,11 @@ def _m006_row_ops(db: Database) -> None:
     # one per unique key field (made by _oplog.install after each step): only keys are looked
     # up by value, and indexing every record's text made each merged row cost several writes.
     db.execute("DROP INDEX IF EXISTS sync_fields_value")
+
+
+@migrations(name="m007_visits")
+def _m007_visits(db: Database) -> None:
+    _each(db, V6_SQL)
 
 
 #: names in order; the schema version is the count applied

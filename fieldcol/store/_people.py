@@ -166,6 +166,20 @@ class PeopleMixin(StoreBase):
         rows = self._rows("SELECT * FROM visits WHERE id = ? AND deleted_at IS NULL", [vid])
         return from_row(Visit, rows[0]) if rows else None
 
+    def reopen_visit(self, visit_id: str) -> Visit:
+        """Open an ended visit again on this device (the undo of ``end_visit``).
+
+        Example:
+            >>> vid = store.start_visit(site.id, "2026-12-03").id; store.end_visit()
+            >>> store.reopen_visit(vid).ended_at is None
+            True
+        """
+        self._get("visits", visit_id, field="visit")
+        with self._tx():
+            self._update("visits", visit_id, {"ended_at": None})
+            self._set_meta({"visit.open": visit_id})
+        return from_row(Visit, self._get("visits", visit_id))
+
     def end_visit(self) -> None:
         """End the open visit (nothing recorded later belongs to it).
 

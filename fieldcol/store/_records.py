@@ -92,6 +92,7 @@ class RestraintChange(_Row):
     axis: str | None = None
     seen_by: str | None = None
     detail: dict[str, Any] | None = None
+    visit_id: str | None = None
 
 
 @dataclass(kw_only=True)
@@ -105,6 +106,7 @@ class Finding(_Row):
     column_id: str | None = None
     face: str | None = None
     height: str | None = None
+    visit_id: str | None = None
 
 
 @dataclass(kw_only=True)
@@ -132,6 +134,7 @@ class PhotoLink(_Row):
     column_id: str | None = None
     restraint_change_id: str | None = None
     caption: str | None = None
+    visit_id: str | None = None
 
 
 @dataclass(kw_only=True)

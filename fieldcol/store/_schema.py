@@ -180,3 +180,16 @@ ALTER TABLE findings ADD COLUMN height TEXT;
 ALTER TABLE photos ADD COLUMN markup TEXT CHECK (markup IS NULL OR json_valid(markup));
 ALTER TABLE retrofits ADD COLUMN option TEXT CHECK (option IS NULL OR json_valid(option));
 """
+
+#: version 7 (m007_visits): what is recorded during a visit belongs to it: findings, restraint
+#: changes and photo links carry the visit's id as readings already did (NULL: not on a visit)
+VISIT_TABLES = ("measurements", "findings", "restraint_changes", "photo_links")
+V6_SQL = """
+ALTER TABLE findings ADD COLUMN visit_id TEXT REFERENCES visits(id);
+ALTER TABLE restraint_changes ADD COLUMN visit_id TEXT REFERENCES visits(id);
+ALTER TABLE photo_links ADD COLUMN visit_id TEXT REFERENCES visits(id);
+CREATE INDEX measurements_visit ON measurements(visit_id);
+CREATE INDEX findings_visit ON findings(visit_id);
+CREATE INDEX restraint_changes_visit ON restraint_changes(visit_id);
+CREATE INDEX photo_links_visit ON photo_links(visit_id);
+"""

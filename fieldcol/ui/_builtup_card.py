@@ -17,13 +17,15 @@ import flet.canvas as cv
 from fieldcol.ui import _entry_controls as ec
 from fieldcol.ui import builtup_model as bm
 from fieldcol.ui import readings as r
+from fieldcol.ui import views as v
 from fieldcol.ui.views import MUTED, TONES, text_line
 
 if TYPE_CHECKING:
     from fieldcol.ui import section as sx
     from fieldcol.ui.tab_section import SectionTab
 
-_STEEL = "#1C4E9C"
+_STEEL = v.ACCENT            # theme roles (fieldcol.ui.palette): light and dark
+_FILL = v.CHOSEN_BG
 _SKETCH = 220.0
 
 
@@ -41,7 +43,7 @@ def sketch(polygons: list[list[tuple[float, float]]], size: float = _SKETCH) -> 
         els = [cv.Path.MoveTo(pad + poly[0][0] * scale, pad + poly[0][1] * scale)]
         els += [cv.Path.LineTo(pad + x * scale, pad + y * scale) for x, y in poly[1:]]
         els.append(cv.Path.Close())
-        shapes.append(cv.Path(els, ft.Paint(color="#C9D7EE", style=ft.PaintingStyle.FILL)))
+        shapes.append(cv.Path(els, ft.Paint(color=_FILL, style=ft.PaintingStyle.FILL)))
         shapes.append(cv.Path(els, ft.Paint(color=_STEEL, stroke_width=1.5,
                                             style=ft.PaintingStyle.STROKE)))
     return cv.Canvas(shapes, width=size, height=size)

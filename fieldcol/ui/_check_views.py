@@ -53,7 +53,7 @@ def result_cards(s: CheckSummary) -> list[ft.Control]:
     out = [v._card(head, title=s.title + (f" · {s.basis}" if s.basis else ""))]
     if s.warnings:
         out.append(v._card([ft.Semantics(identifier=f"warning-{i}", content=ft.Row(
-            [ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color="#7A5B00"),
+            [ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color=v.CAUTION_EDGE),
              ft.Text(w, size=16, color=v.INK, expand=True)],
             vertical_alignment=ft.CrossAxisAlignment.START))
             for i, w in enumerate(s.warnings)], title=f"Warnings ({len(s.warnings)})"))
@@ -90,4 +90,4 @@ def trace_tile(s: CheckSummary) -> ft.Control:
         title=v.text_line(f"Full calculation ({len(s.trace)} steps)", bold=True),
         controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
         expanded_cross_axis_alignment=ft.CrossAxisAlignment.START, maintain_state=False),
-        border=ft.Border.all(1, v.LINE), border_radius=10, bgcolor=ft.Colors.WHITE))
+        border=ft.Border.all(1, v.LINE), border_radius=10, bgcolor=v.CARD))

@@ -4,16 +4,18 @@ the column curve chart. Plain shapes from the view-models; no I/O."""
 from __future__ import annotations
 
 import flet as ft
+
+from fieldcol.ui import views as v
 import flet.canvas as cv
 
 from fieldcol.ui.check_model import Chart
 from fieldcol.ui.restraints_model import AxisSketch
 
-INK = "#111418"
-MUTED = "#5F6872"
-STEEL = "#1C4E9C"
-SHAPE = "#B3261E"      # the buckled shape: a dashed red-brown line, told apart by its dash too
-OFF = "#8A6D00"        # a brace that does not count: hollow and dashed
+INK = v.INK
+MUTED = v.MUTED
+STEEL = v.ACCENT
+SHAPE = v.TONES["over"][0]      # the buckled shape: a dashed red-brown line, told apart by its dash too
+OFF = v.CAUTION_EDGE        # a brace that does not count: hollow and dashed
 
 
 def _paint(color: str, width: float = 2.0, *, fill: bool = False,
@@ -140,7 +142,7 @@ def curve_canvas(chart: Chart, width: float = 340, height: float = 240) -> cv.Ca
                             ft.Alignment.TOP_CENTER))
     for sv in _ticks(chart.stress_max):
         shapes.append(cv.Line(left - 5, py(sv), left, py(sv), _paint(INK, 1)))
-        shapes.append(cv.Line(left, py(sv), right, py(sv), _paint("#D5DAE0", 1)))
+        shapes.append(cv.Line(left, py(sv), right, py(sv), _paint(v.GRID, 1)))
         shapes.append(_text(left - 7, py(sv) - 8, f"{sv:g}", 12, MUTED, False,
                             ft.Alignment.TOP_RIGHT))
     shapes.append(_text(right, bottom + 20, chart.x_name, 14, INK, True, ft.Alignment.TOP_RIGHT))

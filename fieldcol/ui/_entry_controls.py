@@ -11,14 +11,15 @@ from typing import TYPE_CHECKING, Any, Callable
 
 import flet as ft
 
+from fieldcol.ui import views as v
+
 from fieldcol.ui.views import INK, LINE, MUTED, TONES, Handler, caution_box, status_chip, text_line
 
 if TYPE_CHECKING:
     from fieldcol.ui.model import ColumnDetail
     from fieldcol.ui.readings import Change
 
-ACCENT = "#1C4E9C"
-CHOSEN_BG = "#E3ECF9"
+ACCENT, CHOSEN_BG, CARD, ON_ACCENT = v.ACCENT, v.CHOSEN_BG, v.CARD, v.ON_ACCENT
 ERROR = TONES["over"][0]
 
 
@@ -50,7 +51,7 @@ def choice_row(options: list[tuple[str, str]], current: str,
                            spacing=5, tight=True),
             on_click=pick(value), ink=True, height=52,
             padding=ft.Padding.symmetric(horizontal=10, vertical=4), border_radius=26,
-            bgcolor=CHOSEN_BG if on else ft.Colors.WHITE,
+            bgcolor=CHOSEN_BG if on else CARD,
             border=ft.Border.all(2.5 if on else 1, ACCENT if on else LINE))
         items.append(ft.Semantics(identifier=f"{prefix}-{value}", button=True, selected=on,
                                   label=f"{said} {word}".strip() + (" (chosen)" if on else ""),
@@ -97,11 +98,11 @@ def big_button(text: str, icon: Any, on_click: Handler, identifier: str, *,
     Example: ``big_button("Save reading", ft.Icons.SAVE, save, "save-reading")``.
     """
     cls = ft.FilledButton if filled else ft.OutlinedButton
-    fg = ft.Colors.WHITE if filled else ACCENT
+    fg = ON_ACCENT if filled else ACCENT
     button = cls(content=text_line(text, size=18, bold=True, color=fg),
                  icon=ft.Icon(icon, color=fg), on_click=on_click, height=56,
                  style=ft.ButtonStyle(shape=ft.RoundedRectangleBorder(radius=10),
-                                      bgcolor=ACCENT if filled else ft.Colors.WHITE,
+                                      bgcolor=ACCENT if filled else CARD,
                                       side=None if filled else ft.BorderSide(2, ACCENT)))
     return ft.Semantics(identifier=identifier, button=True, label=text, content=button)
 
@@ -128,7 +129,7 @@ def card(controls: list[ft.Control], title: str | None = None, *,
     box = ft.Container(content=ft.Column(head + controls, spacing=10,
                                          horizontal_alignment=ft.CrossAxisAlignment.STRETCH),
                        border=ft.Border.all(1, LINE), border_radius=10, padding=12,
-                       bgcolor=ft.Colors.WHITE)
+                       bgcolor=CARD)
     return ft.Semantics(identifier=identifier, content=box) if identifier else box
 
 

@@ -1,8 +1,9 @@
 """The field app: routes, screens and the column screen's tabs over one open store.
 
 Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
-theme), ``/sync`` (the office hub: address, token, sync, conflicts), ``/sites/new``, ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``,
-``/sites/<id>/new-column``, ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
+theme), ``/sync`` (the office hub: address, token, sync, conflicts), ``/sites/new``,
+``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``, ``/sites/<id>/new-column``,
+``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
 
 The column screen is a row of tabs (``TABS``, in order; identifiers ``tab-<name>``; the row
@@ -34,20 +35,24 @@ or on a check.
 from __future__ import annotations
 
 import asyncio
+import datetime
 import os
+import sqlite3
 from typing import TYPE_CHECKING, Any, Callable
 
 import flet as ft
 
-from fieldcol.errors import InputError
+from fieldcol.errors import InputError, StoreBusyError
 from fieldcol.ui import forms as fm
 from fieldcol.ui import model as m
 from fieldcol.ui import sites as st
 from fieldcol.ui import notes as n
 from fieldcol.ui import notes_views as nv
+from fieldcol.ui import palette
 from fieldcol.ui import views as v
 from fieldcol.ui._tab import Tab
-from fieldcol.ui.saving import Saver
+from fieldcol.ui.column_list import ColumnList
+from fieldcol.ui.saving import Saver, failure_words
 from fieldcol.ui.tab_check import CheckTab
 from fieldcol.ui.tab_condition import ConditionTab
 from fieldcol.ui.tab_findings import FindingsTab
@@ -81,7 +86,8 @@ class FieldApp:
         self.wide = False
         self.person: str | None = None
         self.visit_id: str | None = None
-        self.columns: m.ColumnPage | None = None
+        self.visit: Any = None  # the visit open on this device (any site), or None
+        self.list = ColumnList(self)
         self.detail: m.ColumnDetail | None = None
         self.counts: dict[str, int] = {}
         self.tab = "check"
@@ -103,9 +109,7 @@ class FieldApp:
         who, self.theme = await asyncio.to_thread(
             lambda: (self.store.who(), self.store.setting("theme")))
         self.person = who.name if who else None
-        p.theme_mode = ft.ThemeMode.DARK if self.theme == "dark" else ft.ThemeMode.LIGHT
-        p.dark_theme = ft.Theme(color_scheme_seed=v.ACCENT)
-        p.theme = ft.Theme(color_scheme_seed=v.ACCENT)
+        palette.apply(p, self.theme)
         p.bgcolor = v.BG
         p.padding = 0
         p.on_route_change = self._on_route
@@ -148,17 +152,40 @@ class FieldApp:
                 await self._show_site_form(parts[1])
             elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "new-column":
                 await self._show_column_form(parts[1])
+            elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "visit":
+                await self._show_visit_form(parts[1])
             elif len(parts) == 2 and parts[0] == "sites":
                 await self._show_site(parts[1])
             elif len(parts) == 2 and parts[0] == "columns":
                 await self._show_column(parts[1])
             else:
                 await self._show_sites()
+        except (sqlite3.Error, OSError, StoreBusyError) as e:
+            # the store could not be read (busy, locked, a disk fault): never a blank screen
+            self._failed(route, e)
         except InputError as e:  # e.g. an id that no longer exists: say so, keep the app usable
             self.detail = None
             self._render("/", "fieldcol", [v.text_line(str(e), color=v.TONES["over"][0]),
                                           ft.Button("Back to sites", on_click=self._go("/"),
                                                     height=v.TAP)], None)
+
+    def _failed(self, route: str, e: BaseException) -> None:
+        """A screen that could not be loaded: what happened in plain words, and Try again."""
+        self.detail = None
+
+        async def again(_e: Any = None) -> None:
+            await self.show(route)
+        self._render(route, "fieldcol", [v._card([
+            ft.Row([ft.Icon(ft.Icons.ERROR_OUTLINE, color=v.TONES["over"][0], size=28),
+                    ft.Container(v.text_line("This screen could not be loaded.", size=18,
+                                             bold=True), expand=True)]),
+            ft.Semantics(identifier="load-error", content=v.text_line(failure_words(e))),
+            v.text_line("Nothing was lost: what was saved stays saved.", color=v.MUTED),
+            ft.Row([ft.Semantics(identifier="try-again", content=ft.FilledButton(
+                        "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP)),
+                    ft.Semantics(identifier="to-sites", content=ft.OutlinedButton(
+                        "Sites", icon=ft.Icons.HOME, on_click=self._go("/"), height=v.TAP))],
+                   wrap=True, spacing=8)])], None)
 
     def _render(self, route: str, title: str, body: list[ft.Control] | ft.Control,
                 back: str | None, *, scroll: bool = True, title_id: str | None = None,
@@ -167,8 +194,8 @@ class FieldApp:
         if back is not None:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
                 ft.Icons.ARROW_BACK, on_click=self._go(back), tooltip="Back",
-                icon_color=ft.Colors.WHITE, icon_size=28))
-        head: ft.Control = ft.Text(title, size=20, color=ft.Colors.WHITE,
+                icon_color=v.ON_ACCENT, icon_size=28))
+        head: ft.Control = ft.Text(title, size=20, color=v.ON_ACCENT,
                                    weight=ft.FontWeight.BOLD)
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
@@ -189,7 +216,7 @@ class FieldApp:
     def _action(self, icon: ft.IconData, tip: str, identifier: str,
                 on_click: Callable[..., Any]) -> ft.Control:
         return ft.Semantics(identifier=identifier, button=True, label=tip, content=ft.IconButton(
-            icon, on_click=on_click, tooltip=tip, icon_color=ft.Colors.WHITE, icon_size=28))
+            icon, on_click=on_click, tooltip=tip, icon_color=v.ON_ACCENT, icon_size=28))
 
     async def _show_sites(self) -> None:
         self.detail = None
@@ -282,7 +309,7 @@ class FieldApp:
         tag = ""
         if not fields:
             def propose(store: "Store") -> str:
-                rows = store.list_columns(site_id, limit=1000)
+                rows = store.page_columns(site_id, limit=1000)
                 return st.next_tag(store, site_id, rows[-1].tag) if rows else "C1"
             tag = await asyncio.to_thread(propose, self.store)
 
@@ -293,50 +320,88 @@ class FieldApp:
                                         undo, fields)
             if cid is not None:
                 self.forms.pop(route, None)
-                self.columns = None
+                self.list.forget()
                 await self.page.push_route(f"/columns/{cid}")
         self._render(route, "New column", fm.column_form(fields, tag, save), f"/sites/{site_id}")
 
-    async def _load_columns(self, site_id: str) -> m.ColumnPage:
-        if self.columns is None or self.columns.site.id != site_id:
-            self.columns = await asyncio.to_thread(m.column_page, self.store, site_id)
-        return self.columns
+    def open_column(self, column_id: str) -> Callable[..., Any]:
+        """The click handler that opens a column (its route).
 
-    async def _more(self, _e: Any = None) -> None:
-        cur = self.columns
-        if cur is None:
+        Example: ``ft.Container(on_click=app.open_column(cid))``.
+        """
+        return self._go(f"/columns/{column_id}")
+
+    async def _load_visit(self, site_id: str) -> None:
+        self.visit = await asyncio.to_thread(self.store.open_visit)
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == site_id else None
+
+    def _visit_tool(self, site_id: str) -> ft.Control:
+        vis = self.visit
+        if vis is not None and vis.site_id == site_id:
+            said = f"Visit under way: {vis.date}" + "".join(
+                f" · {x}" for x in (vis.who, vis.weather, vis.access) if x)
+            return ft.Semantics(identifier="visit-now", content=ft.Row([
+                ft.Icon(ft.Icons.EVENT_AVAILABLE, color=v.INK, size=24),
+                ft.Container(v.text_line(said), expand=True),
+                ft.Semantics(identifier="end-visit", content=ft.OutlinedButton(
+                    "End visit", icon=ft.Icons.STOP, on_click=self._end_visit,
+                    height=v.TAP))], wrap=True, spacing=8))
+        return ft.Semantics(identifier="new-visit", content=ft.OutlinedButton(
+            "Start a visit", icon=ft.Icons.EVENT, on_click=self._go(f"/sites/{site_id}/visit"),
+            height=v.TAP))
+
+    async def _end_visit(self, _e: Any = None) -> None:
+        vis = self.visit
+        if vis is None:
             return
-        nxt = await asyncio.to_thread(m.column_page, self.store, cur.site.id,
-                                      offset=cur.offset + len(cur.rows), limit=cur.limit)
-        self.columns = m.ColumnPage(site=cur.site, rows=cur.rows + nxt.rows, offset=cur.offset,
-                                    limit=cur.limit, has_more=nxt.has_more)
-        await self.show(self.page.route or "/")
+        do, undo = st.end_visit_change(vis.id)
+        await self.saver.save(f"end of the visit of {vis.date}", do, undo,
+                              done=f"Visit of {vis.date} ended")
 
-    def _list(self, selected: str | None = None) -> ft.Control:
-        assert self.columns is not None
-        sid = self.columns.site.id
-        tools = ft.Row([
-            ft.Semantics(identifier="new-column", content=ft.FilledButton(
-                "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{sid}/new-column"),
-                height=v.TAP)),
-            ft.Semantics(identifier="edit-site", content=ft.OutlinedButton(
-                "Edit site", icon=ft.Icons.EDIT, on_click=self._go(f"/sites/{sid}/edit"),
-                height=v.TAP))], wrap=True, spacing=8)
-        return v.columns_list(self.columns, lambda cid: self._go(f"/columns/{cid}"),
-                              self._more if self.columns.has_more else None, selected,
-                              tools=tools)
+    async def _show_visit_form(self, site_id: str) -> None:
+        self.detail = None
+        route = f"/sites/{site_id}/visit"
+        fields = self.forms.setdefault(route, {})
+        async def save(_e: Any = None) -> None:
+            typed = {k: tf.value or "" for k, tf in fields.items()}
+            do, undo = st.visit_change(site_id, typed)
+            vis = await self.saver.save(f"visit of {typed.get('date', '').strip()}", do, undo,
+                                        fields, done=lambda x: f"Visit of {x.date} started: "
+                                        "what is recorded now belongs to it")
+            if vis is not None:
+                self.forms.pop(route, None)
+                await self.page.push_route(f"/sites/{site_id}")
+        self._render(route, "New visit",
+                     fm.visit_form(fields, datetime.date.today().isoformat(), self.person, save),
+                     f"/sites/{site_id}")
+
+    def _list(self, site_id: str, selected: str | None = None) -> ft.Control:
+        new = ft.Semantics(identifier="new-column", content=ft.FilledButton(
+            "Add column", icon=ft.Icons.ADD, on_click=self._go(f"/sites/{site_id}/new-column"),
+            height=v.TAP))
+        visit = self._visit_tool(site_id)
+        tools = ft.Row([new, visit], wrap=True, spacing=8, run_spacing=8) \
+            if self.visit is None or self.visit.site_id != site_id \
+            else ft.Column([visit, new], spacing=8)
+        return self.list.control(selected, tools)
 
     async def _show_site(self, site_id: str) -> None:
         self.detail = None
-        self.columns = None  # a fresh list each time the site is opened: checks may be new
-        page = await self._load_columns(site_id)
+        # the rows shown before read again (checks may be new), then back where they were
+        page = await self.list.load(site_id, fresh=True)
+        await self._load_visit(site_id)
         title = page.site.name
+        actions = [self._action(ft.Icons.EDIT, "Edit site", "edit-site",
+                                self._go(f"/sites/{site_id}/edit"))]
         if not self.wide:
-            self._render(f"/sites/{site_id}", title, self._list(), "/")
-            return
-        hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
-                            padding=24)
-        self._render(f"/sites/{site_id}", title, self._two_panes(self._list(), hint), "/")
+            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions)
+        else:
+            hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
+                                padding=24)
+            self._render(f"/sites/{site_id}", title,
+                         self._two_panes(self._list(site_id), hint), "/", actions=actions)
+        await self.list.restore()
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
         self.list_pane.content = left
@@ -353,6 +418,7 @@ class FieldApp:
     async def _show_column(self, column_id: str) -> None:
         same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
         self.detail, self.counts = await asyncio.to_thread(self._load_column, column_id)
+        await self._load_visit(self.detail.site_id)
         if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
             self.tabs = {cls.name: cls(self) for cls in TABS}
             self.tab = "check"
@@ -367,10 +433,11 @@ class FieldApp:
             self._render(f"/columns/{column_id}", f"Column {d.tag}", self.pane,
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         else:
-            await self._load_columns(d.site_id)
+            await self.list.load(d.site_id)
             self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
-                         self._two_panes(self._list(selected=d.id), self.pane),
+                         self._two_panes(self._list(d.site_id, selected=d.id), self.pane),
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+            await self.list.restore()  # the list beside stays where it was scrolled
         if not same:
             await self._load_tab()
 
@@ -384,7 +451,7 @@ class FieldApp:
                                                    "(section, length, restraints, material; "
                                                    "no demand or readings)")
         if cid is not None:
-            self.columns = None
+            self.list.forget()
             await self.page.push_route(f"/columns/{cid}")
 
     async def _delete(self, _e: Any = None) -> None:
@@ -398,7 +465,7 @@ class FieldApp:
         if sid is None:
             self.detail = d
             return
-        self.columns = None
+        self.list.forget()
         await self.page.push_route(f"/sites/{sid}")
 
     # -- the column screen's tabs ---------------------------------------------------------
@@ -421,7 +488,19 @@ class FieldApp:
         d, name = self.detail, self.tab
         if d is None:
             return
-        await self.tabs[name].load()
+        try:
+            await self.tabs[name].load()
+        except (sqlite3.Error, OSError, StoreBusyError) as e:
+            async def again(_e: Any = None) -> None:
+                await self._load_tab()
+            self.pane.controls = [self.pane.controls[0], v._card([
+                ft.Semantics(identifier="load-error", content=v.text_line(
+                    f"This tab could not be loaded. {failure_words(e)}")),
+                ft.Semantics(identifier="try-again", content=ft.FilledButton(
+                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])] \
+                if self.pane.controls else []
+            self.page.update()
+            return
         if self.detail is d or (self.detail is not None and self.detail.id == d.id):
             if self.tab == name:
                 self.redraw()
@@ -455,13 +534,12 @@ class FieldApp:
         await self._load_tab()
 
     async def _refresh_list(self) -> None:
-        """Reload the list beside the column (tablet) so it shows the new check."""
+        """Read the list beside the column again (tablet) so it shows the new check."""
         d = self.detail
-        if not self.wide or self.columns is None or d is None:
+        if not self.wide or self.list.page is None or d is None:
             return
-        limit = min(1000, max(m.PAGE, len(self.columns.rows)))
-        self.columns = await asyncio.to_thread(m.column_page, self.store, d.site_id, limit=limit)
-        self.list_pane.content = self._list(selected=d.id)
+        await self.list.load(d.site_id, fresh=True)
+        self.list.control(d.id, self.list.tools)
 
     # -- shared by tabs ---------------------------------------------------------------------
     def open_photo(self, p: n.PhotoThumb) -> Callable[..., Any]:

@@ -238,7 +238,8 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
         capacities=caps, governs=governs, why=why, warnings=warnings,
         chart=_chart(result, code, system, gov), trace=trace,
         checked_at=checked_at.replace("T", " ")[:16] + " UTC" if checked_at else "",
-        basis={"lrfd": "LRFD", "asd": "ASD", "en": f"γ_M1 = {_gamma(result)}"}.get(basis, ""),
+        basis=f"γ_M1 = {_gamma(result)}" if code.startswith("en") else
+        {"lrfd": "LRFD", "asd": "ASD"}.get(basis, ""),
         extra=extra)
 
 

@@ -3,8 +3,8 @@
 Each form keeps its ``TextField`` objects in a dict the app holds per route, so what is typed
 survives a redraw; the app saves through ``app.saver.save(..., field=<that dict>)`` so a refusal
 shows under the entry it names. Identifiers: ``site-<field>``, ``column-new-<field>``,
-``who-<field>``, choices ``code-<i>``, ``units-<value>``, ``theme-<value>``, buttons
-``save-site``, ``save-column``, ``save-who``.
+``who-<field>``, ``visit-<field>``, choices ``code-<i>``, ``units-<value>``, ``theme-<value>``, buttons
+``save-site``, ``save-column``, ``save-who``, ``start-visit``.
 """
 
 from __future__ import annotations
@@ -46,7 +46,7 @@ def choice_row(options: list[tuple[str, str]], current: str,
                            spacing=6, tight=True),
             on_click=choose(value), ink=True, height=v.TAP,
             padding=ft.Padding.symmetric(horizontal=12), border_radius=8,
-            bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
+            bgcolor=v.CHOSEN_BG if on else v.CARD,
             border=ft.Border.all(2.5 if on else 1, v.ACCENT if on else v.LINE))
         ident = f"{prefix}-{i}" if "/" in value else f"{prefix}-{value}"
         items.append(ft.Semantics(identifier=ident, button=True, selected=on,
@@ -144,3 +144,25 @@ def who_form(fields: dict[str, ft.TextField], person: Any, save: Handler,
         controls.append(v._card([choice_row([("light", "Light (bright sun)"), ("dark", "Dark")],
                                              theme, choose_theme, "theme")], title="Theme"))
     return controls
+
+
+def visit_form(fields: dict[str, ft.TextField], today: str, person: str | None,
+               save: Handler) -> list[ft.Control]:
+    """Start a visit: the date (today), who is there, weather and access notes.
+
+    Example: ``visit_form({}, "2026-12-04", "R. Amadi", handler)``.
+    """
+    specs = [("date", "Date", "YYYY-MM-DD", today),
+             ("people", "Who is on site", "names, e.g. R. Amadi, T. Osei", person or ""),
+             ("weather", "Weather", "e.g. wet, 6 C", ""),
+             ("access", "Access notes", "e.g. north door only, no lift", "")]
+    for key, label, helper, value in specs:
+        if key not in fields:
+            fields[key] = entry(label, value, helper)
+    out: list[ft.Control] = [ft.Semantics(identifier=f"visit-{k}", content=fields[k])
+                             for k, *_ in specs]
+    out += [v.text_line("While the visit is open, readings, findings, photos and restraint "
+                        "changes on this site belong to it.", color=v.MUTED),
+            ft.Semantics(identifier="start-visit", content=ft.FilledButton(
+                "Start visit", icon=ft.Icons.PLAY_ARROW, on_click=save, height=v.TAP))]
+    return [v._card(out, title="New visit")]

@@ -7,7 +7,8 @@ are synchronous and touch SQLite, so the app calls them through ``asyncio.to_thr
 Public API::
 
     site_cards(store) -> list[SiteCard]
-    column_page(store, site_id, *, offset=0, limit=PAGE) -> ColumnPage
+    column_page(store, site_id, *, after=None, limit=PAGE, search=None, level=None,
+                status=None) -> ColumnPage                      # keyset paging by (tag, id)
     column_detail(store, column_id) -> ColumnDetail
     edit_change(column_id, field, text, *, person=None, visit_id=None) -> (do, undo)
     apply_edit(store, column_id, field, text) -> EditResult
@@ -101,12 +102,34 @@ class ColumnLine:
 
 @dataclass(frozen=True)
 class ColumnPage:
-    """One page of a site's columns."""
+    """The rows of a site's column list shown so far, and what they were picked by.
+
+    ``after`` is the ``(tag, id)`` of the last row (where the next page starts); ``levels``
+    the site's level names (for the level filter); ``search``, ``level``, ``status`` the
+    filters in force (``None``: all).
+    """
     site: SiteCard
     rows: list[ColumnLine]
-    offset: int
     limit: int
     has_more: bool
+    levels: tuple[str, ...] = ()
+    search: str | None = None
+    level: str | None = None
+    status: str | None = None
+
+    @property
+    def after(self) -> tuple[str, str] | None:
+        """Where the next page starts: the last row's ``(tag, id)``."""
+        return (self.rows[-1].tag, self.rows[-1].id) if self.rows else None
+
+    @property
+    def filtered(self) -> bool:
+        """Whether a search or a filter narrows the list."""
+        return bool(self.search) or self.level is not None or self.status is not None
+
+
+#: the status filter's choices: key -> words
+STATUS_FILTERS = {"over": "Over capacity", "ok": "OK", "not-checked": "Not checked"}
 
 
 @dataclass(frozen=True)
@@ -301,22 +324,32 @@ def site_cards(store: "Store") -> list[SiteCard]:
     return [_card(s, store.site_counts(s.id)) for s in store.list_sites()]
 
 
-def column_page(store: "Store", site_id: str, *, offset: int = 0, limit: int = PAGE) -> ColumnPage:
+def column_page(store: "Store", site_id: str, *, after: tuple[str, str] | None = None,
+                limit: int = PAGE, search: str | None = None, level: str | None = None,
+                status: str | None = None) -> ColumnPage:
     """One page of a site's columns, by tag, each with its latest check as number + word.
 
     Args:
         store: an open store.
         site_id: the site.
-        offset, limit: the page (``limit`` 1..1000).
+        after: the ``(tag, id)`` of the last row already shown (``ColumnPage.after``), or
+            ``None`` for the first page.
+        limit: rows in the page (1..1000).
+        search: part of a tag, any case. level: a level name (``""``: no level).
+        status: ``over``, ``ok`` or ``not-checked`` (``STATUS_FILTERS``); ``None`` for all.
 
     Returns:
         A ``ColumnPage`` (``has_more`` when a later page exists).
 
     Example: ``column_page(store, site.id).rows[0].status.label`` gives ``'0.37 OK'`` for the
-    demo's first column.
+    demo's first column; ``column_page(store, site.id, status="over")`` only the five over.
     """
     site = store.get_site(site_id)
-    rows = store.list_columns(site_id, limit=limit + 1 if limit < 1000 else limit, offset=offset)
+    if status is not None and status not in STATUS_FILTERS:
+        raise InputError("status", status, "not a status to filter by", "use over, ok or "
+                         "not-checked")
+    rows = store.page_columns(site_id, after=after, limit=min(limit + 1, 1000), search=search,
+                              level=level, status=status)
     more = len(rows) > limit
     rows = rows[:limit]
     lines = [ColumnLine(
@@ -326,8 +359,43 @@ def column_page(store: "Store", site_id: str, *, offset: int = 0, limit: int = P
         status=status_of(r.utilization, r.checked_at is not None),
         governing=MODE_NAMES.get(r.governing_mode or "", r.governing_mode or ""))
         for r in rows]
-    return ColumnPage(site=_card(site, store.site_counts(site_id)), rows=lines, offset=offset,
-                      limit=limit, has_more=more)
+    levels = tuple(lv.name for lv in store.list_levels(site_id))
+    return ColumnPage(site=_card(site, store.site_counts(site_id)), rows=lines, limit=limit,
+                      has_more=more, levels=levels, search=search or None, level=level,
+                      status=status)
+
+
+def next_page(store: "Store", page: ColumnPage, *, limit: int = PAGE) -> ColumnPage:
+    """The list with its next page added (same filters), for "Show more".
+
+    Args:
+        store: an open store.
+        page: the list shown so far.
+        limit: rows to add.
+
+    Returns:
+        A ``ColumnPage`` holding the rows so far and the next ones.
+
+    Example: ``page = next_page(store, page)``.
+    """
+    nxt = column_page(store, page.site.id, after=page.after, limit=limit, search=page.search,
+                      level=page.level, status=page.status)
+    return ColumnPage(site=nxt.site, rows=page.rows + nxt.rows, limit=page.limit,
+                      has_more=nxt.has_more, levels=nxt.levels, search=page.search,
+                      level=page.level, status=page.status)
+
+
+def same_page_again(store: "Store", page: ColumnPage) -> ColumnPage:
+    """The rows shown so far read again (a check may have changed), as many as before, so the
+    list can come back where it was scrolled to.
+
+    Example: ``page = same_page_again(store, page)``.
+    """
+    fresh = column_page(store, page.site.id, limit=min(1000, max(PAGE, len(page.rows))),
+                        search=page.search, level=page.level, status=page.status)
+    return ColumnPage(site=fresh.site, rows=fresh.rows, limit=page.limit,
+                      has_more=fresh.has_more, levels=fresh.levels, search=page.search,
+                      level=page.level, status=page.status)
 
 
 # -- one column --------------------------------------------------------------------------
@@ -422,8 +490,11 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     axial = demand.get("axial")
     demand_text = "none"
     if axial not in (None, ""):
-        basis = str(demand.get("basis", "lrfd")).upper()
-        demand_text = f"{_demand_text(axial, system)} ({basis})"
+        code = str(rec.get("code") or site.code)
+        # LRFD / ASD are AISC's bases: an EN site's demand is a design value, said without one
+        basis = "" if code.startswith("en") else \
+            f" ({str(demand.get('basis', 'lrfd')).upper()})"
+        demand_text = f"{_demand_text(axial, system)}{basis}"
     elif demand.get("loads"):
         demand_text = "loads: " + _describe(demand["loads"])
     record = [Line("Section", section_label(rec.get("section")) or "none"),

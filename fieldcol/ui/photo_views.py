@@ -106,14 +106,14 @@ def thumbnails(photos: list[pm.PhotoThumb], open_photo: Callable[[pm.PhotoThumb]
     for i, p in enumerate(photos):
         w, h = fit(p.aspect, THUMB, THUMB)
         pic: ft.Control = marked(p.thumb, w, h, p.markup, scale=0.5, radius=4) if p.thumb \
-            else ft.Container(text_line("photo file missing", size=14, color=MUTED),
+            else ft.Container(text_line("photo file missing", size=16, color=MUTED),
                               width=THUMB, height=THUMB, alignment=ft.Alignment.CENTER)
         box = ft.Container(
             content=ft.Column([ft.Container(pic, width=THUMB, height=THUMB,
                                             alignment=ft.Alignment.CENTER),
                                ft.Row([ft.Icon(ft.Icons.DRAW, size=16, color=INK),
-                                       text_line("marked", size=14)], spacing=2, tight=True)
-                               if p.markup else text_line("tap to see", size=14, color=MUTED)],
+                                       text_line("marked", size=16)], spacing=2, tight=True)
+                               if p.markup else text_line("tap to see", size=16, color=MUTED)],
                               spacing=2, tight=True, width=THUMB,
                               horizontal_alignment=ft.CrossAxisAlignment.CENTER),
             on_click=open_photo(p), ink=True, padding=4, border=ft.Border.all(1, LINE),

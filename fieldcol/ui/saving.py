@@ -8,6 +8,7 @@ Public API::
     app.saver.say(text)                      # a plain message in the same bar (no action)
     app.saver.bar                            # the bar control (identifier ``save-note``)
     plain_error(e: InputError) -> str        # the plain words for an error
+    failure_words(e: BaseException) -> str   # a store / device failure in plain words
     FIELD_WORDS: dict[str, tuple[str, str]]  # field -> (words, example); extend for new fields
 
 ``do(store) -> T`` runs in a worker thread under ``app.lock``. What happens next:
@@ -59,6 +60,10 @@ FIELD_WORDS: dict[str, tuple[str, str]] = {
     "category": ("Category", "type e.g. corrosion, bow or bracing"),
     "severity": ("Severity", "pick one of the choices"),
     "date": ("Date", "type a date as YYYY-MM-DD, e.g. 2026-12-03"),
+    "people": ("Who is on site", "type names, e.g. R. Amadi, T. Osei"),
+    "weather": ("Weather", "type a few words, e.g. wet, 6 C"),
+    "access": ("Access notes", "type a few words"),
+    "visit": ("The visit", "start a visit for this site"),
     "gamma_m1": ("gamma_M1", "type a factor such as 1.0 or 1.1"),
     "db": ("The database", "try again in a moment"),
 }
@@ -106,7 +111,14 @@ def plain_error(e: InputError) -> str:
     return _sentence(first) + (" " + _sentence(e.hint or example) if (e.hint or example) else "")
 
 
-def _failure_words(e: BaseException) -> str:
+def failure_words(e: BaseException) -> str:
+    """A store or device failure in plain words (busy, refused, no space), for "Not saved"
+    and for a screen that could not be loaded.
+
+    Example:
+        >>> failure_words(sqlite3.OperationalError("database is locked"))[:24]
+        'The database is busy (an'
+    """
     if isinstance(e, StoreBusyError):
         return plain_error(e)
     if isinstance(e, sqlite3.OperationalError) and "locked" in str(e).lower():
@@ -145,6 +157,13 @@ class Saver:
         # hide the Semantics itself: a hidden content under a shown Semantics draws a red box
         self.bar = ft.Semantics(identifier="save-note", live_region=True, content=self.box,
                                 visible=False)
+        # one Retry and one Undo control for the session, only their handler changes: a
+        # button made anew at each message would be a new node under a finger (or a test's
+        # click) while saves that were queued behind a busy store report one after another
+        self._retry_do: Callable[..., Any] | None = None
+        self._retry = self._button("Retry", ft.Icons.REFRESH, "save-retry", self._run_retry)
+        self._undo = self._button("Undo", ft.Icons.UNDO, "save-undo", self.undo_last)
+        self._running: set[str] = set()  # the labels of the saves under way
 
     # -- the bar --------------------------------------------------------------------------
     def say(self, text: str, *, kind: str = "ok", button: ft.Control | None = None) -> None:
@@ -162,7 +181,9 @@ class Saver:
                           "info": ft.Icons.INFO_OUTLINE}[kind]
         self.icon.color = v.TONES["over"][0] if kind == "error" else v.INK
         self.box.bgcolor = v.TONES["over"][1] if kind == "error" else v.BAR_BG
-        self.action.controls = [button] if button is not None else []
+        wanted = [button] if button is not None else []
+        if self.action.controls != wanted:
+            self.action.controls = wanted
         self.bar.visible = bool(text)
         self.app.page.update()
 
@@ -200,14 +221,17 @@ class Saver:
         Example: ``await app.saver.save("site name", lambda s: s.update_site(sid, name=n))``.
         """
         app = self.app
+        if label in self._running:  # Enter then leaving the entry: the same change, once
+            return None
+        self._running.add(label)
         try:
             async with app.lock:
                 result = await asyncio.to_thread(do, app.store)
         except (StoreBusyError, sqlite3.Error, OSError) as e:
-            async def retry(_e: Any = None) -> None:
+            async def retry() -> None:
                 await self.save(label, do, undo, field, done=done)
-            self.say(f"Not saved: {_failure_words(e)}", kind="error",
-                     button=self._button("Retry", ft.Icons.REFRESH, "save-retry", retry))
+            self._retry_do = retry
+            self.say(f"Not saved: {failure_words(e)}", kind="error", button=self._retry)
             return None
         except InputError as e:
             words = plain_error(e)
@@ -217,16 +241,23 @@ class Saver:
                 self._show_at(at, words)
             self.say(f"{label[:1].upper() + label[1:]} not saved: {words}", kind="error")
             return None
+        finally:
+            self._running.discard(label)
         for tf in (field.values() if isinstance(field, dict) else [field]):
             if tf is not None and tf.error:
                 tf.error = None
         self.last = _Change(label, undo) if undo is not None else None
         text = done(result) if callable(done) else (done or f"Saved {label}")
-        button = self._button("Undo", ft.Icons.UNDO, "save-undo", self.undo_last) \
-            if undo is not None else None
-        self.say(text, button=button)
+        self._retry_do = None
+        self.say(text, button=self._undo if undo is not None else None)
         await app.changed()
         return result
+
+    async def _run_retry(self, _e: Any = None) -> None:
+        retry, self._retry_do = self._retry_do, None
+        if retry is None:  # already saved meanwhile (e.g. by leaving the entry)
+            return
+        await retry()
 
     async def undo_last(self, _e: Any = None) -> None:
         """Undo the last change (once); what is undone is said in the bar.

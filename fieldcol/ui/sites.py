@@ -256,3 +256,46 @@ def who_change(name: str, initials: str, device: str) -> Change:
             store.set_who(old.name, old.initials, old.device)
 
     return do, undo
+
+
+def visit_change(site_id: str, values: dict[str, str]) -> Change:
+    """Start a visit to a site (date, people, weather, access); while it is open, what is
+    recorded on the site belongs to it. Undo deletes the visit (tombstone) and closes it.
+
+    Args:
+        site_id: the site.
+        values: ``date`` (YYYY-MM-DD), ``people``, ``weather``, ``access`` as typed.
+
+    Example: ``do, undo = visit_change(sid, {"date": "2026-12-04", "people": "R. Amadi"})``.
+    """
+    kept: dict[str, Any] = {}
+
+    def do(store: "Store") -> Any:
+        visit = store.start_visit(site_id, (values.get("date") or "").strip(),
+                                  people=values.get("people", "").strip() or None,
+                                  weather=values.get("weather", "").strip() or None,
+                                  access=values.get("access", "").strip() or None)
+        kept["id"] = visit.id
+        return visit
+
+    def undo(store: "Store") -> None:
+        with store.transaction():
+            store.end_visit()
+            store.delete("visits", kept["id"])
+
+    return do, undo
+
+
+def end_visit_change(visit_id: str) -> Change:
+    """End the open visit; undo opens it again.
+
+    Example: ``do, undo = end_visit_change(visit.id)``.
+    """
+    def do(store: "Store") -> Any:
+        store.end_visit()
+        return visit_id
+
+    def undo(store: "Store") -> None:
+        store.reopen_visit(visit_id)
+
+    return do, undo

@@ -20,10 +20,11 @@ from fieldcol.errors import InputError
 if TYPE_CHECKING:
     from fieldcol.store import Store
 
+from fieldcol.ui import palette as pal
+from fieldcol.ui import views as v
+
 TAP = 48
-INK = "#1B1F24"
-MUTED = "#4A5560"
-BG = "#F4F6F8"
+INK, MUTED, BG = v.INK, v.MUTED, v.BG  # theme roles: the palette gives light and dark colours
 _TABLE_WORDS = {"sites": "site", "columns": "column", "findings": "finding",
                 "measurements": "reading", "photos": "photo", "visits": "visit",
                 "levels": "level", "restraint_changes": "restraint change",
@@ -123,10 +124,10 @@ class SyncScreen:
 
     def _card(self, i: int, c: ConflictCard) -> ft.Control:
         return ft.Semantics(identifier=f"conflict-{i}", content=ft.Container(
-            bgcolor=ft.Colors.WHITE, padding=12, border_radius=8,
-            border=ft.Border.all(1, "#C9D1D9"),
+            bgcolor=v.CARD, padding=12, border_radius=8,
+            border=ft.Border.all(1, v.LINE),
             content=ft.Column([
-                ft.Row([ft.Icon(ft.Icons.CALL_SPLIT, color="#9A5B00"),
+                ft.Row([ft.Icon(ft.Icons.CALL_SPLIT, color=v.CAUTION_EDGE),
                         ft.Text(f"Conflict {i + 1}: {c.title}", size=16, weight=ft.FontWeight.BOLD,
                                 color=INK, expand=True)]),
                 ft.Text(c.why, size=16, color=MUTED),
@@ -212,10 +213,11 @@ def serve(db: str, port: int) -> None:
 
     async def main(page: ft.Page) -> None:
         page.title = "fieldcol · Sync"
+        pal.apply(page, store.setting("theme") or "light")
         page.bgcolor = BG
         screen = SyncScreen(page, store)
-        page.appbar = ft.AppBar(title=ft.Text("fieldcol · Sync", size=20, color=ft.Colors.WHITE),
-                                bgcolor="#1C4E9C")
+        page.appbar = ft.AppBar(title=ft.Text("fieldcol · Sync", size=20, color=v.ON_ACCENT),
+                                bgcolor=v.ACCENT)
         page.add(ft.ListView(screen.controls(), spacing=12, padding=12, expand=True))
         await screen.refresh()
 

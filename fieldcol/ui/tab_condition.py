@@ -45,6 +45,7 @@ class ConditionTab(Tab):
         self.fix = {"value": "", "note": ""}
         self.body = ft.Column(spacing=12)
         self.field: ft.TextField | None = None
+        self._field_key: tuple[Any, ...] | None = None
         self.fix_field: ft.TextField | None = None
 
     async def load(self) -> None:
@@ -92,10 +93,19 @@ class ConditionTab(Tab):
         if kind == "thickness":
             label = dict(v.elements)[self.element or v.elements[0][0]].split(":")[0] + \
                 (" thickness remaining" if self.element != "uniform" else " loss per face")
-        # the keyboard comes up on the value: the tab opens ready to type a bow
-        self.field = ec.unit_entry(label, self.value, unit, hint=hint,
-                                   on_change=self._typed, on_submit=self._save,
-                                   autofocus=self.correcting is None)
+        # the keyboard comes up on the value: the tab opens ready to type a bow. The entry is
+        # one control while the kind stays: a new one at each redraw (the load's, a save's)
+        # would drop letters typed before the server heard of them
+        key = (kind, self.element, unit)
+        if self.field is None or self._field_key != key:
+            self.field = ec.unit_entry(label, self.value, unit, hint=hint,
+                                       on_change=self._typed, on_submit=self._save,
+                                       autofocus=self.correcting is None)
+            self._field_key = key
+        else:
+            self.field.label, self.field.helper = label, hint or None
+            if (self.field.value or "") != self.value:
+                self.field.value = self.value  # e.g. emptied after a save
         parts: list[ft.Control] = [
             ec.choice_row(_KINDS, kind, self._pick_kind, "reading-kind", said="reading:")]
         if kind == "thickness":

@@ -19,6 +19,8 @@ from typing import TYPE_CHECKING, Any, Callable
 
 import flet as ft
 
+from fieldcol.ui import views as v
+
 from fieldcol.errors import InputError
 from fieldcol.ui._tab import Tab
 from fieldcol.ui import findings as fm
@@ -31,7 +33,7 @@ if TYPE_CHECKING:
     from fieldcol.ui.app import FieldApp
 
 Handler = Callable[..., Any]
-ACCENT = "#1C4E9C"
+ACCENT, CARD, CHOSEN_BG = v.ACCENT, v.CARD, v.CHOSEN_BG
 ICONS = {"info_outline": ft.Icons.INFO_OUTLINE, "low_priority": ft.Icons.LOW_PRIORITY,
          "report_outlined": ft.Icons.REPORT_OUTLINED, "warning": ft.Icons.WARNING,
          "dangerous": ft.Icons.DANGEROUS, "radio_button_unchecked": ft.Icons.RADIO_BUTTON_UNCHECKED,
@@ -77,7 +79,7 @@ def choice_row(prefix: str, options: list[tuple[str, str]], current: str,
                             text_line(word, size=16, bold=on)], spacing=4, tight=True),
             on_click=choose(key), ink=True, height=TAP,
             padding=ft.Padding.symmetric(horizontal=12), border_radius=8,
-            bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
+            bgcolor=CHOSEN_BG if on else CARD,
             border=ft.Border.all(2.5 if on else 1, ACCENT if on else LINE))
         items.append(ft.Semantics(identifier=f"{prefix}-{key}", button=True, selected=on,
                                   label=f"{what} {word}{' (chosen)' if on else ''}",
@@ -205,7 +207,7 @@ class FindingsTab(Tab):
                 wrap=True, spacing=6, run_spacing=6))
         return ft.Semantics(identifier=f"finding-{i}", label=f.label, content=ft.Container(
             content=ft.Column(body, spacing=6), border=ft.Border.all(1, LINE), border_radius=10,
-            padding=12, bgcolor="#F7F8FA" if closed else ft.Colors.WHITE))
+            padding=12, bgcolor=v.BG if closed else CARD))
 
     def _form(self, title: str) -> ft.Control:
         st = self._state

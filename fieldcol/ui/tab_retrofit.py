@@ -18,6 +18,8 @@ import weakref
 from typing import TYPE_CHECKING, Any, Callable
 
 import flet as ft
+
+from fieldcol.ui import views as v
 import flet.canvas as cv
 
 from fieldcol.errors import InputError
@@ -34,7 +36,7 @@ if TYPE_CHECKING:
 Handler = Callable[..., Any]
 SINGLE = [k for k in rm.KIND_WORDS if k != "combined"]
 _STATE: "weakref.WeakKeyDictionary[Any, dict[str, dict]]" = weakref.WeakKeyDictionary()
-CHART_INK, CHART_GRID, CHART_EDGE = "#1C4E9C", "#C9CED4", "#111418"
+CHART_INK, CHART_GRID, CHART_EDGE, CHART_BG = v.ACCENT, v.GRID, v.INK, v.CARD
 
 
 def _fresh() -> dict[str, Any]:
@@ -118,7 +120,7 @@ def sweep_chart(s: rm.Sweep, width: float, height: float = 280) -> ft.Control:
         shapes += [cv.Circle(x, y, 9, paint=ft.Paint(color=CHART_EDGE, stroke_width=2.5,
                                                      style=ft.PaintingStyle.STROKE)),
                    cv.Text(x - 10, y - 12, f"best {s.best.text}", style=ft.TextStyle(
-                       size=14, color=INK, weight=ft.FontWeight.BOLD, bgcolor="#FFFFFF"),
+                       size=14, color=INK, weight=ft.FontWeight.BOLD, bgcolor=CHART_BG),
                        alignment=ft.Alignment.BOTTOM_RIGHT)]
     return ft.Semantics(identifier="sweep-chart", label=s.words, content=cv.Canvas(
         shapes, width=width, height=height))

@@ -17,16 +17,25 @@ from fieldcol.ui import model as m
 
 TAP = 48          # smallest touch target, px (usable with gloves)
 WIDE = 768        # from this width up: list and detail side by side
-INK = "#111418"   # body text: near black on white reads in sunlight
-MUTED = "#3C434C"
-LINE = "#9AA3AD"
-ACCENT = "#1C4E9C"  # app bar, the chosen tab
-BG = "#F4F6F8"      # page background
-BAR_BG = "#E8EEF7"  # the save bar
-TONES = {  # (text, background, border) per tone: text contrast >= 7:1 on the background
-    "ok": ("#0B5A1E", "#E6F4EA", "#0B5A1E"),
-    "over": ("#9C1111", "#FDECEC", "#9C1111"),
-    "none": ("#2E343B", "#EEF0F2", "#5F6872"),
+# colours are the theme's role names (fieldcol.ui.palette gives each its colour per theme), so
+# one control reads right in the light and the dark theme
+C = ft.Colors
+INK = C.ON_SURFACE              # body text
+MUTED = C.ON_SURFACE_VARIANT    # secondary text (16 px and up)
+LINE = C.OUTLINE                # borders
+ACCENT = C.PRIMARY              # app bar, the chosen tab
+ON_ACCENT = C.ON_PRIMARY        # words and icons on the app bar
+BG = C.SURFACE                  # page background
+CARD = C.SURFACE_CONTAINER_LOWEST  # cards, rows, the tab row
+BAR_BG = C.SURFACE_CONTAINER_HIGH  # the save bar
+CHOSEN_BG = C.PRIMARY_CONTAINER    # a chosen tab or choice, the selected row
+GRID = C.OUTLINE_VARIANT           # chart grid lines
+CAUTION_BG, CAUTION_INK, CAUTION_EDGE = (C.TERTIARY_FIXED, C.ON_TERTIARY_FIXED,
+                                         C.ON_TERTIARY_FIXED_VARIANT)
+TONES = {  # (text, background, border) per tone: contrast tested in tests/test_ui_palette.py
+    "ok": (C.ON_TERTIARY_CONTAINER, C.TERTIARY_CONTAINER, C.TERTIARY),
+    "over": (C.ERROR, C.ERROR_CONTAINER, C.ERROR),
+    "none": (C.ON_SECONDARY_CONTAINER, C.SECONDARY_CONTAINER, C.SECONDARY),
 }
 ICONS = {"check_circle": ft.Icons.CHECK_CIRCLE, "warning": ft.Icons.WARNING,
          "help_outline": ft.Icons.HELP_OUTLINE, "block": ft.Icons.BLOCK,
@@ -86,10 +95,10 @@ def caution_box() -> ft.Control:
     Example: ``caution_box()`` in every results screen.
     """
     return ft.Semantics(identifier="caution", content=ft.Container(
-        content=ft.Row([ft.Icon(ft.Icons.INFO_OUTLINE, color=INK, size=22),
-                        ft.Text(CAUTION, size=16, color=INK, expand=True)],
+        content=ft.Row([ft.Icon(ft.Icons.INFO_OUTLINE, color=CAUTION_EDGE, size=22),
+                        ft.Text(CAUTION, size=16, color=CAUTION_INK, expand=True)],
                        vertical_alignment=ft.CrossAxisAlignment.START),
-        bgcolor="#FFF6D6", border=ft.Border.all(1, "#7A5B00"), border_radius=8,
+        bgcolor=CAUTION_BG, border=ft.Border.all(1, CAUTION_EDGE), border_radius=8,
         padding=10))
 
 
@@ -98,7 +107,7 @@ def _card(controls: list[ft.Control], *, title: str | None = None) -> ft.Contain
     return ft.Container(content=ft.Column(head + controls, spacing=8,
                                           horizontal_alignment=ft.CrossAxisAlignment.STRETCH),
                         border=ft.Border.all(1, LINE), border_radius=10, padding=12,
-                        bgcolor=ft.Colors.WHITE)
+                        bgcolor=CARD)
 
 
 def _line(line: m.Line) -> ft.Control:
@@ -109,15 +118,15 @@ def _line(line: m.Line) -> ft.Control:
 
 def _tap_row(content: ft.Control, on_click: Handler, identifier: str, label: str) -> ft.Control:
     box = ft.Container(content=content, on_click=on_click, ink=True, padding=12,
-                       border=ft.Border.all(1, LINE), border_radius=10, bgcolor=ft.Colors.WHITE)
+                       border=ft.Border.all(1, LINE), border_radius=10, bgcolor=CARD)
     # padding 12 around at least one 19 px line keeps the target above TAP px
     return ft.Semantics(identifier=identifier, label=label, button=True, content=box)
 
 
 def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict[str, int],
             choose: Callable[[str], Handler], *, wrap: bool = False) -> ft.Control:
-    """The row of the column screen's tabs: on a phone it scrolls sideways, beside the list on a
-    tablet it wraps onto a second line (every tab in sight).
+    """The column screen's tabs, four to a row (two rows for seven tabs): every tab in sight at
+    390 px and beside the list on a tablet, none hidden off the screen's edge.
 
     The tab shown is bold, underlined, tinted and marked selected; its label says "(shown)".
 
@@ -126,10 +135,10 @@ def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict
         current: the name of the tab shown.
         counts: a number to show beside a tab's label (e.g. ``{"findings": 2}``).
         choose: gives the click handler for a tab name.
-        wrap: wrap onto more lines instead of scrolling.
+        wrap: kept for callers; the tabs always wrap.
 
     Returns:
-        A row of 104 (wrapped: 96) x 60 px buttons (identifiers ``tab-<name>``).
+        Rows of 60 px high buttons, a quarter of the width each (identifiers ``tab-<name>``).
 
     Example: ``tab_row([("check", "Check", ft.Icons.FACT_CHECK)], "check", {}, handler)``.
     """
@@ -146,15 +155,27 @@ def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict
                                        max_lines=1, no_wrap=True)],
                               spacing=2, tight=True,
                               horizontal_alignment=ft.CrossAxisAlignment.CENTER),
-            on_click=choose(name), ink=True, height=60, width=96 if wrap else 104,
-            alignment=ft.Alignment.CENTER, bgcolor="#E3ECF9" if on else ft.Colors.WHITE,
+            on_click=choose(name), ink=True, height=60,
+            alignment=ft.Alignment.CENTER, bgcolor=CHOSEN_BG if on else CARD,
             border=ft.Border.only(bottom=ft.BorderSide(4 if on else 1, ACCENT if on else LINE)))
         items.append(ft.Semantics(identifier=f"tab-{name}", button=True, selected=on,
-                                  label=f"{said}{' (shown)' if on else ''}", content=box))
-    row = ft.Row(items, spacing=0, wrap=True, run_spacing=0) if wrap else \
-        ft.Row(items, spacing=0, scroll=ft.ScrollMode.AUTO)
+                                  label=f"{said}{' (shown)' if on else ''}", content=box,
+                                  col={"xs": 3}))
+    row = ft.ResponsiveRow(items, spacing=0, run_spacing=0, columns=12)
     return ft.Container(row, border_radius=8,
-                        border=ft.Border.all(1, LINE), bgcolor=ft.Colors.WHITE)
+                        border=ft.Border.all(1, LINE), bgcolor=CARD)
+
+
+def choice_chip(identifier: str, word: str, chosen: bool, on_click: Handler) -> ft.Control:
+    """One choice of a row of choices (a filter): 48 px high, the chosen one filled, ticked and
+    said "(chosen)" (never colour alone).
+
+    Example: ``choice_chip("filter-status-over", "Over capacity", True, handler)``.
+    """
+    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP) \
+        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP)
+    return ft.Semantics(identifier=identifier, button=True, selected=chosen,
+                        label=f"{word}{' (chosen)' if chosen else ''}", content=button)
 
 
 # -- sites ---------------------------------------------------------------------------------
@@ -217,41 +238,9 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
     row = _tap_row(body, on_click, f"column-{line.tag}",
                    f"{line.tag}: {line.status.label}, {line.section}, {line.length}")
     if selected:
-        row.content.bgcolor = "#E3ECF9"
-        row.content.border = ft.Border.all(2, "#1C4E9C")
+        row.content.bgcolor = CHOSEN_BG
+        row.content.border = ft.Border.all(2, ACCENT)
     return row
-
-
-def columns_list(page: m.ColumnPage, open_column: Callable[[str], Handler],
-                 more: Handler | None, selected: str | None = None,
-                 tools: ft.Control | None = None) -> ft.Control:
-    """A lazy list of a site's columns, with a "Show more" button when a page follows.
-
-    Args:
-        page: ``model.column_page(...)`` (the rows shown so far).
-        open_column: gives the click handler for a column id.
-        more: loads the next page (``None`` when there is none).
-        selected: the id drawn highlighted.
-        tools: buttons shown under the heading (add a column, edit the site).
-
-    Returns:
-        An expanding ``ListView``.
-
-    Example: ``columns_list(page, lambda cid: handler, None)``.
-    """
-    c = page.site
-    shown = f"{len(page.rows)} columns" if more is None else \
-        f"first {len(page.rows)} columns shown"
-    head: list[ft.Control] = [
-        text_line(c.name, size=20, bold=True),
-        text_line(f"{shown} · {c.over} over capacity", size=16, color=MUTED),
-        *([tools] if tools is not None else []), caution_box()]
-    rows = [column_row(r, open_column(r.id), selected=r.id == selected) for r in page.rows]
-    tail: list[ft.Control] = []
-    if more is not None:
-        tail.append(ft.Semantics(identifier="more-columns", content=ft.OutlinedButton(
-            "Show more columns", on_click=more, height=TAP)))
-    return ft.ListView(head + rows + tail, spacing=8, expand=True, padding=12)
 
 
 # -- one column ----------------------------------------------------------------------------
@@ -288,7 +277,7 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
         spacing=1) for md in chk.modes], title="Every mode")
     out: list[ft.Control] = [summary, modes]
     if chk.warnings:
-        out.append(_card([ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color="#7A5B00"),
+        out.append(_card([ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color=CAUTION_EDGE),
                                   ft.Text(w, size=16, color=INK, expand=True)],
                                  vertical_alignment=ft.CrossAxisAlignment.START)
                           for w in chk.warnings], title="Warnings"))
@@ -303,7 +292,7 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
         controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
         expanded_cross_axis_alignment=ft.CrossAxisAlignment.START,
         maintain_state=False), border=ft.Border.all(1, LINE), border_radius=10,
-        bgcolor=ft.Colors.WHITE))
+        bgcolor=CARD))
     return out
 
 

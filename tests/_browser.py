@@ -1,0 +1,361 @@
+"""What every browser test shares: the app served on loopback, Debian chromium driven by PyPI
+playwright, every request that leaves the machine refused, and waits that hold on a busy
+machine while the app redraws.
+
+Selectors are the app's Semantics identifiers (``[flt-semantics-identifier="..."]``).
+Screenshots go where ``FIELDCOL_SHOTS`` points (default /tmp/fieldcol-shots); phone 390x844,
+tablet 820x1180. Waits poll with a timeout; the only fixed pauses are ~1 s before screenshots
+and a few tenths of a second while a list glides.
+
+Taps go through ``_click``: Flutter rebuilds a semantics node when the app redraws the control,
+so a tap may meet a node that moves or goes ("element is not stable", "element was detached
+from the DOM"). ``_click`` finds the control again and taps again until the tap took (``done``)
+or the control is gone because what it was for already happened.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import os
+import re
+import shutil
+import socket
+import subprocess
+import sys
+import time
+from pathlib import Path
+from typing import Any, Callable, Iterator
+from urllib.parse import urlparse
+
+import pytest
+
+from playwright import sync_api  # noqa: E402  (the test extra installs it)
+
+CHROMIUM = shutil.which("chromium")
+if CHROMIUM is None:
+    # the README's test command installs it; a browser test that quietly skips proves nothing
+    raise RuntimeError("Debian chromium is not installed: apt-get install -y chromium")
+
+SHOTS = Path(os.environ.get("FIELDCOL_SHOTS") or "/tmp/fieldcol-shots")
+ARGS = ["--no-sandbox", "--enable-unsafe-swiftshader", "--disable-gpu", "--no-first-run",
+        "--disable-background-networking", "--disable-component-update", "--disable-sync"]
+PHONE = {"width": 390, "height": 844}
+TABLET = {"width": 820, "height": 1180}
+SIZES = {"phone": PHONE, "tablet": TABLET}
+WIDE = 768       # from this width up the app shows the list and the column side by side
+LIST_W = 400     # the list pane's width on a tablet
+TIMEOUT = 30.0   # s, for any one thing to appear (the machine is shared)
+STATUS = re.compile(r"\d\.\d\d (OK|OVER)")
+TOP, BOTTOM = 56, 64  # the app bar above, the save bar below: a control wholly between
+
+
+def _free_port() -> int:
+    with socket.socket() as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+@contextlib.contextmanager
+def app_server(db: Path, *, demo: bool = True, env: dict[str, str] | None = None
+               ) -> Iterator[str]:
+    """`fieldcol app --db DB --port FREE [--demo]` in a subprocess; yields its base URL."""
+    port = _free_port()
+    log = open(db.with_suffix(".log"), "w")
+    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true", **(env or {})}
+    cmd = [sys.executable, "-m", "fieldcol", "app", "--db", str(db), "--port", str(port)]
+    proc = subprocess.Popen(cmd + (["--demo"] if demo else []), stdout=log,
+                            stderr=subprocess.STDOUT, env=env)
+    deadline = time.monotonic() + 90
+    try:
+        while True:
+            assert proc.poll() is None, db.with_suffix(".log").read_text()
+            try:
+                socket.create_connection(("127.0.0.1", port), timeout=0.5).close()
+                break
+            except OSError:
+                assert time.monotonic() < deadline, "the app did not start listening"
+                time.sleep(0.1)
+        yield f"http://127.0.0.1:{port}"
+    finally:
+        proc.terminate()
+        try:
+            proc.wait(10)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+            proc.wait(10)
+        log.close()
+
+
+@pytest.fixture(scope="module")
+def server(tmp_path_factory):
+    """The demo site served for one test module; yields its base URL."""
+    with app_server(tmp_path_factory.mktemp("ui") / "ui.db") as base:
+        yield base
+
+
+@pytest.fixture(scope="module")
+def browser():
+    with sync_api.sync_playwright() as p:
+        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        yield b
+        b.close()
+
+
+def _open(browser, base: str, viewport: dict, route: str = "/"):
+    """A page on the app with every non-loopback request refused and semantics turned on."""
+    ctx = browser.new_context(viewport=viewport)
+    page = ctx.new_page()
+    refused: list[str] = []
+
+    def only_loopback(r):
+        if urlparse(r.request.url).hostname in ("127.0.0.1", "localhost"):
+            r.continue_()
+        else:
+            refused.append(r.request.url)
+            r.abort()
+
+    page.route("**/*", only_loopback)
+    page.goto(base + route)
+    page.wait_for_selector("flt-semantics-placeholder", state="attached",
+                           timeout=TIMEOUT * 1000)
+    page.evaluate("document.querySelector('flt-semantics-placeholder').click()")
+    page.refused = refused
+    return page
+
+
+def _offline(page) -> None:
+    """Nothing but loopback was asked for (what was refused was never on this machine)."""
+    assert all(urlparse(u).hostname not in ("127.0.0.1", "localhost") for u in page.refused)
+
+
+def _sel(identifier: str) -> str:
+    return f'[flt-semantics-identifier="{identifier}"]'
+
+
+def _wait(page, identifier: str, timeout: float = TIMEOUT):
+    loc = page.locator(_sel(identifier)).first
+    loc.wait_for(state="attached", timeout=timeout * 1000)
+    return loc
+
+
+def _poll(read: Callable[[], Any], ok: Callable[[Any], bool], what: str,
+          timeout: float = TIMEOUT):
+    """Read until ``ok(value)`` or fail after ``timeout`` s with the last value read."""
+    deadline = time.monotonic() + timeout
+    value = None
+    while time.monotonic() < deadline:
+        try:
+            value = read()
+        except Exception as e:  # the node may be rebuilt between reads
+            value = e
+        if not isinstance(value, Exception) and ok(value):
+            return value
+        time.sleep(0.1)
+    raise AssertionError(f"{what}: last seen {value!r}")
+
+
+def _true(check: Callable[[], Any]) -> bool:
+    try:
+        return bool(check())
+    except Exception:  # a node rebuilt while read: not yet
+        return False
+
+
+def _shot(page, name: str) -> None:
+    SHOTS.mkdir(parents=True, exist_ok=True)
+    time.sleep(1)  # let the last frame paint
+    page.screenshot(path=str(SHOTS / name))
+
+
+def _words(page, identifier: str) -> str:
+    """Every word a control offers a screen reader: its text and the labels inside it
+    (Flutter puts some in ``aria-label``, e.g. on a card holding selectable text)."""
+    return page.locator(_sel(identifier)).first.evaluate(
+        "e => [e.innerText, ...[e, ...e.querySelectorAll('[aria-label]')]"
+        ".map(x => x.getAttribute('aria-label'))].filter(Boolean).join(' ')",
+        timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
+
+
+def _pane_x(page) -> float:
+    """Where the scrolling screen lies across: the whole phone, right of the list on a tablet."""
+    width = page.viewport_size["width"]
+    return width / 2 if width < WIDE else LIST_W + (width - LIST_W) / 2
+
+
+def _box(page, identifier: str):
+    try:
+        if not page.locator(_sel(identifier)).count():
+            return None
+        return page.locator(_sel(identifier)).first.bounding_box(timeout=2000)
+    except sync_api.Error:  # rebuilt while measured
+        return None
+
+
+def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
+          timeout: float = TIMEOUT):
+    """The control, scrolled wholly into view with the mouse wheel: a list builds only what
+    is near the screen, so one not built yet is looked for below (``up``: above), then the
+    other way. A control that does not move with the wheel (the save bar) is taken where it is.
+    """
+    height = page.viewport_size["height"]
+    deadline = time.monotonic() + timeout
+    before = None
+    turned = 0
+    down = not up
+    while time.monotonic() < deadline:
+        box = _box(page, identifier)
+        # strictly below the bar: a control cut by the list's top edge reports its visible
+        # part, starting right at the edge
+        if box and box["y"] > TOP and box["y"] + box["height"] <= height - BOTTOM:
+            return page.locator(_sel(identifier)).first
+        if box and before and box["y"] == before["y"] and box["y"] >= 0 \
+                and box["y"] + box["height"] <= height:
+            return page.locator(_sel(identifier)).first  # fixed, or the list's very end
+        at_x = x if x is not None else (box["x"] + min(box["width"] / 2, 40) if box
+                                        else _pane_x(page))
+        page.mouse.move(at_x, height * 0.55)
+        if box is None:
+            turned += 1
+            if turned % 25 == 0:  # not below: look above (and so on)
+                down = not down
+            step = 300 if down else -300
+        else:
+            step = 200 if box["y"] > TOP else -200
+        before = box
+        page.mouse.wheel(0, step)
+        time.sleep(0.2)
+    SHOTS.mkdir(parents=True, exist_ok=True)
+    page.screenshot(path=str(SHOTS / f"failed-find-{identifier.replace('/', '_')}.png"))
+    raise AssertionError(f"could not bring {identifier} into view")
+
+
+_scroll_to = _find  # the older name
+
+
+def _to_top(page, x: float | None = None) -> None:
+    """Scroll the list under ``x`` back to its top."""
+    page.mouse.move(x if x is not None else _pane_x(page), page.viewport_size["height"] * 0.6)
+    for _ in range(8):
+        page.mouse.wheel(0, -1500)
+        time.sleep(0.15)
+    time.sleep(0.5)
+
+
+def _click(page, identifier: str, *, done: Callable[[], Any] | None = None,
+           x: float | None = None, scroll: bool = True, up: bool = False,
+           tries: int = 5) -> None:
+    """Tap a control until the tap took.
+
+    The control is found again before each tap (scrolled into view unless ``scroll`` is
+    false; ``up``: look above first); a tap refused because the node moved or was replaced while the app redrew it is
+    made again. With ``done`` (a check that the tap did its job) the tap is repeated until
+    ``done()`` holds, and a control gone because ``done()`` already holds is fine.
+    """
+    last: Exception | None = None
+    for attempt in range(tries):
+        if done is not None and attempt and _true(done):
+            return
+        try:
+            loc = _find(page, identifier, x, up=up, timeout=8) if scroll \
+                else _wait(page, identifier, 8)
+            loc.click(timeout=5000)
+        except (sync_api.Error, AssertionError) as e:  # moved, replaced, or gone for now
+            last = e
+            time.sleep(0.3)
+            continue
+        if done is None:
+            return
+        try:
+            _poll(done, bool, f"after tapping {identifier}", timeout=8)
+            return
+        except AssertionError as e:
+            last = e
+    if done is not None and _true(done):
+        return
+    raise AssertionError(f"tapping {identifier} did not take: {last}")
+
+
+def _entry(page, identifier: str):
+    """The text box (``input``, or ``textarea`` for a multi-line entry) inside an entry."""
+    return page.locator(f"{_sel(identifier)} input, {_sel(identifier)} textarea").first
+
+
+def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
+    """Replace the text of an entry (and press Enter), once the entry holds exactly ``text``
+    (Flutter may swap the focused input element, so keys sent too early can go astray)."""
+    _find(page, identifier)
+    field = _entry(page, identifier)
+    for _ in range(5):
+        try:
+            field.click(position={"x": 60, "y": 20}, timeout=5000)  # the top line: the error
+        except sync_api.Error:                                    # text sits lower
+            _find(page, identifier)
+            continue
+        try:
+            _poll(lambda: page.evaluate("document.activeElement && "
+                                        "document.activeElement.tagName"),
+                  lambda tag: tag in ("INPUT", "TEXTAREA"), f"focus in {identifier}", 5)
+        except AssertionError:
+            continue
+        page.keyboard.press("Control+A")
+        if text:
+            page.keyboard.type(text)
+        else:  # emptied: the selection deleted
+            page.keyboard.press("Delete")
+        try:
+            _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == text,
+                  f"{identifier} holds the typed text", timeout=3)
+            break
+        except AssertionError:
+            continue
+    else:
+        raise AssertionError(f"could not type {text!r} into {identifier}")
+    if enter:
+        page.keyboard.press("Enter")
+
+
+def _choose(page, identifier: str) -> None:
+    """Tap a choice until the screen says it is chosen."""
+    _click(page, identifier, done=lambda: "(chosen)" in _words(page, identifier))
+
+
+def _tab(page, name: str) -> None:
+    """Show a tab of the column screen and wait until it says it is shown."""
+    box = _box(page, f"tab-{name}")
+    for _ in range(10):  # a tab row that scrolls sideways: bring the tab on screen
+        if box is None or box["x"] + box["width"] <= page.viewport_size["width"]:
+            break
+        page.mouse.move(page.viewport_size["width"] / 2, box["y"] + box["height"] / 2)
+        page.mouse.wheel(200, 0)
+        time.sleep(0.2)
+        box = _box(page, f"tab-{name}")
+    try:
+        _click(page, f"tab-{name}", done=lambda: "(shown)" in _words(page, f"tab-{name}"))
+    except AssertionError:
+        SHOTS.mkdir(parents=True, exist_ok=True)
+        page.screenshot(path=str(SHOTS / f"failed-tab-{name}.png"))
+        raise
+
+
+def _open_column(page, identifier: str) -> None:
+    """Tap a column row until its screen shows (a tap while the list still glides after a
+    wheel scroll is taken as part of the scroll)."""
+    time.sleep(0.3)  # let the list come to rest
+    _click(page, identifier, done=lambda: page.locator(_sel("status")).count() > 0)
+
+
+def _drawn(page, identifier: str) -> float:
+    """How much the pixels inside a control vary (0 for a blank box): an image was drawn."""
+    import io
+
+    from PIL import Image, ImageStat
+
+    png = page.locator(_sel(identifier)).first.screenshot()
+    return max(ImageStat.Stat(Image.open(io.BytesIO(png)).convert("L")).stddev)
+
+
+def _big_enough(page, *identifiers: str) -> None:
+    """Touch targets usable with gloves: at least 48 px (Material guidance, common practice)."""
+    for ident in identifiers:  # each wholly in view first: a control cut by an edge reads short
+        box = _find(page, ident).bounding_box()
+        assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)
