@@ -305,8 +305,8 @@ class ColumnsMixin(SitesMixin):
 
         Example:
             >>> first = store.page_columns(site.id, limit=1)
-            >>> [r.tag for r in store.page_columns(site.id, after=(first[0].tag, first[0].id))]
-            ['B/4-L1']
+            >>> [r.tag for r in first], store.page_columns(site.id, after=(first[0].tag, first[0].id))
+            (['B/4-L1'], [])
         """
         if isinstance(limit, bool) or not isinstance(limit, int) or not 1 <= limit <= 1000:
             raise InputError("limit", repr(limit), "a page holds 1 to 1000 rows", None)
