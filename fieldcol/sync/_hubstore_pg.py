@@ -43,7 +43,7 @@ from fieldcol.sync._hubphotos import HubPhotos
 SEQ_LOCK = 0x6663_0001
 MIGRATE_LOCK = 0x6663_0002
 CONNECT_TIMEOUT_S = 5
-POOL_WAIT_S = 10.0
+POOL_WAIT_S = 5.0
 STATEMENT_TIMEOUT_MS = 60_000
 
 #: the hub's schema steps, applied in order, each once (never edit a released step: add one)
