@@ -188,7 +188,7 @@ def _waiting_insert(url: str, deadline_s: float = 30) -> int:
     with psycopg.connect(url, autocommit=True) as c:
         while time.monotonic() < end:
             row = c.execute("SELECT pid FROM pg_stat_activity WHERE wait_event_type = 'Lock' "
-                            "AND query LIKE 'INSERT INTO hub_ops%%'").fetchone()
+                            "AND query LIKE '%%INSERT INTO hub_ops%%'").fetchone()
             if row:
                 return row[0]
             time.sleep(0.05)
@@ -203,51 +203,87 @@ def _gone(url: str, pid: int, deadline_s: float = 30) -> None:
             time.sleep(0.05)
 
 
-def test_a_hub_killed_mid_push_leaves_nothing_and_the_retry_completes(
-        tmp_path: Path, two_hubs, pg_database: str):
-    admin, procs = two_hubs
-    a, b = Store(tmp_path / "a.db"), Store(tmp_path / "b.db")
-    ta, tb = admin.add_device("a"), admin.add_device("b")
-    s = _site(a)
-    for k in range(15):
-        _col(a, s.id, f"C{k}")
-    ops = a.ops_after(0, 10**6)
-    assert len(ops) < client.PUSH_BATCH  # one push carries them all
-    # another session holds the last operation's id, uncommitted: the hub's INSERT stores the
-    # ones before it in its open transaction, then waits there
-    blocker = psycopg.connect(pg_database)
+def _blocked_push(a: Store, url: str, token: str, pg_url: str, last_op: str):
+    """Start a sync of ``a`` whose push stops half way in the database: another session holds
+    the batch's last operation id, uncommitted, so the hub's INSERT has stored the ones before
+    it in its open transaction and waits there. Returns (blocker, hub session pid, thread,
+    outcome)."""
+    blocker = psycopg.connect(pg_url)
     blocker.execute("INSERT INTO hub_ops (op_id, device_id, hlc, tbl, row_id, field, value, "
-                    "seen) VALUES (%s, 'blocker', 0, 'x', 'x', 'x', NULL, 0)", [ops[-1].op_id])
+                    "seen) VALUES (%s, 'blocker', 0, 'x', 'x', 'x', NULL, 0)", [last_op])
     out: dict[str, object] = {}
 
     def sync() -> None:
         try:
-            sync_with_hub(a, procs[0].url, ta)
+            sync_with_hub(a, url, token)
         except InputError as e:
             out["error"] = e
 
     t = threading.Thread(target=sync)
     t.start()
-    backend = _waiting_insert(pg_database)
-    procs[0].kill()  # mid-push: half the batch written, nothing committed
+    return blocker, _waiting_insert(pg_url), t, out
+
+
+def test_a_hub_killed_mid_push_leaves_nothing_half_stored_and_the_retry_completes(
+        tmp_path: Path, two_hubs, pg_database: str):
+    admin, procs = two_hubs
+    a, b = Store(tmp_path / "a.db"), Store(tmp_path / "b.db")
+    ta, tb = admin.add_device("a"), admin.add_device("b")
+    push_cursor = f"push:{admin.hub_id}"
+    s = _site(a)
+    for k in range(15):
+        _col(a, s.id, f"C{k}")
+    ops = a.ops_after(0, 10**6)
+    assert len(ops) < client.PUSH_BATCH  # one push carries them all
+
+    # 1. the hub process dies half way and its database session with it: nothing is kept
+    blocker, backend, t, out = _blocked_push(a, procs[0].url, ta, pg_database, ops[-1].op_id)
+    assert _held(pg_database) == []  # the half written so far is seen by nobody
+    procs[0].kill()
     t.join(60)
     assert isinstance(out.get("error"), InputError) and out["error"].field == "hub"
+    with psycopg.connect(pg_database, autocommit=True) as c:
+        c.execute("SELECT pg_terminate_backend(%s)", [backend])
     blocker.rollback()
     blocker.close()
-    _gone(pg_database, backend)  # its session ends when it finds the hub gone
+    _gone(pg_database, backend)
     assert _held(pg_database) == [] and admin.max_seq() == 0
-    assert a.cursor(f"push:{admin.hub_id}") == 0  # no acknowledgement, nothing forgotten
+    assert a.cursor(push_cursor) == 0  # no acknowledgement: the device still holds it to send
     rep = sync_with_hub(a, procs[1].url, ta)  # the device's next sync, through the other one
     assert rep.sent == len(ops)
     assert sorted(op for _, op in _held(pg_database)) == sorted(o.op_id for o in ops)
+
+    # 2. the hub process dies half way but its session finishes the one-statement push: the
+    # whole batch is kept, never a part, and the device's repeat adds nothing twice
+    third = HubProcess(tmp_path / "hubdata", pg_database)
+    for k in range(15, 25):
+        _col(a, s.id, f"C{k}")
+    batch = [o for _, o in a.ops_with_seq(a.cursor(push_cursor), 10**6, exclude_source="hub")]
+    before = _held(pg_database)
+    blocker, backend, t, out = _blocked_push(a, third.url, ta, pg_database, batch[-1].op_id)
+    assert _held(pg_database) == before
+    third.kill()
+    t.join(60)
+    assert isinstance(out.get("error"), InputError)
+    blocker.rollback()
+    blocker.close()
+    _gone(pg_database, backend)
+    held = [op for _, op in _held(pg_database)]
+    assert held == [op for _, op in before] + [o.op_id for o in batch]
+    rep = sync_with_hub(a, procs[1].url, ta)
+    assert rep.sent == len(batch) and [op for _, op in _held(pg_database)] == held
     sync_with_hub(b, procs[1].url, tb)
     _same([a, b])
+    assert len(b.list_columns(s.id)) == 25
 
 
 def test_a_database_lost_while_running_gives_503_and_the_device_waits_it_out(
         tmp_path: Path, pg_server, monkeypatch):
     from fieldcol.sync._pgserver import TempPostgres
 
+    from fieldcol.sync import _hubstore_pg
+
+    monkeypatch.setattr(_hubstore_pg, "POOL_WAIT_S", 1.0)  # answer 503 sooner than 5 s
     pg = TempPostgres()  # a server of its own: this test stops it
     try:
         hub = RunningHub(tmp_path / "hub", pg.create("hub"))

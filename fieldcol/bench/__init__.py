@@ -6,7 +6,7 @@ import importlib
 import platform
 from typing import Any
 
-CASES = ("engine", "store", "sync", "section")
+CASES = ("engine", "store", "sync", "section", "hub")
 
 
 def run(cases: tuple[str, ...] = CASES, *, quick: bool = False) -> dict[str, Any]:

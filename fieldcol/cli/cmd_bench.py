@@ -12,7 +12,7 @@ def register(sub: argparse._SubParsersAction) -> None:
                                    "list and search on a large site database.")
     p.add_argument("--json", action="store_true", help="print one JSON object")
     p.add_argument("--quick", action="store_true", help="a smaller workload (smoke test)")
-    p.add_argument("--case", action="append", choices=("engine", "store", "sync"),
+    p.add_argument("--case", action="append", choices=("engine", "store", "sync", "section", "hub"),
                    help="run only this case (repeatable)")
     p.set_defaults(func=run)
 

@@ -76,6 +76,18 @@ CREATE INDEX hub_ops_device ON hub_ops (device_id);
 ]
 
 
+_PUSH_SQL = """
+WITH seq_lock AS MATERIALIZED (SELECT pg_advisory_xact_lock(%s) AS held)
+INSERT INTO hub_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen)
+SELECT u.op_id, u.device_id, u.hlc, u.tbl, u.row_id, u.field, u.value, u.seen
+FROM seq_lock, unnest(%s::text[], %s::text[], %s::bigint[], %s::text[], %s::text[], %s::text[],
+                      %s::text[], %s::bigint[])
+     WITH ORDINALITY AS u(op_id, device_id, hlc, tbl, row_id, field, value, seen, n)
+ORDER BY u.n
+ON CONFLICT (op_id) DO NOTHING
+"""
+
+
 def masked(url: str) -> str:
     """The address with any password hidden (for messages).
 
@@ -133,15 +145,16 @@ class PgHubStore:
                 self._migrate(conn)
         except psycopg.Error as e:
             raise _unreachable(url, e) from None
+        # no check on checkout (a round trip per request): a connection broken by a database
+        # restart fails once (503, the device tries again) and the pool replaces it
         self.pool = ConnectionPool(url, min_size=1, max_size=8, kwargs=kwargs, open=False,
-                                   timeout=POOL_WAIT_S, check=ConnectionPool.check_connection,
-                                   name="fieldcol-hub")
+                                   timeout=POOL_WAIT_S, name="fieldcol-hub")
         self.pool.open(wait=False)
         self._hub_id: str | None = None
 
     def _migrate(self, conn: Any) -> None:
         names = [n for n, _ in STEPS]
-        with conn.transaction():
+        with conn.transaction():  # (a plain connection, not the pool's)
             conn.execute("SELECT pg_advisory_xact_lock(%s)", [MIGRATE_LOCK])
             conn.execute("CREATE TABLE IF NOT EXISTS hub_steps (name text PRIMARY KEY, "
                          "applied_at timestamptz NOT NULL DEFAULT now())")
@@ -157,14 +170,19 @@ class PgHubStore:
                     conn.execute("INSERT INTO hub_steps (name) VALUES (%s)", [name])
 
     @contextmanager
-    def _conn(self) -> Iterator[Any]:
-        """A pooled connection inside one transaction; a lost database becomes HubUnavailable."""
+    def _conn(self, transaction: bool = False) -> Iterator[Any]:
+        """A pooled connection (one statement is its own transaction unless ``transaction``);
+        a lost database becomes HubUnavailable."""
         import psycopg
         from psycopg_pool import PoolTimeout
 
         try:
-            with self.pool.connection() as conn, conn.transaction():
-                yield conn
+            with self.pool.connection() as conn:
+                if transaction:
+                    with conn.transaction():
+                        yield conn
+                else:
+                    yield conn
         except (psycopg.OperationalError, PoolTimeout) as e:
             first = str(e).strip().splitlines()[0] if str(e).strip() else type(e).__name__
             raise HubUnavailable(f"the hub's database cannot be reached ({first})") from None
@@ -192,7 +210,7 @@ class PgHubStore:
         """Allow a new device; returns its token (shown once: only its hash is kept)."""
         check_name(name)
         token = secrets.token_hex(32)  # hex: never starts with "-"
-        with self._conn() as c:
+        with self._conn(transaction=True) as c:
             cur = c.execute("INSERT INTO hub_devices (name, token_hash, created_at) "
                             "VALUES (%s, %s, %s) ON CONFLICT (name) DO NOTHING",
                             [name, token_hash(token), now_text()])
@@ -230,8 +248,13 @@ class PgHubStore:
     def touch(self, name: str, device_id: str | None) -> None:
         """Note that a device synced just now (as store ``device_id``)."""
         with self._conn() as c:
+            # written at most once a second per device (the note's resolution): a push does
+            # not wait for a second write to disk
+            now = now_text()
             c.execute("UPDATE hub_devices SET last_sync = %s, device_id = coalesce(%s, device_id) "
-                      "WHERE name = %s", [now_text(), device_id, name])
+                      "WHERE name = %s AND (last_sync IS DISTINCT FROM %s OR device_id IS "
+                      "DISTINCT FROM coalesce(%s, device_id))", [now, device_id, name, now,
+                                                                  device_id])
 
     # -- operations ---------------------------------------------------------------------------
     def push(self, ops: list[Op]) -> PushResult:
@@ -243,12 +266,10 @@ class PgHubStore:
         cols = list(zip(*[(o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value,
                            o.seen) for o in ops]))
         with self._conn() as c:
-            c.execute("SELECT pg_advisory_xact_lock(%s)", [SEQ_LOCK])
-            cur = c.execute(
-                "INSERT INTO hub_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen) "
-                "SELECT * FROM unnest(%s::text[], %s::text[], %s::bigint[], %s::text[], "
-                "%s::text[], %s::text[], %s::text[], %s::bigint[]) "
-                "ON CONFLICT (op_id) DO NOTHING", [list(col) for col in cols])
+            # one statement, so one transaction that the server runs and commits without
+            # another round trip: the lock is never held while this process waits for its
+            # turn on a busy processor
+            cur = c.execute(_PUSH_SQL, [SEQ_LOCK, *[list(col) for col in cols]])
             return PushResult(max(cur.rowcount, 0))
 
     def pull(self, after: int, limit: int) -> list[tuple[int, Op]]:
