@@ -126,3 +126,28 @@ def test_backup_while_another_connection_writes(filled, tmp_path: Path):
         writer.add_column(site.id, {"tag": "late"})
         info = backup(s, tmp_path / "live.zip")
     assert info.counts["columns"] == 2
+
+
+def test_restore_keeps_only_photo_rows_whose_files_it_wrote(filled, tmp_path: Path, capsys):
+    """A photo whose file was gone at backup time is listed missing; restore leaves its row and
+    links out (a row naming no file would show a broken photo and travel into every later
+    backup) and says which."""
+    from fieldcol.cli import main
+
+    s, site, col = filled
+    lost = s._rows("SELECT id, path, thumb_path FROM photos ORDER BY path")[0]
+    (s.photos_dir / lost["path"]).unlink()
+    info = backup(s, tmp_path / "b.zip")
+    assert info.missing_photos == [lost["path"]]
+    got = restore(tmp_path / "b.zip", tmp_path / "dst" / "r.db")
+    assert got.dropped_photos == [lost["path"]]
+    with Store(tmp_path / "dst" / "r.db") as r:
+        rows = r._rows("SELECT id, path, thumb_path FROM photos")
+        assert lost["id"] not in {p["id"] for p in rows} and len(rows) == 1
+        assert r._rows("SELECT count(*) AS n FROM photo_links WHERE photo_id = ?",
+                       [lost["id"]])[0]["n"] == 0
+        for p in rows:
+            assert (r.photos_dir / p["path"]).is_file() and (r.photos_dir / p["thumb_path"]).is_file()
+        assert r.integrity_check() == "ok"
+    assert main(["restore", str(tmp_path / "b.zip"), "--db", str(tmp_path / "d2" / "r.db")]) == 0
+    assert f"1 photo(s) left out" in capsys.readouterr().out

@@ -34,6 +34,9 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.store import restore
 
     info = restore(args.backup, args.db, force=args.force)
+    if info.dropped_photos:
+        print(f"warning: {len(info.dropped_photos)} photo(s) left out: the backup listed their "
+              f"files as missing: " + ", ".join(info.dropped_photos))
     if info.safety_backup:
         print(f"the store's previous contents were saved to {info.safety_backup}")
     print(f"restored {sum(info.counts.values())} rows and {info.photo_files} photo files "

@@ -44,6 +44,8 @@ class BackupInfo:
     photo_files: int
     missing_photos: list[str] = field(default_factory=list)
     safety_backup: Path | None = None
+    #: on restore: photo rows left out because the backup did not hold their files
+    dropped_photos: list[str] = field(default_factory=list)
 
 
 def backup(store: "Store", out: str | os.PathLike[str]) -> BackupInfo:
@@ -135,7 +137,9 @@ def restore(src: str | os.PathLike[str], db: str | os.PathLike[str] | None = Non
     shape, every member's name (resolved under the photo folder), declared sizes and
     compression ratio, every SHA-256, SQLite's integrity check of the database, and every photo
     row (its file must be one this restore writes, or one the backup lists as missing, under
-    our own naming: never a path such as ``/etc/passwd``). Members are unpacked into a folder
+    our own naming: never a path such as ``/etc/passwd``). Only photo rows whose files this
+    restore writes are kept: the rows (and their links) of photos the backup lists as missing
+    are left out and named in ``BackupInfo.dropped_photos``, so no row points at nothing. Members are unpacked into a folder
     beside the store and moved into place only when all of it passed.
 
     A store that holds any row is refused unless ``force``; with ``force`` a safety backup of
@@ -162,6 +166,7 @@ def restore(src: str | os.PathLike[str], db: str | os.PathLike[str] | None = Non
     with staged(arc, photos) as folder:
         snap = folder / DB_ENTRY
         _check_database(arc, snap)
+        dropped = _drop_photo_rows_without_files(arc, snap)
         target = Store(db_path, create=True)
         try:
             safety = None
@@ -197,7 +202,7 @@ def restore(src: str | os.PathLike[str], db: str | os.PathLike[str] | None = Non
         s.rebuild_search()
         counts = {t: s._rows(f"SELECT count(*) AS n FROM {t}")[0]["n"] for t in DATA_TABLES}
         return BackupInfo(s.path, s.schema_version, counts, len(photo_names),
-                          list(arc.manifest.get("missing_photos", [])), safety)
+                          list(arc.manifest.get("missing_photos", [])), safety, dropped)
 
 
 #: what a backup's manifest holds besides format, format_version and files
@@ -240,6 +245,27 @@ def _open(src: str | os.PathLike[str], space_for: Path | None = None) -> Archive
         if not isinstance(n, int) or isinstance(n, bool) or n < 0:
             raise arc.refuse(f"manifest: counts[{table!r}] must be a whole number")
     return arc
+
+
+def _drop_photo_rows_without_files(arc: Archive, snap: Path) -> list[str]:
+    """Delete from the staged database the photo rows (and their links) whose files the
+    archive does not hold; return their file names. The store's delete is a tombstone, but
+    here the row never existed on this device: a row naming a missing file would show a
+    broken photo and be copied into every later backup."""
+    have = {n[len("photos/"):] for n in arc.files if n.startswith("photos/")}
+    conn = sqlite3.connect(snap)
+    try:
+        gone = [(pid, path) for pid, path, thumb in
+                conn.execute("SELECT id, path, thumb_path FROM photos ORDER BY path")
+                if path not in have or thumb not in have]
+        if gone:
+            with conn:
+                ids = [(pid,) for pid, _ in gone]
+                conn.executemany("DELETE FROM photo_links WHERE photo_id = ?", ids)
+                conn.executemany("DELETE FROM photos WHERE id = ?", ids)
+    finally:
+        conn.close()
+    return [path for _, path in gone]
 
 
 def _check_database(arc: Archive, snap: Path) -> None:
