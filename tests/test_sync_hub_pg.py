@@ -90,6 +90,22 @@ def test_hub_commands_take_a_database_and_exit_2_when_it_is_out_of_reach(
     PgHubStore(data, pg_database).close()
     with psycopg.connect(pg_database) as c:
         assert [r[0] for r in c.execute("SELECT name FROM hub_steps")] == ["p001_hub"]
+        c.execute("INSERT INTO hub_steps (name) VALUES ('p999_from_the_future')")
+    assert main(["hub", "devices", *db]) == 2  # a database a newer hub upgraded is refused
+    assert "newer fieldcol hub" in capsys.readouterr().err
+
+
+def test_hub_processes_starting_together_make_the_schema_once(tmp_path: Path,
+                                                              pg_database: str):
+    with ThreadPoolExecutor(4) as pool:
+        hubs = list(pool.map(lambda i: PgHubStore(tmp_path / "hubdata", pg_database), range(4)))
+    try:
+        assert len({h.hub_id for h in hubs}) == 1
+        with psycopg.connect(pg_database) as c:
+            assert c.execute("SELECT count(*) FROM hub_meta").fetchone()[0] == 1
+    finally:
+        for h in hubs:
+            h.close()
 
 
 def test_devices_syncing_through_either_process_in_any_order_converge(tmp_path: Path, two_hubs):
