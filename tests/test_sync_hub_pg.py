@@ -348,3 +348,32 @@ def test_one_photo_sent_through_both_processes_at_once_is_stored_once(tmp_path: 
     files = [p for p in folder.rglob("*") if p.is_file()]
     assert sorted(p.name for p in files) == [f"{sha}.jpg", f"{sha}.jpg"]  # photo and thumbnail
     assert not any(p.name.endswith(".tmp") for p in folder.rglob("*"))
+
+
+def test_a_field_bundle_imported_into_the_hub_reaches_every_device(tmp_path: Path,
+                                                                   pg_database: str, capsys):
+    a, b = Store(tmp_path / "a.db"), Store(tmp_path / "b.db")
+    s = _site(a)
+    f = a.add_finding(s.id, "Cap plate weld cracked", category="damage", severity="high")
+    photo = a.add_photo(_jpeg((90, 40, 200)), finding_id=f.id)
+    _col(a, s.id, "C1")
+    assert main(["bundle", "export", str(tmp_path / "a.zip"), "--db", str(a.path)]) == 0
+    data = tmp_path / "hubdata"
+    imp = ["bundle", "import", str(tmp_path / "a.zip"), "--data", str(data),
+           "--database", pg_database]
+    capsys.readouterr()
+    assert main(imp) == 0
+    assert f"{a.count_ops()} operations ({a.count_ops()} new here)" in capsys.readouterr().out
+    assert main(imp) == 0  # twice: nothing new
+    assert "(0 new here)" in capsys.readouterr().out
+    assert sorted(op for _, op in _held(pg_database)) == sorted(o.op_id for o in
+                                                                 a.ops_after(0, 10**6))
+    hub = RunningHub(data, pg_database)
+    try:
+        sync_with_hub(b, hub.url, hub.token("b"))
+    finally:
+        hub.stop()
+    _same([a, b])
+    (got,) = b.photos_of(finding_id=f.id)
+    assert got.sha256 == photo.sha256 and b.photo_path(got).is_file()
+    assert main(["bundle", "import", str(tmp_path / "a.zip"), "--database", pg_database]) == 2
