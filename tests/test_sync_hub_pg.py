@@ -377,3 +377,41 @@ def test_a_field_bundle_imported_into_the_hub_reaches_every_device(tmp_path: Pat
     (got,) = b.photos_of(finding_id=f.id)
     assert got.sha256 == photo.sha256 and b.photo_path(got).is_file()
     assert main(["bundle", "import", str(tmp_path / "a.zip"), "--database", pg_database]) == 2
+
+
+def test_a_reader_never_skips_a_push_that_commits_late(tmp_path: Path, two_hubs,
+                                                       pg_database: str):
+    # push A stops half way in the database (numbers taken, nothing committed) while push B
+    # arrives at the other process; a reader pulling meanwhile must not move its cursor past
+    # A's numbers, or A's operations would never reach it
+    admin, procs = two_hubs
+    a, b, c = (Store(tmp_path / f"{n}.db") for n in "abc")
+    ta, tb, tc = (admin.add_device(n) for n in "abc")
+    for st, name in ((a, "A"), (b, "B")):
+        site = st.add_site(f"{SITE} {name}", code="aisc360-22", unit_system="us")
+        for k in range(5):
+            _col(st, site.id, f"{name}{k}")
+    blocker, backend_a, t_a, out_a = _blocked_push(a, procs[0].url, ta, pg_database,
+                                                   a.ops_after(0, 10**6)[-1].op_id)
+    t_b = threading.Thread(target=sync_with_hub, args=(b, procs[1].url, tb))
+    t_b.start()
+    time.sleep(1.0)  # B has had every chance to commit ahead of A
+    auth = {"Authorization": f"Bearer {tc}"}
+    cursor, got = 0, []
+    for url in (procs[0].url, procs[1].url):  # a reader during the stall, through both
+        rows = httpx.get(f"{url}/v1/pull", params={"after": cursor}, headers=auth,
+                         timeout=60).json()["ops"]
+        got += [o["op_id"] for _, o in rows]
+        cursor = rows[-1][0] if rows else cursor
+    blocker.rollback()
+    blocker.close()
+    t_a.join(60)
+    t_b.join(60)
+    assert "error" not in out_a
+    rows = httpx.get(f"{procs[1].url}/v1/pull", params={"after": cursor, "limit": 5000},
+                     headers=auth, timeout=60).json()["ops"]
+    got += [o["op_id"] for _, o in rows]
+    every = {o.op_id for st in (a, b) for o in st.ops_after(0, 10**6)}
+    assert sorted(got) == sorted(every)  # all, each once
+    sync_with_hub(c, procs[0].url, tc)
+    assert len(c.list_sites()) == 2
