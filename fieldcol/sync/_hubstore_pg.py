@@ -183,7 +183,7 @@ class PgHubStore:
                         yield conn
                 else:
                     yield conn
-        except (psycopg.OperationalError, PoolTimeout) as e:
+        except (psycopg.OperationalError, psycopg.InterfaceError, PoolTimeout) as e:
             first = str(e).strip().splitlines()[0] if str(e).strip() else type(e).__name__
             raise HubUnavailable(f"the hub's database cannot be reached ({first})") from None
 
