@@ -348,6 +348,7 @@ def test_one_photo_sent_through_both_processes_at_once_is_stored_once(tmp_path: 
     files = [p for p in folder.rglob("*") if p.is_file()]
     assert sorted(p.name for p in files) == [f"{sha}.jpg", f"{sha}.jpg"]  # photo and thumbnail
     assert not any(p.name.endswith(".tmp") for p in folder.rglob("*"))
+    assert list((tmp_path / "hubdata" / "partial").glob("*")) == []  # no upload or lock left
 
 
 def test_a_field_bundle_imported_into_the_hub_reaches_every_device(tmp_path: Path,

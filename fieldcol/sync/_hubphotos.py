@@ -94,6 +94,9 @@ class HubPhotos:
                 raise InputError("photo", sha[:12], "the bytes do not match their hash",
                                  "send the photo again")
             _photos.ingest(self.folder, blob, "photo")  # temp file and rename, photo and thumb
+            # the lock file goes only now: whoever waits on it, or makes a new one, finds the
+            # photo held and touches nothing (after a failure it stays, so appends stay serial)
+            (self.partial / f"{sha}.lock").unlink(missing_ok=True)
             return True, total
 
     def read(self, sha: str, offset: int, size: int) -> bytes | None:
