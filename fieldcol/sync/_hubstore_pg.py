@@ -151,6 +151,7 @@ class PgHubStore:
                                    timeout=POOL_WAIT_S, name="fieldcol-hub")
         self.pool.open(wait=False)
         self._hub_id: str | None = None
+        _schema()  # read once at start, not on the first push
 
     def _migrate(self, conn: Any) -> None:
         names = [n for n, _ in STEPS]
