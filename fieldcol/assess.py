@@ -15,6 +15,7 @@ from typing import Any, Mapping
 import numpy as np
 
 from fieldcol import CAUTION, __version__
+from fieldcol.codes.beamcolumn import BeamColumnResult
 from fieldcol.codes.bow import TOLERANCE as BOW_TOLERANCE
 from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
                             check_en1993)
@@ -29,6 +30,17 @@ from fieldcol.units import format_length, format_quantity
 EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
             "en1993-1-1": "EN 1993-1-1:2005+A1:2014"}
 _EI_AXIS = {"strong": "Ix", "weak": "Iy"}
+
+#: The one table of words for each governing mode, for the app and the report.
+MODE_WORDS = {
+    "flexural-strong": "flexural buckling, strong axis",
+    "flexural-weak": "flexural buckling, weak axis",
+    "torsional": "torsional buckling",
+    "yield": "yielding (squash load)",
+    "bow": "measured bow (beam-column)",
+    "beam-column": "axial force with bending (beam-column interaction)",
+    "section-band": "the section where steel was lost (loss band)",
+}
 
 
 @dataclass(frozen=True)
@@ -63,6 +75,29 @@ class Assessment:
     trace: Trace = field(default_factory=Trace)
     record: dict[str, Any] = field(default_factory=dict)
     bow: BowResult | None = None
+    beam: BeamColumnResult | None = None
+    band: Any = None                 # fieldcol.band.BandResult when the record has a loss band
+    knowledge: float = 1.0
+    spans: dict[str, float] = field(default_factory=dict)      # mm between points held, per axis
+    sources: dict[str, Any] = field(default_factory=dict)      # moments by source (bending.py)
+
+    def capacities(self) -> dict[str, float]:
+        """The capacity (N, before the knowledge factor) of every check that applies, by mode:
+        the governing axial mode, ``bow``, ``beam-column`` and ``section-band``.
+
+        Example:
+            >>> a = assess({"tag": "C1", "section": "W14X90", "material": "A992", "length": "30 ft"})
+            >>> list(a.capacities())
+            ['flexural-weak']
+        """
+        out = {str(np.asarray(self.result.governing).reshape(-1)[0]): _first(self.result.design)}
+        if self.bow is not None and math.isfinite(_first(self.bow.capacity)):
+            out["bow"] = _first(self.bow.capacity)
+        if self.beam is not None:
+            out["beam-column"] = _first(self.beam.capacity)
+        if self.band is not None:
+            out["section-band"] = float(self.band.capacity)
+        return out
 
     @property
     def bow_governs(self) -> bool:
@@ -81,18 +116,29 @@ class Assessment:
 
     @property
     def governing_mode(self) -> str:
-        """``flexural-strong``, ``flexural-weak``, ``torsional``, ``yield`` or ``bow``."""
-        if self.bow_governs:
-            return "bow"
-        return str(np.asarray(self.result.governing).reshape(-1)[0])
+        """``flexural-strong``, ``flexural-weak``, ``torsional``, ``yield``, ``bow``,
+        ``beam-column`` or ``section-band`` (words for each in ``MODE_WORDS``)."""
+        caps = self.capacities()
+        for name in ("beam-column", "section-band"):
+            if name in caps and math.isnan(caps[name]):   # a check the code does not cover
+                return name
+        mode = next(iter(caps))
+        for name, cap in caps.items():
+            if cap < caps[mode]:
+                mode = name
+        return mode
+
+    @property
+    def governing_words(self) -> str:
+        """The governing mode in words (``MODE_WORDS``)."""
+        return MODE_WORDS.get(self.governing_mode, self.governing_mode)
 
     @property
     def design_strength(self) -> float:
-        """The design (or allowable) axial strength, N: the lower of the axial modes and,
-        when a bow beyond the curve's allowance was measured, the beam-column capacity with it."""
-        if self.bow_governs:
-            return _first(self.bow.capacity)
-        return float(np.asarray(self.result.design).reshape(-1)[0])
+        """The design (or allowable) axial strength, N: the lowest of the axial modes, the bow,
+        the beam-column check and the loss band (each with the moments in proportion to the
+        axial force), times the knowledge factor."""
+        return self.knowledge * self.capacities()[self.governing_mode]
 
     @property
     def nominal_strength(self) -> float:
@@ -129,8 +175,22 @@ class Assessment:
             "nominal_strength": _q(r.nominal, "N"),
             "design_strength": _q(self.design_strength, "N"),
             "axial_design_strength": _q(r.design, "N"),
+            "governing_words": self.governing_words,
+            "knowledge_factor": _q(self.knowledge, ""),
+            "beam_column": None if self.beam is None else {
+                "equation": str(np.asarray(self.beam.equation).reshape(-1)[0]),
+                "interaction": _q(self.beam.ratio, ""), "capacity": _q(self.beam.capacity, "N"),
+                "flexural_strength": {ax: _q(m, "N*mm") for ax, m in self.beam.Mc.items()},
+                "required_moment": {ax: _q(m, "N*mm") for ax, m in self.beam.Mr.items()}},
+            "section_band": None if self.band is None else {
+                "from": _q(self.column.band.start, "mm"), "to": _q(self.column.band.end, "mm"),
+                "section_strength": _q(self.band.axial.design, "N"),
+                "capacity": _q(self.band.capacity, "N"), "equation": self.band.equation,
+                "interaction": None if self.band.ratio is None else _q(self.band.ratio, ""),
+                "stiffness_factor": {ax: _q(f, "") for ax, f in self.band.factors.items()}},
             "bow": None if self.bow is None else {
                 "axis": self.bow.axis, "excess": _q(self.bow.excess, "mm"),
+                "allowance": f"L/{BOW_TOLERANCE[c.code]:g}",
                 "flexural_strength": _q(self.bow.Mc, "N*mm"),
                 "capacity": _q(self.bow.capacity, "N"),
                 "interaction": None if self.bow.ratio is None else _q(self.bow.ratio, "")},
@@ -140,6 +200,7 @@ class Assessment:
             "status": self.status,
             "section": {
                 "name": s.name, "kind": s.kind, "rolled": s.rolled, "notes": list(s.notes),
+                "built": None if c.built is None else c.built.arrangement,
                 **{k: _q(getattr(s, k), u) for k, u in (
                     ("A", "mm^2"), ("Ix", "mm^4"), ("Iy", "mm^4"), ("rx", "mm"), ("ry", "mm"),
                     ("J", "mm^4"), ("Cw", "mm^6"), ("d", "mm"), ("bf", "mm"), ("tf", "mm"),
@@ -227,12 +288,16 @@ def assess(record: Mapping[str, Any]) -> Assessment:
         return res
 
     twist = _twist_length(col)
-    # First pass: every brace counted as given, to know the strength that the braces must hold.
-    every = {ax: tuple((i, b.stiffness) for i, b in enumerate(col.axes[ax].braces)) for ax in AXES}
-    first = {ax: _axis_length(col, ax, col.axes[ax], every[ax], Trace()) for ax in AXES}
-    first["twist"] = twist
-    base = run(first, None)
-    Pr = demand if demand is not None else _first(base.design)
+    if demand is not None:
+        Pr = demand  # the braces must hold the demand
+    else:
+        # no demand: a first pass with every brace counted as given finds the braced design
+        # strength, which the braces must then hold (skipped with a demand: half the check)
+        every = {ax: tuple((i, b.stiffness) for i, b in enumerate(col.axes[ax].braces))
+                 for ax in AXES}
+        first = {ax: _axis_length(col, ax, col.axes[ax], every[ax], Trace()) for ax in AXES}
+        first["twist"] = twist
+        Pr = _first(run(first, None).design)
     counted = {ax: _qualify(col, ax, col.axes[ax], Pr, demand is not None, trace, warnings)
                for ax in AXES}
     _assumed_rigid(col, counted, warnings)
@@ -241,6 +306,17 @@ def assess(record: Mapping[str, Any]) -> Assessment:
               "(K_z = 2 next to an end free to twist)", "max K_z,i L_i", twist.Lc, "mm",
               "common practice")
     lengths["twist"] = twist
+    factors: dict[str, float] = {}
+    if col.band is not None:
+        from fieldcol.band import member_factors
+
+        factors = member_factors(col, {ax: counted[ax].model for ax in AXES}, trace)
+        for ax in AXES:
+            L0, f = lengths[ax], factors[ax]
+            lengths[ax] = AxisLength(L0.Lc / math.sqrt(f), L0.K / math.sqrt(f), L0.segment, L0.method,
+                                     L0.braces_used, L0.shape)
+            trace.add(f"Lc_{ax}", f"effective length with the loss band, {ax} axis (section as built)",
+                      "Lc / sqrt(f_band)", lengths[ax].Lc, "mm", "elastic stability (conservative)")
     result = run(lengths, trace)
     for w in result.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):
@@ -248,6 +324,20 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     design = _first(result.design)
     spans = {ax: _longest_span(col.length, counted[ax].qualified) for ax in AXES}
     bow = _bow(col, Fy, lengths, spans, result, demand, trace, warnings)
+    from fieldcol.bending import check_bending
+
+    excess = _first(bow.excess) if bow is not None and math.isfinite(_first(bow.capacity)) else 0.0
+    beam, sources = check_bending(col, Fy, result, {ax: lengths[ax].Lc for ax in (*AXES, "twist")},
+                                  spans, demand, excess, trace, warnings)
+    band = None
+    if col.band is not None:
+        from fieldcol.band import check_band
+
+        band = check_band(col, Fy, lambda sec, fy, *Lc: _code_check(col, fy, dict(zip(
+            ("strong", "weak", "twist"), (AxisLength(x, 1.0, x, "band", ()) for x in Lc))), sec),
+            result, lengths["twist"].Lc, demand, sources, trace, warnings, factors)
+    kappa = col.knowledge
+    _appendix5(col, trace)
     if col.code == "elastic":
         warnings.append({"code": "reference-only",
                          "message": "classical elastic buckling and yielding: no resistance "
@@ -266,9 +356,41 @@ def assess(record: Mapping[str, Any]) -> Assessment:
             utilization = _first(bow.ratio)
             trace.add("U", "utilization with the bow (beam-column interaction governs)",
                       "interaction ratio", utilization, "", EDITIONS[col.code])
+        if beam is not None:
+            r = _first(beam.ratio)
+            if not math.isfinite(r) or r > utilization:
+                utilization = r if math.isfinite(r) else None
+                trace.add("U", "utilization with bending (beam-column interaction governs)",
+                          "interaction ratio, " + str(np.asarray(beam.equation).reshape(-1)[0]),
+                          r, "", EDITIONS[col.code])
+        if band is not None and band.ratio is not None and utilization is not None \
+                and band.ratio > utilization:
+            utilization = band.ratio
+            trace.add("U", "utilization in the loss band (the section there governs)",
+                      "interaction in the band", utilization, "", band.equation)
+        if utilization is not None and kappa != 1.0:
+            utilization = utilization / kappa
+            trace.add("U", "utilization with the knowledge factor", "U / kappa", utilization, "",
+                      "knowledge factor of existing-building assessment practice")
     _condition_warnings(col, warnings)
     return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace,
-                      json.loads(json.dumps(record)), bow)
+                      json.loads(json.dumps(record)), bow, beam, band, kappa, spans, sources)
+
+
+_APP5 = ("AISC 360-22 App. 5.2", "AISC 360-22 App. 5.2; EN 1993-1-1 gives no rule for existing "
+         "structures, common practice")
+
+
+def _appendix5(col: ColumnInput, trace: Trace) -> None:
+    """AISC 360-22 Appendix 5 (evaluation of existing structures): where the material properties
+    come from, and the knowledge factor applied to every capacity."""
+    mat = col.material
+    trace.add("basis", "evaluation of an existing structure: material properties "
+              + ("from coupon tests" if mat.tested else "from the documents or the grade of the era (no tests)"),
+              "", "tested" if mat.tested else "documents", "", _APP5[col.code == "en1993-1-1"])
+    trace.add("kappa", f"knowledge factor ({col.knowledge_label}): multiplies every capacity, divides the "
+              "utilization", "minimum 0.75, usual 1.0, comprehensive 1.0, or as given", col.knowledge, "",
+              "existing-building assessment practice (ASCE 41 data collection levels; from memory)")
 
 
 def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
@@ -286,6 +408,11 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
                     gamma_M1=col.gamma_M1, Pr=demand, axial=axial)
+    if col.built is not None and col.built.open_axis(col.bow_axis) is not None:
+        # the chords of a laced or battened column bend apart: the I-shape beam-column rules
+        # do not apply; a bow beyond the curve's allowance is left unchecked (not-covered)
+        res.capacity = np.where(np.asarray(res.excess) > 0, np.nan, res.capacity)
+        res.ratio = None
     trace.extend(res.trace)
     for w in res.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):
@@ -309,9 +436,15 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     return res
 
 
-def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength]) -> CodeResult:
-    mat, sec = col.material, col.section
+def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength],
+                section: Any = None) -> CodeResult:
+    mat = col.material
+    sec = col.section if section is None else section
     args = (sec, Fy, mat.E, mat.G, L["strong"].Lc, L["weak"].Lc, L["twist"].Lc)
+    if col.built is not None:
+        from fieldcol.codes.builtup import check_builtup
+        return check_builtup(col.code, col.built, *args[1:], basis=col.basis,
+                             gamma_M1=col.gamma_M1)
     if col.code == "aisc360-22":
         return check_aisc360(*args, basis=col.basis)
     if col.code == "en1993-1-1":
@@ -512,10 +645,15 @@ def _longest_span(length: float, at: tuple[float, ...]) -> float:
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
     L = col.length
     if col.plumb is not None and col.plumb > L / 500:
+        spec = col.axes[col.plumb_axis]
+        sway = not (math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation))
+        then = ("checked here as P-delta with the column's own buckling load; include the story's "
+                "other columns in the frame analysis" if sway and col.demand is not None else
+                "include the sway effect in the frame analysis")
         warnings.append({
             "code": "plumb-over-tolerance",
             "message": f"measured out-of-plumb {_show(col, col.plumb)} exceeds L/500 = {_show(col, L / 500)} "
-                       "(AISC 303 erection tolerance): include the sway effect in the frame analysis",
+                       f"(AISC 303 erection tolerance): {then}",
         })
 
 

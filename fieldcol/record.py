@@ -99,6 +99,8 @@ class Demand:
     loads: Mapping[str, float] = field(default_factory=dict)   # N, service loads by type
     basis: str = "lrfd"
     psi0: Mapping[str, float] = field(default_factory=dict)    # EN combination factors set
+    moments: Mapping[str, float] = field(default_factory=dict)  # N*mm, second order included
+    reactions: tuple[Reaction, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -121,6 +123,32 @@ class ColumnInput:
     plumb: float | None = None     # mm, measured out-of-plumb over the length
     bow_axis: str = "weak"         # the axis the bow bends the column about
     bow_over: float | None = None  # mm, the length the bow was measured over (default: the span)
+    plumb_axis: str = "weak"       # the axis the out-of-plumb bends the column about
+    band: "LossBand | None" = None  # section loss over a band of height (the member stays gross)
+    knowledge: float = 1.0         # knowledge factor on every capacity (1.0: not applied)
+    knowledge_label: str = "not given"
+    built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
+
+
+@dataclass(frozen=True)
+class Reaction:
+    """A beam bearing on the column at an eccentricity about one axis (N, mm)."""
+
+    load: float
+    axis: str
+    eccentricity: float | None     # None: not measured, the default is taken (face + 100 mm)
+    side: int                      # +1 or -1: reactions on opposite sides cancel
+    field: str
+
+
+@dataclass(frozen=True)
+class LossBand:
+    """Section loss over part of the height: the section there, and where it lies (mm)."""
+
+    section: Section
+    start: float
+    end: float
+    field: str
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -155,7 +183,13 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         raise InputError("tag", tag, "the column tag must be text, e.g. B/4-L2")
     code = _choice(record.get("code", "aisc360-22"), CODES, "code")
     length = parse_length(record["length"], "length")
-    section = parse_section(record["section"])
+    spec = record["section"]
+    built = None
+    if isinstance(spec, Mapping) and "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        _section_keys(spec, "section")
+        built = parse_built(spec["built"])
+    section = built.section if built is not None else parse_section(spec)
     material = parse_material(record["material"], shape=section.kind)
     restraints = _object(record.get("restraints"), "restraints",
                          '{"strong": {..}, "weak": {..}, "twist": {..}}')
@@ -180,14 +214,72 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     bow = _opt_length(condition.get("bow"), "condition.bow")
     plumb = _opt_length(condition.get("plumb"), "condition.plumb")
     bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
+    plumb_axis = _choice(condition.get("plumb_axis", "weak"), AXES, "condition.plumb_axis")
+    band = parse_band(record["section"], length)
+    kappa, kappa_label = parse_knowledge(record.get("knowledge"))
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
-                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over)
+                       code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
+                       plumb_axis, band, kappa, kappa_label, built)
 
 
-def parse_section(spec: Any, fld: str = "section") -> Section:
+#: Knowledge settings of the kind used in existing-building assessment (ASCE 41 data collection
+#: levels; values from memory): the factor multiplies every capacity.
+KNOWLEDGE = {"minimum": 0.75, "usual": 1.0, "comprehensive": 1.0}
+
+
+def parse_knowledge(value: Any, fld: str = "knowledge") -> tuple[float, str]:
+    """The knowledge factor: a setting (``minimum``, ``usual``, ``comprehensive``) or a number
+    from 0.5 to 1.0; absent: 1.0, not applied.
+
+    Example:
+        >>> parse_knowledge("minimum"), parse_knowledge(0.9)
+        ((0.75, 'minimum'), (0.9, 'given'))
+    """
+    if value is None:
+        return 1.0, "not given"
+    if isinstance(value, str):
+        key = _choice(value, tuple(KNOWLEDGE), fld)
+        return KNOWLEDGE[key], key
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0.5 <= value <= 1.0:
+        raise InputError(fld, value, "must be minimum, usual, comprehensive or a number from 0.5 to 1.0",
+                         "the factor multiplies every capacity: less known, lower")
+    return float(value), "given"
+
+
+def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | None":
+    """The loss band of a section entry: its ``loss`` with ``from`` and ``to`` (mm from the
+    bottom), else None (a loss without them is over the full length).
+
+    Example:
+        >>> b = parse_band({"name": "W10X49", "loss": {"flange": "0.4 in", "from": "0 in",
+        ...                 "to": "6 in"}}, 4000.0)
+        >>> round(b.end, 1), round(float(b.section.tf), 2)
+        (152.4, 10.16)
+    """
+    if not isinstance(spec, Mapping) or not isinstance(spec.get("loss"), Mapping):
+        return None
+    loss = spec["loss"]
+    if loss.get("from") in (None, "") and loss.get("to") in (None, ""):
+        return None
+    lf = f"{fld}.loss"
+    for key in ("from", "to"):
+        if loss.get(key) in (None, ""):
+            raise InputError(f"{lf}.{key}", "", "a loss band needs both from and to",
+                             '{"flange": "0.30 in", "from": "0 in", "to": "6 in"}')
+    z0 = parse_length(loss["from"], f"{lf}.from", allow_zero=True)
+    z1 = parse_length(loss["to"], f"{lf}.to")
+    if not 0 <= z0 < z1 <= length:
+        raise InputError(f"{lf}.to", loss["to"], "the band must lie within the column, 'from' below 'to'",
+                         "heights measured from the bottom end")
+    return LossBand(parse_section(spec, fld, band=True), z0, z1, lf)
+
+
+def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Section:
     """A section from a catalogue name or an object of measured dimensions (with optional loss,
     then optional cover plates ``"plates": {"thickness": .., "width": ..}`` on an I section).
+    A loss with ``from`` and ``to`` is a band: the member's section stays as built, and
+    ``band=True`` gives the section inside the band.
 
     Example:
         >>> parse_section({"shape": "round", "D": "168.3 mm", "t": "7.1 mm"}).kind
@@ -199,6 +291,9 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
         raise InputError(fld, spec, "give a catalogue name or an object of dimensions",
                          'e.g. "W14X90" or {"shape": "i", "d": "14 in", ...}')
     _section_keys(spec, fld)
+    if "built" in spec:
+        from fieldcol.builtrecord import parse_built
+        return parse_built(spec["built"], f"{fld}.built").section
     if "name" in spec:
         name = spec["name"]
         if not isinstance(name, str) or not name.strip():
@@ -228,8 +323,11 @@ def parse_section(spec: Any, fld: str = "section") -> Section:
                    '{"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
     if loss:
         check_keys(loss, "section loss", f"{fld}.loss")
-        vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()}
-        sec = with_loss(sec, **vals)
+        is_band = any(loss.get(k) not in (None, "") for k in ("from", "to"))
+        vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()
+                if k not in ("from", "to")}
+        if band or not is_band:
+            sec = with_loss(sec, **vals)
     plates = spec.get("plates")
     if plates is not None:
         # after the loss: plates are welded to the steel that remains
@@ -277,6 +375,7 @@ def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None
 _BARE = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?(\s*-?\s*\d+\s*/\s*\d+)?\s*$"
                    r"|^\s*\d+\s*/\s*\d+\s*$")
 _EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3700 kN",
+             "moment": "120 kip*ft or 163 kN*m",
              "stress": "50 ksi or 345 MPa", "area": "0.2 in2 or 130 mm2",
              "stiffness": "20 kip/in or 3.5 kN/mm",
              "rotational_stiffness": "50000 kip*in/rad or 5000 kN*m/rad"}
@@ -497,13 +596,14 @@ def _demand(spec: Any, code: str) -> Demand | None:
     psi0 = _object(spec.get("psi0"), "demand.psi0", '{"live": 1.0}')
     check_keys(psi0, "psi0", "demand.psi0")
     basis = _choice(spec.get("basis", _BASES[code][0]), _BASES[code], "demand.basis")
+    bending = _bending(spec)
     if spec.get("axial") not in (None, ""):
         if loads:
             raise InputError("demand.loads", spec["loads"], "give either axial or loads, not both")
         if psi0:
             raise InputError("demand.psi0", psi0, "psi0 combines loads; the axial force given "
                              "is used as it stands", "leave out psi0, or give loads instead")
-        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis)
+        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis, {}, *bending)
     if not loads:
         raise InputError("demand", spec, "give axial or loads",
                          '{"axial": "840 kip"} or {"loads": {"dead": "200 kip", "live": "150 kip"}}')
@@ -517,4 +617,29 @@ def _demand(spec: Any, code: str) -> Demand | None:
             if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
                 raise InputError(f"demand.psi0.{k}", v, "must be a number from 0 to 1",
                                  "EN 1990 Table A1.1")
-    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()})
+    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()}, *bending)
+
+
+def _bending(spec: Mapping[str, Any]) -> tuple[dict[str, float], tuple[Reaction, ...]]:
+    """``moments`` (second order included, per axis) and ``reactions`` (beams bearing at an
+    eccentricity), on the same basis as the axial demand."""
+    given = _object(spec.get("moments"), "demand.moments", '{"strong": "120 kip*ft"}')
+    check_keys(given, "moments", "demand.moments")
+    moments = {ax: parse_quantity(v, "moment", f"demand.moments.{ax}", allow_zero=True)
+               for ax, v in given.items() if v not in (None, "")}
+    reactions = []
+    for i, r in enumerate(_list(spec.get("reactions"), "demand.reactions")):
+        rf = f"demand.reactions[{i}]"
+        if not isinstance(r, Mapping):
+            raise InputError(rf, r, "a reaction must be an object", '{"load": "40 kip", "axis": "strong"}')
+        check_keys(r, "reaction", rf)
+        if r.get("load") in (None, ""):
+            raise InputError(f"{rf}.load", "", "required: the beam's reaction on the column",
+                             '"40 kip"')
+        load = parse_quantity(r["load"], "force", f"{rf}.load", allow_zero=True)
+        axis = _choice(r.get("axis", "strong"), AXES, f"{rf}.axis")
+        ecc = (None if r.get("eccentricity") in (None, "")
+               else parse_length(r["eccentricity"], f"{rf}.eccentricity", allow_zero=True))
+        side = _choice(r.get("side", "+"), ("+", "-"), f"{rf}.side")
+        reactions.append(Reaction(load, axis, ecc, 1 if side == "+" else -1, rf))
+    return moments, tuple(reactions)

@@ -20,12 +20,23 @@ _SECTION_COMMON = ("loss", "plates")
 #: full path and the nearest known key: a mistyped key must never be read as "not given".
 KEYS: dict[str, tuple[str, ...]] = {
     "column record": ("tag", "section", "material", "length", "restraints", "k_basis", "code",
-               "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location"),
+               "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location",
+               "knowledge"),
     "section by name": ("name", *_SECTION_COMMON),
     "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
     "section of shape rect": ("shape", "d", "b", "t", "r", *_SECTION_COMMON),
     "section of shape round": ("shape", "D", "t", *_SECTION_COMMON),
-    "section loss": ("flange", "web", "wall", "uniform"),
+    "section built up": ("built",),
+    "built-up section": ("arrangement", "connection", "angle", "channel", "web", "flange_plates",
+                         "long_leg", "pitch", "gap", "toes", "plates", "depth", "width", "lacing",
+                         "battens"),
+    "measured angle": ("d", "b", "t", "r1", "r2"),
+    "measured channel": ("d", "bf", "tf", "tw", "r1", "r2", "slope"),
+    "plate": ("width", "thickness"),
+    "web plate": ("depth", "thickness"),
+    "lacing": ("kind", "width", "thickness", "pitch", "planes"),
+    "battens": ("spacing", "depth", "thickness", "planes"),
+    "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
     "cover plates": ("thickness", "width"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
@@ -37,8 +48,10 @@ KEYS: dict[str, tuple[str, ...]] = {
     "alignment": ("Ga", "Gb", "sway"),
     "twist": ("braces", "bottom", "top"),
     "twist restraint": ("at", "added", "seen_by", "note"),
-    "condition": ("bow", "bow_axis", "bow_over", "plumb"),
-    "demand": ("axial", "loads", "basis", "psi0"),
+    "condition": ("bow", "bow_axis", "bow_over", "plumb", "plumb_axis"),
+    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions"),
+    "moments": AXES,
+    "reaction": ("load", "axis", "eccentricity", "side"),
     "loads": LOAD_TYPES,
     "psi0": ("live", "snow"),
 }
@@ -61,7 +74,7 @@ def check_keys(spec: Mapping[str, Any], obj: str, fld: str) -> None:
         >>> check_keys({"flange": "0.3 in", "Web": "0.2 in"}, "section loss", "section.loss")
         Traceback (most recent call last):
         ...
-        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform)
+        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform, from, to)
     """
     _known_only(spec, KEYS[obj], obj, fld)
 
@@ -127,11 +140,18 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
     check_keys(demand, "demand", "demand")
     check_keys(obj(demand.get("loads")), "loads", "demand.loads")
     check_keys(obj(demand.get("psi0")), "psi0", "demand.psi0")
+    check_keys(obj(demand.get("moments")), "moments", "demand.moments")
+    for i, r in items(demand.get("reactions")):
+        check_keys(r, "reaction", f"demand.reactions[{i}]")
 
 
 def _section_keys(spec: Mapping[str, Any], fld: str) -> None:
     """The keys of a section object: by name, or of its shape (every shape's while the shape
     itself is not readable, so a mistyped ``shape`` or ``name`` is named as such)."""
+    if "built" in spec:
+        check_keys(spec, "section built up", fld)
+        _built_keys(spec["built"], f"{fld}.built")
+        return
     if "name" in spec:
         check_keys(spec, "section by name", fld)
         return
@@ -143,6 +163,17 @@ def _section_keys(spec: Mapping[str, Any], fld: str) -> None:
         every = tuple(dict.fromkeys(k for obj, keys in KEYS.items()
                                     if obj.startswith(("section by", "section of")) for k in keys))
         _known_only(spec, every, "section", fld)
+
+
+def _built_keys(spec: Any, fld: str) -> None:
+    if not isinstance(spec, Mapping):
+        return
+    check_keys(spec, "built-up section", fld)
+    for key, table in (("angle", "measured angle"), ("channel", "measured channel"),
+                       ("web", "web plate"), ("flange_plates", "plate"), ("plates", "plate"),
+                       ("lacing", "lacing"), ("battens", "battens")):
+        if isinstance(spec.get(key), Mapping):
+            check_keys(spec[key], table, f"{fld}.{key}")
 
 
 def _material_keys(spec: Mapping[str, Any], fld: str) -> None:

@@ -44,6 +44,7 @@ from fieldcol.record import parse_record, parse_section
 from fieldcol.units import parse_length
 
 KINDS = ("brace", "cable", "end", "plates", "remove_brace", "combined")
+SWEEP_AXES = ("weak", "strong", "both")
 # Positions closer than this are one position: finer than a tape reading on site (common practice).
 SAME_POSITION = 2.0   # mm
 _KEYS = {
@@ -209,6 +210,104 @@ def compare(record: Mapping[str, Any], options: Sequence[Mapping[str, Any]]) -> 
                              f"{e.field}: {e.reason}", e.hint) from None
         out.append(Comparison(copy.deepcopy(dict(opt)), label(opt), before, after))
     return out
+
+
+@dataclass(frozen=True)
+class BraceSweep:
+    """The column's design strength against the height (and stiffness) of one proposed brace.
+
+    Fields: ``axis``; ``length`` (mm); ``heights`` (mm from the bottom); ``stiffness`` (the
+    stiffnesses swept as typed, ``"rigid"`` for a rigid brace); ``strengths[j][i]`` (N: the
+    design strength with the brace of stiffness j at height i; None where the check gives
+    none); ``modes[j][i]`` (what governs there); ``before`` (N, as it stands); ``best`` (the
+    (height, stiffness index, strength) of the highest strength, the lowest height of equal ones,
+    or None).
+    """
+
+    axis: str
+    length: float
+    heights: tuple[float, ...]
+    stiffness: tuple[str, ...]
+    strengths: tuple[tuple[float | None, ...], ...]
+    modes: tuple[tuple[str, ...], ...]
+    before: float
+    demand: float | None
+    best: tuple[float, int, float] | None
+    caution: str = CAUTION
+
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON form (N and mm).
+
+        Example:
+            >>> s = brace_sweep({"tag": "C", "section": "W10X49", "material": "A992",
+            ...                  "length": "14 ft"}, "weak", points=3)
+            >>> sorted(s.to_dict())[:3]
+            ['axis', 'before', 'best']
+        """
+        return {"axis": self.axis, "length": self.length, "heights": list(self.heights),
+                "stiffness": list(self.stiffness),
+                "strengths": [list(r) for r in self.strengths], "modes": [list(r) for r in self.modes],
+                "before": self.before, "demand": self.demand,
+                "best": None if self.best is None else {"at": self.best[0], "stiffness": self.stiffness[self.best[1]],
+                                                        "strength": self.best[2]},
+                "caution": self.caution}
+
+
+def brace_sweep(record: Mapping[str, Any], axis: str, *, points: int = 11,
+                stiffness: Sequence[str] = ("rigid",), twist: bool = False) -> BraceSweep:
+    """Design strength with one proposed brace at ``points`` heights ``i L / (points + 1)`` and
+    each of the ``stiffness`` values (text as typed, ``"rigid"`` for a rigid brace), from the
+    full check (the stability analysis when the record asks for it: the best height is not
+    mid-height when the ends differ). A height where the axis already has a brace gives None.
+
+    Args:
+        record: the column record; axis: ``weak``, ``strong`` or ``both``; points: 3 to 41;
+        stiffness: the brace stiffnesses to sweep (e.g. ``["2 kip/in", "10 kip/in", "rigid"]``);
+        twist: the brace also prevents twisting.
+    Returns:
+        a ``BraceSweep``.
+    Raises:
+        InputError: a bad axis, count or stiffness (named), or a record that cannot be checked.
+
+    Example:
+        >>> s = brace_sweep({"tag": "C", "section": "W14X90", "material": "A992", "length": "30 ft",
+        ...                  "restraints": {"strong": {"k": 0.5}}}, "weak", points=5, twist=True)
+        >>> round(s.best[0] / s.length, 2)
+        0.5
+    """
+    if not isinstance(axis, str) or axis not in SWEEP_AXES:
+        raise InputError("axis", str(axis), "not an axis", "weak, strong or both")
+    if isinstance(points, bool) or not isinstance(points, int) or not 3 <= points <= 41:
+        raise InputError("points", repr(points), "3 to 41 heights", None)
+    if isinstance(stiffness, str) or not stiffness or len(stiffness) > 10:
+        raise InputError("stiffness", repr(stiffness), "give a list of 1 to 10 stiffnesses",
+                         '["5 kip/in", "rigid"]')
+    before = assess(record)
+    length = before.column.length
+    heights = tuple(length * i / (points + 1) for i in range(1, points + 1))
+    rows, modes = [], []
+    for j, k in enumerate(stiffness):
+        row, mrow = [], []
+        for at in heights:
+            opt: dict[str, Any] = {"kind": "brace", "axis": axis, "at": f"{at:.1f} mm", "twist": twist}
+            if k != "rigid":
+                opt["stiffness"] = k
+            try:
+                a = assess(apply_option(record, opt))
+                v: float | None = a.design_strength
+                mode = a.governing_mode
+            except InputError as e:
+                if e.field.endswith(".stiffness"):
+                    raise InputError(f"stiffness[{j}]", k, e.reason, e.hint) from None
+                v, mode = None, ""
+            row.append(v if v is not None and math.isfinite(v) else None)
+            mrow.append(mode)
+        rows.append(tuple(row))
+        modes.append(tuple(mrow))
+    good = [(h, j, v) for j, r in enumerate(rows) for h, v in zip(heights, r) if v is not None]
+    best = max(good, key=lambda x: (x[2], -x[0], -x[1])) if good else None
+    return BraceSweep(axis, length, heights, tuple(stiffness), tuple(rows), tuple(modes),
+                      before.design_strength, before.demand, best)
 
 
 def label(option: Mapping[str, Any]) -> str:
@@ -441,4 +540,4 @@ def _renamed(e: InputError, renames: Mapping[str, str], fld: str) -> InputError:
     return InputError(fld, e.text, f"{e.field}: {e.reason}", e.hint)
 
 
-__all__ = ["Comparison", "KINDS", "SAME_POSITION", "apply_option", "compare", "label"]
+__all__ = ["BraceSweep", "brace_sweep", "Comparison", "KINDS", "SAME_POSITION", "apply_option", "compare", "label"]

@@ -286,9 +286,10 @@ def test_report_draws_the_markup_over_the_photo(demo, tmp_path):
     out = tmp_path / "r.pdf"
     site_report(store, site.id, out, columns=["G/1-G"])
     reader = PdfReader(out)  # pypdf reads the file back: an outside reader of the format
-    page = next(p for p in reader.pages if "marked up" in p.extract_text())
+    page = next(p for p in reader.pages if "marked" in p.extract_text())
     text = page.extract_text()
-    assert '"dent, wall' in text and "where: south face, 3'-0\" from the bottom" in text
+    # the photo grid's caption: what, where on the column, the markup's words
+    assert '"dent,' in text and "south face, 3 ft up" in text
     # the bright stroke colour of the markup is set on the page (PDF "RG" operator, ISO 32000)
     ops = page.get_contents().get_data().decode("latin-1")
     strokes = {tuple(round(float(c) * 255) for c in m.split())

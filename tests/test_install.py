@@ -101,6 +101,7 @@ def test_the_wheel_carries_the_data_and_the_fonts(installed):
     names = set(zipfile.ZipFile(installed[2]).namelist())
     for name in ("fieldcol/_data/sections_aisc.csv", "fieldcol/_data/sections_en.csv",
                  "fieldcol/_data/materials.csv", "fieldcol/_data/SOURCES.md",
+                 "fieldcol/_data/parts_aisc.csv", "fieldcol/_data/parts_en.csv",
                  "fieldcol/_assets/fonts/DejaVuSans.ttf",
                  "fieldcol/_assets/fonts/DejaVuSans-Bold.ttf",
                  "fieldcol/_assets/fonts/LICENSE-DejaVu.txt"):
@@ -126,6 +127,15 @@ def test_check_and_section_from_outside_the_repository(installed):
     here = subprocess.run([sys.executable, "-m", "fieldcol", "check", str(work / "column.json"),
                            "--json"], capture_output=True, text=True, check=True, cwd=ROOT)
     assert out == json.loads(here.stdout)
+    # a built-up column reads its parts (C12X20.7) from the parts catalogue in the wheel
+    built = {"tag": "K/7", "length": "18 ft", "material": "A7",
+             "section": {"built": {"arrangement": "channels", "channel": "C12X20.7",
+                                   "gap": "6 in", "battens": {"spacing": "24 in",
+                                                              "depth": "8 in",
+                                                              "thickness": "3/8 in"}}}}
+    (work / "built.json").write_text(json.dumps(built))
+    out = json.loads(_run(installed, "fieldcol", "check", "built.json", "--json").stdout)
+    assert out["section"]["built"] == "channels" and out["design_strength"]["value"] > 0
     section = json.loads(_run(installed, "fieldcol", "section", "W14X90", "--json").stdout)
     # AISC Shapes Database v15.0, W14X90: d = 14.0 in, bf = 14.5 in, A = 26.5 in2 (from memory;
     # the catalogue computes A from the dimensions and fillets, within 1 %;

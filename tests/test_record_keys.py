@@ -38,8 +38,12 @@ CATALOGUE = {
         "twist": {"braces": [{"at": "8 ft", "added": "2019", "seen_by": "R. Okafor",
                               "note": "angle cleat"}], "bottom": "held", "top": "held"}},
     "k_basis": "analysis", "code": "aisc360-22", "units": "us",
-    "condition": {"bow": "1/4 in", "bow_axis": "weak", "bow_over": "16 ft", "plumb": "1/2 in"},
-    "demand": {"axial": "200 kip", "basis": "lrfd"},
+    "condition": {"bow": "1/4 in", "bow_axis": "weak", "bow_over": "16 ft", "plumb": "1/2 in",
+                  "plumb_axis": "weak"},
+    "demand": {"axial": "200 kip", "basis": "lrfd", "moments": {"weak": "5 kip*ft"},
+               "reactions": [{"load": "20 kip", "axis": "strong", "eccentricity": "6 in",
+                              "side": "+"}]},
+    "knowledge": "usual",
 }
 MEASURED_I = {
     "tag": "C/3-G", "length": "4 m", "code": "en1993-1-1", "gamma_M1": 1.0,
@@ -55,10 +59,33 @@ MEASURED_I = {
 }
 RECT = {"tag": "R1", "length": "12 ft", "material": "A500 Gr B",
         "section": {"shape": "rect", "d": "8 in", "b": "6 in", "t": "0.25 in", "r": "0.5 in",
-                    "loss": {"wall": "0.2 in"}}}
+                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in"}}}
 ROUND = {"tag": "P1", "length": "12 ft", "material": "A500 Gr B",
          "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in"}}
-BASES = [CATALOGUE, MEASURED_I, RECT, ROUND]
+BUILT = [
+    {"tag": "K/7", "length": "18 ft", "material": "A7",
+     "section": {"built": {"arrangement": "channels", "connection": "riveted",
+                           "channel": {"d": "12 in", "bf": "3 in", "tf": "1/2 in", "tw": "5/16 in",
+                                       "r1": "0.4 in", "r2": "0 in", "slope": 0.1667},
+                           "gap": "6 in", "toes": "out", "pitch": "24 in",
+                           "lacing": {"kind": "single", "width": "2 in", "thickness": "3/8 in",
+                                      "pitch": "16 in", "planes": 2}}}},
+    {"tag": "K/8", "length": "18 ft", "material": "A7",
+     "section": {"built": {"arrangement": "channels", "channel": "C10X15.3", "gap": "5 in",
+                           "plates": {"width": "14 in", "thickness": "3/8 in"}}}},
+    {"tag": "K/9", "length": "5 m", "material": "S235", "code": "en1993-1-1",
+     "section": {"built": {"arrangement": "angles-box",
+                           "angle": {"d": "90 mm", "b": "90 mm", "t": "9 mm", "r1": "11 mm",
+                                     "r2": "0 mm"},
+                           "depth": "420 mm", "width": "300 mm",
+                           "battens": {"spacing": "600 mm", "depth": "180 mm",
+                                       "thickness": "8 mm", "planes": 2}}}},
+    {"tag": "K/10", "length": "16 ft", "material": "A7",
+     "section": {"built": {"arrangement": "angles-web", "angle": "L4X4X1/2", "long_leg": "flange",
+                           "web": {"depth": "14 in", "thickness": "3/8 in"},
+                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"}}}},
+]
+BASES = [CATALOGUE, MEASURED_I, RECT, ROUND, *BUILT]
 
 
 def _keys(node, path=""):

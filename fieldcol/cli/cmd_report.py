@@ -8,10 +8,12 @@ import argparse
 def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``report`` command to the CLI parser."""
     p = sub.add_parser("report", help="write a site's PDF report",
-                       description="Write a site's PDF report: cover with the caution, summary "
-                       "of every column, findings with photos, and one section per column "
-                       "with its record, latest check, full calculation trace and histories. "
-                       "US Letter for a 'us' site, A4 for an 'si' site.")
+                       description="Write a site's PDF report and its column register as CSV "
+                       "beside it (same name, .csv): cover with the caution, contents, column "
+                       "register worst first, findings register, one sheet per column (record, "
+                       "latest check, side view and column curve, every mode, full trace, "
+                       "histories) and a captioned photo grid. US Letter for a 'us' site, A4 "
+                       "for an 'si' site.")
     p.add_argument("out", metavar="OUT.pdf", help="the PDF file to write")
     p.add_argument("--db", help="the store file (default: $FIELDCOL_DB or the app-data folder)")
     p.add_argument("--site", required=True, help="the site (by name)")
@@ -33,6 +35,6 @@ def run(args: argparse.Namespace) -> int:
     with open_store(args.db, readonly=True) as store:
         site = store.site_by_name(args.site)
         out = site_report(store, site.id, args.out, columns=args.column, report_date=args.date)
-    print(f"wrote {out}")
+    print(f"wrote {out} and {out.with_suffix('.csv')}")
     print(CAUTION)
     return 0

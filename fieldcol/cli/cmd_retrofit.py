@@ -24,7 +24,42 @@ def register(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--options", metavar="FILE", help="a JSON file holding a list of options")
     p.add_argument("--json", action="store_true", help="print the comparison as JSON")
     p.add_argument("--units", choices=("us", "si"), help="display units (default: the record's)")
+    p.add_argument("--sweep", choices=("weak", "strong", "both"),
+                   help="instead of options: the design strength with one proposed brace on this "
+                        "axis at heights up the column")
+    p.add_argument("--points", type=int, default=11, help="heights of --sweep (3 to 41, default 11)")
+    p.add_argument("--stiffness", action="append", metavar="TEXT",
+                   help="a brace stiffness to sweep, e.g. '10 kip/in' (repeatable; default rigid)")
+    p.add_argument("--twist", action="store_true", help="the swept brace also prevents twisting")
     p.set_defaults(func=run)
+
+
+def _sweep(record: Any, args: argparse.Namespace) -> int:
+    """The brace sweep as a table (height, then one column per stiffness) or JSON."""
+    from fieldcol import CAUTION
+    from fieldcol.retrofit import brace_sweep
+    from fieldcol.units import format_length, format_quantity
+
+    s = brace_sweep(record, args.sweep, points=args.points, stiffness=tuple(args.stiffness or ("rigid",)),
+                    twist=args.twist)
+    if args.json:
+        from fieldcol.cli import print_json
+
+        print_json(s.to_dict())
+        return 0
+    from fieldcol.record import parse_record
+
+    system = args.units or parse_record(record).units
+    force = lambda v: "-" if v is None else format_quantity(v, "force", system)  # noqa: E731
+    out = [f"One proposed brace on the {s.axis} axis; as it stands {force(s.before)}",
+           f"{'height':>12}  " + "  ".join(f"{k:>14}" for k in s.stiffness)]
+    for i, h in enumerate(s.heights):
+        out.append(f"{format_length(h, system):>12}  " + "  ".join(f"{force(r[i]):>14}" for r in s.strengths))
+    if s.best is not None:
+        out.append(f"Best: {force(s.best[2])} at {format_length(s.best[0], system)} ({s.stiffness[s.best[1]]})")
+    out += ["", CAUTION]
+    print("\n".join(out))
+    return 0
 
 
 def run(args: argparse.Namespace) -> int:
@@ -33,6 +68,8 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.retrofit import compare
 
     record = read_json(args.file)
+    if args.sweep:
+        return _sweep(record, args)
     options: list[Any] = []
     for i, raw in enumerate(args.option):
         try:

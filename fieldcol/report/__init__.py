@@ -35,7 +35,12 @@ PAPER = {"us": "Letter", "si": "A4"}
 def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], *,
                 columns: Sequence[str] | None = None,
                 report_date: str | None = None) -> Path:
-    """Write the PDF report of a site: cover, summary, findings, one section per column.
+    """Write the PDF report of a site and the column register as CSV beside it.
+
+    The PDF holds the cover with the caution, the contents, the column register (worst first),
+    the findings register, one sheet per column (record, result, side view, column curve,
+    every mode, trace, histories) and the photo grid; the CSV (``<out>.csv``, same name) holds
+    the register's rows for a spreadsheet.
 
     Args:
         store: an open store.
@@ -46,7 +51,7 @@ def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], 
         report_date: the date printed on the report (``YYYY-MM-DD``; default today, UTC).
 
     Returns:
-        The path written.
+        The path of the PDF written (the CSV is ``path.with_suffix(".csv")``).
 
     Raises:
         InputError: on field ``site``, ``columns``, ``report_date`` or ``out``.
@@ -56,7 +61,7 @@ def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], 
     """
     from fieldcol.report import _pages
     from fieldcol.report._gather import gather
-    from fieldcol.report._layout import ReportPDF
+    from fieldcol.report._layout import MISSING_MARK, ReportPDF
 
     out = Path(out_path)
     if out.suffix.lower() != ".pdf":
@@ -76,19 +81,48 @@ def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], 
                     report_date=report_date, caution=CAUTION)
     _pages.cover(pdf, data, report_date=report_date, version=__version__,
                  caution=REPORT_CAUTION)
-    _pages.summary(pdf, data)
-    _pages.findings(pdf, store, data)
+    pdf.add_page()
+    pdf.insert_toc_placeholder(_pages.render_contents,
+                               pages=_pages.contents_pages(len(data.columns)))
+    _pages.register(pdf, data)
+    _pages.findings_register(pdf, data)
     for c in data.columns:
-        _pages.column_section(pdf, store, data, c)
-    # write beside the target and rename, so a failed run never leaves half a report
+        _pages.column_sheet(pdf, store, data, c)
+    _pages.photo_grid(pdf, store, data)
+    if pdf.missing:
+        pdf.para(f"{len(pdf.missing)} character(s) in the records cannot be shown in this "
+                 f"report's font and are printed as {MISSING_MARK}: "
+                 + " ".join(f"U+{ord(ch):04X}" for ch in sorted(pdf.missing)[:40])
+                 + ". The store keeps the text as entered.", size=7.5)
+    # write beside the targets and rename, so a failed run never leaves half a report
+    csv_out = out.with_suffix(".csv")
     tmp = out.with_name(f".{out.name}.{os.getpid()}.tmp")
+    tmp_csv = csv_out.with_name(f".{csv_out.name}.{os.getpid()}.tmp")
     try:
         pdf.output(str(tmp))
+        _write_csv(tmp_csv, *_pages.register_rows(data))
         os.replace(tmp, out)
+        os.replace(tmp_csv, csv_out)
     except OSError as e:
         tmp.unlink(missing_ok=True)
+        tmp_csv.unlink(missing_ok=True)
         raise InputError("out", str(out), e.strerror or "cannot write the file", None) from None
     return out
+
+
+def _write_csv(path: Path, headings: list[str], rows: list[list[str]]) -> None:
+    """The register as CSV (UTF-8 with BOM so spreadsheets read non-Latin text), every cell
+    guarded against formulas, the caution as the last line."""
+    import csv
+
+    from fieldcol.store._schedule import guard_cell
+
+    with open(path, "w", newline="", encoding="utf-8-sig") as f:
+        w = csv.writer(f)
+        w.writerow(headings)
+        for r in rows:
+            w.writerow([guard_cell(x) for x in r])
+        w.writerow([CAUTION])
 
 
 __all__ = ["site_report", "REPORT_CAUTION", "PAPER"]

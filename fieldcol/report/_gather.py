@@ -53,6 +53,13 @@ class SiteData:
     site_columns: int
     subset: bool
     visits: list["Visit"] = field(default_factory=list)
+    #: every photo once, in the order of the photo grid: (number, photo, what it shows, where)
+    photos: list[tuple[str, "Photo", str, str]] = field(default_factory=list)
+    photo_refs: dict[str, str] = field(default_factory=dict)
+
+    def refs_of(self, photos: Sequence["Photo"]) -> str:
+        """The grid numbers of ``photos`` as text, e.g. ``"P1, P4"`` (``""`` when none)."""
+        return ", ".join(self.photo_refs[p.id] for p in photos if p.id in self.photo_refs)
 
 
 def gather(store: "Store", site_id: str, columns: Sequence[str] | None) -> SiteData:
@@ -118,9 +125,36 @@ def gather(store: "Store", site_id: str, columns: Sequence[str] | None) -> SiteD
     # open before closed, most severe first: the order they are printed and numbered in
     shown.sort(key=lambda f: (f.status != "open", SEVERITY_ORDER.index(f.severity)
                               if f.severity in SEVERITY_ORDER else len(SEVERITY_ORDER)))
-    return SiteData(
+    data = SiteData(
         site=site, columns=out, findings=shown,
         finding_photos={f.id: store.photos_of(finding_id=f.id) for f in shown},
         finding_refs={f.id: f"F{i + 1}" for i, f in enumerate(shown)},
         tags_by_id={r.id: r.tag for r in rows}, site_columns=len(rows),
         subset=columns is not None, visits=store.list_visits(site_id))
+    _number_photos(data)
+    return data
+
+
+def _number_photos(data: SiteData) -> None:
+    """Give every photo one number (P1, P2, ...): findings' first, then columns', then those of
+    restraint changes; a photo linked twice keeps its first number."""
+    def add(p: "Photo", what: str, where: str) -> None:
+        if p.id not in data.photo_refs:
+            data.photo_refs[p.id] = f"P{len(data.photos) + 1}"
+            data.photos.append((data.photo_refs[p.id], p, what, where))
+
+    from fieldcol.store._schema import FACE_WORDS
+
+    for f in data.findings:
+        where = ", ".join([f"column {data.tags_by_id.get(f.column_id, '?')}" if f.column_id
+                           else "whole site"]
+                          + ([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                          + ([f"{f.height} up"] if f.height else []))
+        for p in data.finding_photos.get(f.id, []):
+            add(p, f"{data.finding_refs[f.id]} {f.category}", where)
+    for c in data.columns:
+        for p in c.photos:
+            add(p, "column", f"column {c.column.tag}")
+        for rc in c.restraint_changes:
+            for p in c.restraint_photos.get(rc.id, []):
+                add(p, f"{rc.date} {rc.kind.replace('_', ' ')}", f"column {c.column.tag}")

@@ -1,7 +1,9 @@
-"""The report's parts in order: cover, summary table, findings, one section per column."""
+"""The report's parts in order: cover, contents, column register, findings register, one sheet
+per column, the photo grid."""
 
 from __future__ import annotations
 
+import json
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
@@ -67,30 +69,6 @@ def cover(pdf: ReportPDF, data: "SiteData", *, report_date: str, version: str,
              size=8.5, colour=GREY)
 
 
-def summary(pdf: ReportPDF, data: "SiteData") -> None:
-    """Every column on one table: tag, level, section, length, utilization + word, mode, date."""
-    from fieldcol.store import section_label
-
-    system = data.site.unit_system
-    pdf.add_page()
-    pdf.heading("Summary of columns")
-    rows, bold = [], []
-    for i, c in enumerate(data.columns):
-        rec = c.record
-        rows.append([c.column.tag, c.level or "-", section_label(rec.get("section")) or "-",
-                     _length(rec.get("length"), system), _util_status(c),
-                     tx.MODE_WORDS.get(c.check.governing_mode or "", c.check.governing_mode or "-")
-                     if c.check else "-",
-                     tx.when(c.check.checked_at)[:10] if c.check else "-"])
-        if _status(c) == "OVER":
-            bold.append(i)
-    pdf.table(["Tag", "Level", "Section", "Length", "Utilization", "Governing mode",
-               "Checked"], rows, (16, 18, 28, 16, 22, 46, 19), bold_rows=bold)
-    pdf.para("Section and length are the record as it stands now (latest readings); "
-             "utilization and mode come from each column's latest saved check.",
-             size=SMALL_PT + 1, colour=GREY)
-
-
 def _length(text: Any, system: str) -> str:
     from fieldcol.errors import InputError
     from fieldcol.units import format_length, parse_length
@@ -109,117 +87,288 @@ def _marks_words(shapes: list[dict]) -> str:
     return ", ".join(labels + ([f"{others} mark{'s' if others > 1 else ''}"] if others else []))
 
 
-def _photo_cells(store: "Store", photos: list["Photo"], label: str) -> list[PhotoCell]:
-    cells = []
-    for p in photos:
-        path = store.photo_path(p, thumbnail=True)
-        name = p.original_name or p.sha256[:12]
-        marked = f", marked up: {_marks_words(p.markup)}" if p.markup else ""
-        cells.append(PhotoCell(path if path.is_file() else None,
-                               f"{label}: {name}, {tx.exif_time(p.exif_taken_at)}{marked}",
-                               p.markup))
-    return cells
+STATUS_RANK = {"OVER": 0, "not covered": 1, "not checked": 2, "OK": 3, "no demand": 4}
 
 
-def findings(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
-    """Each finding: reference, severity, status, category, column, text and its photos."""
-    pdf.add_page()
-    pdf.heading("Findings")
+def worst_first(columns: list["ColumnData"]) -> list["ColumnData"]:
+    """The columns worst first: OVER, not covered, not checked, OK, no demand; within each,
+    the highest utilization first, then by tag.
+
+    Example: ``[c.column.tag for c in worst_first(data.columns)][0]`` gives ``'C/3-G'``.
+    """
+    def key(c: "ColumnData") -> tuple:
+        u = c.utilization if c.utilization is not None and c.utilization == c.utilization else -1
+        return (STATUS_RANK.get(_status(c), 5), -u, c.column.tag)
+    return sorted(columns, key=key)
+
+
+def _mode(c: "ColumnData") -> str:
+    if c.check is None:
+        return "-"
+    m = c.check.governing_mode or ""
+    return tx.MODE_WORDS.get(m, m or "-")
+
+
+def register_rows(data: "SiteData") -> tuple[list[str], list[list[str]]]:
+    """The column register as plain rows, worst first (the PDF table and the CSV beside it).
+
+    Returns:
+        (headings, rows): tag, level, grid, section, governing mode, utilization, status, checked.
+
+    Example: ``register_rows(data)[0][0]`` gives ``'Tag'``.
+    """
+    from fieldcol.store import section_label
+
+    rows = []
+    for c in worst_first(data.columns):
+        rows.append([c.column.tag, c.level or "-", c.column.grid or "-",
+                     section_label(c.record.get("section")) or "-", _mode(c),
+                     tx.utilization_text(c.utilization), _status(c),
+                     tx.when(c.check.checked_at)[:10] if c.check else "-"])
+    return (["Tag", "Level", "Grid", "Section", "Governing mode", "Utilization", "Status",
+             "Checked"], rows)
+
+
+# -- contents ---------------------------------------------------------------------------------
+TOC_ROWS_FIRST, TOC_ROWS, TOC_COLS = 52, 66, 3
+
+
+def contents_pages(n_columns: int) -> int:
+    """How many pages the contents takes for ``n_columns`` column sheets (three across)."""
+    first = TOC_ROWS_FIRST * TOC_COLS
+    if n_columns <= first:
+        return 1
+    return 1 + -(-(n_columns - first) // (TOC_ROWS * TOC_COLS))
+
+
+def render_contents(pdf: ReportPDF, outline: list) -> None:
+    """The contents: the parts with their page, then every column sheet, three across."""
+    pdf.heading("Contents")
+    parts = [s for s in outline if s.level == 0]
+    cols = [s for s in outline if s.level == 1]
+    pdf.set_font("DejaVu", "", 9)
+    for s in parts:
+        y = pdf.get_y()
+        pdf.text(pdf.l_margin, y + 3.2, s.name)
+        num = str(s.page_number)
+        pdf.text(pdf.w - pdf.r_margin - pdf.width_of(num), y + 3.2, num)
+        pdf.set_draw_color(200, 200, 200)
+        pdf.set_dash_pattern(dash=0.4, gap=0.8)
+        pdf.line(pdf.l_margin + pdf.width_of(s.name) + 2, y + 3.0,
+                 pdf.w - pdf.r_margin - pdf.width_of(num) - 2, y + 3.0)
+        pdf.set_dash_pattern()
+        pdf.set_y(y + 4.6)
+    if not cols:
+        return
+    pdf.ln(2)
+    pdf.para("Column sheets (page)", size=8.5, bold=True)
+    lh = 3.3
+    colw = pdf.epw / TOC_COLS
+    i = 0
+    rows = TOC_ROWS_FIRST
+    while i < len(cols):
+        room = min(rows, int((pdf.page_break_trigger - pdf.get_y()) // lh))
+        y0 = pdf.get_y()
+        pdf.set_font("DejaVu", "", 7.6)
+        chunk = cols[i:i + room * TOC_COLS]
+        per = -(-len(chunk) // TOC_COLS)
+        for k, s in enumerate(chunk):
+            x = pdf.l_margin + (k // per) * colw
+            y = y0 + (k % per) * lh
+            num = str(s.page_number)
+            name = s.name
+            while pdf.width_of(name) > colw - 14 and len(name) > 4:
+                name = name[:-2] + "…"
+            pdf.text(x, y + 2.6, name)
+            pdf.text(x + colw - 4 - pdf.width_of(num), y + 2.6, num)
+        i += len(chunk)
+        pdf.set_y(y0 + per * lh)
+        if i < len(cols):
+            pdf.add_page()
+            rows = TOC_ROWS
+
+
+# -- registers ---------------------------------------------------------------------------------
+def register(pdf: ReportPDF, data: "SiteData") -> None:
+    """Every column on one line, worst first (on the page the contents placeholder opened)."""
+    pdf.heading("Column register")
+    pdf.start_section("Column register")  # after the heading: on the page it landed on
+    heads, rows = register_rows(data)
+    if not rows:
+        pdf.para("This site has no columns yet: there is nothing to check.")
+        return
+    bold = [i for i, r in enumerate(rows) if r[6] == "OVER"]
+    pdf.table(heads, rows, (15, 17, 10, 26, 40, 17, 13, 18), bold_rows=bold)
+    pdf.para("Worst first: over capacity, not covered by the code, not checked, then the rest "
+             "by utilization. Section is the record as it stands now (latest readings); "
+             "utilization and mode come from each column's latest saved check. The same table "
+             "is written as CSV beside this report.", size=SMALL_PT + 0.5, colour=GREY)
+
+
+def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
+    """All findings on one table, open before closed and most severe first."""
+    pdf.heading("Findings register", keep=30)
+    pdf.start_section("Findings register")
     if not data.findings:
         pdf.para("No findings recorded.")
         return
-    pdf.para(f"{len(data.findings)} findings, open before closed, most severe first.", size=8,
-             colour=GREY)
-    for f in data.findings:
-        ref = data.finding_refs[f.id]
-        where = (f"column {data.tags_by_id.get(f.column_id, '?')}" if f.column_id
-                 else "whole site")
-        keep = pdf.multi_cell(pdf.epw, 4.2, f.text, dry_run=True, output="HEIGHT") + 8
-        if data.finding_photos.get(f.id):
-            keep += 56  # the first row of photos stays with its finding
-        pdf.heading(f"{ref}  {f.severity.upper()}, {f.status}: {f.category}, {where}", 3,
-                    keep=keep)
-        pdf.para(f.text)
-        if f.face or f.height:
-            pdf.para("where: " + ", ".join(
-                ([FACE_WORDS.get(f.face, f.face)] if f.face else [])
-                + ([f"{_length(f.height, data.site.unit_system)} from the bottom"]
-                   if f.height else [])), size=SMALL_PT + 0.5)
-        pdf.para(f"noted {tx.when(f.created_at)}", size=SMALL_PT + 0.5, colour=GREY)
-        photos = data.finding_photos.get(f.id, [])
-        if photos:
-            pdf.photos(_photo_cells(store, photos, ref))
+    rows, bold = [], []
+    for i, f in enumerate(data.findings):
+        where = (data.tags_by_id.get(f.column_id, "?") if f.column_id else "whole site")
+        place = ", ".join(([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                          + ([f"{_length(f.height, data.site.unit_system)} up"]
+                             if f.height else []))
+        text = f.text + (f" ({place})" if place else "")
+        rows.append([data.finding_refs[f.id], f.severity, f.status, where, f.category, text,
+                     f"{tx.when(f.created_at)[:10]}" + (f", {f.created_by}" if f.created_by
+                                                        else ""),
+                     data.refs_of(data.finding_photos.get(f.id, [])) or "-"])
+        if f.status == "open" and f.severity in ("urgent", "high"):
+            bold.append(i)
+    pdf.table(["Ref", "Severity", "Status", "Column", "Category", "Finding", "Noted",
+               "Photos"], rows, (7, 15, 12, 15, 16, 68, 19, 12), bold_rows=bold)
 
 
-def column_section(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnData") -> None:
-    """One column: identity, record as entered, latest check, trace, histories, photos."""
+def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
+    """Every photo once, four across, captioned with what, where, who and when."""
+    if not data.photos:
+        return
+    pdf.add_page()
+    pdf.heading("Photographs")
+    pdf.start_section("Photographs")
+    cells = []
+    for ref, p, what, where in data.photos:
+        path = store.photo_path(p, thumbnail=True)
+        marked = f"; marked: {_marks_words(p.markup)}" if p.markup else ""
+        who = f", by {p.created_by}" if p.created_by else ", by: not recorded"
+        name = p.original_name or p.sha256[:12]
+        cells.append(PhotoCell(path if path.is_file() else None,
+                               f"{ref}  {what}, {where}{marked}. {name}, "
+                               f"{tx.exif_time(p.exif_taken_at)}{who}", p.markup))
+    pdf.photos(cells)
+
+
+# -- one column --------------------------------------------------------------------------------
+RIGHT_W = 62.0
+TOP_BLOCK = 120.0   # mm: the heading, the record and the pictures beside it
+
+
+def _restraint_rows(restraints: Any) -> list[tuple[str, str]]:
+    """The restraints one line per axis: ends, K, braces (the full wording of each end is in
+    the status words on the cover; the sketch beside shows them)."""
+    rows: dict[str, list[str]] = {}
+    for label, words in tx.restraint_lines(restraints):
+        axis, _, part = label.partition(", ")
+        short = words.split(" (")[0] if part in ("bottom", "top") else words
+        rows.setdefault(axis, []).append(f"{part} {short}" if part else short)
+    return [(axis.replace(" axis", ""), "; ".join(parts)) for axis, parts in rows.items()]
+
+
+def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnData") -> None:
+    """One column: identity, record, result beside the side view and the column curve, every
+    mode, warnings, findings, the trace, histories and retrofit options."""
+    from fieldcol.ui.check_model import check_summary
+    from fieldcol.ui.restraints_model import sketch
+
+    from fieldcol.report import _drawings
+
     system = data.site.unit_system
     col, rec = c.column, c.record
-    pdf.add_page()
+    # a sheet starts on a fresh page unless its head and pictures fit below the last one
+    if pdf.page_break_trigger - pdf.get_y() < TOP_BLOCK or pdf.get_y() <= pdf.t_margin + 1:
+        pdf.add_page()
+    else:
+        pdf.ln(4)
+    pdf.start_section(col.tag, level=1)
     pdf.heading(f"Column {col.tag}   {_util_status(c)}")
     pdf.para(f"Level {c.level or 'not recorded'}   |   grid {col.grid or 'not recorded'}   |   "
-             f"{col.location or 'location not recorded'}", size=9.5)
-
-    pdf.heading("Record as entered", 2)
+             f"{col.location or 'location not recorded'}", size=8.5)
+    summ = check_summary(c.check.result, system) if c.check is not None else None
+    y0, page0 = pdf.get_y(), pdf.page
+    left_w = pdf.epw - RIGHT_W - 4
+    rx = pdf.l_margin + left_w + 4
+    # columns of one type share their side view: work it out once per record (tag aside)
+    key = "sketch " + json.dumps({k: v for k, v in rec.items() if k != "tag"},
+                                 sort_keys=True, default=str)
+    if key not in pdf.memo:
+        pdf.memo[key] = sketch(rec, system)
+    used = _drawings.sketch(pdf, pdf.memo[key], rx, y0, RIGHT_W, 56)
+    used += _drawings.curve(pdf, summ.chart if summ else None, rx, y0 + used + 2, RIGHT_W, 44)
+    right_end = y0 + used + 2
+    pdf.set_y(y0)
     rows = [("Section", tx.section_text(rec.get("section"))),
             ("Material", tx.material_text(rec.get("material"))),
             ("Length", tx.value_text(rec.get("length")))]
-    rows += tx.restraint_lines(rec.get("restraints"))
+    rows += _restraint_rows(rec.get("restraints"))
     rows += [("Condition", tx.condition_text(rec.get("condition"))),
-             ("Demand", tx.demand_text(rec.get("demand"))),
-             ("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
-             ("Code", tx.value_text(rec.get("code", data.site.code)))]
+             ("Demand", tx.demand_text(rec.get("demand")))]
+    if c.check is None or c.check.record != rec:  # else the check below says both
+        rows += [("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
+                 ("Code", tx.value_text(rec.get("code", data.site.code)))]
     if "gamma_M1" in rec:
         rows.append(("gamma_M1", tx.value_text(rec["gamma_M1"])))
-    pdf.table(None, rows, (38, 130))
+    pdf.set_font("DejaVu", "B", 8)
+    pdf.text(pdf.l_margin, y0 + 2.4, "Record as entered")
+    pdf.set_y(y0 + 3.6)
+    pdf.table(None, rows, (22, 94), size=7.0, width=left_w)
+    _result(pdf, c, system, summ, left_w)
+    _modes(pdf, c, system, left_w)
+    if pdf.page == page0:  # the pictures stand beside the tables: go on below both
+        pdf.set_y(max(pdf.get_y(), right_end))
+    _warnings(pdf, c)
     if c.findings:
-        pdf.para("Findings on this column: " + "; ".join(
-            f"{data.finding_refs.get(f.id, '')} {f.text} ({f.severity}, {f.status})"
-            for f in c.findings), size=8.5)
-
-    _check(pdf, c, system)
-    _restraint_history(pdf, store, c)
+        pdf.heading("Findings on this column", 3)
+        pdf.table(None, [(data.finding_refs.get(f.id, ""),
+                          f"{f.text} ({f.severity}, {f.status})"
+                          + (f"; photos {data.refs_of(data.finding_photos.get(f.id, []))}"
+                             if data.finding_photos.get(f.id) else ""))
+                         for f in c.findings], (10, 160), size=7.2)
+    if c.photos:
+        pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
+                 size=7.5)
+    _trace(pdf, summ, col.tag)
+    _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
     if c.retrofits:
-        pdf.heading("Retrofit options", 2)
-        pdf.table(["Option", "Status", "Recorded"],
-                  [[r.description, r.status, tx.when(r.created_at)] for r in c.retrofits],
-                  (120, 22, 34))
-    cells = _photo_cells(store, c.photos, col.tag)
-    for f in c.findings:  # repeated here so a column's section stands on its own
-        cells += _photo_cells(store, data.finding_photos.get(f.id, []),
-                              f"finding {data.finding_refs.get(f.id, '')}")
-    if cells:
-        pdf.heading("Photos", 2, keep=55)
-        pdf.photos(cells)
+        _retrofits(pdf, c, system)
 
 
-def _check(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
-    pdf.heading("Latest check", 2)
+def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: float) -> None:
+    pdf.ln(1)
+    pdf.set_font("DejaVu", "B", 8)
+    y = pdf.get_y()
+    pdf.text(pdf.l_margin, y + 2.4, "Latest check")
+    pdf.set_y(y + 3.6)
     k = c.check
     if k is None:
-        pdf.para("not checked: there is no saved check of this column.", bold=True)
+        pdf.write_block("not checked: there is no saved check of this column.", bold=True,
+                        width=width, size=8.5)
         return
     d = k.result
     if k.record != c.record:
-        pdf.para("The record has changed since this check (the check below used the record "
-                 "as it was then): check the column again.", bold=True)
+        pdf.write_block("The record has changed since this check (the check below used the "
+                        "record as it was then): check the column again.", bold=True,
+                        width=width, size=8)
     word = _status(c)
     util = (f"{tx.utilization_text(k.utilization)} {word}" if word in ("OK", "OVER")
             else word)
     dem = d.get("demand")
     rows = [("Checked", f"{tx.when(k.checked_at)} with fieldcol {k.app_version}"),
             ("Code", f"{k.edition or k.code}, {str(d.get('basis', '')).upper()}, "
-                     f"K basis {d.get('k_basis', '-')}"),
-            ("Material", f"{d.get('material', {}).get('name', '-')}, Fy "
-                         f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
-            ("Design strength", tx.quantity(d.get("design_strength"), system)),
-            ("Nominal strength", tx.quantity(d.get("nominal_strength"), system)),
+                     f"K basis {d.get('k_basis', '-')}; "
+                     f"{d.get('material', {}).get('name', '-')}, Fy "
+                     f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
+            ("Design strength", f"{tx.quantity(d.get('design_strength'), system)} (nominal "
+                                f"{tx.quantity(d.get('nominal_strength'), system)})"
+             if (d.get("design_strength") or {}).get("value") is not None
+             else "none: the code gives no strength for this column (see the warning)"),
             ("Demand", "none recorded" if not dem else
              f"{tx.quantity(dem, system)} ({dem.get('combination', '-')})"),
             ("Utilization", util),
-            ("Governing mode", tx.MODE_WORDS.get(d.get("governing_mode") or "",
-                                                 d.get("governing_mode") or "-"))]
+            ("Governing mode", (tx.MODE_WORDS.get(d.get("governing_mode") or "",
+                                                  d.get("governing_mode") or "")
+                                + (f": {summ.why}" if summ is not None and summ.why else ""))
+             if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
         rows.append(("Measured bow", f"{bow.get('axis')} axis, excess "
@@ -228,61 +377,73 @@ def _check(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
                      f"{tx.quantity(d.get('axial_design_strength'), system)})"))
     if k.note:
         rows.append(("Note", k.note))
-    pdf.table(None, rows, (38, 130), bold_rows=[6] if word == "OVER" else ())
+    pdf.table(None, rows, (22, 94), bold_rows=[4] if word == "OVER" else (), size=7.0,
+              width=width)
 
-    pdf.heading("Every mode", 3)
+
+def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
+    if c.check is None:
+        return
+    d = c.check.result
+    pdf.set_font("DejaVu", "B", 8)
+    y = pdf.get_y()
+    pdf.text(pdf.l_margin, y + 2.4, "Every mode")
+    pdf.set_y(y + 3.6)
     mrows = [[tx.MODE_WORDS.get(name, name), tx.quantity(m.get("effective_length"), system),
               tx.quantity(m.get("slenderness"), system),
               tx.quantity(m.get("critical_stress"), system),
               tx.quantity(m.get("nominal_strength"), system)]
              for name, m in (d.get("modes") or {}).items()]
     gov = [i for i, name in enumerate(d.get("modes") or {}) if name == d.get("governing_mode")]
-    pdf.table(["Mode", "Effective length", "Slenderness", "Critical stress",
-               "Nominal strength"], mrows, (50, 30, 24, 30, 30), bold_rows=gov)
-
-    warnings = d.get("warnings") or []
-    if warnings:
-        pdf.heading("Warnings", 3)
-        for w in warnings:
-            pdf.para(f"- {w.get('message', w)}", size=8.5)
-
-    pdf.heading("Calculation trace", 3, keep=30)
-    srows = []
-    for st in d.get("steps") or []:
-        what, value = st.get("what", ""), tx.step_value(st, system)
-        formula = st.get("formula") or ""
-        if formula:
-            # a word (record, table, measured) says where the value came from; else an equation
-            what += f" = {formula}" if any(ch in formula for ch in "=()+-*/^<>0123456789") \
-                else f" ({formula})"
-        if isinstance(st.get("value"), str) and " " in value:
-            what, value = f"{what}: {value}", "(text)"  # long text reads better in the wide column
-        srows.append([st.get("symbol", ""), value, what, st.get("clause", "")])
-    pdf.table(["Symbol", "Value", "What", "Clause"], srows, (27, 26, 82, 40))
+    pdf.table(["Mode", "Eff. length", "Slenderness", "Crit. stress",
+               "Nominal"], mrows, (36, 19, 22, 20, 20), bold_rows=gov, size=6.8,
+              width=width)
 
 
-def _restraint_history(pdf: ReportPDF, store: "Store", c: "ColumnData") -> None:
-    pdf.heading("Restraint history", 2)
-    if not c.restraint_changes:
-        pdf.para("No restraint changes recorded.", size=8.5)
+def _warnings(pdf: ReportPDF, c: "ColumnData") -> None:
+    if c.check is None:
         return
+    warnings = c.check.result.get("warnings") or []
+    if warnings:
+        pdf.table(None, [("Warning", str(w.get("message", w)) if isinstance(w, dict) else str(w))
+                         for w in warnings], (14, 156), size=7.0)
+
+
+def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
+    if summ is None or not summ.trace:
+        return
+    rows = []
+    for t in summ.trace:
+        what = t.what
+        if t.formula:
+            # a word (record, table, measured) says where the value came from; else an equation
+            what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \
+                else f" ({t.formula})"
+        value = t.value
+        if " " in value and not any(ch.isdigit() for ch in value.split(" ")[0]):
+            what, value = f"{what}: {value}", "(text)"  # long text reads better in the wide column
+        rows.append([t.symbol, value, f"{what} [{t.clause}]" if t.clause else what])
+    pdf.heading("Calculation trace", 3, keep=30)
+    pdf.table_flow(["Symbol", "Value", "What [clause]"], rows, (13, 16, 61), size=5.8,
+                   continued=f"Calculation trace of column {tag}, continued")
+
+
+def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> None:
+    if not c.restraint_changes:
+        return
+    pdf.heading("Restraint history", 3, keep=12)
     rows = [[rc.date, tx.RESTRAINT_KIND_WORDS.get(rc.kind, rc.kind), rc.axis or "-",
              rc.description + (f" ({tx.value_text(rc.detail)})" if rc.detail else ""),
-             rc.seen_by or "-"] for rc in c.restraint_changes]
-    pdf.table(["Date", "Change", "Axis", "What", "Seen by"], rows, (20, 24, 14, 94, 22))
-    cells = []
-    for rc in c.restraint_changes:
-        cells += _photo_cells(store, c.restraint_photos.get(rc.id, []),
-                              f"{rc.date} {tx.RESTRAINT_KIND_WORDS.get(rc.kind, rc.kind)}")
-    if cells:
-        pdf.photos(cells)
+             rc.seen_by or "-", data.refs_of(c.restraint_photos.get(rc.id, [])) or "-"]
+            for rc in c.restraint_changes]
+    pdf.table(["Date", "Change", "Axis", "What", "Seen by", "Photos"], rows,
+              (18, 22, 12, 90, 20, 12), size=7.0)
 
 
 def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
-    pdf.heading("Measurement history", 2)
     if not c.measurements:
-        pdf.para("No readings recorded: the record holds the values as entered.", size=8.5)
         return
+    pdf.heading("Readings", 3, keep=12)
     by_id = {m.id: m for m in c.measurements}
     corrected = {m.corrects for m in c.measurements if m.corrects}
     rows = []
@@ -299,7 +460,48 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
         if m.corrects and m.corrects in by_id:
             state += f"; corrects '{by_id[m.corrects].text}'"
         note = "; ".join(x for x in (m.gauge, m.note) if x)
-        rows.append([quantity_name(m.quantity), m.text, shown, f"{m.taken_by or '-'}, {tx.when(m.taken_at)}",
-                     note or "-", state])
+        rows.append([quantity_name(m.quantity), m.text, shown,
+                     f"{m.taken_by or '-'}, {tx.when(m.taken_at)}", note or "-", state])
     pdf.table(["Quantity", "As typed", "Value", "Who, when", "Gauge, note", "Status"], rows,
-              (28, 18, 18, 34, 46, 30))
+              (28, 18, 18, 34, 46, 30), size=7.0)
+
+
+def _outcome(d: dict, system: str, checked: bool = True) -> list[str]:
+    """Design strength, utilization with its word, and what governs, of a check's JSON."""
+    u = (d.get("utilization") or {}).get("value")
+    word = tx.status_word(checked, d.get("status"), u)
+    gov = d.get("governing_mode") or ""
+    return [tx.quantity(d.get("design_strength"), system),
+            f"{tx.utilization_text(u)} {word}" if word in ("OK", "OVER") else word,
+            tx.MODE_WORDS.get(gov, gov or "-")]
+
+
+def _retrofits(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
+    """Each retrofit option checked against the column as it stands: design strength,
+    utilization, what governs, and what a new brace must resist and how stiff it must be."""
+    from fieldcol.assess import assess
+    from fieldcol.errors import InputError
+
+    pdf.heading("Retrofit options", 3, keep=16)
+    rows = [["as it stands (latest check)", "-",
+             *(_outcome(c.check.result, system) if c.check else ["-", "not checked", "-"]), "-"]]
+    for r in c.retrofits:
+        try:
+            d = assess(r.record).to_dict()
+        except InputError as e:
+            rows.append([r.description, r.status, f"cannot be checked: {e}", "", "", ""])
+            continue
+        needs: dict[str, list[str]] = {}
+        for st in d.get("steps") or []:
+            sym = st.get("symbol")
+            if sym not in ("beta_br", "P_br"):
+                continue
+            # "stiffness the brace at 12'-0", weak axis needs ...": where, then what and how much
+            what = str(st.get("what", ""))
+            where = what.split("the brace ", 1)[-1].split(" needs", 1)[0]
+            needs.setdefault(where, []).append(
+                f"{'stiffness' if sym == 'beta_br' else 'strength'} {tx.step_value(st, system)}")
+        rows.append([r.description, r.status, *_outcome(d, system),
+                     "; ".join(f"{w}: {', '.join(v)}" for w, v in needs.items()) or "-"])
+    pdf.table(["Option", "Status", "Design strength", "Utilization", "Governs",
+               "A brace must give"], rows, (58, 14, 18, 18, 28, 46), size=6.8)

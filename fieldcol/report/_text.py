@@ -10,6 +10,8 @@ import json
 import math
 from typing import Any
 
+from fieldcol.assess import MODE_WORDS as _MODE_WORDS
+
 # engine unit -> fieldcol.units kind, so each value is shown in the site's unit system
 _KIND = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
          "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
@@ -20,10 +22,8 @@ END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
              "free": "free (neither rotation nor position held)",
              "guided": "guided (rotation held, free to sway)"}
 
-MODE_WORDS = {"yield": "yielding of the section", "flexural-strong": "flexural buckling, strong axis",
-              "flexural-weak": "flexural buckling, weak axis", "torsional": "torsional buckling",
-              "flexural-torsional": "flexural-torsional buckling", "bow": "measured bow (beam-column)",
-              "local": "local buckling"}
+# the one table of mode words lives with the engine (fieldcol.assess.MODE_WORDS)
+MODE_WORDS = _MODE_WORDS
 
 RESTRAINT_KIND_WORDS = {"brace_added": "brace added", "brace_removed": "brace removed",
                         "cable_found": "cable found", "end_condition_changed": "end condition changed",
@@ -176,6 +176,8 @@ def section_text(section: Any) -> str:
         return value_text(section)
     shape = {"i": "I section", "rect": "rectangular hollow section",
              "round": "round hollow section"}.get(str(section.get("shape")), "section")
+    if isinstance(section.get("built"), dict):
+        return "built-up section: " + value_text(section["built"])
     head = str(section["name"]) if section.get("name") else f"measured {shape}"
     dims = [f"{k} {value_text(v)}" for k, v in section.items()
             if k not in ("name", "shape", "loss", "plates", "welded")]

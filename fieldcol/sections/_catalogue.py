@@ -181,8 +181,11 @@ def _close_names(name: str, n: int = 5) -> list[str]:
     return [squeezed[h] for h in hits]
 
 
+@functools.lru_cache(maxsize=1024)
 def section_at(i: int) -> Section:
-    """The Section for catalogue row ``i`` (with its source notes).
+    """The Section for catalogue row ``i`` (with its source notes), made once per row: a
+    schedule or a site names the same few sections again and again. The Section is frozen and
+    its arrays are read-only, so the one shared copy cannot be changed by a caller.
 
     Args:
         i: row index into ``catalogue_arrays()``.
@@ -216,7 +219,11 @@ def section_at(i: int) -> Section:
         s = round_hollow(cat.d[i], cat.tdes[i], rolled=False, name=name)
         notes = [source, f"design wall tdes = {cat.tdes[i]:.2f} mm used (nominal "
                  f"{cat.t[i]:.2f} mm)"]
-    return replace(s, notes=tuple(notes) + s.notes)
+    s = replace(s, notes=tuple(notes) + s.notes)
+    for v in vars(s).values():
+        if isinstance(v, np.ndarray):
+            v.flags.writeable = False
+    return s
 
 
 def from_catalogue(name: str) -> Section:

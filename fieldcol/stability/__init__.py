@@ -15,11 +15,12 @@ from ._bracing import brace_requirement, cable_stiffness, series
 from ._ends import Brace, End, end, kind, partial_end
 from ._fe import Buckling, buckling_analysis, buckling_batch
 from ._mode import ModeShape, mode_shape
+from ._stepped import band_factor
 from ._tables import (EffectiveLength, Segment, effective_length, k_table, k_table_many,
                       twist_length)
 
 __all__ = [
-    "Brace", "Buckling", "EffectiveLength", "End", "ModeShape", "Segment",
+    "Brace", "Buckling", "EffectiveLength", "End", "ModeShape", "Segment", "band_factor",
     "brace_requirement", "buckling_analysis", "buckling_batch", "cable_stiffness",
     "effective_length", "end", "k_alignment", "k_table", "k_table_many", "kind", "mode_shape",
     "partial_end", "series", "twist_length",

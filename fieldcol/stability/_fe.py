@@ -23,8 +23,15 @@ from ._ends import SAME, Brace, End, check_braces, check_length, check_spacing, 
 
 
 _SOFT = 1e-8  # dimensionless spring below which a support is no support at all
-# A fixed start for inverse iteration with no symmetry that could hide the mode.
-_START = np.random.default_rng(20261201).uniform(0.5, 1.5, 2004)
+
+
+@lru_cache(maxsize=1)
+def _start() -> np.ndarray:
+    """A fixed start for inverse iteration, with no symmetry that could hide the mode (made on
+    first use: numpy.random costs ~15 ms to import, on every command's start otherwise)."""
+    v = np.random.default_rng(20261201).uniform(0.5, 1.5, 2004)
+    v.flags.writeable = False
+    return v
 
 
 @dataclass(frozen=True)
@@ -159,7 +166,8 @@ def _solve(Kf: np.ndarray, Kgf: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     # Its vector by inverse iteration with a shift just past mu: a full eigh of a stack costs
     # some twenty times more than the eigenvalues alone.
     n = A.shape[-1]
-    y = np.broadcast_to(_START[:n] if n <= _START.size else np.ones(n), A.shape[:-1]).copy()
+    start = _start()
+    y = np.broadcast_to(start[:n] if n <= start.size else np.ones(n), A.shape[:-1]).copy()
     shifted = A - (mu * (1 + 1e-9))[..., None, None] * np.eye(n)
     for _ in range(2):
         y = np.linalg.solve(shifted, y[..., None])[..., 0]

@@ -31,6 +31,9 @@ def section_label(section: Any) -> str | None:
     if section is None or isinstance(section, str):
         return section
     if isinstance(section, dict):
+        built = section.get("built")
+        if isinstance(built, dict):
+            return f"built-up {built.get('arrangement', '?')}"
         base = section.get("name") or f"measured {section.get('shape', '?')}"
         return f"{base} with loss" if section.get("loss") else str(base)
     return str(section)
@@ -97,6 +100,7 @@ def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dic
     (e.g. ``section.tf`` on a catalogue name) is left alone and returned in the second item,
     and so is a measured dimension (``SECTION_DIMENSIONS``) of a section named from the
     catalogue (``{"name": "W14X90", ...}``): the readings that identified it stay in the history.
+    A built-up section (``{"built": ...}``) takes no section reading at all.
 
     Example:
         >>> m = Measurement(id="1", column_id="c", quantity="length", kind="length",
@@ -107,8 +111,11 @@ def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dic
     out = copy.deepcopy(record)
     skipped: list[str] = []
     named = isinstance(out.get("section"), dict) and bool(out["section"].get("name"))
+    # a built-up section is given by its parts: readings of a plain section's dimensions or
+    # loss do not belong in it (they stay in the history)
+    built = isinstance(out.get("section"), dict) and "built" in out["section"]
     for quantity, m in sorted(latest.items()):
-        if named and quantity in SECTION_DIMENSIONS:
+        if (named and quantity in SECTION_DIMENSIONS) or (built and quantity.startswith("section.")):
             skipped.append(quantity)
             continue
         text = m.text if not _BARE_NUMBER.fullmatch(m.text) else f"{m.value:.10g} {m.unit}".strip()

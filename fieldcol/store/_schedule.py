@@ -526,7 +526,7 @@ def export_csv(store: "Store", site: str, out: str | os.PathLike[str]) -> int:
         >>> Path("depot.csv").read_text().splitlines()[2]
         'B/4-L1,L1,B/4,,W14X90,30 ft,A992,500 kip,lrfd,aisc360-22,0.841462,flexural-weak,...'
     """
-    from fieldcol.cli import CAUTION
+    from fieldcol import CAUTION
     from fieldcol.store._photos import write_atomic
 
     found = store.site_by_name(site)

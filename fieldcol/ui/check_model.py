@@ -18,6 +18,7 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Mapping
 
 from fieldcol import CAUTION
+from fieldcol.assess import MODE_WORDS
 
 if TYPE_CHECKING:
     from fieldcol.store import Store
@@ -188,6 +189,14 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
         line = (f"{psym} {_fmt(demand, 'force', system)} / {dsym} {_fmt(design, 'force', system)}"
                 f" = {util:.2f}" if util is not None and math.isfinite(util)
                 else f"{psym} {_fmt(demand, 'force', system)}; no strength given")
+        if gov in ("beam-column", "section-band") and util is not None and math.isfinite(util):
+            # with bending the utilization is the interaction, not the ratio of two forces
+            eq = ((result.get("beam_column") or {}).get("equation") if gov == "beam-column"
+                  else (result.get("section_band") or {}).get("equation")) or ""
+            line = (f"{psym} {_fmt(demand, 'force', system)} / the section in the loss band "
+                    f"{_fmt(design, 'force', system)} = {util:.2f}" if eq == "axial" else
+                    f"{psym} {_fmt(demand, 'force', system)} with bending: {eq} = {util:.2f} "
+                    f"(capacity {_fmt(design, 'force', system)})")
         comb = (result.get("demand") or {}).get("combination")
         extra = [f"{psym} from {comb}"] if comb not in (None, "given") else []
     else:
@@ -246,7 +255,7 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
              "flexural-weak": "Buckling about the weak axis",
              "torsional": "Twisting (torsional buckling)", "yield": "Squashing (yield)",
              "bow": "The measured bow (bending with the axial load)", "": "No strength"}
-    head = words.get(gov, gov) + (" governs" if gov else ": the code gives none for this column")
+    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (" governs" if gov else ": the code gives none for this column")
     if gov in ("flexural-strong", "flexural-weak", "torsional"):
         ax = {"flexural-strong": "strong", "flexural-weak": "weak", "torsional": "twist"}[gov]
         m = modes.get(gov) or {}
@@ -276,6 +285,14 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
     if gov == "bow":
         return head, ("The measured bow beyond the curve's allowance, checked with the axial "
                       "load as bending, lowers the capacity below the axial check.")
+    if gov == "beam-column":
+        eq = (result.get("beam_column") or {}).get("equation") or ""
+        return head, (f"The moments recorded (given, beam reactions, bow, out-of-plumb) with the axial "
+                      f"load: the interaction ({eq}) lowers the capacity below the axial check.")
+    if gov == "section-band":
+        b = result.get("section_band") or {}
+        return head, (f"The section where steel was lost ({_fmt(_val(b.get('from')), 'length', system)} to "
+                      f"{_fmt(_val(b.get('to')), 'length', system)}) holds less than the member buckles at.")
     return head, "See the warnings."
 
 

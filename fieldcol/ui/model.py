@@ -24,6 +24,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any, Callable
 
 from fieldcol import CAUTION
+from fieldcol.assess import MODE_WORDS
 from fieldcol.errors import InputError
 
 if TYPE_CHECKING:
@@ -33,10 +34,8 @@ PAGE = 50  # rows per page of a column list: a phone screen scrolls a page witho
 
 CODE_NAMES = {"aisc360-22": "AISC 360-22", "en1993-1-1": "EN 1993-1-1", "elastic": "elastic"}
 SYSTEM_NAMES = {"us": "US units (ft, in, kip, ksi)", "si": "SI units (mm, kN, MPa)"}
-MODE_NAMES = {"flexural-strong": "flexural buckling, strong axis",
-              "flexural-weak": "flexural buckling, weak axis",
-              "torsional": "torsional buckling", "yield": "yielding (squash load)",
-              "bow": "measured bow (beam-column)"}
+# the one table of mode words lives with the engine
+MODE_NAMES = MODE_WORDS
 AXIS_NAMES = {"strong": "Strong axis", "weak": "Weak axis", "twist": "Twist"}
 END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
              "fixed": "fixed (rotation and position held)",

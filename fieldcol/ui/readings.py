@@ -342,6 +342,12 @@ def add_reading(store: "Store", column_id: str, kind: str, text: str, *,
     current = store.current_record(column_id)
     name = READING_KINDS[kind][0].lower()
     if kind == "thickness":
+        if isinstance(current.get("section"), dict) and "built" in current["section"]:
+            # the check reads a built-up section from its parts: a thickness kept here would
+            # not count, and a reading that does not count must not look as if it did
+            raise InputError("element", str(element), "a built-up section is checked from its "
+                             "parts", "enter the parts as they are now in the Section tab's "
+                             "built-up card")
         shape = _shape(current.get("section"))
         if element not in _SHAPE_ELEMENTS[shape]:
             raise InputError("element", str(element), "pick what was measured",

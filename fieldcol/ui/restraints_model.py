@@ -447,7 +447,9 @@ def sketch(record: Mapping[str, Any], system: str) -> Sketch:
              "torsional": "twisting (torsional buckling) governs",
              "yield": "squashing (yield) governs: neither axis buckles first",
              "bow": "the measured bow governs"}
-    return Sketch(out, words.get(gov, gov))
+    from fieldcol.assess import MODE_WORDS
+
+    return Sketch(out, words.get(gov, MODE_WORDS.get(gov, gov) + " governs"))
 
 
 def _half_waves(pts: list[tuple[float, float]]) -> int:

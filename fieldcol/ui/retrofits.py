@@ -349,40 +349,26 @@ def brace_sweep(store: "Store", column_id: str, axis: str, *, points: int = 11,
     Example: ``brace_sweep(store, cid, "weak").best.at`` is near mid-height for a column
     pinned at both ends.
     """
-    from fieldcol.assess import assess
-    from fieldcol.retrofit import apply_option
-    from fieldcol.units import format_quantity, parse_length
+    from fieldcol.retrofit import brace_sweep as sweep_heights
+    from fieldcol.units import format_quantity
 
     if axis not in CHOICES["axis"]:
         raise InputError("axis", str(axis), "not an axis", "weak, strong or both")
-    if isinstance(points, bool) or not isinstance(points, int) or not 3 <= points <= 41:
-        raise InputError("points", repr(points), "3 to 41 heights", None)
     system = _system(store, column_id)
     record = store.current_record(column_id)
-    before = assess(record)
-    length = parse_length(record.get("length"), "length")
+    res = sweep_heights(record, axis, points=points, twist=twist)
+    length = res.length
     length_unit, length_factor = ("ft", 304.8) if system == "us" else ("m", 1000.0)
-    out = []
-    for i in range(1, points + 1):
-        at = length * i / (points + 1)
-        typed = f"{at:.1f} mm"
-        opt = {"kind": "brace", "axis": axis, "at": typed, "twist": twist}
-        try:
-            strength: float | None = assess(apply_option(record, opt)).design_strength
-        except InputError:
-            strength = None
-        if strength is not None and not math.isfinite(strength):
-            strength = None
-        out.append(SweepPoint(at, strength, _force(strength, system)))
+    out = [SweepPoint(at, v, _force(v, system)) for at, v in zip(res.heights, res.strengths[0])]
     good = [p for p in out if p.strength is not None]
     best = max(good, key=lambda p: (p.strength, -p.at)) if good else None
     unit_text = format_quantity(1.0, "force", system).split(" ", 1)[-1]
     factor = 4448.2216 if unit_text == "kip" else 1000.0
-    return Sweep(axis=axis, length=length, before=before.design_strength,
-                 demand=before.demand, points=out, unit=unit_text, factor=factor,
+    return Sweep(axis=axis, length=length, before=res.before,
+                 demand=res.demand, points=out, unit=unit_text, factor=factor,
                  length_factor=length_factor, length_unit=length_unit, best=best,
-                 before_text=_force(before.design_strength, system),
-                 demand_text=_force(before.demand, system))
+                 before_text=_force(res.before, system),
+                 demand_text=_force(res.demand, system))
 
 
 __all__ = ["KIND_WORDS", "FORM_FIELDS", "CHOICES", "Compared", "Sweep", "SweepPoint",

@@ -259,7 +259,12 @@ def section_view(store: "Store", column_id: str) -> SectionView:
     section = rec.get("section")
     shape, name = _shape_of(section)
     measured_record = isinstance(section, dict) and section.get("shape") in SHAPES
-    if measured_record:
+    if isinstance(section, dict) and isinstance(section.get("built"), dict):
+        from fieldcol.ui.builtup_model import ARRANGEMENTS
+
+        arr = dict(ARRANGEMENTS).get(section["built"].get("arrangement"), "parts")
+        dims, summary, source = [], f"Built up: {arr.lower()}", "built"
+    elif measured_record:
         dims = []
         for key, label in DIMENSIONS[shape]:
             try:

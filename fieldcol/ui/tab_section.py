@@ -17,6 +17,7 @@ from fieldcol.errors import InputError
 from fieldcol.ui import _entry_controls as ec
 from fieldcol.ui import readings as r
 from fieldcol.ui import section as sx
+from fieldcol.ui._builtup_card import BuiltCard
 from fieldcol.ui._tab import Tab
 from fieldcol.ui.saving import plain_error
 from fieldcol.ui.views import MUTED, TONES, text_line
@@ -53,6 +54,7 @@ class SectionTab(Tab):
         self.fields: dict[str, ft.TextField] = {}
         self.search_field: ft.TextField | None = None
         self.plate_field: ft.TextField | None = None
+        self.built = BuiltCard(self)
 
     async def load(self) -> None:
         """Fetch the section view-model (worker thread) and redraw.
@@ -90,13 +92,15 @@ class SectionTab(Tab):
         v = self.view
         assert v is not None
         parts = [self._now(v), self._pick(v), self._measure(v)]
-        if v.plates_allowed:
+        if v.plates_allowed and v.source != "built":
             parts.append(self._plates(v))
+        parts.append(self.built.card(v))
         self.body.controls = parts + [ft.Container(height=96)]  # clear of the save bar
 
     def _now(self, v: sx.SectionView) -> ft.Control:
         source = {"catalogue": "from the catalogue (nominal dimensions)",
                   "measured": "as measured (these dimensions are checked)",
+                  "built": "built up from parts (checked as a built-up member)",
                   "none": "record one below"}[v.source]
         lines: list[ft.Control] = [
             ft.Semantics(identifier="section-now", label=f"section {v.summary}, {source}",

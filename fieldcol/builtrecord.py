@@ -1,0 +1,145 @@
+"""Read a built-up section from a column record: ``"section": {"built": {...}}``.
+
+Kept apart from ``fieldcol.record`` so that a built-up section is one call there. Every
+value carries its unit; every error names its path (``section.built.lacing.pitch``).
+"""
+
+from __future__ import annotations
+
+from typing import Any, Mapping
+
+from fieldcol.errors import InputError
+from fieldcol.recordkeys import check_keys
+from fieldcol.sections._builtup import (ARRANGEMENTS, CONNECTIONS, LACING_KINDS, Battens, BuiltUp,
+                                        Lacing, angles_box, angles_star, angles_web, channels)
+from fieldcol.sections._parts import Part, catalogue_part, measured
+
+
+def _len(spec: Mapping[str, Any], key: str, fld: str, required: bool = True) -> float | None:
+    v = spec.get(key)
+    if v in (None, ""):
+        if required:
+            raise InputError(f"{fld}.{key}", "", "required", "give it with its unit, e.g. 3/8 in")
+        return None
+    from fieldcol.record import parse_length  # the record's reader: a bare number is refused
+
+    return parse_length(v, f"{fld}.{key}", allow_zero=key in ("gap", "r1", "r2"))
+
+
+def _obj(value: Any, fld: str, table: str) -> Mapping[str, Any]:
+    if not isinstance(value, Mapping):
+        raise InputError(fld, value, "must be an object", None)
+    check_keys(value, table, fld)
+    return value
+
+
+def _choice(value: Any, allowed: tuple[str, ...], fld: str, default: str) -> str:
+    if value is None:
+        return default
+    if isinstance(value, str) and value.strip().lower() in allowed:
+        return value.strip().lower()
+    raise InputError(fld, value, "not one of the choices", "use " + ", ".join(allowed))
+
+
+def _part(value: Any, kind: str, fld: str) -> Part:
+    """A catalogue designation or a measured object."""
+    if isinstance(value, str):
+        return catalogue_part(value, fld, kind)
+    spec = _obj(value, fld, f"measured {kind}")
+    dims = {k: _len(spec, k, fld, required=False) for k in spec if k != "slope"}
+    dims = {k: v for k, v in dims.items() if v is not None}
+    if "slope" in spec:
+        s = spec["slope"]
+        if isinstance(s, bool) or not isinstance(s, (int, float)) or not 0 <= s < 0.5:
+            raise InputError(f"{fld}.slope", s, "must be a rise over run from 0 to 0.5",
+                             "1/6 = 0.1667 for AISC C shapes")
+        dims["slope"] = float(s)
+    return measured(kind, fld, **dims)
+
+
+def _planes(spec: Mapping[str, Any], fld: str) -> int:
+    n = spec.get("planes", 2)
+    if isinstance(n, bool) or n not in (1, 2):
+        raise InputError(f"{fld}.planes", n, "must be 1 or 2", "lacing on both faces: 2")
+    return int(n)
+
+
+def _tie(spec: Mapping[str, Any], fld: str) -> Lacing | Battens | None:
+    if spec.get("lacing") is not None and spec.get("battens") is not None:
+        raise InputError(f"{fld}.battens", "lacing and battens",
+                         "give the lacing or the battens, not both", None)
+    if spec.get("lacing") is not None:
+        f = f"{fld}.lacing"
+        lac = _obj(spec["lacing"], f, "lacing")
+        return Lacing(_choice(lac.get("kind"), LACING_KINDS, f"{f}.kind", "single"),
+                      _len(lac, "width", f), _len(lac, "thickness", f), _len(lac, "pitch", f),
+                      _planes(lac, f))
+    if spec.get("battens") is not None:
+        f = f"{fld}.battens"
+        bat = _obj(spec["battens"], f, "battens")
+        return Battens(_len(bat, "spacing", f), _len(bat, "depth", f), _len(bat, "thickness", f),
+                       _planes(bat, f))
+    return None
+
+
+def _plates(spec: Mapping[str, Any], key: str, fld: str) -> tuple[float, float] | None:
+    if spec.get(key) is None:
+        return None
+    p = _obj(spec[key], f"{fld}.{key}", "plate")
+    return _len(p, "width", f"{fld}.{key}"), _len(p, "thickness", f"{fld}.{key}")
+
+
+# the keys each arrangement reads: any other is refused, never silently left out
+_COMMON = ("arrangement", "connection")
+USED = {"angles-web": _COMMON + ("angle", "web", "flange_plates", "long_leg", "pitch"),
+        "channels": _COMMON + ("channel", "gap", "toes", "lacing", "battens", "plates", "pitch"),
+        "angles-box": _COMMON + ("angle", "depth", "width", "lacing", "battens"),
+        "angles-star": _COMMON + ("angle", "gap", "pitch")}
+
+
+def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:
+    """A built-up section from its record object.
+
+    Example:
+        >>> b = parse_built({"arrangement": "channels", "channel": "C12X20.7", "gap": "6 in",
+        ...                  "toes": "out", "connection": "riveted",
+        ...                  "battens": {"spacing": "24 in", "depth": "8 in",
+        ...                              "thickness": "3/8 in"}})
+        >>> b.arrangement, b.open_axes[0].axis
+        ('channels', 'weak')
+    """
+    spec = _obj(spec, fld, "built-up section")
+    arr = _choice(spec.get("arrangement"), ARRANGEMENTS, f"{fld}.arrangement", "")
+    if not arr:
+        raise InputError(f"{fld}.arrangement", "", "required", "one of " + ", ".join(ARRANGEMENTS))
+    conn = _choice(spec.get("connection"), CONNECTIONS, f"{fld}.connection", "riveted")
+    for key in spec:
+        if key not in USED[arr] and spec.get(key) is not None:
+            raise InputError(f"{fld}.{key}", key, f"not used by {arr}",
+                             f"{arr} takes " + ", ".join(USED[arr]))
+    if arr == "angles-star":
+        return angles_star(_part(spec.get("angle"), "angle", f"{fld}.angle"),
+                           _len(spec, "gap", fld), _len(spec, "pitch", fld), connection=conn,
+                           field=fld)
+    if arr == "angles-web":
+        web = _obj(spec.get("web") or {}, f"{fld}.web", "web plate")
+        return angles_web(_part(spec.get("angle"), "angle", f"{fld}.angle"),
+                          _len(web, "depth", f"{fld}.web"), _len(web, "thickness", f"{fld}.web"),
+                          flange_plates=_plates(spec, "flange_plates", fld), connection=conn,
+                          long_leg=_choice(spec.get("long_leg"), ("flange", "web"),
+                                           f"{fld}.long_leg", "flange"),
+                          pitch=_len(spec, "pitch", fld, required=False), field=fld)
+    tie = _tie(spec, fld)
+    if arr == "channels":
+        return channels(_part(spec.get("channel"), "channel", f"{fld}.channel"),
+                        _len(spec, "gap", fld),
+                        toes=_choice(spec.get("toes"), ("out", "in"), f"{fld}.toes", "out"),
+                        tie=tie, plates=_plates(spec, "plates", fld),
+                        pitch=_len(spec, "pitch", fld, required=False), connection=conn,
+                        field=fld)
+    if tie is None:
+        raise InputError(f"{fld}.lacing", "", "four angles need lacing or battens",
+                         'e.g. "battens": {"spacing": "24 in", ...}')
+    return angles_box(_part(spec.get("angle"), "angle", f"{fld}.angle"),
+                      _len(spec, "depth", fld), _len(spec, "width", fld), tie, connection=conn,
+                      field=fld)

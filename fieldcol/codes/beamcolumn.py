@@ -1,0 +1,397 @@
+"""Axial force with bending about both axes: AISC 360-22 Chapter H (H1-1a, H1-1b) with Chapter F
+flexure, EN 1993-1-1 6.3.3 (6.61), (6.62) with the Annex B (method 2) interaction factors, and a
+first-yield check for the ``elastic`` reference.
+
+The moments on a column as it stands come from four sources, each with its own second-order
+treatment (N*mm, per axis):
+
+- ``given``: required moments that already include second-order effects (AISC H1 expects
+  them so); used as they are. Under EN they enter 6.3.3 as M_Ed as well: the k factors then
+  amplify them again (conservative, said in the trace).
+- ``ends``: a first-order moment at one end and none at the other (a beam reaction at an
+  eccentricity at the top of a column pinned at its base): AISC B1 with Cm = 0.6 - 0.4 M1/M2 =
+  0.6 (M1 = 0; a fixed base would give reverse curvature and a lower Cm, so 0.6 is
+  conservative); EN Cm = 0.6 + 0.4 psi = 0.6 (Table B.3, psi = 0).
+- ``bow``: an eccentricity e (mm) at mid-height, moment P e, Cm = 1.0 (AISC B1 exact for a
+  half-sine bow; EN Cm 1.0, conservative).
+- ``sway``: a measured out-of-plumb D (mm) of a column free to sway about that axis, moment
+  P D at the held end, amplified by AISC B2 = 1/(1 - alpha P/Pe,story) (App. 8.2.2) or EN
+  1/(1 - N/Ncr) (5.2.2 (5)B), with the story's load taken as the column's own and Pe,story =
+  pi^2 EI / Lc^2 of the column alone (said in the trace).
+
+The largest moments of the four sources are added although they may act at different heights
+(conservative). All moments scale with the axial force: the ``capacity`` is the largest axial
+force, with every moment in proportion, at which the interaction equals 1.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Mapping
+
+import numpy as np
+
+from fieldcol.errors import InputError
+from fieldcol.sections._section import Section
+from fieldcol.trace import Trace
+
+from ._en_class import classify
+from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
+from ._inputs import prepare
+from ._result import CodeResult, Warning
+
+AXES = ("strong", "weak")
+SOURCES = ("given", "ends", "bow", "sway")
+H1 = "AISC 360-22 H1.1"
+APP8 = "AISC 360-22 App. 8.2"
+C633 = "EN 1993-1-1 6.3.3"
+ANNEX_B = "EN 1993-1-1 Annex B"
+_FY = "first yield (classical)"
+
+
+@dataclass
+class BeamColumnResult:
+    """The interaction check of a batch of columns under axial force and bending.
+
+    Args:
+        ratio: interaction value at the demand (H1-1a/b, max of (6.61), (6.62), or first yield),
+            never below the axial ratio; NaN where the code gives no flexural strength.
+        equation: which equation governs per column (``"H1-1a"``, ``"H1-1b"``, ``"6.61"``,
+            ``"6.62"``, ``"first yield"``).
+        capacity: the largest axial force (N) with the moments in proportion at which the
+            interaction reaches 1.
+        Mc: available flexural strength per axis (N*mm).
+        Mr: required moment per axis at the demand (N*mm; EN: first-order M_Ed).
+        trace, warnings: every step with its clause; conditions for some columns.
+
+    Example:
+        >>> r = BeamColumnResult(np.ones(1), np.array(["H1-1a"]), np.ones(1), {}, {}, Trace())
+        >>> str(r.equation[0])
+        'H1-1a'
+    """
+
+    ratio: np.ndarray
+    equation: np.ndarray
+    capacity: np.ndarray
+    Mc: dict[str, np.ndarray]
+    Mr: dict[str, np.ndarray]
+    trace: Trace
+    warnings: list[Warning] = field(default_factory=list)
+
+
+def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
+    """Per-axis non-negative arrays from a mapping ``{"strong": .., "weak": ..}`` (missing: 0)."""
+    value = value or {}
+    if not isinstance(value, Mapping):
+        raise InputError(name, repr(value), "must map strong / weak to values", '{"strong": 1e8}')
+    out = {}
+    for ax in AXES:
+        a = np.asarray(value.get(ax, 0.0), dtype=float)
+        if not np.all(np.isfinite(a)) or np.any(a < 0):
+            raise InputError(f"{name}.{ax}", repr(value.get(ax)), "must be zero or a positive, finite number")
+        out[ax] = np.broadcast_to(a, (n,)).astype(float) if a.ndim <= 1 else a
+    return out
+
+
+def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
+                      *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
+                      basis: str = "lrfd", gamma_M1: float = 1.0) -> BeamColumnResult:
+    """Axial force with bending about both axes under the code of ``axial``.
+
+    Args:
+        code: ``"aisc360-22"``, ``"en1993-1-1"`` or ``"elastic"``.
+        section: the cross-section(s); Fy, E, G: MPa (one value or one per column).
+        Pr: the axial demand (N, > 0) on the basis of the check.
+        axial: the axial ``CodeResult`` of the same columns (Pc, chi, slenderness).
+        span: ``{"strong": mm, "weak": mm}`` length between points held against sway for B1 / Pe1.
+        Lc: ``{"strong", "weak", "twist": mm}``: effective lengths (twist: the unbraced length for
+            lateral-torsional buckling, Cb = 1.0); also Pe,story for the sway amplifier.
+        moments: ``{"given" | "ends" | "bow" | "sway": {"strong": .., "weak": ..}}``: given and end
+            moments in N*mm, bow eccentricity and out-of-plumb in mm (see the module notes).
+        basis: AISC ``"lrfd"`` or ``"asd"``; gamma_M1: the EN partial factor.
+    Returns:
+        a ``BeamColumnResult`` with arrays of shape (n,).
+    Raises:
+        InputError: an unknown code or source, a negative value, no axial demand.
+
+    Example:
+        >>> from fieldcol.sections import from_catalogue
+        >>> from fieldcol.codes import check_aisc360
+        >>> s, L = from_catalogue("W14X99"), 14 * 304.8
+        >>> ax = check_aisc360(s, 345.0, 2e5, 77200.0, L, L, L)
+        >>> r = check_beam_column("aisc360-22", s, 345.0, 2e5, 77200.0, 400 * 4448.2, ax,
+        ...     span={"strong": L, "weak": L}, Lc={"strong": L, "weak": L, "twist": L},
+        ...     moments={"given": {"strong": 250 * 1.3558e6, "weak": 80 * 1.3558e6}})
+        >>> str(r.equation[0]), round(float(r.ratio[0]), 2)
+        ('H1-1a', 0.92)
+    """
+    unknown = set(moments) - set(SOURCES)
+    if unknown:
+        raise InputError("moments", ", ".join(sorted(unknown)), "unknown source of moment", ", ".join(SOURCES))
+    sec, v, shape = prepare(section, Fy=Fy, E=E, G=G, Pr=Pr, **{f"span_{a}": span[a] for a in AXES},
+                            **{f"Lc_{a}": Lc[a] for a in (*AXES, "twist")})
+    n = int(np.prod(shape or (1,)))
+    sec = {k: a.reshape(n) for k, a in sec.items()}
+    v = {k: a.reshape(n) for k, a in v.items()}
+    for name in ("Sx", "Sy", "Zx", "Zy", "ho"):
+        sec[name] = np.broadcast_to(np.asarray(getattr(section, name), dtype=float), shape).reshape(n)
+    M = {src: _pair(f"moments.{src}", moments.get(src), n) for src in SOURCES}
+    kind = section.kind
+    t = Trace()
+    Pr_ = t.add("Pr", "required axial strength", "demand", v["Pr"], "N", "demand")
+    for src, what in (("given", "given moment (second order included)"), ("ends", "first-order end moment"),
+                      ("bow", "eccentricity from the bow excess"), ("sway", "out-of-plumb of a sway column")):
+        for ax in AXES:
+            if np.any(M[src][ax] > 0):
+                t.add(f"{src}_{ax}", f"{what}, {ax} axis", "record", M[src][ax],
+                      "N*mm" if src in ("given", "ends") else "mm", "record")
+    design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
+    if code == "aisc360-22":
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t)
+    if code == "en1993-1-1":
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t)
+    if code == "elastic":
+        return _elastic(sec, v, M, axial, shape, n, Pr_, design, t)
+    raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
+
+
+def _I(sec: dict, ax: str) -> np.ndarray:
+    return sec["Ix"] if ax == "strong" else sec["Iy"]
+
+
+def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, formula: str,
+           clause: str) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        # 64 halvings leave the bracket below one ulp of any capacity above 1e-4 of the axial one
+        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
+        val, eq = g(Pr)
+        ratio = np.where(Mc_nan, np.nan, np.maximum(val, Pr / design))
+    t.add("P", "axial capacity with the moments in proportion", formula, cap, "N", clause)
+    return cap, ratio, eq
+
+
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
+    Fy, E = v["Fy"], v["E"]
+    lrfd = basis == "lrfd"
+    alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
+                  APP8)
+    Mc, Pe1, Pe2, out = {}, {}, {}, np.zeros(Pc.shape, bool)
+    for ax in AXES:
+        sub = Trace()
+        Mn, o = aisc_flexure(kind, ax, sec, Fy, E, v["Lc_twist"], sub)
+        t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what, s.formula,
+                                s.value, s.unit, s.clause) for s in sub.steps]
+        out |= o & ((M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0)
+        Mc[ax] = t.add(f"Mc_{ax}", f"available flexural strength, {ax} axis",
+                       "phi_b Mn, phi_b = 0.90" if lrfd else "Mn / Omega_b, Omega_b = 1.67",
+                       0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
+        Pe1[ax] = np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2
+        Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2
+        # the amplifiers' loads are shown only where a moment they amplify is present
+        if np.any(M["ends"][ax] + M["bow"][ax] > 0):
+            t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
+                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway", Pe1[ax], "N",
+                  f"{APP8}.1 (A-8-5)")
+        if np.any(M["sway"][ax] > 0):
+            t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
+                  "pi^2 EI / Lc^2 (the story's other columns left out: conservative)", Pe2[ax], "N",
+                  f"{APP8}.2 (A-8-7)")
+    t.add("Pc", "available axial strength (governing mode)", "phi_c Pn or Pn / Omega_c", Pc, "N", "AISC 360-22 E1")
+    t.add("Cm", "equivalent uniform moment factor", "end moment, other end 0: 0.6 - 0.4 M1/M2 = 0.6; bow: 1.0",
+          0.6, "", f"{APP8}.1 (A-8-4)")
+
+    def amp(P, Pe, Cm):
+        den = 1.0 - alpha * P / Pe
+        return np.where(den > 0, np.maximum(1.0, Cm / np.where(den > 0, den, 1.0)), np.inf)
+
+    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
+
+    def Mr(P, ax):
+        # only the sources this batch has: the bisection calls this some 160 times
+        lam = P / Pr
+        out = lam * M["given"][ax] if used[("given", ax)] else np.zeros(P.shape)
+        if used[("ends", ax)]:
+            out = out + amp(P, Pe1[ax], 0.6) * lam * M["ends"][ax]
+        if used[("bow", ax)]:
+            out = out + np.where(M["bow"][ax] > 0, amp(P, Pe1[ax], 1.0) * P * M["bow"][ax], 0.0)
+        if used[("sway", ax)]:
+            out = out + np.where(M["sway"][ax] > 0, amp(P, Pe2[ax], 1.0) * P * M["sway"][ax], 0.0)
+        return out
+
+    def g(P):
+        m = Mr(P, "strong") / Mc["strong"] + Mr(P, "weak") / Mc["weak"]
+        p = P / Pc
+        a = p >= 0.2
+        return np.where(a, p + 8.0 / 9.0 * m, p / 2.0 + m), np.where(a, "H1-1a", "H1-1b")
+
+    nan = np.isnan(Mc["strong"]) | np.isnan(Mc["weak"])
+    cap, ratio, eq = _solve(g, Pr, Pc, nan, t, "largest P with H1-1 <= 1, moments in proportion (bisection)",
+                            f"{H1} (H1-1a), (H1-1b)")
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        Mr_d = {ax: t.add(f"Mr_{ax}", f"required flexural strength at the demand, {ax} axis",
+                          "given + B1 (Cm 0.6) M_end + B1 (Cm 1) Pr e + B2 Pr D", Mr(Pr, ax), "N*mm",
+                          f"{APP8} (A-8-1)") for ax in AXES}
+        t.add("Pr/Pc", "axial ratio", "Pr / Pc", Pr / Pc, "", H1)
+    t.add("ratio", "interaction ratio", "Pr/Pc >= 0.2: Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy) (H1-1a); "
+          "else Pr/(2 Pc) + Mrx/Mcx + Mry/Mcy (H1-1b)", ratio, "", f"{H1} (H1-1a), (H1-1b)")
+    warnings = []
+    if out.any():
+        warnings.append(Warning("flexure-not-covered", "flexural strength not covered for this section and "
+                                "axis (AISC 360-22 F5 slender web, HSS slender web, round HSS D/t >= 0.45 E/Fy): "
+                                "no beam-column strength", out))
+    return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
+
+
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t):
+    fy, E, G = v["Fy"], v["E"], v["G"]
+
+    def mode(name, attr):
+        return np.broadcast_to(np.asarray(getattr(axial.modes[name], attr), dtype=float), shape).reshape(n)
+
+    eps = np.sqrt(235.0 / fy)
+    cls, _ = classify(kind, sec, eps, Trace())
+    t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls, "",
+          "EN 1993-1-1 Table 5.2")
+    MRk, chi_LT = {}, {}
+    for ax in AXES:
+        Weff = en_effective_modulus(kind, ax, sec, eps, Trace()) if (cls == 4).any() else None
+        sub = Trace()
+        MRk[ax], chi_LT[ax] = en_moment(kind, ax, sec, cls, fy, E, G, v["Lc_twist"], sub, Weff)
+        t.steps += [s.__class__(f"{s.symbol}_{ax}", s.what, s.formula, s.value, s.unit, s.clause)
+                    for s in sub.steps if s.symbol in ("M_Rk", "chi_LT", "Mcr", "lb,LT")]
+    NRk = t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4)", mode("yield", "Pn"), "N",
+                "EN 1993-1-1 6.3.3")
+    chi_y = t.add("chi_y", "flexural buckling factor, strong axis", "Nb,strong / N_Rk",
+                  mode("flexural-strong", "Pn") / NRk, "", "EN 1993-1-1 6.3.1.2")
+    cz = mode("flexural-weak", "Pn") / NRk
+    if kind == "i":
+        cz = np.minimum(cz, mode("torsional", "Pn") / NRk)
+    chi_z = t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
+                  "min(Nb,weak, Nb,torsion) / N_Rk", cz, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
+    lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
+    Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
+    only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
+    Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
+                "end moment only: 0.6 + 0.4 psi, psi = 0; otherwise 1.0 (conservative)",
+                np.where(only_ends["strong"], 0.6, 1.0), "", f"{ANNEX_B} Table B.3")
+    Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
+                "end moment only: 0.6 + 0.4 psi, psi = 0; otherwise 1.0 (conservative)",
+                np.where(only_ends["weak"], 0.6, 1.0), "", f"{ANNEX_B} Table B.3")
+    Ny, Nz = chi_y * NRk / gamma, chi_z * NRk / gamma
+    My_Rd = t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1",
+                  chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")
+    Mz_Rd = t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", MRk["weak"] / gamma,
+                  "N*mm", f"{C633} (6.61), (6.62)")
+    c12 = cls <= 2
+    open_i = kind == "i"
+
+    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
+    has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
+
+    def M_Ed(N, ax):
+        # only the sources this batch has: the bisection calls this some 130 times
+        lam = N / N_Ed
+        out = np.zeros(N.shape)
+        if used[("given", ax)] or used[("ends", ax)]:
+            out = out + lam * (M["given"][ax] + M["ends"][ax])
+        if used[("bow", ax)]:
+            out = out + N * M["bow"][ax]
+        if used[("sway", ax)]:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                sway_amp = np.where(N < Ncr[ax], 1.0 / (1.0 - N / Ncr[ax]), np.inf)
+            out = out + np.where(M["sway"][ax] > 0, sway_amp * N * M["sway"][ax], 0.0)
+        return out
+
+    def factors(N):
+        ny, nz = N / Ny, N / Nz
+        zero = np.zeros(N.shape)
+        kyy = kzy = kyz = kzz = zero
+        if has["strong"]:
+            kyy = np.where(c12, Cmy * np.minimum(1 + (lb_y - 0.2) * ny, 1 + 0.8 * ny),
+                           Cmy * np.minimum(1 + 0.6 * lb_y * ny, 1 + 0.6 * ny))
+            if open_i:
+                d = Cmy - 0.25          # CmLT = Cmy
+                k12 = np.where(lb_z < 0.4, np.minimum(0.6 + lb_z, 1 - 0.1 * lb_z * nz / d),
+                               np.maximum(1 - 0.1 * lb_z * nz / d, 1 - 0.1 * nz / d))
+                k3 = np.maximum(1 - 0.05 * lb_z * nz / d, 1 - 0.05 * nz / d)
+                kzy = np.where(c12, k12, k3)
+            else:
+                kzy = np.where(c12, 0.6 * kyy, 0.8 * kyy)
+        if has["weak"]:
+            kzz12 = (Cmz * np.minimum(1 + (2 * lb_z - 0.6) * nz, 1 + 1.4 * nz) if open_i
+                     else Cmz * np.minimum(1 + (lb_z - 0.2) * nz, 1 + 0.8 * nz))
+            kzz = np.where(c12, kzz12, Cmz * np.minimum(1 + 0.6 * lb_z * nz, 1 + 0.6 * nz))
+            kyz = np.where(c12, 0.6 * kzz, kzz)
+        return kyy, kyz, kzy, kzz
+
+    def both(N):
+        kyy, kyz, kzy, kzz = factors(N)
+        a, b = N / Ny, N / Nz
+        if has["strong"]:
+            my = M_Ed(N, "strong") / My_Rd
+            a, b = a + kyy * my, b + kzy * my
+        if has["weak"]:
+            mz = M_Ed(N, "weak") / Mz_Rd
+            a, b = a + kyz * mz, b + kzz * mz
+        return a, b
+
+    def g(N):
+        a, b = both(N)
+        return np.maximum(a, b), np.where(a >= b, "6.61", "6.62")
+
+    t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
+          "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
+    nan = np.isnan(My_Rd) | np.isnan(Mz_Rd)
+    cap, ratio, eq = _solve(g, N_Ed, design, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
+                            "(bisection)", f"{C633} (6.61), (6.62)")
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        Mr = {ax: t.add(f"M_Ed_{ax}", f"design moment, {ax} axis (first order; sway: 1/(1 - N/Ncr))",
+                        "given + end + N e + N D/(1 - N/Ncr)", M_Ed(N_Ed, ax), "N*mm", C633) for ax in AXES}
+        kyy, kyz, kzy, kzz = factors(N_Ed)
+        for name, k, ax in (("kyy", kyy, "strong"), ("kyz", kyz, "weak"), ("kzy", kzy, "strong"),
+                            ("kzz", kzz, "weak")):
+            if has[ax]:    # a factor on a moment the column does not carry is not shown
+                t.add(name, f"interaction factor {name} at N_Ed", "Annex B", k, "", ANNEX_B)
+        u61, u62 = both(N_Ed)
+    t.add("(6.61)", "interaction, strong-axis buckling",
+          "N/(chi_y N_Rk/gM1) + kyy My/(chi_LT My,Rk/gM1) + kyz Mz/(Mz,Rk/gM1)", u61, "", f"{C633} (6.61)")
+    t.add("(6.62)", "interaction, weak-axis buckling",
+          "N/(chi_z N_Rk/gM1) + kzy My/(chi_LT My,Rk/gM1) + kzz Mz/(Mz,Rk/gM1)", u62, "", f"{C633} (6.62)")
+    t.add("ratio", "interaction ratio", "max((6.61), (6.62))", ratio, "", C633)
+    warnings = []
+    if (np.asarray(M["given"]["strong"] + M["given"]["weak"]) > 0).any():
+        warnings.append(Warning("given-moments-amplified", "moments given with second-order effects are "
+                                "taken as M_Ed in EN 1993-1-1 6.3.3, whose k factors amplify them again "
+                                "(conservative)", np.ones(n, bool)))
+    if nan.any():
+        warnings.append(Warning("flexure-not-covered", "no moment resistance for this section under "
+                                "EN 1993-1-1 (a Class 4 circular hollow section): no beam-column strength", nan))
+    return BeamColumnResult(ratio, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
+
+
+def _elastic(sec, v, M, axial, shape, n, Pr, design, t):
+    Fy, A = v["Fy"], sec["A"]
+    Pe = {ax: np.broadcast_to(np.asarray(axial.modes[f"flexural-{ax}"].Pe, dtype=float), shape).reshape(n)
+          for ax in AXES}
+    My = {"strong": t.add("My_strong", "first-yield moment, strong axis", "Fy Sx", Fy * sec["Sx"], "N*mm", _FY),
+          "weak": t.add("My_weak", "first-yield moment, weak axis", "Fy Sy", Fy * sec["Sy"], "N*mm", _FY)}
+
+    def Mr(P, ax):
+        with np.errstate(divide="ignore", invalid="ignore"):
+            a = np.where(P < Pe[ax], 1.0 / (1.0 - P / Pe[ax]), np.inf)
+        lam = P / Pr
+        m = lam * (M["given"][ax] + M["ends"][ax]) + P * (M["bow"][ax] + M["sway"][ax])
+        return np.where(m > 0, a * m, 0.0)
+
+    def g(P):
+        return P / (Fy * A) + Mr(P, "strong") / My["strong"] + Mr(P, "weak") / My["weak"], \
+            np.full(P.shape, "first yield")
+
+    cap, ratio, eq = _solve(g, Pr, design, np.zeros(n, bool), t,
+                            "largest P with P/(A Fy) + sum M/(1 - P/Pe)/My <= 1 (bisection)", _FY)
+    Mr_d = {ax: Mr(Pr, ax) for ax in AXES}
+    t.add("ratio", "first-yield ratio", "max(P/(A Fy) + sum M amplified / My, P / axial capacity)", ratio, "", _FY)
+    return BeamColumnResult(ratio, eq, cap, My, Mr_d, t, [])
+
+
+__all__ = ["AXES", "SOURCES", "BeamColumnResult", "check_beam_column"]

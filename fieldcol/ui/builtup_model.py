@@ -1,0 +1,243 @@
+"""View-model of the Section tab's built-up card: a column made of parts (channels, angles,
+plates), entered as the arrangement and the few dimensions to measure, shown as a sketch
+with its properties before it is saved.
+
+No Flet here. Entries are kept as typed, keyed ``channel``, ``gap``, ``battens.spacing``, ...
+(a bare number takes the site's unit when saved, as every entry of the app does).
+
+Public API::
+
+    ARRANGEMENTS, TIES, entries(arrangement, tie) -> list[Entry]
+    built_record(arrangement, tie, typed, system) -> dict      (the record's ``built`` object)
+    built_preview(arrangement, tie, typed, system) -> BuiltPreview
+    built_typed(section) -> (arrangement, tie, typed)           (to fill the card again)
+    save_built(store, column_id, arrangement, tie, typed) -> Change
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from fieldcol.errors import InputError
+from fieldcol.ui.model import Line
+from fieldcol.ui.readings import Change, typed_length
+
+if TYPE_CHECKING:
+    from fieldcol.store import Store
+
+ARRANGEMENTS = [("channels", "Two channels"), ("angles-web", "Angles and web plate"),
+                ("angles-box", "Four angles"), ("angles-star", "Angles in a star")]
+TIES = {"channels": [("battens", "Battens"), ("lacing", "Lacing"), ("plates", "Cover plates"),
+                     ("stitch", "Rivets only")],
+        "angles-web": [("none", "No flange plates"), ("flange_plates", "Flange plates")],
+        "angles-box": [("battens", "Battens"), ("lacing", "Lacing")],
+        "angles-star": [("packings", "Packings")]}
+CONNECTIONS = [("riveted", "Riveted"), ("bolted", "Bolted"), ("welded", "Welded")]
+
+
+@dataclass(frozen=True)
+class Entry:
+    """One thing to type: its key, its label, ``part`` (a catalogue name or nothing) or
+    ``length``, and a hint."""
+
+    key: str
+    label: str
+    kind: str = "length"
+    hint: str = ""
+
+
+_PART_HINT = {"channel": "e.g. C12X20.7, MC10X25, UPN 200", "angle": "e.g. L4X4X1/2, L6X4X3/8"}
+_BASE = {
+    "channels": [Entry("channel", "Channel", "part", _PART_HINT["channel"]),
+                 Entry("gap", "Clear gap", hint="between the webs' backs (toes out) or the "
+                                                "toe tips (toes in)")],
+    "angles-web": [Entry("angle", "Angle", "part", _PART_HINT["angle"]),
+                   Entry("web.depth", "Web plate depth"),
+                   Entry("web.thickness", "Web plate thickness")],
+    "angles-box": [Entry("angle", "Angle", "part", _PART_HINT["angle"]),
+                   Entry("depth", "Depth out to out"), Entry("width", "Width out to out")],
+    "angles-star": [Entry("angle", "Angle", "part", "an equal angle, e.g. L3X3X3/8"),
+                    Entry("gap", "Packing thickness", hint="between the angles' backs"),
+                    Entry("pitch", "Packing pitch", hint="along the column")],
+}
+_TIE = {
+    "battens": [Entry("battens.spacing", "Batten spacing", hint="centre to centre"),
+                Entry("battens.depth", "Batten depth", hint="along the column"),
+                Entry("battens.thickness", "Batten thickness")],
+    "lacing": [Entry("lacing.width", "Lacing bar width"),
+               Entry("lacing.thickness", "Lacing bar thickness"),
+               Entry("lacing.pitch", "Lacing pitch", hint="between lacing rivets on one chord")],
+    "plates": [Entry("plates.width", "Cover plate width"),
+               Entry("plates.thickness", "Cover plate thickness")],
+    "stitch": [Entry("pitch", "Rivet pitch", hint="between the stitch rivets along the column")],
+    "flange_plates": [Entry("flange_plates.width", "Flange plate width"),
+                      Entry("flange_plates.thickness", "Flange plate thickness")],
+    "none": [],
+}
+# what to measure, said under the sketch
+MEASURE = {
+    "channels": "Measure one channel (or read its mark), the clear gap between the two, and "
+                "the ties: batten spacing and size, lacing bar and pitch, or the cover plates.",
+    "angles-web": "Measure one angle, the web plate between the angles' heels and its "
+                  "thickness, and the flange plates if there are any.",
+    "angles-box": "Measure one angle and the outside size of the box, then the battens or the "
+                  "lacing on one face.",
+    "angles-star": "Measure one angle, the packing between the backs and the spacing of the "
+                   "packings along the column.",
+}
+
+
+@dataclass
+class BuiltPreview:
+    """What the card shows before saving: property lines, the parts as polygons scaled to a
+    unit box (y down), what to measure, and an error naming the entry (or None)."""
+
+    lines: list[Line] = field(default_factory=list)
+    polygons: list[list[tuple[float, float]]] = field(default_factory=list)
+    measure: str = ""
+    error: str | None = None
+    error_key: str | None = None
+
+
+def entries(arrangement: str, tie: str) -> list[Entry]:
+    """The entries of an arrangement with its ties.
+
+    Example:
+        >>> [e.key for e in entries("channels", "stitch")]
+        ['channel', 'gap', 'pitch']
+    """
+    return list(_BASE[arrangement]) + list(_TIE.get(tie, []))
+
+
+def built_record(arrangement: str, tie: str, typed: dict[str, str], system: str,
+                 toes: str = "out", connection: str = "riveted") -> dict[str, Any]:
+    """The record's ``built`` object from what was typed (lengths kept with their unit).
+
+    Raises:
+        InputError: a missing or unreadable entry, its field the entry's label.
+
+    Example:
+        >>> built_record("channels", "stitch", {"channel": "C12X20.7", "gap": "1/2",
+        ...              "pitch": "24"}, "us")["gap"]
+        '1/2 in'
+    """
+    out: dict[str, Any] = {"arrangement": arrangement, "connection": connection}
+    if arrangement == "channels":
+        out["toes"] = toes
+    for e in entries(arrangement, tie):
+        text = (typed.get(e.key) or "").strip()
+        if e.kind == "part":
+            if not text:
+                raise InputError(e.label.lower(), "", "this is required", e.hint)
+            value: Any = text
+        else:
+            value = typed_length(text, system, e.label.lower())
+        head, _, sub = e.key.partition(".")
+        if sub:
+            out.setdefault(head, {})[sub] = value
+        else:
+            out[head] = value
+    return out
+
+
+def _label_of(fld: str, arrangement: str, tie: str) -> str | None:
+    """The entry key a record path names (``section.built.battens.depth`` -> ``battens.depth``)."""
+    path = fld.removeprefix("section.built.")
+    keys = {e.key for e in entries(arrangement, tie)}
+    while path:
+        if path in keys:
+            return path
+        path = path.rpartition(".")[0]
+    return None
+
+
+def built_preview(arrangement: str, tie: str, typed: dict[str, str], system: str,
+                  toes: str = "out", connection: str = "riveted") -> BuiltPreview:
+    """Properties and a sketch of what was typed, or the error that stops it.
+
+    Example:
+        >>> p = built_preview("channels", "stitch", {"channel": "C12X20.7", "gap": "6",
+        ...                   "pitch": "24"}, "us")
+        >>> p.error, len(p.polygons), p.lines[0].label
+        (None, 2, 'Area')
+    """
+    from fieldcol.builtrecord import parse_built
+
+    prev = BuiltPreview(measure=MEASURE[arrangement])
+    try:
+        spec = built_record(arrangement, tie, typed, system, toes, connection)
+        b = parse_built(spec)
+    except InputError as e:
+        prev.error = f"{e.field}: {e.reason}" + (f" ({e.hint})" if e.hint else "")
+        prev.error_key = _label_of(e.field, arrangement, tie) or next(
+            (x.key for x in entries(arrangement, tie) if x.label.lower() == e.field), None)
+        return prev
+    s = b.section
+    us = system == "us"
+
+    def q(v: float, power: int, unit_mm: str) -> str:
+        if us:
+            return f"{float(v) / 25.4**power:,.4g} in{'' if power == 1 else '^' + str(power)}"
+        return f"{float(v):,.4g} {unit_mm}"
+
+    prev.lines = [Line("Area", q(s.A, 2, "mm^2")), Line("I strong", q(s.Ix, 4, "mm^4")),
+                  Line("I weak", q(s.Iy, 4, "mm^4")), Line("r strong", q(s.rx, 1, "mm")),
+                  Line("r weak", q(s.ry, 1, "mm"))]
+    for ax in b.open_axes:
+        prev.lines.append(Line(f"Chords apart ({ax.axis} axis)",
+                               f"h0 {q(ax.h0, 1, 'mm')}, a/ri {ax.a / ax.ri:.0f}"))
+    pts = [o.xy for o in b.outlines]
+    xs = [p[:, 0] for p in pts]
+    ys = [p[:, 1] for p in pts]
+    x0, x1 = min(x.min() for x in xs), max(x.max() for x in xs)
+    y0, y1 = min(y.min() for y in ys), max(y.max() for y in ys)
+    size = max(x1 - x0, y1 - y0)
+    cx, cy = (x0 + x1) / 2, (y0 + y1) / 2
+    prev.polygons = [[(0.5 + (float(x) - cx) / size, 0.5 - (float(y) - cy) / size)
+                      for x, y in p] for p in pts]
+    return prev
+
+
+def built_typed(section: Any) -> tuple[str, str, dict[str, str], str, str]:
+    """(arrangement, tie, typed entries, toes, connection) of a record's section, to fill the
+    card again; a section that is not built up gives the card's starting state.
+
+    Example:
+        >>> built_typed({"built": {"arrangement": "channels", "channel": "C12X20.7",
+        ...              "gap": "6 in", "pitch": "24 in"}})[:3]
+        ('channels', 'stitch', {'channel': 'C12X20.7', 'gap': '6 in', 'pitch': '24 in'})
+    """
+    b = section.get("built") if isinstance(section, dict) else None
+    if not isinstance(b, dict) or b.get("arrangement") not in dict(ARRANGEMENTS):
+        return "channels", "battens", {}, "out", "riveted"
+    arr = b["arrangement"]
+    tie = next((t for t, _ in TIES[arr] if isinstance(b.get(t), dict)),
+               "stitch" if arr == "channels" else TIES[arr][0][0])
+    typed: dict[str, str] = {}
+    for e in entries(arr, tie):
+        head, _, sub = e.key.partition(".")
+        v = b.get(head)
+        v = v.get(sub) if sub and isinstance(v, dict) else (None if sub else v)
+        if isinstance(v, str):
+            typed[e.key] = v
+    return arr, tie, typed, str(b.get("toes", "out")), str(b.get("connection", "riveted"))
+
+
+def save_built(store: "Store", column_id: str, arrangement: str, tie: str,
+               typed: dict[str, str], toes: str = "out", connection: str = "riveted") -> Change:
+    """Save the built-up section to the column's record and check the column again.
+
+    Raises:
+        InputError: the entry that stops it (nothing is saved).
+
+    Example: ``save_built(store, cid, "channels", "battens", typed).label`` gives
+    ``'built-up section'``.
+    """
+    from fieldcol.builtrecord import parse_built
+    from fieldcol.ui.section import _save_record
+
+    system = store.get_site(store.get_column(column_id).site_id).unit_system
+    spec = built_record(arrangement, tie, typed, system, toes, connection)
+    parse_built(spec)   # refuse before anything is written
+    return _save_record(store, column_id, {"built": spec}, "built-up section")

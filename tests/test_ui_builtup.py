@@ -1,0 +1,101 @@
+"""The Section tab's built-up card: entries to the record, a sketch and properties before
+saving, a save that checks the column again and can be undone; an entry in error is named.
+
+In-process control trees on a real store (the fake session of tests/test_ui_session.py).
+The properties shown are the engine's (checked against sectionproperties in
+tests/test_sections_builtup.py).
+"""
+
+from __future__ import annotations
+
+import flet as ft
+import pytest
+
+from fieldcol.errors import InputError
+from fieldcol.ui import builtup_model as bm
+from fieldcol.ui import readings as r
+from fieldcol.ui import section as sx
+
+from tests.test_ui_session import Screen, _run, demo  # noqa: F401  (the fixture)
+
+BATTENED = {"channel": "C12X20.7", "gap": "6", "battens.spacing": "24",
+            "battens.depth": "8", "battens.thickness": "3/8"}
+
+
+def test_the_card_s_entries_become_the_record_object():
+    rec = bm.built_record("channels", "battens", BATTENED, "us", toes="in")
+    assert rec == {"arrangement": "channels", "connection": "riveted", "toes": "in",
+                   "channel": "C12X20.7", "gap": "6 in",
+                   "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in"}}
+    assert bm.built_typed({"built": rec})[:3] == ("channels", "battens", {
+        "channel": "C12X20.7", "gap": "6 in", "battens.spacing": "24 in",
+        "battens.depth": "8 in", "battens.thickness": "3/8 in"})
+
+
+def test_a_preview_names_the_entry_in_error():
+    p = bm.built_preview("channels", "battens", {**BATTENED, "channel": "C12X99"}, "us")
+    assert p.error_key == "channel" and "not in the parts catalogue" in p.error
+    p = bm.built_preview("channels", "battens", {**BATTENED, "battens.depth": ""}, "us")
+    assert p.error_key == "battens.depth"
+    with pytest.raises(InputError):
+        bm.built_record("angles-box", "lacing", {"angle": "L4X4X1/2"}, "us")
+
+
+def test_save_checks_the_column_and_undo_puts_it_back(demo):  # noqa: F811
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    before = store.get_column(cid).record["section"]
+    ch = bm.save_built(store, cid, "channels", "battens", BATTENED)
+    assert store.get_column(cid).record["section"]["built"]["gap"] == "6 in"
+    assert sx.section_view(store, cid).source == "built"
+    assert store.latest_check(cid).result["section"]["built"] == "channels"
+    r.undo_change(store, ch)
+    assert store.get_column(cid).record["section"] == before
+
+
+def test_the_tab_shows_the_sketch_then_saves(demo):  # noqa: F811
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        await s.go(f"/columns/{cid}")
+        await s.tap("tab-section")
+        assert s.has("built-card")
+        for key, text in BATTENED.items():
+            await s.type(f"built-{key}", text, submit=False)
+        await s.tap("built-show")
+        assert s.has("built-sketch") and "Area" in s.text("built-preview")
+        await s.tap("save-built")
+        assert s.text("save-note").startswith("Saved built-up section")
+        assert store.get_column(cid).record["section"]["built"]["channel"] == "C12X20.7"
+        await s.type("built-gap", "-1", submit=False)
+        await s.tap("built-show")
+        assert s.inner("built-gap", ft.TextField).error
+    _run(walk())
+
+
+def test_readings_of_a_plain_section_stay_out_of_a_built_up_one(demo):  # noqa: F811
+    # C/3-G's earlier section readings (a measured I) must not be written into the parts
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    sx.save_measured(store, cid, "i", {"d": "14.02", "bf": "14.52", "tf": "0.71", "tw": "0.44"},
+                     "caliper", person="T. Nguyen")
+    r.add_reading(store, cid, "thickness", "0.6", element="flange", person="T. Nguyen")
+    bm.save_built(store, cid, "channels", "battens", BATTENED)
+    rec = store.current_record(cid)
+    assert set(rec["section"]) == {"built"}
+    assert store.latest_check(cid).result["section"]["built"] == "channels"
+
+
+def test_a_thickness_reading_on_a_built_up_column_is_refused_not_ignored(demo):  # noqa: F811
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    bm.save_built(store, cid, "channels", "battens", BATTENED)
+    n = len(store.measurements(cid))
+    with pytest.raises(InputError) as e:
+        r.add_reading(store, cid, "thickness", "0.3", element="flange", person="T. Nguyen")
+    assert e.value.field == "element" and "built-up" in str(e.value)
+    assert len(store.measurements(cid)) == n
+    assert r.add_reading(store, cid, "bow", "1/8", axis="strong", person="T. Nguyen").label
