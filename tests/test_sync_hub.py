@@ -122,6 +122,30 @@ def test_three_devices_every_order_end_identical(tmp_path: Path, hub):
     assert len(a.list_columns(s.id)) == 18
 
 
+def test_one_tag_from_two_devices_is_kept_twice_and_recorded(tmp_path: Path, hub):
+    """Two engineers each add column "C9" to the same site offline: both columns reach every
+    replica, the first tagged keeps "C9", the other shows it with a suffix, and a duplicate
+    record says so on every replica (nothing dropped, nothing merged behind anyone's back)."""
+    (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
+    s = _site(a)
+    sync_with_hub(a, hub.url, ta)
+    sync_with_hub(b, hub.url, tb)
+    ca = _col(a, s.id, "C9")
+    cb = _col(b, s.id, "C9")
+    for st, tok in ((a, ta), (b, tb), (a, ta)):
+        sync_with_hub(st, hub.url, tok)
+    held = _held(hub, tmp_path)
+    _same([a, b, held])
+    for st in (a, b, held):
+        rows = {r.id: r.tag for r in st.list_columns(s.id)}
+        assert set(rows) == {ca.id, cb.id}
+        first, second = sorted(rows.values())
+        assert first == "C9" and second.startswith("C9 (") and second.endswith(")")
+        (c,) = st.conflicts()
+        assert (c.kind, c.field, c.value) == ("duplicate", "tag", "C9")
+        assert rows[c.row_id] == second
+
+
 class _CutAfter(httpx.HTTPTransport):
     """Deliver requests, but lose the answer to the n-th one whose path matches."""
 
@@ -155,7 +179,7 @@ def test_push_cut_after_the_hub_committed_then_resumed(tmp_path: Path, hub):
 
 
 def test_pull_cut_midway_then_resumed(tmp_path: Path, hub, monkeypatch):
-    monkeypatch.setattr(client, "PULL_BATCH", 5)
+    monkeypatch.setattr(client, "PULL_BATCH", 1)  # a row per operation: 5 in all
     (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
     s = _site(a)
     for i in range(4):
@@ -364,3 +388,13 @@ def test_hub_device_commands(tmp_path: Path, capsys):
     assert main(["hub", "revoke-device", "tablet-1", "--data", data]) == 0
     assert main(["hub", "serve", "--data", data, "--host", "0.0.0.0", "--port", "8765"]) == 2
     assert "TLS" in capsys.readouterr().err
+
+
+def test_the_office_view_is_refused_beyond_loopback_without_tls_or_on_the_hubs_port(
+        tmp_path: Path, capsys):
+    data = str(tmp_path / "hub")
+    assert main(["hub", "serve", "--data", data, "--host", "0.0.0.0", "--tls-cert", "c.pem",
+                 "--tls-key", "k.pem", "--office-port", "8766"]) == 2
+    assert "office-port" in capsys.readouterr().err
+    assert main(["hub", "serve", "--data", data, "--port", "8765", "--office-port", "8765"]) == 2
+    assert "other than the hub's" in capsys.readouterr().err

@@ -86,6 +86,10 @@ def test_hub_commands_take_a_database_and_exit_2_when_it_is_out_of_reach(
     assert "database" in err and "cannot reach the database" in err
     assert main(["hub", "devices", "--data", data, "--database", "mysql://x@h/db"]) == 2
     assert "not a PostgreSQL address" in capsys.readouterr().err
+    # the office view reads the SQLite hub's merged records; a PostgreSQL hub keeps operations
+    assert main(["hub", "serve", *db, "--port", str(free_port()),
+                 "--office-port", str(free_port())]) == 2
+    assert "office" in capsys.readouterr().err
     # the schema is made once and known by name: a second start changes nothing
     PgHubStore(data, pg_database).close()
     with psycopg.connect(pg_database) as c:

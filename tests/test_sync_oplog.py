@@ -10,7 +10,7 @@ import random
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, given, settings, strategies as st
+from hypothesis import HealthCheck, Phase, given, settings, strategies as st
 
 from fieldcol.store import Store
 from fieldcol.store._oplog import Op
@@ -36,18 +36,49 @@ def site(s: Store, name: str = "Kestrel Lane Print Works"):
     return s.add_site(name, code="aisc360-22", unit_system="us")
 
 
-def test_every_write_logs_its_fields_in_the_same_transaction(tmp_path: Path):
+def test_every_write_logs_its_row_in_the_same_transaction(tmp_path: Path):
     with Store(tmp_path / "a.db") as a:
         st_ = site(a)
         n = a.count_ops()
-        assert n >= 4  # name, code, unit_system, created_at
+        (made,) = a.ops_after(0, 100)  # one operation for the row, carrying its fields
+        assert made.field == "*" and {"name", "code", "unit_system", "created_at"} <= set(
+            made.fields())
         a.update_site(st_.id, address="1 Kestrel Lane")
         ops = a.ops_after(0, 100)[n:]
-        assert [(o.field, o.value) for o in ops if o.field != "updated_at"] == [
-            ("address", '"1 Kestrel Lane"')]
+        assert len(ops) == 1
+        assert {f: v for f, v in ops[0].fields().items() if f != "updated_at"} == {
+            "address": '"1 Kestrel Lane"'}
         assert ops[0].seen > 0  # the editor had seen the row's first version
         a.delete("sites", st_.id)
-        assert a.ops_after(0, 100)[-1].field == "deleted_at"
+        assert "deleted_at" in a.ops_after(0, 100)[-1].fields()
+
+
+def test_operations_of_one_field_each_still_merge(tmp_path: Path):
+    """Operations of one field each (an older device, a settled conflict) mix with row ones."""
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        send(a, b)
+        (row,) = [o for o in a.ops_after(0, 100) if o.tbl == "sites"]
+        one = Op("f1", "old-device", row.hlc + 5, "sites", s.id, "address", '"by the canal"',
+                 row.hlc)
+        for st_ in (a, b):
+            st_.apply_ops([one], source="bundle")
+        assert a.get_site(s.id).address == b.get_site(s.id).address == "by the canal"
+        assert dump(a) == dump(b)
+
+
+def test_a_bulk_write_of_many_rows_merges_in_bulk_and_ends_equal(tmp_path: Path):
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        with a.transaction():
+            cols = [a.add_column(s.id, {"tag": f"C{i}", "section": "W10X49", "length": "14 ft"})
+                    for i in range(30)]
+        a.update_column(cols[3].id, location="by the press")
+        ops = a.ops_after(0, 10**6)
+        assert len(ops) < 40  # a row each (plus the site and the edit), not a field each
+        b.apply_ops(list(reversed(ops)), source="bundle")  # children before parents, too
+        assert dump(a) == dump(b)
+        assert b.get_column(cols[3].id).location == "by the press"
 
 
 def test_a_failed_write_logs_nothing(tmp_path: Path):
@@ -153,6 +184,12 @@ def test_unknown_fields_are_refused_whole(tmp_path: Path):
         with pytest.raises(InputError) as e:
             a.apply_ops([bad], source="bundle")
         assert e.value.field == "ops[0].field" and a.count_ops() == n
+        bad_row = Op("y", "d", 1 << 16, "sites", "r", "*", '{"name": "A", "colour": "red"}', 0)
+        with pytest.raises(InputError) as e:
+            a.apply_ops([bad_row], source="bundle")
+        assert e.value.field == "ops[0].value" and a.count_ops() == n
+        with pytest.raises(InputError):
+            Op.from_json({**bad_row.to_json(), "value": '["not", "an", "object"]'})
 
 
 # -- convergence, whatever the order ------------------------------------------------------------
@@ -163,11 +200,32 @@ ACTIONS = st.lists(st.tuples(st.integers(0, 2), st.sampled_from(["edit", "rename
                              st.integers(0, 1), st.integers(0, 2)), min_size=1, max_size=14)
 
 
-@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@pytest.fixture(scope="module")
+def blank(tmp_path_factory) -> Path:
+    """A new store's file without its device id: each copy opens as a device of its own (a
+    copy costs far less than creating the schema, so hypothesis can try hundreds of cases)."""
+    import sqlite3
+
+    path = tmp_path_factory.mktemp("blank") / "blank.db"
+    Store(path).close()
+    conn = sqlite3.connect(path)
+    with conn:
+        conn.execute("DELETE FROM meta WHERE key = 'device_id'")
+    conn.close()
+    return path
+
+
+# no shrinking: a failure prints its case at once (shrinking one can take many minutes)
+@settings(max_examples=300, deadline=None, phases=[Phase.explicit, Phase.reuse, Phase.generate],
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(actions=ACTIONS, seed=st.integers(0, 10**6))
-def test_any_order_any_repeats_converge(tmp_path_factory, actions, seed):
+def test_any_order_any_repeats_converge(tmp_path_factory, blank, actions, seed):
     """Three devices edit offline; their operations arrive shuffled and repeated; all end equal."""
+    import shutil
+
     root = tmp_path_factory.mktemp("conv")
+    for i in range(3):
+        shutil.copy(blank, root / f"d{i}.db")
     stores = [Store(root / f"d{i}.db") for i in range(3)]
     try:
         base = stores[0]

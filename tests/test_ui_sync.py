@@ -18,6 +18,9 @@ from fieldcol.store import Store
 from fieldcol.sync._loopback import RunningHub, free_port
 from fieldcol.sync.client import sync_with_hub
 
+from fieldcol.sync._hubstore import HubStore
+from fieldcol.sync.client import SyncReport
+
 from test_sync_oplog import send
 from test_ui_browser import PHONE, SHOTS, _open, _poll, _sel, _wait, browser  # noqa: F401
 
@@ -71,3 +74,64 @@ def test_sync_screen_syncs_and_shows_conflicts(tmp_path: Path, browser):
     with Store(db) as a:
         assert a.conflicts() == []
         assert a.get_column(col.id).location in ("by the press", "by the dock")
+
+
+def _listening(proc: subprocess.Popen, port: int, log: Path) -> None:
+    deadline = time.monotonic() + 60
+    while True:
+        assert proc.poll() is None, log.read_text()
+        try:
+            socket.create_connection(("127.0.0.1", port), timeout=0.5).close()
+            return
+        except OSError:
+            assert time.monotonic() < deadline, log.read_text()
+            time.sleep(0.1)
+
+
+def test_the_office_view_shows_every_site_from_every_device(tmp_path: Path, browser):
+    """`fieldcol hub serve --office-port`: two devices sync to the hub over HTTP; the app in a
+    browser over the hub's records shows both devices' sites; /sync is one tap away."""
+    data = tmp_path / "hub"
+    hub = HubStore(data)
+    tokens = [hub.add_device("site-phone"), hub.add_device("site-tablet")]
+    hub.close()
+    port, office = free_port(), free_port()
+    log = tmp_path / "hub.log"
+    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true"}
+    with open(log, "w") as out:
+        proc = subprocess.Popen([sys.executable, "-m", "fieldcol", "hub", "serve", "--data",
+                                 str(data), "--port", str(port), "--office-port", str(office)],
+                                stdout=out, stderr=subprocess.STDOUT, env=env)
+    try:
+        _listening(proc, port, log)
+        names = ["Kestrel Lane Print Works", "Heron Quay Cold Store"]
+        for i, (name, token) in enumerate(zip(names, tokens)):
+            with Store(tmp_path / f"dev{i}.db") as s:
+                site = s.add_site(name, code="aisc360-22", unit_system="us")
+                s.add_column(site.id, {"tag": f"D{i}", "section": "W10X49", "length": "14 ft"})
+                report = sync_with_hub(s, f"http://127.0.0.1:{port}", token)
+                assert isinstance(report, SyncReport) and report.sent == 2
+        _listening(proc, office, log)
+        assert f"http://127.0.0.1:{office}" in log.read_text()
+        page = _open(browser, f"http://127.0.0.1:{office}", PHONE)
+        for name in names:
+            _poll(lambda: page.content(), lambda html, n=name: n in html, f"site {name}")
+        _wait(page, "open-sync").click()
+        _wait(page, "sync-now")
+        _wait(page, "field-hub-url")
+        assert all("rive" in u for u in page.refused)  # the one font loader it tries
+    finally:
+        proc.terminate()
+        proc.wait(10)
+
+
+def test_sync_never_imports_the_app():
+    """The hub takes the office view as a callable: nothing under fieldcol/sync imports ui."""
+    import ast
+
+    root = Path(__file__).resolve().parents[1] / "fieldcol" / "sync"
+    for f in root.glob("*.py"):
+        for node in ast.walk(ast.parse(f.read_text())):
+            names = [a.name for a in node.names] if isinstance(node, ast.Import) else \
+                [node.module or ""] if isinstance(node, ast.ImportFrom) else []
+            assert not any(n.startswith(("fieldcol.ui", "flet")) for n in names), f

@@ -25,6 +25,9 @@ def register(sub: argparse._SubParsersAction) -> None:
                    help="address to listen on (default 127.0.0.1; beyond it needs TLS)")
     s.add_argument("--tls-cert", help="certificate file (PEM) to serve HTTPS directly")
     s.add_argument("--tls-key", help="its private key file (PEM)")
+    s.add_argument("--office-port", type=int,
+                   help="also serve the office view on this port: the app in a browser over "
+                        "every device's records (on --host; beyond loopback with an access key)")
     s.add_argument("--insecure-ok", action="store_true",
                    help="listen beyond this computer without TLS (a network you trust only)")
     for name, helptext in (("add-device", "allow a device; prints its token on the last line"),
@@ -56,6 +59,22 @@ def run(args: argparse.Namespace) -> int:
 
         if not 1 <= args.port <= 65535:
             raise InputError("port", str(args.port), "a port is 1 to 65535", "e.g. 8765")
+        office = None
+        if args.office_port is not None:
+            if not 1 <= args.office_port <= 65535 or args.office_port == args.port:
+                raise InputError("office-port", str(args.office_port), "a port is 1 to 65535, "
+                                 "other than the hub's", "e.g. 8766")
+            from fieldcol.ui._access import is_loopback
+            from fieldcol.ui.office import office_runner
+
+            if not is_loopback(args.host) and not args.insecure_ok:
+                raise InputError("office-port", str(args.office_port), "the office view has no "
+                                 "TLS of its own and would listen beyond this computer",
+                                 "serve the hub on 127.0.0.1 behind a TLS reverse proxy, or "
+                                 "pass --insecure-ok on a network you trust")
+
+            office = office_runner(args.host, args.office_port,
+                                   say=lambda line: print(line, flush=True))
         where = f"data in {args.data}"
         if args.database:
             from fieldcol.sync._hubstore_pg import masked
@@ -63,7 +82,8 @@ def run(args: argparse.Namespace) -> int:
         print(f"fieldcol hub on http://{args.host}:{args.port} ({where}); Ctrl-C stops",
               flush=True)
         serve(args.data, args.host, args.port, insecure_ok=args.insecure_ok,
-              certfile=args.tls_cert, keyfile=args.tls_key, database=args.database)
+              certfile=args.tls_cert, keyfile=args.tls_key, database=args.database,
+              office=office)
         return 0
     hub = open_hub(args.data, args.database)
     try:

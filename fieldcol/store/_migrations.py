@@ -53,6 +53,16 @@ def _m005_field_notes(db: Database) -> None:
     _each(db, V5_SQL)
 
 
+@migrations(name="m006_row_ops")
+def _m006_row_ops(db: Database) -> None:
+    # From here a written row is logged as one operation carrying its changed fields (field
+    # "*"), which an older fieldcol cannot read: this step makes it refuse the store and makes
+    # the hub tell an older device to update. The index over every field's value is replaced by
+    # one per unique key field (made by _oplog.install after each step): only keys are looked
+    # up by value, and indexing every record's text made each merged row cost several writes.
+    db.execute("DROP INDEX IF EXISTS sync_fields_value")
+
+
 #: names in order; the schema version is the count applied
 MIGRATION_NAMES: tuple[str, ...] = tuple(m.name for m in migrations.pending(Database(memory=True)))
 SCHEMA_VERSION = len(MIGRATION_NAMES)

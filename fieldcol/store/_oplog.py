@@ -1,8 +1,9 @@
 """The operations log: every change to a data table as per-field operations, and their merge.
 
 Capture is by construction: triggers on every data table note the id of each row written, and
-the store's outermost transaction turns those rows into operations (one per field whose value
-changed) just before it commits. Any write path, including tables and columns added later, is
+the store's outermost transaction turns those rows into operations (one per written row,
+carrying every field whose value changed: field ``"*"``, value a JSON object) just before it
+commits. Operations of one field each (older stores, a settled conflict) stay valid. Any write path, including tables and columns added later, is
 covered as long as it runs inside ``Store._tx()``.
 
 Merge is a pure function of the set of operations, so every replica ends the same whatever the
@@ -23,21 +24,28 @@ a counter, never going back and always past every clock seen from other devices.
 from __future__ import annotations
 
 import json
+import math
 import re
 import sqlite3
 import time
 import uuid
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+
+_encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
 #: the key travels with every operation, not as a field
 DERIVED = ("id",)
 #: bookkeeping that changes with every edit: last writer wins, never flagged
 UNFLAGGED = ("updated_at", "device_id", "created_at")
 BOOK = ("id", "created_at", "updated_at", "device_id", "deleted_at")
+#: the field name of an operation carrying several fields of one row (value: a JSON object)
+ROW = "*"
+#: the longest value an operation may carry (a row's fields together)
+MAX_VALUE_CHARS = 4_000_000
 #: an operation stamped further ahead of the receiver's clock than this is refused
 FUTURE_TOLERANCE_MS = 15 * 60 * 1000
 _SHIFT = 16
@@ -106,10 +114,11 @@ CREATE TABLE sync_dirty (
 
 @dataclass(frozen=True)
 class Op:
-    """One field of one row set to one value by one device at one clock reading.
+    """Fields of one row set by one device at one clock reading.
 
-    ``value`` is the JSON text of the stored value; ``seen`` the row version (greatest ``hlc``
-    of its operations) the editor had when making the change.
+    ``field`` is one field and ``value`` the JSON text of its stored value, or ``field`` is
+    ``ROW`` (``"*"``) and ``value`` a JSON object of field -> value (a whole written row).
+    ``seen`` is the row version (greatest ``hlc`` of its operations) the editor had in hand.
     """
     op_id: str
     device_id: str
@@ -119,6 +128,8 @@ class Op:
     field: str
     value: str | None
     seen: int
+    #: field -> value as decoded when the operation was read and checked (not its identity)
+    decoded: dict[str, Any] | None = _field(default=None, compare=False, repr=False)
 
     def to_json(self) -> dict[str, Any]:
         """The operation as a JSON object (for bundles and the hub).
@@ -127,7 +138,20 @@ class Op:
             >>> Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json()["field"]
             'name'
         """
-        return asdict(self)
+        return {"op_id": self.op_id, "device_id": self.device_id, "hlc": self.hlc,
+                "tbl": self.tbl, "row_id": self.row_id, "field": self.field,
+                "value": self.value, "seen": self.seen}
+
+    def fields(self) -> dict[str, str | None]:
+        """Field -> JSON text of the value it sets (None: SQL NULL), for both shapes.
+
+        Example:
+            >>> Op("o", "d", 5, "sites", "r", "*", '{"name": "A", "owner_ref": null}', 0).fields()
+            {'name': '"A"', 'owner_ref': None}
+        """
+        if self.field != ROW:
+            return {self.field: self.value}
+        return {k: _dump(v) for k, v in json.loads(self.value or "{}").items()}
 
     @staticmethod
     def from_json(obj: Any, where: str = "op") -> "Op":
@@ -152,18 +176,54 @@ class Op:
                 raise InputError(f"{where}.{k}", repr(val)[:40], "expected a clock reading", None)
             out[k] = val
         val = obj.get("value")
-        if val is not None:
-            if not isinstance(val, str) or len(val) > 1_000_000:
+        values = {out["field"]: None}
+        if val is not None or out["field"] == ROW:
+            if not isinstance(val, str) or len(val) > MAX_VALUE_CHARS:
                 raise InputError(f"{where}.value", repr(val)[:40], "expected JSON text", None)
             try:
                 decoded = json.loads(val)
             except ValueError:
                 raise InputError(f"{where}.value", val[:40], "not valid JSON", None) from None
-            if not (decoded is None or isinstance(decoded, (str, int, float))):
+            if out["field"] == ROW:
+                if not isinstance(decoded, dict) or not decoded:
+                    raise InputError(f"{where}.value", val[:40], "a row's fields are a JSON "
+                                     "object of field names and values", None)
+                # checked by C-level passes (a sync checks every field of every row); the
+                # loop below runs only to name what is wrong
+                if not (_SCALARS.issuperset(map(type, decoded.values()))
+                        and 0 < min(map(len, decoded)) and max(map(len, decoded)) <= 200):
+                    for k, v in decoded.items():
+                        if not 0 < len(k) <= 200 or not _scalar(v):
+                            raise InputError(f"{where}.value.{k[:40]}", repr(v)[:40],
+                                             "a field holds text or a number", None)
+                values = decoded
+            elif not _scalar(decoded):
                 raise InputError(f"{where}.value", val[:40], "a field holds text or a number",
                                  None)
+            else:
+                values = {out["field"]: decoded}
         out["value"] = val
-        return Op(**out)
+        return Op(**out, decoded=values)
+
+
+#: the kinds of value a field holds (bool: a JSON true or false, read as before)
+_SCALARS = frozenset({type(None), str, int, float, bool})
+
+
+def _scalar(v: Any) -> bool:
+    return v is None or isinstance(v, (str, int, float))
+
+
+def row_op(op_id: str, device_id: str, hlc: int, tbl: str, row_id: str,
+           values: dict[str, Any], seen: int) -> Op:
+    """One operation setting several fields of a row (``values``: field -> stored value).
+
+    Example:
+        >>> row_op("o", "d", 5, "sites", "r", {"name": "A"}, 0).fields()
+        {'name': '"A"'}
+    """
+    return Op(op_id, device_id, hlc, tbl, row_id, ROW,
+              json.dumps(values, ensure_ascii=False, sort_keys=True), seen)
 
 
 @dataclass(frozen=True)
@@ -304,8 +364,9 @@ class Schema:
                 break
         return done
 
-    def check(self, op: Op, where: str = "op") -> None:
-        """Refuse an operation naming a table or field this store does not have.
+    def check(self, op: Op, where: str = "op") -> dict[str, Any]:
+        """Refuse an operation naming a table or field this store does not have; returns the
+        values it sets (field -> stored value), decoded once for the merge.
 
         Example:
             >>> Schema(store.db.conn).check(Op("o", "d", 1, "sites", "r", "colour", None, 0))
@@ -315,15 +376,42 @@ class Schema:
         if op.tbl not in self.columns:
             raise InputError(f"{where}.tbl", op.tbl, "not a synced table of this store",
                              "update fieldcol if the other device is newer")
-        if op.field not in self.columns[op.tbl] or op.field in DERIVED:
-            raise InputError(f"{where}.field", op.field, f"{op.tbl} has no such field",
-                             "update fieldcol if the other device is newer")
-        if (op.tbl, op.field) in _FILE_FIELDS and op.value is not None:
-            # a row naming a file: only our own content-addressed layout, never a path out
-            name = json.loads(op.value)
-            if not isinstance(name, str) or not _FILE_FIELDS[(op.tbl, op.field)].fullmatch(name):
-                raise InputError(f"{where}.value", op.value[:80],
-                                 "not a photo file name of this store", None)
+        if op.decoded is not None:
+            values = op.decoded
+            at = f"{where}.value" if op.field == ROW else f"{where}.field"
+        elif op.field == ROW:
+            try:
+                values = json.loads(op.value or "")
+            except ValueError:
+                values = None
+            if not isinstance(values, dict):
+                raise InputError(f"{where}.value", str(op.value)[:40], "a row's fields are a "
+                                 "JSON object of field names and values", None)
+            at = f"{where}.value"
+        else:
+            values = {op.field: None if op.value is None else _Raw(op.value)}
+            at = f"{where}.field"
+        cols = self.columns[op.tbl]
+        for field, value in values.items():
+            if field not in cols or field in DERIVED:
+                raise InputError(at, field, f"{op.tbl} has no such field",
+                                 "update fieldcol if the other device is newer")
+            if isinstance(value, _Raw):
+                try:
+                    value = values[field] = json.loads(value)
+                except ValueError:
+                    raise InputError(f"{where}.value", value[:40], "not valid JSON",
+                                     None) from None
+            if (op.tbl, field) in _FILE_FIELDS and value is not None:
+                # a row naming a file: only our own content-addressed layout, never a path out
+                if not isinstance(value, str) or not _FILE_FIELDS[(op.tbl, field)].fullmatch(value):
+                    raise InputError(f"{where}.value", str(value)[:80],
+                                     "not a photo file name of this store", None)
+        return values
+
+
+class _Raw(str):
+    """JSON text still to be decoded (an operation of one field)."""
 
 
 def install(conn: sqlite3.Connection, device_id: str | None) -> None:
@@ -333,6 +421,10 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
     operations become operations of the device that last wrote them, at that time.
     """
     schema = Schema(conn)
+    for key in sorted({u[0] for t in schema.tables for u in schema.uniques[t]}):
+        # the claims to a unique key are looked up by value: index only those fields' values
+        conn.execute(f"CREATE INDEX IF NOT EXISTS {_key_index(key)} ON sync_fields(tbl, value) "
+                     f"WHERE field = '{key}'")
     for t in schema.tables:
         for when in ("INSERT", "UPDATE"):
             conn.execute(
@@ -345,9 +437,24 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
     flush(conn, device_id or "", schema, backfill=True)
 
 
+def _key_index(key: str) -> str:
+    return f"sync_fields_key_{key}"
+
+
 # -- capture ---------------------------------------------------------------------------------
 def _dump(value: Any) -> str | None:
-    return None if value is None else json.dumps(value, ensure_ascii=False)
+    """The JSON text of a stored value, as ``json.dumps(value, ensure_ascii=False)`` writes it
+    (the common kinds without its general machinery: a merge writes hundreds of thousands)."""
+    if value is None:
+        return None
+    kind = type(value)
+    if kind is str:
+        return _encode_text(value)
+    if kind is int:
+        return int.__repr__(value)
+    if kind is float and math.isfinite(value):
+        return float.__repr__(value)
+    return json.dumps(value, ensure_ascii=False)
 
 
 def _iso_ms(text: Any) -> int:
@@ -357,74 +464,123 @@ def _iso_ms(text: Any) -> int:
         return 0
 
 
+def _chunks(items: list[Any], n: int = 500) -> Iterable[list[Any]]:
+    for i in range(0, len(items), n):
+        yield items[i:i + n]
+
+
+def _marks(part: list[Any]) -> str:
+    return ", ".join("?" for _ in part)
+
+
 def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
           backfill: bool = False) -> int:
-    """Turn the rows noted as written into operations (one per changed field); returns how many.
+    """Turn the rows noted as written into operations (one per row, carrying the fields that
+    changed); returns how many fields changed.
 
     Called inside the writing transaction, so a change and its operations commit together.
+    Rows are read a table at a time, so a bulk write costs a few statements per 500 rows.
     With ``backfill`` rows keep the device and time of their last write (first logging).
     """
     dirty = conn.execute("SELECT tbl, row_id FROM sync_dirty").fetchall()
     if not dirty:
         return 0
     hlc = hlc_tick(conn)
-    made = 0
+    by_tbl: dict[str, list[str]] = {}
     for tbl, row_id in dirty:
-        if tbl not in schema.columns:
-            continue
-        cur = conn.execute(f"SELECT * FROM {tbl} WHERE id = ?", [row_id])
-        names = [d[0] for d in cur.description]
-        row = cur.fetchone()
-        if row is None:
-            continue
-        now = dict(zip(names, row))
-        known = {r[0]: (r[1], r[2]) for r in conn.execute(
-            "SELECT field, mat, value FROM sync_fields WHERE tbl = ? AND row_id = ?", [tbl, row_id])}
-        have = {f: m for f, (m, _) in known.items()}
-        seen_row = conn.execute("SELECT max_hlc FROM sync_rows WHERE tbl = ? AND row_id = ?",
-                                [tbl, row_id]).fetchone()
-        seen = seen_row[0] if seen_row else 0
-        at, dev = hlc, device_id
-        if backfill:
-            at = max(_iso_ms(now.get("updated_at")) << _SHIFT, seen + 1)
-            dev = now.get("device_id") or device_id
-        ops = []
-        for k, val in now.items():
-            if k in DERIVED:
-                continue
-            j = _dump(val)
-            if have.get(k) != j:
-                ops.append(Op(str(uuid.uuid4()), dev, at, tbl, row_id, k, j, seen))
-        if not ops:
-            continue
-        _store_ops(conn, ops, "local")
-        conn.executemany(
-            "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-            "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
-            "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
-            [(o.tbl, o.row_id, o.field, o.hlc, o.op_id, o.value, o.value) for o in ops])
-        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
-                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
-                     [tbl, row_id, at])
-        made += len(ops)
-        changed = {o.field for o in ops}
-        for key, scope, live in schema.uniques[tbl]:
-            if changed & {key, "deleted_at", *scope}:
-                for raw in {known.get(key, (None, None))[1], _dump(now.get(key))}:
-                    if raw is not None:
-                        _settle_key(conn, tbl, key, scope, live, raw)
+        by_tbl.setdefault(tbl, []).append(row_id)
+    ops: list[Op] = []
+    fields_rows: list[tuple] = []
+    rows_rows: list[tuple] = []
+    settle: list[tuple] = []
+    for tbl in (t for t in schema.tables if t in by_tbl):
+        for part in _chunks(by_tbl[tbl]):
+            cur = conn.execute(f"SELECT * FROM {tbl} WHERE id IN ({_marks(part)})", part)
+            names = [d[0] for d in cur.description]
+            now_rows = {}
+            for r in cur:
+                row = dict(zip(names, r))
+                now_rows[row["id"]] = row
+            known: dict[str, dict[str, tuple]] = {}
+            for rid, f, mat, value in conn.execute(
+                    f"SELECT row_id, field, mat, value FROM sync_fields WHERE tbl = ? AND row_id "
+                    f"IN ({_marks(part)})", [tbl, *part]):
+                known.setdefault(rid, {})[f] = (mat, value)
+            seen_of = dict(conn.execute(f"SELECT row_id, max_hlc FROM sync_rows WHERE tbl = ? "
+                                        f"AND row_id IN ({_marks(part)})", [tbl, *part]).fetchall())
+            for row_id in part:
+                now = now_rows.get(row_id)
+                if now is None:
+                    continue
+                have = known.get(row_id, {})
+                seen = seen_of.get(row_id, 0)
+                at, dev = hlc, device_id
+                if backfill:
+                    at = max(_iso_ms(now.get("updated_at")) << _SHIFT, seen + 1)
+                    dev = now.get("device_id") or device_id
+                changed: dict[str, Any] = {}
+                texts: dict[str, str | None] = {}
+                for k, val in now.items():
+                    if k in DERIVED:
+                        continue
+                    j = _dump(val)
+                    if have.get(k, (None,))[0] != j:
+                        changed[k] = val
+                        texts[k] = j
+                if not changed:
+                    continue
+                op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
+                ops.append(op)
+                fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+                rows_rows.append((tbl, row_id, at))
+                for key, scope, live in schema.uniques[tbl]:
+                    if set(changed) & {key, "deleted_at", *scope}:
+                        for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
+                            if raw is not None:
+                                settle.append((tbl, key, scope, live, raw))
+    _store_ops(conn, ops, "local", all_new=True)
+    conn.executemany(
+        "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+        "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
+        fields_rows)
+    conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
+                     "excluded.max_hlc)", rows_rows)
+    for args in dict.fromkeys(settle):
+        _settle_key(conn, *args)
+    _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     conn.execute("DELETE FROM sync_dirty")
-    return made
+    return len(fields_rows)
 
 
-def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str) -> list[Op]:
-    """Insert operations, skipping ids already held (or repeated); returns those that were new."""
+def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:
+    """Work out again the conflicts of edited rows that had some: an edit made having seen
+    both values settles them here exactly as on a replica that receives it later."""
+    for tbl, ids in _by_table(keys).items():
+        for part in _chunks(ids):
+            had = [r[0] for r in conn.execute(
+                f"SELECT DISTINCT row_id FROM sync_conflicts WHERE tbl = ? AND kind != "
+                f"'duplicate' AND row_id IN ({_marks(part)})", [tbl, *part])]
+            for row_id in had:
+                ops = [e for r in conn.execute(
+                    "SELECT op_id, device_id, hlc, tbl, row_id, field, value, seen FROM sync_ops "
+                    "WHERE tbl = ? AND row_id = ?", [tbl, row_id]) for e in _entries(Op(*r))]
+                conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? "
+                             "AND kind != 'duplicate'", [tbl, row_id])
+                _insert_conflicts(conn, [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6],
+                                          c[7]) for c in _resolve(ops)[2]])
+
+
+def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str, *,
+               all_new: bool = False) -> list[Op]:
+    """Insert operations, skipping ids already held (or repeated); returns those that were new.
+    ``all_new``: ids made here just now (nothing to look up)."""
     held: set[str] = set()
-    ids = list({o.op_id for o in ops})
-    for i in range(0, len(ids), 500):
-        part = ids[i:i + 500]
-        held.update(r[0] for r in conn.execute(
-            f"SELECT op_id FROM sync_ops WHERE op_id IN ({', '.join('?' for _ in part)})", part))
+    if not all_new:
+        for part in _chunks(list({o.op_id for o in ops})):
+            held.update(r[0] for r in conn.execute(
+                f"SELECT op_id FROM sync_ops WHERE op_id IN ({_marks(part)})", part))
     new = []
     for o in ops:
         if o.op_id not in held:
@@ -439,11 +595,29 @@ def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str) -> list[Op]
 
 
 # -- merge -----------------------------------------------------------------------------------
+#: one field as one operation set it:
+#: (hlc, op_id, JSON text, seen, device_id, field, from a row operation, the value itself)
+Entry = tuple
+
+
+def _entries(op: Op, values: dict[str, Any] | None = None) -> list[Entry]:
+    """The fields an operation sets (``values``: as ``Schema.check`` decoded them)."""
+    if op.field != ROW:
+        v = values[op.field] if values else json.loads(op.value) if op.value is not None else None
+        return [(op.hlc, op.op_id, op.value, op.seen, op.device_id, op.field, False, v)]
+    h, i, s, d = op.hlc, op.op_id, op.seen, op.device_id
+    if values is None:
+        values = json.loads(op.value or "{}")
+    return [(h, i, _dump(v), s, d, f, True, v) for f, v in values.items()]
+
+
 def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source: str,
           max_future_ms: int | None = FUTURE_TOLERANCE_MS) -> ApplyResult:
     """Merge operations from elsewhere into this store (call inside one transaction).
 
     Repeats are skipped by operation id, so applying the same batch twice changes nothing.
+    Rows first seen in the batch (a new device's whole site) are merged in bulk, a table at a
+    time; rows already held, and any new row whose key or parent needs a closer look, one by one.
 
     Args:
         conn: the store's connection, inside a transaction.
@@ -460,8 +634,7 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         0
     """
     ops = list(ops)
-    for i, o in enumerate(ops):
-        schema.check(o, f"ops[{i}]")
+    decoded = {id(o): schema.check(o, f"ops[{i}]") for i, o in enumerate(ops)}
     if ops and max_future_ms is not None:
         latest = max(ops, key=lambda o: o.hlc)
         if hlc_ms(latest.hlc) > wall_ms() + max_future_ms:
@@ -472,31 +645,33 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
     new = _store_ops(conn, ops, source)
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
-    by_row: dict[tuple[str, str], list[Op]] = {}
+    by_ops: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]] = {}
     for o in new:
-        by_row.setdefault((o.tbl, o.row_id), []).append(o)
-    known = _known_rows(conn, list(by_row))
+        by_ops.setdefault((o.tbl, o.row_id), []).append((o, decoded[id(o)]))
+    known = _known_rows(conn, list(by_ops))
+
+    def entries(key: tuple[str, str]) -> list[Entry]:
+        return [e for o, values in by_ops[key] for e in _entries(o, values)]
+
+    by_row = {k: entries(k) for k in by_ops if k in known}
+    current = _current_fields(conn, list(by_row))
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
-    fields_rows, rows_rows = [], []
-    for (tbl, row_id), lst in by_row.items():
-        best: dict[str, Op] = {}
-        for o in lst:
-            b = best.get(o.field)
-            if b is None or (o.hlc, o.op_id) > (b.hlc, b.op_id):
-                best[o.field] = o
-        cur = {}
-        if (tbl, row_id) in known:
-            cur = {r[0]: r[1:] for r in conn.execute(
-                "SELECT field, hlc, op_id, value FROM sync_fields WHERE tbl = ? AND row_id = ?",
-                [tbl, row_id])}
-        for f, o in best.items():
+    fields_rows = []
+    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()]
+    for (tbl, row_id), lst in by_row.items():  # rows held already; new ones are written whole
+        best: dict[str, Entry] = {}
+        for e in lst:
+            b = best.get(e[5])
+            if b is None or e[:2] > b[:2]:
+                best[e[5]] = e
+        cur = current.get((tbl, row_id), {})
+        for f, e in best.items():
             c = cur.get(f)
-            if c is None or (o.hlc, o.op_id) > (c[0], c[1]):
+            if c is None or e[:2] > c[:2]:
                 if (tbl, f) in unique_fields and c is not None:
                     old_raw[(tbl, row_id, f)] = c[2]
-                fields_rows.append((tbl, row_id, f, o.hlc, o.op_id, o.value))
-        rows_rows.append((tbl, row_id, max(o.hlc for o in lst)))
+                fields_rows.append((tbl, row_id, f, e[0], e[1], e[2]))
     conn.executemany(
         "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
         "VALUES (?, ?, ?, ?, ?, ?, NULL) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
@@ -505,13 +680,16 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         "INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
         "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
         rows_rows)
-    # a row first seen in this batch has all its operations in hand: no need to read them back
-    preloaded = {k: [(o.hlc, o.op_id, o.value, o.seen, o.device_id, o.field) for o in lst]
-                 for k, lst in by_row.items() if k not in known}
-    touched = dict.fromkeys(by_row)
+    fresh = {k: lst for k, lst in by_ops.items() if k not in known}
+    from fieldcol.store._opbulk import write_fresh  # (it builds on this module)
+
+    written, slow = write_fresh(conn, schema, fresh, entries)
+    touched = dict.fromkeys(slow)
+    touched.update(dict.fromkeys(by_row))
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
         touched[(r[0], r[1])] = None
-    written = _materialize(conn, schema, list(touched), old_raw, preloaded)
+    written += _materialize(conn, schema, list(touched), old_raw,
+                            {k: entries(k) for k in slow})
     conn.execute("DELETE FROM sync_dirty")  # rows written here are the merge's, not edits
     pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
     return ApplyResult(len(new), written, pending)
@@ -522,24 +700,101 @@ def _local_device(conn: sqlite3.Connection) -> str:
     return row[0] if row else ""
 
 
+def _by_table(keys: Iterable[tuple[str, str]]) -> dict[str, list[str]]:
+    out: dict[str, list[str]] = {}
+    for t, r in keys:
+        out.setdefault(t, []).append(r)
+    return out
+
+
 def _known_rows(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> set[tuple[str, str]]:
     """Which of these rows already had operations here."""
     out: set[tuple[str, str]] = set()
-    by_tbl: dict[str, list[str]] = {}
-    for t, r in keys:
-        by_tbl.setdefault(t, []).append(r)
-    for t, ids in by_tbl.items():
-        for i in range(0, len(ids), 500):
-            part = ids[i:i + 500]
+    for t, ids in _by_table(keys).items():
+        for part in _chunks(ids):
             out.update((t, r[0]) for r in conn.execute(
-                f"SELECT row_id FROM sync_rows WHERE tbl = ? AND row_id IN "
-                f"({', '.join('?' for _ in part)})", [t, *part]))
+                f"SELECT row_id FROM sync_rows WHERE tbl = ? AND row_id IN ({_marks(part)})",
+                [t, *part]))
     return out
+
+
+def _current_fields(conn: sqlite3.Connection, keys: list[tuple[str, str]]
+                    ) -> dict[tuple[str, str], dict[str, tuple]]:
+    """The winning (hlc, op_id, value) of every field of these rows."""
+    out: dict[tuple[str, str], dict[str, tuple]] = {}
+    for t, ids in _by_table(keys).items():
+        for part in _chunks(ids):
+            for rid, f, hlc, op_id, value in conn.execute(
+                    f"SELECT row_id, field, hlc, op_id, value FROM sync_fields WHERE tbl = ? "
+                    f"AND row_id IN ({_marks(part)})", [t, *part]):
+                out.setdefault((t, rid), {})[f] = (hlc, op_id, value)
+    return out
+
+
+def _resolve(entries: list[Entry]) -> tuple[dict[str, Entry], str | None, list[tuple]]:
+    """A row's winners per field, the delete it shows (JSON text or None) and its conflicts.
+
+    A pure function of the row's operations: every replica derives the same. Fields set by one
+    operation together were seen together: they never conflict with each other.
+    """
+    if all(e[1] == entries[0][1] for e in entries):  # one operation (a row first written)
+        win = {e[5]: e for e in entries}
+        d = win.get("deleted_at")
+        return win, (d[2] if d else None), []
+    by_field: dict[str, list[Entry]] = {}
+    for e in entries:
+        by_field.setdefault(e[5], []).append(e)
+    for lst in by_field.values():
+        lst.sort()
+    win = {f: lst[-1] for f, lst in by_field.items()}
+    conflicts: list[tuple] = []
+    # same field, neither editor saw the other: the loser's value is kept for review
+    for f, lst in by_field.items():
+        if f in UNFLAGGED or len(lst) < 2:
+            continue
+        w = lst[-1]
+        for i, x in enumerate(lst[:-1]):
+            for y in lst[i + 1:]:
+                if y[3] < x[0] and y[2] != x[2]:
+                    cid = f"value:{x[1]}:{f}" if x[6] else f"value:{x[1]}"
+                    conflicts.append((cid, "value", f, x[2], x[1], x[4], x[0], int(w[3] < x[0])))
+                    break
+    deleted = win["deleted_at"][2] if "deleted_at" in win else None
+    if deleted is not None:
+        d = win["deleted_at"]
+        edits = [e for f, lst in by_field.items() if f not in ("deleted_at", *UNFLAGGED)
+                 for e in lst]
+        racing = any(_concurrent(e, d) for e in edits if e[1] != d[1])
+        if racing:
+            deleted = None
+        conflicts += [(f"delete:{x[1]}", "delete", "deleted_at", x[2], x[1], x[4], x[0],
+                       int(racing and x is d))
+                      for x in by_field["deleted_at"] if x[2] is not None
+                      and any(_concurrent(e, x) for e in edits if e[1] != x[1])]
+    return win, deleted, conflicts
+
+
+def _row_values(schema: Schema, tbl: str, row_id: str, win: dict[str, Entry],
+                deleted: str | None) -> dict[str, Any] | None:
+    """The row to write, or None while a required field has no value yet."""
+    vals = {f: e[7] for f, e in win.items()}
+    vals["deleted_at"] = json.loads(deleted) if deleted is not None else None
+    if any(vals.get(c) is None for c in schema.required[tbl]):
+        return None
+    row = {c: vals.get(c) for c in schema.columns[tbl] if c not in DERIVED}
+    row["id"] = row_id
+    return row
+
+
+def _insert_conflicts(conn: sqlite3.Connection, rows: list[tuple]) -> None:
+    conn.executemany(
+        "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, device_id, hlc, "
+        "open) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)", rows)
 
 
 def _materialize(conn: sqlite3.Connection, schema: Schema, rows: list[tuple[str, str]],
                  old_raw: dict[tuple[str, str, str], str | None],
-                 preloaded: dict[tuple[str, str], list[tuple]] | None = None) -> int:
+                 preloaded: dict[tuple[str, str], list[Entry]] | None = None) -> int:
     rank = {t: i for i, t in enumerate(schema.tables)}
     todo = sorted(rows, key=lambda r: (rank.get(r[0], 99), r[1]))
     written = 0
@@ -554,8 +809,7 @@ def _materialize(conn: sqlite3.Connection, schema: Schema, rows: list[tuple[str,
         if len(left) == len(todo):
             break
         todo = left
-    for tbl, row_id in todo:
-        conn.execute("UPDATE sync_rows SET pending = 1 WHERE tbl = ? AND row_id = ?", [tbl, row_id])
+    conn.executemany("UPDATE sync_rows SET pending = 1 WHERE tbl = ? AND row_id = ?", todo)
     return written
 
 
@@ -566,7 +820,7 @@ def _concurrent(a: tuple, b: tuple) -> bool:
 
 def _write_row(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
                old_raw: dict[tuple[str, str, str], str | None],
-               ops: list[tuple] | None = None) -> bool:
+               ops: list[Entry] | None = None) -> bool:
     """Write one row as its operations say; False when it must wait (parent or field missing,
     or a value this schema refuses: its operations stay and it is tried again on every apply)."""
     conn.execute("SAVEPOINT sync_row")
@@ -582,53 +836,23 @@ def _write_row(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
 
 def _write_row_inner(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id: str,
                      old_raw: dict[tuple[str, str, str], str | None],
-                     ops: list[tuple] | None) -> bool:
+                     ops: list[Entry] | None) -> bool:
     fresh = ops is not None
     if ops is None:
-        ops = conn.execute("SELECT hlc, op_id, value, seen, device_id, field FROM sync_ops "
-                           "WHERE tbl = ? AND row_id = ?", [tbl, row_id]).fetchall()
-    ops_by_field: dict[str, list[tuple]] = {}
-    for r in ops:
-        ops_by_field.setdefault(r[5], []).append(r)
-    for lst in ops_by_field.values():
-        lst.sort()
-    raw = {f: lst[-1][2] for f, lst in ops_by_field.items()}
-    conflicts: list[tuple] = []
-    # same field, neither editor saw the other: the loser's value is kept for review
-    for f, lst in ops_by_field.items():
-        if f in UNFLAGGED:
-            continue
-        win = lst[-1]
-        for i, x in enumerate(lst[:-1]):
-            for y in lst[i + 1:]:
-                if y[3] < x[0] and y[2] != x[2]:
-                    conflicts.append((f"value:{x[1]}", "value", f, x[2], x[1], x[4], x[0],
-                                      int(win[3] < x[0])))
-                    break
-    deleted = raw.get("deleted_at")
-    if deleted is not None:
-        d = ops_by_field["deleted_at"][-1]
-        racing = any(_concurrent(e, d) for f, lst in ops_by_field.items()
-                     if f not in ("deleted_at", *UNFLAGGED) for e in lst)
-        if racing:
-            deleted = None
-        conflicts_delete = [(f"delete:{x[1]}", "delete", "deleted_at", x[2], x[1], x[4], x[0],
-                             int(racing and x is d))
-                            for x in ops_by_field["deleted_at"] if x[2] is not None
-                            and any(_concurrent(e, x) for f, lst in ops_by_field.items()
-                                    if f not in ("deleted_at", *UNFLAGGED) for e in lst)]
-        conflicts += conflicts_delete
-    vals = {f: (json.loads(j) if j is not None else None) for f, j in raw.items()}
-    vals["deleted_at"] = json.loads(deleted) if deleted is not None else None
-    if any(vals.get(c) is None for c in schema.required[tbl]):
+        ops = []
+        for r in conn.execute("SELECT op_id, device_id, hlc, tbl, row_id, field, value, seen "
+                              "FROM sync_ops WHERE tbl = ? AND row_id = ?", [tbl, row_id]):
+            ops += _entries(Op(*r))
+    win, deleted, conflicts = _resolve(ops)
+    row = _row_values(schema, tbl, row_id, win, deleted)
+    if row is None:
         return False
     for col, parent in schema.fks[tbl]:
-        ref = vals.get(col)
+        ref = row.get(col)
         if ref is not None and parent in schema.columns and (parent, ref) != (tbl, row_id) and \
                 conn.execute(f"SELECT 1 FROM {parent} WHERE id = ?", [ref]).fetchone() is None:
             return False
-    row = {c: vals.get(c) for c in schema.columns[tbl] if c not in DERIVED}
-    row["id"] = row_id
+    raw = {f: e[2] for f, e in win.items()}
     mats = {f: _dump(row.get(f)) for f in raw}
     dup_groups = []
     for key, scope, live in schema.uniques[tbl]:
@@ -657,10 +881,8 @@ def _write_row_inner(conn: sqlite3.Connection, schema: Schema, tbl: str, row_id:
                      [tbl, row_id])
         conn.execute("DELETE FROM sync_conflicts WHERE tbl = ? AND row_id = ? "
                      "AND kind != 'duplicate'", [tbl, row_id])
-    conn.executemany(
-        "INSERT INTO sync_conflicts (id, kind, tbl, row_id, field, value, op_id, device_id, hlc, "
-        "open) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
-        [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6], c[7]) for c in conflicts])
+    _insert_conflicts(conn, [(c[0], c[1], tbl, row_id, c[2], c[3], c[4], c[5], c[6], c[7])
+                             for c in conflicts])
     return True
 
 
@@ -671,10 +893,13 @@ def _parked(row_id: str) -> str:
 
 def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, ...],
                 live: bool, raw_value: str) -> None:
-    """Give every row claiming one unique key its shown value: the first claim keeps it."""
+    """Give every row claiming one unique key its shown value: the first claim keeps it, the
+    others show it with a suffix and are recorded as duplicates (never dropped)."""
+    # the planner, without statistics, takes the primary key (tbl, ...) and scans every field
+    # of every row of the table; the key's own partial index finds the claims directly
     claims = conn.execute(
-        "SELECT row_id, hlc, op_id FROM sync_fields WHERE tbl = ? AND field = ? AND value = ?",
-        [tbl, key, raw_value]).fetchall()
+        f"SELECT row_id, hlc, op_id FROM sync_fields INDEXED BY {_key_index(key)} "
+        f"WHERE tbl = ? AND field = '{key}' AND value = ?", [tbl, raw_value]).fetchall()
     groups: dict[tuple, list[tuple]] = {}
     for row_id, hlc, op_id in claims:
         cur = conn.execute(f"SELECT {', '.join(('deleted_at',) + scope) or 'id'} FROM {tbl} "
@@ -698,7 +923,9 @@ def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, 
             conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, row_id])
             cid = f"duplicate:{tbl}:{row_id}:{key}"
             if i == 0:
-                conn.execute("UPDATE sync_conflicts SET open = 0 WHERE id = ?", [cid])
+                # the record follows the state, not the path: a collision seen only while
+                # operations arrived in some order leaves nothing once it is gone
+                conn.execute("DELETE FROM sync_conflicts WHERE id = ?", [cid])
             else:
                 dev = conn.execute("SELECT device_id FROM sync_ops WHERE op_id = ?",
                                    [op_id]).fetchone()

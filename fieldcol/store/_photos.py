@@ -94,10 +94,10 @@ def ingest(photos_dir: Path, data: bytes, field: str = "photo") -> PhotoFile:
         Traceback (most recent call last):
         fieldcol.errors.InputError: photo: cannot use '12 bytes': not an image Pillow can read ...
     """
-    img = _open(data, field)
+    img, size = _open(data, field)
     if img.format == "MPO":
         data = _first_picture(data, img, field)
-        img = _open(data, field)
+        img, size = _open(data, field)
     if img.format not in FORMATS:
         raise InputError(field, str(img.format), "this image format is not kept",
                          "JPEG, PNG or WebP")
@@ -110,12 +110,15 @@ def ingest(photos_dir: Path, data: bytes, field: str = "photo") -> PhotoFile:
         write_atomic(photos_dir / rel, data)
     if not (photos_dir / thumb_rel).is_file():
         write_atomic(photos_dir / thumb_rel, thumb)
-    return PhotoFile(sha, rel, thumb_rel, img.format, img.width, img.height, len(data),
+    return PhotoFile(sha, rel, thumb_rel, img.format, size[0], size[1], len(data),
                      taken_at, lat, lon)
 
 
-def _open(data: bytes, field: str) -> "Image.Image":
-    """Open and decode an image, refusing a decompression bomb before it is decoded."""
+def _open(data: bytes, field: str) -> "tuple[Image.Image, tuple[int, int]]":
+    """Open and decode an image, refusing a decompression bomb before it is decoded; returns
+    the image and its size in pixels. A JPEG is decoded at the scale its thumbnail needs (the
+    decoder still reads every block, so a damaged file is still refused): a photo arriving from
+    another device costs little more than its bytes on disk."""
     import warnings
 
     from PIL import Image
@@ -143,11 +146,13 @@ def _open(data: bytes, field: str) -> "Image.Image":
             raise InputError(field, what, f"the image would decode to {decoded:,} bytes from a "
                              f"file of {len(data):,}: refused as a decompression bomb", None)
         try:
+            if img.format == "JPEG":
+                img.draft("RGB", (THUMB_PX, THUMB_PX))
             img.load()
         except Exception as e:
             raise InputError(field, what, f"not an image Pillow can read ({e})",
                              "JPEG, PNG or WebP") from None
-    return img
+    return img, (w, h)
 
 
 def _first_picture(data: bytes, img: "Image.Image", field: str) -> bytes:

@@ -21,9 +21,11 @@ def needed_photos(ops: Iterable[Op]) -> dict[str, str]:
     """
     out: dict[str, str] = {}
     for o in ops:
-        if o.tbl == "photos" and o.field == "path" and o.value:
-            name = json.loads(o.value)
-            out[Path(name).stem] = name
+        if o.tbl == "photos":
+            value = o.fields().get("path")
+            if value:
+                name = json.loads(value)
+                out[Path(name).stem] = name
     return out
 
 

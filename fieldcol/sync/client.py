@@ -21,9 +21,10 @@ from fieldcol.store._migrations import MIGRATION_NAMES
 from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, Op, wall_ms
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
-PUSH_BATCH = 2000
+PUSH_BATCH = 5000
 PULL_BATCH = 5000
-CHUNK = 1 << 20
+#: the hub takes 4 MiB a request: most photos go whole in one
+CHUNK = 4 << 20
 TIMEOUT_S = 30.0
 #: waits before each new try when the hub answers 503 (its database is out of reach for a
 #: moment: a restart, a fail-over); about half a minute in all, then the sync stops
@@ -234,12 +235,14 @@ def _download(store: Store, hub: _Hub, sha: str) -> bool:
     if not hub.call("GET", f"/v1/photos/{sha}/status").json()["have"]:
         return False
     data = bytearray()
+    digest = hashlib.sha256()  # hashed as it arrives: each piece once
     while True:
         r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)})
         if not r.content:
             break
         data += r.content
-        if hashlib.sha256(data).hexdigest() == sha:
+        digest.update(r.content)
+        if digest.copy().hexdigest() == sha:
             break
     take_photo(store, sha, bytes(data))
     return True

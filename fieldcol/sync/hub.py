@@ -24,7 +24,8 @@ PostgreSQL with ``--database`` (any number of processes behind a load balancer).
 from __future__ import annotations
 
 import json
-from typing import Any
+import threading
+from typing import Any, Callable
 
 from fastapi import FastAPI, Request
 from fastapi.responses import JSONResponse, Response
@@ -136,10 +137,11 @@ def create_app(hub: HubBackend) -> FastAPI:
                 "max_seq": await run_in_threadpool(hub.max_seq)}
 
     @app.get("/v1/pull")
-    def pull(after: str = "0", limit: str = "1000") -> dict[str, Any]:
+    def pull(after: str = "0", limit: str = "1000") -> Response:
         n = min(_int(limit, "limit"), MAX_PULL)
         rows = hub.pull(_int(after, "after"), n)
-        return {"ops": [[seq, op.to_json()] for seq, op in rows], "max_seq": hub.max_seq()}
+        return _plain_json({"ops": [[seq, op.to_json()] for seq, op in rows],
+                            "max_seq": hub.max_seq()})
 
     @app.get("/v1/photos/{sha}/status")
     def photo_status(sha: str) -> dict[str, Any]:
@@ -168,6 +170,13 @@ def create_app(hub: HubBackend) -> FastAPI:
     return app
 
 
+def _plain_json(body: Any) -> Response:
+    """JSON written once by the standard library: FastAPI's own encoder walks every value of a
+    5,000-operation answer first, which took longer than reading them from the store."""
+    return Response(json.dumps(body, ensure_ascii=False, allow_nan=False).encode(),
+                    media_type="application/json")
+
+
 def _sha(sha: str) -> None:
     if not SHA.fullmatch(sha):
         raise _Refused(422, "sha256", "not a content hash (64 hex digits)")
@@ -188,10 +197,15 @@ def _check_schema(hub: HubBackend, theirs: Any) -> None:
 
 def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
           certfile: str | None = None, keyfile: str | None = None,
-          database: str | None = None) -> None:
+          database: str | None = None,
+          office: Callable[[Any], None] | None = None) -> None:
     """Run the hub until stopped (Ctrl-C). Listening beyond loopback needs TLS or ``insecure_ok``.
     With ``database`` (``postgresql://...``) the records live there and photos in ``data_dir``;
     a database that cannot be reached raises ``InputError`` before anything listens.
+
+    ``office``: a callable serving the office view over the hub's records (given the hub's
+    ``Store``; it blocks), run in a thread beside the hub; the caller supplies it, so sync never
+    imports the app.
 
     Example: ``serve("hubdata", "127.0.0.1", 8765)`` (blocks).
     """
@@ -203,10 +217,26 @@ def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
                          "--tls-key, or pass --insecure-ok on a network you trust")
     hub = open_hub(data_dir, database)
     try:
+        if office is not None:
+            start_office(hub, office)
         uvicorn.run(create_app(hub), host=host, port=port, log_level="warning",
                     ssl_certfile=certfile, ssl_keyfile=keyfile)
     finally:
         hub.close()
+
+
+def start_office(hub: Any, office: Callable[[Any], None]) -> threading.Thread:
+    """Start ``office(store)`` over the hub's records in a daemon thread (it ends with the hub).
+
+    Example: ``start_office(HubStore("hubdata"), office_runner("127.0.0.1", 8766))``.
+    """
+    store = getattr(hub, "store", None)
+    if store is None:
+        raise InputError("office-port", "", "this hub keeps no records the office view can "
+                         "read", "serve the office view from a hub with its own store")
+    thread = threading.Thread(target=office, args=(store,), name="fieldcol-office", daemon=True)
+    thread.start()
+    return thread
 
 
 def _loopback(host: str) -> bool:

@@ -1,7 +1,7 @@
 """The field app: routes, screens and the column screen's tabs over one open store.
 
 Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
-theme), ``/sites/new``, ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``,
+theme), ``/sync`` (the office hub: address, token, sync, conflicts), ``/sites/new``, ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``,
 ``/sites/<id>/new-column``, ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
 
@@ -140,6 +140,8 @@ class FieldApp:
         try:
             if parts == ["settings"]:
                 await self._show_settings()
+            elif parts == ["sync"]:
+                await self._show_sync()
             elif parts == ["sites", "new"]:
                 await self._show_site_form(None)
             elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "edit":
@@ -201,8 +203,18 @@ class FieldApp:
         new = ft.Semantics(identifier="new-site", content=ft.FilledButton(
             "New site", icon=ft.Icons.ADD, on_click=self._go("/sites/new"), height=v.TAP))
         self._render("/", "fieldcol · Sites", top + [new] + body, None,
-                     actions=[self._action(ft.Icons.SETTINGS, "Settings", "settings",
+                     actions=[self._action(ft.Icons.SYNC, "Sync with the office", "open-sync",
+                                           self._go("/sync")),
+                              self._action(ft.Icons.SETTINGS, "Settings", "settings",
                                            self._go("/settings"))])
+
+    async def _show_sync(self) -> None:
+        from fieldcol.ui.sync_view import SyncScreen
+
+        self.detail = None
+        screen = SyncScreen(self.page, self.store)
+        self._render("/sync", "Sync with the office", screen.controls(), "/")
+        await screen.refresh()
 
     async def _save_who(self, _e: Any = None) -> None:
         route = "/who" if self.person is None and (self.page.route or "/") == "/" else "/settings"

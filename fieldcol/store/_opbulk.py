@@ -1,0 +1,122 @@
+"""Rows first seen in a batch of operations (a whole site from a new device), written in bulk.
+
+``write_fresh`` writes them a table at a time, parents first, with a few statements per table
+(``executemany``) instead of several per row; a row with a single operation is written straight
+from its values. Rows that need a closer look (a field or parent missing, a unique key another
+row claims, a value SQLite refuses) are handed back to ``_oplog``'s one-by-one path, which does
+the same merge slowly. Both give the same rows, fields and conflicts.
+"""
+
+from __future__ import annotations
+
+import sqlite3
+from typing import Any, Callable, Iterable
+
+from fieldcol.store._oplog import (DERIVED, Entry, Op, Schema, _chunks, _dump, _insert_conflicts,
+                                   _key_index, _marks, _resolve, _row_values)
+
+
+def _existing(conn: sqlite3.Connection, tbl: str, ids: Iterable[str]) -> set[str]:
+    out: set[str] = set()
+    for part in _chunks(list(ids)):
+        out.update(r[0] for r in conn.execute(
+            f"SELECT id FROM {tbl} WHERE id IN ({_marks(part)})", part))
+    return out
+
+
+def _claimed(conn: sqlite3.Connection, tbl: str, key: str, raws: Iterable[str]) -> set[str]:
+    """Which of these key values some row here already claims."""
+    out: set[str] = set()
+    for part in _chunks(list(raws)):
+        out.update(r[0] for r in conn.execute(
+            f"SELECT value FROM sync_fields INDEXED BY {_key_index(key)} WHERE tbl = ? AND "
+            f"field = '{key}' AND value IN ({_marks(part)})", [tbl, *part]))
+    return out
+
+
+def write_fresh(conn: sqlite3.Connection, schema: Schema,
+                fresh: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]],
+                entries: Callable[[tuple[str, str]], list[Entry]]
+                ) -> tuple[int, list[tuple[str, str]]]:
+    """Write rows first seen in this batch, a table at a time (parents first), with a few
+    statements per table. Returns (rows written, rows left for the one-by-one path): those
+    missing a field or a parent, claiming a key some other row claims, or refused by SQLite.
+    Their fields are stored (not yet shown) so that path finds them.
+
+    ``fresh``: each row's operations with their decoded values; ``entries(key)``: its fields
+    as ``_resolve`` takes them (for a row with several operations)."""
+    by_tbl: dict[str, dict[str, list[tuple[Op, dict[str, Any]]]]] = {}
+    for (t, r), lst in fresh.items():
+        by_tbl.setdefault(t, {})[r] = lst
+    written: dict[str, set[str]] = {}
+    slow: list[tuple[str, str]] = []
+    count = 0
+    for tbl in (t for t in schema.tables if t in by_tbl):
+        cols = [c for c in schema.columns[tbl] if c not in DERIVED]
+        required = schema.required[tbl]
+        ready = []  # (row_id, row, raw texts, sync_fields rows, conflicts)
+        for row_id, lst in by_tbl[tbl].items():
+            if len(lst) == 1:  # one operation: its values are the row, nothing to weigh
+                op, values = lst[0]
+                row = {c: values.get(c) for c in cols}
+                row["id"] = row_id
+                if any(row[c] is None for c in required):
+                    slow.append((tbl, row_id))
+                    continue
+                raw = {f: _dump(v) for f, v in values.items()}
+                frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
+                ready.append((row_id, row, raw, frows, []))
+                continue
+            win, deleted, conflicts = _resolve(entries((tbl, row_id)))
+            row = _row_values(schema, tbl, row_id, win, deleted)
+            if row is None:
+                slow.append((tbl, row_id))
+                continue
+            frows = [(tbl, row_id, f, e[0], e[1], e[2],
+                      e[2] if f != "deleted_at" else _dump(row["deleted_at"]))
+                     for f, e in win.items()]
+            ready.append((row_id, row, {f: e[2] for f, e in win.items()}, frows, conflicts))
+        for col, parent in schema.fks[tbl]:
+            if parent not in schema.columns or not ready:
+                continue
+            refs = {x[1][col] for x in ready if x[1].get(col) is not None}
+            ok = written.get(parent, set()) | _existing(conn, parent, refs) | {None}
+            slow += [(tbl, x[0]) for x in ready if x[1].get(col) not in ok]
+            ready = [x for x in ready if x[1].get(col) in ok]
+        for key, _scope, _live in schema.uniques[tbl]:
+            raws = [x[2][key] for x in ready if x[2].get(key) is not None]
+            twice = {r for r in raws if raws.count(r) > 1} if len(set(raws)) < len(raws) else set()
+            busy = twice | _claimed(conn, tbl, key, set(raws))
+            keep = []
+            for x in ready:
+                (slow.append((tbl, x[0])) if x[2].get(key) in busy else keep.append(x))
+            ready = keep
+        if not ready:
+            continue
+        ready.sort(key=lambda x: x[0])  # B-tree inserts in key order touch each page once
+        names = ["id", *cols]
+        conn.execute("SAVEPOINT sync_bulk")
+        try:
+            conn.executemany(f"INSERT INTO {tbl} ({', '.join(names)}) VALUES "
+                             f"({_marks(names)})", [[x[1][c] for c in names] for x in ready])
+        except sqlite3.IntegrityError:  # e.g. a key shown suffixed elsewhere: look closer
+            conn.execute("ROLLBACK TO sync_bulk")
+            conn.execute("RELEASE sync_bulk")
+            slow += [(tbl, x[0]) for x in ready]
+            continue
+        conn.execute("RELEASE sync_bulk")
+        frows = [r for x in ready for r in x[3]]
+        frows.sort(key=lambda r: (r[1], r[2]))
+        conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                         "VALUES (?, ?, ?, ?, ?, ?, ?)", frows)
+        _insert_conflicts(conn, [(c[0], c[1], tbl, x[0], c[2], c[3], c[4], c[5], c[6], c[7])
+                                 for x in ready for c in x[4]])
+        written[tbl] = {x[0] for x in ready}
+        count += len(ready)
+    rows = []
+    for tbl, row_id in slow:
+        win, _, _ = _resolve(entries((tbl, row_id)))
+        rows += [(tbl, row_id, f, e[0], e[1], e[2]) for f, e in win.items()]
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, NULL)", rows)
+    return count, slow
