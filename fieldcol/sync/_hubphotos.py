@@ -72,9 +72,12 @@ class HubPhotos:
         part = self._part(sha)
         if not 0 < total <= MAX_BYTES:
             raise InputError("total", str(total), "a photo is 1 byte to 64 MB", None)
+        if self.file(sha) is not None:  # held already: no lock needed, none left behind
+            return True, total
         with self._locked(sha):
             have, got = self.status(sha)
-            if have:
+            if have:  # finished by another process while this one waited
+                (self.partial / f"{sha}.lock").unlink(missing_ok=True)
                 return True, total
             if offset != got:
                 raise InputError("offset", str(offset), f"the upload stands at {got} bytes",
