@@ -3,7 +3,8 @@
 ``hub_pg_ops_per_s``: two ``fieldcol hub serve`` processes over one PostgreSQL database (a
 server of our own in a temporary folder, fsync on), the devices split between them.
 ``hub_sqlite_ops_per_s``: one hub process over SQLite (the default hub), the same pushes, in
-the same run. Each device pushes its own site (columns and readings) in batches of 500 over
+the same run. Each device pushes its own site (100 columns, 400 readings: one operation per
+row) in batches of 500 over
 HTTP on loopback; the clock runs from the first push to the last acknowledgement. Without
 PostgreSQL's server programs ``hub_pg_ops_per_s`` is null.
 """
@@ -82,7 +83,7 @@ def run(*, quick: bool = False) -> dict[str, Any]:
     from fieldcol.sync._loopback import HubProcess
     from fieldcol.sync._pgserver import TempPostgres, server_programs
 
-    n_cols, n_read = (5, 20) if quick else (25, 100)
+    n_cols, n_read = (5, 20) if quick else (100, 400)
     out: dict[str, Any] = {}
     with tempfile.TemporaryDirectory() as tmp:
         root = Path(tmp)
