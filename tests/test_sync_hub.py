@@ -1,5 +1,8 @@
 """Devices syncing through a real office hub over HTTP on loopback (uvicorn in a thread).
 
+Every test taking the ``hub`` fixture runs twice: over the SQLite hub and over PostgreSQL (a
+real server started by ``tests/conftest.py``).
+
 What is checked is the behaviour every replicated store must show (common practice): replicas
 end identical whatever the sync order, nothing is lost to cuts, repeats or replays.
 """
@@ -30,11 +33,23 @@ from test_sync_oplog import dump
 SITE = "Kestrel Lane Print Works"
 
 
-@pytest.fixture
-def hub(tmp_path: Path):
-    h = RunningHub(tmp_path / "hub")
+@pytest.fixture(params=["sqlite", "postgresql"])
+def hub(request: pytest.FixtureRequest, tmp_path: Path):
+    db = request.getfixturevalue("pg_database") if request.param == "postgresql" else None
+    h = RunningHub(tmp_path / "hub", db)
     yield h
     h.stop()
+
+
+def _held(hub: RunningHub, tmp_path: Path) -> Store:
+    """What the hub holds, as a store: the SQLite hub's own merged store, or for PostgreSQL
+    (which keeps operations, not records) a new store given every operation the hub holds."""
+    if hasattr(hub.hub, "store"):
+        return hub.hub.store
+    n = len(list(tmp_path.glob("held-*.db")))
+    s = Store(tmp_path / f"held-{n}.db")
+    s.apply_ops([op for _, op in hub.hub.pull(0, 10**7)], source="hub", max_future_ms=None)
+    return s
 
 
 def _site(s: Store):
@@ -80,7 +95,7 @@ def test_two_devices_offline_then_every_sync_order_end_identical(tmp_path: Path,
         sync_with_hub(first, hub.url, ta if first is a else tb)
         sync_with_hub(second, hub.url, tb if second is b else ta)
     rep = sync_with_hub(a, hub.url, ta)
-    _same([a, b, hub.hub.store])
+    _same([a, b, _held(hub, tmp_path)])
     assert a.get_site(s.id).address == "north yard"
     assert len(a.list_measurements(col.id)) == 1 if hasattr(a, "list_measurements") else True
     (c,) = b.conflicts()
@@ -103,7 +118,7 @@ def test_three_devices_every_order_end_identical(tmp_path: Path, hub):
             sync_with_hub(devs[i][0], hub.url, devs[i][1])
     for st, tok in devs:  # one more pass so everyone has everything
         sync_with_hub(st, hub.url, tok)
-    _same([st for st, _ in devs] + [hub.hub.store])
+    _same([st for st, _ in devs] + [_held(hub, tmp_path)])
     assert len(a.list_columns(s.id)) == 18
 
 
@@ -119,8 +134,9 @@ def test_one_tag_from_two_devices_is_kept_twice_and_recorded(tmp_path: Path, hub
     cb = _col(b, s.id, "C9")
     for st, tok in ((a, ta), (b, tb), (a, ta)):
         sync_with_hub(st, hub.url, tok)
-    _same([a, b, hub.hub.store])
-    for st in (a, b, hub.hub.store):
+    held = _held(hub, tmp_path)
+    _same([a, b, held])
+    for st in (a, b, held):
         rows = {r.id: r.tag for r in st.list_columns(s.id)}
         assert set(rows) == {ca.id, cb.id}
         first, second = sorted(rows.values())
@@ -159,7 +175,7 @@ def test_push_cut_after_the_hub_committed_then_resumed(tmp_path: Path, hub):
     sync_with_hub(a, hub.url, ta)
     assert hub.hub.max_seq() == held  # the repeat added nothing
     sync_with_hub(b, hub.url, tb)
-    _same([a, b, hub.hub.store])
+    _same([a, b, _held(hub, tmp_path)])
 
 
 def test_pull_cut_midway_then_resumed(tmp_path: Path, hub, monkeypatch):
@@ -306,7 +322,7 @@ def test_one_photo_from_two_devices_is_stored_once(tmp_path: Path, hub):
         sync_with_hub(st, hub.url, tok)
     files = [p for p in (tmp_path / "hub" / "hub-photos").rglob("*.jpg") if "thumbs" not in p.parts]
     assert len(files) == 1
-    assert hub.hub.store.db.conn.execute("SELECT count(*) FROM photos").fetchone()[0] == 1
+    assert _held(hub, tmp_path).db.conn.execute("SELECT count(*) FROM photos").fetchone()[0] == 1
     _same([a, b])
     assert s.id
 

@@ -9,7 +9,7 @@ def register(sub: argparse._SubParsersAction) -> None:
     """Add the ``bundle`` command to the CLI parser.
 
     Usage: ``fieldcol bundle export --db site.db out.zip``, ``fieldcol bundle import --db
-    other.db out.zip`` (or ``--data HUBDIR`` for the office hub's store).
+    other.db out.zip`` (or ``--data HUBDIR [--database URL]`` for the office hub).
     """
     p = sub.add_parser("bundle", help="carry changes and photos between stores in one file")
     verbs = p.add_subparsers(dest="verb", metavar="VERB", required=True)
@@ -23,6 +23,8 @@ def register(sub: argparse._SubParsersAction) -> None:
     where = i.add_mutually_exclusive_group()
     where.add_argument("--db", help="the store file (default: $FIELDCOL_DB or the app-data folder)")
     where.add_argument("--data", help="the office hub's folder (merge into the hub's store)")
+    i.add_argument("--database", metavar="URL",
+                   help="with --data: the hub's PostgreSQL database (as on fieldcol hub serve)")
     i.set_defaults(func=run)
 
 
@@ -42,6 +44,14 @@ def run(args: argparse.Namespace) -> int:
     if args.verb == "export":
         with open_store(args.db, create=False) as store:
             info = export_bundle(store, args.out, since=args.since)
+    elif getattr(args, "database", None):
+        from fieldcol.errors import InputError
+        from fieldcol.sync._hubimport import import_bundle_to_hub
+
+        if not args.data:
+            raise InputError("data", "", "--database needs the hub's folder too (its photos)",
+                             "add --data HUBDIR")
+        info = import_bundle_to_hub(args.data, args.database, args.src)
     elif getattr(args, "data", None):
         from fieldcol.sync._hubstore import HubStore
         hub = HubStore(args.data)

@@ -1,32 +1,29 @@
-"""The office hub's storage, behind one narrow interface (``HubStore``).
+"""The office hub's storage on SQLite (``HubStore``, the default ``HubBackend``).
 
-Today: a fieldcol ``Store`` in ``DIR/hub.db`` (photos in ``DIR/hub-photos/``) holds every
-device's operations and the merged records, and ``DIR/devices.db`` the device tokens (hashes
-only). Everything the hub's web layer does goes through the methods here, so another database
-can stand behind the same methods later.
+A fieldcol ``Store`` in ``DIR/hub.db`` (photos in ``DIR/hub-photos/``) holds every device's
+operations and the merged records, and ``DIR/devices.db`` the device tokens (hashes only). One
+hub process serves it; for several processes over one database see ``_hubstore_pg``.
 """
 
 from __future__ import annotations
 
-import hashlib
 import os
-import re
 import secrets
 import sqlite3
 import threading
 import uuid
-from dataclasses import dataclass
 from pathlib import Path
 
 from fieldcol.errors import InputError
 from fieldcol.store import Store
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import ApplyResult, Op
-from fieldcol.store._photos import MAX_BYTES
-from fieldcol.sync._photofiles import photo_file, take_photo
+from fieldcol.store._oplog import Op
+from fieldcol.sync._hubapi import SHA, Device, PushResult, check_name
+from fieldcol.sync._hubapi import now_text as _now
+from fieldcol.sync._hubapi import token_hash as _hash
+from fieldcol.sync._hubphotos import HubPhotos
 
-SHA = re.compile(r"[0-9a-f]{64}")
-_NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9 ._-]{0,63}")
+__all__ = ["SHA", "Device", "HubStore"]
 
 _DEVICES_SQL = """
 CREATE TABLE IF NOT EXISTS devices (
@@ -39,26 +36,6 @@ CREATE TABLE IF NOT EXISTS devices (
 );
 CREATE TABLE IF NOT EXISTS hub (key TEXT PRIMARY KEY NOT NULL, value TEXT NOT NULL);
 """
-
-
-@dataclass(frozen=True)
-class Device:
-    """A device allowed to sync: its name, the store id it last used, when it last synced."""
-    name: str
-    created_at: str
-    revoked_at: str | None
-    device_id: str | None
-    last_sync: str | None
-
-
-def _hash(token: str) -> str:
-    # tokens are 32 random bytes: a plain SHA-256 is enough to keep them unreadable at rest
-    return hashlib.sha256(token.encode()).hexdigest()
-
-
-def _now() -> str:
-    from datetime import datetime, timezone
-    return datetime.now(timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
 
 
 class HubStore:
@@ -81,6 +58,7 @@ class HubStore:
         self.dir.mkdir(parents=True, exist_ok=True)
         self.store = Store(self.dir / "hub.db")
         self.partial = self.dir / "partial"
+        self.photos = HubPhotos(self.store.photos_dir, self.partial)
         self._lock = threading.RLock()
         self._dev = sqlite3.connect(str(self.dir / "devices.db"), check_same_thread=False,
                                     timeout=10)
@@ -114,9 +92,7 @@ class HubStore:
             >>> len(HubStore("hub2").add_device("phone-2")) > 30
             True
         """
-        if not isinstance(name, str) or not _NAME.fullmatch(name):
-            raise InputError("name", str(name), "a device name is 1 to 64 letters, digits, "
-                             "spaces, dots, dashes or underscores", "e.g. tablet-1")
+        check_name(name)
         token = secrets.token_hex(32)  # hex: a token never starts with "-", which a shell or argparse reads as an option
         with self._lock, self._dev:
             try:
@@ -160,9 +136,9 @@ class HubStore:
                               "WHERE name = ?", [_now(), device_id, name])
 
     # -- operations ---------------------------------------------------------------------------
-    def push(self, ops: list[Op]) -> ApplyResult:
+    def push(self, ops: list[Op]) -> PushResult:
         """Merge pushed operations (repeats skipped by id); refuses clocks far ahead."""
-        return self.store.apply_ops(ops, source="push")
+        return PushResult(self.store.apply_ops(ops, source="push").new)
 
     def pull(self, after: int, limit: int) -> list[tuple[int, Op]]:
         """Operations after hub sequence ``after``, oldest first."""
@@ -177,52 +153,14 @@ class HubStore:
         return self.store.count_ops(device_id=device_id)
 
     # -- photos -------------------------------------------------------------------------------
-    def _part(self, sha: str) -> Path:
-        if not SHA.fullmatch(sha):
-            raise InputError("sha256", sha[:80], "not a content hash", "64 hex digits")
-        return self.partial / f"{sha}.part"
-
     def photo_status(self, sha: str) -> tuple[bool, int]:
         """(held whole, bytes of an unfinished upload)."""
-        part = self._part(sha)
-        if photo_file(self.store, sha) is not None:
-            return True, 0
-        return False, part.stat().st_size if part.is_file() else 0
+        return self.photos.status(sha)
 
     def photo_append(self, sha: str, offset: int, total: int, data: bytes) -> tuple[bool, int]:
-        """Add a piece of an upload at ``offset``; when ``total`` bytes are in, check the hash
-        and keep the photo. Returns (held whole, bytes received)."""
-        part = self._part(sha)
-        if not 0 < total <= MAX_BYTES:
-            raise InputError("total", str(total), "a photo is 1 byte to 64 MB", None)
-        with self._lock:
-            have, got = self.photo_status(sha)
-            if have:
-                return True, total
-            if offset != got:
-                raise InputError("offset", str(offset), f"the upload stands at {got} bytes",
-                                 f"continue from {got}")
-            if got + len(data) > total:
-                raise InputError("total", str(total), "more bytes than the photo has", None)
-            self.partial.mkdir(parents=True, exist_ok=True)
-            with open(part, "ab") as fh:
-                fh.write(data)
-                fh.flush()
-                os.fsync(fh.fileno())
-            got += len(data)
-            if got < total:
-                return False, got
-            blob = part.read_bytes()
-            part.unlink()
-            take_photo(self.store, sha, blob)  # a hash mismatch drops the upload
-            return True, total
+        """Add a piece of an upload at ``offset`` (see ``HubPhotos.append``)."""
+        return self.photos.append(sha, offset, total, data)
 
     def photo_read(self, sha: str, offset: int, size: int) -> bytes | None:
         """Bytes of a held photo from ``offset`` (None when the hub does not hold it)."""
-        self._part(sha)
-        f = photo_file(self.store, sha)
-        if f is None:
-            return None
-        with open(f, "rb") as fh:
-            fh.seek(max(0, offset))
-            return fh.read(size)
+        return self.photos.read(sha, offset, size)

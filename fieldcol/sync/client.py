@@ -26,6 +26,9 @@ PULL_BATCH = 5000
 #: the hub takes 4 MiB a request: most photos go whole in one
 CHUNK = 4 << 20
 TIMEOUT_S = 30.0
+#: waits before each new try when the hub answers 503 (its database is out of reach for a
+#: moment: a restart, a fail-over); about half a minute in all, then the sync stops
+RETRY_503_S = (0.5, 1.0, 2.0, 4.0, 8.0, 8.0, 8.0)
 
 
 @dataclass
@@ -72,11 +75,21 @@ class _Hub:
         self.http.close()
 
     def call(self, method: str, path: str, **kw: Any) -> httpx.Response:
-        try:
-            r = self.http.request(method, path, **kw)
-        except httpx.HTTPError as e:
-            raise InputError("hub", self.url, f"cannot reach the hub ({type(e).__name__}: {e})",
-                             "check the address and the network, then sync again") from None
+        import time
+
+        for wait in (*RETRY_503_S, None):
+            try:
+                r = self.http.request(method, path, **kw)
+            except httpx.HTTPError as e:
+                raise InputError("hub", self.url, f"cannot reach the hub ({type(e).__name__}: "
+                                 f"{e})", "check the address and the network, then sync "
+                                 "again") from None
+            if r.status_code != 503 or wait is None:
+                break
+            time.sleep(wait)  # every request is safe to repeat (ops by id, photos by offset)
+        if r.status_code == 503:
+            raise InputError("hub", self.url, "the hub cannot reach its database just now",
+                             "sync again in a few minutes; what was sent stays sent")
         if r.status_code == 401:
             raise InputError("token", "****", "the hub refused this token (wrong or revoked)",
                              "ask the office for a new one: fieldcol hub add-device")

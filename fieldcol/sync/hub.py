@@ -14,7 +14,11 @@ Routes (JSON unless said)::
     GET  /v1/photos/{sha}?offset=K (raw bytes)
 
 Errors: ``{"field", "reason", "hint"}`` with 400 (bad JSON), 401, 409 (clock, offset), 413
-(too large), 422 (a bad value), 426 (the device must update).
+(too large), 422 (a bad value), 426 (the device must update), 503 with ``Retry-After`` (the
+hub's database cannot be reached just now: the device waits and tries again).
+
+Storage is behind ``HubBackend`` (``_hubapi``): SQLite in ``--data`` (one process), or
+PostgreSQL with ``--database`` (any number of processes behind a load balancer).
 """
 
 from __future__ import annotations
@@ -25,14 +29,22 @@ from typing import Any, Callable
 
 from fastapi import FastAPI, Request
 from fastapi.responses import JSONResponse, Response
+from starlette.concurrency import run_in_threadpool
 
 from fieldcol.errors import InputError
 from fieldcol.store._oplog import Op, wall_ms
-from fieldcol.sync._hubstore import SHA, HubStore
+from fieldcol.sync._hubapi import SHA, HubBackend, HubUnavailable, open_hub
 
 MAX_JSON_BYTES = 16 << 20
 MAX_CHUNK_BYTES = 4 << 20
 MAX_PULL = 5000
+RETRY_AFTER_S = 2
+
+
+def _unavailable(e: HubUnavailable) -> Response:
+    return JSONResponse({"field": "database", "reason": str(e),
+                         "hint": "the device tries again shortly"}, status_code=503,
+                        headers={"Retry-After": str(RETRY_AFTER_S)})
 
 
 class _Refused(Exception):
@@ -68,11 +80,11 @@ def _int(value: str | None, field: str, default: int | None = None) -> int:
     return int(value)
 
 
-def create_app(hub: HubStore) -> FastAPI:
+def create_app(hub: HubBackend) -> FastAPI:
     """The hub's web application over ``hub`` (serve it with uvicorn).
 
     Example:
-        >>> create_app(HubStore("hubdata")).title
+        >>> create_app(open_hub("hubdata")).title
         'fieldcol hub'
     """
     app = FastAPI(title="fieldcol hub", docs_url=None, redoc_url=None, openapi_url=None)
@@ -81,7 +93,10 @@ def create_app(hub: HubStore) -> FastAPI:
     async def guard(request: Request, call_next: Any) -> Response:
         auth = request.headers.get("authorization", "")
         token = auth[7:] if auth.lower().startswith("bearer ") else None
-        device = hub.device_for_token(token)
+        try:  # (exception handlers do not see errors raised in a middleware)
+            device = await run_in_threadpool(hub.device_for_token, token)
+        except HubUnavailable as e:
+            return _unavailable(e)
         if device is None:
             return JSONResponse({"field": "token", "reason": "missing, wrong or revoked token",
                                  "hint": None}, status_code=401)
@@ -91,6 +106,10 @@ def create_app(hub: HubStore) -> FastAPI:
     @app.exception_handler(_Refused)
     async def refused(request: Request, e: _Refused) -> Response:
         return JSONResponse(e.body, status_code=e.status)
+
+    @app.exception_handler(HubUnavailable)
+    async def unavailable(request: Request, e: HubUnavailable) -> Response:
+        return _unavailable(e)
 
     @app.exception_handler(InputError)
     async def bad_input(request: Request, e: InputError) -> Response:
@@ -111,11 +130,11 @@ def create_app(hub: HubStore) -> FastAPI:
             raise _Refused(422, "ops", "expected {device, schema, ops: [...]}")
         _check_schema(hub, body.get("schema"))
         ops = [Op.from_json(o, f"ops[{i}]") for i, o in enumerate(body["ops"])]
-        from starlette.concurrency import run_in_threadpool
         result = await run_in_threadpool(hub.push, ops)
-        hub.touch(request.state.device.name, body.get("device") if isinstance(
-            body.get("device"), str) else None)
-        return {"acked": len(ops), "new": result.new, "max_seq": hub.max_seq()}
+        await run_in_threadpool(hub.touch, request.state.device.name, body.get("device")
+                                if isinstance(body.get("device"), str) else None)
+        return {"acked": len(ops), "new": result.new,
+                "max_seq": await run_in_threadpool(hub.max_seq)}
 
     @app.get("/v1/pull")
     def pull(after: str = "0", limit: str = "1000") -> Response:
@@ -136,7 +155,6 @@ def create_app(hub: HubStore) -> FastAPI:
         offset = _int(request.query_params.get("offset"), "offset")
         total = _int(request.query_params.get("total"), "total")
         data = await _body(request, MAX_CHUNK_BYTES)
-        from starlette.concurrency import run_in_threadpool
         have, got = await run_in_threadpool(hub.photo_append, sha, offset, total, data)
         return {"have": have, "received": got}
 
@@ -164,7 +182,7 @@ def _sha(sha: str) -> None:
         raise _Refused(422, "sha256", "not a content hash (64 hex digits)")
 
 
-def _check_schema(hub: HubStore, theirs: Any) -> None:
+def _check_schema(hub: HubBackend, theirs: Any) -> None:
     if not isinstance(theirs, list) or not all(isinstance(s, str) for s in theirs):
         raise _Refused(422, "schema", "expected the list of schema steps")
     missing = [s for s in hub.schema if s not in theirs]
@@ -179,8 +197,11 @@ def _check_schema(hub: HubStore, theirs: Any) -> None:
 
 def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
           certfile: str | None = None, keyfile: str | None = None,
+          database: str | None = None,
           office: Callable[[Any], None] | None = None) -> None:
     """Run the hub until stopped (Ctrl-C). Listening beyond loopback needs TLS or ``insecure_ok``.
+    With ``database`` (``postgresql://...``) the records live there and photos in ``data_dir``;
+    a database that cannot be reached raises ``InputError`` before anything listens.
 
     ``office``: a callable serving the office view over the hub's records (given the hub's
     ``Store``; it blocks), run in a thread beside the hub; the caller supplies it, so sync never
@@ -194,7 +215,7 @@ def serve(data_dir: str, host: str, port: int, *, insecure_ok: bool = False,
         raise InputError("host", host, "the hub listens beyond this computer only with TLS",
                          "keep 127.0.0.1 behind a TLS reverse proxy, give --tls-cert and "
                          "--tls-key, or pass --insecure-ok on a network you trust")
-    hub = HubStore(data_dir)
+    hub = open_hub(data_dir, database)
     try:
         if office is not None:
             start_office(hub, office)
