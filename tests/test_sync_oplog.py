@@ -10,7 +10,7 @@ import random
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, Phase, given, settings, strategies as st
+from hypothesis import HealthCheck, Phase, example, given, settings, strategies as st
 
 from fieldcol.store import Store
 from fieldcol.store._oplog import Op
@@ -219,6 +219,11 @@ def blank(tmp_path_factory) -> Path:
 @settings(max_examples=300, deadline=None, phases=[Phase.explicit, Phase.reuse, Phase.generate],
           suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(actions=ACTIONS, seed=st.integers(0, 10**6))
+# cases that once failed, run on every test run
+@example(actions=[(0, 'rename', 1, 2), (0, 'rename', 1, 0), (2, 'delete', 0, 0),
+                  (1, 'delete', 1, 0), (0, 'sync', 1, 0), (0, 'delete', 1, 1), (1, 'tag', 1, 0),
+                  (0, 'rename', 0, 2), (2, 'tag', 1, 1), (2, 'tag', 1, 2), (0, 'tag', 0, 1),
+                  (0, 'edit', 1, 0), (1, 'tag', 1, 2), (0, 'column', 0, 2)], seed=999999)
 def test_any_order_any_repeats_converge(tmp_path_factory, blank, actions, seed):
     """Three devices edit offline; their operations arrive shuffled and repeated; all end equal."""
     import shutil
