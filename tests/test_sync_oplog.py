@@ -154,6 +154,27 @@ def test_the_same_tag_from_two_devices_keeps_both_rows(tmp_path: Path):
         assert dump(a) == dump(b)
 
 
+def test_tags_moved_round_a_ring_in_one_batch_land(tmp_path: Path):
+    """A->B, B->C, C->A arriving together: no row waits, every replica shows and records the
+    same (each row's write used to find its new tag still shown by the next one)."""
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        cols = [a.add_column(s.id, {"tag": t, "section": "W10X49", "length": "14 ft"})
+                for t in ("A", "B", "C")]
+        send(a, b)
+
+        def retag(c, tag):
+            a.update_column(c.id, record={**a.get_column(c.id).record, "tag": tag})
+
+        retag(cols[0], "T")
+        retag(cols[2], "A")
+        retag(cols[1], "C")
+        retag(cols[0], "B")
+        assert b.apply_ops(a.ops_after(0, 10**6), source="bundle").pending == 0
+        assert [b.get_column(c.id).tag for c in cols] == ["B", "C", "A"]
+        assert dump(a) == dump(b)
+
+
 def test_applying_twice_changes_nothing(tmp_path: Path):
     with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
         s = site(a)
