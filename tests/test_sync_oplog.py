@@ -6,6 +6,7 @@ must have (common practice); checked here on real SQLite files.
 
 from __future__ import annotations
 
+import os
 import random
 from pathlib import Path
 
@@ -236,9 +237,15 @@ def blank(tmp_path_factory) -> Path:
     return path
 
 
+#: under CI (``CI=true``, as ``.ci/run`` and tests/conftest.py read it) the generated cases are
+#: the same on every run (``derandomize``): an unlucky draw cannot turn CI red on an unrelated
+#: change. A developer's run still draws new cases; a case that fails becomes an ``@example``.
+IN_CI = os.environ.get("CI", "").lower() in ("true", "1", "yes")
+
+
 # no shrinking: a failure prints its case at once (shrinking one can take many minutes)
 @settings(max_examples=300, deadline=None, phases=[Phase.explicit, Phase.reuse, Phase.generate],
-          suppress_health_check=[HealthCheck.function_scoped_fixture])
+          derandomize=IN_CI, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(actions=ACTIONS, seed=st.integers(0, 10**6))
 # cases that once failed, run on every test run
 @example(actions=[(0, 'rename', 1, 2), (0, 'rename', 1, 0), (2, 'delete', 0, 0),
