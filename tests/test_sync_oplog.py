@@ -6,11 +6,12 @@ must have (common practice); checked here on real SQLite files.
 
 from __future__ import annotations
 
+import os
 import random
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, Phase, given, settings, strategies as st
+from hypothesis import HealthCheck, Phase, example, given, settings, strategies as st
 
 from fieldcol.store import Store
 from fieldcol.store._oplog import Op
@@ -154,6 +155,27 @@ def test_the_same_tag_from_two_devices_keeps_both_rows(tmp_path: Path):
         assert dump(a) == dump(b)
 
 
+def test_tags_moved_round_a_ring_in_one_batch_land(tmp_path: Path):
+    """A->B, B->C, C->A arriving together: no row waits, every replica shows and records the
+    same (each row's write used to find its new tag still shown by the next one)."""
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        cols = [a.add_column(s.id, {"tag": t, "section": "W10X49", "length": "14 ft"})
+                for t in ("A", "B", "C")]
+        send(a, b)
+
+        def retag(c, tag):
+            a.update_column(c.id, record={**a.get_column(c.id).record, "tag": tag})
+
+        retag(cols[0], "T")
+        retag(cols[2], "A")
+        retag(cols[1], "C")
+        retag(cols[0], "B")
+        assert b.apply_ops(a.ops_after(0, 10**6), source="bundle").pending == 0
+        assert [b.get_column(c.id).tag for c in cols] == ["B", "C", "A"]
+        assert dump(a) == dump(b)
+
+
 def test_applying_twice_changes_nothing(tmp_path: Path):
     with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
         s = site(a)
@@ -215,10 +237,21 @@ def blank(tmp_path_factory) -> Path:
     return path
 
 
+#: under CI (``CI=true``, as ``.ci/run`` and tests/conftest.py read it) the generated cases are
+#: the same on every run (``derandomize``): an unlucky draw cannot turn CI red on an unrelated
+#: change. A developer's run still draws new cases; a case that fails becomes an ``@example``.
+IN_CI = os.environ.get("CI", "").lower() in ("true", "1", "yes")
+
+
 # no shrinking: a failure prints its case at once (shrinking one can take many minutes)
 @settings(max_examples=300, deadline=None, phases=[Phase.explicit, Phase.reuse, Phase.generate],
-          suppress_health_check=[HealthCheck.function_scoped_fixture])
+          derandomize=IN_CI, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(actions=ACTIONS, seed=st.integers(0, 10**6))
+# cases that once failed, run on every test run
+@example(actions=[(0, 'rename', 1, 2), (0, 'rename', 1, 0), (2, 'delete', 0, 0),
+                  (1, 'delete', 1, 0), (0, 'sync', 1, 0), (0, 'delete', 1, 1), (1, 'tag', 1, 0),
+                  (0, 'rename', 0, 2), (2, 'tag', 1, 1), (2, 'tag', 1, 2), (0, 'tag', 0, 1),
+                  (0, 'edit', 1, 0), (1, 'tag', 1, 2), (0, 'column', 0, 2)], seed=999999)
 def test_any_order_any_repeats_converge(tmp_path_factory, blank, actions, seed):
     """Three devices edit offline; their operations arrive shuffled and repeated; all end equal."""
     import shutil

@@ -892,15 +892,17 @@ def _parked(row_id: str) -> str:
 
 
 def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, ...],
-                live: bool, raw_value: str) -> None:
+                live: bool, raw_value: str, _busy: frozenset[str] = frozenset()) -> None:
     """Give every row claiming one unique key its shown value: the first claim keeps it, the
-    others show it with a suffix and are recorded as duplicates (never dropped)."""
+    others show it with a suffix and are recorded as duplicates (never dropped). A row that
+    still shows the value but claims another now is given its own claim's value first."""
     # the planner, without statistics, takes the primary key (tbl, ...) and scans every field
     # of every row of the table; the key's own partial index finds the claims directly
     claims = conn.execute(
         f"SELECT row_id, hlc, op_id FROM sync_fields INDEXED BY {_key_index(key)} "
         f"WHERE tbl = ? AND field = '{key}' AND value = ?", [tbl, raw_value]).fetchall()
     groups: dict[tuple, list[tuple]] = {}
+    scope_of: dict[str, tuple | None] = {}  # a claim's scope values (None: a dead row)
     for row_id, hlc, op_id in claims:
         cur = conn.execute(f"SELECT {', '.join(('deleted_at',) + scope) or 'id'} FROM {tbl} "
                            "WHERE id = ?", [row_id]).fetchone()
@@ -908,8 +910,10 @@ def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, 
             continue
         if live and cur[0] is not None:
             groups.setdefault(("dead", row_id), []).append((hlc, op_id, row_id))
+            scope_of[row_id] = None
             continue
         groups.setdefault(tuple(cur[1:]), []).append((hlc, op_id, row_id))
+        scope_of[row_id] = tuple(cur[1:])
     value = json.loads(raw_value)
     for members in groups.values():
         members.sort()
@@ -917,6 +921,9 @@ def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, 
             conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [_parked(row_id), row_id])
         for i, (hlc, op_id, row_id) in enumerate(members):
             shown = value if i == 0 else f"{value} ({row_id[:8]})"
+            if not (live and scope_of[row_id] is None):
+                _free_shown(conn, tbl, key, scope, live, shown, scope_of[row_id],
+                            _busy | {raw_value})
             conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [shown, row_id])
             conn.execute("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND field = ?",
                          [_dump(shown), tbl, row_id, key])
@@ -935,6 +942,29 @@ def _settle_key(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, 
                     "ON CONFLICT(id) DO UPDATE SET value = excluded.value, op_id = excluded.op_id, "
                     "open = 1", [cid, tbl, row_id, key, raw_value, op_id, dev[0] if dev else None,
                                  hlc])
+
+
+def _free_shown(conn: sqlite3.Connection, tbl: str, key: str, scope: tuple[str, ...],
+                live: bool, shown: str, scope_values: tuple, busy: frozenset[str]) -> None:
+    """Free a key value about to be shown from rows that show it but claim another now.
+
+    Why: a batch can move keys round a ring (A->B, B->C, C->A). Such a row's own write comes
+    later in the merge; until then it holds the value it used to claim, and writing the row
+    that claims it now tripped the unique index. That write was rolled back, its conflict
+    records with it, and a ring left every row in it waiting for good: what a replica showed
+    (and recorded) then hung on the order of arrival. Settling the holder's own claim first
+    gives the one result whatever the order."""
+    # (this group's own claims are parked already: a row found here claims another value)
+    where = " AND ".join([f"{key} = ?", *(f"{c} IS ?" for c in scope)]
+                         + (["deleted_at IS NULL"] if live else []))
+    for (holder,) in conn.execute(f"SELECT id FROM {tbl} WHERE {where}",
+                                  [shown, *scope_values]).fetchall():
+        conn.execute(f"UPDATE {tbl} SET {key} = ? WHERE id = ?", [_parked(holder), holder])
+        conn.execute("DELETE FROM sync_dirty WHERE tbl = ? AND row_id = ?", [tbl, holder])
+        got = conn.execute("SELECT value FROM sync_fields WHERE tbl = ? AND row_id = ? AND "
+                           "field = ?", [tbl, holder, key]).fetchone()
+        if got and got[0] is not None and got[0] not in busy:
+            _settle_key(conn, tbl, key, scope, live, got[0], busy)
 
 
 # -- reading back ----------------------------------------------------------------------------
