@@ -171,14 +171,18 @@ def _save_lengths(page: Any, n: int) -> list[float]:
             page.mouse.move(PHONE["width"] / 2, PHONE["height"] * 0.55)
             page.mouse.wheel(0, 200)
             time.sleep(0.2)
-        field.click(position={"x": 60, "y": 20}, timeout=TIMEOUT_MS)
-        page.keyboard.press("Control+A")
-        page.keyboard.type(value)
-        time.sleep(0.3)
+        for _ in range(5):  # Flutter may swap the focused input: type until it holds the text
+            field.click(position={"x": 60, "y": 20}, timeout=TIMEOUT_MS)
+            time.sleep(0.3)
+            page.keyboard.press("Control+A")
+            page.keyboard.type(value)
+            time.sleep(0.3)
+            if page.evaluate("document.activeElement && document.activeElement.value") == value:
+                break
         t0 = time.perf_counter()
         page.keyboard.press("Enter")
         # the save bar says the new result: "Saved length 14 ft; checked again: 0.58 OK"
-        _until(page, _SHOWN, [["save-note"], f"Saved length {value}; checked again: "])
+        _until(page, _SHOWN, [["save-note"], f"Saved length {value}"])
         out.append((time.perf_counter() - t0) * 1000)
         time.sleep(0.5)
     return out
