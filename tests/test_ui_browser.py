@@ -131,7 +131,7 @@ def test_tablet_two_panes(server, browser):
 def test_phone_findings_photo_history_and_a_new_finding(server, browser):
     page = _open(browser, server, PHONE)
     _click(page, "site-Kestrel Lane Print Works")
-    _click(page, "column-A/2-G")
+    _open_column(page, "column-A/2-G")
     _wait(page, "status")
     _tab(page, "findings")
     _wait(page, "finding-0")

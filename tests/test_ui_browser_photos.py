@@ -24,7 +24,7 @@ import pytest
 from PIL import Image, ImageDraw
 
 from _browser import (  # noqa: F401  (browser is a fixture)
-    SIZES, TIMEOUT, _choose, _click, _find, _offline, _open, _poll, _sel, _shot, _tab,
+    SIZES, TIMEOUT, _choose, _click, _find, _offline, _open, _open_column, _poll, _sel, _shot, _tab,
     _type_into,
     _wait, _words, app_server, browser,
 )
@@ -52,7 +52,7 @@ def _photo(path: Path, shade: int) -> Path:
 
 def _column(page, tag: str) -> None:
     _click(page, "site-Kestrel Lane Print Works")
-    _click(page, f"column-{tag}")
+    _open_column(page, f"column-{tag}")
     _wait(page, "status")
 
 

@@ -10,13 +10,13 @@ $FIELDCOL_SHOTS (``restraint-brace.png``, ``check.png``; ``-tablet`` at 820 px).
 
 from __future__ import annotations
 
-from _browser import (PHONE, TABLET, _click, _find, _open, _poll, _sel, _shot, _wait,  # noqa: F401
+from _browser import (PHONE, TABLET, _click, _find, _open, _open_column, _poll, _sel, _shot, _wait,  # noqa: F401
                       browser, server)
 
 
 def _column(page, tag: str) -> None:
     _click(page, "site-Kestrel Lane Print Works")
-    _click(page, f"column-{tag}")
+    _open_column(page, f"column-{tag}")
     _wait(page, "status")
 
 

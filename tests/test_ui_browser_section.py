@@ -12,7 +12,7 @@ the touch-target minimum of 48 px is common practice (Material design guidance).
 from __future__ import annotations
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _poll,
+    PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _open_column, _poll,
     _sel, _shot, _tab, _type_into, _wait, _words, browser, server,
 )
 
@@ -24,7 +24,7 @@ W = aisc.W_shapes.sections["W14X90"]  # AISC Shapes Database v15.0
 def _column(page, tag: str):
     _click(page, "site-Kestrel Lane Print Works")
     _wait(page, "column-A/1-G")
-    _click(page, f"column-{tag}")
+    _open_column(page, f"column-{tag}")
     _wait(page, "status")
 
 

@@ -14,7 +14,7 @@ import textwrap
 import pytest
 
 from _browser import (  # the shared browser helpers
-    PHONE, TABLET, _click, _offline, _open, _poll, _sel, _shot, _type_into, _wait,
+    PHONE, TABLET, _click, _offline, _open, _open_column, _poll, _sel, _shot, _type_into, _wait,
     _words, app_server, browser,  # noqa: F401  (browser is a fixture)
 )
 
@@ -131,7 +131,7 @@ def test_tablet_site_list_and_column(site_server, browser):
     base, _db = site_server
     page = _open(browser, base, TABLET)
     _click(page, "site-Kiln Shed")
-    _click(page, "column-K/1-G")
+    _open_column(page, "column-K/1-G")
     _wait(page, "status")
     _wait(page, "duplicate-column")
     _shot(page, "tablet-site-column.png")
