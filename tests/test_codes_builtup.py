@@ -212,3 +212,75 @@ def test_a_key_another_arrangement_reads_is_refused_not_ignored():
     with pytest.raises(InputError) as e:
         assess(rec)
     assert e.value.field == "section.built.depth" and "not used by channels" in str(e.value)
+
+
+def _step(res, symbol):
+    return float(next(s for s in res.trace.steps if s.symbol == symbol).value)
+
+
+def test_aisc_lacing_carries_two_percent_of_the_strength_by_hand():
+    # AISC 360-22 E6.2 (from memory): lacing for a shear of 2 % of the member's strength.
+    # A bar 40 x 4 mm, single lacing at a 500 mm pitch (a diagonal spans 250 mm along the chord)
+    # on two faces: L = d = sqrt(h0^2 + 250^2), r = 4 / sqrt(12) = 1.155 mm, so L/r is well over
+    # 200 and Fcr = 0.877 Fe (E3). A bar force V d / (n h0) <= Pbar with V = 0.02 Pn gives
+    # Pn <= 50 Pbar n h0 / d: independent of the member itself.
+    ang = Part("angle", 80.0, 80.0, 8.0, 8.0, 10.0)
+    b = angles_box(ang, 400, 320, Lacing("single", 40, 4, 500))
+    res = check_builtup("aisc360-22", b, 250.0, 200000.0, 77200.0, 6000, 6000, 6000)
+    ax = b.open_axis("weak")
+    d = math.hypot(ax.h0, 250.0)
+    Fe = math.pi**2 * 200000.0 / (d / (4 / math.sqrt(12))) ** 2
+    Pbar = 0.877 * Fe * 160.0
+    assert _step(res, "Pn,bar,weak") == pytest.approx(Pbar, rel=1e-9)
+    assert float(res.modes["flexural-weak"].Pn) == pytest.approx(50 * Pbar * 2 * ax.h0 / d, rel=1e-9)
+    assert res.warning("lacing-shear") is not None
+    # a stout bar carries the shear: the E3 strength stands and no warning is given
+    stout = angles_box(ang, 400, 320, Lacing("single", 50, 12, 500))
+    ok = check_builtup("aisc360-22", stout, 250.0, 200000.0, 77200.0, 6000, 6000, 6000)
+    assert ok.warning("lacing-shear") is None
+    assert _step(ok, "N,bar,weak") <= _step(ok, "Pn,bar,weak")
+
+
+def test_en_battens_and_their_joints_are_reported_at_the_capacity_by_hand():
+    # EN 1993-1-1 6.4.1 (7), 6.4.3.1 (2), Fig. 6.11 (from memory): at N_Ed = N_b,Rd,
+    # V_Ed = pi M_Ed / L; one batten of n = 2 carries V_b = V_Ed a / (n h0) and
+    # M_b = V_Ed a / (2 n); its joint to the chord carries both.
+    ch = catalogue_part("UPN 200", "channel")
+    b = channels(ch, 120, tie=Battens(600, 180, 10))
+    L = 6000.0
+    res = check_builtup("en1993-1-1", b, 235.0, E_EN, 81000.0, L, L, L)
+    ax = b.open_axes[0]
+    cap = _step(res, f"Nb,Rd,{ax.axis}")
+    _, M, V = chord_force(ax, cap, L, E_EN)
+    assert _step(res, f"V_Ed,{ax.axis}") == pytest.approx(math.pi * M / L, rel=1e-9)
+    assert _step(res, f"V_b,Ed,{ax.axis}") == pytest.approx(V * 600 / (2 * ax.h0), rel=1e-9)
+    assert _step(res, f"M_b,Ed,{ax.axis}") == pytest.approx(V * 600 / 4, rel=1e-9)
+    assert _step(res, f"F_joint,{ax.axis}") == pytest.approx(V * 600 / (2 * ax.h0), rel=1e-9)
+
+
+def test_en_thin_battens_govern_the_capacity():
+    # battens 60 x 4 mm: bending of the batten (W = t b^2 / 6 = 2400 mm^3, 6.2.5) governs,
+    # so the capacity is where that utilization reaches one (bisection on N_Ed)
+    ch = catalogue_part("UPN 200", "channel")
+    L = 6000.0
+    thin = channels(ch, 120, tie=Battens(600, 60, 4))
+    ax = thin.open_axes[0]
+    cap = _step(check_builtup("en1993-1-1", thin, 235.0, E_EN, 81000.0, L, L, L),
+                f"Nb,Rd,{ax.axis}")
+    _, _, V = chord_force(ax, cap, L, E_EN)
+    Mb = V * 600 / 4
+    assert Mb / (4 * 60**2 / 6 * 235.0) == pytest.approx(1.0, abs=1e-6)
+
+
+def test_en_lacing_bar_force_and_its_joint_by_hand():
+    # EN 1993-1-1 6.4.2.2 (from memory): a single-lacing bar carries N_d = V_Ed d / (n h0)
+    ang = Part("angle", 80.0, 80.0, 8.0, 8.0, 10.0)
+    b = angles_box(ang, 400, 320, Lacing("single", 40, 8, 500))
+    L = 9000.0
+    res = check_builtup("en1993-1-1", b, 235.0, E_EN, 81000.0, L, L, L)
+    ax = b.open_axis("weak")
+    cap = _step(res, "Nb,Rd,weak")
+    _, _, V = chord_force(ax, cap, L, E_EN)
+    d = math.hypot(ax.h0, 250.0)
+    assert _step(res, "N_d,Ed,weak") == pytest.approx(V * d / (2 * ax.h0), rel=1e-9)
+    assert _step(res, "F_joint,weak") == _step(res, "N_d,Ed,weak")

@@ -5,11 +5,13 @@
   lacing or battens.
 * AISC 360-22 E6.1: the modified slenderness (Lc/r)m about an open axis (rivets and bolts as
   snug-tight, welds as welded), used in E3 in place of Lc/r; E6.2 spacing limits and the
-  lacing and tie plate rules as warnings.
+  lacing and tie plate proportions as warnings; the lacing carries 2 % of the member's
+  strength (where it cannot, the strength about that axis is lowered to what it can).
 * EN 1993-1-1 6.4: laced and battened members: Ieff, Sv, e0 = L/500, the chord force at
   mid-length checked against the chord's buckling between panel points (6.4.2.1, 6.4.3.1),
-  the end panel of a battened member and the lacing bars; the capacity is the largest N_Ed
-  these checks pass. About a solid axis: 6.3.1 with curve c (riveted built-up members are not
+  the end panel of a battened member, the battens (moment V_Ed a / 2n, shear V_Ed a / (n h0))
+  and the lacing bars; the capacity is the largest N_Ed these checks pass, and the forces in
+  the lacing, the battens and their joints at that N_Ed are reported. About a solid axis: 6.3.1 with curve c (riveted built-up members are not
   in Table 6.2: the curve of U, T and solid sections, common practice).
 
 Every part's plate elements are classified (AISC Table B4.1a, EN Table 5.2); a slender
@@ -265,7 +267,14 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
                                         f"component exceeds 3/4 of the member's governing "
                                         f"slenderness ({0.75 * worst:.0f}) ({E6}.2)", one))
             _aisc_ties(ax, warnings, one)
+            if isinstance(ax.tie, Battens):
+                t.add("note", "end tie plates (not recorded) must be at least as long as the "
+                      "distance between the lines of connectors (taken as h0), intermediate "
+                      "ones half that, and at least 1/50 of it thick", "", "", "", f"{E6}.2")
         res = check_aisc360(plain, Fy, E, G, Lm["strong"], Lm["weak"], Lc_twist, basis=basis)
+        for ax in built.open_axes:
+            if isinstance(ax.tie, Lacing):
+                _aisc_lacing_shear(ax, res, float(sec.A), Fy, E, post, warnings, one)
         factor = 0.90 if basis == "lrfd" else 1 / 1.67
         clause = "AISC 360-22 E1, E6"
     elif code == "en1993-1-1":
@@ -385,6 +394,90 @@ def _aisc_ties(ax: OpenAxis, warnings: list[Warning], one: np.ndarray) -> None:
                                     f"distance between the chords ({E6}.2)", one))
 
 
+def lacing_bar(ax: OpenAxis) -> tuple[float, float, float]:
+    """(unbraced length, radius of gyration, share of the shear per plane) of one lacing bar.
+
+    A flat bar buckles about its thin axis, r = t / sqrt(12); crossed (double) lacing joined at
+    its crossing buckles over 0.7 d and each bar takes half the shear (AISC 360-22 E6.2, from
+    memory; common practice for EN).
+
+    Example:
+        >>> ax = OpenAxis("weak", 300.0, 5000.0, 2e6, 20.0, 800.0, Lacing("double", 40, 8, 800), "c")
+        >>> [round(v, 2) for v in lacing_bar(ax)]
+        [598.08, 2.31, 2.0]
+    """
+    d, _ = lacing_geometry(ax)
+    double = ax.tie.kind == "double"
+    return (0.7 * d if double else d), float(ax.tie.thickness / np.sqrt(12)), (2.0 if double else 1.0)
+
+
+def _aisc_lacing_shear(ax: OpenAxis, res: CodeResult, A: float, Fy: float, E: float, t: Trace,
+                       warnings: list[Warning], one: np.ndarray) -> None:
+    """AISC 360-22 E6.2 (from memory): lacing proportioned for a shear normal to the member of
+    2 % of its available compressive strength. The bars are E3 struts; where they cannot carry
+    that shear, the member strength about this axis is lowered until they can (0.02 phi Pn <=
+    phi Pbar holds in nominal terms, so it is the same for LRFD and ASD)."""
+    o = ax.axis
+    tie = ax.tie
+    d, _ = lacing_geometry(ax)
+    Lb, rb, share = lacing_bar(ax)
+    slender = Lb / rb
+    Fe = np.pi**2 * E / slender**2
+    Fcr = 0.658 ** (Fy / Fe) * Fy if Fy / Fe <= 2.25 else 0.877 * Fe
+    Pbar = t.add(f"Pn,bar,{o}", f"nominal strength of one lacing bar, {o} axis (L/r "
+                 f"{slender:.0f})", "Fcr Ad (E3)", Fcr * tie.area, "N", "AISC 360-22 E3, E6.2")
+    mode = res.modes[_MODE[o]]
+    Pn = float(np.asarray(mode.Pn).reshape(-1)[0])
+    V = t.add(f"V,lacing,{o}", f"shear the lacing must carry, {o} axis", "0.02 Pn",
+              0.02 * Pn, "N", f"{E6}.2")
+    Nbar = t.add(f"N,bar,{o}", f"force in one lacing bar, {o} axis", "V d / (n s h0)",
+                 V * d / (tie.planes * share * ax.h0), "N", f"{E6}.2 (statics of the panel)")
+    if Nbar > Pbar:
+        limit = Pn * Pbar / Nbar
+        t.add(f"Pn,lacing,{o}", f"member strength the lacing allows, {o} axis", "Pn Pbar / Nbar",
+              limit, "N", f"{E6}.2")
+        res.modes[_MODE[o]] = replace(mode, Pn=np.array(limit), Fcr=np.array(limit / A))
+        warnings.append(Warning("lacing-shear", f"the lacing bars cannot carry 2 % of the "
+                                f"member's strength ({E6}.2): the {o}-axis strength is lowered "
+                                "to what they can carry", one))
+
+
+def _en_ties(ax: OpenAxis, N: float, L: float, E: float, fy: float, t: Trace) -> None:
+    """The forces in the lacing or battens and their connections at N (EN 1993-1-1 6.4.1 (7),
+    6.4.2.2, 6.4.3.1 (2) and Fig. 6.11, from memory): V_Ed = pi M_Ed / L; a lacing bar
+    N_d = V_Ed d / (n s h0); a batten (one of n planes) V_b = V_Ed a / (n h0) and
+    M_b = V_Ed a / (2 n); a joint carries the bar force, or the batten's V_b and M_b."""
+    o = ax.axis
+    _, M, V = chord_force(ax, N, L, E)
+    t.add(f"V_Ed,{o}", f"shear across the member at N_Ed = N_b,Rd, {o} axis", "pi M_Ed / L",
+          V, "N", f"{EN64}.1 (7)")
+    if isinstance(ax.tie, Lacing):
+        d, _ = lacing_geometry(ax)
+        _, _, share = lacing_bar(ax)
+        Nd = t.add(f"N_d,Ed,{o}", f"force in one lacing bar, {o} axis", "V_Ed d / (n s h0)",
+                   V * d / (ax.tie.planes * share * ax.h0), "N", f"{EN64}.2.2")
+        t.add(f"F_joint,{o}", f"demand on each lacing bar's end connection, {o} axis",
+              "N_d,Ed", Nd, "N", f"{EN64}.2.2 (connections: check the rivets or welds)")
+    elif isinstance(ax.tie, Battens):
+        n = ax.tie.planes
+        Vb = t.add(f"V_b,Ed,{o}", f"shear in one batten, {o} axis", "V_Ed a / (n h0)",
+                   V * ax.a / (n * ax.h0), "N", f"{EN64}.3.1 (2), Fig. 6.11")
+        Mb = t.add(f"M_b,Ed,{o}", f"moment in one batten at the chord, {o} axis",
+                   "V_Ed a / (2 n)", V * ax.a / (2 * n), "N mm", f"{EN64}.3.1 (2), Fig. 6.11")
+        t.add(f"F_joint,{o}", f"demand on each batten's connection to a chord, {o} axis: "
+              f"shear {Vb / 1e3:.1f} kN with moment {Mb / 1e6:.2f} kN m", "V_b,Ed, M_b,Ed",
+              Vb, "N", f"{EN64}.3.1 (2) (connections: check the rivet group or welds)")
+
+
+def _batten_ratio(ax: OpenAxis, V: float, fy: float) -> float:
+    """Utilization of one batten for its moment (elastic, W = t b^2 / 6) and shear
+    (Av = t b, fy / sqrt(3)), gamma_M0 = 1.0 recommended (EN 1993-1-1 6.2.5, 6.2.6)."""
+    b = ax.tie
+    Mb = V * ax.a / (2 * b.planes)
+    Vb = V * ax.a / (b.planes * ax.h0)
+    return max(Mb / (b.thickness * b.depth**2 / 6 * fy), Vb / (b.thickness * b.depth * fy / np.sqrt(3)))
+
+
 def _chord_resistance(ax: OpenAxis, fy: float, E: float, gamma_M1: float, t: Trace,
                       o: str) -> float:
     """N_b,Rd of one chord over the panel length a, about its least axis (conservative)."""
@@ -417,10 +510,12 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
     lam_bar = ax.a / ax.ri / (np.pi * np.sqrt(E / fy))
     lacing_Rd = None
     if isinstance(ax.tie, Lacing):
-        d, _ = lacing_geometry(ax)
+        # the whole diagonal, crossed or not: EN gives no shorter length (on the safe side)
+        Lb, _ = lacing_geometry(ax)
         i_bar = ax.tie.thickness / np.sqrt(12)
-        lb_d = d / i_bar / (np.pi * np.sqrt(E / fy))
-        lacing_Rd = t.add(f"Nb,Rd,d,{o}", f"lacing bar buckling resistance, {o} axis (curve c)",
+        lb_d = Lb / i_bar / (np.pi * np.sqrt(E / fy))
+        lacing_Rd = t.add(f"Nb,Rd,d,{o}", f"lacing bar buckling resistance, {o} axis (curve c, "
+                          f"over {Lb:.0f} mm)",
                           "chi Ad fy / gamma_M1", float(reduction_factor(lb_d, 0.49)) *
                           ax.tie.area * fy / gamma_M1, "N", "EN 1993-1-1 6.3.1")
 
@@ -431,10 +526,11 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
         worst = Nch / Nb_ch
         if isinstance(ax.tie, Battens):
             k = 1 + 0.6 * min(lam_bar, 1.0) * (0.5 * N / Nb_ch)
-            worst = max(worst, 0.5 * N / Nb_ch + k * (V * ax.a / 4) / (W * fy / gamma_M1))
+            worst = max(worst, 0.5 * N / Nb_ch + k * (V * ax.a / 4) / (W * fy / gamma_M1),
+                        _batten_ratio(ax, V, fy))
         if lacing_Rd is not None:
             d, _ = lacing_geometry(ax)
-            share = 2.0 if ax.tie.kind == "double" else 1.0
+            _, _, share = lacing_bar(ax)
             worst = max(worst, V * d / (ax.tie.planes * share * ax.h0) / lacing_Rd)
         return worst
 
@@ -447,7 +543,5 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
                                                       else "") + (" and lacing" if lacing_Rd else "")
           + f" checks pass, {o} axis", "N_ch,Ed = 0.5 N_Ed + M_Ed h0 Ach / (2 Ieff), "
           "M_Ed = N_Ed e0 / (1 - N_Ed/Ncr - N_Ed/Sv)", cap, "N", f"{EN64}.1 (6.69), (6.70)")
-    if isinstance(ax.tie, Battens):
-        t.add("note", "battens and their connections are not checked here (EN 1993-1-1 "
-              "6.4.3.1 (2)): check them for V_Ed a / 2", "", "", "", EN64)
+    _en_ties(ax, cap, L, E, fy, t)
     return cap, 1 / (1 / Ncr + 1 / Sv)
