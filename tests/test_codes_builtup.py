@@ -284,3 +284,49 @@ def test_en_lacing_bar_force_and_its_joint_by_hand():
     d = math.hypot(ax.h0, 250.0)
     assert _step(res, "N_d,Ed,weak") == pytest.approx(V * d / (2 * ax.h0), rel=1e-9)
     assert _step(res, "F_joint,weak") == _step(res, "N_d,Ed,weak")
+
+
+def _star(pitch, angle="L3X3X3/8"):
+    from fieldcol.sections._builtup import angles_star
+    return angles_star(catalogue_part(angle, "angle"), 10.0, pitch)
+
+
+def test_en_closely_spaced_star_is_one_integral_member_by_hand():
+    # EN 1993-1-1 6.4.4 (1) and Table 6.9 (from memory): chords on packings joined at most
+    # 15 imin apart buckle as one integral member (Sv infinite): 6.3.1 with the whole section's
+    # I and curve c (alpha 0.49).
+    b = _star(200.0)
+    ax = b.open_axis("weak")
+    assert ax.a / ax.ri <= 15
+    L = 3000.0
+    res = check_builtup("en1993-1-1", b, 235.0, E_EN, 81000.0, L, L, L)
+    A, I = float(b.section.A), float(b.section.Iy)
+    lb = math.sqrt(A * 235.0 / (math.pi**2 * E_EN * I / L**2))
+    phi = 0.5 * (1 + 0.49 * (lb - 0.2) + lb**2)
+    chi = 1 / (phi + math.sqrt(phi**2 - lb**2))
+    assert float(res.modes["flexural-weak"].Pn) == pytest.approx(chi * A * 235.0, rel=1e-9)
+    assert any(s.symbol == "a/imin,weak" for s in res.trace.steps)
+    assert any("6.4.4 (1)" in s.clause for s in res.trace.steps)
+
+
+def test_en_star_beyond_table_6_9_spacing_is_treated_as_battened():
+    # EN 1993-1-1 6.4.4 (2): otherwise treated as a battened member; never more than the
+    # integral member gives
+    wide = _star(900.0)
+    ax = wide.open_axis("weak")
+    assert ax.a / ax.ri > 15
+    L = 3000.0
+    res = check_builtup("en1993-1-1", wide, 235.0, E_EN, 81000.0, L, L, L)
+    assert any("6.4.4 (2)" in s.clause for s in res.trace.steps)
+    assert any(s.symbol == "Sv,weak" for s in res.trace.steps)
+    close = check_builtup("en1993-1-1", _star(200.0), 235.0, E_EN, 81000.0, L, L, L)
+    assert float(res.modes["flexural-weak"].Pn) <= float(close.modes["flexural-weak"].Pn)
+
+
+@settings(max_examples=30, deadline=None)
+@given(st.floats(60, 1500), st.floats(1.02, 3.0), st.floats(1500, 6000))
+def test_en_closely_spaced_wider_spacing_never_raises_the_capacity(a, grow, L):
+    # across the Table 6.9 limit too: the integral member above, the battened one below
+    for make in (_star, lambda p: channels(catalogue_part("UPN 200", "channel"), 10, pitch=p)):
+        one, two = make(a), make(a * grow)
+        assert _cap("en1993-1-1", two, L) <= _cap("en1993-1-1", one, L) * (1 + 1e-9)

@@ -282,24 +282,28 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
         A = float(sec.A)
         for o in ("strong", "weak"):
             ax = built.open_axis(o)
+            I = float(getattr(sec, _I[o]))
             if ax is None:
-                I = float(getattr(sec, _I[o]))
-                Ncr = post.add(f"Ncr,{o}", f"elastic critical load, {o} axis (solid)",
-                               "pi^2 E I / Lc^2", np.pi**2 * E * I / Lc[o]**2, "N",
-                               "EN 1993-1-1 6.3.1.2")
-                lb = post.add(f"lb,{o}", f"slenderness, {o} axis (solid)", "sqrt(A fy / Ncr)",
-                           np.sqrt(A * Fy / Ncr), "", "EN 1993-1-1 6.3.1.3")
-                chi = post.add(f"chi,{o}", f"reduction factor, {o} axis, curve c (built-up, "
-                            "common practice)", "(6.49), alpha 0.49",
-                            float(reduction_factor(lb, 0.49)), "", "EN 1993-1-1 6.3.1.2")
-                res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(lb),
-                                                 np.array(Ncr), np.array(chi * Fy),
-                                                 np.array(chi * A * Fy))
-            else:
-                cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
-                res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan),
-                                                 np.array(Neff), np.array(cap * gamma_M1 / A),
-                                                 np.array(cap * gamma_M1))
+                res.modes[_MODE[o]] = _en_solid(o, I, A, Lc[o], Fy, E, post, "solid")
+                continue
+            integral = None
+            if ax.tie is None:
+                close = _closely_spaced(ax, post)
+                integral = _en_solid(o, I, A, Lc[o], Fy, E, post,
+                                     "one integral member, Sv infinite" if close else
+                                     "as one integral member, for the bound",
+                                     "" if close else "int,")
+                if close:
+                    res.modes[_MODE[o]] = integral
+                    continue
+            cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
+            mode = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan), np.array(Neff),
+                              np.array(cap * gamma_M1 / A), np.array(cap * gamma_M1))
+            if integral is not None and float(integral.Pn) < float(mode.Pn):
+                post.add("note", f"{o} axis: the integral member's resistance is lower and "
+                         "governs (a battened treatment never gives more)", "", "", "", EN64)
+                mode = integral
+            res.modes[_MODE[o]] = mode
         factor, clause = 1 / gamma_M1, f"EN 1993-1-1 6.3.1, {EN64}"
     else:
         res = check_elastic(plain, Fy, E, G, Lc_strong, Lc_weak, Lc_twist)
@@ -489,6 +493,48 @@ def _chord_resistance(ax: OpenAxis, fy: float, E: float, gamma_M1: float, t: Tra
     return t.add(f"Nb,Rd,ch,{o}", f"chord buckling resistance over a panel, {o} axis "
                  f"(curve {'b' if alpha == 0.34 else 'c'})", "chi Ach fy / gamma_M1",
                  chi * ax.Ach * fy / gamma_M1, "N", "EN 1993-1-1 6.3.1")
+
+
+def _en_solid(o: str, I: float, A: float, L: float, fy: float, E: float, t: Trace,
+              how: str, tag: str = "") -> ModeResult:
+    """Flexural buckling about an axis of the whole section (6.3.1), curve c: riveted
+    built-up members are not in Table 6.2; curve c is that of U, T and solid sections
+    (common practice)."""
+    Ncr = t.add(f"Ncr,{tag}{o}", f"elastic critical load, {o} axis ({how})", "pi^2 E I / Lc^2",
+                np.pi**2 * E * I / L**2, "N", "EN 1993-1-1 6.3.1.2")
+    lb = t.add(f"lb,{tag}{o}", f"slenderness, {o} axis ({how})", "sqrt(A fy / Ncr)",
+               np.sqrt(A * fy / Ncr), "", "EN 1993-1-1 6.3.1.3")
+    chi = t.add(f"chi,{tag}{o}", f"reduction factor, {o} axis, curve c (built-up, common practice)",
+                "(6.49), alpha 0.49", float(reduction_factor(lb, 0.49)), "",
+                "EN 1993-1-1 6.3.1.2")
+    return ModeResult(_MODE[o], np.array(L), np.array(lb), np.array(Ncr), np.array(chi * fy),
+                      np.array(chi * A * fy))
+
+
+#: EN 1993-1-1 Table 6.9 (from memory): largest spacing of the interconnections of a closely
+#: spaced built-up member, in radii of gyration imin of one chord: 15 for chords in contact or
+#: on packing plates (Fig. 6.12); 70 for star-battened angles with battens in pairs (Fig. 6.13).
+#: A cross of four angles on packings is taken with 15 (each pair is back to back on packings).
+CLOSE_SPACING = 15.0
+
+
+def _closely_spaced(ax: OpenAxis, t: Trace) -> bool:
+    """EN 1993-1-1 6.4.4 (1): chords in contact or on packings, joined at most 15 imin apart
+    (Table 6.9): one integral member (Sv infinite); otherwise (2): treated as battened."""
+    o = ax.axis
+    ratio = t.add(f"a/imin,{o}", f"interconnection spacing over the least radius of one "
+                  f"chord, {o} axis (limit {CLOSE_SPACING:.0f})", "a / imin", ax.a / ax.ri, "",
+                  f"{EN64}.4 Table 6.9")
+    close = ax.back_to_back and ratio <= CLOSE_SPACING
+    if close:
+        t.add("note", f"{o} axis: closely spaced chords within the Table 6.9 spacing: buckling "
+              "checked as one integral member, shear stiffness ignored", "", "", "", f"{EN64}.4 (1)")
+    else:
+        why = ("the chords stand apart (not in contact or on packings)" if not ax.back_to_back
+               else f"the interconnections are more than {CLOSE_SPACING:.0f} imin apart")
+        t.add("note", f"{o} axis: {why}: treated as a battened member, the interconnections "
+              "taken as rigid battens", "", "", "", f"{EN64}.4 (2)")
+    return close
 
 
 def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_M1: float,
