@@ -79,14 +79,15 @@ def elevation(lines: list[list[tuple[float, float]]], size: float = _SKETCH) -> 
 
     Example: ``elevation([[(0.2, 0), (0.2, 1)], [(0.8, 0), (0.8, 1)], [(0.2, 0), (0.8, 0.5)]])``.
     """
-    pad, scale = 10.0, size - 20.0
+    pad, wide = 10.0, size * 0.45           # beside the section on a phone, not below it
     shapes: list[cv.Shape] = []
     for i, line in enumerate(lines):
         width = 4.0 if i < 2 else 1.5          # the first two lines are the chords
-        shapes.append(_outline(line, pad, scale, ft.Paint(color=_STEEL, stroke_width=width,
-                                                          style=ft.PaintingStyle.STROKE),
-                               close=False))
-    return cv.Canvas(shapes, width=size * 0.6, height=size)
+        pts = [(x * (wide - 2 * pad) / (size - 2 * pad), y) for x, y in line]
+        shapes.append(_outline(pts, pad, size - 2 * pad,
+                               ft.Paint(color=_STEEL, stroke_width=width,
+                                        style=ft.PaintingStyle.STROKE), close=False))
+    return cv.Canvas(shapes, width=wide, height=size)
 
 
 class BuiltCard:
@@ -166,7 +167,7 @@ class BuiltCard:
                                       label=f"side view of one face: {p.elevation_label}",
                                       content=elevation(p.elevation)))
         self.area.controls = [
-            ft.Row(views, wrap=True, spacing=8),
+            ft.Row(views, spacing=8, vertical_alignment=ft.CrossAxisAlignment.START),
             ft.Semantics(identifier="built-preview", content=ft.Column(
                 [ec.value_line(x.label, x.value) for x in p.lines], spacing=4)),
             text_line(p.measure, size=16, color=MUTED)]
