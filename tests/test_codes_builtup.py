@@ -1,8 +1,8 @@
 """Built-up columns: AISC 360-22 E6, EN 1993-1-1 6.4 and Engesser's shear-flexible buckling.
 
-No published worked example was at hand to check against: the cases below are worked by hand
-and written out beside each check, with the formulas as the standards print them (recalled
-from memory where marked). Property tests: more connector spacing never raises the capacity;
+No published worked example's numbers were at hand to check against: the cases below are
+hand-worked, formulas from EN 1993-1-1 6.4 (and AISC 360-22 E6), written out beside each
+check (recalled from memory where marked). Property tests: more connector spacing never raises the capacity;
 a stiffer lacing never lowers it.
 """
 
