@@ -62,11 +62,11 @@ def test_undo_puts_welded_plates_back(demo):  # noqa: F811
 
 
 @pytest.mark.parametrize("args, field, words", [
-    (("riveted", ""), "plate pitch", "Plate pitch is needed. Type the spacing of the rivets"),
-    (("bolted", None), "plate pitch", "spacing of the bolts along the column"),
-    (("riveted", "0"), "plate pitch", "cannot be zero"),
-    (("riveted", "-6"), "plate pitch", "Plate pitch '-6'"),
-    (("bolted", "6 fr"), "plate pitch", "unknown length unit"),
+    (("riveted", ""), "rivet pitch", "Rivet pitch is needed. Type the spacing of the rivets"),
+    (("bolted", None), "bolt pitch", "Bolt pitch is needed. Type the spacing of the bolts"),
+    (("riveted", "0"), "rivet pitch", "cannot be zero"),
+    (("riveted", "-6"), "rivet pitch", "Rivet pitch '-6'"),
+    (("bolted", "6 fr"), "bolt pitch", "unknown length unit"),
     (("welded", "6"), "plate pitch", "welded plates have no fastener pitch"),
     (("glued", "6"), "plate connection", "Pick welded, riveted or bolted"),
 ])
@@ -97,7 +97,7 @@ def test_the_tab_offers_how_the_plates_are_held_and_names_a_missing_pitch(demo):
         assert s.has("plate-pitch")
         await s.tap("save-plates")
         err = s.inner("plate-pitch", ft.TextField).error
-        assert err and "Plate pitch is needed" in str(err)
+        assert err and "Rivet pitch is needed" in str(err)  # named as it is labelled
         assert "plates" not in store.get_column(cid).record["section"]
         await s.type("plate-pitch", "6", submit=False)
         await s.tap("save-plates")

@@ -559,7 +559,8 @@ def set_plates(store: "Store", column_id: str, thickness: str | None,
 
     Returns:
         The ``Change``. A bad entry raises ``InputError`` naming ``plate thickness``,
-        ``plate width``, ``plate connection`` or ``plate pitch``; nothing is saved then.
+        ``plate width``, ``plate connection``, ``rivet pitch`` / ``bolt pitch`` (or ``plate
+        pitch`` given for welded plates); nothing is saved then.
 
     Example: ``set_plates(store, cid, "3/8", "12", "riveted", "6").label`` gives
     ``'cover plates 3/8 in x 12 in, riveted at 6 in'``.
@@ -594,14 +595,15 @@ def set_plates(store: "Store", column_id: str, thickness: str | None,
             raise InputError("plate pitch", typed_pitch, "welded plates have no fastener pitch",
                              "pick riveted or bolted, or clear the pitch")
     else:
-        fasteners = "rivets" if how == "riveted" else "bolts"
+        # named as the entry is labelled: "Rivet pitch" or "Bolt pitch"
+        fld = "rivet pitch" if how == "riveted" else "bolt pitch"
         example = "6 (inches) or 150 mm" if system == "us" else "150 (mm) or 6 in"
         if not typed_pitch:
-            raise InputError("plate pitch", "", "this is required",
-                             f"type the spacing of the {fasteners} along the column, "
+            raise InputError(fld, "", "this is required",
+                             f"type the spacing of the {fld.split()[0]}s along the column, "
                              f"e.g. {example}")
-        kept = typed_length(typed_pitch, system, "plate pitch")
-        parse_length(kept, "plate pitch")   # refuses a zero or negative spacing
+        kept = typed_length(typed_pitch, system, fld)
+        parse_length(kept, fld)   # refuses a zero or negative spacing
         plates.update(connection=how, pitch=kept)
         what += f", {how} at {kept}"
     section["plates"] = plates

@@ -232,7 +232,8 @@ class SectionTab(Tab):
                                   self.plates["pitch"], v.unit,
                                   hint="spacing along the column, in one line",
                                   on_change=self._typed_plate("pitch"))
-            self.plate_fields["plate pitch"] = pitch
+            self.plate_fields.update({"rivet pitch": pitch, "bolt pitch": pitch,
+                                      "plate pitch": pitch})
             parts.append(ft.Semantics(identifier="plate-pitch", content=pitch))
         parts.append(ec.big_button("Save plates", ft.Icons.SAVE, self._save_plates,
                                    "save-plates"))
