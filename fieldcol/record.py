@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
 from fieldcol.errors import InputError
@@ -233,8 +233,10 @@ def _record_plate_joint(spec: Any, section: Section) -> Any:
     tp = parse_length(plates.get("thickness", ""), "section.plates.thickness")
     bp = (None if plates.get("width") in (None, "")
           else parse_length(plates["width"], "section.plates.width"))
-    # the plated section's bf is the flange width (with_plates keeps it)
-    return _plate_joint(plates, "section", tp, bp, section)
+    # the plated section's bf is the flange width (with_plates keeps it); the shape without
+    # the plates is kept too: plates never make the column weaker than the shape alone
+    bare = parse_section({k: v for k, v in spec.items() if k != "plates"})
+    return replace(_plate_joint(plates, "section", tp, bp, section), bare=bare)
 
 
 #: Knowledge settings of the kind used in existing-building assessment (ASCE 41 data collection

@@ -14,6 +14,9 @@ that the plates are held only at the rivets:
   and only chi_p of the plates' area is counted (A_eff = A - 2 bp tp (1 - chi_p)), the member's
   slenderness kept from the gross section (on the safe side). p1 at most 14 tp and 200 mm:
   a warning.
+* The plates never make the column weaker than the shape without them (common practice: a
+  plate too loosely held to work with the shape is left out): when the shape alone (``bare``)
+  is stronger, it is taken, and a warning says the plates were not counted.
 * Holes filled by rivets or bolts are not deducted in compression (AISC 360-22 B4.3,
   EN 1993-1-1 6.2.4 (4), from memory): said in the trace.
 """
@@ -39,12 +42,14 @@ CONNECTIONS = ("welded", "riveted", "bolted")
 class PlateJoint:
     """How cover plates are held to the flanges: ``connection`` (welded, riveted, bolted), the
     rivet or bolt ``pitch`` along the column (mm; None when welded), plate ``thickness`` and
-    ``width`` (mm)."""
+    ``width`` (mm); ``bare``: the shape as it is without the plates (a ``Section``), when
+    known."""
 
     connection: str
     pitch: float | None
     thickness: float
     width: float
+    bare: Any = None
 
 
 def check_riveted_plates(code: str, joint: PlateJoint, section: Any, Fy: float, E: float,
@@ -137,4 +142,31 @@ def check_riveted_plates(code: str, joint: PlateJoint, section: Any, Fy: float, 
     res.trace.add("note", f"cover plates {joint.connection} at {a:.0f} mm: holes filled by the "
                   "fasteners are not deducted in compression", "", "", "",
                   "AISC 360-22 B4.3; EN 1993-1-1 6.2.4 (4)")
+    if joint.bare is not None and code in ("aisc360-22", "en1993-1-1"):
+        res = _not_below_the_shape(code, res, joint, Fy, E, G, Lc_strong, Lc_weak, Lc_twist,
+                                   basis=basis, gamma_M1=gamma_M1, high_strength=high_strength)
     return res
+
+
+def _not_below_the_shape(code: str, res: CodeResult, joint: PlateJoint, Fy: float, E: float,
+                         G: float, Lc_strong: float, Lc_weak: float, Lc_twist: float, *,
+                         basis: str, gamma_M1: float, high_strength: bool) -> CodeResult:
+    """The shape alone when it is stronger than the plated member at this pitch (scalars only:
+    an array of cases keeps the plated result, the lower bound in doubt)."""
+    if code == "aisc360-22":
+        alone = check_aisc360(joint.bare, Fy, E, G, Lc_strong, Lc_weak, Lc_twist, basis=basis)
+    else:
+        alone = check_en1993(joint.bare, Fy, E, G, Lc_strong, Lc_weak, Lc_twist,
+                             gamma_M1=gamma_M1, high_strength=high_strength)
+    if np.ndim(res.nominal) or not float(alone.nominal) > float(res.nominal):
+        return res
+    one = np.ones(np.shape(alone.nominal), dtype=bool)
+    alone.trace.add("note", f"the plated member held by {joint.connection}s at "
+                    f"{float(joint.pitch):.0f} mm ({float(res.nominal) / 1e3:.0f} kN nominal) is "
+                    "weaker than the shape alone: the plates are not counted", "", "", "",
+                    f"{E6 if code == 'aisc360-22' else EN18}; common practice")
+    alone.warnings.extend(w for w in res.warnings if w.code == "connector-spacing")
+    alone.warnings.append(Warning("plates-not-counted", f"cover plates {joint.connection} at "
+                                  f"{float(joint.pitch):.0f} mm pitch are too loosely held to "
+                                  "add strength: the shape alone is checked", one))
+    return alone
