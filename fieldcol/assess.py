@@ -16,7 +16,6 @@ import numpy as np
 
 from fieldcol import CAUTION, __version__
 from fieldcol.codes.beamcolumn import BeamColumnResult
-from fieldcol.codes.bow import TOLERANCE as BOW_TOLERANCE
 from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
                             check_en1993)
 from fieldcol.demand import combine
@@ -190,7 +189,7 @@ class Assessment:
                 "stiffness_factor": {ax: _q(f, "") for ax, f in self.band.factors.items()}},
             "bow": None if self.bow is None else {
                 "axis": self.bow.axis, "excess": _q(self.bow.excess, "mm"),
-                "allowance": f"L/{BOW_TOLERANCE[c.code]:g}",
+                "allowance": f"L/{c.bow_allowance:g}",
                 "flexural_strength": _q(self.bow.Mc, "N*mm"),
                 "capacity": _q(self.bow.capacity, "N"),
                 "interaction": None if self.bow.ratio is None else _q(self.bow.ratio, "")},
@@ -263,10 +262,20 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     trace.add("L", "column length between end restraints", "measured", col.length, "mm", "record")
     trace.add("Fy", f"yield stress, {mat.name}" + (" (coupon tests)" if mat.tested else ""),
               "grade table by thickness" if not mat.tested else "tested", Fy, "MPa", mat.source)
+    trace.add("E", "elastic modulus", col.moduli, mat.E, "MPa", _MODULI_CLAUSE.get(col.code, mat.source))
+    trace.add("G", "shear modulus", col.moduli, mat.G, "MPa", _MODULI_CLAUSE.get(col.code, mat.source))
     if mat.historic and not mat.tested:
         warnings.append({"code": "historic-grade",
                          "message": f"{mat.name} is a historic grade: confirm the yield stress by "
                                     "coupon tests before relying on this check"})
+    if sec.kind in ("rect", "round") and col.built is None:
+        spec = record.get("section")
+        how = (" (as recorded)" if isinstance(spec, Mapping) and "finish" in spec
+               else " (the catalogue row)" if isinstance(spec, str) or "name" in spec
+               else " (not recorded: cold-formed taken, the lower curve)")
+        trace.add("finish", "hollow section: " + ("hot-finished" if sec.rolled else "cold-formed") + how,
+                  "curve a (hot-finished) or c (cold-formed) under EN; AISC E3 makes no difference",
+                  "hot-finished" if sec.rolled else "cold-formed", "", "EN 1993-1-1 Table 6.2")
     for note in sec.notes:
         trace.add("section", "how the section was obtained", "", note, "", "record")
 
@@ -377,6 +386,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                       json.loads(json.dumps(record)), bow, beam, band, kappa, spans, sources)
 
 
+_MODULI_CLAUSE = {"aisc360-22": "AISC 360-22 Symbols (E, G)", "en1993-1-1": "EN 1993-1-1 3.2.6"}
 _APP5 = ("AISC 360-22 App. 5.2", "AISC 360-22 App. 5.2; EN 1993-1-1 gives no rule for existing "
          "structures, common practice")
 
@@ -407,7 +417,7 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
-                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial)
+                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance)
     if col.built is not None and col.built.open_axis(col.bow_axis) is not None:
         # the chords of a laced or battened column bend apart: the I-shape beam-column rules
         # do not apply; a bow beyond the curve's allowance is left unchecked (not-covered)
@@ -418,7 +428,7 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     excess = _first(res.excess)
-    n = BOW_TOLERANCE[col.code]
+    n = col.bow_allowance
     if excess > 0 and not math.isfinite(_first(res.capacity)):
         warnings.append({
             "code": "bow-not-checked",

@@ -15,7 +15,7 @@ from typing import Any, Mapping
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import (BRACE_KINDS, KEYS, LOAD_TYPES, _material_keys, _section_keys,
                                  check_keys, check_record_keys)
-from fieldcol.materials import Material, get_material, material_from_values, with_tested_fy
+from fieldcol.materials import Material, for_code, get_material, material_from_values, with_tested_fy
 from fieldcol.sections import (Section, from_catalogue, i_section, rect_hollow, round_hollow,
                                with_loss, with_plates)
 from fieldcol.stability import Brace, End, cable_stiffness, end, partial_end
@@ -128,6 +128,8 @@ class ColumnInput:
     knowledge: float = 1.0         # knowledge factor on every capacity (1.0: not applied)
     knowledge_label: str = "not given"
     built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
+    moduli: str = ""               # where E and G come from (the code being applied, or as entered)
+    bow_allowance: float = 1000.0  # n of the L/n of bow already in the column curve
 
 
 @dataclass(frozen=True)
@@ -190,7 +192,7 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         _section_keys(spec, "section")
         built = parse_built(spec["built"])
     section = built.section if built is not None else parse_section(spec)
-    material = parse_material(record["material"], shape=section.kind)
+    material, moduli = for_code(parse_material(record["material"], shape=section.kind), code)
     restraints = _object(record.get("restraints"), "restraints",
                          '{"strong": {..}, "weak": {..}, "twist": {..}}')
     check_keys(restraints, "restraints", "restraints")
@@ -215,12 +217,13 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     plumb = _opt_length(condition.get("plumb"), "condition.plumb")
     bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
     plumb_axis = _choice(condition.get("plumb_axis", "weak"), AXES, "condition.plumb_axis")
+    allowance = _bow_allowance(condition.get("bow_allowance"))
     band = parse_band(record["section"], length)
     kappa, kappa_label = parse_knowledge(record.get("knowledge"))
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
                        code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
-                       plumb_axis, band, kappa, kappa_label, built)
+                       plumb_axis, band, kappa, kappa_label, built, moduli, allowance)
 
 
 #: Knowledge settings of the kind used in existing-building assessment (ASCE 41 data collection
@@ -316,9 +319,9 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
             sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
         elif shape == "rect":
             r_out = dim("r", required=False)
-            sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out)
+            sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out, rolled=_hot_finished(spec, fld))
         else:
-            sec = round_hollow(dim("D"), dim("t"))
+            sec = round_hollow(dim("D"), dim("t"), rolled=_hot_finished(spec, fld))
     loss = _object(spec.get("loss"), f"{fld}.loss",
                    '{"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
     if loss:
@@ -416,6 +419,28 @@ def parse_quantity(text: Any, kind: str, fld: str, *, allow_zero: bool = False) 
     if kind != "angle":  # an angle typed alone is in degrees
         _unit_required(text, kind, fld)
     return _parse_quantity(text, kind, fld, allow_zero=allow_zero)
+
+
+FINISHES = ("cold-formed", "hot-finished")
+
+
+def _hot_finished(spec: Mapping[str, Any], fld: str) -> bool:
+    """A hollow section's ``finish``: ``hot-finished`` (EN 10210; EN 1993-1-1 Table 6.2 curve a)
+    or ``cold-formed`` (EN 10219, ASTM A500; curve c), the default when not recorded."""
+    return _choice(spec.get("finish", "cold-formed"), FINISHES, f"{fld}.finish") == "hot-finished"
+
+
+def _bow_allowance(value: Any, fld: str = "condition.bow_allowance") -> float:
+    """n of the L/n of bow the column curve already holds: ``L/1000`` (the default: the
+    straightness tolerance the curves cover) or ``L/1500`` (conservative)."""
+    if value in (None, ""):
+        return 1000.0
+    text = value.replace(" ", "").upper() if isinstance(value, str) else None
+    if text in ("L/1000", "L/1500"):
+        return float(text[2:])
+    raise InputError(fld, value, "not one of the choices",
+                     "L/1000 (default: the straightness tolerance the column curves cover) or "
+                     "L/1500 (conservative)")
 
 
 def _choice(value: Any, allowed: tuple[str, ...], fld: str) -> str:

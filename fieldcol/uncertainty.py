@@ -181,7 +181,8 @@ def run_samples(record: Mapping[str, Any], samples: int, *, seed: int = SEED,
                 a.beam is None or col.bow_over is not None):
             Lb = col.bow_over if col.bow_over is not None else a.spans[col.bow_axis]
             bw = check_bow(col.code, sec, Fy, mat.E, mat.G, Lb, L["strong"], L["weak"], L["twist"], col.bow,
-                           col.bow_axis, basis=basis, gamma_M1=col.gamma_M1, Pr=Pr or None, axial=ax)
+                           col.bow_axis, basis=basis, gamma_M1=col.gamma_M1, Pr=Pr or None, axial=ax,
+                           allowance=col.bow_allowance)
             caps.append(np.asarray(bw.capacity, dtype=float))
             if Pr:
                 ratios.append(np.asarray(bw.ratio, dtype=float))
