@@ -101,6 +101,42 @@ class Demand:
     psi0: Mapping[str, float] = field(default_factory=dict)    # EN combination factors set
     moments: Mapping[str, float] = field(default_factory=dict)  # N*mm, second order included
     reactions: tuple[Reaction, ...] = ()
+    end_moments: Mapping[str, "EndMoments"] = field(default_factory=dict)  # first order, per axis
+    story: "Story | None" = None
+
+
+@dataclass(frozen=True)
+class EndMoments:
+    """First-order moments at the two ends of the column about one axis (N*mm, magnitudes) and
+    the curvature they bend it in (``single``: M1/M2 < 0; ``reverse``: M1/M2 > 0, AISC signs)."""
+
+    top: float
+    bottom: float
+    curvature: str
+
+    @property
+    def ratio(self) -> float:
+        """M1/M2 with the AISC 360-22 App. 8 sign (positive in reverse curvature); 0 with one end
+        moment alone.
+
+        Example:
+            >>> EndMoments(100.0, 50.0, "single").ratio, EndMoments(100.0, 50.0, "reverse").ratio
+            (-0.5, 0.5)
+        """
+        m2, m1 = max(self.top, self.bottom), min(self.top, self.bottom)
+        if m2 == 0:
+            return 0.0
+        return (m1 / m2) * (1.0 if self.curvature == "reverse" else -1.0)
+
+
+@dataclass(frozen=True)
+class Story:
+    """The story the column stands in, for the sway amplifier: its total gravity load (N) and its
+    elastic buckling load (N), given or from its lateral stiffness H/Delta_H (N/mm)."""
+
+    load: float
+    buckling_load: float | None
+    stiffness: float | None
 
 
 @dataclass(frozen=True)
@@ -628,7 +664,8 @@ def _demand(spec: Any, code: str) -> Demand | None:
         if psi0:
             raise InputError("demand.psi0", psi0, "psi0 combines loads; the axial force given "
                              "is used as it stands", "leave out psi0, or give loads instead")
-        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis, {}, *bending)
+        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis, {}, *bending,
+                      *_first_order(spec))
     if not loads:
         raise InputError("demand", spec, "give axial or loads",
                          '{"axial": "840 kip"} or {"loads": {"dead": "200 kip", "live": "150 kip"}}')
@@ -642,7 +679,40 @@ def _demand(spec: Any, code: str) -> Demand | None:
             if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
                 raise InputError(f"demand.psi0.{k}", v, "must be a number from 0 to 1",
                                  "EN 1990 Table A1.1")
-    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()}, *bending)
+    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()}, *bending, *_first_order(spec))
+
+
+def _first_order(spec: Mapping[str, Any]) -> tuple[dict[str, EndMoments], "Story | None"]:
+    """``end_moments`` (first order, per axis: ``top``, ``bottom``, ``curvature``) and ``story``
+    (``load`` with ``buckling_load`` or ``stiffness``) for the amplifiers B1 and B2."""
+    ends = _object(spec.get("end_moments"), "demand.end_moments",
+                   '{"strong": {"top": "80 kip*ft", "bottom": "40 kip*ft", "curvature": "reverse"}}')
+    check_keys(ends, "end moments", "demand.end_moments")
+    out = {}
+    for ax, e in ends.items():
+        ef = f"demand.end_moments.{ax}"
+        e = _object(e, ef, '{"top": "80 kip*ft", "bottom": "40 kip*ft", "curvature": "reverse"}')
+        check_keys(e, "end moments of an axis", ef)
+        top, bottom = (0.0 if e.get(k) in (None, "") else
+                       abs(parse_quantity(e[k], "moment", f"{ef}.{k}", allow_zero=True)) for k in ("top", "bottom"))
+        curv = _choice(e.get("curvature", "single"), ("single", "reverse"), f"{ef}.curvature")
+        out[ax] = EndMoments(top, bottom, curv)
+    story = _object(spec.get("story"), "demand.story", '{"load": "2400 kip", "stiffness": "60 kip/in"}')
+    check_keys(story, "story", "demand.story")
+    if not story:
+        return out, None
+    if story.get("load") in (None, ""):
+        raise InputError("demand.story.load", "", "required: the story's total gravity load",
+                         '"2400 kip", on the basis of the axial demand')
+    load = parse_quantity(story["load"], "force", "demand.story.load")
+    pe = (None if story.get("buckling_load") in (None, "")
+          else parse_quantity(story["buckling_load"], "force", "demand.story.buckling_load"))
+    k = (None if story.get("stiffness") in (None, "")
+         else parse_quantity(story["stiffness"], "stiffness", "demand.story.stiffness"))
+    if (pe is None) == (k is None):
+        raise InputError("demand.story", story, "give the story's buckling_load or its lateral stiffness "
+                         "(H / Delta_H), one of them", '{"load": "2400 kip", "stiffness": "60 kip/in"}')
+    return out, Story(load, pe, k)
 
 
 def _bending(spec: Mapping[str, Any]) -> tuple[dict[str, float], tuple[Reaction, ...]]:

@@ -49,8 +49,11 @@ KEYS: dict[str, tuple[str, ...]] = {
     "twist": ("braces", "bottom", "top"),
     "twist restraint": ("at", "added", "seen_by", "note"),
     "condition": ("bow", "bow_axis", "bow_over", "bow_allowance", "plumb", "plumb_axis"),
-    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions"),
+    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions", "end_moments", "story"),
     "moments": AXES,
+    "end moments": AXES,
+    "end moments of an axis": ("top", "bottom", "curvature"),
+    "story": ("load", "buckling_load", "stiffness"),
     "reaction": ("load", "axis", "eccentricity", "side"),
     "loads": LOAD_TYPES,
     "psi0": ("live", "snow"),
@@ -141,6 +144,11 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
     check_keys(obj(demand.get("loads")), "loads", "demand.loads")
     check_keys(obj(demand.get("psi0")), "psi0", "demand.psi0")
     check_keys(obj(demand.get("moments")), "moments", "demand.moments")
+    ends = obj(demand.get("end_moments"))
+    check_keys(ends, "end moments", "demand.end_moments")
+    for ax in AXES:
+        check_keys(obj(ends.get(ax)), "end moments of an axis", f"demand.end_moments.{ax}")
+    check_keys(obj(demand.get("story")), "story", "demand.story")
     for i, r in items(demand.get("reactions")):
         check_keys(r, "reaction", f"demand.reactions[{i}]")
 
