@@ -652,8 +652,27 @@ def _longest_span(length: float, at: tuple[float, ...]) -> float:
     return max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
 
 
+#: lengths outside this range (mm: 1 ft to 100 ft) are more likely a slip of the unit than a column
+PLAUSIBLE_LENGTH = (304.8, 30480.0)
+
+
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
     L = col.length
+    lo, hi = PLAUSIBLE_LENGTH
+    if not lo * (1 - 1e-9) <= L <= hi * (1 + 1e-9):   # the limits themselves are plausible
+        warnings.append({
+            "code": "length-implausible",
+            "message": f"the length {_show(col, L)} is {'under 1 ft' if L < lo else 'over 100 ft'} "
+                       f"({_show(col, lo if L < lo else hi)}): check the entry and its unit "
+                       "(plausibility, common practice)"})
+    notes = list(col.section.notes) + (list(col.band.section.notes) if col.band is not None else [])
+    for note in notes:
+        if "more than the section's plate" in note:
+            warnings.append({
+                "code": "thickness-above-nominal",
+                "message": f"a {note.split(' remaining')[0]} thickness reading is above the section's nominal plate: "
+                           "mill overrun is possible, but check the reading, the gauge and the "
+                           "section's name; the reading is used as measured"})
     if col.plumb is not None and col.plumb > L / 500:
         spec = col.axes[col.plumb_axis]
         sway = not (math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation))

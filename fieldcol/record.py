@@ -366,7 +366,12 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()
                 if k not in ("from", "to")}
         if band or not is_band:
-            sec = with_loss(sec, **vals)
+            try:
+                sec = with_loss(sec, **vals)
+            except InputError as e:
+                # the engine speaks mm and its own argument names: name the record's full field
+                # and quote the entry as typed
+                raise _as_typed(e, loss, f"{fld}.loss") from None
     plates = spec.get("plates")
     if plates is not None:
         # after the loss: plates are welded to the steel that remains
@@ -375,7 +380,10 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         tp = parse_length(plates.get("thickness", ""), f"{fld}.plates.thickness")
         bp = (None if plates.get("width") in (None, "")
               else parse_length(plates["width"], f"{fld}.plates.width"))
-        sec = with_plates(sec, tp, bp, field=f"{fld}.plates")
+        try:
+            sec = with_plates(sec, tp, bp, field=f"{fld}.plates")
+        except InputError as e:
+            raise _as_typed(e, plates, f"{fld}.plates") from None
     return sec
 
 
@@ -455,6 +463,17 @@ def parse_quantity(text: Any, kind: str, fld: str, *, allow_zero: bool = False) 
     if kind != "angle":  # an angle typed alone is in degrees
         _unit_required(text, kind, fld)
     return _parse_quantity(text, kind, fld, allow_zero=allow_zero)
+
+
+def _as_typed(e: InputError, typed: Mapping[str, Any], fld: str) -> InputError:
+    """``e`` with its field under ``fld`` (``flange`` -> ``section.loss.flange``) and the entry
+    quoted as typed (``0.9 in``), not as the millimetres the engine received."""
+    key = e.field.rsplit(".", 1)[-1] if e.field.startswith(fld) else e.field
+    key = key.rstrip("0123456789") if key.rstrip("0123456789") in typed else key
+    if key in typed:
+        return InputError(f"{fld}.{key}", str(typed[key]), e.reason, e.hint)
+    return InputError(fld if e.field in ("section", "") else f"{fld}.{e.field}"
+                      if not e.field.startswith(fld) else e.field, e.text, e.reason, e.hint)
 
 
 FINISHES = ("cold-formed", "hot-finished")
