@@ -56,8 +56,8 @@ def _chi(a):
 def test_en_hollow_section_curve_follows_its_finish(finish, curve_chi):
     # EN 1993-1-1 Table 6.2: hot-finished hollow sections curve a (alpha 0.21), cold-formed curve c
     # (alpha 0.49). The length is chosen for a relative slenderness of 1.0, where 6.3.1.2 gives
-    # chi = 0.6656 (curve a) and 0.5399 (curve c) (from the formula; the curve c value also in
-    # the project's notes from published chi tables).
+    # chi = 0.6656 (curve a) and 0.5399 (curve c), worked from (6.49) by hand (curve c also as
+    # printed in design handbooks' chi tables, from memory).
     from fieldcol.sections import rect_hollow
     s = rect_hollow(200.0, 200.0, 10.0)
     lam1 = math.pi * math.sqrt(210_000 / 355)
