@@ -676,9 +676,12 @@ def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> Non
     if col.plumb is not None and col.plumb > L / 500:
         spec = col.axes[col.plumb_axis]
         sway = not (math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation))
-        then = ("checked here as P-delta with the column's own buckling load; include the story's "
-                "other columns in the frame analysis" if sway and col.demand is not None else
-                "include the sway effect in the frame analysis")
+        story = col.demand is not None and col.demand.story is not None
+        then = ("checked here as P-delta with the story's gravity load and buckling load as recorded"
+                if sway and story else
+                "checked here as P-delta with the column's own buckling load (the story not recorded: "
+                "give demand.story, or include the story's other columns in the frame analysis)"
+                if sway and col.demand is not None else "include the sway effect in the frame analysis")
         warnings.append({
             "code": "plumb-over-tolerance",
             "message": f"measured out-of-plumb {_show(col, col.plumb)} exceeds L/500 = {_show(col, L / 500)} "

@@ -81,6 +81,7 @@ class SectionView:
     gauge: str
     caution: str = CAUTION
     notes: list[str] = field(default_factory=list)
+    code: str | None = None        # the column's code: its catalogue ranks first among the fits
 
     @property
     def typed(self) -> dict[str, str]:
@@ -301,7 +302,8 @@ def section_view(store: "Store", column_id: str) -> SectionView:
         condition=loss_lines(section, system),
         plates=(str(plates.get("thickness", "")), str(plates.get("width") or ""))
         if isinstance(plates, dict) else None,
-        plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes)
+        plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes,
+        code=rec.get("code") if rec.get("code") in ("aisc360-22", "en1993-1-1") else None)
 
 
 # -- matching -------------------------------------------------------------------------------
@@ -352,7 +354,7 @@ def gauge_tolerance(gauge: str | None) -> float:
 
 
 def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: str,
-                 limit: int = 5) -> list[MatchLine]:
+                 limit: int = 5, code: str | None = None) -> list[MatchLine]:
     """Catalogue sections that fit the measured dimensions, best first, each with how far every
     dimension lies from its nominal value, in the site's unit and as a share of its rolling
     tolerance (ASTM A6 / A500 / A53, EN 10034: see ``fieldcol.sections.identify``).
@@ -363,6 +365,7 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
         gauge: the gauge used (widens each band by how closely it reads).
         system: ``us`` or ``si``.
         limit: how many candidates at most.
+        code: the column's code (``aisc360-22``, ``en1993-1-1``): its catalogue first among the fits.
 
     Returns:
         ``MatchLine`` s; when none lies within tolerance, the nearest three, each saying so.
@@ -376,7 +379,7 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
 
     dims = read_dimensions(shape, typed, system)
     found = identify(**{k: mm for k, (_, mm) in dims.items()}, gauge=gauge_tolerance(gauge),
-                     limit=limit)
+                     limit=limit, code=code)
     labels = dict(DIMENSIONS[shape])
     out = []
     for mt in found:
