@@ -183,7 +183,8 @@ class Assessment:
                 "required_moment": {ax: _q(m, "N*mm") for ax, m in self.beam.Mr.items()}},
             "section_band": None if self.band is None else {
                 "from": _q(self.column.band.start, "mm"), "to": _q(self.column.band.end, "mm"),
-                "section_strength": _q(self.band.axial.design, "N"),
+                "section_strength": _q(self.band.section_strength if self.band.section_strength is not None
+                                       else self.band.axial.design, "N"),
                 "capacity": _q(self.band.capacity, "N"), "equation": self.band.equation,
                 "interaction": None if self.band.ratio is None else _q(self.band.ratio, ""),
                 "stiffness_factor": {ax: _q(f, "") for ax, f in self.band.factors.items()}},

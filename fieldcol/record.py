@@ -187,6 +187,7 @@ class LossBand:
     start: float
     end: float
     field: str
+    holes: Mapping[str, float] = field(default_factory=dict)   # mm of width lost across a plate
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -300,6 +301,9 @@ def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | No
         return None
     loss = spec["loss"]
     if loss.get("from") in (None, "") and loss.get("to") in (None, ""):
+        if loss.get("holes") not in (None, {}, ""):
+            raise InputError(f"{fld}.loss.holes", str(loss["holes"]), "holes are local: give the band they lie in",
+                             '"from": "0 in", "to": "6 in" beside the holes')
         return None
     lf = f"{fld}.loss"
     for key in ("from", "to"):
@@ -311,7 +315,32 @@ def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | No
     if not 0 <= z0 < z1 <= length:
         raise InputError(f"{lf}.to", loss["to"], "the band must lie within the column, 'from' below 'to'",
                          "heights measured from the bottom end")
-    return LossBand(parse_section(spec, fld, band=True), z0, z1, lf)
+    sec = parse_section(spec, fld, band=True)
+    return LossBand(sec, z0, z1, lf, _holes(loss.get("holes"), sec, f"{lf}.holes"))
+
+
+def _holes(spec: Any, sec: Section, fld: str) -> dict[str, float]:
+    """Holes through the plates at one height in the band: the width lost across each flange,
+    the web, or a wall (mm), each less than the plate it pierces."""
+    spec = _object(spec, fld, '{"flange": "1 in", "web": "2 in"}')
+    check_keys(spec, "holes", fld)
+    plates = {"i": {"flange": "bf", "web": "d"}, "rect": {"wall": "bf"}, "round": {"wall": "d"}}[sec.kind]
+    out = {}
+    for key, v in spec.items():
+        if v in (None, ""):
+            continue
+        if key not in plates:
+            raise InputError(f"{fld}.{key}", str(v), f"a {sec.kind} section has no {key}",
+                             " or ".join(plates))
+        w = parse_length(v, f"{fld}.{key}")
+        across = float(getattr(sec, plates[key]))
+        if key == "web":
+            across -= 2 * float(sec.tf)
+        if w >= across:
+            raise InputError(f"{fld}.{key}", str(v), "the hole is as wide as the plate",
+                             "a plate with nothing left cannot be assessed; replace or strengthen it")
+        out[key] = w
+    return out
 
 
 def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Section:
@@ -364,8 +393,8 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         check_keys(loss, "section loss", f"{fld}.loss")
         is_band = any(loss.get(k) not in (None, "") for k in ("from", "to"))
         vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()
-                if k not in ("from", "to")}
-        if band or not is_band:
+                if k not in ("from", "to", "holes")}
+        if (band or not is_band) and vals:
             try:
                 sec = with_loss(sec, **vals)
             except InputError as e:

@@ -36,7 +36,8 @@ KEYS: dict[str, tuple[str, ...]] = {
     "web plate": ("depth", "thickness"),
     "lacing": ("kind", "width", "thickness", "pitch", "planes"),
     "battens": ("spacing", "depth", "thickness", "planes"),
-    "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
+    "section loss": ("flange", "web", "wall", "uniform", "from", "to", "holes"),
+    "holes": ("flange", "web", "wall"),
     "cover plates": ("thickness", "width"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
@@ -122,6 +123,7 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
         _section_keys(sec, "section")
         for key, table in (("loss", "section loss"), ("plates", "cover plates")):
             check_keys(obj(sec.get(key)), table, f"section.{key}")
+        check_keys(obj(obj(sec.get("loss")).get("holes")), "holes", "section.loss.holes")
     _material_keys(obj(record.get("material")), "material")
     res = obj(record.get("restraints"))
     check_keys(res, "restraints", "restraints")

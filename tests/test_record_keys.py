@@ -63,7 +63,7 @@ MEASURED_I = {
 RECT = {"tag": "R1", "length": "12 ft", "material": "A500 Gr B",
         "section": {"shape": "rect", "d": "8 in", "b": "6 in", "t": "0.25 in", "r": "0.5 in",
                     "finish": "cold-formed",
-                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in"}}}
+                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in", "holes": {"wall": "0.5 in"}}}}
 ROUND = {"tag": "P1", "length": "12 ft", "material": "A500 Gr B",
          "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in", "finish": "hot-finished"}}
 BUILT = [
