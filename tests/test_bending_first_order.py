@@ -108,3 +108,17 @@ def test_story_needs_its_stiffness_or_buckling_load():
     with pytest.raises(InputError) as e:
         assess(_col(end_moments={"weak": {"top": "10 kip*ft", "curvature": "double"}}))
     assert e.value.field == "demand.end_moments.weak.curvature"
+
+
+def test_en_story_amplifier_from_its_stiffness():
+    # EN 1993-1-1 5.2.1 (4)B (5.2): alpha_cr = (H_Ed / delta) (h / V_Ed), so Ncr,story = (H/delta) h;
+    # 5.2.2 (5)B: the sway moment amplified by 1 / (1 - 1/alpha_cr) = 1 / (1 - V/Ncr,story)
+    rec = {"tag": "S2", "section": "HE300B", "material": "S355", "length": "4 m", "code": "en1993-1-1",
+           "restraints": {"weak": {"bottom": "fixed", "top": "free"}},
+           "condition": {"plumb": "12 mm", "plumb_axis": "weak"},
+           "demand": {"axial": "800 kN", "story": {"load": "6000 kN", "stiffness": "30 kN/mm"}}}
+    a = assess(rec)
+    Ncr = 30e3 * 4000                       # N: 30 kN/mm x 4000 mm = 120,000 kN
+    amp = 1 / (1 - 6000e3 / Ncr)
+    assert _step(a, "Pe_story").value == pytest.approx(Ncr)
+    assert float(a.beam.Mr["weak"][0]) == pytest.approx(amp * 800e3 * 12, rel=1e-9)
