@@ -378,15 +378,21 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
                 return None
             return parse_length(spec[key], f"{fld}.{key}")
 
-        if shape == "i":
-            welded = _flag(spec, "welded", fld)
-            r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
-            sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
-        elif shape == "rect":
-            r_out = dim("r", required=False)
-            sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out, rolled=_hot_finished(spec, fld))
-        else:
-            sec = round_hollow(dim("D"), dim("t"), rolled=_hot_finished(spec, fld))
+        try:
+            if shape == "i":
+                welded = _flag(spec, "welded", fld)
+                r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
+                sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
+            elif shape == "rect":
+                r_out = dim("r", required=False)
+                sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out, rolled=_hot_finished(spec, fld))
+            else:
+                sec = round_hollow(dim("D"), dim("t"), rolled=_hot_finished(spec, fld))
+        except InputError as e:
+            if e.field.startswith(fld + "."):
+                raise
+            # the constructors speak mm and their own argument names
+            raise _as_typed(e, spec, fld) from None
     loss = _object(spec.get("loss"), f"{fld}.loss",
                    '{"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
     if loss:

@@ -130,3 +130,14 @@ def test_a_thickness_above_nominal_is_questioned():
     b = assess({"tag": "P", "section": {"name": "W10X49", "loss": {"flange": "0.50 in"}},
                 "material": "A992", "length": "12 ft"})
     assert not any(w["code"] == "thickness-above-nominal" for w in b.warnings)
+
+
+@pytest.mark.parametrize("section, field, typed", [
+    ({"shape": "i", "d": "14 in", "bf": "14 in", "tf": "8 in", "tw": "0.5 in"}, "section.tf", "8 in"),
+    ({"shape": "rect", "d": "8 in", "b": "6 in", "t": "4 in"}, "section.t", "4 in"),
+    ({"shape": "round", "D": "6 in", "t": "3 in"}, "section.t", "3 in"),
+])
+def test_measured_section_errors_name_the_full_field_and_quote_the_entry(section, field, typed):
+    with pytest.raises(InputError) as e:
+        assess({"tag": "M", "section": section, "material": "A992", "length": "12 ft"})
+    assert e.value.field == field and e.value.text == typed
