@@ -78,7 +78,7 @@ def check_keys(spec: Mapping[str, Any], obj: str, fld: str) -> None:
         >>> check_keys({"flange": "0.3 in", "Web": "0.2 in"}, "section loss", "section.loss")
         Traceback (most recent call last):
         ...
-        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform, from, to)
+        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform, from, to, holes)
     """
     _known_only(spec, KEYS[obj], obj, fld)
 
