@@ -16,7 +16,6 @@ import numpy as np
 
 from fieldcol import CAUTION, __version__
 from fieldcol.codes.beamcolumn import BeamColumnResult
-from fieldcol.codes.bow import TOLERANCE as BOW_TOLERANCE
 from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
                             check_en1993)
 from fieldcol.demand import combine
@@ -184,13 +183,14 @@ class Assessment:
                 "required_moment": {ax: _q(m, "N*mm") for ax, m in self.beam.Mr.items()}},
             "section_band": None if self.band is None else {
                 "from": _q(self.column.band.start, "mm"), "to": _q(self.column.band.end, "mm"),
-                "section_strength": _q(self.band.axial.design, "N"),
+                "section_strength": _q(self.band.section_strength if self.band.section_strength is not None
+                                       else self.band.axial.design, "N"),
                 "capacity": _q(self.band.capacity, "N"), "equation": self.band.equation,
                 "interaction": None if self.band.ratio is None else _q(self.band.ratio, ""),
                 "stiffness_factor": {ax: _q(f, "") for ax, f in self.band.factors.items()}},
             "bow": None if self.bow is None else {
                 "axis": self.bow.axis, "excess": _q(self.bow.excess, "mm"),
-                "allowance": f"L/{BOW_TOLERANCE[c.code]:g}",
+                "allowance": f"L/{c.bow_allowance:g}",
                 "flexural_strength": _q(self.bow.Mc, "N*mm"),
                 "capacity": _q(self.bow.capacity, "N"),
                 "interaction": None if self.bow.ratio is None else _q(self.bow.ratio, "")},
@@ -263,10 +263,20 @@ def assess(record: Mapping[str, Any]) -> Assessment:
     trace.add("L", "column length between end restraints", "measured", col.length, "mm", "record")
     trace.add("Fy", f"yield stress, {mat.name}" + (" (coupon tests)" if mat.tested else ""),
               "grade table by thickness" if not mat.tested else "tested", Fy, "MPa", mat.source)
+    trace.add("E", "elastic modulus", col.moduli, mat.E, "MPa", _MODULI_CLAUSE.get(col.code, mat.source))
+    trace.add("G", "shear modulus", col.moduli, mat.G, "MPa", _MODULI_CLAUSE.get(col.code, mat.source))
     if mat.historic and not mat.tested:
         warnings.append({"code": "historic-grade",
                          "message": f"{mat.name} is a historic grade: confirm the yield stress by "
                                     "coupon tests before relying on this check"})
+    if sec.kind in ("rect", "round") and col.built is None:
+        spec = record.get("section")
+        how = (" (as recorded)" if isinstance(spec, Mapping) and "finish" in spec
+               else " (the catalogue row)" if isinstance(spec, str) or "name" in spec
+               else " (not recorded: cold-formed taken, the lower curve)")
+        trace.add("finish", "hollow section: " + ("hot-finished" if sec.rolled else "cold-formed") + how,
+                  "curve a (hot-finished) or c (cold-formed) under EN; AISC E3 makes no difference",
+                  "hot-finished" if sec.rolled else "cold-formed", "", "EN 1993-1-1 Table 6.2")
     for note in sec.notes:
         trace.add("section", "how the section was obtained", "", note, "", "record")
 
@@ -377,6 +387,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                       json.loads(json.dumps(record)), bow, beam, band, kappa, spans, sources)
 
 
+_MODULI_CLAUSE = {"aisc360-22": "AISC 360-22 Symbols (E, G)", "en1993-1-1": "EN 1993-1-1 3.2.6"}
 _APP5 = ("AISC 360-22 App. 5.2", "AISC 360-22 App. 5.2; EN 1993-1-1 gives no rule for existing "
          "structures, common practice")
 
@@ -407,7 +418,7 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
-                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial)
+                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance)
     if col.built is not None and col.built.open_axis(col.bow_axis) is not None:
         # the chords of a laced or battened column bend apart: the I-shape beam-column rules
         # do not apply; a bow beyond the curve's allowance is left unchecked (not-covered)
@@ -418,7 +429,7 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
         if bool(np.asarray(w.mask).reshape(-1)[0]):
             warnings.append({"code": w.code, "message": w.message})
     excess = _first(res.excess)
-    n = BOW_TOLERANCE[col.code]
+    n = col.bow_allowance
     if excess > 0 and not math.isfinite(_first(res.capacity)):
         warnings.append({
             "code": "bow-not-checked",
@@ -647,14 +658,36 @@ def _longest_span(length: float, at: tuple[float, ...]) -> float:
     return max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
 
 
+#: lengths outside this range (mm: 1 ft to 100 ft) are more likely a slip of the unit than a column
+PLAUSIBLE_LENGTH = (304.8, 30480.0)
+
+
 def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> None:
     L = col.length
+    lo, hi = PLAUSIBLE_LENGTH
+    if not lo * (1 - 1e-9) <= L <= hi * (1 + 1e-9):   # the limits themselves are plausible
+        warnings.append({
+            "code": "length-implausible",
+            "message": f"the length {_show(col, L)} is {'under 1 ft' if L < lo else 'over 100 ft'} "
+                       f"({_show(col, lo if L < lo else hi)}): check the entry and its unit "
+                       "(plausibility, common practice)"})
+    notes = list(col.section.notes) + (list(col.band.section.notes) if col.band is not None else [])
+    for note in notes:
+        if "more than the section's plate" in note:
+            warnings.append({
+                "code": "thickness-above-nominal",
+                "message": f"a {note.split(' remaining')[0]} thickness reading is above the section's nominal plate: "
+                           "mill overrun is possible, but check the reading, the gauge and the "
+                           "section's name; the reading is used as measured"})
     if col.plumb is not None and col.plumb > L / 500:
         spec = col.axes[col.plumb_axis]
         sway = not (math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation))
-        then = ("checked here as P-delta with the column's own buckling load; include the story's "
-                "other columns in the frame analysis" if sway and col.demand is not None else
-                "include the sway effect in the frame analysis")
+        story = col.demand is not None and col.demand.story is not None
+        then = ("checked here as P-delta with the story's gravity load and buckling load as recorded"
+                if sway and story else
+                "checked here as P-delta with the column's own buckling load (the story not recorded: "
+                "give demand.story, or include the story's other columns in the frame analysis)"
+                if sway and col.demand is not None else "include the sway effect in the frame analysis")
         warnings.append({
             "code": "plumb-over-tolerance",
             "message": f"measured out-of-plumb {_show(col, col.plumb)} exceeds L/500 = {_show(col, L / 500)} "

@@ -14,6 +14,12 @@ Two checks, both conservative:
   its largest, amplified by 1/(1 - P/Pe) of the member (Cm = 1) wherever it stands along the
   height (conservative): AISC H1-1a/b with the band's flexural strength (Chapter F, the member's
   unbraced length); EN 1993-1-1 6.2.1 (7) linear sum (conservative); elastic: first yield.
+- Holes through the plates at one height in the band (``section.loss.holes``: the width lost across
+  each flange, the web, or one wall): open holes (corrosion, not filled by fasteners) are taken
+  out of the area (yield on the net area) and out of the flexural strength by the larger of the
+  plastic-modulus and second-moment losses, each hole where it costs most (at a flange tip, at
+  the end of the web, in the wall farthest from the axis): common practice, conservative. The
+  member's stepped stiffness leaves the holes out (they are short against the band).
 """
 
 from __future__ import annotations
@@ -51,6 +57,7 @@ class BandResult:
     ratio: float | None
     equation: str
     factors: dict[str, float] = field(default_factory=dict)
+    section_strength: float | None = None   # N: the axial strength there (holes deducted)
 
 
 def _one(v: Any) -> float:
@@ -119,16 +126,18 @@ def check_band(col: ColumnInput, Fy: float, code_check: Callable[..., CodeResult
     sec = b.section
     t = Trace()
     ax_res = code_check(sec, Fy, TINY, TINY, TINY)
+    fA, fM = hole_factors(sec, b.holes, t)
     Pc = t.add("Pc_band", f"axial strength of the section in the band ({b.start:.0f} to {b.end:.0f} mm), no member "
-               "buckling (local buckling of the thinned plates included)", "the code's check at Lc = 1 mm",
-               _one(ax_res.design), "N", {"aisc360-22": "AISC 360-22 E3, E7", "en1993-1-1":
-                                          "EN 1993-1-1 6.2.4; EN 1993-1-5 4.4"}.get(col.code, "squash load"))
+               "buckling (local buckling of the thinned plates included)"
+               + ("; holes: times A_net / A" if b.holes else ""), "the code's check at Lc = 1 mm",
+               _one(ax_res.design) * fA, "N", {"aisc360-22": "AISC 360-22 E3, E7", "en1993-1-1":
+                                               "EN 1993-1-1 6.2.4; EN 1993-1-5 4.4"}.get(col.code, "squash load"))
     moments = any(v > 0 for s in sources.values() for v in s.values())
     if not moments:
         ratio = None if demand is None else t.add("ratio_band", "axial ratio in the band", "Pr / Pc,band",
                                                   demand / Pc if Pc > 0 else math.inf, "", "")
         trace.extend(t)
-        return BandResult(ax_res, Pc, ratio, "axial", factors)
+        return BandResult(ax_res, Pc, ratio, "axial", factors, Pc)
     s, v, _ = prepare(sec, Fy=Fy, E=col.material.E, G=col.material.G, Lb=Lc_twist)
     for name in ("Sx", "Sy", "Zx", "Zy", "ho"):
         s[name] = np.asarray(getattr(sec, name), dtype=float).reshape(1)
@@ -149,8 +158,9 @@ def check_band(col: ColumnInput, Fy: float, code_check: Callable[..., CodeResult
         else:
             Mc[ax] = Fy * _one(getattr(sec, "Sx" if ax == "strong" else "Sy"))
             how, clause = "Fy S of the band's section", "first yield (classical)"
-        t.add(f"Mc_band_{ax}", f"flexural strength of the section in the band, {ax} axis", how, Mc[ax], "N*mm",
-              clause)
+        Mc[ax] *= fM[ax]
+        t.add(f"Mc_band_{ax}", f"flexural strength of the section in the band, {ax} axis", how
+              + (", times the holes' factor" if b.holes else ""), Mc[ax], "N*mm", clause)
     Pe = {ax: _one(member.modes[f"flexural-{ax}"].Pe) for ax in AXES}
     Pr = demand or 0.0
     alpha = 1.6 if col.basis == "asd" else 1.0
@@ -183,7 +193,54 @@ def check_band(col: ColumnInput, Fy: float, code_check: Callable[..., CodeResult
                   "AISC H1-1a/b; EN N/N_Rd + My/My,Rd + Mz/Mz,Rd (6.2.1 (7)); elastic: first yield", ratio, "", eq)
     t.add("P_band", "axial capacity of the band's section with the moments in proportion", "bisection", cap, "N", eq)
     trace.extend(t)
-    return BandResult(ax_res, cap, ratio, eq, factors)
+    return BandResult(ax_res, cap, ratio, eq, factors, Pc)
 
 
-__all__ = ["BandResult", "TINY", "check_band", "member_factors"]
+def hole_factors(sec: Any, holes: Mapping[str, float], trace: Trace | None = None
+                 ) -> tuple[float, dict[str, float]]:
+    """What open holes at one height leave of the band's section: A_net / A, and per axis the
+    smaller of Z_net / Z and I_net / I (each hole where it costs most; see the module notes).
+
+    Args:
+        sec: the band's section; holes: width lost (mm) across each ``flange`` and the ``web`` of an
+            I, or one ``wall`` of a hollow section.
+    Returns:
+        (area factor, {"strong": f, "weak": f}); (1.0, 1.0 each) without holes.
+
+    Example:
+        >>> from fieldcol.sections import from_catalogue
+        >>> fA, fM = hole_factors(from_catalogue("W10X49"), {"web": 50.8})
+        >>> round(fA, 3), round(fM["weak"], 4)
+        (0.953, 0.998)
+    """
+    one = {ax: 1.0 for ax in AXES}
+    if not holes:
+        return 1.0, one
+    g = {k: float(np.asarray(getattr(sec, k)).reshape(-1)[0])
+         for k in ("A", "Ix", "Iy", "Zx", "Zy", "d", "bf", "tf", "tw")}
+    d, bf, tf, tw = g["d"], g["bf"], g["tf"], g["tw"]
+    dA = dZx = dZy = dIx = dIy = 0.0
+    if sec.kind == "i":
+        wf, ww, h = holes.get("flange", 0.0), holes.get("web", 0.0), d - 2 * tf
+        dA = 2 * wf * tf + ww * tw
+        dZx = wf * tf * (d - tf) + tw * ww * (h - ww) / 2
+        dZy = tf * wf * (bf - wf) + tw**2 * ww / 4
+        dIx = 2 * wf * tf * ((d - tf) / 2) ** 2 + tw * ww * ((h - ww) / 2) ** 2 + tw * ww**3 / 12
+        dIy = 2 * (tf * wf * ((bf - wf) / 2) ** 2 + tf * wf**3 / 12) + ww * tw**3 / 12
+    else:
+        w, t = holes.get("wall", 0.0), tf
+        dA = w * t
+        dZx, dZy = w * t * (d - t) / 2, w * t * (bf - t) / 2
+        dIx, dIy = w * t * ((d - t) / 2) ** 2, w * t * ((bf - t) / 2) ** 2
+    fA = 1 - dA / g["A"]
+    fM = {"strong": min(1 - dZx / g["Zx"], 1 - dIx / g["Ix"]), "weak": min(1 - dZy / g["Zy"], 1 - dIy / g["Iy"])}
+    if trace is not None:
+        rule = "open holes deducted, each where it costs most (common practice)"
+        trace.add("A_net/A", "area left by the holes in the band", "1 - sum w t / A", fA, "", rule)
+        for ax in AXES:
+            trace.add(f"f_holes_{ax}", f"flexural strength left by the holes, {ax} axis",
+                      "min(1 - dZ/Z, 1 - dI/I)", fM[ax], "", rule)
+    return fA, fM
+
+
+__all__ = ["BandResult", "TINY", "check_band", "hole_factors", "member_factors"]

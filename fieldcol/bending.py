@@ -84,6 +84,15 @@ def moment_sources(col: ColumnInput, bow_excess: float, trace: Trace,
                 trace.add(f"M_end_{ax}", f"first-order moment at the top from the beam reactions, {ax} axis",
                           "|sum side R e| (reactions on opposite sides cancel)", abs(total[ax]), "N*mm",
                           "statics; the reactions' loads are taken as part of the axial demand")
+            em = dem.end_moments.get(ax)
+            if em is not None:
+                top = em.top + abs(total[ax])
+                out["ends"][ax] = max(top, em.bottom)
+                trace.add(f"M2_{ax}", f"larger first-order end moment, {ax} axis ({em.curvature} curvature)",
+                          "max(|M_top|" + (" + reactions" if total[ax] else "") + ", |M_bottom|)",
+                          out["ends"][ax], "N*mm", "record; AISC 360-22 App. 8.2.1")
+                trace.add(f"M1/M2_{ax}", f"ratio of the end moments, {ax} axis (positive in reverse curvature)",
+                          "min / max, signed by the curvature", end_ratio(col)[ax], "", "AISC 360-22 App. 8.2.1")
     if bow_excess > 0:
         out["bow"][col.bow_axis] = bow_excess
     if col.plumb:
@@ -99,6 +108,67 @@ def moment_sources(col: ColumnInput, bow_excess: float, trace: Trace,
                       "in the column; the bracing takes the horizontal force Pr D / L", "record", col.plumb,
                       "mm", "statics")
     return out
+
+
+def end_ratio(col: ColumnInput) -> dict[str, float]:
+    """M1/M2 per axis (AISC sign: positive in reverse curvature) for Cm = 0.6 - 0.4 M1/M2: from
+    ``demand.end_moments`` (the reactions' moment added at the top), else 0 (one end moment).
+
+    Example:
+        >>> from fieldcol.record import parse_record
+        >>> c = parse_record({"tag": "C", "section": "W14X90", "material": "A992", "length": "12 ft",
+        ...     "demand": {"axial": "300 kip", "end_moments": {"strong": {"top": "100 kip*ft",
+        ...     "bottom": "50 kip*ft", "curvature": "reverse"}}}})
+        >>> end_ratio(c)
+        {'strong': 0.5, 'weak': 0.0}
+    """
+    out = {ax: 0.0 for ax in AXES}
+    dem = col.demand
+    if dem is None:
+        return out
+    for ax, em in dem.end_moments.items():
+        react = abs(sum(r.side * r.load * (r.eccentricity if r.eccentricity is not None
+                                           else face_distance(col, r.axis) + DEFAULT_OFFSET)
+                        for r in dem.reactions if r.axis == ax))
+        top = em.top + react
+        m2, m1 = max(top, em.bottom), min(top, em.bottom)
+        out[ax] = 0.0 if m2 == 0 else (m1 / m2) * (1.0 if em.curvature == "reverse" else -1.0)
+    return out
+
+
+def sway_load(col: ColumnInput, demand: float | None, trace: Trace | None = None) -> float | None:
+    """The buckling load the sway amplifier divides the column's force by (N): the story's, scaled
+    to the column's share of the story's gravity load (AISC 360-22 App. 8.2.2 B2 =
+    1/(1 - alpha P_story/Pe_story); EN 1993-1-1 5.2.2 (5)B with alpha_cr = Ncr_story/N_story), or
+    None where no story is given (the column alone).
+
+    Pe_story from the story's lateral stiffness: AISC (A-8-7) RM (H/Delta_H) L with RM = 0.85
+    (every column in moment frames: the lower, conservative value); EN 5.2.1 (4)B (H/delta) h.
+
+    Example:
+        >>> from fieldcol.record import parse_record
+        >>> c = parse_record({"tag": "C", "section": "W14X90", "material": "A992", "length": "12 ft",
+        ...     "demand": {"axial": "300 kip", "story": {"load": "3000 kip", "buckling_load": "30000 kip"}}})
+        >>> round(sway_load(c, 300 * 4448.2216) / 4448.2216)
+        3000
+    """
+    st = col.demand.story if col.demand is not None else None
+    if st is None or not demand:
+        return None
+    if st.buckling_load is not None:
+        pe, how, clause = st.buckling_load, "given", "record"
+    elif col.code == "en1993-1-1":
+        pe, how, clause = st.stiffness * col.length, "(H / delta) h", "EN 1993-1-1 5.2.1 (4)B (5.2)"
+    else:
+        pe, how, clause = 0.85 * st.stiffness * col.length, "RM (H / Delta_H) L, RM = 0.85 (conservative)", \
+            "AISC 360-22 App. 8.2.2 (A-8-7)"
+    value = pe * demand / st.load
+    if trace is not None:
+        trace.add("P_story", "total gravity load of the story", "record", st.load, "N", "record")
+        trace.add("Pe_story", "elastic buckling load of the story", how, pe, "N", clause)
+        trace.add("Pe_sway", "the story's buckling load per the column's share of its load (sway amplifier)",
+                  "Pe_story Pr / P_story", value, "N", "AISC 360-22 App. 8.2.2 (A-8-6); EN 1993-1-1 5.2.2")
+    return value
 
 
 def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[str, float],
@@ -128,9 +198,19 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
                                     "without an axial demand: they are not checked; give the demand"})
         return None, src
     trace.extend(sub)
+    sway = None
+    if any(v > 0 for v in src["sway"].values()):
+        pe = sway_load(col, demand, trace)
+        if pe is None:
+            trace.add("Pe_sway", "the story's gravity load and stiffness not given: the sway amplifier takes "
+                      "the column alone (its own load on its own buckling load)", "", "column alone", "",
+                      "AISC 360-22 App. 8.2.2; EN 1993-1-1 5.2.2")
+        else:
+            sway = {ax: pe for ax in AXES}
     res = check_beam_column(col.code, col.section, Fy, col.material.E, col.material.G, demand, axial,
                             span=dict(spans), Lc=dict(Lc), moments=src,
-                            basis="asd" if col.basis == "asd" else "lrfd", gamma_M1=col.gamma_M1)
+                            basis="asd" if col.basis == "asd" else "lrfd", gamma_M1=col.gamma_M1,
+                            end_ratio=end_ratio(col), sway_Pe=sway)
     trace.extend(res.trace)
     for w in res.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):
@@ -138,4 +218,4 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
     return res, src
 
 
-__all__ = ["DEFAULT_OFFSET", "check_bending", "face_distance", "moment_sources"]
+__all__ = ["DEFAULT_OFFSET", "check_bending", "end_ratio", "face_distance", "moment_sources", "sway_load"]

@@ -42,6 +42,8 @@ __all__ = [
     "Material",
     "get_material",
     "material_from_values",
+    "for_code",
+    "CODE_MODULI",
     "with_tested_fy",
     "list_materials",
     "DATA_FILE",
@@ -96,6 +98,7 @@ class Material:
     tested: bool = False
     bands: tuple[tuple[float, float, float], ...] = ()
     shape: str = ""
+    moduli_given: bool = False     # E (and G) entered by the engineer: kept under every code
 
     def fy_at(self, t_mm: float | np.ndarray, *, field: str = "thickness") -> float | np.ndarray:
         """Nominal yield strength (MPa) for element thickness ``t_mm`` (vectorised).
@@ -356,12 +359,12 @@ def material_from_values(
     fy = _stress(Fy, "Fy", field)
     if E is None:
         e = 200_000.0
-        notes.append("E not given: 200000 MPa assumed")
+        notes.append("E not given: the code's value is taken (200000 MPa for the elastic reference)")
     else:
         e = _stress(E, "E", field)
     if G is None:
         g = e / 2.6
-        notes.append("G not given: E / 2.6 assumed (Poisson's ratio 0.3)")
+        notes.append("G not given: the code's value is taken (E / 2.6, Poisson's ratio 0.3, for the elastic reference)")
     else:
         g = _stress(G, "G", field)
     if Fu is None:
@@ -385,7 +388,51 @@ def material_from_values(
         note="; ".join(notes),
         source="entered",
         tested=tested,
+        moduli_given=E is not None,
     )
+
+
+_KSI = 6.894757293168361
+#: E and G as each code states them (MPa): a grade's table values give way to the code's, so that
+#: a European grade under AISC takes 29,000 ksi and an ASTM grade under EN 210,000 MPa.
+CODE_MODULI = {
+    "aisc360-22": (29000 * _KSI, 11200 * _KSI,
+                   "E = 29,000 ksi, G = 11,200 ksi as AISC 360-22 states them (Symbols; common practice)"),
+    "en1993-1-1": (210_000.0, 81_000.0, "E = 210,000 MPa, G = 81,000 MPa as EN 1993-1-1 3.2.6 states them"),
+}
+#: materials that are not structural steel keep their own moduli under every code
+_OWN_MODULI = ("wrought-iron",)
+
+
+def for_code(mat: Material, code: str) -> tuple[Material, str]:
+    """The material with E and G of the code being applied, and a sentence saying where they
+    came from (for the trace).
+
+    Entered moduli (``material_from_values`` with E) and materials that are not steel (wrought
+    iron) keep their own; the ``elastic`` reference keeps the table's.
+
+    Args:
+        mat: the material as read from the record.
+        code: ``"aisc360-22"``, ``"en1993-1-1"`` or ``"elastic"``.
+
+    Returns:
+        (the material, the source of E and G).
+
+    Example:
+        >>> m, why = for_code(get_material("S355"), "aisc360-22")
+        >>> round(m.E), round(m.G)
+        (199948, 77221)
+    """
+    if mat.moduli_given:
+        return mat, "E and G as entered"
+    if mat.key in _OWN_MODULI:
+        return mat, f"E and G of {mat.name} from the materials table (not steel: the code's values do not apply)"
+    if code not in CODE_MODULI:
+        return mat, f"E and G of {mat.name} from the materials table"
+    E, G, why = CODE_MODULI[code]
+    if mat.family == "custom":
+        why += " (not entered)"
+    return replace(mat, E=E, G=G), why
 
 
 def with_tested_fy(

@@ -15,7 +15,7 @@ from typing import Any, Mapping
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import (BRACE_KINDS, KEYS, LOAD_TYPES, _material_keys, _section_keys,
                                  check_keys, check_record_keys)
-from fieldcol.materials import Material, get_material, material_from_values, with_tested_fy
+from fieldcol.materials import Material, for_code, get_material, material_from_values, with_tested_fy
 from fieldcol.sections import (Section, from_catalogue, i_section, rect_hollow, round_hollow,
                                with_loss, with_plates)
 from fieldcol.stability import Brace, End, cable_stiffness, end, partial_end
@@ -101,6 +101,42 @@ class Demand:
     psi0: Mapping[str, float] = field(default_factory=dict)    # EN combination factors set
     moments: Mapping[str, float] = field(default_factory=dict)  # N*mm, second order included
     reactions: tuple[Reaction, ...] = ()
+    end_moments: Mapping[str, "EndMoments"] = field(default_factory=dict)  # first order, per axis
+    story: "Story | None" = None
+
+
+@dataclass(frozen=True)
+class EndMoments:
+    """First-order moments at the two ends of the column about one axis (N*mm, magnitudes) and
+    the curvature they bend it in (``single``: M1/M2 < 0; ``reverse``: M1/M2 > 0, AISC signs)."""
+
+    top: float
+    bottom: float
+    curvature: str
+
+    @property
+    def ratio(self) -> float:
+        """M1/M2 with the AISC 360-22 App. 8 sign (positive in reverse curvature); 0 with one end
+        moment alone.
+
+        Example:
+            >>> EndMoments(100.0, 50.0, "single").ratio, EndMoments(100.0, 50.0, "reverse").ratio
+            (-0.5, 0.5)
+        """
+        m2, m1 = max(self.top, self.bottom), min(self.top, self.bottom)
+        if m2 == 0:
+            return 0.0
+        return (m1 / m2) * (1.0 if self.curvature == "reverse" else -1.0)
+
+
+@dataclass(frozen=True)
+class Story:
+    """The story the column stands in, for the sway amplifier: its total gravity load (N) and its
+    elastic buckling load (N), given or from its lateral stiffness H/Delta_H (N/mm)."""
+
+    load: float
+    buckling_load: float | None
+    stiffness: float | None
 
 
 @dataclass(frozen=True)
@@ -128,6 +164,8 @@ class ColumnInput:
     knowledge: float = 1.0         # knowledge factor on every capacity (1.0: not applied)
     knowledge_label: str = "not given"
     built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
+    moduli: str = ""               # where E and G come from (the code being applied, or as entered)
+    bow_allowance: float = 1000.0  # n of the L/n of bow already in the column curve
     plate_joint: Any = None        # a codes.coverplates.PlateJoint: cover plates riveted or bolted
 
 
@@ -150,6 +188,7 @@ class LossBand:
     start: float
     end: float
     field: str
+    holes: Mapping[str, float] = field(default_factory=dict)   # mm of width lost across a plate
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
@@ -191,7 +230,7 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
         _section_keys(spec, "section")
         built = parse_built(spec["built"])
     section = built.section if built is not None else parse_section(spec)
-    material = parse_material(record["material"], shape=section.kind)
+    material, moduli = for_code(parse_material(record["material"], shape=section.kind), code)
     restraints = _object(record.get("restraints"), "restraints",
                          '{"strong": {..}, "weak": {..}, "twist": {..}}')
     check_keys(restraints, "restraints", "restraints")
@@ -216,12 +255,13 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     plumb = _opt_length(condition.get("plumb"), "condition.plumb")
     bow_axis = _choice(condition.get("bow_axis", "weak"), AXES, "condition.bow_axis")
     plumb_axis = _choice(condition.get("plumb_axis", "weak"), AXES, "condition.plumb_axis")
+    allowance = _bow_allowance(condition.get("bow_allowance"))
     band = parse_band(record["section"], length)
     kappa, kappa_label = parse_knowledge(record.get("knowledge"))
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
                        code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
-                       plumb_axis, band, kappa, kappa_label, built,
+                       plumb_axis, band, kappa, kappa_label, built, moduli, allowance,
                        _record_plate_joint(spec, section))
 
 
@@ -277,6 +317,9 @@ def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | No
         return None
     loss = spec["loss"]
     if loss.get("from") in (None, "") and loss.get("to") in (None, ""):
+        if loss.get("holes") not in (None, {}, ""):
+            raise InputError(f"{fld}.loss.holes", str(loss["holes"]), "holes are local: give the band they lie in",
+                             '"from": "0 in", "to": "6 in" beside the holes')
         return None
     lf = f"{fld}.loss"
     for key in ("from", "to"):
@@ -288,7 +331,32 @@ def parse_band(spec: Any, length: float, fld: str = "section") -> "LossBand | No
     if not 0 <= z0 < z1 <= length:
         raise InputError(f"{lf}.to", loss["to"], "the band must lie within the column, 'from' below 'to'",
                          "heights measured from the bottom end")
-    return LossBand(parse_section(spec, fld, band=True), z0, z1, lf)
+    sec = parse_section(spec, fld, band=True)
+    return LossBand(sec, z0, z1, lf, _holes(loss.get("holes"), sec, f"{lf}.holes"))
+
+
+def _holes(spec: Any, sec: Section, fld: str) -> dict[str, float]:
+    """Holes through the plates at one height in the band: the width lost across each flange,
+    the web, or a wall (mm), each less than the plate it pierces."""
+    spec = _object(spec, fld, '{"flange": "1 in", "web": "2 in"}')
+    check_keys(spec, "holes", fld)
+    plates = {"i": {"flange": "bf", "web": "d"}, "rect": {"wall": "bf"}, "round": {"wall": "d"}}[sec.kind]
+    out = {}
+    for key, v in spec.items():
+        if v in (None, ""):
+            continue
+        if key not in plates:
+            raise InputError(f"{fld}.{key}", str(v), f"a {sec.kind} section has no {key}",
+                             " or ".join(plates))
+        w = parse_length(v, f"{fld}.{key}")
+        across = float(getattr(sec, plates[key]))
+        if key == "web":
+            across -= 2 * float(sec.tf)
+        if w >= across:
+            raise InputError(f"{fld}.{key}", str(v), "the hole is as wide as the plate",
+                             "a plate with nothing left cannot be assessed; replace or strengthen it")
+        out[key] = w
+    return out
 
 
 def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Section:
@@ -326,24 +394,35 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
                 return None
             return parse_length(spec[key], f"{fld}.{key}")
 
-        if shape == "i":
-            welded = _flag(spec, "welded", fld)
-            r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
-            sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
-        elif shape == "rect":
-            r_out = dim("r", required=False)
-            sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out)
-        else:
-            sec = round_hollow(dim("D"), dim("t"))
+        try:
+            if shape == "i":
+                welded = _flag(spec, "welded", fld)
+                r = 0.0 if spec.get("r") in (None, "") else parse_length(spec["r"], f"{fld}.r", allow_zero=True)
+                sec = i_section(dim("d"), dim("bf"), dim("tf"), dim("tw"), r, rolled=not welded)
+            elif shape == "rect":
+                r_out = dim("r", required=False)
+                sec = rect_hollow(dim("d"), dim("b"), dim("t"), r_out, rolled=_hot_finished(spec, fld))
+            else:
+                sec = round_hollow(dim("D"), dim("t"), rolled=_hot_finished(spec, fld))
+        except InputError as e:
+            if e.field.startswith(fld + "."):
+                raise
+            # the constructors speak mm and their own argument names
+            raise _as_typed(e, spec, fld) from None
     loss = _object(spec.get("loss"), f"{fld}.loss",
                    '{"flange": "0.55 in"} (remaining) or {"uniform": "1 mm"}')
     if loss:
         check_keys(loss, "section loss", f"{fld}.loss")
         is_band = any(loss.get(k) not in (None, "") for k in ("from", "to"))
         vals = {k: parse_length(v, f"{fld}.loss.{k}") for k, v in loss.items()
-                if k not in ("from", "to")}
-        if band or not is_band:
-            sec = with_loss(sec, **vals)
+                if k not in ("from", "to", "holes")}
+        if (band or not is_band) and vals:
+            try:
+                sec = with_loss(sec, **vals)
+            except InputError as e:
+                # the engine speaks mm and its own argument names: name the record's full field
+                # and quote the entry as typed
+                raise _as_typed(e, loss, f"{fld}.loss") from None
     plates = spec.get("plates")
     if plates is not None:
         # after the loss: plates are welded to the steel that remains
@@ -353,8 +432,11 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         bp = (None if plates.get("width") in (None, "")
               else parse_length(plates["width"], f"{fld}.plates.width"))
         how = _plate_joint(plates, fld, tp, bp, sec)
-        sec = with_plates(sec, tp, bp, field=f"{fld}.plates",
-                          how="welded" if how is None else how.connection)
+        try:
+            sec = with_plates(sec, tp, bp, field=f"{fld}.plates",
+                              how="welded" if how is None else how.connection)
+        except InputError as e:
+            raise _as_typed(e, plates, f"{fld}.plates") from None
     return sec
 
 
@@ -452,6 +534,39 @@ def parse_quantity(text: Any, kind: str, fld: str, *, allow_zero: bool = False) 
     if kind != "angle":  # an angle typed alone is in degrees
         _unit_required(text, kind, fld)
     return _parse_quantity(text, kind, fld, allow_zero=allow_zero)
+
+
+def _as_typed(e: InputError, typed: Mapping[str, Any], fld: str) -> InputError:
+    """``e`` with its field under ``fld`` (``flange`` -> ``section.loss.flange``) and the entry
+    quoted as typed (``0.9 in``), not as the millimetres the engine received."""
+    key = e.field.rsplit(".", 1)[-1] if e.field.startswith(fld) else e.field
+    key = key.rstrip("0123456789") if key.rstrip("0123456789") in typed else key
+    if key in typed:
+        return InputError(f"{fld}.{key}", str(typed[key]), e.reason, e.hint)
+    return InputError(fld if e.field in ("section", "") else f"{fld}.{e.field}"
+                      if not e.field.startswith(fld) else e.field, e.text, e.reason, e.hint)
+
+
+FINISHES = ("cold-formed", "hot-finished")
+
+
+def _hot_finished(spec: Mapping[str, Any], fld: str) -> bool:
+    """A hollow section's ``finish``: ``hot-finished`` (EN 10210; EN 1993-1-1 Table 6.2 curve a)
+    or ``cold-formed`` (EN 10219, ASTM A500; curve c), the default when not recorded."""
+    return _choice(spec.get("finish", "cold-formed"), FINISHES, f"{fld}.finish") == "hot-finished"
+
+
+def _bow_allowance(value: Any, fld: str = "condition.bow_allowance") -> float:
+    """n of the L/n of bow the column curve already holds: ``L/1000`` (the default: the
+    straightness tolerance the curves cover) or ``L/1500`` (conservative)."""
+    if value in (None, ""):
+        return 1000.0
+    text = value.replace(" ", "").upper() if isinstance(value, str) else None
+    if text in ("L/1000", "L/1500"):
+        return float(text[2:])
+    raise InputError(fld, value, "not one of the choices",
+                     "L/1000 (default: the straightness tolerance the column curves cover) or "
+                     "L/1500 (conservative)")
 
 
 def _choice(value: Any, allowed: tuple[str, ...], fld: str) -> str:
@@ -639,7 +754,8 @@ def _demand(spec: Any, code: str) -> Demand | None:
         if psi0:
             raise InputError("demand.psi0", psi0, "psi0 combines loads; the axial force given "
                              "is used as it stands", "leave out psi0, or give loads instead")
-        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis, {}, *bending)
+        return Demand(parse_quantity(spec["axial"], "force", "demand.axial"), {}, basis, {}, *bending,
+                      *_first_order(spec))
     if not loads:
         raise InputError("demand", spec, "give axial or loads",
                          '{"axial": "840 kip"} or {"loads": {"dead": "200 kip", "live": "150 kip"}}')
@@ -653,7 +769,40 @@ def _demand(spec: Any, code: str) -> Demand | None:
             if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
                 raise InputError(f"demand.psi0.{k}", v, "must be a number from 0 to 1",
                                  "EN 1990 Table A1.1")
-    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()}, *bending)
+    return Demand(None, vals, basis, {k: float(v) for k, v in psi0.items()}, *bending, *_first_order(spec))
+
+
+def _first_order(spec: Mapping[str, Any]) -> tuple[dict[str, EndMoments], "Story | None"]:
+    """``end_moments`` (first order, per axis: ``top``, ``bottom``, ``curvature``) and ``story``
+    (``load`` with ``buckling_load`` or ``stiffness``) for the amplifiers B1 and B2."""
+    ends = _object(spec.get("end_moments"), "demand.end_moments",
+                   '{"strong": {"top": "80 kip*ft", "bottom": "40 kip*ft", "curvature": "reverse"}}')
+    check_keys(ends, "end moments", "demand.end_moments")
+    out = {}
+    for ax, e in ends.items():
+        ef = f"demand.end_moments.{ax}"
+        e = _object(e, ef, '{"top": "80 kip*ft", "bottom": "40 kip*ft", "curvature": "reverse"}')
+        check_keys(e, "end moments of an axis", ef)
+        top, bottom = (0.0 if e.get(k) in (None, "") else
+                       abs(parse_quantity(e[k], "moment", f"{ef}.{k}", allow_zero=True)) for k in ("top", "bottom"))
+        curv = _choice(e.get("curvature", "single"), ("single", "reverse"), f"{ef}.curvature")
+        out[ax] = EndMoments(top, bottom, curv)
+    story = _object(spec.get("story"), "demand.story", '{"load": "2400 kip", "stiffness": "60 kip/in"}')
+    check_keys(story, "story", "demand.story")
+    if not story:
+        return out, None
+    if story.get("load") in (None, ""):
+        raise InputError("demand.story.load", "", "required: the story's total gravity load",
+                         '"2400 kip", on the basis of the axial demand')
+    load = parse_quantity(story["load"], "force", "demand.story.load")
+    pe = (None if story.get("buckling_load") in (None, "")
+          else parse_quantity(story["buckling_load"], "force", "demand.story.buckling_load"))
+    k = (None if story.get("stiffness") in (None, "")
+         else parse_quantity(story["stiffness"], "stiffness", "demand.story.stiffness"))
+    if (pe is None) == (k is None):
+        raise InputError("demand.story", story, "give the story's buckling_load or its lateral stiffness "
+                         "(H / Delta_H), one of them", '{"load": "2400 kip", "stiffness": "60 kip/in"}')
+    return out, Story(load, pe, k)
 
 
 def _bending(spec: Mapping[str, Any]) -> tuple[dict[str, float], tuple[Reaction, ...]]:

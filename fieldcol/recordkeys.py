@@ -24,8 +24,8 @@ KEYS: dict[str, tuple[str, ...]] = {
                "knowledge"),
     "section by name": ("name", *_SECTION_COMMON),
     "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
-    "section of shape rect": ("shape", "d", "b", "t", "r", *_SECTION_COMMON),
-    "section of shape round": ("shape", "D", "t", *_SECTION_COMMON),
+    "section of shape rect": ("shape", "d", "b", "t", "r", "finish", *_SECTION_COMMON),
+    "section of shape round": ("shape", "D", "t", "finish", *_SECTION_COMMON),
     "section built up": ("built",),
     "built-up section": ("arrangement", "connection", "angle", "channel", "web", "flange_plates",
                          "long_leg", "pitch", "gap", "toes", "plates", "depth", "width", "lacing",
@@ -36,7 +36,8 @@ KEYS: dict[str, tuple[str, ...]] = {
     "web plate": ("depth", "thickness"),
     "lacing": ("kind", "width", "thickness", "pitch", "planes"),
     "battens": ("spacing", "depth", "thickness", "planes"),
-    "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
+    "section loss": ("flange", "web", "wall", "uniform", "from", "to", "holes"),
+    "holes": ("flange", "web", "wall"),
     "cover plates": ("thickness", "width", "connection", "pitch"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
@@ -48,9 +49,12 @@ KEYS: dict[str, tuple[str, ...]] = {
     "alignment": ("Ga", "Gb", "sway"),
     "twist": ("braces", "bottom", "top"),
     "twist restraint": ("at", "added", "seen_by", "note"),
-    "condition": ("bow", "bow_axis", "bow_over", "plumb", "plumb_axis"),
-    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions"),
+    "condition": ("bow", "bow_axis", "bow_over", "bow_allowance", "plumb", "plumb_axis"),
+    "demand": ("axial", "loads", "basis", "psi0", "moments", "reactions", "end_moments", "story"),
     "moments": AXES,
+    "end moments": AXES,
+    "end moments of an axis": ("top", "bottom", "curvature"),
+    "story": ("load", "buckling_load", "stiffness"),
     "reaction": ("load", "axis", "eccentricity", "side"),
     "loads": LOAD_TYPES,
     "psi0": ("live", "snow"),
@@ -74,7 +78,7 @@ def check_keys(spec: Mapping[str, Any], obj: str, fld: str) -> None:
         >>> check_keys({"flange": "0.3 in", "Web": "0.2 in"}, "section loss", "section.loss")
         Traceback (most recent call last):
         ...
-        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform, from, to)
+        fieldcol.errors.InputError: section.loss.Web: cannot use 'Web': not a known key of the section loss (did you mean 'web'? known keys: flange, web, wall, uniform, from, to, holes)
     """
     _known_only(spec, KEYS[obj], obj, fld)
 
@@ -119,6 +123,7 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
         _section_keys(sec, "section")
         for key, table in (("loss", "section loss"), ("plates", "cover plates")):
             check_keys(obj(sec.get(key)), table, f"section.{key}")
+        check_keys(obj(obj(sec.get("loss")).get("holes")), "holes", "section.loss.holes")
     _material_keys(obj(record.get("material")), "material")
     res = obj(record.get("restraints"))
     check_keys(res, "restraints", "restraints")
@@ -141,6 +146,11 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
     check_keys(obj(demand.get("loads")), "loads", "demand.loads")
     check_keys(obj(demand.get("psi0")), "psi0", "demand.psi0")
     check_keys(obj(demand.get("moments")), "moments", "demand.moments")
+    ends = obj(demand.get("end_moments"))
+    check_keys(ends, "end moments", "demand.end_moments")
+    for ax in AXES:
+        check_keys(obj(ends.get(ax)), "end moments of an axis", f"demand.end_moments.{ax}")
+    check_keys(obj(demand.get("story")), "story", "demand.story")
     for i, r in items(demand.get("reactions")):
         check_keys(r, "reaction", f"demand.reactions[{i}]")
 

@@ -26,6 +26,7 @@ from typing import Any, Mapping
 import numpy as np
 
 from fieldcol.assess import Assessment, assess
+from fieldcol.bending import end_ratio, sway_load
 from fieldcol.codes import check_aisc360, check_bow, check_elastic, check_en1993
 from fieldcol.codes.beamcolumn import check_beam_column
 from fieldcol.errors import InputError
@@ -181,13 +182,17 @@ def run_samples(record: Mapping[str, Any], samples: int, *, seed: int = SEED,
                 a.beam is None or col.bow_over is not None):
             Lb = col.bow_over if col.bow_over is not None else a.spans[col.bow_axis]
             bw = check_bow(col.code, sec, Fy, mat.E, mat.G, Lb, L["strong"], L["weak"], L["twist"], col.bow,
-                           col.bow_axis, basis=basis, gamma_M1=col.gamma_M1, Pr=Pr or None, axial=ax)
+                           col.bow_axis, basis=basis, gamma_M1=col.gamma_M1, Pr=Pr or None, axial=ax,
+                           allowance=col.bow_allowance)
             caps.append(np.asarray(bw.capacity, dtype=float))
             if Pr:
                 ratios.append(np.asarray(bw.ratio, dtype=float))
         if a.beam is not None:
+            pe = sway_load(col, Pr)
             bc = check_beam_column(col.code, sec, Fy, mat.E, mat.G, Pr, ax, span=a.spans, Lc=L,
-                                   moments=a.sources, basis=basis, gamma_M1=col.gamma_M1)
+                                   moments=a.sources, basis=basis, gamma_M1=col.gamma_M1,
+                                   end_ratio=end_ratio(col), sway_Pe=None if pe is None else
+                                   {"strong": pe, "weak": pe})
             caps.append(bc.capacity)
             ratios.append(bc.ratio)
         notes = ["effective lengths, moments and demand held at their recorded values"]

@@ -84,3 +84,60 @@ def test_brace_kind_and_who_saw_it_are_read_and_checked():
     with pytest.raises(InputError) as e:
         assess(bad)
     assert e.value.field == "restraints.weak.braces[0].kind"
+
+
+# -- errors name the full field and quote the entry as typed ------------------------------------
+
+@pytest.mark.parametrize("section, field, typed", [
+    ({"name": "W10X49", "loss": {"flange": "0.9 in"}}, "section.loss.flange", "0.9 in"),
+    ({"name": "W10X49", "loss": {"flange": "0.9 in", "from": "0 in", "to": "6 in"}},
+     "section.loss.flange", "0.9 in"),
+    ({"name": "W10X49", "loss": {"wall": "0.2 in"}}, "section.loss.wall", "0.2 in"),
+])
+def test_loss_errors_name_the_full_field_and_quote_the_entry(section, field, typed):
+    with pytest.raises(InputError) as e:
+        assess({"tag": "L", "section": section, "material": "A992", "length": "12 ft"})
+    assert e.value.field == field and e.value.text == typed
+    assert "22.86" not in str(e.value)
+
+
+def test_a_spring_end_on_a_table_basis_is_described_in_words():
+    with pytest.raises(InputError) as e:
+        assess({"tag": "K", "section": "W14X90", "material": "A992", "length": "12 ft",
+                "k_basis": "recommended",
+                "restraints": {"strong": {"bottom": {"rotation": "50000 kip*in/rad", "translation": "held"},
+                                          "top": "pinned"}}})
+    assert e.value.field == "restraints.strong.bottom"
+    assert e.value.text.startswith("a spring end (rotation") and "End(" not in str(e.value)
+    assert "analysis" in e.value.hint
+
+
+# -- plausibility (common practice): a length under 1 ft or over 100 ft, a plate thicker than built
+
+@pytest.mark.parametrize("length, said", [("200 mm", True), ("11 in", True), ("1 ft", False),
+                                          ("100 ft", False), ("101 ft", True)])
+def test_implausible_lengths_are_questioned(length, said):
+    a = assess({"tag": "P", "section": "W10X49", "material": "A992", "length": length})
+    assert any(w["code"] == "length-implausible" for w in a.warnings) == said
+
+
+def test_a_thickness_above_nominal_is_questioned():
+    # W10X49 tf = 0.560 in (AISC Shapes Database v15.0): a reading of 0.60 in is above it
+    a = assess({"tag": "P", "section": {"name": "W10X49", "loss": {"flange": "0.60 in"}},
+                "material": "A992", "length": "12 ft"})
+    said = [w["message"] for w in a.warnings if w["code"] == "thickness-above-nominal"]
+    assert len(said) == 1 and "flange" in said[0]
+    b = assess({"tag": "P", "section": {"name": "W10X49", "loss": {"flange": "0.50 in"}},
+                "material": "A992", "length": "12 ft"})
+    assert not any(w["code"] == "thickness-above-nominal" for w in b.warnings)
+
+
+@pytest.mark.parametrize("section, field, typed", [
+    ({"shape": "i", "d": "14 in", "bf": "14 in", "tf": "8 in", "tw": "0.5 in"}, "section.tf", "8 in"),
+    ({"shape": "rect", "d": "8 in", "b": "6 in", "t": "4 in"}, "section.t", "4 in"),
+    ({"shape": "round", "D": "6 in", "t": "3 in"}, "section.t", "3 in"),
+])
+def test_measured_section_errors_name_the_full_field_and_quote_the_entry(section, field, typed):
+    with pytest.raises(InputError) as e:
+        assess({"tag": "M", "section": section, "material": "A992", "length": "12 ft"})
+    assert e.value.field == field and e.value.text == typed

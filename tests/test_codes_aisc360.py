@@ -27,8 +27,8 @@ def _column_with_slenderness(slenderness: float, Fy_ksi: float, basis: str):
 
 
 # AISC Steel Construction Manual 14th ed., Table 4-22 (available critical stress, ksi):
-# (Fy, Lc/r, phi_c Fcr, Fcr/Omega_c). The first two rows are as read in the Manual (quoted in the
-# project's engineering notes); the Fy 50 rows at 50/100/200 are from memory.
+# (Fy, Lc/r, phi_c Fcr, Fcr/Omega_c). The first two rows as read in the Manual's table; the Fy 50
+# rows at 50/100/200 from memory.
 TABLE_4_22 = [
     (36, 25, 31.4, 20.9),
     (50, 1, 45.0, 29.9),

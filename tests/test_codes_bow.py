@@ -153,40 +153,65 @@ def _h1(P, e, Pc, Mc, Pe1, alpha):
     return P / Pc + 8 / 9 * Mr / Mc if P / Pc >= 0.2 else P / (2 * Pc) + Mr / Mc
 
 
+def _w14x90_by_hand(basis):
+    """Pc (E3) and Mc about the weak axis (F6) of W14x90, A992, Lc = 20 ft, by hand from the AISC
+    Shapes Database v15.0 row (A, ry, Zy, Sy, bf, tf): nothing taken from the engine."""
+    s = aisc_w("W14X90")
+    A, ry, Zy, Sy = float(s.A), float(s.ry), float(s.Zy), float(s.Sy)
+    bf, tf = float(s.bf), float(s.tf)
+    Fy, E = 50 * KSI, E_US
+    Fe = math.pi**2 * E / (20 * FT / ry) ** 2                            # (E3-4)
+    Fcr = 0.658 ** (Fy / Fe) * Fy if Fy / Fe <= 2.25 else 0.877 * Fe     # (E3-2), (E3-3)
+    Pn = Fcr * A
+    Mp = min(Fy * Zy, 1.6 * Fy * Sy)                                     # (F6-1)
+    lam, lp, lr = bf / (2 * tf), 0.38 * math.sqrt(E / Fy), 1.0 * math.sqrt(E / Fy)  # Table B4.1b
+    Mn = Mp if lam <= lp else Mp - (Mp - 0.7 * Fy * Sy) * (lam - lp) / (lr - lp)   # (F6-2)
+    if basis == "lrfd":
+        return 0.90 * Pn, 0.90 * Mn
+    return Pn / 1.67, Mn / 1.67
+
+
 @pytest.mark.parametrize("basis, alpha", [("lrfd", 1.0), ("asd", 1.6)])
 def test_h1_interaction_by_hand(basis, alpha):
+    # AISC 360-22 E3, F6 (noncompact flange: W14x90 bf/2tf = 10.2 > 0.38 sqrt(E/Fy) = 9.15),
+    # App. 8 (A-8-3), (A-8-5) and H1-1, every intermediate value by hand
     s = aisc_w("W14X90")
     L = 20 * FT
     bow = 1.25 * IN
+    Pc, Mc = _w14x90_by_hand(basis)
+    # LRFD by hand in kips: phi Pn = 877 kips, phi Mn = 3,272 kip-in (from the v15.0 row)
+    if basis == "lrfd":
+        assert Pc / 4448.2216 == pytest.approx(877, rel=2e-3)
+        assert Mc / (4448.2216 * IN) == pytest.approx(3272, rel=2e-3)
     r = aisc(s, 50, L, bow, basis=basis)
-    Pc = float(check_aisc360(s, 50 * KSI, E_US, G_US, L, L, L, basis=basis).design)
+    assert float(check_aisc360(s, 50 * KSI, E_US, G_US, L, L, L, basis=basis).design) == pytest.approx(Pc, rel=1e-9)
+    assert float(r.Mc) == pytest.approx(Mc, rel=1e-9)
     Pe1 = math.pi**2 * E_US * float(s.Iy) / L**2        # (A-8-5), K1 = 1, EI* = EI
-    e = bow - L / 1500      # AISC: L/1500 already in the column curve (Commentary E3, from memory)
+    e = bow - L / 1000      # default: the L/1000 straightness tolerance (AISC 303 6.4.1, from memory)
     assert float(r.excess) == pytest.approx(e)
-    Mc = float(r.Mc)
     cap = float(r.capacity)
     assert 0.2 * Pc < cap < Pc
     assert _h1(cap, e, Pc, Mc, Pe1, alpha) == pytest.approx(1.0, abs=1e-9)
     # a demand: the ratio is the hand value of (H1-1a)
     Pr = 0.6 * cap
     rr = aisc(s, 50, L, bow, basis=basis, Pr=Pr)
-    assert float(rr.ratio) == pytest.approx(_h1(Pr, e, Pc, Mc, Pe1, alpha), rel=1e-12)
+    assert float(rr.ratio) == pytest.approx(_h1(Pr, e, Pc, Mc, Pe1, alpha), rel=1e-9)
     # a light demand on a badly bowed column: (H1-1b)
     heavy = 12 * IN
     Pr = 0.1 * Pc
     rb = aisc(s, 50, L, heavy, basis=basis, Pr=Pr)
-    assert float(rb.ratio) == pytest.approx(_h1(Pr, heavy - L / 1500, Pc, Mc, Pe1, alpha), rel=1e-12)
+    assert float(rb.ratio) == pytest.approx(_h1(Pr, heavy - L / 1000, Pc, Mc, Pe1, alpha), rel=1e-9)
     assert float(step(rb, "B1")) == pytest.approx(1 / (1 - alpha * Pr / Pe1), rel=1e-12)
 
 
 def test_within_tolerance_keeps_the_axial_strength():
     s = aisc_w("W14X90")
     L = 20 * FT
-    r = aisc(s, 50, L, [0.0, L / 1500, L / 1500 * 1.5], Pr=1000 * KIP)
+    r = aisc(s, 50, L, [0.0, L / 1000, L / 1000 * 1.5], Pr=1000 * KIP)
     Pc = float(check_aisc360(s, 50 * KSI, E_US, G_US, L, L, L).design)
-    # AISC 360-22 Commentary E3 (from memory): the column curve holds about L/1500 of initial
-    # crookedness: no excess, no moment
-    assert r.excess.tolist() == [0.0, 0.0, pytest.approx(L / 3000)]
+    # the column curve covers members within the L/1000 straightness tolerance (AISC 303 6.4.1,
+    # from memory): no excess, no moment
+    assert r.excess.tolist() == [0.0, 0.0, pytest.approx(L / 2000)]
     assert r.capacity[:2].tolist() == [Pc, Pc]
     assert r.capacity[2] < Pc
     assert r.ratio[0] == pytest.approx(1000 * KIP / Pc)
@@ -277,25 +302,52 @@ def _annex_b(N, e, NRk, chi_y, chi_z, lb_y, lb_z, Mc, axis, kind="i", cls12=True
     return N / (chi_y * NRk) + 0.6 * kzz * M / Mc, N / (chi_z * NRk) + kzz * M / Mc
 
 
+def _heb300_by_hand(L, axis):
+    """N_Rk, chi_y, chi_z, lb_y, lb_z and M_Rd of HE 300 B, S355, pinned over L, twist held at the
+    ends, from its published properties (EN 10365 tables, from memory: A 149.1 cm2, Iy 25170 cm4,
+    Iz 8563 cm4, Wpl,y 1869 cm3, Wpl,z 870.1 cm3, It 185.0 cm4, Iw 1688e3 cm6): nothing taken
+    from the engine. EN 1993-1-1 6.3.1.2-6.3.1.4, 6.3.2.2, Tables 6.2 and 6.4."""
+    A, Iy, Iz, Wy, Wz, It, Iw = 149.1e2, 25170e4, 8563e4, 1869e3, 870.1e3, 185.0e4, 1688e9
+    fy, E, G = 355.0, E_EN, G_EN
+
+    def chi(lb, alpha):
+        phi = 0.5 * (1 + alpha * (lb - 0.2) + lb**2)
+        return min(1.0, 1 / (phi + math.sqrt(phi**2 - lb**2)))
+
+    NRk = A * fy
+    lb_y = math.sqrt(NRk / (math.pi**2 * E * Iy / L**2))
+    lb_z = math.sqrt(NRk / (math.pi**2 * E * Iz / L**2))
+    NcrT = (G * It + math.pi**2 * E * Iw / L**2) / ((Iy + Iz) / A)       # 6.3.1.4, i0^2 = iy^2 + iz^2
+    chi_y = chi(lb_y, 0.34)                                              # h/b <= 1.2: y-y curve b
+    chi_z = min(chi(lb_z, 0.49), chi(math.sqrt(NRk / NcrT), 0.49))       # z-z curve c
+    if axis == "strong":
+        _, _, chi_lt = _chi_lt_by_hand(E, G, Iz, Iw, It, L, Wy, fy, 0.21)   # Table 6.4: h/b <= 2 curve a
+        M = chi_lt * Wy * fy
+    else:
+        M = Wz * fy
+    return NRk, chi_y, chi_z, lb_y, lb_z, M
+
+
 @pytest.mark.parametrize("axis", ["strong", "weak"])
 def test_en_interaction_by_hand(axis):
-    s = heb300()
+    # the published torsion constants (the test row's thin-walled It is some 20 % low)
+    s = replace(heb300(), J=np.asarray(185.0e4), Cw=np.asarray(1688e9))
     L, bow = 6000.0, 20.0
+    NRk, chi_y, chi_z, lb_y, lb_z, Mc = _heb300_by_hand(L, axis)
     axial = check_en1993(s, 355.0, E_EN, G_EN, L, L, L)
-    NRk = float(axial.modes["yield"].Pn)
-    chi_y = float(axial.modes["flexural-strong"].Pn) / NRk
-    chi_z = min(float(axial.modes["flexural-weak"].Pn), float(axial.modes["torsional"].Pn)) / NRk
-    lb_y = float(axial.modes["flexural-strong"].slenderness)
-    lb_z = float(axial.modes["flexural-weak"].slenderness)
+    # the engine's catalogue row against the published properties: within 0.5 %
+    assert float(axial.modes["yield"].Pn) == pytest.approx(NRk, rel=5e-3)
+    assert float(axial.modes["flexural-strong"].Pn) / float(axial.modes["yield"].Pn) == pytest.approx(chi_y, rel=5e-3)
+    assert float(axial.modes["flexural-weak"].slenderness) == pytest.approx(lb_z, rel=5e-3)
     r = en(s, 355.0, L, bow, axis, axial=axial)
+    assert float(r.Mc) == pytest.approx(Mc, rel=5e-3)
     e = bow - L / 1000
-    Mc = float(r.Mc)
     cap = float(r.capacity)
-    assert max(_annex_b(cap, e, NRk, chi_y, chi_z, lb_y, lb_z, Mc, axis)) == pytest.approx(1.0, abs=1e-9)
+    assert max(_annex_b(cap, e, NRk, chi_y, chi_z, lb_y, lb_z, Mc, axis)) == pytest.approx(1.0, rel=1e-2)
     N = 0.7 * cap
     rr = en(s, 355.0, L, bow, axis, axial=axial, Pr=N)
     assert float(rr.ratio) == pytest.approx(max(_annex_b(N, e, NRk, chi_y, chi_z, lb_y, lb_z, Mc, axis)),
-                                            rel=1e-12)
+                                            rel=1e-2)
 
 
 def test_en_hollow_section_uses_table_b1():
@@ -547,7 +599,7 @@ def test_missing_bending_property_is_refused():
 
 def test_trace_names_its_clauses():
     clauses = " ".join(st.clause for st in aisc(aisc_w("W14X90"), 50, 20 * FT, 1 * IN, Pr=500 * KIP).trace.steps)
-    for c in ("H1.1 (H1-1a), (H1-1b)", "(A-8-3)", "(A-8-5)", "F6", "Commentary E3"):
+    for c in ("H1.1 (H1-1a), (H1-1b)", "(A-8-3)", "(A-8-5)", "F6", "AISC 303 6.4.1"):
         assert c in clauses
     strong = " ".join(st.clause for st in aisc(aisc_w("W14X90"), 50, 20 * FT, 1 * IN, "strong").trace.steps)
     assert "F2" in strong and "F3" in strong
@@ -605,7 +657,7 @@ def test_capacity_never_grows_with_the_bow(code, col, fy, L, bows, axis):
     assert (np.diff(cap[ok]) <= 0).all()
     assert (cap[ok] <= design).all()
     # no excess (elastic: no bow): the axial design strength itself
-    allowed = L / {"aisc360-22": 1500, "en1993-1-1": 1000}.get(code, 1000)
+    allowed = L / 1000   # the default allowance under every code
     none = np.array(bows) == 0 if code == "elastic" else np.array(bows) <= allowed
     assert (cap[none] == design).all()
 
@@ -730,3 +782,19 @@ def test_one_column_gives_plain_values():
     r = en(heb300(), 355.0, 6000.0, 20.0, "strong", Pr=1e6)
     assert r.excess.shape == r.Mc.shape == r.capacity.shape == r.ratio.shape == ()
     assert all(np.ndim(s.value) == 0 for s in r.trace.steps)
+
+
+def test_conservative_allowance_l1500_is_an_option_and_the_trace_says_which():
+    # default L/1000 (AISC 303 6.4.1 straightness tolerance, from memory); L/1500 is the
+    # conservative option (AISC 360-22 Commentary E3: crookedness near L/1470, from memory)
+    s = aisc_w("W14X90")
+    L = 20 * FT
+    d = aisc(s, 50, L, 0.5 * IN)
+    c = aisc(s, 50, L, 0.5 * IN, allowance=1500)
+    assert float(d.excess) == pytest.approx(0.5 * IN - L / 1000)
+    assert float(c.excess) == pytest.approx(0.5 * IN - L / 1500)
+    assert float(c.capacity) < float(d.capacity)
+    tol = next(st for st in c.trace.steps if st.symbol == "e_tol")
+    assert tol.formula == "L/1500" and "conservative" in tol.what
+    with pytest.raises(InputError):
+        aisc(s, 50, L, 0.5 * IN, allowance=500)

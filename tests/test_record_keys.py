@@ -39,8 +39,11 @@ CATALOGUE = {
                               "note": "angle cleat"}], "bottom": "held", "top": "held"}},
     "k_basis": "analysis", "code": "aisc360-22", "units": "us",
     "condition": {"bow": "1/4 in", "bow_axis": "weak", "bow_over": "16 ft", "plumb": "1/2 in",
-                  "plumb_axis": "weak"},
+                  "plumb_axis": "weak", "bow_allowance": "L/1500"},
     "demand": {"axial": "200 kip", "basis": "lrfd", "moments": {"weak": "5 kip*ft"},
+               "end_moments": {"strong": {"top": "10 kip*ft", "bottom": "5 kip*ft",
+                                          "curvature": "reverse"}},
+               "story": {"load": "2000 kip", "buckling_load": "20000 kip", "stiffness": None},
                "reactions": [{"load": "20 kip", "axis": "strong", "eccentricity": "6 in",
                               "side": "+"}]},
     "knowledge": "usual",
@@ -59,9 +62,10 @@ MEASURED_I = {
 }
 RECT = {"tag": "R1", "length": "12 ft", "material": "A500 Gr B",
         "section": {"shape": "rect", "d": "8 in", "b": "6 in", "t": "0.25 in", "r": "0.5 in",
-                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in"}}}
+                    "finish": "cold-formed",
+                    "loss": {"wall": "0.2 in", "from": "0 in", "to": "6 in", "holes": {"wall": "0.5 in"}}}}
 ROUND = {"tag": "P1", "length": "12 ft", "material": "A500 Gr B",
-         "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in"}}
+         "section": {"shape": "round", "D": "6.625 in", "t": "0.28 in", "finish": "hot-finished"}}
 BUILT = [
     {"tag": "K/7", "length": "18 ft", "material": "A7",
      "section": {"built": {"arrangement": "channels", "connection": "riveted",

@@ -74,10 +74,12 @@ def test_identify_json(capsys):
 
 
 def test_identify_says_plainly_when_nothing_matches(capsys):
-    code, out, _ = _run(capsys, "identify", "--d", "1000", "--bf", "20", "--tf", "5", "--tw", "3")
-    assert code == 0
-    assert "no catalogue match: use the measured section" in out
     code, out, _ = _run(capsys, "identify", "--d", "1000", "--bf", "20", "--tf", "5", "--tw", "3",
+                        "--units", "si")
+    assert code == 0
+    assert "Bare numbers (d, bf, tf, tw) read as mm (--units si)." in out
+    assert "no catalogue match: use the measured section" in out
+    code, out, _ = _run(capsys, "identify", "--d", "1000mm", "--bf", "20mm", "--tf", "5mm", "--tw", "3mm",
                         "--json")
     data = json.loads(out)
     assert not data["match_found"] and data["message"].startswith("no catalogue match")
@@ -85,9 +87,10 @@ def test_identify_says_plainly_when_nothing_matches(capsys):
 
 @pytest.mark.parametrize("argv, field", [
     (("--d", "14fr", "--bf", "300"), "d"),
-    (("--d", "300", "--bf", "-3"), "bf"),
-    (("--d", "300",), "d"),
-    (("--d", "300", "--bf", "300", "--tf", "19", "--tw", "11", "--family", "ZZ"), "family"),
+    (("--d", "300mm", "--bf=-3mm"), "bf"),
+    (("--d", "300mm",), "d"),
+    (("--d", "14",), "d"),
+    (("--d", "300", "--bf", "300", "--tf", "19", "--tw", "11", "--units", "si", "--family", "ZZ"), "family"),
 ])
 def test_identify_bad_entries_exit_2_naming_the_field(capsys, argv, field):
     code, _, err = _run(capsys, "identify", *argv)
@@ -98,6 +101,6 @@ def test_identify_answers_in_the_units_the_entries_were_typed_in(capsys):
     assert main(["identify", "--d", "13.9in", "--bf", "14.5in", "--tf", "0.70in",
                  "--tw", "0.45in", "--limit", "1"]) == 0
     assert "d 13.900 in" in capsys.readouterr().out
-    assert main(["identify", "--d", "353", "--bf", "368", "--tf", "17.8", "--tw", "11.4",
+    assert main(["identify", "--d", "353mm", "--bf", "368mm", "--tf", "17.8mm", "--tw", "11.4mm",
                  "--limit", "1"]) == 0
     assert "d 353.00 mm" in capsys.readouterr().out

@@ -119,3 +119,32 @@ def test_a6_bands_are_as_published():
     assert b["bf"][0][i] == pytest.approx(3 * IN / 16) and b["bf"][1][i] == pytest.approx(IN / 4)
     assert b["tf"][0][i] == pytest.approx(0.025 * cat.tf[i])
     assert b["tf"][1][i] == pytest.approx(0.030 * cat.tf[i])
+
+
+# ASTM A6 as published in AISC Manual Table 1-22 (project notes [S]): W shapes depth +-1/8 in,
+# flange width +1/4 / -3/16 in; W14X90 nominal d 14.0, bf 14.5, tf 0.710, tw 0.440 in (AISC
+# Shapes Database v15.0). These limits are typed here, not read from the engine's bands.
+W14X90 = dict(d=14.0, bf=14.5, tf=0.710, tw=0.440)
+
+
+@pytest.mark.parametrize("dim, value, fits", [
+    ("d", 14.0 + 1 / 8, True), ("d", 14.0 - 1 / 8, True), ("bf", 14.5 + 1 / 4, True),
+    ("bf", 14.5 - 3 / 16, True), ("d", 14.0 + 1 / 8 + 0.002, False), ("bf", 14.5 - 3 / 16 - 0.002, False),
+    ("bf", 14.5 + 1 / 4 + 0.002, False)])
+def test_a6_limits_are_inclusive_and_published(dim, value, fits):
+    q = {k: v * IN for k, v in {**W14X90, dim: value}.items()}
+    m = {x.name: x for x in identify(**q, family="W", limit=50)}
+    assert ("W14X90" in m and m["W14X90"].within_tolerance) == fits
+
+
+def test_site_code_catalogue_first_when_both_fit():
+    # W10X60 (AISC v15.0: d 10.2, bf 10.1, tf 0.680, tw 0.420 in) and HEB 260 (EN 10365: 260 x 260,
+    # tf 17.5, tw 10 mm; from memory) lie close: this measurement fits both within their own bands
+    q = dict(d=259.3, bf=257.5, tf=17.35, tw=10.62)
+    fits = lambda ms: [m.name for m in ms if m.within_tolerance]   # noqa: E731
+    assert fits(identify(**q, code="aisc360-22"))[:2] == ["W10X60", "HEB 260"]
+    assert fits(identify(**q, code="en1993-1-1"))[:2] == ["HEB 260", "W10X60"]
+    assert fits(identify(**q))[0] == "W10X60"        # no code: the closer fit in its own band
+    with pytest.raises(InputError) as e:
+        identify(**q, code="bs5950")
+    assert e.value.field == "code"

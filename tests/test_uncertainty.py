@@ -82,3 +82,25 @@ def test_the_check_command_reports_the_distribution(tmp_path):
     bad = subprocess.run([sys.executable, "-m", "fieldcol", "check", str(f), "--samples", "5"],
                          capture_output=True, text=True)
     assert bad.returncode == 2 and "samples" in bad.stderr
+
+
+FRAME = {"tag": "U2", "section": "W14X90", "material": "A992", "length": "14 ft",
+         "restraints": {"weak": {"bottom": "fixed", "top": "free"}},
+         "demand": {"axial": "300 kip",
+                    "end_moments": {"strong": {"top": "120 kip*ft", "bottom": "60 kip*ft",
+                                               "curvature": "reverse"}},
+                    "story": {"load": "3000 kip", "buckling_load": "30000 kip"}},
+         "condition": {"plumb": "0.5 in", "plumb_axis": "weak"}}
+
+
+def test_the_median_error_shrinks_with_the_spreads_on_every_path():
+    # end moments (B1 with Cm from their ratio) and the story's sway amplifier sampled too: as the
+    # spreads shrink tenfold the median's error shrinks with them (first-order: in proportion)
+    errs = []
+    for scale in (0.1, 0.01, 0.001):
+        u = run_samples(FRAME, 4000, spreads=Spreads(0.1 * scale, 1.0 * scale, 0.07 * scale))
+        errs.append(abs(u.percentiles[50] / u.deterministic - 1))
+        assert errs[-1] <= 0.02 * scale
+    assert errs[2] < errs[1] < errs[0] or errs[2] <= 1e-4
+    none = run_samples(FRAME, 200, spreads=Spreads(0.0, 0.0, 0.0))
+    assert none.percentiles[50] == pytest.approx(assess(FRAME).design_strength, rel=1e-9)

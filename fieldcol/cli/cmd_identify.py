@@ -23,7 +23,8 @@ def register(sub: argparse._SubParsersAction) -> None:
         "tolerances (ASTM A6 for W/HP/S/M, A500/A53 for HSS/pipe, EN 10034 for IPE/HE) widened by "
         "the gauge tolerance. Give --d --bf --tf --tw for an I shape, --d --b --t for a box, "
         "--D --t for a round section. Values take units (13.9in, 353 mm, 14-1/2\"); a bare "
-        "number is in mm, or inches with --units us.")
+        "number is refused unless --units says the unit system (us: in, si: mm), and the answer "
+        "says so. --code puts that code's catalogue first among the shapes that fit.")
     for name, what in _DIMS:
         p.add_argument(f"--{name}", dest=f"m_{name}", metavar="LENGTH", help=what)
     p.add_argument("--gauge", default="0", metavar="LENGTH",
@@ -31,9 +32,12 @@ def register(sub: argparse._SubParsersAction) -> None:
     p.add_argument("--family", action="append",
                    help="only this family (W, HP, S, M, HSS, PIPE, IPE, HE, HEA, HEB, HEM); repeat")
     p.add_argument("--limit", type=int, default=10, help="how many candidates (default 10)")
+    p.add_argument("--code", choices=("aisc360-22", "en1993-1-1"),
+                   help="the site's code: its catalogue ranks first among the shapes within tolerance")
     p.add_argument("--units", choices=("us", "si"),
-                   help="display units, and the unit of a bare number (us: in, si: mm); "
-                        "default: us when the entries are in inches or feet, else si")
+                   help="display units, and the unit of a bare number (us: in, si: mm; without "
+                        "--units a bare number is refused); default: us when the entries are in "
+                        "inches or feet, else si")
     p.add_argument("--json", action="store_true", help="print JSON (each quantity as value + unit)")
     p.set_defaults(func=run)
 
@@ -54,18 +58,27 @@ def run(args: argparse.Namespace) -> int:
     """
     from fieldcol.cli import CAUTION, print_json
     from fieldcol.cli.cmd_section import quantity, show
+    from fieldcol.errors import InputError
     from fieldcol.sections import identify
     from fieldcol.units import parse_length
 
     system = args.units or _system_of([getattr(args, f"m_{n}") for n, _ in _DIMS])
     unit = "in" if system == "us" else "mm"
-    measured = {}
+    measured, bare = {}, []
     for name, _ in _DIMS:
         text = getattr(args, f"m_{name}")
-        if text is not None:
-            measured[name] = parse_length(text, name, default_unit=unit)
+        if text is None:
+            continue
+        if _BARE.match(text):
+            if args.units is None:
+                raise InputError(name, text, "a unit is needed (a bare number could be inches or mm)",
+                                 f"e.g. {text} in or {text} mm, or say --units us (in) or si (mm)")
+            bare.append(name)
+        measured[name] = parse_length(text, name, default_unit=unit)
+    if _BARE.match(args.gauge) and args.units is None and float(args.gauge or 0) != 0:
+        raise InputError("gauge", args.gauge, "a unit is needed", "e.g. 0.02 in or 0.5 mm, or --units")
     gauge = parse_length(args.gauge, "gauge", default_unit=unit, allow_zero=True)
-    matches = identify(**measured, gauge=gauge, family=args.family, limit=args.limit)
+    matches = identify(**measured, gauge=gauge, family=args.family, limit=args.limit, code=args.code)
     found = any(m.within_tolerance for m in matches)
     if args.json:
         print_json({
@@ -73,6 +86,7 @@ def run(args: argparse.Namespace) -> int:
             "measured": {k: quantity(v, "length", system) for k, v in measured.items()},
             "gauge": quantity(gauge, "length", system),
             "match_found": found,
+            "bare_numbers_read_as": unit if bare else None,
             "message": None if found else NO_MATCH,
             "matches": [{
                 "name": m.name, "family": m.family, "score": m.score,
@@ -86,7 +100,12 @@ def run(args: argparse.Namespace) -> int:
         return 0
     lines = ["Measured: " + ", ".join(f"{k} {show(v, 'length', system)}"
                                       for k, v in measured.items())
-             + (f" (gauge +-{show(gauge, 'length', system)})" if gauge else ""), ""]
+             + (f" (gauge +-{show(gauge, 'length', system)})" if gauge else "")]
+    if bare:
+        lines.append(f"Bare numbers ({', '.join(bare)}) read as {unit} (--units {system}).")
+    if args.code:
+        lines.append(f"Shapes of the {args.code} catalogue first among those within tolerance.")
+    lines.append("")
     if not found:
         lines += [NO_MATCH + ".", "Nearest catalogue sections (outside tolerance):"]
     lines.append(f"  {'#':>2}  {'section':<22} {'score':>6}  {'in tolerance':<12}  "
@@ -99,6 +118,9 @@ def run(args: argparse.Namespace) -> int:
     lines += ["", CAUTION]
     print("\n".join(lines))
     return 0
+
+
+_BARE = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?\s*$")
 
 
 def _system_of(entries: list[str | None]) -> str:

@@ -8,16 +8,17 @@ treatment (N*mm, per axis):
 - ``given``: required moments that already include second-order effects (AISC H1 expects
   them so); used as they are. Under EN they enter 6.3.3 as M_Ed as well: the k factors then
   amplify them again (conservative, said in the trace).
-- ``ends``: a first-order moment at one end and none at the other (a beam reaction at an
-  eccentricity at the top of a column pinned at its base): AISC B1 with Cm = 0.6 - 0.4 M1/M2 =
-  0.6 (M1 = 0; a fixed base would give reverse curvature and a lower Cm, so 0.6 is
-  conservative); EN Cm = 0.6 + 0.4 psi = 0.6 (Table B.3, psi = 0).
+- ``ends``: the larger first-order end moment M2 (a beam reaction at an eccentricity at the top,
+  end moments from a frame analysis): AISC B1 with Cm = 0.6 - 0.4 M1/M2 (``end_ratio``: M1/M2,
+  positive in reverse curvature; 0, so Cm = 0.6, with one end moment alone); EN Cm = 0.6 + 0.4
+  psi >= 0.4 with psi = -M1/M2 (Table B.3).
 - ``bow``: an eccentricity e (mm) at mid-height, moment P e, Cm = 1.0 (AISC B1 exact for a
   half-sine bow; EN Cm 1.0, conservative).
 - ``sway``: a measured out-of-plumb D (mm) of a column free to sway about that axis, moment
   P D at the held end, amplified by AISC B2 = 1/(1 - alpha P/Pe,story) (App. 8.2.2) or EN
-  1/(1 - N/Ncr) (5.2.2 (5)B), with the story's load taken as the column's own and Pe,story =
-  pi^2 EI / Lc^2 of the column alone (said in the trace).
+  1/(1 - N/Ncr) (5.2.2 (5)B). With the story given (``sway_Pe``: the story's buckling load times
+  the column's share of the story's gravity load) the amplifier is the story's; else the column's
+  own load on Pe,story = pi^2 EI / Lc^2 of the column alone (said in the trace).
 
 The largest moments of the four sources are added although they may act at different heights
 (conservative). All moments scale with the axial force: the ``capacity`` is the largest axial
@@ -95,7 +96,8 @@ def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
 
 def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
-                      basis: str = "lrfd", gamma_M1: float = 1.0) -> BeamColumnResult:
+                      basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
+                      sway_Pe: Mapping[str, Any] | None = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -109,6 +111,10 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
         moments: ``{"given" | "ends" | "bow" | "sway": {"strong": .., "weak": ..}}``: given and end
             moments in N*mm, bow eccentricity and out-of-plumb in mm (see the module notes).
         basis: AISC ``"lrfd"`` or ``"asd"``; gamma_M1: the EN partial factor.
+        end_ratio: M1/M2 of the end moments per axis (positive in reverse curvature, -1..1);
+            missing: 0 (one end moment, Cm = 0.6).
+        sway_Pe: per axis, the buckling load the sway amplifier divides the column's force by (N);
+            missing: the column's own (Pe,story = pi^2 EI / Lc^2).
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -136,6 +142,14 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
     for name in ("Sx", "Sy", "Zx", "Zy", "ho"):
         sec[name] = np.broadcast_to(np.asarray(getattr(section, name), dtype=float), shape).reshape(n)
     M = {src: _pair(f"moments.{src}", moments.get(src), n) for src in SOURCES}
+    ratio = {}
+    for ax in AXES:
+        r = np.broadcast_to(np.asarray((end_ratio or {}).get(ax, 0.0), dtype=float), (n,))
+        if not np.all((r >= -1) & (r <= 1)):
+            raise InputError(f"end_ratio.{ax}", repr((end_ratio or {}).get(ax)), "M1/M2 must lie from -1 to 1")
+        ratio[ax] = r
+    sway = None if not sway_Pe else {ax: np.broadcast_to(np.asarray(sway_Pe[ax], dtype=float), (n,))
+                                     for ax in AXES}
     kind = section.kind
     t = Trace()
     Pr_ = t.add("Pr", "required axial strength", "demand", v["Pr"], "N", "demand")
@@ -147,9 +161,9 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                       "N*mm" if src in ("given", "ends") else "mm", "record")
     design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
     if code == "aisc360-22":
-        return _aisc(kind, sec, v, M, design, Pr_, basis, t)
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway)
     if code == "elastic":
         return _elastic(sec, v, M, axial, shape, n, Pr_, design, t)
     raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
@@ -170,7 +184,7 @@ def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, 
     return cap, ratio, eq
 
 
-def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
     Fy, E = v["Fy"], v["E"]
     lrfd = basis == "lrfd"
     alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
@@ -186,19 +200,23 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
                        "phi_b Mn, phi_b = 0.90" if lrfd else "Mn / Omega_b, Omega_b = 1.67",
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
         Pe1[ax] = np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2
-        Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2
+        Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2 if sway is None else sway[ax]
         # the amplifiers' loads are shown only where a moment they amplify is present
         if np.any(M["ends"][ax] + M["bow"][ax] > 0):
             t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
                   "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway", Pe1[ax], "N",
                   f"{APP8}.1 (A-8-5)")
-        if np.any(M["sway"][ax] > 0):
+        if np.any(M["sway"][ax] > 0) and sway is None:
             t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
                   "pi^2 EI / Lc^2 (the story's other columns left out: conservative)", Pe2[ax], "N",
                   f"{APP8}.2 (A-8-7)")
     t.add("Pc", "available axial strength (governing mode)", "phi_c Pn or Pn / Omega_c", Pc, "N", "AISC 360-22 E1")
-    t.add("Cm", "equivalent uniform moment factor", "end moment, other end 0: 0.6 - 0.4 M1/M2 = 0.6; bow: 1.0",
-          0.6, "", f"{APP8}.1 (A-8-4)")
+    Cm = {}
+    for ax in AXES:
+        Cm[ax] = 0.6 - 0.4 * ratio[ax]
+        if np.any(M["ends"][ax] > 0):
+            t.add(f"Cm_{ax}", f"equivalent uniform moment factor for the end moments, {ax} axis (bow: 1.0)",
+                  "0.6 - 0.4 M1/M2 (M1/M2 > 0 in reverse curvature)", Cm[ax], "", f"{APP8}.1 (A-8-4)")
 
     def amp(P, Pe, Cm):
         den = 1.0 - alpha * P / Pe
@@ -211,7 +229,7 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
         lam = P / Pr
         out = lam * M["given"][ax] if used[("given", ax)] else np.zeros(P.shape)
         if used[("ends", ax)]:
-            out = out + amp(P, Pe1[ax], 0.6) * lam * M["ends"][ax]
+            out = out + amp(P, Pe1[ax], Cm[ax]) * lam * M["ends"][ax]
         if used[("bow", ax)]:
             out = out + np.where(M["bow"][ax] > 0, amp(P, Pe1[ax], 1.0) * P * M["bow"][ax], 0.0)
         if used[("sway", ax)]:
@@ -229,7 +247,7 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
                             f"{H1} (H1-1a), (H1-1b)")
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         Mr_d = {ax: t.add(f"Mr_{ax}", f"required flexural strength at the demand, {ax} axis",
-                          "given + B1 (Cm 0.6) M_end + B1 (Cm 1) Pr e + B2 Pr D", Mr(Pr, ax), "N*mm",
+                          "given + B1 M2 + B1 (Cm 1) Pr e + B2 Pr D", Mr(Pr, ax), "N*mm",
                           f"{APP8} (A-8-1)") for ax in AXES}
         t.add("Pr/Pc", "axial ratio", "Pr / Pc", Pr / Pc, "", H1)
     t.add("ratio", "interaction ratio", "Pr/Pc >= 0.2: Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy) (H1-1a); "
@@ -242,7 +260,7 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t):
     return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t):
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
     fy, E, G = v["Fy"], v["E"], v["G"]
 
     def mode(name, attr):
@@ -270,13 +288,17 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t):
                   "min(Nb,weak, Nb,torsion) / N_Rk", cz, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
     lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
     Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
+    if sway is not None:
+        Ncr = {ax: sway[ax] for ax in AXES}
     only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
     Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
-                "end moment only: 0.6 + 0.4 psi, psi = 0; otherwise 1.0 (conservative)",
-                np.where(only_ends["strong"], 0.6, 1.0), "", f"{ANNEX_B} Table B.3")
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["strong"], np.maximum(0.6 - 0.4 * ratio["strong"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
     Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
-                "end moment only: 0.6 + 0.4 psi, psi = 0; otherwise 1.0 (conservative)",
-                np.where(only_ends["weak"], 0.6, 1.0), "", f"{ANNEX_B} Table B.3")
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
     Ny, Nz = chi_y * NRk / gamma, chi_z * NRk / gamma
     My_Rd = t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1",
                   chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")

@@ -1,11 +1,12 @@
 """A measured bow beyond the straightness tolerance, checked as a beam-column.
 
-The column curves already allow for some out-of-straightness between supports: about L/1500 for
-AISC 360-22 (its Commentary to E3 relates the curve to a mean initial crookedness near L/1470; from
-memory, taken as L/1500 to stay on the safe side) and L/1000 for EN 1993-1-1 (the European curves
-were calibrated with an initial bow of L/1000; common practice). Only the excess e = bow - L/n is
-then an eccentricity of the axial load at mid-height, and the column is checked with the code's
-interaction equations:
+The column curves already allow for some out-of-straightness between supports. The default
+allowance is L/1000 under every code: the AISC curve covers members within the L/1000
+straightness tolerance of the standard of practice (AISC 303 6.4.1, from memory), and the
+European curves were calibrated with an initial bow of L/1000 (common practice). A conservative
+option takes L/1500 (the AISC Commentary to E3 relates its curve to a mean initial crookedness
+near L/1470; from memory). Only the excess e = bow - L/n is then an eccentricity of the axial load
+at mid-height, and the column is checked with the code's interaction equations:
 
 - ``aisc360-22``: Mr = Pr e B1 with B1 = Cm / (1 - alpha Pr / Pe1) (Appendix 8, (A-8-3)) and
   Cm = 1.0 (for a half-sine initial bow the amplification 1/(1 - P/Pe) is exact: Timoshenko &
@@ -57,8 +58,11 @@ from .en1993 import check_en1993
 CODES = ("aisc360-22", "en1993-1-1", "elastic")
 AXES = ("strong", "weak")
 _BASES = ("lrfd", "asd")
-# L/n of bow already inside each code's column curve (see the module notes)
-TOLERANCE = {"aisc360-22": 1500.0, "en1993-1-1": 1000.0, "elastic": 1000.0}
+# L/n of bow already inside each code's column curve by default (see the module notes)
+TOLERANCE = {"aisc360-22": 1000.0, "en1993-1-1": 1000.0, "elastic": 1000.0}
+#: the allowances a record may choose (``condition.bow_allowance``): the default and the
+#: conservative option
+ALLOWANCES = (1000.0, 1500.0)
 H1 = "AISC 360-22 H1.1"
 APP8 = "AISC 360-22 App. 8.2.1"
 C633 = "EN 1993-1-1 6.3.3"
@@ -72,7 +76,7 @@ class BowResult:
 
     Args:
         axis: ``"strong"`` or ``"weak"``, the axis about which the bow bends the column.
-        excess: e = bow - L/n (mm; n = 1500 AISC, 1000 EN and elastic), 0 within it.
+        excess: e = bow - L/n (mm; n = 1000 by default, 1500 the conservative option), 0 within it.
         Mc: available flexural strength about that axis (N*mm): phi_b Mn or Mn/Omega_b (AISC),
             chi_LT M_Rk / gamma_M1 (EN), first-yield moment Fy S (elastic).
         capacity: the largest axial force (N) that satisfies the interaction with the bow;
@@ -107,9 +111,10 @@ class BowResult:
 
 def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_strong: Any,
               Lc_weak: Any, Lc_twist: Any, bow: Any, axis: str = "weak", *, basis: str = "lrfd",
-              gamma_M1: float = 1.0, Pr: Any = None, axial: CodeResult | None = None) -> BowResult:
-    """Axial capacity of columns bowed beyond what the column curve allows for (L/1500 AISC,
-    L/1000 EN), by the code's beam-column interaction.
+              gamma_M1: float = 1.0, Pr: Any = None, axial: CodeResult | None = None,
+              allowance: float | None = None) -> BowResult:
+    """Axial capacity of columns bowed beyond what the column curve allows for (L/1000 by
+    default, L/1500 as the conservative option), by the code's beam-column interaction.
 
     Args:
         code: ``"aisc360-22"``, ``"en1993-1-1"`` or ``"elastic"``.
@@ -125,6 +130,7 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
         Pr: axial demand (N, >= 0) on the same basis, or None.
         axial: the ``CodeResult`` of the same columns under the same code (reused for Pc, chi,
             Pe); computed here when None (EN: without the S460 curves, pass it for S460).
+        allowance: n of the L/n already in the column curve (1000 default, 1500 conservative).
     Returns:
         a ``BowResult``; arrays take the batch shape of the inputs.
     Raises:
@@ -137,7 +143,7 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
         >>> r = check_bow("aisc360-22", s, 345.0, 200000.0, 77200.0, 4877.0, 4877.0, 4877.0, 4877.0,
         ...               [0.0, 28.6])
         >>> [round(float(c) / 1e3) for c in r.capacity]
-        [4346, 3202]
+        [4346, 3252]
     """
     if not isinstance(code, str) or code not in CODES:
         raise InputError("code", code, "unknown code", ", ".join(CODES))
@@ -192,10 +198,15 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
     t.add("L", "member length between supports (bow measured over it)", "", Lm, "mm", "record")
     t.add("bow", f"measured out-of-straightness at mid-height, bending about the {axis} axis", "measured",
           bow_b, "mm", "record")
-    n = TOLERANCE[code]
-    tol = t.add("e_tol", "out-of-straightness already in the column curve", f"L/{n:g}", Lm / n, "mm",
-                "AISC 360-22 Commentary E3 (from memory)" if code == "aisc360-22"
-                else "EN 1993-1-1 column curves (common practice)")
+    n = TOLERANCE[code] if allowance is None else float(allowance)
+    if n not in ALLOWANCES:
+        raise InputError("condition.bow_allowance", f"L/{n:g}", "unknown allowance",
+                         "L/1000 (default) or L/1500 (conservative)")
+    tol = t.add("e_tol", "out-of-straightness already in the column curve"
+                + (" (default: the straightness tolerance)" if n == 1000 else " (conservative option)"),
+                f"L/{n:g}", Lm / n, "mm",
+                "AISC 303 6.4.1 straightness tolerance L/1000 (from memory)" if n == 1000
+                else "AISC 360-22 Commentary E3, crookedness near L/1470 (from memory)")
     e = t.add("e", "excess bow: eccentricity of the axial load at mid-height", f"max(bow - L/{n:g}, 0)",
               np.maximum(bow_b - tol, 0.0), "mm", "common practice")
     warnings: list[Warning] = []

@@ -371,7 +371,7 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
              if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
-        rows.append(("Measured bow", f"{bow.get('axis')} axis, excess "
+        rows.append(("Measured bow", f"{bow.get('axis')} axis, excess over {bow.get('allowance', 'L/1000')} "
                      f"{tx.quantity(bow.get('excess'), system)}; capacity with the bow "
                      f"{tx.quantity(bow.get('capacity'), system)} (axial alone "
                      f"{tx.quantity(d.get('axial_design_strength'), system)})"))

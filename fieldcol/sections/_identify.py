@@ -2,8 +2,12 @@
 
 Each nominal dimension gets a band of rolling tolerance, widened on both sides by the
 measuring gauge's own tolerance; a deviation is expressed as a fraction of its band (negative
-below nominal). A shape is ``within_tolerance`` when every measured dimension lies in its band.
-Ranking: shapes within tolerance first, then by the root-mean-square of the fractions.
+below nominal). A shape is ``within_tolerance`` when every measured dimension lies in its band, the limits
+included (a dimension exactly at the limit fits; a part in 1e9 of the band is allowed for the
+rounding of unit conversions). Ranking: shapes within tolerance first; among them, with a code
+given, the catalogue of that code first (AISC: W, HP, S, M, HSS, Pipe; EN: IPE, HE), because a
+wider band (EN 10034) would otherwise make a foreign shape look the closer fit; then by the
+root-mean-square of the fractions, each of its shape's own band.
 
 Tolerances (mm, per side, minus / plus):
   AISC W, HP, S, M: ASTM A6 as in AISC Manual Table 1-22: depth +-1/8 in; flange width
@@ -41,6 +45,9 @@ _I_DIMS = ("d", "bf", "tf", "tw")
 _RECT_DIMS = ("d", "b", "t")
 _ROUND_DIMS = ("D", "t")
 _COLUMN = {"d": "d", "bf": "bf", "tf": "tf", "tw": "tw", "b": "bf", "t": "t", "D": "d"}
+#: the catalogue families of each code, preferred when both fit
+CODE_FAMILIES = {"aisc360-22": ("W", "HP", "S", "M", "HSS", "PIPE"),
+                 "en1993-1-1": ("IPE", "HEA", "HEB", "HEM")}
 _FAMILY_KIND = {"W": "i", "HP": "i", "S": "i", "M": "i", "IPE": "i", "HEA": "i", "HEB": "i",
                 "HEM": "i", "HSS": "rect|round", "PIPE": "round"}
 
@@ -160,7 +167,8 @@ def _families(family: str | list[str] | tuple[str, ...] | None) -> tuple[str, ..
 def identify(*, d: float | None = None, bf: float | None = None, tf: float | None = None,
              tw: float | None = None, b: float | None = None, t: float | None = None,
              D: float | None = None, gauge: float = 0.0,
-             family: str | list[str] | None = None, limit: int = 10) -> list[Match]:
+             family: str | list[str] | None = None, limit: int = 10,
+             code: str | None = None) -> list[Match]:
     """Rank catalogue sections against measured dimensions (all in mm).
 
     Give ``d, bf, tf, tw`` (any of them) for an I or H shape, ``d, b, t`` for a rectangular
@@ -174,6 +182,8 @@ def identify(*, d: float | None = None, bf: float | None = None, tf: float | Non
         gauge: tolerance of the measuring gauge (mm), added to each band on both sides.
         family: a family name or list of them (``"W"``, ``"HE"``, ``"HSS"``, ...) or None for all.
         limit: how many candidates to return when some are within tolerance.
+        code: the site's code (``"aisc360-22"``, ``"en1993-1-1"``): its catalogue ranks first
+            among the shapes within tolerance; None or ``"elastic"``: no preference.
     Returns:
         Matches best first. When none is within tolerance, the nearest three (at most
         ``limit``), all flagged ``within_tolerance=False``: use the measured section.
@@ -199,6 +209,8 @@ def identify(*, d: float | None = None, bf: float | None = None, tf: float | Non
     if isinstance(limit, bool) or not isinstance(limit, (int, np.integer)) or limit < 1:
         raise InputError("limit", limit, "must be a whole number of at least 1", "e.g. 10")
     fams = _families(family)
+    if code is not None and code not in (*CODE_FAMILIES, "elastic"):
+        raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
 
     i_keys = {"bf", "tf", "tw"} & given.keys()
     if "D" in given:
@@ -244,8 +256,10 @@ def identify(*, d: float | None = None, bf: float | None = None, tf: float | Non
     dev_a = np.array(devs)
     frac_a = np.array(fracs)
     score = np.sqrt(np.mean(frac_a**2, axis=0))
-    within = np.all(np.abs(frac_a) <= 1.0, axis=0)
-    order = np.lexsort((score, ~within))
+    # inclusive limits: 1 + 1e-9 absorbs the rounding of an exact limit typed in other units
+    within = np.all(np.abs(frac_a) <= 1.0 + 1e-9, axis=0)
+    foreign = ~np.isin(cat.family[rows], CODE_FAMILIES.get(code or "", tuple(fams)))
+    order = np.lexsort((score, foreign & within, ~within))
     n = int(limit) if within.any() else min(int(limit), 3)
     out = []
     for j in order[:n]:

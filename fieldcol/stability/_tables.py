@@ -83,8 +83,8 @@ def k_table(bottom: End, top: End, basis: str, field: str) -> float:
     kb, kt = kind(b), kind(t)
     for name, e, k in (("bottom", b, kb), ("top", t, kt)):
         if k == "partial":
-            raise InputError(sub(field, name), e, "a spring end has no table value of K",
-                             "use basis 'analysis'")
+            raise InputError(sub(field, name), _words(e), "a spring end has no table value of K",
+                             "set k_basis to 'analysis' (the stability analysis takes the springs)")
     pair = frozenset([kb, kt])
     if pair not in _K:
         reason, hint = _mechanism(kb, kt)
@@ -273,3 +273,17 @@ def twist_length(L: float, braces_at: Sequence[float], field: str = "restraints.
         pts.append(float(z))
     cuts = np.array(sorted({0.0, L, *pts}))
     return float(np.max(np.diff(cuts)))
+
+
+def _words(e: End) -> str:
+    """A spring end in words, with its stiffnesses in the engine's units.
+
+    Example:
+        >>> from fieldcol.stability import partial_end
+        >>> _words(partial_end(rotation=1e9, translation=float("inf")))
+        'a spring end (rotation 1e+09 N*mm/rad, translation held)'
+    """
+    def one(v: float, unit: str) -> str:
+        return "held" if v == float("inf") else "free" if v == 0 else f"{v:.4g} {unit}"
+
+    return f"a spring end (rotation {one(e.rotation, 'N*mm/rad')}, translation {one(e.translation, 'N/mm')})"

@@ -284,7 +284,8 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
     if gov == "yield":
         return head, "Every buckling length is short enough that the full section yields first."
     if gov == "bow":
-        return head, ("The measured bow beyond the curve's allowance, checked with the axial "
+        allowed = (result.get("bow") or {}).get("allowance") or "L/1000"
+        return head, (f"The measured bow beyond the curve's allowance ({allowed}), checked with the axial "
                       "load as bending, lowers the capacity below the axial check.")
     if gov == "beam-column":
         eq = (result.get("beam_column") or {}).get("equation") or ""

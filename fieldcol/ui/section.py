@@ -82,6 +82,7 @@ class SectionView:
     caution: str = CAUTION
     notes: list[str] = field(default_factory=list)
     plate_joint: tuple[str, str] = ("welded", "")   # cover plates: (connection, pitch as kept)
+    code: str | None = None        # the column's code: its catalogue ranks first among the fits
 
     @property
     def typed(self) -> dict[str, str]:
@@ -304,7 +305,8 @@ def section_view(store: "Store", column_id: str) -> SectionView:
         if isinstance(plates, dict) else None,
         plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes,
         plate_joint=(str(plates.get("connection") or "welded"), str(plates.get("pitch") or ""))
-        if isinstance(plates, dict) else ("welded", ""))
+        if isinstance(plates, dict) else ("welded", ""),
+        code=rec.get("code") if rec.get("code") in ("aisc360-22", "en1993-1-1") else None)
 
 
 # -- matching -------------------------------------------------------------------------------
@@ -355,7 +357,7 @@ def gauge_tolerance(gauge: str | None) -> float:
 
 
 def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: str,
-                 limit: int = 5) -> list[MatchLine]:
+                 limit: int = 5, code: str | None = None) -> list[MatchLine]:
     """Catalogue sections that fit the measured dimensions, best first, each with how far every
     dimension lies from its nominal value, in the site's unit and as a share of its rolling
     tolerance (ASTM A6 / A500 / A53, EN 10034: see ``fieldcol.sections.identify``).
@@ -366,6 +368,7 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
         gauge: the gauge used (widens each band by how closely it reads).
         system: ``us`` or ``si``.
         limit: how many candidates at most.
+        code: the column's code (``aisc360-22``, ``en1993-1-1``): its catalogue first among the fits.
 
     Returns:
         ``MatchLine`` s; when none lies within tolerance, the nearest three, each saying so.
@@ -379,7 +382,7 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
 
     dims = read_dimensions(shape, typed, system)
     found = identify(**{k: mm for k, (_, mm) in dims.items()}, gauge=gauge_tolerance(gauge),
-                     limit=limit)
+                     limit=limit, code=code)
     labels = dict(DIMENSIONS[shape])
     out = []
     for mt in found:

@@ -316,7 +316,8 @@ class SectionTab(Tab):
         shape, typed, gauge = self._current()
         system = "us" if self.view.unit == "in" else "si"
         try:
-            found = await asyncio.to_thread(sx.find_matches, shape, typed, gauge, system)
+            found = await asyncio.to_thread(sx.find_matches, shape, typed, gauge, system, 5,
+                                            self.view.code)
         except InputError as e:
             tf = self._field_for(e)
             self.matches = None
