@@ -12,8 +12,8 @@ from __future__ import annotations
 import sqlite3
 from typing import Any, Callable, Iterable
 
-from fieldcol.store._oplog import (DERIVED, Entry, Op, Schema, _chunks, _dump, _insert_conflicts,
-                                   _key_index, _marks, _resolve, _row_values)
+from fieldcol.store._oplog import (DERIVED, ROW, Entry, Op, Schema, _chunks, _compact_rows, _dump,
+                                   _insert_conflicts, _key_index, _marks, _resolve, _row_values)
 
 
 def _existing(conn: sqlite3.Connection, tbl: str, ids: Iterable[str]) -> set[str]:
@@ -54,6 +54,7 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
     for tbl in (t for t in schema.tables if t in by_tbl):
         cols = [c for c in schema.columns[tbl] if c not in DERIVED]
         required = schema.required[tbl]
+        keys = [u[0] for u in schema.uniques[tbl]]
         ready = []  # (row_id, row, raw texts, sync_fields rows, conflicts)
         for row_id, lst in by_tbl[tbl].items():
             if len(lst) == 1:  # one operation: its values are the row, nothing to weigh
@@ -63,8 +64,12 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
                 if any(row[c] is None for c in required):
                     slow.append((tbl, row_id))
                     continue
-                raw = {f: _dump(v) for f, v in values.items()}
-                frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
+                if op.field == ROW:  # kept compact: one row of winners, keys spelt out
+                    raw = {k: _dump(values[k]) for k in keys if k in values}
+                    frows = _compact_rows(schema, tbl, row_id, op, raw)
+                else:
+                    raw = {f: _dump(v) for f, v in values.items()}
+                    frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
                 ready.append((row_id, row, raw, frows, []))
                 continue
             win, deleted, conflicts = _resolve(entries((tbl, row_id)))

@@ -44,6 +44,10 @@ UNFLAGGED = ("updated_at", "device_id", "created_at")
 BOOK = ("id", "created_at", "updated_at", "device_id", "deleted_at")
 #: the field name of an operation carrying several fields of one row (value: a JSON object)
 ROW = "*"
+#: a ``meta`` key present only inside a merge's own transaction: the triggers that note written
+#: rows stand still while it writes (its rows are the merge's, not edits; noting each reading
+#: cost twice its own insert)
+QUIET = "sync_quiet"
 #: the longest value an operation may carry (a row's fields together)
 MAX_VALUE_CHARS = 4_000_000
 #: an operation stamped further ahead of the receiver's clock than this is refused
@@ -429,6 +433,7 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
         for when in ("INSERT", "UPDATE"):
             conn.execute(
                 f"CREATE TRIGGER IF NOT EXISTS sync_note_{t}_{when.lower()} AFTER {when} ON {t} "
+                f"WHEN NOT EXISTS (SELECT 1 FROM meta WHERE key = '{QUIET}') "
                 f"BEGIN INSERT INTO sync_dirty (tbl, row_id) SELECT '{t}', NEW.id WHERE NOT EXISTS "
                 f"(SELECT 1 FROM sync_dirty WHERE tbl = '{t}' AND row_id = NEW.id); END")
         # (not INSERT OR IGNORE: an upsert's conflict rule would override the trigger's)
@@ -473,6 +478,44 @@ def _marks(part: list[Any]) -> str:
     return ", ".join("?" for _ in part)
 
 
+def _explode(conn: sqlite3.Connection, tbl: str, ids: list[str]) -> None:
+    """Spell out, a field a row, the winners of rows kept compact (see ``_compact_rows``)
+    before anything reads or writes their fields one by one."""
+    for part in _chunks(ids):
+        got = conn.execute(f"SELECT row_id, hlc, op_id, value FROM sync_fields WHERE tbl = ? "
+                           f"AND field = '{ROW}' AND row_id IN ({_marks(part)})",
+                           [tbl, *part]).fetchall()
+        if not got:
+            continue
+        rows = []
+        for rid, hlc, op_id, value in got:
+            for f, v in json.loads(value).items():
+                j = _dump(v)
+                rows.append((tbl, rid, f, hlc, op_id, j, j))
+        # a key field is spelt out already (its shown value may carry a suffix): it stays
+        conn.executemany("INSERT OR IGNORE INTO sync_fields (tbl, row_id, field, hlc, op_id, "
+                         "value, mat) VALUES (?, ?, ?, ?, ?, ?, ?)", rows)
+        conn.executemany(f"DELETE FROM sync_fields WHERE tbl = ? AND row_id = ? AND "
+                         f"field = '{ROW}'", [(tbl, r[0]) for r in got])
+
+
+def _compact_rows(schema: Schema, tbl: str, row_id: str, op: Op,
+                  raw: dict[str, str | None]) -> list[tuple]:
+    """The ``sync_fields`` rows of a row that one row operation wrote whole.
+
+    Why: a row written once and never edited (most of a site) would otherwise keep a winner
+    per field, ten rows for each reading, which was most of a sync's cost. Its winners are
+    that operation for every field it carries, shown as sent, so one row (field ``"*"``, value
+    the operation's JSON object) holds them all; only its unique key fields are spelt out, for
+    the claims index. ``_explode`` spells out the rest before the row is edited or merged again.
+    ``raw``: the JSON text of (at least) its key fields."""
+    out = [(tbl, row_id, ROW, op.hlc, op.op_id, op.value, None)]
+    for key, _scope, _live in schema.uniques[tbl]:
+        if key in raw:
+            out.append((tbl, row_id, key, op.hlc, op.op_id, raw[key], raw[key]))
+    return out
+
+
 def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
           backfill: bool = False) -> int:
     """Turn the rows noted as written into operations (one per row, carrying the fields that
@@ -491,6 +534,8 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         by_tbl.setdefault(tbl, []).append(row_id)
     ops: list[Op] = []
     fields_rows: list[tuple] = []
+    new_rows: list[tuple] = []
+    n_fields = 0
     rows_rows: list[tuple] = []
     settle: list[tuple] = []
     for tbl in (t for t in schema.tables if t in by_tbl):
@@ -501,6 +546,7 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
             for r in cur:
                 row = dict(zip(names, r))
                 now_rows[row["id"]] = row
+            _explode(conn, tbl, part)
             known: dict[str, dict[str, tuple]] = {}
             for rid, f, mat, value in conn.execute(
                     f"SELECT row_id, field, mat, value FROM sync_fields WHERE tbl = ? AND row_id "
@@ -529,9 +575,13 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
                         texts[k] = j
                 if not changed:
                     continue
+                n_fields += len(texts)
                 op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
                 ops.append(op)
-                fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+                if have:
+                    fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+                else:  # a row first written: its one operation is every field's winner
+                    new_rows += _compact_rows(schema, tbl, row_id, op, texts)
                 rows_rows.append((tbl, row_id, at))
                 for key, scope, live in schema.uniques[tbl]:
                     if set(changed) & {key, "deleted_at", *scope}:
@@ -544,6 +594,9 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
         "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
         fields_rows)
+    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
     conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
                      "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
                      "excluded.max_hlc)", rows_rows)
@@ -551,7 +604,7 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         _settle_key(conn, *args)
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     conn.execute("DELETE FROM sync_dirty")
-    return len(fields_rows)
+    return n_fields
 
 
 def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:
@@ -642,6 +695,16 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
                              f"an operation from device {latest.device_id} is stamped ahead of "
                              "this clock", "check the clock of that device, then sync again")
     flush(conn, _local_device(conn), schema)  # local edits first: what follows is not ours
+    conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')", [QUIET])
+    try:
+        return _merge(conn, ops, decoded, schema, source)
+    finally:
+        conn.execute("DELETE FROM meta WHERE key = ?", [QUIET])
+
+
+def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str, Any]],
+           schema: Schema, source: str) -> ApplyResult:
+    """``apply`` once local edits are logged, with the triggers standing still."""
     new = _store_ops(conn, ops, source)
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
@@ -654,6 +717,8 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         return [e for o, values in by_ops[key] for e in _entries(o, values)]
 
     by_row = {k: entries(k) for k in by_ops if k in known}
+    for t, ids in _by_table(by_row).items():
+        _explode(conn, t, ids)
     current = _current_fields(conn, list(by_row))
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
