@@ -58,6 +58,7 @@ _FILE_FIELDS = {
     ("photos", "thumb_path"): re.compile(r"thumbs/[0-9a-f]{2}/[0-9a-f]{64}\.jpg"),
     ("photos", "sha256"): re.compile(r"[0-9a-f]{64}"),
 }
+_FILE_TABLES = frozenset(t for t, _ in _FILE_FIELDS)
 
 M003_SQL = """
 CREATE TABLE sync_ops (
@@ -146,6 +147,20 @@ class Op:
                 "tbl": self.tbl, "row_id": self.row_id, "field": self.field,
                 "value": self.value, "seen": self.seen}
 
+    def to_json_text(self) -> str:
+        """``to_json()`` as compact JSON text, written without the general encoder (a sync
+        writes every operation twice: device to hub, hub to device).
+
+        Example:
+            >>> json.loads(Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json_text())["value"]
+            '"A"'
+        """
+        e = _encode_ascii
+        value = "null" if self.value is None else e(self.value)
+        return (f'{{"op_id":{e(self.op_id)},"device_id":{e(self.device_id)},'
+                f'"hlc":{int(self.hlc)},"tbl":{e(self.tbl)},"row_id":{e(self.row_id)},'
+                f'"field":{e(self.field)},"value":{value},"seen":{int(self.seen)}}}')
+
     def fields(self) -> dict[str, str | None]:
         """Field -> JSON text of the value it sets (None: SQL NULL), for both shapes.
 
@@ -166,6 +181,9 @@ class Op:
             ...               "row_id": "r", "field": "name", "value": '"A"', "seen": 0}).hlc
             5
         """
+        fast = _fast_op(obj)
+        if fast is not None:
+            return fast
         if not isinstance(obj, dict):
             raise InputError(where, repr(obj)[:40], "an operation is a JSON object", None)
         out: dict[str, Any] = {}
@@ -209,6 +227,49 @@ class Op:
         out["value"] = val
         return Op(**out, decoded=values)
 
+
+def ops_from_json(objs: list[Any], where: str = "ops") -> list[Op]:
+    """``Op.from_json`` of each item, named ``where[i]`` when one is refused.
+
+    Example:
+        >>> ops_from_json([Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json()])[0].tbl
+        'sites'
+    """
+    out = []
+    for obj in objs:
+        op = _fast_op(obj)
+        out.append(op if op is not None else Op.from_json(obj, f"{where}[{len(out)}]"))
+    return out
+
+
+def _fast_op(obj: Any) -> Op | None:
+    """A row operation built when every check passes at once (the usual case), else None:
+    ``Op.from_json`` then checks it again step by step and names what is wrong."""
+    if type(obj) is not dict:
+        return None
+    g = obj.get
+    op_id, dev, tbl, rid, fld = g("op_id"), g("device_id"), g("tbl"), g("row_id"), g("field")
+    hlc, seen, val = g("hlc"), g("seen"), g("value")
+    if not (type(op_id) is str and type(dev) is str and type(tbl) is str and type(rid) is str
+            and fld == ROW and type(val) is str and type(hlc) is int and type(seen) is int
+            and 0 < len(op_id) <= 200 and 0 < len(dev) <= 200 and 0 < len(tbl) <= 200
+            and 0 < len(rid) <= 200 and 0 <= hlc < _CLOCK_END and 0 <= seen < _CLOCK_END
+            and len(val) <= MAX_VALUE_CHARS):
+        return None
+    try:
+        decoded, end = _raw_decode(val)
+    except ValueError:
+        return None
+    if end != len(val) or type(decoded) is not dict or not decoded or not (
+            _SCALARS.issuperset(map(type, decoded.values()))
+            and 0 < min(map(len, decoded)) and max(map(len, decoded)) <= 200):
+        return None
+    return Op(op_id, dev, hlc, tbl, rid, fld, val, seen, decoded)
+
+
+_CLOCK_END = 2 ** 62
+_raw_decode = json.JSONDecoder().raw_decode
+_encode_ascii = json.encoder.encode_basestring_ascii  # type: ignore[attr-defined]
 
 #: the kinds of value a field holds (bool: a JSON true or false, read as before)
 _SCALARS = frozenset({type(None), str, int, float, bool})
@@ -333,6 +394,7 @@ class Schema:
             self.fks[t] = [(r[3], r[2]) for r in conn.execute(f"PRAGMA foreign_key_list({t})")]
             self.uniques[t] = self._uniques(conn, t, info)
         self.tables = self._ordered()
+        self._settable = {t: frozenset(c) - frozenset(DERIVED) for t, c in self.columns.items()}
 
     @staticmethod
     def _uniques(conn: sqlite3.Connection, t: str,
@@ -380,6 +442,9 @@ class Schema:
         if op.tbl not in self.columns:
             raise InputError(f"{where}.tbl", op.tbl, "not a synced table of this store",
                              "update fieldcol if the other device is newer")
+        if op.decoded is not None and op.field == ROW and op.tbl not in _FILE_TABLES and \
+                self._settable[op.tbl].issuperset(op.decoded):
+            return op.decoded  # every field known, none naming a file: nothing more to check
         if op.decoded is not None:
             values = op.decoded
             at = f"{where}.value" if op.field == ROW else f"{where}.field"
@@ -482,8 +547,9 @@ def _explode(conn: sqlite3.Connection, tbl: str, ids: list[str]) -> None:
     """Spell out, a field a row, the winners of rows kept compact (see ``_compact_rows``)
     before anything reads or writes their fields one by one."""
     for part in _chunks(ids):
-        got = conn.execute(f"SELECT row_id, hlc, op_id, value FROM sync_fields WHERE tbl = ? "
-                           f"AND field = '{ROW}' AND row_id IN ({_marks(part)})",
+        got = conn.execute(f"SELECT f.row_id, f.hlc, f.op_id, o.value FROM sync_fields f "
+                           f"JOIN sync_ops o ON o.op_id = f.op_id WHERE f.tbl = ? AND "
+                           f"f.field = '{ROW}' AND f.row_id IN ({_marks(part)})",
                            [tbl, *part]).fetchall()
         if not got:
             continue
@@ -505,11 +571,11 @@ def _compact_rows(schema: Schema, tbl: str, row_id: str, op: Op,
 
     Why: a row written once and never edited (most of a site) would otherwise keep a winner
     per field, ten rows for each reading, which was most of a sync's cost. Its winners are
-    that operation for every field it carries, shown as sent, so one row (field ``"*"``, value
-    the operation's JSON object) holds them all; only its unique key fields are spelt out, for
-    the claims index. ``_explode`` spells out the rest before the row is edited or merged again.
-    ``raw``: the JSON text of (at least) its key fields."""
-    out = [(tbl, row_id, ROW, op.hlc, op.op_id, op.value, None)]
+    that operation for every field it carries, shown as sent, so one row (field ``"*"``, no
+    value: the operation in ``sync_ops`` holds them) stands for them all; only its unique key
+    fields are spelt out, for the claims index. ``_explode`` spells out the rest before the
+    row is edited or merged again. ``raw``: the JSON text of (at least) its key fields."""
+    out = [(tbl, row_id, ROW, op.hlc, op.op_id, None, None)]
     for key, _scope, _live in schema.uniques[tbl]:
         if key in raw:
             out.append((tbl, row_id, key, op.hlc, op.op_id, raw[key], raw[key]))

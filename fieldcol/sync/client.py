@@ -10,6 +10,7 @@ repeats it harmlessly (operations are taken by id, photos by content hash).
 from __future__ import annotations
 
 import hashlib
+import json
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -18,7 +19,7 @@ import httpx
 from fieldcol.errors import InputError
 from fieldcol.store import Store
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, Op, wall_ms
+from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, ops_from_json, wall_ms
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -177,9 +178,10 @@ def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
         for sha, name in needed_photos(ops).items():  # photos before the rows naming them
             if _upload(store, hub, sha):
                 report.photos_sent += 1
-        hub.call("POST", "/v1/push", json={"device": store.device_id,
-                                           "schema": list(MIGRATION_NAMES),
-                                           "ops": [o.to_json() for o in ops]})
+        head = json.dumps({"device": store.device_id, "schema": list(MIGRATION_NAMES)})
+        body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
+        hub.call("POST", "/v1/push", content=body.encode(),
+                 headers={"Content-Type": "application/json"})
         store.set_cursor(cursor, batch[-1][0])  # only after the acknowledgement
         report.sent += len(ops)
         done += len(ops)
@@ -216,7 +218,7 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
         rows = body["ops"]
         if not rows:
             break
-        ops = [Op.from_json(o, f"pull.ops[{i}]") for i, (_, o) in enumerate(rows)]
+        ops = ops_from_json([o for _, o in rows], "pull.ops")
         for sha, name in needed_photos(ops).items():  # files before the rows naming them
             if not have_photo(store, sha, name):
                 if _download(store, hub, sha):
