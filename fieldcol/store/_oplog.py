@@ -691,15 +691,25 @@ def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) ->
                                           c[7]) for c in _resolve(ops)[2]])
 
 
+def held_op_ids(conn: sqlite3.Connection, op_ids: list[str]) -> set[str]:
+    """Which of these operation ids ``sync_ops`` holds.
+
+    Example:
+        >>> held_op_ids(store.db.conn, ["no-such"])
+        set()
+    """
+    held: set[str] = set()
+    for part in _chunks(op_ids):
+        held.update(r[0] for r in conn.execute(
+            f"SELECT op_id FROM sync_ops WHERE op_id IN ({_marks(part)})", part))
+    return held
+
+
 def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str, *,
                all_new: bool = False) -> list[Op]:
     """Insert operations, skipping ids already held (or repeated); returns those that were new.
     ``all_new``: ids made here just now (nothing to look up)."""
-    held: set[str] = set()
-    if not all_new:
-        for part in _chunks(list({o.op_id for o in ops})):
-            held.update(r[0] for r in conn.execute(
-                f"SELECT op_id FROM sync_ops WHERE op_id IN ({_marks(part)})", part))
+    held = set() if all_new else held_op_ids(conn, list({o.op_id for o in ops}))
     new = []
     for o in ops:
         if o.op_id not in held:

@@ -218,7 +218,14 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
         rows = body["ops"]
         if not rows:
             break
-        ops = ops_from_json([o for _, o in rows], "pull.ops")
+        objs = [o for _, o in rows]
+        # this device's own operations come back too: skip those held before decoding them
+        # (photo rows still go through the photo check below, as they always did)
+        ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
+        held = store.held_ops(i for i in ids if isinstance(i, str))
+        objs = [o for o, i in zip(objs, ids)
+                if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
+        ops = ops_from_json(objs, "pull.ops")
         for sha, name in needed_photos(ops).items():  # files before the rows naming them
             if not have_photo(store, sha, name):
                 if _download(store, hub, sha):
