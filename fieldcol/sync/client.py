@@ -75,7 +75,9 @@ class _Hub:
     def close(self) -> None:
         self.http.close()
 
-    def call(self, method: str, path: str, **kw: Any) -> httpx.Response:
+    def call(self, method: str, path: str, *, absent_ok: bool = False,
+             **kw: Any) -> httpx.Response:
+        """One request; ``absent_ok``: a 404 is returned, not raised."""
         import time
 
         for wait in (*RETRY_503_S, None):
@@ -91,6 +93,8 @@ class _Hub:
         if r.status_code == 503:
             raise InputError("hub", self.url, "the hub cannot reach its database just now",
                              "sync again in a few minutes; what was sent stays sent")
+        if r.status_code == 404 and absent_ok:
+            return r
         if r.status_code == 401:
             raise InputError("token", "****", "the hub refused this token (wrong or revoked)",
                              "ask the office for a new one: fieldcol hub add-device")
@@ -241,12 +245,16 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
 
 
 def _download(store: Store, hub: _Hub, sha: str) -> bool:
-    if not hub.call("GET", f"/v1/photos/{sha}/status").json()["have"]:
-        return False
     data = bytearray()
     digest = hashlib.sha256()  # hashed as it arrives: each piece once
     while True:
-        r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)})
+        # no status call first: the hub answers 404 for a photo it does not hold
+        r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)}, absent_ok=True)
+        if r.status_code == 404:
+            if data:  # gone between two pieces (it never should): take nothing
+                raise InputError("photo", sha[:12], "the hub stopped serving this photo "
+                                 "half way", "sync again")
+            return False
         if not r.content:
             break
         data += r.content
