@@ -63,7 +63,7 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
                 op, values = lst[0]
                 row = {**blank, **values}  # (Schema.check let only this table's fields in)
                 row["id"] = row_id
-                if any(row[c] is None for c in required):
+                if None in map(row.__getitem__, required):
                     slow.append((tbl, row_id))
                     continue
                 if op.field == ROW:  # kept compact: one row of winners, keys spelt out
