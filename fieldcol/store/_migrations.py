@@ -68,6 +68,18 @@ def _m007_visits(db: Database) -> None:
     _each(db, V6_SQL)
 
 
+@migrations(name="m008_compact_winners")
+def _m008_compact_winners(db: Database) -> None:
+    # From here a row written whole by one operation keeps its winners in one sync_fields row
+    # (field "*", see _oplog._compact_rows), which an older fieldcol would read as no winners
+    # at all: this step makes it refuse the store. Rows already held stay spelt out (valid).
+    # The triggers that note written rows now stand still during a merge (_oplog.QUIET):
+    # dropped here, _oplog.install makes them again after the step.
+    for (name,) in db.execute("SELECT name FROM sqlite_master WHERE type = 'trigger' AND "
+                              "name LIKE 'sync_note_%'").fetchall():
+        db.execute(f"DROP TRIGGER {name}")
+
+
 #: names in order; the schema version is the count applied
 MIGRATION_NAMES: tuple[str, ...] = tuple(m.name for m in migrations.pending(Database(memory=True)))
 SCHEMA_VERSION = len(MIGRATION_NAMES)

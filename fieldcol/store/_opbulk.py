@@ -10,10 +10,11 @@ the same merge slowly. Both give the same rows, fields and conflicts.
 from __future__ import annotations
 
 import sqlite3
+from operator import itemgetter
 from typing import Any, Callable, Iterable
 
-from fieldcol.store._oplog import (DERIVED, Entry, Op, Schema, _chunks, _dump, _insert_conflicts,
-                                   _key_index, _marks, _resolve, _row_values)
+from fieldcol.store._oplog import (DERIVED, ROW, Entry, Op, Schema, _chunks, _compact_rows, _dump,
+                                   _insert_conflicts, _key_index, _marks, _resolve, _row_values)
 
 
 def _existing(conn: sqlite3.Connection, tbl: str, ids: Iterable[str]) -> set[str]:
@@ -54,17 +55,23 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
     for tbl in (t for t in schema.tables if t in by_tbl):
         cols = [c for c in schema.columns[tbl] if c not in DERIVED]
         required = schema.required[tbl]
+        keys = [u[0] for u in schema.uniques[tbl]]
+        blank = dict.fromkeys(cols)
         ready = []  # (row_id, row, raw texts, sync_fields rows, conflicts)
         for row_id, lst in by_tbl[tbl].items():
             if len(lst) == 1:  # one operation: its values are the row, nothing to weigh
                 op, values = lst[0]
-                row = {c: values.get(c) for c in cols}
+                row = {**blank, **values}  # (Schema.check let only this table's fields in)
                 row["id"] = row_id
-                if any(row[c] is None for c in required):
+                if None in map(row.__getitem__, required):
                     slow.append((tbl, row_id))
                     continue
-                raw = {f: _dump(v) for f, v in values.items()}
-                frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
+                if op.field == ROW:  # kept compact: one row of winners, keys spelt out
+                    raw = {k: _dump(values[k]) for k in keys if k in values}
+                    frows = _compact_rows(schema, tbl, row_id, op, raw)
+                else:
+                    raw = {f: _dump(v) for f, v in values.items()}
+                    frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
                 ready.append((row_id, row, raw, frows, []))
                 continue
             win, deleted, conflicts = _resolve(entries((tbl, row_id)))
@@ -97,8 +104,9 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
         names = ["id", *cols]
         conn.execute("SAVEPOINT sync_bulk")
         try:
+            take = itemgetter(*names)
             conn.executemany(f"INSERT INTO {tbl} ({', '.join(names)}) VALUES "
-                             f"({_marks(names)})", [[x[1][c] for c in names] for x in ready])
+                             f"({_marks(names)})", [take(x[1]) for x in ready])
         except sqlite3.IntegrityError:  # e.g. a key shown suffixed elsewhere: look closer
             conn.execute("ROLLBACK TO sync_bulk")
             conn.execute("RELEASE sync_bulk")

@@ -44,6 +44,10 @@ UNFLAGGED = ("updated_at", "device_id", "created_at")
 BOOK = ("id", "created_at", "updated_at", "device_id", "deleted_at")
 #: the field name of an operation carrying several fields of one row (value: a JSON object)
 ROW = "*"
+#: a ``meta`` key present only inside a merge's own transaction: the triggers that note written
+#: rows stand still while it writes (its rows are the merge's, not edits; noting each reading
+#: cost twice its own insert)
+QUIET = "sync_quiet"
 #: the longest value an operation may carry (a row's fields together)
 MAX_VALUE_CHARS = 4_000_000
 #: an operation stamped further ahead of the receiver's clock than this is refused
@@ -54,6 +58,7 @@ _FILE_FIELDS = {
     ("photos", "thumb_path"): re.compile(r"thumbs/[0-9a-f]{2}/[0-9a-f]{64}\.jpg"),
     ("photos", "sha256"): re.compile(r"[0-9a-f]{64}"),
 }
+_FILE_TABLES = frozenset(t for t, _ in _FILE_FIELDS)
 
 M003_SQL = """
 CREATE TABLE sync_ops (
@@ -142,6 +147,20 @@ class Op:
                 "tbl": self.tbl, "row_id": self.row_id, "field": self.field,
                 "value": self.value, "seen": self.seen}
 
+    def to_json_text(self) -> str:
+        """``to_json()`` as compact JSON text, written without the general encoder (a sync
+        writes every operation twice: device to hub, hub to device).
+
+        Example:
+            >>> json.loads(Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json_text())["value"]
+            '"A"'
+        """
+        e = _encode_ascii
+        value = "null" if self.value is None else e(self.value)
+        return (f'{{"op_id":{e(self.op_id)},"device_id":{e(self.device_id)},'
+                f'"hlc":{int(self.hlc)},"tbl":{e(self.tbl)},"row_id":{e(self.row_id)},'
+                f'"field":{e(self.field)},"value":{value},"seen":{int(self.seen)}}}')
+
     def fields(self) -> dict[str, str | None]:
         """Field -> JSON text of the value it sets (None: SQL NULL), for both shapes.
 
@@ -162,6 +181,9 @@ class Op:
             ...               "row_id": "r", "field": "name", "value": '"A"', "seen": 0}).hlc
             5
         """
+        fast = _fast_op(obj)
+        if fast is not None:
+            return fast
         if not isinstance(obj, dict):
             raise InputError(where, repr(obj)[:40], "an operation is a JSON object", None)
         out: dict[str, Any] = {}
@@ -205,6 +227,49 @@ class Op:
         out["value"] = val
         return Op(**out, decoded=values)
 
+
+def ops_from_json(objs: list[Any], where: str = "ops") -> list[Op]:
+    """``Op.from_json`` of each item, named ``where[i]`` when one is refused.
+
+    Example:
+        >>> ops_from_json([Op("o", "d", 5, "sites", "r", "name", '"A"', 0).to_json()])[0].tbl
+        'sites'
+    """
+    out = []
+    for obj in objs:
+        op = _fast_op(obj)
+        out.append(op if op is not None else Op.from_json(obj, f"{where}[{len(out)}]"))
+    return out
+
+
+def _fast_op(obj: Any) -> Op | None:
+    """A row operation built when every check passes at once (the usual case), else None:
+    ``Op.from_json`` then checks it again step by step and names what is wrong."""
+    if type(obj) is not dict:
+        return None
+    g = obj.get
+    op_id, dev, tbl, rid, fld = g("op_id"), g("device_id"), g("tbl"), g("row_id"), g("field")
+    hlc, seen, val = g("hlc"), g("seen"), g("value")
+    if not (type(op_id) is str and type(dev) is str and type(tbl) is str and type(rid) is str
+            and fld == ROW and type(val) is str and type(hlc) is int and type(seen) is int
+            and 0 < len(op_id) <= 200 and 0 < len(dev) <= 200 and 0 < len(tbl) <= 200
+            and 0 < len(rid) <= 200 and 0 <= hlc < _CLOCK_END and 0 <= seen < _CLOCK_END
+            and len(val) <= MAX_VALUE_CHARS):
+        return None
+    try:
+        decoded, end = _raw_decode(val)
+    except ValueError:
+        return None
+    if end != len(val) or type(decoded) is not dict or not decoded or not (
+            _SCALARS.issuperset(map(type, decoded.values()))
+            and 0 < min(map(len, decoded)) and max(map(len, decoded)) <= 200):
+        return None
+    return Op(op_id, dev, hlc, tbl, rid, fld, val, seen, decoded)
+
+
+_CLOCK_END = 2 ** 62
+_raw_decode = json.JSONDecoder().raw_decode
+_encode_ascii = json.encoder.encode_basestring_ascii  # type: ignore[attr-defined]
 
 #: the kinds of value a field holds (bool: a JSON true or false, read as before)
 _SCALARS = frozenset({type(None), str, int, float, bool})
@@ -329,6 +394,7 @@ class Schema:
             self.fks[t] = [(r[3], r[2]) for r in conn.execute(f"PRAGMA foreign_key_list({t})")]
             self.uniques[t] = self._uniques(conn, t, info)
         self.tables = self._ordered()
+        self._settable = {t: frozenset(c) - frozenset(DERIVED) for t, c in self.columns.items()}
 
     @staticmethod
     def _uniques(conn: sqlite3.Connection, t: str,
@@ -376,6 +442,9 @@ class Schema:
         if op.tbl not in self.columns:
             raise InputError(f"{where}.tbl", op.tbl, "not a synced table of this store",
                              "update fieldcol if the other device is newer")
+        if op.decoded is not None and op.field == ROW and op.tbl not in _FILE_TABLES and \
+                self._settable[op.tbl].issuperset(op.decoded):
+            return op.decoded  # every field known, none naming a file: nothing more to check
         if op.decoded is not None:
             values = op.decoded
             at = f"{where}.value" if op.field == ROW else f"{where}.field"
@@ -429,6 +498,7 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
         for when in ("INSERT", "UPDATE"):
             conn.execute(
                 f"CREATE TRIGGER IF NOT EXISTS sync_note_{t}_{when.lower()} AFTER {when} ON {t} "
+                f"WHEN NOT EXISTS (SELECT 1 FROM meta WHERE key = '{QUIET}') "
                 f"BEGIN INSERT INTO sync_dirty (tbl, row_id) SELECT '{t}', NEW.id WHERE NOT EXISTS "
                 f"(SELECT 1 FROM sync_dirty WHERE tbl = '{t}' AND row_id = NEW.id); END")
         # (not INSERT OR IGNORE: an upsert's conflict rule would override the trigger's)
@@ -473,6 +543,45 @@ def _marks(part: list[Any]) -> str:
     return ", ".join("?" for _ in part)
 
 
+def _explode(conn: sqlite3.Connection, tbl: str, ids: list[str]) -> None:
+    """Spell out, a field a row, the winners of rows kept compact (see ``_compact_rows``)
+    before anything reads or writes their fields one by one."""
+    for part in _chunks(ids):
+        got = conn.execute(f"SELECT f.row_id, f.hlc, f.op_id, o.value FROM sync_fields f "
+                           f"JOIN sync_ops o ON o.op_id = f.op_id WHERE f.tbl = ? AND "
+                           f"f.field = '{ROW}' AND f.row_id IN ({_marks(part)})",
+                           [tbl, *part]).fetchall()
+        if not got:
+            continue
+        rows = []
+        for rid, hlc, op_id, value in got:
+            for f, v in json.loads(value).items():
+                j = _dump(v)
+                rows.append((tbl, rid, f, hlc, op_id, j, j))
+        # a key field is spelt out already (its shown value may carry a suffix): it stays
+        conn.executemany("INSERT OR IGNORE INTO sync_fields (tbl, row_id, field, hlc, op_id, "
+                         "value, mat) VALUES (?, ?, ?, ?, ?, ?, ?)", rows)
+        conn.executemany(f"DELETE FROM sync_fields WHERE tbl = ? AND row_id = ? AND "
+                         f"field = '{ROW}'", [(tbl, r[0]) for r in got])
+
+
+def _compact_rows(schema: Schema, tbl: str, row_id: str, op: Op,
+                  raw: dict[str, str | None]) -> list[tuple]:
+    """The ``sync_fields`` rows of a row that one row operation wrote whole.
+
+    Why: a row written once and never edited (most of a site) would otherwise keep a winner
+    per field, ten rows for each reading, which was most of a sync's cost. Its winners are
+    that operation for every field it carries, shown as sent, so one row (field ``"*"``, no
+    value: the operation in ``sync_ops`` holds them) stands for them all; only its unique key
+    fields are spelt out, for the claims index. ``_explode`` spells out the rest before the
+    row is edited or merged again. ``raw``: the JSON text of (at least) its key fields."""
+    out = [(tbl, row_id, ROW, op.hlc, op.op_id, None, None)]
+    for key, _scope, _live in schema.uniques[tbl]:
+        if key in raw:
+            out.append((tbl, row_id, key, op.hlc, op.op_id, raw[key], raw[key]))
+    return out
+
+
 def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
           backfill: bool = False) -> int:
     """Turn the rows noted as written into operations (one per row, carrying the fields that
@@ -491,6 +600,8 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         by_tbl.setdefault(tbl, []).append(row_id)
     ops: list[Op] = []
     fields_rows: list[tuple] = []
+    new_rows: list[tuple] = []
+    n_fields = 0
     rows_rows: list[tuple] = []
     settle: list[tuple] = []
     for tbl in (t for t in schema.tables if t in by_tbl):
@@ -501,6 +612,7 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
             for r in cur:
                 row = dict(zip(names, r))
                 now_rows[row["id"]] = row
+            _explode(conn, tbl, part)
             known: dict[str, dict[str, tuple]] = {}
             for rid, f, mat, value in conn.execute(
                     f"SELECT row_id, field, mat, value FROM sync_fields WHERE tbl = ? AND row_id "
@@ -529,9 +641,13 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
                         texts[k] = j
                 if not changed:
                     continue
+                n_fields += len(texts)
                 op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
                 ops.append(op)
-                fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+                if have:
+                    fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+                else:  # a row first written: its one operation is every field's winner
+                    new_rows += _compact_rows(schema, tbl, row_id, op, texts)
                 rows_rows.append((tbl, row_id, at))
                 for key, scope, live in schema.uniques[tbl]:
                     if set(changed) & {key, "deleted_at", *scope}:
@@ -544,6 +660,9 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
         "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
         fields_rows)
+    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
     conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
                      "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
                      "excluded.max_hlc)", rows_rows)
@@ -551,7 +670,7 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
         _settle_key(conn, *args)
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     conn.execute("DELETE FROM sync_dirty")
-    return len(fields_rows)
+    return n_fields
 
 
 def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:
@@ -572,15 +691,25 @@ def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) ->
                                           c[7]) for c in _resolve(ops)[2]])
 
 
+def held_op_ids(conn: sqlite3.Connection, op_ids: list[str]) -> set[str]:
+    """Which of these operation ids ``sync_ops`` holds.
+
+    Example:
+        >>> held_op_ids(store.db.conn, ["no-such"])
+        set()
+    """
+    held: set[str] = set()
+    for part in _chunks(op_ids):
+        held.update(r[0] for r in conn.execute(
+            f"SELECT op_id FROM sync_ops WHERE op_id IN ({_marks(part)})", part))
+    return held
+
+
 def _store_ops(conn: sqlite3.Connection, ops: list[Op], source: str, *,
                all_new: bool = False) -> list[Op]:
     """Insert operations, skipping ids already held (or repeated); returns those that were new.
     ``all_new``: ids made here just now (nothing to look up)."""
-    held: set[str] = set()
-    if not all_new:
-        for part in _chunks(list({o.op_id for o in ops})):
-            held.update(r[0] for r in conn.execute(
-                f"SELECT op_id FROM sync_ops WHERE op_id IN ({_marks(part)})", part))
+    held = set() if all_new else held_op_ids(conn, list({o.op_id for o in ops}))
     new = []
     for o in ops:
         if o.op_id not in held:
@@ -642,6 +771,16 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
                              f"an operation from device {latest.device_id} is stamped ahead of "
                              "this clock", "check the clock of that device, then sync again")
     flush(conn, _local_device(conn), schema)  # local edits first: what follows is not ours
+    conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')", [QUIET])
+    try:
+        return _merge(conn, ops, decoded, schema, source)
+    finally:
+        conn.execute("DELETE FROM meta WHERE key = ?", [QUIET])
+
+
+def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str, Any]],
+           schema: Schema, source: str) -> ApplyResult:
+    """``apply`` once local edits are logged, with the triggers standing still."""
     new = _store_ops(conn, ops, source)
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
@@ -654,6 +793,8 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         return [e for o, values in by_ops[key] for e in _entries(o, values)]
 
     by_row = {k: entries(k) for k in by_ops if k in known}
+    for t, ids in _by_table(by_row).items():
+        _explode(conn, t, ids)
     current = _current_fields(conn, list(by_row))
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}

@@ -64,6 +64,18 @@ class SyncMixin(StoreBase):
         with self._lock:
             return _oplog.ops_after(self.db.conn, seq, limit, exclude_source=exclude_source)
 
+    def held_ops(self, op_ids: Iterable[str]) -> set[str]:
+        """Which of these operation ids are logged here already.
+
+        Example:
+            >>> first = store.ops_after(0, 1)[0].op_id
+            >>> store.held_ops([first, "no-such"]) == {first}
+            True
+        """
+        ids = [i for i in dict.fromkeys(op_ids) if isinstance(i, str)]
+        with self._lock:
+            return _oplog.held_op_ids(self.db.conn, ids)
+
     def last_op_seq(self) -> int:
         """The local sequence number of the newest operation (0 when none).
 

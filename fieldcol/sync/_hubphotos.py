@@ -84,15 +84,18 @@ class HubPhotos:
                                  f"continue from {got}")
             if got + len(data) > total:
                 raise InputError("total", str(total), "more bytes than the photo has", None)
-            with open(part, "ab") as fh:
-                fh.write(data)
-                fh.flush()
-                os.fsync(fh.fileno())
-            got += len(data)
-            if got < total:
-                return False, got
-            blob = part.read_bytes()
-            part.unlink()
+            if got == 0 and len(data) == total:
+                blob = data  # whole in one piece: nothing to resume, so no partial file
+            else:
+                with open(part, "ab") as fh:
+                    fh.write(data)
+                    fh.flush()
+                    os.fsync(fh.fileno())
+                got += len(data)
+                if got < total:
+                    return False, got
+                blob = part.read_bytes()
+                part.unlink()
             if hashlib.sha256(blob).hexdigest() != sha:  # a mismatch drops the upload
                 raise InputError("photo", sha[:12], "the bytes do not match their hash",
                                  "send the photo again")

@@ -10,6 +10,7 @@ repeats it harmlessly (operations are taken by id, photos by content hash).
 from __future__ import annotations
 
 import hashlib
+import json
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -18,7 +19,7 @@ import httpx
 from fieldcol.errors import InputError
 from fieldcol.store import Store
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, Op, wall_ms
+from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, ops_from_json, wall_ms
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -74,7 +75,9 @@ class _Hub:
     def close(self) -> None:
         self.http.close()
 
-    def call(self, method: str, path: str, **kw: Any) -> httpx.Response:
+    def call(self, method: str, path: str, *, absent_ok: bool = False,
+             **kw: Any) -> httpx.Response:
+        """One request; ``absent_ok``: a 404 is returned, not raised."""
         import time
 
         for wait in (*RETRY_503_S, None):
@@ -90,6 +93,8 @@ class _Hub:
         if r.status_code == 503:
             raise InputError("hub", self.url, "the hub cannot reach its database just now",
                              "sync again in a few minutes; what was sent stays sent")
+        if r.status_code == 404 and absent_ok:
+            return r
         if r.status_code == 401:
             raise InputError("token", "****", "the hub refused this token (wrong or revoked)",
                              "ask the office for a new one: fieldcol hub add-device")
@@ -177,9 +182,10 @@ def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
         for sha, name in needed_photos(ops).items():  # photos before the rows naming them
             if _upload(store, hub, sha):
                 report.photos_sent += 1
-        hub.call("POST", "/v1/push", json={"device": store.device_id,
-                                           "schema": list(MIGRATION_NAMES),
-                                           "ops": [o.to_json() for o in ops]})
+        head = json.dumps({"device": store.device_id, "schema": list(MIGRATION_NAMES)})
+        body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
+        hub.call("POST", "/v1/push", content=body.encode(),
+                 headers={"Content-Type": "application/json"})
         store.set_cursor(cursor, batch[-1][0])  # only after the acknowledgement
         report.sent += len(ops)
         done += len(ops)
@@ -216,7 +222,14 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
         rows = body["ops"]
         if not rows:
             break
-        ops = [Op.from_json(o, f"pull.ops[{i}]") for i, (_, o) in enumerate(rows)]
+        objs = [o for _, o in rows]
+        # this device's own operations come back too: skip those held before decoding them
+        # (photo rows still go through the photo check below, as they always did)
+        ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
+        held = store.held_ops(i for i in ids if isinstance(i, str))
+        objs = [o for o, i in zip(objs, ids)
+                if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
+        ops = ops_from_json(objs, "pull.ops")
         for sha, name in needed_photos(ops).items():  # files before the rows naming them
             if not have_photo(store, sha, name):
                 if _download(store, hub, sha):
@@ -232,12 +245,16 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
 
 
 def _download(store: Store, hub: _Hub, sha: str) -> bool:
-    if not hub.call("GET", f"/v1/photos/{sha}/status").json()["have"]:
-        return False
     data = bytearray()
     digest = hashlib.sha256()  # hashed as it arrives: each piece once
     while True:
-        r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)})
+        # no status call first: the hub answers 404 for a photo it does not hold
+        r = hub.call("GET", f"/v1/photos/{sha}", params={"offset": len(data)}, absent_ok=True)
+        if r.status_code == 404:
+            if data:  # gone between two pieces (it never should): take nothing
+                raise InputError("photo", sha[:12], "the hub stopped serving this photo "
+                                 "half way", "sync again")
+            return False
         if not r.content:
             break
         data += r.content
