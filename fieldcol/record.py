@@ -10,7 +10,8 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass, field
-from typing import Any, Mapping
+from collections.abc import Mapping
+from typing import Any
 
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import (BRACE_KINDS, KEYS, LOAD_TYPES, _material_keys, _section_keys,
