@@ -498,7 +498,8 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
                 break
             after = part[-1]
             count += _flush_part(conn, device_id, schema, tbl, part, hlc, backfill, settle)
-    _settle_keys(conn, settle)
+    for args in settle:  # in the order first noted
+        _settle_key(conn, *args)
     conn.execute("DELETE FROM sync_dirty")
     return count
 
@@ -506,7 +507,8 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
 def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: str,
                 part: list[str], hlc: int, backfill: bool, settle: dict[tuple, None]) -> int:
     """The operations of up to 500 written rows of one table, written at once; the unique
-    keys they touch are added to ``settle``."""
+    key values they touch that need more than ``_settle_plain`` are added to ``settle``."""
+    touched: dict[tuple, None] = {}
     ops: list[Op] = []
     fields_rows: list[tuple] = []
     rows_rows: list[tuple] = []
@@ -552,7 +554,7 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
             if set(changed) & {key, "deleted_at", *scope}:
                 for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
                     if raw is not None:
-                        settle[(tbl, key, scope, live, raw)] = None
+                        touched[(tbl, key, scope, live, raw)] = None
     _store_ops(conn, ops, "local", all_new=True)
     conn.executemany(
         "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
@@ -564,44 +566,45 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
                      "excluded.max_hlc)", rows_rows)
     # a row's conflicts depend on its own operations only, all written just above
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
+    for args in _settle_plain(conn, touched):
+        settle[args] = None
     return len(fields_rows)
 
 
-def _settle_keys(conn: sqlite3.Connection, settle: dict[tuple, None]) -> None:
-    """``_settle_key`` for each unique key value written, in the order first noted. A value
-    with one claim, held by a row that shows it already, is settled as it stands (no other
-    row can show it: the table's unique index holds), found 500 at a time: a bulk write of
-    new keys costs a few statements per 500 rows, not several per row."""
+def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[tuple]:
+    """Settle at once the unique key values with one claim, held by a row that shows it
+    already (no other row can show it: the table's unique index holds); returns the others,
+    for ``_settle_key``. Found with a few statements per 500 values, not several per row.
+
+    A value settled here whose claims change later in the same flush (a row further on that
+    takes or leaves it) is noted again there, and settled then with every claim it has."""
     by_key: dict[tuple, list[str]] = {}
-    for tbl, key, scope, live, raw in settle:
+    for tbl, key, scope, live, raw in touched:
         by_key.setdefault((tbl, key, scope, live), []).append(raw)
     plain: set[tuple] = set()
     for (tbl, key, scope, live), raws in by_key.items():
-        for part in _chunks(raws):
-            claims: dict[str, list[str]] = {}
-            for raw, row_id in conn.execute(
-                    f"SELECT value, row_id FROM sync_fields INDEXED BY {_key_index(key)} "
-                    f"WHERE tbl = ? AND field = '{key}' AND value IN ({_marks(part)})",
-                    [tbl, *part]):
-                claims.setdefault(raw, []).append(row_id)
-            single = {c[0]: raw for raw, c in claims.items() if len(c) == 1}
-            if not single:
-                continue
-            ids = list(single)
-            shows = dict(conn.execute(f"SELECT id, {key} FROM {tbl} WHERE id IN "
-                                      f"({_marks(ids)})", ids).fetchall())
-            done = [(row_id, raw) for row_id, raw in single.items()
-                    if row_id in shows and _dump(shows[row_id]) == raw
-                    and _dump(json.loads(raw)) == raw]
-            conn.executemany("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND "
-                             f"field = '{key}' AND mat IS NOT ?",
-                             [(raw, tbl, row_id, raw) for row_id, raw in done])
-            conn.executemany("DELETE FROM sync_conflicts WHERE id = ?",
-                             [(f"duplicate:{tbl}:{row_id}:{key}",) for row_id, _ in done])
-            plain.update((tbl, key, scope, live, raw) for _, raw in done)
-    for args in settle:
-        if args not in plain:
-            _settle_key(conn, *args)
+        claims: dict[str, list[str]] = {}
+        for raw, row_id in conn.execute(
+                f"SELECT value, row_id FROM sync_fields INDEXED BY {_key_index(key)} "
+                f"WHERE tbl = ? AND field = '{key}' AND value IN ({_marks(raws)})",
+                [tbl, *raws]):
+            claims.setdefault(raw, []).append(row_id)
+        single = {c[0]: raw for raw, c in claims.items() if len(c) == 1}
+        if not single:
+            continue
+        ids = list(single)
+        shows = dict(conn.execute(f"SELECT id, {key} FROM {tbl} WHERE id IN ({_marks(ids)})",
+                                  ids).fetchall())
+        done = [(row_id, raw) for row_id, raw in single.items()
+                if row_id in shows and _dump(shows[row_id]) == raw
+                and _dump(json.loads(raw)) == raw]
+        conn.executemany("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND "
+                         f"field = '{key}' AND mat IS NOT ?",
+                         [(raw, tbl, row_id, raw) for row_id, raw in done])
+        conn.executemany("DELETE FROM sync_conflicts WHERE id = ?",
+                         [(f"duplicate:{tbl}:{row_id}:{key}",) for row_id, _ in done])
+        plain.update((tbl, key, scope, live, raw) for _, raw in done)
+    return [args for args in touched if args not in plain]
 
 
 def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:

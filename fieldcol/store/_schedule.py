@@ -22,6 +22,7 @@ import io
 import json
 import os
 import re
+import sqlite3
 import tempfile
 from array import array
 from collections.abc import Iterable, Sequence
@@ -143,6 +144,21 @@ class PlanSpool(Sequence[SchedulePlan]):
 
     def __repr__(self) -> str:
         return f"PlanSpool({len(self)} plans)"
+
+
+class _TagBook:
+    """The tags met so far in a file and the row of each, kept in a private temporary SQLite
+    database (on disk, its page cache bounded): a file's rows never accumulate in memory."""
+
+    def __init__(self) -> None:
+        self._db = sqlite3.connect("")  # "": a temporary database of this connection only
+        self._db.execute("CREATE TABLE tags (tag TEXT PRIMARY KEY, row INTEGER) WITHOUT ROWID")
+
+    def first_row(self, tag: str, row: int) -> int | None:
+        """The row that used ``tag`` first, or None (and ``row`` is noted as its first)."""
+        if self._db.execute("INSERT OR IGNORE INTO tags VALUES (?, ?)", (tag, row)).rowcount:
+            return None
+        return int(self._db.execute("SELECT row FROM tags WHERE tag = ?", (tag,)).fetchone()[0])
 
 
 @dataclass
@@ -503,8 +519,7 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
     if found is not None:
         code = found.code
     preview = SchedulePreview(site_name, found is not None, _store=store, _version=version)
-    # tag -> first row: a str and an int a row (~100 bytes), the one thing kept per row
-    seen: dict[str, int] = {}
+    seen = _TagBook()
     for n, cells in rows:
         if isinstance(cells, RowError):
             preview.errors.append(cells)
@@ -513,11 +528,11 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
         if not tag:
             preview.errors.append(RowError(n, "tag", "", "the column tag is required", None))
             continue
-        if tag in seen:
-            preview.errors.append(RowError(n, "tag", tag, f"tag already used on row {seen[tag]}",
+        first = seen.first_row(tag, n)
+        if first is not None:
+            preview.errors.append(RowError(n, "tag", tag, f"tag already used on row {first}",
                                            None))
             continue
-        seen[tag] = n
         col = store.find_column(found.id, tag) if found else None
         try:
             vals = _row_fields(cells, units_by)
