@@ -371,6 +371,18 @@ def _foreign_unit_reason(word: str, kind: str) -> str:
     return ""
 
 
+#: entries read before (text and how it was read -> the value): a record is checked again
+#: and again with the same few entries, and the answer depends on nothing else. Bounded.
+_READ: dict[tuple, float] = {}
+
+
+def _remembered(key: tuple, value: float) -> float:
+    if len(_READ) >= 8192:
+        _READ.clear()
+    _READ[key] = value
+    return value
+
+
 def parse_length(
     text: str | float | int,
     field: str,
@@ -402,6 +414,17 @@ def parse_length(
         >>> parse_length(12.5, "length", default_unit="ft")
         3810.0
     """
+    if type(text) is str:
+        key = ("parse_length", text, default_unit, allow_zero, allow_negative)
+        got = _READ.get(key)
+        if got is not None:
+            return got
+        return _remembered(key, _parse_length(text, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative))
+    return _parse_length(text, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative)
+
+
+def _parse_length(text: str | float | int, field: str, *, default_unit: str = "mm",
+                  allow_zero: bool = False, allow_negative: bool = False) -> float:
     default = _LEN_UNITS.get(default_unit.lower()) if isinstance(default_unit, str) else None
     if default is None or default_unit in ("'", '"'):
         raise InputError(field, default_unit, "unknown default unit for a length", _LEN_HELP)
@@ -801,6 +824,18 @@ def parse_quantity(
         >>> parse_quantity("1/500", "ratio", "bow")
         0.002
     """
+    if type(text) is str:
+        key = ("parse_quantity", kind, text, default_unit, allow_zero, allow_negative)
+        got = _READ.get(key)
+        if got is not None:
+            return got
+        return _remembered(key, _parse_quantity(text, kind, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative))
+    return _parse_quantity(text, kind, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative)
+
+
+def _parse_quantity(text: str | float | int, kind: str, field: str, *,
+                    default_unit: str | None = None, allow_zero: bool = False,
+                    allow_negative: bool = False) -> float:
     _check_kind(kind, field)
     if kind == "length":
         return parse_length(
