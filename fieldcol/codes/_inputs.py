@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 import weakref
 from typing import Any
 
@@ -48,6 +49,10 @@ def positive(field: str, value: Any, hint: str = "give a positive number") -> np
         >>> float(positive("Fy", 250))
         250.0
     """
+    if type(value) is float or type(value) is np.float64:
+        # one column's value: the same 0-d float array, without the array checks' overhead
+        if 0.0 < value < math.inf:
+            return np.array(value, dtype=float)
     a = _numeric(field, value)
     bad = ~np.isfinite(a) | (a <= 0)
     if bad.any():
