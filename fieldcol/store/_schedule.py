@@ -90,18 +90,20 @@ class PlanSpool(Sequence[SchedulePlan]):
     def __init__(self) -> None:
         self._file: Any = None
         self._offsets = array("q")
+        self._end = 0
         self.counts = {"add": 0, "update": 0, "unchanged": 0}
 
     def append(self, plan: SchedulePlan) -> None:
         """Keep one plan (written at the end of the file)."""
         if self._file is None:
             self._file = tempfile.TemporaryFile()
-        f = self._file
-        f.seek(0, os.SEEK_END)
-        self._offsets.append(f.tell())
-        f.write(json.dumps([plan.row, plan.tag, plan.action, plan.changes, plan.record,
-                            plan.level, plan.grid, plan.location],
-                           ensure_ascii=False).encode("utf-8") + b"\n")
+        line = json.dumps([plan.row, plan.tag, plan.action, plan.changes, plan.record,
+                           plan.level, plan.grid, plan.location],
+                          ensure_ascii=False).encode("utf-8") + b"\n"
+        # reads use pread, so the file's position stays at its end: append where it is
+        self._offsets.append(self._end)
+        self._file.write(line)
+        self._end += len(line)
         self.counts[plan.action] += 1
 
     def __len__(self) -> int:
@@ -109,8 +111,7 @@ class PlanSpool(Sequence[SchedulePlan]):
 
     def _read(self, i: int) -> SchedulePlan:
         self._file.flush()
-        end = self._offsets[i + 1] if i + 1 < len(self._offsets) else \
-            os.fstat(self._file.fileno()).st_size
+        end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
         start = self._offsets[i]
         return SchedulePlan(*json.loads(os.pread(self._file.fileno(), end - start, start)))
 
@@ -322,6 +323,7 @@ def _rows_after(records: Iterator[tuple[int, list[str] | RowError]],
                 header: list[tuple[str, str | None]]
                 ) -> Iterator[tuple[int, dict[str, str] | RowError]]:
     width = len(header)
+    names = [name for name, _ in header]
     for n, cells in records:
         if isinstance(cells, RowError):
             yield n, cells
@@ -332,8 +334,12 @@ def _rows_after(records: Iterator[tuple[int, list[str] | RowError]],
             yield n, RowError(n, "row", ",".join(cells[width:])[:80],
                               "more cells than header columns", None)
             continue
-        yield n, {name: (unguard_cell(cells[i].strip()) if i < len(cells) else "")
-                  for i, (name, _) in enumerate(header)}
+        got = len(cells)
+        row = {}
+        for i, name in enumerate(names):
+            c = cells[i].strip() if i < got else ""
+            row[name] = unguard_cell(c) if c.startswith("'") else c
+        yield n, row
 
 
 def _with_unit(cell: str, unit: str | None, fld: str) -> str:
@@ -540,18 +546,21 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
                 base: dict[str, Any] = {"tag": tag}
                 if code is not None:
                     base["code"] = code
-                current = base
+                # a new column: the record checked is the record kept (the reading copies
+                # nothing into it), so it is merged once
+                rec = _merge(base, vals)
+                _check_row(rec, vals, code)
             else:
                 base, current = col.record, store.current_record(col.id)
                 # a cell showing what an export shows is no change: an unedited export
                 # must not write the latest readings into the record
                 vals = {k: x for k, x in vals.items()
                         if k in ("level", "grid", "location") or x != _shown(current, k)}
-            _check_row(_merge(current, vals), vals, current.get("code") or code)
+                _check_row(_merge(current, vals), vals, current.get("code") or code)
+                rec = _merge(base, vals)
         except InputError as e:
             preview.errors.append(RowError(n, e.field, e.text, e.reason, e.hint))
             continue
-        rec = _merge(base, vals)
         if col is None:
             preview.plans.append(SchedulePlan(n, tag, "add", [], rec, vals.get("level"),
                                               vals.get("grid"), vals.get("location")))
