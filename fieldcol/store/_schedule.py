@@ -113,7 +113,17 @@ class PlanSpool(Sequence[SchedulePlan]):
         self._file.flush()
         end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
         start = self._offsets[i]
-        return SchedulePlan(*json.loads(os.pread(self._file.fileno(), end - start, start)))
+        return SchedulePlan(*json.loads(self._pread(end - start, start)))
+
+    def _pread(self, n: int, at: int) -> bytes:
+        """``n`` bytes from ``at``, leaving the file's position (the end) as it is."""
+        if hasattr(os, "pread"):
+            return os.pread(self._file.fileno(), n, at)
+        f = self._file  # a platform without pread (Windows)
+        f.seek(at)
+        data = f.read(n)
+        f.seek(self._end)
+        return data
 
     def __getitem__(self, i: Any) -> Any:  # type: ignore[override]
         if isinstance(i, slice):
@@ -127,9 +137,9 @@ class PlanSpool(Sequence[SchedulePlan]):
         if self._file is None:
             return
         self._file.flush()
-        fd, pos, rest = self._file.fileno(), 0, b""
+        pos, rest = 0, b""
         while True:  # a block at a time: the file's position is left to append
-            block = os.pread(fd, 1 << 20, pos)
+            block = self._pread(min(1 << 20, self._end - pos), pos) if pos < self._end else b""
             if not block:
                 break
             pos += len(block)
@@ -392,7 +402,7 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
 #: by their JSON text without the tag: ``None`` (fine) or the error; bounded
 _READ_OK: dict[Any, Any] = {}
 _ROW_READ: dict[str, InputError | None] = {}
-_MEMO_MAX = 20_000
+_MEMO_MAX = 4096
 
 
 def _remember(memo: dict[Any, Any], key: Any, value: Any) -> None:
