@@ -922,6 +922,12 @@ def _format_ft_in(mm: float) -> str:
     return f"{sign}{inches} {frac}\"" if frac else f"{sign}{inches}\""
 
 
+#: values shown before (a check writes the same few lengths and forces into its messages again
+#: and again); bounded
+_SHOWN: dict[tuple, str] = {}
+_PLAIN = (float, int, np.float64)
+
+
 def format_length(mm: float, system: str) -> str:
     """A length for display in the site's system.
 
@@ -937,6 +943,19 @@ def format_length(mm: float, system: str) -> str:
         >>> format_length(3811.6, "us"), format_length(165.1, "us"), format_length(3810.2, "si")
         ('12\\'-6 1/16"', '6 1/2"', '3810 mm')
     """
+    if type(mm) not in _PLAIN or not mm:  # (0.0 and -0.0 are one key: shown each time)
+        return _format_length(mm, system)
+    key = ("length", type(mm), mm, system)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_length(mm, system)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_length(mm: float, system: str) -> str:
     _check_system(system)
     mm = float(mm)
     if system == "us" and math.isfinite(mm):
@@ -960,6 +979,19 @@ def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> st
         >>> format_quantity(3736506.3, "force", "us"), format_quantity(3736506.3, "force", "si")
         ('840 kip', '3737 kN')
     """
+    if type(value) not in _PLAIN or not value:
+        return _format_quantity(value, kind, system, digits)
+    key = (kind, type(value), value, system, digits)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_quantity(value, kind, system, digits)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_quantity(value: float, kind: str, system: str, digits: int = 4) -> str:
     table = _check_system(system)
     _check_kind(kind, "kind")
     if kind == "length" and system == "us":
