@@ -228,17 +228,24 @@ class SchedulePreview:
             >>> preview_schedule(store, "Depot", "cols.csv").lines()[-1]
             '1 to add, 1 to update, 0 unchanged, 0 row errors'
         """
-        head = f"site {self.site}" + ("" if self.site_exists else " (new)")
-        out = [head]
+        return list(self.each_line())
+
+    def each_line(self) -> Iterator[str]:
+        """The lines of ``lines()`` one at a time (a long preview is printed as it is read).
+
+        Example:
+            >>> next(preview_schedule(store, "Depot", "cols.csv").each_line())
+            'site Depot'
+        """
+        yield f"site {self.site}" + ("" if self.site_exists else " (new)")
         for p in self.plans:
             detail = f" ({', '.join(p.changes)})" if p.action == "update" else ""
-            out.append(f"  row {p.row:>4}  {p.action:<9} {p.tag}{detail}")
+            yield f"  row {p.row:>4}  {p.action:<9} {p.tag}{detail}"
         for e in self.errors:
-            out.append(f"  {e}")
+            yield f"  {e}"
         c = self.counts()
-        out.append(f"{c['add']} to add, {c['update']} to update, {c['unchanged']} unchanged, "
-                   f"{c['errors']} row errors")
-        return out
+        yield (f"{c['add']} to add, {c['update']} to update, {c['unchanged']} unchanged, "
+               f"{c['errors']} row errors")
 
 
 def _open_text(source: str | os.PathLike[str]) -> IO[str]:
