@@ -10,21 +10,22 @@ from __future__ import annotations
 import json
 import math
 from dataclasses import dataclass, field
-from typing import Any, Mapping
+from typing import TYPE_CHECKING, Any, Mapping
 
 import numpy as np
 
 from fieldcol import CAUTION, __version__
-from fieldcol.codes.beamcolumn import BeamColumnResult
-from fieldcol.codes import (BowResult, CodeResult, check_aisc360, check_bow, check_elastic,
-                            check_en1993)
+from fieldcol.codes import CodeResult, check_aisc360
 from fieldcol.demand import combine
 from fieldcol.errors import InputError
 from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record
-from fieldcol.stability import (Brace, brace_requirement, buckling_analysis, effective_length,
-                                k_alignment)
+from fieldcol.stability import Brace, brace_requirement, effective_length
 from fieldcol.trace import Step, Trace
 from fieldcol.units import format_length, format_quantity
+
+if TYPE_CHECKING:  # bow, beam-column, EN, elastic and the buckling analysis: imported when used
+    from fieldcol.codes import BowResult
+    from fieldcol.codes.beamcolumn import BeamColumnResult
 
 EDITIONS = {"elastic": "classical elastic stability", "aisc360-22": "ANSI/AISC 360-22",
             "en1993-1-1": "EN 1993-1-1:2005+A1:2014"}
@@ -415,6 +416,8 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     trace.add("L_bow", f"length over which the bow acts ({col.bow_axis} axis)",
               "as recorded" if col.bow_over is not None else "longest span between counted braces",
               L, "mm", "record")
+    from fieldcol.codes.bow import check_bow
+
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
@@ -464,7 +467,11 @@ def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength],
     if col.code == "aisc360-22":
         return check_aisc360(*args, basis=col.basis)
     if col.code == "en1993-1-1":
+        from fieldcol.codes.en1993 import check_en1993
+
         return check_en1993(*args, gamma_M1=col.gamma_M1, high_strength=mat.key.upper() == "S460")
+    from fieldcol.codes.elastic import check_elastic
+
     return check_elastic(*args)
 
 
@@ -489,6 +496,8 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput,
                              "lengths between braces",
                              "use k_basis 'analysis' with partial end springs, or remove the braces")
         Ga, Gb, sway = spec.alignment
+        from fieldcol.stability import k_alignment
+
         k = float(k_alignment(Ga, Gb, sway, field=f"{fld}.alignment"))
         cuts = sorted({0.0, col.length, *(b.at for b in braces)})
         seg = max(b - a for a, b in zip(cuts[:-1], cuts[1:]))
@@ -501,6 +510,8 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput,
         return AxisLength(k * seg, k, seg, "alignment", idx)
     EI = col.material.E * float(np.asarray(getattr(col.section, _EI_AXIS[ax])).reshape(-1)[0])
     if col.k_basis == "analysis":
+        from fieldcol.stability import buckling_analysis
+
         res = buckling_analysis(col.length, EI, spec.bottom, spec.top, braces, field=fld)
         trace.add(f"Pcr_{ax}", f"elastic buckling load of the whole column, {ax} axis",
                   "finite-element eigenvalue (cubic beam elements)", float(res.Pcr), "N",

@@ -9,14 +9,16 @@ allowance (an eccentricity at mid-height) and the measured out-of-plumb of a col
 from __future__ import annotations
 
 import math
-from typing import Any, Mapping
+from typing import TYPE_CHECKING, Any, Mapping
 
 import numpy as np
 
 from fieldcol.codes import CodeResult
-from fieldcol.codes.beamcolumn import BeamColumnResult, check_beam_column
 from fieldcol.record import AXES, ColumnInput
 from fieldcol.trace import Trace
+
+if TYPE_CHECKING:  # the beam-column check is imported when a column has moments
+    from fieldcol.codes.beamcolumn import BeamColumnResult
 
 #: the eccentricity taken for a beam reaction when none is recorded: the face of the column plus
 #: 100 mm (about 4 in) to the centre of bearing of a seated or cap-plate connection
@@ -198,6 +200,8 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
                                     "without an axial demand: they are not checked; give the demand"})
         return None, src
     trace.extend(sub)
+    from fieldcol.codes.beamcolumn import check_beam_column
+
     sway = None
     if any(v > 0 for v in src["sway"].values()):
         pe = sway_load(col, demand, trace)

@@ -6,7 +6,8 @@ value carries its unit; every error names its path (``section.built.lacing.pitch
 
 from __future__ import annotations
 
-from typing import Any, Mapping
+from collections.abc import Mapping
+from typing import Any
 
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import check_keys

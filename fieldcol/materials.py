@@ -26,11 +26,13 @@ Example:
 
 from __future__ import annotations
 
+import bisect
 import csv
 import difflib
+import math
 import re
 from dataclasses import dataclass, replace
-from functools import lru_cache
+from functools import cached_property, lru_cache
 
 import numpy as np
 
@@ -100,6 +102,10 @@ class Material:
     shape: str = ""
     moduli_given: bool = False     # E (and G) entered by the engineer: kept under every code
 
+    @cached_property
+    def _limits(self) -> list[float]:
+        return [float(b[0]) for b in self.bands]
+
     def fy_at(self, t_mm: float | np.ndarray, *, field: str = "thickness") -> float | np.ndarray:
         """Nominal yield strength (MPa) for element thickness ``t_mm`` (vectorised).
 
@@ -141,6 +147,14 @@ class Material:
         return self._at(t_mm, 2, field)
 
     def _at(self, t_mm: float | np.ndarray, col: int, field: str) -> float | np.ndarray:
+        if type(t_mm) is float and 0.0 < t_mm < math.inf:
+            # one thickness: the band by bisection, as searchsorted(side="left") finds it
+            constant = self.Fy if col == 1 else self.Fu
+            if not self.bands or (col == 1 and self.tested):
+                return float(constant)
+            i = bisect.bisect_left(self._limits, t_mm)
+            if i < len(self.bands):
+                return float(self.bands[i][col])
         try:
             t = np.asarray(t_mm, dtype=float)
         except (TypeError, ValueError):

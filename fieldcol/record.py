@@ -9,8 +9,9 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
-from typing import Any, Mapping
+from typing import Any
 
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import (BRACE_KINDS, KEYS, LOAD_TYPES, _material_keys, _section_keys,

@@ -7,7 +7,8 @@ the store checks every record it saves with ``check_record_keys``.
 from __future__ import annotations
 
 import difflib
-from typing import Any, Mapping
+from collections.abc import Mapping
+from typing import Any
 
 from fieldcol.errors import InputError
 

@@ -35,7 +35,8 @@ from __future__ import annotations
 import copy
 import math
 from dataclasses import dataclass
-from typing import Any, Mapping, Sequence
+from collections.abc import Mapping, Sequence
+from typing import Any
 
 from fieldcol import CAUTION
 from fieldcol.assess import Assessment, assess

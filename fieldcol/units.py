@@ -371,6 +371,18 @@ def _foreign_unit_reason(word: str, kind: str) -> str:
     return ""
 
 
+#: entries read before (text and how it was read -> the value): a record is checked again
+#: and again with the same few entries, and the answer depends on nothing else. Bounded.
+_READ: dict[tuple, float] = {}
+
+
+def _remembered(key: tuple, value: float) -> float:
+    if len(_READ) >= 8192:
+        _READ.clear()
+    _READ[key] = value
+    return value
+
+
 def parse_length(
     text: str | float | int,
     field: str,
@@ -402,6 +414,17 @@ def parse_length(
         >>> parse_length(12.5, "length", default_unit="ft")
         3810.0
     """
+    if type(text) is str:
+        key = ("parse_length", text, default_unit, allow_zero, allow_negative)
+        got = _READ.get(key)
+        if got is not None:
+            return got
+        return _remembered(key, _parse_length(text, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative))
+    return _parse_length(text, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative)
+
+
+def _parse_length(text: str | float | int, field: str, *, default_unit: str = "mm",
+                  allow_zero: bool = False, allow_negative: bool = False) -> float:
     default = _LEN_UNITS.get(default_unit.lower()) if isinstance(default_unit, str) else None
     if default is None or default_unit in ("'", '"'):
         raise InputError(field, default_unit, "unknown default unit for a length", _LEN_HELP)
@@ -801,6 +824,18 @@ def parse_quantity(
         >>> parse_quantity("1/500", "ratio", "bow")
         0.002
     """
+    if type(text) is str:
+        key = ("parse_quantity", kind, text, default_unit, allow_zero, allow_negative)
+        got = _READ.get(key)
+        if got is not None:
+            return got
+        return _remembered(key, _parse_quantity(text, kind, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative))
+    return _parse_quantity(text, kind, field, default_unit=default_unit, allow_zero=allow_zero, allow_negative=allow_negative)
+
+
+def _parse_quantity(text: str | float | int, kind: str, field: str, *,
+                    default_unit: str | None = None, allow_zero: bool = False,
+                    allow_negative: bool = False) -> float:
     _check_kind(kind, field)
     if kind == "length":
         return parse_length(
@@ -887,6 +922,12 @@ def _format_ft_in(mm: float) -> str:
     return f"{sign}{inches} {frac}\"" if frac else f"{sign}{inches}\""
 
 
+#: values shown before (a check writes the same few lengths and forces into its messages again
+#: and again); bounded
+_SHOWN: dict[tuple, str] = {}
+_PLAIN = (float, int, np.float64)
+
+
 def format_length(mm: float, system: str) -> str:
     """A length for display in the site's system.
 
@@ -902,6 +943,19 @@ def format_length(mm: float, system: str) -> str:
         >>> format_length(3811.6, "us"), format_length(165.1, "us"), format_length(3810.2, "si")
         ('12\\'-6 1/16"', '6 1/2"', '3810 mm')
     """
+    if type(mm) not in _PLAIN or not mm:  # (0.0 and -0.0 are one key: shown each time)
+        return _format_length(mm, system)
+    key = ("length", type(mm), mm, system)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_length(mm, system)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_length(mm: float, system: str) -> str:
     _check_system(system)
     mm = float(mm)
     if system == "us" and math.isfinite(mm):
@@ -925,6 +979,19 @@ def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> st
         >>> format_quantity(3736506.3, "force", "us"), format_quantity(3736506.3, "force", "si")
         ('840 kip', '3737 kN')
     """
+    if type(value) not in _PLAIN or not value:
+        return _format_quantity(value, kind, system, digits)
+    key = (kind, type(value), value, system, digits)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_quantity(value, kind, system, digits)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_quantity(value: float, kind: str, system: str, digits: int = 4) -> str:
     table = _check_system(system)
     _check_kind(kind, "kind")
     if kind == "length" and system == "us":

@@ -6,6 +6,7 @@ reader would; page sizes are ISO 216 A4 (210 x 297 mm) and ANSI US Letter (8.5 x
 
 from __future__ import annotations
 
+import dataclasses
 import re
 from pathlib import Path
 
@@ -328,3 +329,31 @@ def test_findings_register_open_first_most_severe_first(demo):
     order = ("urgent", "high", "medium", "low", "info")  # common practice: worst first
     keys = [(status != "open", order.index(sev)) for _, sev, status in rows]
     assert keys == sorted(keys)
+
+
+def test_a_trace_heading_stays_with_its_first_rows(tmp_path: Path):
+    """Wherever a column's sheet leaves off, the "Calculation trace" heading is never the last
+    thing on a page: its first rows follow it on the same page."""
+    from fieldcol.report._layout import ReportPDF
+    from fieldcol.report._pages import _trace
+    from fieldcol.ui.check_model import check_summary
+
+    summ = check_summary(assess({"tag": "B/4-L1", "section": "W14X90", "material": "A992",
+                                 "length": "30 ft", "code": "aisc360-22",
+                                 "demand": {"axial": "840 kip", "basis": "lrfd"}}).to_dict(), "us")
+    # long clause notes wrap over many lines: three rows then take more than a short keep
+    summ.trace[:] = [dataclasses.replace(t, what=t.what + " (as noted on the drawing)" * 12)
+                     for t in summ.trace]
+    first = summ.trace[0].symbol
+    for k in range(24):
+        pdf = ReportPDF(paper="Letter", site_name="Yard", report_date="2026-04-01",
+                        caution=CAUTION)
+        pdf.add_page()
+        pdf.set_y(pdf.t_margin + k * (pdf.page_break_trigger - pdf.t_margin) / 24)
+        _trace(pdf, summ, "B/4-L1")
+        out = tmp_path / f"t{k}.pdf"
+        pdf.output(str(out))
+        pages = [_flat(p.extract_text()) for p in pypdf.PdfReader(out).pages]
+        at = next(t for t in pages if "Calculation trace" in t)
+        tail = at[at.index("Calculation trace"):]
+        assert f"Symbol Value What [clause] {first}" in tail, (k, tail[:120])

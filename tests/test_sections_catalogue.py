@@ -38,6 +38,22 @@ def test_names_are_found_whatever_the_spelling(typed, name):
     assert from_catalogue(typed).name == name
 
 
+def test_every_designation_read_as_typed_finds_its_own_row():
+    """A name given exactly as printed is looked up directly (no parsing of every name): that is
+    the same answer only while no two designations read as the same section."""
+    from fieldcol.sections._catalogue import _key
+
+    names = [str(n) for n in catalogue_arrays().names]
+    groups: dict[tuple, list[tuple[str, tuple]]] = {}
+    for n in names:
+        assert from_catalogue(n).name == n
+        k = _key(n)
+        group = groups.setdefault((k[0], k[1], len(k[2])), [])
+        clash = [m for m, nums in group if all(abs(a - b) <= 0.0011 for a, b in zip(nums, k[2]))]
+        assert not clash, (n, clash)
+        group.append((n, k[2]))
+
+
 @pytest.mark.parametrize("typed", ["W14X91", "HEB 301", "XYZ", "", "   ", "WT7X45", "HSS8X8"])
 def test_unknown_names_raise_with_field_section(typed):
     with pytest.raises(InputError) as e:

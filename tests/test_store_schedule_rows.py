@@ -167,3 +167,34 @@ def test_a_write_between_plan_and_apply_is_seen_and_planned_again(store, tmp_pat
     assert tags == ["Z/0", "Z/1", "Z/2", "Z/3", "Z/4"]          # no second Z/3
     site = store.find_site("Kestrel Lane Print Works")
     assert store.find_column(site.id, "Z/3").record["section"] == "W14X90"
+
+
+def test_a_long_schedule_keeps_every_plan_and_repeated_rows_read_alike(store, tmp_path):
+    """2,500 rows of a few sections and loads (as a real schedule repeats them): each row's plan
+    comes back in order from the preview's file, a bad entry repeated on many rows is an error
+    on each of them, and a tag used twice names the row that used it first."""
+    rows = [f"G/{i}-L1,L1,G/{i},{('W14X90', 'W12X65')[i % 2]},{12 + i % 3} ft,A992,"
+            f"{100 + i % 5} kip,lrfd" for i in range(2500)]
+    rows[700] = "G/700-L1,L1,G/700,W14X90,12 fr,A992,100 kip,lrfd"
+    rows[1400] = "G/1400-L1,L1,G/1400,W14X90,12 fr,A992,100 kip,lrfd"
+    rows.append("G/3-L1,L1,G/3,W14X90,12 ft,A992,100 kip,lrfd")
+    p = tmp_path / "long.csv"
+    p.write_text(HEAD + "\n".join(rows) + "\n", encoding="utf-8")
+    pv = preview_schedule(store, "Kestrel Lane Print Works", p)
+    assert [(e.row, e.field) for e in pv.errors] == [(702, "length"), (1402, "length"),
+                                                     (2502, "tag")]
+    assert "row 5" in pv.errors[-1].reason  # G/3-L1 first stood on spreadsheet row 5
+    assert len(pv.plans) == 2498 == pv.counts()["add"]
+    assert [q.row for q in pv.plans][:3] == [2, 3, 4] and pv.plans[-1].tag == "G/2499-L1"
+    assert pv.plans[1].record == {"tag": "G/1-L1", "code": "aisc360-22", "section": "W12X65",
+                                  "length": "13 ft", "material": "A992",
+                                  "demand": {"axial": "101 kip", "basis": "lrfd"}}
+    good = tmp_path / "good.csv"
+    good.write_text(HEAD + "\n".join(r for i, r in enumerate(rows[:2500])
+                                     if i not in (700, 1400)) + "\n", encoding="utf-8")
+    done = apply_schedule(store, "Kestrel Lane Print Works", good)
+    site = store.site_by_name("Kestrel Lane Print Works")
+    assert done.counts()["add"] == 2498
+    col = store.find_column(site.id, "G/2499-L1")
+    assert col.record["section"] == "W12X65" and col.grid == "G/2499"
+    assert apply_schedule(store, "Kestrel Lane Print Works", good).counts()["unchanged"] == 2498

@@ -56,7 +56,8 @@ def run(args: argparse.Namespace) -> int:
         exists = path.exists()
         with open_store(path if exists else f"{tmp}/empty.db") as store:
             preview = preview_schedule(store, args.site, args.file, code=code)
-            print("\n".join(preview.lines()))
+            for line in preview.each_line():
+                print(line)
             if preview.errors:
                 if args.apply:
                     raise preview.refusal()

@@ -13,6 +13,7 @@ Units N, mm, MPa. Bad values raise ``fieldcol.errors.InputError`` naming the fie
 
 Example:
     >>> import numpy as np
+    >>> from fieldcol.codes import check_aisc360
     >>> from fieldcol.sections._section import Section
     >>> s = Section("round", *[np.array(x) for x in (100., 100., 5., 5., 0., 1492., 1.7e6, 1.7e6,
     ...     3.4e4, 3.4e4, 4.6e4, 4.6e4, 33.8, 33.8, 3.4e6, 0., 95., 20., 20., 20., 20.)])
@@ -21,12 +22,40 @@ Example:
     ['flexural-weak', 'flexural-strong']
 """
 
-from ._curve import ColumnCurve, column_curve
-from ._result import MODES, CodeResult, ModeResult, Warning
-from .aisc360 import check_aisc360, critical_stress
-from .bow import BowResult, check_bow
-from .elastic import check_elastic
-from .en1993 import buckling_curves, check_en1993, reduction_factor
+import importlib
+from typing import Any
+
+_WHERE = {
+    'ColumnCurve': '._curve',
+    'column_curve': '._curve',
+    'MODES': '._result',
+    'CodeResult': '._result',
+    'ModeResult': '._result',
+    'Warning': '._result',
+    'check_aisc360': '.aisc360',
+    'critical_stress': '.aisc360',
+    'BowResult': '.bow',
+    'check_bow': '.bow',
+    'check_elastic': '.elastic',
+    'buckling_curves': '.en1993',
+    'check_en1993': '.en1993',
+    'reduction_factor': '.en1993',
+}
 
 __all__ = ["MODES", "BowResult", "CodeResult", "ColumnCurve", "column_curve", "check_bow", "ModeResult", "Warning", "check_aisc360", "check_elastic",
            "check_en1993", "critical_stress", "buckling_curves", "reduction_factor"]
+
+
+def __getattr__(name: str) -> Any:
+    # each part is imported when first asked for: a command that checks one column does not
+    # pay for the modules it never runs (the command line starts faster)
+    module = _WHERE.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(module, __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(_WHERE))

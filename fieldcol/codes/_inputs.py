@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from dataclasses import replace
+import math
+import weakref
 from typing import Any
 
 import numpy as np
@@ -48,6 +49,10 @@ def positive(field: str, value: Any, hint: str = "give a positive number") -> np
         >>> float(positive("Fy", 250))
         250.0
     """
+    if type(value) is float or type(value) is np.float64:
+        # one column's value: the same 0-d float array, without the array checks' overhead
+        if 0.0 < value < math.inf:
+            return np.array(value, dtype=float)
     a = _numeric(field, value)
     bad = ~np.isfinite(a) | (a <= 0)
     if bad.any():
@@ -107,25 +112,62 @@ def prepare(section: Section, **values: Any) -> tuple[dict[str, np.ndarray], dic
                          "build one with fieldcol.sections")
     if section.kind not in KINDS:
         raise InputError("section.kind", section.kind, "unknown section kind", f"one of {', '.join(KINDS)}")
-    sec = {name: positive(f"section.{name}", getattr(section, name)) for name in _POSITIVE}
-    sec.update({name: non_negative(f"section.{name}", getattr(section, name)) for name in _NON_NEGATIVE})
-    sec["rolled"] = flag("section.rolled", section.rolled)
+    sec = _section_arrays(section)
     vals = {name: positive(name, v) for name, v in values.items()}
     shape: tuple = ()
-    for prefix, group in (("section.", sec), ("", vals)):
-        for name, a in group.items():
-            try:
-                shape = np.broadcast_shapes(shape, a.shape)
-            except ValueError:
-                raise InputError(prefix + name, f"array of shape {a.shape}",
-                                 f"does not match the batch of shape {shape}",
-                                 "give one value per column, or a single value for all") from None
+    shapes = {a.shape for group in (sec, vals) for a in group.values()}
+    if len(shapes) == 1:
+        shape = shapes.pop()
+    else:
+        for prefix, group in (("section.", sec), ("", vals)):
+            for name, a in group.items():
+                try:
+                    shape = np.broadcast_shapes(shape, a.shape)
+                except ValueError:
+                    raise InputError(prefix + name, f"array of shape {a.shape}",
+                                     f"does not match the batch of shape {shape}",
+                                     "give one value per column, or a single value for all") from None
     # One column is computed as a batch of one: numpy scalars take libm paths (e.g. for **) that
     # may differ in the last bit from the array loops, and a batch must equal single checks.
     inner = shape or (1,)
-    sec = {k: np.broadcast_to(v, shape).reshape(inner) for k, v in sec.items()}
-    vals = {k: np.broadcast_to(v, shape).reshape(inner) for k, v in vals.items()}
+    sec = {k: _as_batch(v, shape, inner) for k, v in sec.items()}
+    vals = {k: _as_batch(v, shape, inner) for k, v in vals.items()}
     return sec, vals, shape
+
+
+def _as_batch(a: np.ndarray, shape: tuple, inner: tuple) -> np.ndarray:
+    if a.shape == inner:
+        return a
+    if a.shape == shape:
+        return a.reshape(inner)
+    return np.broadcast_to(a, shape).reshape(inner)
+
+
+def _section_arrays(section: Section) -> dict[str, np.ndarray]:
+    """The section's properties checked (positive, or zero where allowed) as float arrays.
+
+    A catalogue section is made once and its arrays are read-only, so its checked arrays are
+    kept on it (checked once, not on every column that names it); a section whose arrays may
+    still change is checked every time."""
+    kept = _CHECKED.get(id(section))
+    if kept is not None and kept[0]() is section:
+        return kept[1]
+    sec = {name: positive(f"section.{name}", getattr(section, name)) for name in _POSITIVE}
+    sec.update({name: non_negative(f"section.{name}", getattr(section, name)) for name in _NON_NEGATIVE})
+    sec["rolled"] = flag("section.rolled", section.rolled)
+    fixed = all(isinstance(v, np.ndarray) and not v.flags.writeable
+                for v in vars(section).values() if isinstance(v, np.ndarray))
+    if fixed:
+        for a in sec.values():
+            a.flags.writeable = False  # shared from now on: nobody may change it in place
+        if len(_CHECKED) >= 4096:
+            _CHECKED.clear()
+        _CHECKED[id(section)] = (weakref.ref(section), sec)
+    return sec
+
+
+#: id of a section -> (the section, weakly, and its checked arrays)
+_CHECKED: dict[int, tuple[weakref.ref, dict[str, np.ndarray]]] = {}
 
 
 def reshaped(result: CodeResult, shape: tuple) -> CodeResult:
@@ -148,5 +190,10 @@ def reshaped(result: CodeResult, shape: tuple) -> CodeResult:
                                                   one(m.Pn))
     for w in result.warnings:
         w.mask = one(w.mask)
-    result.trace.steps[:] = [replace(st, value=one(st.value)) for st in result.trace.steps]
+    for st in result.trace.steps:
+        v = st.value
+        if type(v) is np.ndarray and v.shape == (1,):
+            # the steps were made by this check alone (nobody else holds them): set the value
+            # in place rather than make each frozen step again
+            object.__setattr__(st, "value", v.reshape(shape))
     return result

@@ -28,7 +28,8 @@ force, with every moment in proportion, at which the interaction equals 1.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any, Mapping
+from collections.abc import Mapping
+from typing import Any
 
 import numpy as np
 

@@ -29,6 +29,8 @@ SHADE = (242, 242, 242)
 STRIPE = (246, 247, 249)
 BODY_PT = 9.0
 TABLE_PT = 7.6
+#: rows a table keeps with its heading (a heading never ends a page on its own)
+FIRST_ROWS = 3
 SMALL_PT = 7.0
 PT_MM = 25.4 / 72
 PAD_X = 1.2
@@ -336,6 +338,21 @@ class ReportPDF(FPDF):
         return [max(1, max(len(self.wrap_cell(str(c), w, style, size)) for c, w in zip(r, ws)))
                 * lh + 2 * pad for r in rows]
 
+    def first_rows(self, headings: Sequence[str] | None, rows: Sequence[Sequence[str]],
+                   widths: Sequence[float], *, size: float = TABLE_PT,
+                   flow: bool = False, gap: float = 4.0) -> float:
+        """The height (mm) of a table's heading row and its first ``FIRST_ROWS`` rows as
+        ``table`` (or, with ``flow``, ``table_flow``) draws them: pass it as a heading's
+        ``keep`` so the heading never stands alone at the foot of a page.
+
+        Example: ``pdf.heading("Readings", 3, keep=pdf.first_rows(heads, rows, widths))``.
+        """
+        width = (self.epw - gap) / 2 if flow else None
+        first = self.row_heights(rows[:FIRST_ROWS], widths, size=size, width=width)
+        head = 0.0 if headings is None else \
+            self.row_heights([headings], widths, size=size, width=width, style="B")[0]
+        return head + sum(first) + (0.6 if flow else 0.0)
+
     def table_flow(self, headings: Sequence[str], rows: Sequence[Sequence[str]],
                    widths: Sequence[float], *, size: float = TABLE_PT, gap: float = 4.0,
                    continued: str = "") -> None:
@@ -350,11 +367,14 @@ class ReportPDF(FPDF):
         hs = self.row_heights(rows, widths, size=size, width=half)
         head = self.row_heights([headings], widths, size=size, width=half, style="B")[0]
         i, n = 0, len(rows)
+        fresh = False  # a page just begun for these rows: rows taller than it go on anyway
         while i < n:
             avail = self.page_break_trigger - self.get_y() - head - 0.6
-            if avail < min(3, n - i) * max(hs[i:i + 3]):
+            if avail < sum(hs[i:i + FIRST_ROWS]) and not fresh:
                 self.add_page()
+                fresh = True
                 continue
+            fresh = False
 
             def take(start: int, room: float) -> int:
                 k, used = start, 0.0

@@ -423,27 +423,29 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
         if " " in value and not any(ch.isdigit() for ch in value.split(" ")[0]):
             what, value = f"{what}: {value}", "(text)"  # long text reads better in the wide column
         rows.append([t.symbol, value, f"{what} [{t.clause}]" if t.clause else what])
-    pdf.heading("Calculation trace", 3, keep=30)
-    pdf.table_flow(["Symbol", "Value", "What [clause]"], rows, (13, 16, 61), size=5.8,
+    heads, widths = ["Symbol", "Value", "What [clause]"], (13, 16, 61)
+    # the heading stays on the page of the trace's first rows
+    pdf.heading("Calculation trace", 3,
+                keep=pdf.first_rows(heads, rows, widths, size=5.8, flow=True))
+    pdf.table_flow(heads, rows, widths, size=5.8,
                    continued=f"Calculation trace of column {tag}, continued")
 
 
 def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> None:
     if not c.restraint_changes:
         return
-    pdf.heading("Restraint history", 3, keep=12)
     rows = [[rc.date, tx.RESTRAINT_KIND_WORDS.get(rc.kind, rc.kind), rc.axis or "-",
              rc.description + (f" ({tx.value_text(rc.detail)})" if rc.detail else ""),
              rc.seen_by or "-", data.refs_of(c.restraint_photos.get(rc.id, [])) or "-"]
             for rc in c.restraint_changes]
-    pdf.table(["Date", "Change", "Axis", "What", "Seen by", "Photos"], rows,
-              (18, 22, 12, 90, 20, 12), size=7.0)
+    heads, widths = ["Date", "Change", "Axis", "What", "Seen by", "Photos"], (18, 22, 12, 90, 20, 12)
+    pdf.heading("Restraint history", 3, keep=pdf.first_rows(heads, rows, widths, size=7.0))
+    pdf.table(heads, rows, widths, size=7.0)
 
 
 def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
     if not c.measurements:
         return
-    pdf.heading("Readings", 3, keep=12)
     by_id = {m.id: m for m in c.measurements}
     corrected = {m.corrects for m in c.measurements if m.corrects}
     rows = []
@@ -462,8 +464,10 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
         note = "; ".join(x for x in (m.gauge, m.note) if x)
         rows.append([quantity_name(m.quantity), m.text, shown,
                      f"{m.taken_by or '-'}, {tx.when(m.taken_at)}", note or "-", state])
-    pdf.table(["Quantity", "As typed", "Value", "Who, when", "Gauge, note", "Status"], rows,
-              (28, 18, 18, 34, 46, 30), size=7.0)
+    heads = ["Quantity", "As typed", "Value", "Who, when", "Gauge, note", "Status"]
+    widths = (28, 18, 18, 34, 46, 30)
+    pdf.heading("Readings", 3, keep=pdf.first_rows(heads, rows, widths, size=7.0))
+    pdf.table(heads, rows, widths, size=7.0)
 
 
 def _outcome(d: dict, system: str, checked: bool = True) -> list[str]:
@@ -482,7 +486,6 @@ def _retrofits(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
     from fieldcol.assess import assess
     from fieldcol.errors import InputError
 
-    pdf.heading("Retrofit options", 3, keep=16)
     rows = [["as it stands (latest check)", "-",
              *(_outcome(c.check.result, system) if c.check else ["-", "not checked", "-"]), "-"]]
     for r in c.retrofits:
@@ -503,5 +506,7 @@ def _retrofits(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
                 f"{'stiffness' if sym == 'beta_br' else 'strength'} {tx.step_value(st, system)}")
         rows.append([r.description, r.status, *_outcome(d, system),
                      "; ".join(f"{w}: {', '.join(v)}" for w, v in needs.items()) or "-"])
-    pdf.table(["Option", "Status", "Design strength", "Utilization", "Governs",
-               "A brace must give"], rows, (58, 14, 18, 18, 28, 46), size=6.8)
+    heads = ["Option", "Status", "Design strength", "Utilization", "Governs", "A brace must give"]
+    widths = (58, 14, 18, 18, 28, 46)
+    pdf.heading("Retrofit options", 3, keep=pdf.first_rows(heads, rows, widths, size=6.8))
+    pdf.table(heads, rows, widths, size=6.8)

@@ -10,15 +10,40 @@ Public API:
     with_plates                            cover plates welded to both flanges of an I
 """
 
-from fieldcol.sections._catalogue import catalogue_name, catalogue_names, from_catalogue
-from fieldcol.sections._condition import with_loss
-from fieldcol.sections._geometry import i_section, rect_hollow, round_hollow
-from fieldcol.sections._identify import Match, identify
-from fieldcol.sections._plates import with_plates
-from fieldcol.sections._section import Section
+import importlib
+from typing import Any
+
+_WHERE = {
+    'catalogue_name': 'fieldcol.sections._catalogue',
+    'catalogue_names': 'fieldcol.sections._catalogue',
+    'from_catalogue': 'fieldcol.sections._catalogue',
+    'with_loss': 'fieldcol.sections._condition',
+    'i_section': 'fieldcol.sections._geometry',
+    'rect_hollow': 'fieldcol.sections._geometry',
+    'round_hollow': 'fieldcol.sections._geometry',
+    'Match': 'fieldcol.sections._identify',
+    'identify': 'fieldcol.sections._identify',
+    'with_plates': 'fieldcol.sections._plates',
+    'Section': 'fieldcol.sections._section',
+}
 
 __all__ = [
     "Section", "i_section", "rect_hollow", "round_hollow", "from_catalogue", "catalogue_names",
     "catalogue_name",
     "identify", "Match", "with_loss", "with_plates",
 ]
+
+
+def __getattr__(name: str) -> Any:
+    # each part is imported when first asked for: a command that checks one column does not
+    # pay for the modules it never runs (the command line starts faster)
+    module = _WHERE.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(module, __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(_WHERE))

@@ -147,8 +147,19 @@ def _index() -> dict[tuple, list[tuple[int, tuple[float, ...]]]]:
     return idx
 
 
+@functools.lru_cache(maxsize=1)
+def _by_name() -> dict[str, int]:
+    """Designation as printed -> row: a name given as the catalogue prints it (most records)
+    is found without parsing every name of the catalogue (the command line's first check)."""
+    return {str(n): i for i, n in enumerate(catalogue_arrays().names)}
+
+
 @functools.lru_cache(maxsize=4096)
 def _find(name: str) -> int | None:
+    # every designation, read as typed, finds its own row (tests/test_sections_catalogue.py)
+    exact = _by_name().get(name.strip())
+    if exact is not None:
+        return exact
     k = _key(name)
     if k is None:
         return None

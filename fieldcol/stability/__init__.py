@@ -10,14 +10,32 @@ Example:
     2.0
 """
 
-from ._alignment import k_alignment
-from ._bracing import brace_requirement, cable_stiffness, series
-from ._ends import Brace, End, end, kind, partial_end
-from ._fe import Buckling, buckling_analysis, buckling_batch
-from ._mode import ModeShape, mode_shape
-from ._stepped import band_factor
-from ._tables import (EffectiveLength, Segment, effective_length, k_table, k_table_many,
-                      twist_length)
+import importlib
+from typing import Any
+
+_WHERE = {
+    'k_alignment': '._alignment',
+    'brace_requirement': '._bracing',
+    'cable_stiffness': '._bracing',
+    'series': '._bracing',
+    'Brace': '._ends',
+    'End': '._ends',
+    'end': '._ends',
+    'kind': '._ends',
+    'partial_end': '._ends',
+    'Buckling': '._fe',
+    'buckling_analysis': '._fe',
+    'buckling_batch': '._fe',
+    'ModeShape': '._mode',
+    'mode_shape': '._mode',
+    'band_factor': '._stepped',
+    'EffectiveLength': '._tables',
+    'Segment': '._tables',
+    'effective_length': '._tables',
+    'k_table': '._tables',
+    'k_table_many': '._tables',
+    'twist_length': '._tables',
+}
 
 __all__ = [
     "Brace", "Buckling", "EffectiveLength", "End", "ModeShape", "Segment", "band_factor",
@@ -25,3 +43,18 @@ __all__ = [
     "effective_length", "end", "k_alignment", "k_table", "k_table_many", "kind", "mode_shape",
     "partial_end", "series", "twist_length",
 ]
+
+
+def __getattr__(name: str) -> Any:
+    # each part is imported when first asked for: a command that checks one column does not
+    # pay for the modules it never runs (the command line starts faster)
+    module = _WHERE.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(module, __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(_WHERE))

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Sequence
+from collections.abc import Sequence
 
 import numpy as np
 
@@ -81,17 +81,26 @@ def end(spec: str | End, field: str) -> End:
         End(translation=inf, rotation=0.0, label='pinned')
     """
     if isinstance(spec, End):
+        if id(spec) in _MADE_IDS:  # one of ours, checked when it was made
+            return spec
         return _checked(spec, field)
     if isinstance(spec, str):
+        made = _MADE.get(spec)
+        if made is not None:
+            return made
         name = spec.strip().lower()
         if name in _CLASSICAL:
-            t, r = _CLASSICAL[name]
-            return End(t, r, name)
+            return _MADE[name]
         if name == "partial":
             raise InputError(field, spec, "a partial end needs its spring stiffness",
                              "use partial_end(rotation=..., translation=...) in N*mm/rad and N/mm")
     raise InputError(field, spec, "unknown end condition",
                      "use fixed, pinned, free or guided, or a partial end with springs")
+
+
+#: the classical ends, made once (an ``End`` is frozen: one shared copy cannot be changed)
+_MADE = {name: End(t, r, name) for name, (t, r) in _CLASSICAL.items()}
+_MADE_IDS = frozenset(id(e) for e in _MADE.values())
 
 
 def partial_end(rotation: float, translation: float = HELD, field: str = "") -> End:

@@ -5,6 +5,8 @@ from __future__ import annotations
 import copy
 import json
 import re
+import sqlite3
+import uuid
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
@@ -179,6 +181,64 @@ class ColumnsMixin(SitesMixin):
                    "level_id": self._level_id(site_id, level)}
             new_id = self._insert("columns", row, row_id=column_id)
         return self.get_column(new_id)
+
+    def _add_columns(self, site_id: str,
+                     items: Iterable[tuple[dict[str, Any], str | None, str | None, str | None]]
+                     ) -> int:
+        """Create many columns at once (a schedule's new rows): ``items`` of (record, level,
+        grid, location), records already read through ``check_record_keys`` by the caller.
+        Written with ``executemany`` in batches inside one transaction (the caller's, or one
+        of its own); a tag taken on the site refuses the whole call. Returns how many.
+
+        Example:
+            >>> store._add_columns(site.id, [({"tag": "B/6-L1"}, "L1", "B/6", None)])
+            1
+        """
+        self._get("sites", site_id, field="site")
+        levels: dict[str, str] = {}
+        names = ("id", "created_at", "updated_at", "device_id", "deleted_at", "site_id", "tag",
+                 "record", "location", "grid", "level_id") + (
+                     ("created_by",) if self.person is not None else ())
+        sql = (f"INSERT INTO columns ({', '.join(names)}) "
+               f"VALUES ({', '.join('?' for _ in names)})")
+        count = 0
+        with self._tx():
+            batch: list[tuple[Any, ...]] = []
+            for record, level, grid, location in items:
+                tag = record.get("tag")
+                if not isinstance(tag, str) or not tag.strip():
+                    raise InputError("record.tag", repr(tag), "the column tag is required",
+                                     "e.g. B/4-L1")
+                name = v.text(level, "level", required=False)
+                level_id = None
+                if name is not None:
+                    level_id = levels.get(name)
+                    if level_id is None:
+                        level_id = levels[name] = self.level(site_id, name).id
+                now = v.now_utc()
+                batch.append((str(uuid.uuid4()), now, now, self.device_id, None, site_id,
+                              tag.strip(), v.json_text(record, "record"),
+                              v.text(location, "location", required=False),
+                              v.text(grid, "grid", required=False), level_id)
+                             + ((self.person,) if self.person is not None else ()))
+                if len(batch) >= 1000:
+                    count += self._insert_many(sql, batch)
+            count += self._insert_many(sql, batch)
+        return count
+
+    def _insert_many(self, sql: str, batch: list[tuple[Any, ...]]) -> int:
+        """Insert a batch of rows and empty it; a unique key refused is the caller's error."""
+        try:
+            self.db.conn.executemany(sql, batch)
+        except sqlite3.IntegrityError as e:
+            if "columns_live_tag" in str(e) or "columns.site_id, columns.tag" in str(e):
+                raise InputError("tag", "", "a column with this tag already exists on the site",
+                                 "choose another tag or edit that column") from None
+            raise InputError("record", "", f"the database refused the change ({e})",
+                             None) from None
+        n = len(batch)
+        batch.clear()
+        return n
 
     def _tag_free(self, site_id: str, tag: str, current_id: str | None = None) -> None:
         clash = self._rows("SELECT id FROM columns WHERE site_id = ? AND tag = ? "

@@ -588,72 +588,90 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
     changed); returns how many fields changed.
 
     Called inside the writing transaction, so a change and its operations commit together.
-    Rows are read a table at a time, so a bulk write costs a few statements per 500 rows.
+    Rows are read, and their operations written, 500 at a time a table at a time: a bulk
+    write of 100,000 rows costs a few statements per 500 rows and the memory of 500.
     With ``backfill`` rows keep the device and time of their last write (first logging).
     """
-    dirty = conn.execute("SELECT tbl, row_id FROM sync_dirty").fetchall()
-    if not dirty:
+    if conn.execute("SELECT 1 FROM sync_dirty LIMIT 1").fetchone() is None:
         return 0
     hlc = hlc_tick(conn)
-    by_tbl: dict[str, list[str]] = {}
-    for tbl, row_id in dirty:
-        by_tbl.setdefault(tbl, []).append(row_id)
+    settle: dict[tuple, None] = {}
+    count = 0
+    for tbl in schema.tables:
+        after = ""
+        while True:
+            part = [r[0] for r in conn.execute(
+                "SELECT row_id FROM sync_dirty WHERE tbl = ? AND row_id > ? ORDER BY row_id "
+                "LIMIT 500", [tbl, after])]
+            if not part:
+                break
+            after = part[-1]
+            count += _flush_part(conn, device_id, schema, tbl, part, hlc, backfill, settle)
+    for args in settle:  # in the order first noted
+        _settle_key(conn, *args)
+    conn.execute("DELETE FROM sync_dirty")
+    return count
+
+
+def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: str,
+                part: list[str], hlc: int, backfill: bool, settle: dict[tuple, None]) -> int:
+    """The operations of up to 500 written rows of one table, written at once; the unique
+    key values they touch that need more than ``_settle_plain`` are added to ``settle``.
+    Returns how many fields changed."""
+    touched: dict[tuple, None] = {}
     ops: list[Op] = []
     fields_rows: list[tuple] = []
     new_rows: list[tuple] = []
     n_fields = 0
     rows_rows: list[tuple] = []
-    settle: list[tuple] = []
-    for tbl in (t for t in schema.tables if t in by_tbl):
-        for part in _chunks(by_tbl[tbl]):
-            cur = conn.execute(f"SELECT * FROM {tbl} WHERE id IN ({_marks(part)})", part)
-            names = [d[0] for d in cur.description]
-            now_rows = {}
-            for r in cur:
-                row = dict(zip(names, r))
-                now_rows[row["id"]] = row
-            _explode(conn, tbl, part)
-            known: dict[str, dict[str, tuple]] = {}
-            for rid, f, mat, value in conn.execute(
-                    f"SELECT row_id, field, mat, value FROM sync_fields WHERE tbl = ? AND row_id "
-                    f"IN ({_marks(part)})", [tbl, *part]):
-                known.setdefault(rid, {})[f] = (mat, value)
-            seen_of = dict(conn.execute(f"SELECT row_id, max_hlc FROM sync_rows WHERE tbl = ? "
-                                        f"AND row_id IN ({_marks(part)})", [tbl, *part]).fetchall())
-            for row_id in part:
-                now = now_rows.get(row_id)
-                if now is None:
-                    continue
-                have = known.get(row_id, {})
-                seen = seen_of.get(row_id, 0)
-                at, dev = hlc, device_id
-                if backfill:
-                    at = max(_iso_ms(now.get("updated_at")) << _SHIFT, seen + 1)
-                    dev = now.get("device_id") or device_id
-                changed: dict[str, Any] = {}
-                texts: dict[str, str | None] = {}
-                for k, val in now.items():
-                    if k in DERIVED:
-                        continue
-                    j = _dump(val)
-                    if have.get(k, (None,))[0] != j:
-                        changed[k] = val
-                        texts[k] = j
-                if not changed:
-                    continue
-                n_fields += len(texts)
-                op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
-                ops.append(op)
-                if have:
-                    fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
-                else:  # a row first written: its one operation is every field's winner
-                    new_rows += _compact_rows(schema, tbl, row_id, op, texts)
-                rows_rows.append((tbl, row_id, at))
-                for key, scope, live in schema.uniques[tbl]:
-                    if set(changed) & {key, "deleted_at", *scope}:
-                        for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
-                            if raw is not None:
-                                settle.append((tbl, key, scope, live, raw))
+    cur = conn.execute(f"SELECT * FROM {tbl} WHERE id IN ({_marks(part)})", part)
+    names = [d[0] for d in cur.description]
+    now_rows = {}
+    for r in cur:
+        row = dict(zip(names, r))
+        now_rows[row["id"]] = row
+    _explode(conn, tbl, part)
+    known: dict[str, dict[str, tuple]] = {}
+    for rid, f, mat, value in conn.execute(
+            f"SELECT row_id, field, mat, value FROM sync_fields WHERE tbl = ? AND row_id "
+            f"IN ({_marks(part)})", [tbl, *part]):
+        known.setdefault(rid, {})[f] = (mat, value)
+    seen_of = dict(conn.execute(f"SELECT row_id, max_hlc FROM sync_rows WHERE tbl = ? "
+                                f"AND row_id IN ({_marks(part)})", [tbl, *part]).fetchall())
+    for row_id in part:
+        now = now_rows.get(row_id)
+        if now is None:
+            continue
+        have = known.get(row_id, {})
+        seen = seen_of.get(row_id, 0)
+        at, dev = hlc, device_id
+        if backfill:
+            at = max(_iso_ms(now.get("updated_at")) << _SHIFT, seen + 1)
+            dev = now.get("device_id") or device_id
+        changed: dict[str, Any] = {}
+        texts: dict[str, str | None] = {}
+        for k, val in now.items():
+            if k in DERIVED:
+                continue
+            j = _dump(val)
+            if have.get(k, (None,))[0] != j:
+                changed[k] = val
+                texts[k] = j
+        if not changed:
+            continue
+        n_fields += len(texts)
+        op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
+        ops.append(op)
+        if have:
+            fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
+        else:  # a row first written: its one operation is every field's winner
+            new_rows += _compact_rows(schema, tbl, row_id, op, texts)
+        rows_rows.append((tbl, row_id, at))
+        for key, scope, live in schema.uniques[tbl]:
+            if set(changed) & {key, "deleted_at", *scope}:
+                for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
+                    if raw is not None:
+                        touched[(tbl, key, scope, live, raw)] = None
     _store_ops(conn, ops, "local", all_new=True)
     conn.executemany(
         "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
@@ -666,11 +684,47 @@ def flush(conn: sqlite3.Connection, device_id: str, schema: Schema, *,
     conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
                      "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
                      "excluded.max_hlc)", rows_rows)
-    for args in dict.fromkeys(settle):
-        _settle_key(conn, *args)
+    # a row's conflicts depend on its own operations only, all written just above
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
-    conn.execute("DELETE FROM sync_dirty")
+    for args in _settle_plain(conn, touched):
+        settle[args] = None
     return n_fields
+
+
+def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[tuple]:
+    """Settle at once the unique key values with one claim, held by a row that shows it
+    already (no other row can show it: the table's unique index holds); returns the others,
+    for ``_settle_key``. Found with a few statements per 500 values, not several per row.
+
+    A value settled here whose claims change later in the same flush (a row further on that
+    takes or leaves it) is noted again there, and settled then with every claim it has."""
+    by_key: dict[tuple, list[str]] = {}
+    for tbl, key, scope, live, raw in touched:
+        by_key.setdefault((tbl, key, scope, live), []).append(raw)
+    plain: set[tuple] = set()
+    for (tbl, key, scope, live), raws in by_key.items():
+        claims: dict[str, list[str]] = {}
+        for raw, row_id in conn.execute(
+                f"SELECT value, row_id FROM sync_fields INDEXED BY {_key_index(key)} "
+                f"WHERE tbl = ? AND field = '{key}' AND value IN ({_marks(raws)})",
+                [tbl, *raws]):
+            claims.setdefault(raw, []).append(row_id)
+        single = {c[0]: raw for raw, c in claims.items() if len(c) == 1}
+        if not single:
+            continue
+        ids = list(single)
+        shows = dict(conn.execute(f"SELECT id, {key} FROM {tbl} WHERE id IN ({_marks(ids)})",
+                                  ids).fetchall())
+        done = [(row_id, raw) for row_id, raw in single.items()
+                if row_id in shows and _dump(shows[row_id]) == raw
+                and _dump(json.loads(raw)) == raw]
+        conn.executemany("UPDATE sync_fields SET mat = ? WHERE tbl = ? AND row_id = ? AND "
+                         f"field = '{key}' AND mat IS NOT ?",
+                         [(raw, tbl, row_id, raw) for row_id, raw in done])
+        conn.executemany("DELETE FROM sync_conflicts WHERE id = ?",
+                         [(f"duplicate:{tbl}:{row_id}:{key}",) for row_id, _ in done])
+        plain.update((tbl, key, scope, live, raw) for _, raw in done)
+    return [args for args in touched if args not in plain]
 
 
 def _recheck_conflicts(conn: sqlite3.Connection, keys: list[tuple[str, str]]) -> None:

@@ -16,15 +16,19 @@ twice, changes nothing.
 
 from __future__ import annotations
 
-import copy
+import codecs
 import csv
 import io
 import json
 import os
 import re
+import sqlite3
+import tempfile
+from array import array
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Iterator
+from typing import IO, TYPE_CHECKING, Any, Iterator
 
 from fieldcol import jsontext
 from fieldcol.errors import InputError
@@ -72,12 +76,109 @@ class SchedulePlan:
     location: str | None = None
 
 
+class PlanSpool(Sequence[SchedulePlan]):
+    """The plans of a preview, kept in a temporary file rather than in memory: a schedule of
+    100,000 rows previews and applies in the same memory as one of a hundred. Reads back as a
+    sequence (``len``, index, iteration); each read gives a fresh ``SchedulePlan``.
+
+    Example:
+        >>> sp = PlanSpool(); sp.append(SchedulePlan(2, "A/1", "add", [], {"tag": "A/1"}))
+        >>> len(sp), sp[0].tag, sp.counts["add"]
+        (1, 'A/1', 1)
+    """
+
+    def __init__(self) -> None:
+        self._file: Any = None
+        self._offsets = array("q")
+        self._end = 0
+        self.counts = {"add": 0, "update": 0, "unchanged": 0}
+
+    def append(self, plan: SchedulePlan) -> None:
+        """Keep one plan (written at the end of the file)."""
+        if self._file is None:
+            self._file = tempfile.TemporaryFile()
+        line = json.dumps([plan.row, plan.tag, plan.action, plan.changes, plan.record,
+                           plan.level, plan.grid, plan.location],
+                          ensure_ascii=False).encode("utf-8") + b"\n"
+        # reads use pread, so the file's position stays at its end: append where it is
+        self._offsets.append(self._end)
+        self._file.write(line)
+        self._end += len(line)
+        self.counts[plan.action] += 1
+
+    def __len__(self) -> int:
+        return len(self._offsets)
+
+    def _read(self, i: int) -> SchedulePlan:
+        self._file.flush()
+        end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
+        start = self._offsets[i]
+        return SchedulePlan(*json.loads(self._pread(end - start, start)))
+
+    def _pread(self, n: int, at: int) -> bytes:
+        """``n`` bytes from ``at``, leaving the file's position (the end) as it is."""
+        if hasattr(os, "pread"):
+            return os.pread(self._file.fileno(), n, at)
+        f = self._file  # a platform without pread (Windows)
+        f.seek(at)
+        data = f.read(n)
+        f.seek(self._end)
+        return data
+
+    def __getitem__(self, i: Any) -> Any:  # type: ignore[override]
+        if isinstance(i, slice):
+            return [self._read(k) for k in range(*i.indices(len(self)))]
+        n = len(self)
+        if not -n <= i < n:
+            raise IndexError("plan index out of range")
+        return self._read(i % n)
+
+    def __iter__(self) -> Iterator[SchedulePlan]:
+        if self._file is None:
+            return
+        self._file.flush()
+        pos, rest = 0, b""
+        while True:  # a block at a time: the file's position is left to append
+            block = self._pread(min(1 << 20, self._end - pos), pos) if pos < self._end else b""
+            if not block:
+                break
+            pos += len(block)
+            lines = (rest + block).split(b"\n")
+            rest = lines.pop()
+            for line in lines:
+                yield SchedulePlan(*json.loads(line))
+
+    def __eq__(self, other: object) -> bool:
+        return isinstance(other, Sequence) and list(self) == list(other)
+
+    __hash__ = None  # type: ignore[assignment]
+
+    def __repr__(self) -> str:
+        return f"PlanSpool({len(self)} plans)"
+
+
+class _TagBook:
+    """The tags met so far in a file and the row of each, kept in a private temporary SQLite
+    database (on disk, its page cache bounded): a file's rows never accumulate in memory."""
+
+    def __init__(self) -> None:
+        self._db = sqlite3.connect("")  # "": a temporary database of this connection only
+        self._db.execute("CREATE TABLE tags (tag TEXT PRIMARY KEY, row INTEGER) WITHOUT ROWID")
+
+    def first_row(self, tag: str, row: int) -> int | None:
+        """The row that used ``tag`` first, or None (and ``row`` is noted as its first)."""
+        if self._db.execute("INSERT OR IGNORE INTO tags VALUES (?, ?)", (tag, row)).rowcount:
+            return None
+        return int(self._db.execute("SELECT row FROM tags WHERE tag = ?", (tag,)).fetchone()[0])
+
+
 @dataclass
 class SchedulePreview:
-    """The preview of an import: a plan per row and every row error."""
+    """The preview of an import: a plan per row (kept on disk, ``PlanSpool``) and every row
+    error."""
     site: str
     site_exists: bool
-    plans: list[SchedulePlan] = field(default_factory=list)
+    plans: Sequence[SchedulePlan] = field(default_factory=PlanSpool)
     errors: list[RowError] = field(default_factory=list)
     applied: bool = False
     # the store and its data version the plan was read from (apply writes it only if unchanged)
@@ -101,9 +202,12 @@ class SchedulePreview:
             >>> preview_schedule(store, "Depot", "cols.csv").counts()
             {'add': 1, 'update': 1, 'unchanged': 0, 'errors': 0}
         """
-        out = {"add": 0, "update": 0, "unchanged": 0}
-        for p in self.plans:
-            out[p.action] += 1
+        if isinstance(self.plans, PlanSpool):
+            out = dict(self.plans.counts)
+        else:
+            out = {"add": 0, "update": 0, "unchanged": 0}
+            for p in self.plans:
+                out[p.action] += 1
         out["errors"] = len(self.errors)
         return out
 
@@ -124,28 +228,47 @@ class SchedulePreview:
             >>> preview_schedule(store, "Depot", "cols.csv").lines()[-1]
             '1 to add, 1 to update, 0 unchanged, 0 row errors'
         """
-        head = f"site {self.site}" + ("" if self.site_exists else " (new)")
-        out = [head]
+        return list(self.each_line())
+
+    def each_line(self) -> Iterator[str]:
+        """The lines of ``lines()`` one at a time (a long preview is printed as it is read).
+
+        Example:
+            >>> next(preview_schedule(store, "Depot", "cols.csv").each_line())
+            'site Depot'
+        """
+        yield f"site {self.site}" + ("" if self.site_exists else " (new)")
         for p in self.plans:
             detail = f" ({', '.join(p.changes)})" if p.action == "update" else ""
-            out.append(f"  row {p.row:>4}  {p.action:<9} {p.tag}{detail}")
+            yield f"  row {p.row:>4}  {p.action:<9} {p.tag}{detail}"
         for e in self.errors:
-            out.append(f"  {e}")
+            yield f"  {e}"
         c = self.counts()
-        out.append(f"{c['add']} to add, {c['update']} to update, {c['unchanged']} unchanged, "
-                   f"{c['errors']} row errors")
-        return out
+        yield (f"{c['add']} to add, {c['update']} to update, {c['unchanged']} unchanged, "
+               f"{c['errors']} row errors")
 
 
-def _read_text(source: str | os.PathLike[str]) -> str:
+def _open_text(source: str | os.PathLike[str]) -> IO[str]:
+    """The file opened as text for ``csv`` (read as it goes: never held whole), after a pass
+    that proves it UTF-8 and names the first byte that is not."""
     p = Path(source)
     if not p.is_file():
         raise InputError("file", str(p), "no such file", None)
-    try:
-        return p.read_bytes().decode("utf-8-sig")
-    except UnicodeDecodeError as e:
-        raise InputError("file", str(p), f"not UTF-8 text ({e.reason} at byte {e.start})",
-                         "save the sheet as CSV UTF-8") from None
+    dec = codecs.getincrementaldecoder("utf-8-sig")()
+    at = 0
+    with open(p, "rb") as f:
+        while True:
+            chunk = f.read(1 << 20)
+            try:
+                dec.decode(chunk, final=not chunk)
+            except UnicodeDecodeError as e:
+                raise InputError("file", str(p), f"not UTF-8 text ({e.reason} at byte "
+                                 f"{at + e.start})", "save the sheet as CSV UTF-8") from None
+            if not chunk:
+                break
+            at += len(chunk)
+    # lines end at "\n" only, as csv reads a str: a lone "\r" stays inside its line
+    return open(p, encoding="utf-8-sig", newline="\n")
 
 
 def _header(cells: list[str]) -> list[tuple[str, str | None]]:
@@ -170,9 +293,9 @@ def _header(cells: list[str]) -> list[tuple[str, str | None]]:
     return cols
 
 
-def _records(text: str) -> Iterator[tuple[int, list[str] | RowError]]:
+def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]:
     """(spreadsheet row where the record starts, its cells or the error reading it)."""
-    reader = csv.reader(io.StringIO(text), strict=True)
+    reader = csv.reader(lines, strict=True)
     while True:
         start = reader.line_num + 1
         try:
@@ -195,30 +318,45 @@ def _records(text: str) -> Iterator[tuple[int, list[str] | RowError]]:
         yield start, cells
 
 
-def _parse(text: str) -> tuple[list[tuple[str, str | None]],
-                                list[tuple[int, dict[str, str] | RowError]]]:
+def _parse(lines: Iterable[str]) -> tuple[list[tuple[str, str | None]],
+                                          Iterator[tuple[int, dict[str, str] | RowError]]]:
+    """The header (read at once: its errors come before any row's) and the rows after it,
+    read one at a time as they are asked for."""
+    records = _records(lines)
     header = None
-    rows: list[tuple[int, dict[str, str] | RowError]] = []
-    for n, cells in _records(text):
+    for n, cells in records:
         if isinstance(cells, RowError):
-            if header is None:
-                raise InputError("header", "", cells.reason, cells.hint)
-            rows.append((n, cells))
+            raise InputError("header", "", cells.reason, cells.hint)
+        if not any(c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
+            continue
+        header = _header(cells)
+        break
+    if header is None:
+        raise InputError("file", "", "the file holds no header row", "first row: tag,section,...")
+    return header, _rows_after(records, header)
+
+
+def _rows_after(records: Iterator[tuple[int, list[str] | RowError]],
+                header: list[tuple[str, str | None]]
+                ) -> Iterator[tuple[int, dict[str, str] | RowError]]:
+    width = len(header)
+    names = [name for name, _ in header]
+    for n, cells in records:
+        if isinstance(cells, RowError):
+            yield n, cells
             continue
         if not any(c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
             continue
-        if header is None:
-            header = _header(cells)
+        if len(cells) > width and any(c.strip() for c in cells[width:]):
+            yield n, RowError(n, "row", ",".join(cells[width:])[:80],
+                              "more cells than header columns", None)
             continue
-        if len(cells) > len(header) and any(c.strip() for c in cells[len(header):]):
-            rows.append((n, RowError(n, "row", ",".join(cells[len(header):])[:80],
-                                     "more cells than header columns", None)))
-            continue
-        rows.append((n, {name: (unguard_cell(cells[i].strip()) if i < len(cells) else "")
-                         for i, (name, _) in enumerate(header)}))
-    if header is None:
-        raise InputError("file", "", "the file holds no header row", "first row: tag,section,...")
-    return header, rows
+        got = len(cells)
+        row = {}
+        for i, name in enumerate(names):
+            c = cells[i].strip() if i < got else ""
+            row[name] = unguard_cell(c) if c.startswith("'") else c
+        yield n, row
 
 
 def _with_unit(cell: str, unit: str | None, fld: str) -> str:
@@ -253,10 +391,12 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
             continue
         if name in ("length", "demand"):
             typed = _with_unit(cell, units_by.get(name), name)
-            if name == "length":
-                units.parse_length(typed, name)
-            else:
-                units.parse_quantity(typed, "force", name)
+            if (name, typed) not in _READ_OK:  # a schedule repeats its lengths and loads
+                if name == "length":
+                    units.parse_length(typed, name)
+                else:
+                    units.parse_quantity(typed, "force", name)
+                _remember(_READ_OK, (name, typed), True)
             out[name] = typed
         elif name in ("section", "material"):
             out[name] = _json_or_text(cell, name)
@@ -265,8 +405,31 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
     return out
 
 
+#: entries read once already (a schedule repeats them), and whole rows read by the engine,
+#: by their JSON text without the tag: ``None`` (fine) or the error; bounded
+_READ_OK: dict[Any, Any] = {}
+_ROW_READ: dict[str, InputError | None] = {}
+_MEMO_MAX = 4096
+
+
+def _remember(memo: dict[Any, Any], key: Any, value: Any) -> None:
+    if len(memo) >= _MEMO_MAX:
+        memo.clear()
+    memo[key] = value
+
+
+def _copy(value: Any) -> Any:
+    """A deep copy of a JSON value (dicts, lists and scalars), without ``copy.deepcopy``'s
+    bookkeeping."""
+    if isinstance(value, dict):
+        return {k: _copy(x) for k, x in value.items()}
+    if isinstance(value, list):
+        return [_copy(x) for x in value]
+    return value
+
+
 def _merge(record: dict[str, Any], vals: dict[str, Any]) -> dict[str, Any]:
-    rec = copy.deepcopy(record)
+    rec = _copy(record)
     for k in ("section", "length", "material"):
         if k in vals:
             rec[k] = vals[k]
@@ -293,7 +456,33 @@ def _shown(current: dict[str, Any], name: str) -> Any:
 
 
 def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None) -> None:
-    """Read the row's entries as the engine would; the whole record when it is complete."""
+    """Read the row's entries as the engine would; the whole record when it is complete.
+
+    A schedule repeats its sections, lengths, grades and loads: a row equal to one read
+    before but for its tag (a non-blank text here: the engine reads nothing else from it)
+    gives the same answer, so it is read once."""
+    try:
+        key = json.dumps([{k: x for k, x in merged.items() if k != "tag"},
+                          {k: vals[k] for k in ("section", "material", "basis") if k in vals},
+                          code], sort_keys=True, allow_nan=False)
+    except (TypeError, ValueError):
+        key = None
+    if key is not None and key in _ROW_READ:
+        err = _ROW_READ[key]
+        if err is not None:
+            raise InputError(err.field, err.text, err.reason, err.hint)
+        return
+    try:
+        _read_row(merged, vals, code)
+    except InputError as e:
+        if key is not None:
+            _remember(_ROW_READ, key, e)
+        raise
+    if key is not None:
+        _remember(_ROW_READ, key, None)
+
+
+def _read_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None) -> None:
     from fieldcol.record import _BASES, check_record_keys, parse_material, parse_record, \
         parse_section
 
@@ -338,14 +527,22 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], 
         1 to add, 1 to update, 0 unchanged, 0 row errors
     """
     site_name = v.text(site, "site")
-    header, rows = _parse(_read_text(source))
+    with _open_text(source) as lines:
+        header, rows = _parse(lines)
+        return _plan(store, site_name, header, rows, code)
+
+
+def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
+          rows: Iterator[tuple[int, dict[str, str] | RowError]],
+          code: str | None) -> SchedulePreview:
+    """The preview of the rows as they are read (a plan kept on disk per row)."""
     units_by = dict(header)
     version = store._data_version()  # before the first read: a write after it is seen
     found = store.find_site(site_name)
     if found is not None:
         code = found.code
     preview = SchedulePreview(site_name, found is not None, _store=store, _version=version)
-    seen: dict[str, int] = {}
+    seen = _TagBook()
     for n, cells in rows:
         if isinstance(cells, RowError):
             preview.errors.append(cells)
@@ -354,11 +551,11 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], 
         if not tag:
             preview.errors.append(RowError(n, "tag", "", "the column tag is required", None))
             continue
-        if tag in seen:
-            preview.errors.append(RowError(n, "tag", tag, f"tag already used on row {seen[tag]}",
+        first = seen.first_row(tag, n)
+        if first is not None:
+            preview.errors.append(RowError(n, "tag", tag, f"tag already used on row {first}",
                                            None))
             continue
-        seen[tag] = n
         col = store.find_column(found.id, tag) if found else None
         try:
             vals = _row_fields(cells, units_by)
@@ -366,18 +563,21 @@ def preview_schedule(store: "Store", site: str, source: str | os.PathLike[str], 
                 base: dict[str, Any] = {"tag": tag}
                 if code is not None:
                     base["code"] = code
-                current = base
+                # a new column: the record checked is the record kept (the reading copies
+                # nothing into it), so it is merged once
+                rec = _merge(base, vals)
+                _check_row(rec, vals, code)
             else:
                 base, current = col.record, store.current_record(col.id)
                 # a cell showing what an export shows is no change: an unedited export
                 # must not write the latest readings into the record
                 vals = {k: x for k, x in vals.items()
                         if k in ("level", "grid", "location") or x != _shown(current, k)}
-            _check_row(_merge(current, vals), vals, current.get("code") or code)
+                _check_row(_merge(current, vals), vals, current.get("code") or code)
+                rec = _merge(base, vals)
         except InputError as e:
             preview.errors.append(RowError(n, e.field, e.text, e.reason, e.hint))
             continue
-        rec = _merge(base, vals)
         if col is None:
             preview.plans.append(SchedulePlan(n, tag, "add", [], rec, vals.get("level"),
                                               vals.get("grid"), vals.get("location")))
@@ -462,12 +662,19 @@ def _write(store: "Store", preview: SchedulePreview,
         code = v.choice(cs.pop("code", None), "code", CODES)
         units = v.choice(cs.pop("unit_system", None), "unit_system", UNIT_SYSTEMS)
         found = store.add_site(preview.site, code=code, unit_system=units, **cs)
-    for p in preview.plans:
-        if p.action == "add":
-            p.record.setdefault("code", found.code)
-            store.add_column(found.id, p.record, level=p.level, grid=p.grid,
-                             location=p.location)
-        elif p.action == "update":
+    site_code = found.code
+
+    def added() -> Iterator[tuple[dict[str, Any], str | None, str | None, str | None]]:
+        for p in preview.plans:
+            if p.action == "add":
+                p.record.setdefault("code", site_code)
+                yield p.record, p.level, p.grid, p.location
+
+    # new columns in batches (each record was read whole by the preview); updates one by one
+    store._add_columns(found.id, added())
+    updates = preview.counts()["update"]
+    for p in preview.plans if updates else ():
+        if p.action == "update":
             col = store.find_column(found.id, p.tag)
             assert col is not None
             store.update_column(col.id, record=p.record, level=p.level, grid=p.grid,
