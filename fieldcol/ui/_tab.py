@@ -10,6 +10,8 @@ A tab is a class in its own module ``fieldcol/ui/tab_<name>.py``::
                                                # called when the tab opens and after any saved
                                                # change while it is open
         def controls(self) -> list[ft.Control] # the body: synchronous, no I/O
+        first: int | None                      # controls drawn in the first update on
+                                               # opening (what a phone shows at once)
 
 A tab is made when its column is opened and kept while that column is shown (what is typed
 stays across a resize); ``self.redraw()`` draws the tab again after a local change (a form
@@ -37,6 +39,9 @@ class Tab:
     name = ""
     label = ""
     icon: ft.IconData = ft.Icons.CIRCLE_OUTLINED
+    #: how many of ``controls()`` are drawn in the column screen's first update (the rest
+    #: follows at once in a second); None: all at once
+    first: int | None = None
 
     def __init__(self, app: "FieldApp") -> None:
         self.app = app

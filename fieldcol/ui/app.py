@@ -92,6 +92,7 @@ class FieldApp:
         self.counts: dict[str, int] = {}
         self.tab = "check"
         self.tabs: dict[str, Tab] = {}
+        self.tab_error: list[ft.Control] | None = None  # the shown tab could not be read
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
         self.saver = Saver(self)
@@ -415,16 +416,34 @@ class FieldApp:
         opened = len(self.store.list_findings(d.site_id, status="open", column_id=column_id))
         return d, {"findings": opened, "retrofit": len(self.store.retrofits(column_id))}
 
+    def _load_column_and_visit(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int],
+                                                              Any]:
+        """(worker thread) The column, the numbers beside its tabs and the open visit: one
+        hop to the worker for the whole screen."""
+        d, counts = self._load_column(column_id)
+        return d, counts, self.store.open_visit()
+
     async def _show_column(self, column_id: str) -> None:
         same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
-        self.detail, self.counts = await asyncio.to_thread(self._load_column, column_id)
-        await self._load_visit(self.detail.site_id)
+        self.detail, self.counts, self.visit = await asyncio.to_thread(
+            self._load_column_and_visit, column_id)
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == self.detail.site_id else None
         if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
             self.tabs = {cls.name: cls(self) for cls in TABS}
             self.tab = "check"
+            # the shown tab is read before the screen is drawn: one update carries the whole
+            # screen (drawing it empty first, then again filled, sent every control twice)
+            await self._load_tab(draw=False)
         d = self.detail
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
-        self.pane.controls = self._pane_controls()
+        shown = self._pane_controls()
+        # the top of the tab (the result, the caution) goes first, the rest in a second update:
+        # what a phone shows at once is on screen while the part below is still on its way
+        n = self.tabs[self.tab].first
+        first = len(shown) if n is None else 1 + max(1, n)
+        rest = shown[first:] if self.tab_error is None else []
+        self.pane.controls = shown[:len(shown) - len(rest)]
         actions = [self._action(ft.Icons.CONTENT_COPY, "Duplicate: the next column like this one",
                                 "duplicate-column", self._duplicate),
                    self._action(ft.Icons.DELETE_OUTLINE, "Delete this column (Undo follows)",
@@ -438,8 +457,13 @@ class FieldApp:
                          self._two_panes(self._list(d.site_id, selected=d.id), self.pane),
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
             await self.list.restore()  # the list beside stays where it was scrolled
-        if not same:
-            await self._load_tab()
+        if rest:
+            drawn = self.pane.controls
+            for _ in range(3):  # let the first update leave before the second is worked out
+                await asyncio.sleep(0)
+            if self.pane.controls is drawn and self.detail is d:  # nothing redrawn meanwhile
+                drawn.extend(rest)
+                self.page.update()
 
     async def _duplicate(self, _e: Any = None) -> None:
         d = self.detail
@@ -472,7 +496,8 @@ class FieldApp:
     def _pane_controls(self) -> list[ft.Control]:
         tabs = [(t.name, t.label, t.icon) for t in self.tabs.values()]
         row = v.tab_row(tabs, self.tab, self.counts, self._choose_tab, wrap=self.wide)
-        return [row, *self.tabs[self.tab].controls()]
+        body = self.tab_error if self.tab_error is not None else self.tabs[self.tab].controls()
+        return [row, *body]
 
     def redraw(self) -> None:
         """Draw the column screen (tab row and the shown tab) again; no I/O.
@@ -484,30 +509,31 @@ class FieldApp:
         self.pane.controls = self._pane_controls()
         self.page.update()
 
-    async def _load_tab(self) -> None:
+    async def _load_tab(self, *, draw: bool = True) -> None:
+        """Read the shown tab's view-models; then draw it (unless ``draw`` is False: the
+        caller draws the whole screen). A tab that cannot be read shows why, with Try again."""
         d, name = self.detail, self.tab
         if d is None:
             return
         try:
             await self.tabs[name].load()
+            self.tab_error = None
         except (sqlite3.Error, OSError, StoreBusyError) as e:
             async def again(_e: Any = None) -> None:
                 await self._load_tab()
-            self.pane.controls = [self.pane.controls[0], v._card([
+            self.tab_error = [v._card([
                 ft.Semantics(identifier="load-error", content=v.text_line(
                     f"This tab could not be loaded. {failure_words(e)}")),
                 ft.Semantics(identifier="try-again", content=ft.FilledButton(
-                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])] \
-                if self.pane.controls else []
-            self.page.update()
-            return
-        if self.detail is d or (self.detail is not None and self.detail.id == d.id):
+                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])]
+        if draw and (self.detail is d or (self.detail is not None and self.detail.id == d.id)):
             if self.tab == name:
                 self.redraw()
 
     def _choose_tab(self, name: str) -> Callable[..., Any]:
         async def choose(_e: Any = None) -> None:
             self.tab = name
+            self.tab_error = None
             self.redraw()
             await self._load_tab()
         return choose

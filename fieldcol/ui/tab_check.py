@@ -70,9 +70,12 @@ class CheckTab(Tab):
         s = self.summary
         if s is None or d.check is None:
             body = v.check_body(d)
+            self.first = 2
             return [*body[:1], v.caution_box(), edit, *v.record_body(d)]
         chart = cv.chart_card(s, width=330)   # fits the phone and the tablet's right pane
-        return [*cv.result_cards(s), v.caution_box(), edit, *([chart] if chart else []),
+        result = cv.result_cards(s)
+        self.first = len(result) + 1  # the result and the caution are drawn first on opening
+        return [*result, v.caution_box(), edit, *([chart] if chart else []),
                 cv.trace_tile(s), *v.record_body(d)]
 
     async def _save(self, e: Any) -> None:
