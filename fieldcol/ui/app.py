@@ -496,6 +496,7 @@ class FieldApp:
     def _pane_controls(self) -> list[ft.Control]:
         tabs = [(t.name, t.label, t.icon) for t in self.tabs.values()]
         row = v.tab_row(tabs, self.tab, self.counts, self._choose_tab, wrap=self.wide)
+        row.key = "tab-row"  # drawn again, it is compared with the last: only changes are sent
         body = self.tab_error if self.tab_error is not None else self.tabs[self.tab].controls()
         return [row, *body]
 
