@@ -93,6 +93,8 @@ class FieldApp:
         self.tab = "check"
         self.tabs: dict[str, Tab] = {}
         self.tab_error: list[ft.Control] | None = None  # the shown tab could not be read
+        self._drawn: str | None = None  # a route drawn before the browser reports it
+        self.draws = 0  # screens and tabs drawn (sent) so far: the saver sees if one was
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
         self.saver = Saver(self)
@@ -120,6 +122,9 @@ class FieldApp:
 
     # -- navigation ---------------------------------------------------------------------
     async def _on_route(self, e: ft.RouteChangeEvent) -> None:
+        drawn, self._drawn = self._drawn, None
+        if e.route == drawn:  # already on screen (open_column drew it before the address)
+            return
         await self.show(e.route)
 
     async def _on_resize(self, e: Any) -> None:
@@ -142,6 +147,9 @@ class FieldApp:
         Example: ``await app.show("/sites/" + site_id)``.
         """
         parts = [x for x in route.split("?")[0].split("/") if x]
+        # every screen ends in its own update: the one Flet adds after the handler would
+        # compare the whole page again for nothing (tens of ms on a phone-sized tree)
+        ft.context.disable_auto_update()
         try:
             if parts == ["settings"]:
                 await self._show_settings()
@@ -212,6 +220,7 @@ class FieldApp:
         self.page.views.append(ft.View(route=route, appbar=bar, controls=[screen], padding=0,
                                        bgcolor=v.BG))
         self.page.update()
+        self.draws += 1
 
     # -- screens ------------------------------------------------------------------------
     def _action(self, icon: ft.IconData, tip: str, identifier: str,
@@ -330,7 +339,15 @@ class FieldApp:
 
         Example: ``ft.Container(on_click=app.open_column(cid))``.
         """
-        return self._go(f"/columns/{column_id}")
+        route = f"/columns/{column_id}"
+
+        async def go(_e: Any = None) -> None:
+            # drawn at once, then the address follows: waiting for the browser to hand the
+            # route back first costs a round trip on every tap on a row
+            self._drawn = route
+            await self.show(route)
+            await self.page.push_route(route)
+        return go
 
     async def _load_visit(self, site_id: str) -> None:
         self.visit = await asyncio.to_thread(self.store.open_visit)
@@ -416,25 +433,41 @@ class FieldApp:
         opened = len(self.store.list_findings(d.site_id, status="open", column_id=column_id))
         return d, {"findings": opened, "retrofit": len(self.store.retrofits(column_id))}
 
-    def _load_column_and_visit(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int],
-                                                              Any]:
-        """(worker thread) The column, the numbers beside its tabs and the open visit: one
-        hop to the worker for the whole screen."""
+    def _load_column_and_visit(self, column_id: str, tab: Tab | None = None
+                               ) -> tuple[m.ColumnDetail, dict[str, int], Any, Any]:
+        """(worker thread) The column, the numbers beside its tabs, the open visit and what
+        ``tab`` shows (its ``fetch``): one trip to the worker for the whole screen."""
         d, counts = self._load_column(column_id)
-        return d, counts, self.store.open_visit()
+        return d, counts, self.store.open_visit(), \
+            None if tab is None else tab.fetch(self.store, column_id)
 
     async def _show_column(self, column_id: str) -> None:
         same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
-        self.detail, self.counts, self.visit = await asyncio.to_thread(
-            self._load_column_and_visit, column_id)
+        first: Tab | None = None
+        if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
+            tabs = {cls.name: cls(self) for cls in TABS}
+            first = tabs["check"] if type(tabs["check"]).fetch is not Tab.fetch else None
+        try:
+            self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                self._load_column_and_visit, column_id, first)
+        except (sqlite3.Error, OSError, StoreBusyError):
+            if first is None:
+                raise
+            # the tab's part could not be read: the column alone, the tab says why below
+            self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                self._load_column_and_visit, column_id)
+            first = None
         self.visit_id = self.visit.id if self.visit is not None and \
             self.visit.site_id == self.detail.site_id else None
-        if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
-            self.tabs = {cls.name: cls(self) for cls in TABS}
-            self.tab = "check"
+        if not same:
+            self.tabs, self.tab = tabs, "check"
             # the shown tab is read before the screen is drawn: one update carries the whole
             # screen (drawing it empty first, then again filled, sent every control twice)
-            await self._load_tab(draw=False)
+            if first is not None:
+                first.took(data)
+                self.tab_error = None
+            else:
+                await self._load_tab(draw=False)
         d = self.detail
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         shown = self._pane_controls()
@@ -509,6 +542,7 @@ class FieldApp:
             return
         self.pane.controls = self._pane_controls()
         self.page.update()
+        self.draws += 1
 
     async def _load_tab(self, *, draw: bool = True) -> None:
         """Read the shown tab's view-models; then draw it (unless ``draw`` is False: the
@@ -533,6 +567,7 @@ class FieldApp:
 
     def _choose_tab(self, name: str) -> Callable[..., Any]:
         async def choose(_e: Any = None) -> None:
+            ft.context.disable_auto_update()  # redraw and _load_tab send their own updates
             self.tab = name
             self.tab_error = None
             self.redraw()

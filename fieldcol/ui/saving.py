@@ -255,10 +255,12 @@ class Saver:
         # the words and the re-checked screen go to the client in one update: "Saved ...;
         # checked again: 0.58 OK" never shows above the old result
         self.say(text, button=self._undo if undo is not None else None, draw=False)
+        draws = getattr(app, "draws", 0)
         try:
             await app.changed()
         finally:
-            self.app.page.update()
+            if getattr(app, "draws", 0) == draws:  # nothing drawn: the words go alone
+                self.app.page.update()
         return result
 
     async def _run_retry(self, _e: Any = None) -> None:

@@ -39,14 +39,19 @@ class CheckTab(Tab):
         self.edit: ft.Control | None = None  # the edit card, made once (it holds the entries)
         self.trace: tuple[cm.CheckSummary, ft.Control] | None = None  # the trace of a summary
 
-    async def load(self) -> None:
-        """The latest check as the tab shows it (worker thread).
+    def fetch(self, store: Any, column_id: str) -> cm.CheckSummary | None:
+        """(worker thread) The latest check as the tab shows it.
 
-        Example: ``await tab.load()``.
+        Example: ``tab.took(tab.fetch(store, cid))``.
         """
-        d = self.app.detail
-        if d is not None:
-            self.summary = await asyncio.to_thread(cm.latest_summary, self.app.store, d.id)
+        return cm.latest_summary(store, column_id)
+
+    def took(self, data: cm.CheckSummary | None) -> None:
+        """Keep the summary read by ``fetch``.
+
+        Example: ``tab.took(summary)``.
+        """
+        self.summary = data
 
     def controls(self) -> list[ft.Control]:
         """Summary, caution, edit card, then modes, warnings, trace and the record.
@@ -91,6 +96,9 @@ class CheckTab(Tab):
                 *_keyed(v.record_body(d), "column", "record")]
 
     async def _save(self, e: Any) -> None:
+        # every path below sends its own update (the saver draws the re-checked tab): the one
+        # Flet adds after a handler would compare the whole screen again for nothing
+        ft.context.disable_auto_update()
         tf: ft.TextField = e.control
         name, text = tf.data, (tf.value or "")
         app, d = self.app, self.app.detail
