@@ -197,6 +197,8 @@ def _save_lengths(page: Any, n: int) -> list[float]:
             time.sleep(0.3)
             if page.evaluate("document.activeElement && document.activeElement.value") == value:
                 break
+        else:  # say so now rather than wait a minute for a save that was never asked for
+            raise RuntimeError(f"the length entry would not hold {value!r}")
         t0 = time.perf_counter()
         page.keyboard.press("Enter")
         _until(page, _RECHECKED, value)

@@ -586,14 +586,31 @@ class FieldApp:
             if not route.startswith("/columns/"):  # a column going away moves on by itself
                 await self.show(route)
             return
+        tab = self.tabs.get(self.tab)
+        # the column and the open tab's view in one trip to the worker (when the tab can)
+        both = tab if tab is not None and type(tab).fetch is not Tab.fetch else None
         try:
-            self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)
+            try:
+                self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                    self._load_column_and_visit, d.id, both)
+            except (sqlite3.Error, OSError, StoreBusyError):
+                if both is None:
+                    raise
+                self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)
+                both = None  # the tab reads again below and says why if it cannot
         except InputError:  # the column itself went (deleted): back to its site
             self.detail = None
             await self.page.push_route(f"/sites/{d.site_id}")
             return
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == self.detail.site_id else None
         await self._refresh_list()
-        await self._load_tab()
+        if both is not None and self.tab == both.name and self.tabs.get(self.tab) is both:
+            both.took(data)
+            self.tab_error = None
+            self.redraw()
+        else:
+            await self._load_tab()
 
     async def _refresh_list(self) -> None:
         """Read the list beside the column again (tablet) so it shows the new check."""
