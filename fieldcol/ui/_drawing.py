@@ -62,7 +62,7 @@ def _support(kind: str, x: float, y: float, top: bool) -> list[cv.Shape]:
     return out
 
 
-def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Canvas:
+def axis_canvas(a: AxisSketch, width: float = 166, height: float = 300) -> cv.Canvas:
     """The side view of one axis: the column, its ends, its braces (filled: counted; hollow and
     dashed: left out) and its first buckled shape (dashed), the axis that governs boxed.
 
@@ -75,7 +75,7 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
 
     Example: ``axis_canvas(sketch(record, "us").axes[1])``.
     """
-    top, bottom = 70.0, height - 40.0
+    top, bottom = 92.0 if a.governs else 70.0, height - 40.0
     x0 = width / 2
     amp = width * 0.28
 
@@ -87,9 +87,14 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
         shapes.append(cv.Rect(2, 2, width - 4, height - 4, border_radius=8,
                               paint=_paint(SHAPE, 3)))
     title = ("Strong axis" if a.axis == "strong" else "Weak axis")
-    shapes.append(_text(x0, 6, title, 15, INK, True, ft.Alignment.TOP_CENTER))
-    shapes.append(_text(x0, 24, ("GOVERNS · " if a.governs else "") + f"Lc {a.Lc_text}", 13,
-                        SHAPE if a.governs else MUTED, a.governs, ft.Alignment.TOP_CENTER))
+    # every word 16 px (read on a phone at arm's length); "GOVERNS" on a line of its own
+    shapes.append(_text(x0, 6, title, 16, INK, True, ft.Alignment.TOP_CENTER))
+    line = 26.0
+    if a.governs:
+        shapes.append(_text(x0, line, "GOVERNS", 16, SHAPE, True, ft.Alignment.TOP_CENTER))
+        line += 20
+    shapes.append(_text(x0, line, f"Lc {a.Lc_text}", 16, SHAPE if a.governs else MUTED,
+                        a.governs, ft.Alignment.TOP_CENTER))
     shapes.append(cv.Line(x0, y(0), x0, y(1), _paint(STEEL, 5)))
     if a.shape:
         path = [cv.Path.MoveTo(x0 + amp * a.shape[0][1], y(a.shape[0][0]))]
@@ -107,9 +112,10 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
             shapes.append(cv.Circle(x0, yy, 6, _paint(OFF, 2)))
         if kind in ("cable", "rod"):
             shapes.append(cv.Line(x0, yy, 10, max(top, yy - 40), _paint(INK if counted else OFF, 1.5)))
-        shapes.append(_text(10, yy + 4, kind if counted else f"{kind} (not counted)", 12,
-                            INK if counted else OFF))
-    shapes.append(_text(x0, height - 16, a.note, 13, MUTED, False, ft.Alignment.TOP_CENTER))
+        shapes.append(_text(4, yy + 4, kind, 16, INK if counted else OFF))
+        if not counted:  # said beside the column, where the brace line leaves room
+            shapes.append(_text(x0 + 8, yy + 4, "left out", 16, OFF))
+    shapes.append(_text(x0, height - 20, a.note, 16, MUTED, False, ft.Alignment.TOP_CENTER))
     return cv.Canvas(shapes=shapes, width=width, height=height)
 
 
