@@ -14,6 +14,7 @@ A tab is a class in its own module ``fieldcol/ui/tab_<name>.py``::
         def controls(self) -> list[ft.Control] # the body: synchronous, no I/O
         first: int | None                      # controls drawn in the first update on
                                                # opening (what a phone shows at once)
+        def shown(self) -> None                # chosen (again) and drawn: e.g. focus an entry
 
 A tab is made when its column is opened and kept while that column is shown (what is typed
 stays across a resize); ``self.redraw()`` draws the tab again after a local change (a form
@@ -79,6 +80,13 @@ class Tab:
         Example: ``tab.controls()``.
         """
         return []
+
+    def shown(self) -> None:
+        """Called when the tab is chosen (again), after it is drawn: e.g. an entry takes the
+        keyboard; nothing by default.
+
+        Example: ``tab.shown()``.
+        """
 
     def redraw(self) -> None:
         """Draw the column screen again when this tab is the one shown.

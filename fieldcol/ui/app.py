@@ -474,8 +474,8 @@ class FieldApp:
         # the top of the tab (the result, the caution) goes first, the rest in a second update:
         # what a phone shows at once is on screen while the part below is still on its way
         n = self.tabs[self.tab].first
-        first = len(shown) if n is None else 1 + max(1, n)
-        rest = shown[first:] if self.tab_error is None else []
+        k = len(shown) if n is None else 1 + max(1, n)
+        rest = shown[k:] if self.tab_error is None else []
         self.pane.controls = shown[:len(shown) - len(rest)]
         actions = [self._action(ft.Icons.CONTENT_COPY, "Duplicate: the next column like this one",
                                 "duplicate-column", self._duplicate),
@@ -572,6 +572,8 @@ class FieldApp:
             self.tab_error = None
             self.redraw()
             await self._load_tab()
+            if self.tab == name:
+                self.tabs[name].shown()  # e.g. the Condition tab's entry takes the keyboard
         return choose
 
     async def changed(self) -> None:

@@ -61,6 +61,7 @@ class ConditionTab(Tab):
         self._save_button = ec.big_button("Save reading", ft.Icons.SAVE, self._save,
                                           "save-reading")
         self._focus_task: asyncio.Task | None = None
+        self._typed_elsewhere = False  # the gauge or note typed since the focus was asked
 
     async def load(self) -> None:
         """Fetch the column's readings (worker thread) and redraw.
@@ -142,18 +143,30 @@ class ConditionTab(Tab):
         self._form_col.controls = [*self._form_head, *parts]
         return self.form
 
+    def shown(self) -> None:
+        """The tab was chosen (again): the bow entry takes the keyboard (a tap on the tab
+        takes it away from an entry already there).
+
+        Example: ``tab.shown()``.
+        """
+        if self.field is not None and self.correcting is None:
+            self._focus_soon(self.field)
+
     def _focus_soon(self, field: ft.TextField) -> None:
         """Give ``field`` the keyboard once it is on the screen (autofocus alone loses it when
-        the tap that opened the tab takes the focus back)."""
+        the tap that opened the tab takes the focus back); asked twice, the second time for a
+        device slow to draw, unless something else was typed meanwhile."""
+        self._typed_elsewhere = False
+
         async def focus() -> None:
-            for wait in (0.15, 0.5, 1.0):
+            for wait in (0.15, 0.5):
                 await asyncio.sleep(wait)  # drawn first: the update leaves before this call
-                if field is not self.field or self.app.tab != self.name:
-                    return  # another entry, or another tab, by now
+                if field is not self.field or self.app.tab != self.name \
+                        or self._typed_elsewhere:
+                    return  # another entry, another tab, or the gauge or note being typed
                 try:
                     await asyncio.wait_for(field.focus(), 2)
-                    return
-                except Exception:  # not on the device yet (or gone): try once more
+                except Exception:  # not on the device yet (or gone): the next try, if any
                     continue
         try:
             loop = asyncio.get_running_loop()
@@ -212,9 +225,11 @@ class ConditionTab(Tab):
 
     def _typed_gauge(self, e: Any) -> None:
         self.gauges[self.kind] = e.control.value or ""
+        self._typed_elsewhere = True
 
     def _typed_note(self, e: Any) -> None:
         self.note = e.control.value or ""
+        self._typed_elsewhere = True
 
     def _typed_fix(self, key: str) -> Callable[[Any], None]:
         def keep(e: Any) -> None:
