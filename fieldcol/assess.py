@@ -445,6 +445,11 @@ def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength],
         from fieldcol.codes.builtup import check_builtup
         return check_builtup(col.code, col.built, *args[1:], basis=col.basis,
                              gamma_M1=col.gamma_M1)
+    if col.plate_joint is not None:
+        from fieldcol.codes.coverplates import check_riveted_plates
+        return check_riveted_plates(col.code, col.plate_joint, *args, basis=col.basis,
+                                    gamma_M1=col.gamma_M1,
+                                    high_strength=mat.key.upper() == "S460")
     if col.code == "aisc360-22":
         return check_aisc360(*args, basis=col.basis)
     if col.code == "en1993-1-1":

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
 from fieldcol.errors import InputError
@@ -128,6 +128,7 @@ class ColumnInput:
     knowledge: float = 1.0         # knowledge factor on every capacity (1.0: not applied)
     knowledge_label: str = "not given"
     built: Any = None              # a fieldcol.sections BuiltUp when the section is built up
+    plate_joint: Any = None        # a codes.coverplates.PlateJoint: cover plates riveted or bolted
 
 
 @dataclass(frozen=True)
@@ -220,7 +221,22 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
                        code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
-                       plumb_axis, band, kappa, kappa_label, built)
+                       plumb_axis, band, kappa, kappa_label, built,
+                       _record_plate_joint(spec, section))
+
+
+def _record_plate_joint(spec: Any, section: Section) -> Any:
+    """The cover plates' fasteners of a record's section (already read once by parse_section)."""
+    plates = spec.get("plates") if isinstance(spec, Mapping) else None
+    if not isinstance(plates, Mapping) or plates.get("connection", "welded") == "welded":
+        return None
+    tp = parse_length(plates.get("thickness", ""), "section.plates.thickness")
+    bp = (None if plates.get("width") in (None, "")
+          else parse_length(plates["width"], "section.plates.width"))
+    # the plated section's bf is the flange width (with_plates keeps it); the shape without
+    # the plates is kept too: plates never make the column weaker than the shape alone
+    bare = parse_section({k: v for k, v in spec.items() if k != "plates"})
+    return replace(_plate_joint(plates, "section", tp, bp, section), bare=bare)
 
 
 #: Knowledge settings of the kind used in existing-building assessment (ASCE 41 data collection
@@ -336,8 +352,28 @@ def parse_section(spec: Any, fld: str = "section", *, band: bool = False) -> Sec
         tp = parse_length(plates.get("thickness", ""), f"{fld}.plates.thickness")
         bp = (None if plates.get("width") in (None, "")
               else parse_length(plates["width"], f"{fld}.plates.width"))
-        sec = with_plates(sec, tp, bp, field=f"{fld}.plates")
+        how = _plate_joint(plates, fld, tp, bp, sec)
+        sec = with_plates(sec, tp, bp, field=f"{fld}.plates",
+                          how="welded" if how is None else how.connection)
     return sec
+
+
+def _plate_joint(plates: Mapping[str, Any], fld: str, tp: float, bp: float | None,
+                 sec: Section) -> Any:
+    """The cover plates' fasteners (a ``codes.coverplates.PlateJoint``), None when welded."""
+    from fieldcol.codes.coverplates import CONNECTIONS, PlateJoint
+
+    how = _choice(plates.get("connection", "welded"), CONNECTIONS, f"{fld}.plates.connection")
+    if how == "welded":
+        if plates.get("pitch") not in (None, ""):
+            raise InputError(f"{fld}.plates.pitch", plates["pitch"], "welded plates have no "
+                             "fastener pitch", "give the connection: riveted or bolted")
+        return None
+    if plates.get("pitch") in (None, ""):
+        raise InputError(f"{fld}.plates.pitch", "", f"required for {how} plates",
+                         "the spacing of the rivets or bolts along the column, e.g. 6 in")
+    pitch = parse_length(plates["pitch"], f"{fld}.plates.pitch")
+    return PlateJoint(how, pitch, float(tp), float(sec.bf if bp is None else bp))
 
 
 def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None) -> Material:

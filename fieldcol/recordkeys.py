@@ -37,7 +37,7 @@ KEYS: dict[str, tuple[str, ...]] = {
     "lacing": ("kind", "width", "thickness", "pitch", "planes"),
     "battens": ("spacing", "depth", "thickness", "planes"),
     "section loss": ("flange", "web", "wall", "uniform", "from", "to"),
-    "cover plates": ("thickness", "width"),
+    "cover plates": ("thickness", "width", "connection", "pitch"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
     "restraints": ("strong", "weak", "twist"),

@@ -1,6 +1,7 @@
 """The Section tab's built-up card in a real browser (Debian chromium via Playwright, the app on
 loopback with the demo): two channels with battens typed at 390 px, the sketch and the
-properties shown, saved and checked again, then undone. Screenshot `section-built-up.png`.
+properties shown, saved and checked again, then undone. Screenshot `section-built-up.png`. Cover plates riveted at a pitch on a rolled
+shape (a missing pitch refused at its field first); screenshot `section-plates-riveted.png`.
 
 The properties shown are the engine's, checked against sectionproperties in
 tests/test_sections_builtup.py.
@@ -41,5 +42,32 @@ def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
     _click(page, "save-undo")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "Built up" not in t, "undone")
+    _offline(page)
+    page.context.close()
+
+
+def test_phone_cover_plates_riveted_with_their_pitch(server, browser):
+    # the record keys are the README's (section.plates.connection, pitch); a missing pitch is
+    # named at its field in plain words and nothing is saved
+    page = _open(browser, server, PHONE)
+    _column(page, "D/2-G")
+    _tab(page, "section")
+    _find(page, "plate-connection-riveted")
+    _click(page, "plate-connection-riveted", done=lambda: page.locator(
+        _sel("plate-pitch")).count() == 1)
+    _find(page, "plate-thickness")
+    _type_into(page, "plate-thickness", "3/8", enter=False)
+    _find(page, "save-plates")
+    _click(page, "save-plates")
+    _poll(lambda: _words(page, "save-note"),
+          lambda t: "not saved" in t and "Rivet pitch is needed" in t, "the missing pitch")
+    _find(page, "plate-pitch")
+    _type_into(page, "plate-pitch", "6", enter=False)
+    _big_enough(page, "plate-connection-riveted", "plate-pitch", "save-plates")
+    _shot(page, "section-plates-riveted.png")
+    _click(page, "save-plates")
+    _poll(lambda: _words(page, "save-note"),
+          lambda t: "Saved cover plates 3/8 in, riveted at 6 in; checked again:" in t,
+          "the save note")
     _offline(page)
     page.context.close()

@@ -99,3 +99,22 @@ def test_a_thickness_reading_on_a_built_up_column_is_refused_not_ignored(demo): 
     assert e.value.field == "element" and "built-up" in str(e.value)
     assert len(store.measurements(cid)) == n
     assert r.add_reading(store, cid, "bow", "1/8", axis="strong", person="T. Nguyen").label
+
+
+def test_the_sketch_draws_the_lacing_and_the_battens():
+    # the cross-section shows the ties as thin plates on the open faces; the side view shows
+    # the chords and a zig-zag of lacing (single: a diagonal every half pitch, three pitches),
+    # crossed diagonals (double) or the battens
+    laced = {"channel": "C12X20.7", "gap": "6", "lacing.width": "2", "lacing.thickness": "3/8",
+             "lacing.pitch": "16"}
+    p = bm.built_preview("channels", "lacing", laced, "us")
+    assert p.error is None and len(p.ties) == 2
+    chords, zigzag = p.elevation[:2], p.elevation[2]
+    assert all(x == c[0][0] for c in chords for x, _ in c) and len(zigzag) == 7
+    assert {x for x, _ in zigzag} == {0.2, 0.8} and "single lacing" in p.elevation_label
+    assert all(0 <= x <= 1 and 0 <= y <= 1 for poly in p.polygons + p.ties for x, y in poly)
+    b = bm.built_preview("channels", "battens", BATTENED, "us")
+    assert len(b.elevation) == 2 + 4 and "battens every 610 mm" in b.elevation_label
+    stitched = bm.built_preview("channels", "stitch", {"channel": "C12X20.7", "gap": "6",
+                                                       "pitch": "24"}, "us")
+    assert stitched.ties == [] and stitched.elevation == []

@@ -5,11 +5,13 @@
   lacing or battens.
 * AISC 360-22 E6.1: the modified slenderness (Lc/r)m about an open axis (rivets and bolts as
   snug-tight, welds as welded), used in E3 in place of Lc/r; E6.2 spacing limits and the
-  lacing and tie plate rules as warnings.
+  lacing and tie plate proportions as warnings; the lacing carries 2 % of the member's
+  strength (where it cannot, the strength about that axis is lowered to what it can).
 * EN 1993-1-1 6.4: laced and battened members: Ieff, Sv, e0 = L/500, the chord force at
   mid-length checked against the chord's buckling between panel points (6.4.2.1, 6.4.3.1),
-  the end panel of a battened member and the lacing bars; the capacity is the largest N_Ed
-  these checks pass. About a solid axis: 6.3.1 with curve c (riveted built-up members are not
+  the end panel of a battened member, the battens (moment V_Ed a / 2n, shear V_Ed a / (n h0))
+  and the lacing bars; the capacity is the largest N_Ed these checks pass, and the forces in
+  the lacing, the battens and their joints at that N_Ed are reported. About a solid axis: 6.3.1 with curve c (riveted built-up members are not
   in Table 6.2: the curve of U, T and solid sections, common practice).
 
 Every part's plate elements are classified (AISC Table B4.1a, EN Table 5.2); a slender
@@ -265,7 +267,14 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
                                         f"component exceeds 3/4 of the member's governing "
                                         f"slenderness ({0.75 * worst:.0f}) ({E6}.2)", one))
             _aisc_ties(ax, warnings, one)
+            if isinstance(ax.tie, Battens):
+                t.add("note", "end tie plates (not recorded) must be at least as long as the "
+                      "distance between the lines of connectors (taken as h0), intermediate "
+                      "ones half that, and at least 1/50 of it thick", "", "", "", f"{E6}.2")
         res = check_aisc360(plain, Fy, E, G, Lm["strong"], Lm["weak"], Lc_twist, basis=basis)
+        for ax in built.open_axes:
+            if isinstance(ax.tie, Lacing):
+                _aisc_lacing_shear(ax, res, float(sec.A), Fy, E, post, warnings, one)
         factor = 0.90 if basis == "lrfd" else 1 / 1.67
         clause = "AISC 360-22 E1, E6"
     elif code == "en1993-1-1":
@@ -273,24 +282,28 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
         A = float(sec.A)
         for o in ("strong", "weak"):
             ax = built.open_axis(o)
+            I = float(getattr(sec, _I[o]))
             if ax is None:
-                I = float(getattr(sec, _I[o]))
-                Ncr = post.add(f"Ncr,{o}", f"elastic critical load, {o} axis (solid)",
-                               "pi^2 E I / Lc^2", np.pi**2 * E * I / Lc[o]**2, "N",
-                               "EN 1993-1-1 6.3.1.2")
-                lb = post.add(f"lb,{o}", f"slenderness, {o} axis (solid)", "sqrt(A fy / Ncr)",
-                           np.sqrt(A * Fy / Ncr), "", "EN 1993-1-1 6.3.1.3")
-                chi = post.add(f"chi,{o}", f"reduction factor, {o} axis, curve c (built-up, "
-                            "common practice)", "(6.49), alpha 0.49",
-                            float(reduction_factor(lb, 0.49)), "", "EN 1993-1-1 6.3.1.2")
-                res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(lb),
-                                                 np.array(Ncr), np.array(chi * Fy),
-                                                 np.array(chi * A * Fy))
-            else:
-                cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
-                res.modes[_MODE[o]] = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan),
-                                                 np.array(Neff), np.array(cap * gamma_M1 / A),
-                                                 np.array(cap * gamma_M1))
+                res.modes[_MODE[o]] = _en_solid(o, I, A, Lc[o], Fy, E, post, "solid")
+                continue
+            integral = None
+            if ax.tie is None:
+                close = _closely_spaced(ax, post)
+                integral = _en_solid(o, I, A, Lc[o], Fy, E, post,
+                                     "one integral member, Sv infinite" if close else
+                                     "as one integral member, for the bound",
+                                     "" if close else "int,")
+                if close:
+                    res.modes[_MODE[o]] = integral
+                    continue
+            cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
+            mode = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan), np.array(Neff),
+                              np.array(cap * gamma_M1 / A), np.array(cap * gamma_M1))
+            if integral is not None and float(integral.Pn) < float(mode.Pn):
+                post.add("note", f"{o} axis: the integral member's resistance is lower and "
+                         "governs (a battened treatment never gives more)", "", "", "", EN64)
+                mode = integral
+            res.modes[_MODE[o]] = mode
         factor, clause = 1 / gamma_M1, f"EN 1993-1-1 6.3.1, {EN64}"
     else:
         res = check_elastic(plain, Fy, E, G, Lc_strong, Lc_weak, Lc_twist)
@@ -385,6 +398,90 @@ def _aisc_ties(ax: OpenAxis, warnings: list[Warning], one: np.ndarray) -> None:
                                     f"distance between the chords ({E6}.2)", one))
 
 
+def lacing_bar(ax: OpenAxis) -> tuple[float, float, float]:
+    """(unbraced length, radius of gyration, share of the shear per plane) of one lacing bar.
+
+    A flat bar buckles about its thin axis, r = t / sqrt(12); crossed (double) lacing joined at
+    its crossing buckles over 0.7 d and each bar takes half the shear (AISC 360-22 E6.2, from
+    memory; common practice for EN).
+
+    Example:
+        >>> ax = OpenAxis("weak", 300.0, 5000.0, 2e6, 20.0, 800.0, Lacing("double", 40, 8, 800), "c")
+        >>> [round(v, 2) for v in lacing_bar(ax)]
+        [598.08, 2.31, 2.0]
+    """
+    d, _ = lacing_geometry(ax)
+    double = ax.tie.kind == "double"
+    return (0.7 * d if double else d), float(ax.tie.thickness / np.sqrt(12)), (2.0 if double else 1.0)
+
+
+def _aisc_lacing_shear(ax: OpenAxis, res: CodeResult, A: float, Fy: float, E: float, t: Trace,
+                       warnings: list[Warning], one: np.ndarray) -> None:
+    """AISC 360-22 E6.2 (from memory): lacing proportioned for a shear normal to the member of
+    2 % of its available compressive strength. The bars are E3 struts; where they cannot carry
+    that shear, the member strength about this axis is lowered until they can (0.02 phi Pn <=
+    phi Pbar holds in nominal terms, so it is the same for LRFD and ASD)."""
+    o = ax.axis
+    tie = ax.tie
+    d, _ = lacing_geometry(ax)
+    Lb, rb, share = lacing_bar(ax)
+    slender = Lb / rb
+    Fe = np.pi**2 * E / slender**2
+    Fcr = 0.658 ** (Fy / Fe) * Fy if Fy / Fe <= 2.25 else 0.877 * Fe
+    Pbar = t.add(f"Pn,bar,{o}", f"nominal strength of one lacing bar, {o} axis (L/r "
+                 f"{slender:.0f})", "Fcr Ad (E3)", Fcr * tie.area, "N", "AISC 360-22 E3, E6.2")
+    mode = res.modes[_MODE[o]]
+    Pn = float(np.asarray(mode.Pn).reshape(-1)[0])
+    V = t.add(f"V,lacing,{o}", f"shear the lacing must carry, {o} axis", "0.02 Pn",
+              0.02 * Pn, "N", f"{E6}.2")
+    Nbar = t.add(f"N,bar,{o}", f"force in one lacing bar, {o} axis", "V d / (n s h0)",
+                 V * d / (tie.planes * share * ax.h0), "N", f"{E6}.2 (statics of the panel)")
+    if Nbar > Pbar:
+        limit = Pn * Pbar / Nbar
+        t.add(f"Pn,lacing,{o}", f"member strength the lacing allows, {o} axis", "Pn Pbar / Nbar",
+              limit, "N", f"{E6}.2")
+        res.modes[_MODE[o]] = replace(mode, Pn=np.array(limit), Fcr=np.array(limit / A))
+        warnings.append(Warning("lacing-shear", f"the lacing bars cannot carry 2 % of the "
+                                f"member's strength ({E6}.2): the {o}-axis strength is lowered "
+                                "to what they can carry", one))
+
+
+def _en_ties(ax: OpenAxis, N: float, L: float, E: float, fy: float, t: Trace) -> None:
+    """The forces in the lacing or battens and their connections at N (EN 1993-1-1 6.4.1 (7),
+    6.4.2.2, 6.4.3.1 (2) and Fig. 6.11, from memory): V_Ed = pi M_Ed / L; a lacing bar
+    N_d = V_Ed d / (n s h0); a batten (one of n planes) V_b = V_Ed a / (n h0) and
+    M_b = V_Ed a / (2 n); a joint carries the bar force, or the batten's V_b and M_b."""
+    o = ax.axis
+    _, M, V = chord_force(ax, N, L, E)
+    t.add(f"V_Ed,{o}", f"shear across the member at N_Ed = N_b,Rd, {o} axis", "pi M_Ed / L",
+          V, "N", f"{EN64}.1 (7)")
+    if isinstance(ax.tie, Lacing):
+        d, _ = lacing_geometry(ax)
+        _, _, share = lacing_bar(ax)
+        Nd = t.add(f"N_d,Ed,{o}", f"force in one lacing bar, {o} axis", "V_Ed d / (n s h0)",
+                   V * d / (ax.tie.planes * share * ax.h0), "N", f"{EN64}.2.2")
+        t.add(f"F_joint,{o}", f"demand on each lacing bar's end connection, {o} axis",
+              "N_d,Ed", Nd, "N", f"{EN64}.2.2 (connections: check the rivets or welds)")
+    elif isinstance(ax.tie, Battens):
+        n = ax.tie.planes
+        Vb = t.add(f"V_b,Ed,{o}", f"shear in one batten, {o} axis", "V_Ed a / (n h0)",
+                   V * ax.a / (n * ax.h0), "N", f"{EN64}.3.1 (2), Fig. 6.11")
+        Mb = t.add(f"M_b,Ed,{o}", f"moment in one batten at the chord, {o} axis",
+                   "V_Ed a / (2 n)", V * ax.a / (2 * n), "N mm", f"{EN64}.3.1 (2), Fig. 6.11")
+        t.add(f"F_joint,{o}", f"demand on each batten's connection to a chord, {o} axis: "
+              f"shear {Vb / 1e3:.1f} kN with moment {Mb / 1e6:.2f} kN m", "V_b,Ed, M_b,Ed",
+              Vb, "N", f"{EN64}.3.1 (2) (connections: check the rivet group or welds)")
+
+
+def _batten_ratio(ax: OpenAxis, V: float, fy: float) -> float:
+    """Utilization of one batten for its moment (elastic, W = t b^2 / 6) and shear
+    (Av = t b, fy / sqrt(3)), gamma_M0 = 1.0 recommended (EN 1993-1-1 6.2.5, 6.2.6)."""
+    b = ax.tie
+    Mb = V * ax.a / (2 * b.planes)
+    Vb = V * ax.a / (b.planes * ax.h0)
+    return max(Mb / (b.thickness * b.depth**2 / 6 * fy), Vb / (b.thickness * b.depth * fy / np.sqrt(3)))
+
+
 def _chord_resistance(ax: OpenAxis, fy: float, E: float, gamma_M1: float, t: Trace,
                       o: str) -> float:
     """N_b,Rd of one chord over the panel length a, about its least axis (conservative)."""
@@ -396,6 +493,48 @@ def _chord_resistance(ax: OpenAxis, fy: float, E: float, gamma_M1: float, t: Tra
     return t.add(f"Nb,Rd,ch,{o}", f"chord buckling resistance over a panel, {o} axis "
                  f"(curve {'b' if alpha == 0.34 else 'c'})", "chi Ach fy / gamma_M1",
                  chi * ax.Ach * fy / gamma_M1, "N", "EN 1993-1-1 6.3.1")
+
+
+def _en_solid(o: str, I: float, A: float, L: float, fy: float, E: float, t: Trace,
+              how: str, tag: str = "") -> ModeResult:
+    """Flexural buckling about an axis of the whole section (6.3.1), curve c: riveted
+    built-up members are not in Table 6.2; curve c is that of U, T and solid sections
+    (common practice)."""
+    Ncr = t.add(f"Ncr,{tag}{o}", f"elastic critical load, {o} axis ({how})", "pi^2 E I / Lc^2",
+                np.pi**2 * E * I / L**2, "N", "EN 1993-1-1 6.3.1.2")
+    lb = t.add(f"lb,{tag}{o}", f"slenderness, {o} axis ({how})", "sqrt(A fy / Ncr)",
+               np.sqrt(A * fy / Ncr), "", "EN 1993-1-1 6.3.1.3")
+    chi = t.add(f"chi,{tag}{o}", f"reduction factor, {o} axis, curve c (built-up, common practice)",
+                "(6.49), alpha 0.49", float(reduction_factor(lb, 0.49)), "",
+                "EN 1993-1-1 6.3.1.2")
+    return ModeResult(_MODE[o], np.array(L), np.array(lb), np.array(Ncr), np.array(chi * fy),
+                      np.array(chi * A * fy))
+
+
+#: EN 1993-1-1 Table 6.9 (from memory): largest spacing of the interconnections of a closely
+#: spaced built-up member, in radii of gyration imin of one chord: 15 for chords in contact or
+#: on packing plates (Fig. 6.12); 70 for star-battened angles with battens in pairs (Fig. 6.13).
+#: A cross of four angles on packings is taken with 15 (each pair is back to back on packings).
+CLOSE_SPACING = 15.0
+
+
+def _closely_spaced(ax: OpenAxis, t: Trace) -> bool:
+    """EN 1993-1-1 6.4.4 (1): chords in contact or on packings, joined at most 15 imin apart
+    (Table 6.9): one integral member (Sv infinite); otherwise (2): treated as battened."""
+    o = ax.axis
+    ratio = t.add(f"a/imin,{o}", f"interconnection spacing over the least radius of one "
+                  f"chord, {o} axis (limit {CLOSE_SPACING:.0f})", "a / imin", ax.a / ax.ri, "",
+                  f"{EN64}.4 Table 6.9")
+    close = ax.back_to_back and ratio <= CLOSE_SPACING
+    if close:
+        t.add("note", f"{o} axis: closely spaced chords within the Table 6.9 spacing: buckling "
+              "checked as one integral member, shear stiffness ignored", "", "", "", f"{EN64}.4 (1)")
+    else:
+        why = ("the chords stand apart (not in contact or on packings)" if not ax.back_to_back
+               else f"the interconnections are more than {CLOSE_SPACING:.0f} imin apart")
+        t.add("note", f"{o} axis: {why}: treated as a battened member, the interconnections "
+              "taken as rigid battens", "", "", "", f"{EN64}.4 (2)")
+    return close
 
 
 def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_M1: float,
@@ -417,10 +556,12 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
     lam_bar = ax.a / ax.ri / (np.pi * np.sqrt(E / fy))
     lacing_Rd = None
     if isinstance(ax.tie, Lacing):
-        d, _ = lacing_geometry(ax)
+        # the whole diagonal, crossed or not: EN gives no shorter length (on the safe side)
+        Lb, _ = lacing_geometry(ax)
         i_bar = ax.tie.thickness / np.sqrt(12)
-        lb_d = d / i_bar / (np.pi * np.sqrt(E / fy))
-        lacing_Rd = t.add(f"Nb,Rd,d,{o}", f"lacing bar buckling resistance, {o} axis (curve c)",
+        lb_d = Lb / i_bar / (np.pi * np.sqrt(E / fy))
+        lacing_Rd = t.add(f"Nb,Rd,d,{o}", f"lacing bar buckling resistance, {o} axis (curve c, "
+                          f"over {Lb:.0f} mm)",
                           "chi Ad fy / gamma_M1", float(reduction_factor(lb_d, 0.49)) *
                           ax.tie.area * fy / gamma_M1, "N", "EN 1993-1-1 6.3.1")
 
@@ -431,10 +572,11 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
         worst = Nch / Nb_ch
         if isinstance(ax.tie, Battens):
             k = 1 + 0.6 * min(lam_bar, 1.0) * (0.5 * N / Nb_ch)
-            worst = max(worst, 0.5 * N / Nb_ch + k * (V * ax.a / 4) / (W * fy / gamma_M1))
+            worst = max(worst, 0.5 * N / Nb_ch + k * (V * ax.a / 4) / (W * fy / gamma_M1),
+                        _batten_ratio(ax, V, fy))
         if lacing_Rd is not None:
             d, _ = lacing_geometry(ax)
-            share = 2.0 if ax.tie.kind == "double" else 1.0
+            _, _, share = lacing_bar(ax)
             worst = max(worst, V * d / (ax.tie.planes * share * ax.h0) / lacing_Rd)
         return worst
 
@@ -447,7 +589,5 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
                                                       else "") + (" and lacing" if lacing_Rd else "")
           + f" checks pass, {o} axis", "N_ch,Ed = 0.5 N_Ed + M_Ed h0 Ach / (2 Ieff), "
           "M_Ed = N_Ed e0 / (1 - N_Ed/Ncr - N_Ed/Sv)", cap, "N", f"{EN64}.1 (6.69), (6.70)")
-    if isinstance(ax.tie, Battens):
-        t.add("note", "battens and their connections are not checked here (EN 1993-1-1 "
-              "6.4.3.1 (2)): check them for V_Ed a / 2", "", "", "", EN64)
+    _en_ties(ax, cap, L, E, fy, t)
     return cap, 1 / (1 / Ncr + 1 / Sv)

@@ -62,14 +62,14 @@ def _first(bad: np.ndarray, values: np.ndarray) -> tuple[str, float]:
     return f"[{','.join(map(str, idx))}]", float(vals[idx])
 
 
-def _note(tp: np.ndarray, bp: np.ndarray) -> str:
+def _note(tp: np.ndarray, bp: np.ndarray, how: str = "welded") -> str:
     if tp.size == 1 and bp.size == 1:
-        return f"cover plates 2 x {float(tp):.1f} x {float(bp):.1f} mm welded to the flanges"
-    return "cover plates 2 x tp x bp (per column) welded to the flanges"
+        return f"cover plates 2 x {float(tp):.1f} x {float(bp):.1f} mm {how} to the flanges"
+    return f"cover plates 2 x tp x bp (per column) {how} to the flanges"
 
 
 def with_plates(section: Section, thickness: ArrayLike, width: ArrayLike | None = None, *,
-                field: str = "section.plates") -> Section:
+                field: str = "section.plates", how: str = "welded") -> Section:
     """The built-up section of an I with a cover plate welded to the outer face of each flange.
 
     Args:
@@ -77,6 +77,8 @@ def with_plates(section: Section, thickness: ArrayLike, width: ArrayLike | None 
         thickness: plate thickness tp (mm), > 0; arrays broadcast with the section.
         width: plate width bp (mm), > 0 and at most bf + 2 x 25 mm; None for the flange width.
         field: the field named in errors (``<field>.thickness``, ``<field>.width``).
+        how: ``welded`` (default), ``riveted`` or ``bolted``, for the note (the properties are
+            the same; ``codes.coverplates`` checks the fasteners' spacing).
     Returns:
         A new Section (kind ``"i"``, ``rolled=False``) with the composite properties (see the
         module notes for the rules) and the note
@@ -140,7 +142,7 @@ def with_plates(section: Section, thickness: ArrayLike, width: ArrayLike | None 
     yc = (Af * (d0 / 2 - tf0 / 2) + Ap * y) / (Af + Ap)
     ho = 2 * yc
     Cw = (Iy / 2) * ho**2 / 2
-    note = _note(tp, bp)
+    note = _note(tp, bp, how)
     rules = ("cover plates: plate slenderness of the unplated section kept (no credit for the "
              "plates), tf = the thicker of flange and plate, J with the plates as separate "
              "thin rectangles")

@@ -3,7 +3,9 @@ sketch of the parts drawn from what is typed, the properties, and Save.
 
 Identifiers: ``built-card``, ``built-<arrangement>``, ``built-tie-<tie>``, ``built-toes-<out|in>``,
 ``built-connection-<kind>``, ``built-<key>`` (an entry: ``built-channel``,
-``built-battens.spacing``), ``built-sketch``, ``built-preview``, ``save-built``.
+``built-battens.spacing``), ``built-sketch`` (the parts with the lacing or battens on the open
+faces), ``built-elevation`` (a side view of one face with the lacing or battens; shown when the
+chords stand apart), ``built-preview``, ``save-built``.
 """
 
 from __future__ import annotations
@@ -47,6 +49,45 @@ def sketch(polygons: list[list[tuple[float, float]]], size: float = _SKETCH) -> 
         shapes.append(cv.Path(els, ft.Paint(color=_STEEL, stroke_width=1.5,
                                             style=ft.PaintingStyle.STROKE)))
     return cv.Canvas(shapes, width=size, height=size)
+
+
+def _outline(poly: list[tuple[float, float]], pad: float, scale: float, paint: ft.Paint,
+             close: bool = True) -> cv.Path:
+    els = [cv.Path.MoveTo(pad + poly[0][0] * scale, pad + poly[0][1] * scale)]
+    els += [cv.Path.LineTo(pad + x * scale, pad + y * scale) for x, y in poly[1:]]
+    if close:
+        els.append(cv.Path.Close())
+    return cv.Path(els, paint)
+
+
+def tie_sketch(polygons: list[list[tuple[float, float]]], ties: list[list[tuple[float, float]]],
+               size: float = _SKETCH) -> cv.Canvas:
+    """The parts (filled) with the lacing or battens on the open faces (outlined only).
+
+    Example: ``tie_sketch([[(0, 0), (1, 0), (1, 1)]], [[(0, 0), (1, 0), (1, .02), (0, .02)]])``.
+    """
+    canvas = sketch(polygons, size)
+    pad, scale = 10.0, size - 20.0
+    canvas.shapes += [_outline(t, pad, scale, ft.Paint(color=_STEEL, stroke_width=1.0,
+                                                       style=ft.PaintingStyle.STROKE))
+                      for t in ties if len(t) >= 3]
+    return canvas
+
+
+def elevation(lines: list[list[tuple[float, float]]], size: float = _SKETCH) -> cv.Canvas:
+    """A side view of one open face: the chords (thick) and the lacing or battens (thin).
+
+    Example: ``elevation([[(0.2, 0), (0.2, 1)], [(0.8, 0), (0.8, 1)], [(0.2, 0), (0.8, 0.5)]])``.
+    """
+    pad, wide = 10.0, size * 0.45           # beside the section on a phone, not below it
+    shapes: list[cv.Shape] = []
+    for i, line in enumerate(lines):
+        width = 4.0 if i < 2 else 1.5          # the first two lines are the chords
+        pts = [(x * (wide - 2 * pad) / (size - 2 * pad), y) for x, y in line]
+        shapes.append(_outline(pts, pad, size - 2 * pad,
+                               ft.Paint(color=_STEEL, stroke_width=width,
+                                        style=ft.PaintingStyle.STROKE), close=False))
+    return cv.Canvas(shapes, width=wide, height=size)
 
 
 class BuiltCard:
@@ -118,9 +159,15 @@ class BuiltCard:
         if p.error:
             self.area.controls = [text_line(p.error, size=16, color=TONES["over"][0])]
             return
-        self.area.controls = [
+        views: list[ft.Control] = [
             ft.Semantics(identifier="built-sketch", label="sketch of the built-up section",
-                         content=sketch(p.polygons)),
+                         content=tie_sketch(p.polygons, p.ties))]
+        if p.elevation:
+            views.append(ft.Semantics(identifier="built-elevation",
+                                      label=f"side view of one face: {p.elevation_label}",
+                                      content=elevation(p.elevation)))
+        self.area.controls = [
+            ft.Row(views, spacing=8, vertical_alignment=ft.CrossAxisAlignment.START),
             ft.Semantics(identifier="built-preview", content=ft.Column(
                 [ec.value_line(x.label, x.value) for x in p.lines], spacing=4)),
             text_line(p.measure, size=16, color=MUTED)]

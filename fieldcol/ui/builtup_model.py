@@ -98,6 +98,60 @@ class BuiltPreview:
     measure: str = ""
     error: str | None = None
     error_key: str | None = None
+    # the lacing bars or battens seen in the cross-section (thin plates on the open faces)
+    ties: list[list[tuple[float, float]]] = field(default_factory=list)
+    # a side view of one open face over three panels: the two chords and the lacing or
+    # battens between them, as polylines in a unit box (y down); empty when solid
+    elevation: list[list[tuple[float, float]]] = field(default_factory=list)
+    elevation_label: str = ""
+
+
+def _elevation(tie: Any, h0: float) -> tuple[list[list[tuple[float, float]]], str]:
+    """Polylines of one open face seen from the side: chords at x = 0.2 and 0.8, three panels
+    of the ties over the height, to scale along the column (the width is not to scale)."""
+    from fieldcol.sections._builtup import Battens, Lacing
+
+    left, right = 0.2, 0.8
+    lines = [[(left, 0.0), (left, 1.0)], [(right, 0.0), (right, 1.0)]]
+    if isinstance(tie, Lacing):
+        n = 3
+        step = 1.0 / n
+        if tie.kind == "double":
+            for i in range(n):
+                y0, y1 = i * step, (i + 1) * step
+                lines += [[(left, y0), (right, y1)], [(right, y0), (left, y1)]]
+        else:
+            # single: a zig-zag, a diagonal for every half pitch; posts add the horizontals
+            pts = [(left if i % 2 == 0 else right, i * step / 2) for i in range(2 * n + 1)]
+            lines.append(pts)
+            if tie.kind == "posts":
+                lines += [[(left, y), (right, y)] for _, y in pts]
+        return lines, f"{tie.kind} lacing, pitch {tie.pitch:.0f} mm"
+    if isinstance(tie, Battens):
+        n = 3
+        depth = min(tie.depth / tie.spacing, 0.8) / n
+        for i in range(n + 1):
+            yc = i / n
+            y0, y1 = max(yc - depth / 2, 0.0), min(yc + depth / 2, 1.0)
+            lines.append([(left, y0), (right, y0), (right, y1), (left, y1), (left, y0)])
+        return lines, f"battens every {tie.spacing:.0f} mm"
+    return [], ""
+
+
+def _face_ties(arrangement: str, tie: Any, box: tuple[float, float, float, float]
+               ) -> list[list[tuple[float, float]]]:
+    """Thin rectangles for the lacing or battens on the open faces of the cross-section."""
+    from fieldcol.sections._builtup import Battens, Lacing
+
+    if not isinstance(tie, (Lacing, Battens)):
+        return []
+    x0, y0, x1, y1 = box
+    t = max(tie.thickness, 0.01 * max(x1 - x0, y1 - y0))
+    rect = lambda a, b, c, d: [(a, b), (c, b), (c, d), (a, d)]  # noqa: E731
+    out = [rect(x0, y1, x1, y1 + t), rect(x0, y0 - t, x1, y0)]       # top and bottom faces
+    if arrangement == "angles-box":
+        out += [rect(x1, y0, x1 + t, y1), rect(x0 - t, y0, x0, y1)]  # and the sides
+    return out
 
 
 def entries(arrangement: str, tie: str) -> list[Entry]:
@@ -192,10 +246,21 @@ def built_preview(arrangement: str, tie: str, typed: dict[str, str], system: str
     ys = [p[:, 1] for p in pts]
     x0, x1 = min(x.min() for x in xs), max(x.max() for x in xs)
     y0, y1 = min(y.min() for y in ys), max(y.max() for y in ys)
+    tie = b.open_axes[0].tie if b.open_axes else None
+    faces = _face_ties(b.arrangement, tie, (float(x0), float(y0), float(x1), float(y1)))
+    for f in faces:
+        x0, x1 = min(x0, *(x for x, _ in f)), max(x1, *(x for x, _ in f))
+        y0, y1 = min(y0, *(y for _, y in f)), max(y1, *(y for _, y in f))
     size = max(x1 - x0, y1 - y0)
     cx, cy = (x0 + x1) / 2, (y0 + y1) / 2
-    prev.polygons = [[(0.5 + (float(x) - cx) / size, 0.5 - (float(y) - cy) / size)
-                      for x, y in p] for p in pts]
+
+    def unit(poly: Any) -> list[tuple[float, float]]:
+        return [(0.5 + (float(x) - cx) / size, 0.5 - (float(y) - cy) / size) for x, y in poly]
+
+    prev.polygons = [unit(p) for p in pts]
+    prev.ties = [unit(f) for f in faces]
+    if b.open_axes:
+        prev.elevation, prev.elevation_label = _elevation(tie, b.open_axes[0].h0)
     return prev
 
 

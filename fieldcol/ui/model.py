@@ -559,7 +559,10 @@ def loss_lines(section: Any, system: str) -> list[Line]:
         out.append(Line("Cover plates, both flanges",
                         f"{_thickness_text(plates.get('thickness'), system)} thick, "
                         + (f"{_thickness_text(width, system)} wide" if width not in (None, "")
-                           else "as wide as the flange")))
+                           else "as wide as the flange")
+                        + (f", {plates['connection']} at {plates.get('pitch', '')} pitch"
+                           if plates.get("connection") not in (None, "", "welded")
+                           else ", welded")))
     return out
 
 

@@ -14,7 +14,7 @@ Public API::
     read_dimensions(shape, typed, system) -> dict[str, tuple[str, float]]
     choose_section(store, column_id, name) -> Change
     save_measured(store, column_id, shape, typed, gauge, *, accept, person, visit_id) -> Change
-    set_plates(store, column_id, thickness, width) -> Change
+    set_plates(store, column_id, thickness, width, connection, pitch) -> Change
     SHAPES, DIMENSIONS, GAUGE_TOLERANCE
 """
 
@@ -81,6 +81,7 @@ class SectionView:
     gauge: str
     caution: str = CAUTION
     notes: list[str] = field(default_factory=list)
+    plate_joint: tuple[str, str] = ("welded", "")   # cover plates: (connection, pitch as kept)
 
     @property
     def typed(self) -> dict[str, str]:
@@ -301,7 +302,9 @@ def section_view(store: "Store", column_id: str) -> SectionView:
         condition=loss_lines(section, system),
         plates=(str(plates.get("thickness", "")), str(plates.get("width") or ""))
         if isinstance(plates, dict) else None,
-        plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes)
+        plates_allowed=shape == "i", gauge=gauge or "caliper", notes=notes,
+        plate_joint=(str(plates.get("connection") or "welded"), str(plates.get("pitch") or ""))
+        if isinstance(plates, dict) else ("welded", ""))
 
 
 # -- matching -------------------------------------------------------------------------------
@@ -541,21 +544,30 @@ def save_measured(store: "Store", column_id: str, shape: str, typed: dict[str, s
 
 
 def set_plates(store: "Store", column_id: str, thickness: str | None,
-               width: str | None = None) -> Change:
-    """Record cover plates welded to both flanges of an I section, or remove them (``None``).
+               width: str | None = None, connection: str = "welded",
+               pitch: str | None = None) -> Change:
+    """Record cover plates on both flanges of an I section, or remove them (``None``).
 
     Args:
         store: an open store.
         column_id: the column.
         thickness: plate thickness as typed (a bare number in the site's unit), or ``None``.
         width: plate width as typed; empty: as wide as the flange.
+        connection: ``welded`` (default), ``riveted`` or ``bolted``.
+        pitch: riveted or bolted: the fasteners' spacing along the column, as typed
+            (required then; refused for welded plates).
 
     Returns:
-        The ``Change``.
+        The ``Change``. A bad entry raises ``InputError`` naming ``plate thickness``,
+        ``plate width``, ``plate connection``, ``rivet pitch`` / ``bolt pitch`` (or ``plate
+        pitch`` given for welded plates); nothing is saved then.
 
-    Example: ``set_plates(store, cid, "3/8", "12").label`` gives
-    ``'cover plates 3/8 in x 12 in'``.
+    Example: ``set_plates(store, cid, "3/8", "12", "riveted", "6").label`` gives
+    ``'cover plates 3/8 in x 12 in, riveted at 6 in'``.
     """
+    from fieldcol.codes.coverplates import CONNECTIONS
+    from fieldcol.units import parse_length
+
     col = store.get_column(column_id)
     system = store.get_site(col.site_id).unit_system
     old = col.record.get("section")
@@ -568,10 +580,31 @@ def set_plates(store: "Store", column_id: str, thickness: str | None,
         if set(section) == {"name"}:
             section = section["name"]
         return _save_record(store, column_id, section, "cover plates removed")
+    how = str(connection or "welded").strip().lower()
+    if how not in CONNECTIONS:
+        raise InputError("plate connection", str(connection), "not a way plates are held",
+                         "pick welded, riveted or bolted")
     plates = {"thickness": typed_length(thickness, system, "plate thickness")}
     if width not in (None, "") and str(width).strip():
         plates["width"] = typed_length(width, system, "plate width")
-    section["plates"] = plates
+    typed_pitch = "" if pitch is None else str(pitch).strip()
     what = f"cover plates {plates['thickness']}" + (f" x {plates['width']}"
                                                      if "width" in plates else "")
+    if how == "welded":
+        if typed_pitch:
+            raise InputError("plate pitch", typed_pitch, "welded plates have no fastener pitch",
+                             "pick riveted or bolted, or clear the pitch")
+    else:
+        # named as the entry is labelled: "Rivet pitch" or "Bolt pitch"
+        fld = "rivet pitch" if how == "riveted" else "bolt pitch"
+        example = "6 (inches) or 150 mm" if system == "us" else "150 (mm) or 6 in"
+        if not typed_pitch:
+            raise InputError(fld, "", "this is required",
+                             f"type the spacing of the {fld.split()[0]}s along the column, "
+                             f"e.g. {example}")
+        kept = typed_length(typed_pitch, system, fld)
+        parse_length(kept, fld)   # refuses a zero or negative spacing
+        plates.update(connection=how, pitch=kept)
+        what += f", {how} at {kept}"
+    section["plates"] = plates
     return _save_record(store, column_id, section, what)

@@ -1,6 +1,6 @@
 """The column screen's Section tab: the section now, picked from the catalogue with type-ahead,
 or measured (with the gauge) and matched against the catalogue's rolling tolerances; cover
-plates; the recorded loss labelled as what it is (remaining thickness, or loss per face).
+plates (welded, riveted or bolted, with the fasteners' pitch); the recorded loss labelled as what it is (remaining thickness, or loss per face).
 
 Every save goes through ``app.saver`` (undo, "not saved" with retry, typed text kept); the
 column is checked again after each, and what is typed stays while the tab is open.
@@ -26,8 +26,12 @@ if TYPE_CHECKING:
     from fieldcol.ui.app import FieldApp
 
 _SHAPES = [("i", "I or H"), ("rect", "Box"), ("round", "Round")]
+_JOINTS = [("welded", "Welded"), ("riveted", "Riveted"), ("bolted", "Bolted")]
 _GAUGES = [("caliper", "Caliper"), ("tape", "Tape"), ("steel rule", "Rule"),
            ("ultrasonic thickness gauge", "Ultrasonic")]
+
+
+_NO_PLATES = {"thickness": "", "width": "", "connection": "welded", "pitch": ""}
 
 
 class SectionTab(Tab):
@@ -47,13 +51,14 @@ class SectionTab(Tab):
         self.typed: dict[str, dict[str, str]] = {}   # shape -> key -> text as typed
         self.gauge: str | None = None
         self.matches: list[sx.MatchLine] | None = None
-        self.plates = {"thickness": "", "width": ""}
+        self.plates = _NO_PLATES.copy()
         self.body = ft.Column(spacing=12)
         self.suggest = ft.Column(spacing=6)
         self.match_area = ft.Column(spacing=10)
         self.fields: dict[str, ft.TextField] = {}
         self.search_field: ft.TextField | None = None
         self.plate_field: ft.TextField | None = None
+        self.plate_fields: dict[str, ft.TextField] = {}
         self.built = BuiltCard(self)
 
     async def load(self) -> None:
@@ -66,8 +71,9 @@ class SectionTab(Tab):
             return
         view = await asyncio.to_thread(sx.section_view, self.app.store, d.id)
         self.view = view
-        if view.plates and not any(self.plates.values()):
-            self.plates = {"thickness": view.plates[0], "width": view.plates[1]}
+        if view.plates and not any(self.plates[k] for k in ("thickness", "width", "pitch")):
+            self.plates = {"thickness": view.plates[0], "width": view.plates[1],
+                           "connection": view.plate_joint[0], "pitch": view.plate_joint[1]}
         self._draw()
 
     def controls(self) -> list[ft.Control]:
@@ -209,15 +215,28 @@ class SectionTab(Tab):
         width = ec.unit_entry("Plate width", self.plates["width"], v.unit,
                               hint="empty: as wide as the flange",
                               on_change=self._typed_plate("width"))
+        how = self.plates["connection"]
+        self.plate_fields = {"plate thickness": self.plate_field, "plate width": width}
         parts: list[ft.Control] = [
-            text_line("Welded to both flanges, on the steel that remains.", size=16,
+            text_line("On both flanges, on the steel that remains. Held by:", size=16,
                       color=MUTED),
+            ec.choice_row(_JOINTS, how, self._pick_joint, "plate-connection",
+                          said="plates held by"),
             ft.ResponsiveRow([
                 ft.Container(ft.Semantics(identifier="plate-thickness", content=self.plate_field),
                              col={"xs": 6}),
                 ft.Container(ft.Semantics(identifier="plate-width", content=width),
-                             col={"xs": 6})], spacing=8),
-            ec.big_button("Save plates", ft.Icons.SAVE, self._save_plates, "save-plates")]
+                             col={"xs": 6})], spacing=8)]
+        if how != "welded":
+            pitch = ec.unit_entry("Rivet pitch" if how == "riveted" else "Bolt pitch",
+                                  self.plates["pitch"], v.unit,
+                                  hint="spacing along the column, in one line",
+                                  on_change=self._typed_plate("pitch"))
+            self.plate_fields.update({"rivet pitch": pitch, "bolt pitch": pitch,
+                                      "plate pitch": pitch})
+            parts.append(ft.Semantics(identifier="plate-pitch", content=pitch))
+        parts.append(ec.big_button("Save plates", ft.Icons.SAVE, self._save_plates,
+                                   "save-plates"))
         if v.plates:
             parts.append(ec.small_button("Remove plates", ft.Icons.DELETE_OUTLINE,
                                          self._remove_plates, "remove-plates"))
@@ -350,20 +369,29 @@ class SectionTab(Tab):
                 self._update(e.control)
         return keep
 
+    def _pick_joint(self, how: str) -> Callable[..., None]:
+        def pick(_e: Any = None) -> None:
+            self.plates["connection"] = how
+            self.redraw()
+        return pick
+
     async def _save_plates(self, _e: Any = None) -> None:
         d = self.app.detail
         if d is None:
             return
-        t, w = self.plates["thickness"], self.plates["width"]
+        t, w, how = self.plates["thickness"], self.plates["width"], self.plates["connection"]
+        # a pitch typed before welded was picked is not the record's: welded plates have none
+        p = self.plates["pitch"] if how != "welded" else None
         done: list[r.Change] = []
 
         def do(store: Any) -> r.Change:
-            ch = sx.set_plates(store, d.id, t if t.strip() else "", w)
+            ch = sx.set_plates(store, d.id, t if t.strip() else "", w, how, p)
             done.append(ch)
             return ch
 
         await self.app.saver.save(f"cover plates {t.strip()}", do, undo=self._undo(done),
-                                  field=self.plate_field, done=ec.saved_words)
+                                  field=self.plate_fields or self.plate_field,
+                                  done=ec.saved_words)
 
     async def _remove_plates(self, _e: Any = None) -> None:
         d = self.app.detail
@@ -374,7 +402,7 @@ class SectionTab(Tab):
         def do(store: Any) -> r.Change:
             ch = sx.set_plates(store, d.id, None)
             done.append(ch)
-            self.plates = {"thickness": "", "width": ""}
+            self.plates = _NO_PLATES.copy()
             return ch
 
         await self.app.saver.save("cover plates removed", do, undo=self._undo(done),
