@@ -154,16 +154,16 @@ class ColumnList:
         p = self.page
         assert p is not None
         status = [("all", "All", None)] + [(k, w, k) for k, w in m.STATUS_FILTERS.items()]
-        out = [v.choice_chip(f"filter-status-{key}", word, p.status == value,
-                             self._choose(status=value)) for key, word, value in status]
+        rows = [[v.choice_chip(f"filter-status-{key}", word, p.status == value,
+                               self._choose(status=value)) for key, word, value in status]]
         if len(p.levels) > 1 or p.level is not None:
             levels = [("all", "All levels", None)] + [(lv, lv, lv) for lv in p.levels]
-            out += [ft.VerticalDivider(width=9, color=v.LINE)] + [
-                v.choice_chip(f"filter-level-{key}", word, p.level == value,
-                              self._choose(level=value)) for key, word, value in levels]
-        # one row that slides sideways: the rows of columns start high on a phone; what is
-        # chosen is also said in the count line above, so nothing chosen is out of sight
-        return [ft.Row(out, spacing=8, scroll=ft.ScrollMode.AUTO, height=v.TAP + 4)]
+            rows.append([v.choice_chip(f"filter-level-{key}", word, p.level == value,
+                                       self._choose(level=value))
+                         for key, word, value in levels])
+        # the chips wrap onto a second line rather than slide sideways: on a phone a chip
+        # half off the edge ("Not checked") reads as cut, and nothing chosen is out of sight
+        return [ft.Row(r, spacing=8, run_spacing=8, wrap=True) for r in rows]
 
     def _fill(self) -> None:
         p = self.page

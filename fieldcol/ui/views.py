@@ -172,8 +172,11 @@ def choice_chip(identifier: str, word: str, chosen: bool, on_click: Handler) -> 
 
     Example: ``choice_chip("filter-status-over", "Over capacity", True, handler)``.
     """
-    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP) \
-        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP)
+    # narrow side padding: four status choices fit a 390 px phone in two lines at most
+    style = ft.ButtonStyle(padding=ft.Padding.symmetric(horizontal=14))
+    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP,
+                             style=style) \
+        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP, style=style)
     return ft.Semantics(identifier=identifier, button=True, selected=chosen,
                         label=f"{word}{' (chosen)' if chosen else ''}", content=button)
 
