@@ -69,6 +69,39 @@ def test_demand_without_basis_takes_the_sites_asd(store):
                                                         rel=1e-6)
 
 
+def test_column_without_demand_shows_the_asd_sites_allowable_strength(store):
+    # AISC 360-22 E1: Pn / Omega_c, Omega_c = 1.67, with no demand given at all
+    site = store.add_site("Yard Store", code="aisc360-22", unit_system="us")
+    store.update_site(site.id, basis="asd")
+    col = store.add_column(site.id, {"tag": "Y2", "section": "W10X49", "material": "A992",
+                                     "length": "16 ft"})
+    do, _undo = m.edit_change(col.id, "length", "15 ft")
+    do(store)
+    res = store.latest_check(col.id).result
+    assert res["basis"] == "asd"
+    gov = res["modes"][res["governing_mode"]]
+    assert _kN(res["design_strength"]) == pytest.approx(_kN(gov["nominal_strength"]) / 1.67,
+                                                        rel=1e-6)
+
+
+def test_record_basis_without_demand_and_its_agreement_with_the_demand():
+    from fieldcol.assess import assess
+    from fieldcol.errors import InputError
+    rec = {"tag": "B", "section": "W10X49", "material": "A992", "length": "16 ft"}
+    lrfd, asd = assess(rec), assess({**rec, "basis": "asd"})
+    # AISC 360-22 E1: phi_c = 0.90 (LRFD), Omega_c = 1.67 (ASD)
+    assert float(asd.design_strength) == pytest.approx(
+        float(lrfd.design_strength) / 0.90 / 1.67, rel=1e-6)
+    both = assess({**rec, "basis": "asd", "demand": {"axial": "100 kip"}})
+    assert both.to_dict()["basis"] == "asd"
+    with pytest.raises(InputError) as e:
+        assess({**rec, "basis": "asd", "demand": {"axial": "100 kip", "basis": "lrfd"}})
+    assert e.value.field == "basis"
+    with pytest.raises(InputError) as e:
+        assess({**rec, "basis": "allowable"})
+    assert e.value.field == "basis"
+
+
 def test_what_the_record_says_stands():
     class Site:
         code, basis, gamma_m1 = "en1993-1-1", None, 1.1

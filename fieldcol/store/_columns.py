@@ -119,9 +119,13 @@ def site_defaults(record: dict[str, Any], site: Any) -> dict[str, Any]:
     if out.get("code") in (None, ""):
         out["code"] = site.code
     demand = out.get("demand")
-    if out["code"] == "aisc360-22" and isinstance(demand, dict) and demand \
-            and demand.get("basis") in (None, "") and site.code == "aisc360-22" and site.basis:
-        demand["basis"] = site.basis
+    if out["code"] == "aisc360-22" and site.code == "aisc360-22" and site.basis \
+            and out.get("basis") in (None, ""):
+        if isinstance(demand, dict) and demand:
+            if demand.get("basis") in (None, ""):
+                demand["basis"] = site.basis
+        elif site.basis != "lrfd":  # no demand: the design strength still on the site's basis
+            out["basis"] = site.basis
     if out["code"] == "en1993-1-1" and "gamma_M1" not in out and site.code == "en1993-1-1" \
             and site.gamma_m1 is not None:
         out["gamma_M1"] = site.gamma_m1
