@@ -147,9 +147,6 @@ class FieldApp:
         Example: ``await app.show("/sites/" + site_id)``.
         """
         parts = [x for x in route.split("?")[0].split("/") if x]
-        # every screen ends in its own update: the one Flet adds after the handler would
-        # compare the whole page again for nothing (tens of ms on a phone-sized tree)
-        ft.context.disable_auto_update()
         try:
             if parts == ["settings"]:
                 await self._show_settings()
