@@ -136,8 +136,8 @@ def test_build_compare_keep_and_sweep_a_retrofit_option(server, browser, size):
     _column(page, tag)
     _tab(page, "retrofit")
     assert CAUTION in _words(page, "caution")
-    _click(page, "option-kind-brace")
-    _click(page, "option-axis-weak")
+    _choose(page, "option-kind-brace")
+    _choose(page, "option-axis-weak")
     _type_into(page, "option-at", "90 ft", enter=False)
     _click(page, "option-compare")
     _poll(lambda: _words(page, "retrofit-note"), lambda t: "not between the ends" in t,
