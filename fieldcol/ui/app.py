@@ -97,6 +97,11 @@ class FieldApp:
         self.draws = 0  # screens and tabs drawn (sent) so far: the saver sees if one was
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
+        self._right = ft.Container(expand=True)  # the pane beside the list (tablet)
+        self._title = ft.Text("fieldcol")
+        # the tablet's column screen on show, as (view, site id): another column of the same
+        # site changes it in place (see ``_beside_list``)
+        self._frame: tuple[ft.View, str] | None = None
         self.saver = Saver(self)
         self.theme = "light"
         self.forms: dict[str, dict[str, ft.TextField]] = {}  # per route: what is typed stays
@@ -201,8 +206,9 @@ class FieldApp:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
                 ft.Icons.ARROW_BACK, on_click=self._go(back), tooltip="Back",
                 icon_color=v.ON_ACCENT, icon_size=28))
-        head: ft.Control = ft.Text(title, size=20, color=v.ON_ACCENT,
-                                   weight=ft.FontWeight.BOLD)
+        self._frame = None  # a new screen: nothing of the last one to change in place
+        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD)
+        head: ft.Control = self._title
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
         bar = ft.AppBar(leading=leading, title=head, actions=actions or [],
@@ -420,9 +426,26 @@ class FieldApp:
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
         self.list_pane.content = left
+        self._right = ft.Container(right, expand=True)
         return ft.Row([self.list_pane, ft.VerticalDivider(width=1, color=v.LINE),
-                       ft.Container(right, expand=True)], expand=True, spacing=0,
+                       self._right], expand=True, spacing=0,
                       vertical_alignment=ft.CrossAxisAlignment.STRETCH)
+
+    def _beside_list(self, route: str, title: str, site_id: str, right: ft.Control) -> bool:
+        """On a tablet showing a column of ``site_id`` beside its list: show another column
+        in its place (the route, the title, the right pane) and keep the rest of the screen.
+        Only what changed travels (the list's rows are kept controls, two change their
+        highlight): a new screen re-sent the whole list on every tap. False when the screen
+        is not that one (then the caller draws it whole)."""
+        f = self._frame
+        if f is None or f[1] != site_id or not self.page.views or self.page.views[-1] is not f[0]:
+            return False
+        f[0].route = route
+        self._title.value = title
+        self._right.content = right
+        self.page.update()
+        self.draws += 1
+        return True
 
     def _load_column(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int]]:
         """(worker thread) The column screen and the numbers beside its tabs."""
@@ -483,10 +506,13 @@ class FieldApp:
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         else:
             await self.list.load(d.site_id)
-            self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
-                         self._two_panes(self._list(d.site_id, selected=d.id), self.pane),
-                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
-            await self.list.restore()  # the list beside stays where it was scrolled
+            route, title = f"/columns/{column_id}", f"{d.site_name} · {d.tag}"
+            left = self._list(d.site_id, selected=d.id)
+            if not self._beside_list(route, title, d.site_id, self.pane):
+                self._render(route, title, self._two_panes(left, self.pane),
+                             f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+                self._frame = (self.page.views[-1], d.site_id)
+                await self.list.restore()  # the list beside stays where it was scrolled
         if rest:
             drawn = self.pane.controls
             # a moment for the device to draw the top before the rest arrives: sent at once,

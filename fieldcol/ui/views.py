@@ -240,10 +240,25 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
     ], vertical_alignment=ft.CrossAxisAlignment.CENTER)
     row = _tap_row(body, on_click, f"column-{line.tag}",
                    f"{line.tag}: {line.status.label}, {line.section}, {line.length}")
-    if selected:
-        row.content.bgcolor = CHOSEN_BG
-        row.content.border = ft.Border.all(2, ACCENT)
+    mark_selected(row, selected)
     return row
+
+
+def mark_selected(row: ft.Control, selected: bool) -> None:
+    """Highlight a ``column_row`` (or take the highlight off) in place: a row kept from the
+    last drawing changes two properties, so only those travel to the device.
+
+    Args:
+        row: a control made by ``column_row``.
+        selected: drawn highlighted.
+
+    Example: ``mark_selected(row, True)``.
+    """
+    box = row.content
+    if selected and box.bgcolor != CHOSEN_BG:
+        box.bgcolor, box.border = CHOSEN_BG, ft.Border.all(2, ACCENT)
+    elif not selected and box.bgcolor != CARD:
+        box.bgcolor, box.border = CARD, ft.Border.all(1, LINE)
 
 
 # -- one column ----------------------------------------------------------------------------
