@@ -250,6 +250,55 @@ def test_saved_edit_offers_undo_and_undo_puts_it_back(demo):
     _run(walk())
 
 
+def _strength(store, cid) -> float:
+    return float(store.latest_check(cid).result["design_strength"]["value"])
+
+
+def test_basis_chosen_on_the_column_screen_checks_on_it_and_undo_puts_it_back(demo):
+    """LRFD or ASD for one AISC column: the record and its demand follow the choice, the
+    check is made again on it (AISC 360-22 E1: Omega_c = 1.67 against phi_c = 0.90, so the
+    design strength falls by the ratio 1 / (1.67 x 0.90) = 0.665), Undo puts LRFD back."""
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        lrfd = _strength(store, cid)
+        await s.go(f"/columns/{cid}")
+        assert "(chosen)" in s.find("basis-lrfd").label or s.find("basis-lrfd").selected
+        await s.tap("basis-asd")
+        rec = store.get_column(cid).record
+        assert rec["basis"] == "asd" and rec["demand"]["basis"] == "asd"
+        asd = _strength(store, cid)
+        assert asd / lrfd == pytest.approx(1 / (1.67 * 0.90), rel=1e-3)
+        assert s.text("save-note").startswith("Saved basis ASD; checked again: ")
+        assert s.find("basis-asd").selected and not s.find("basis-lrfd").selected
+        await s.tap("save-undo")
+        rec = store.get_column(cid).record
+        assert "basis" not in rec and rec["demand"].get("basis", "lrfd") == "lrfd"
+        assert _strength(store, cid) == pytest.approx(lrfd)
+        assert s.find("basis-lrfd").selected
+    _run(walk())
+
+
+def test_an_en_column_offers_no_lrfd_or_asd(tmp_path):
+    async def walk():
+        store = open_store(tmp_path / "en.db")
+        site = store.add_site("Harrow Quay Grain Store", code="en1993-1-1", unit_system="si")
+        col = store.add_column(site.id, {
+            "tag": "K/1", "section": "HE 200 B", "material": "S355", "length": "4 m",
+            "demand": {"axial": "900 kN"}})
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/columns/{col.id}")
+        assert not s.has("basis-lrfd") and not s.has("basis-asd")
+        with pytest.raises(Exception, match="expected lrfd or asd"):
+            m.edit_change(col.id, "basis", "allowable")[0](store)
+        store.close()
+    _run(walk())
+
+
 def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
     store, site = demo
 

@@ -197,6 +197,9 @@ class ColumnDetail:
     check: CheckView | None
     fields: list[EditField]
     caution: str = CAUTION
+    #: an AISC 360-22 column's basis (``lrfd`` or ``asd``: the record's, else its demand's,
+    #: else its site's); ``None`` under another code, where LRFD / ASD mean nothing
+    basis: str | None = None
 
 
 @dataclass(frozen=True)
@@ -216,6 +219,8 @@ EDIT_FIELDS = {
     "material": ("Material", "grade, e.g. A992, A36, A7, S355"),
     "demand": ("Axial demand", "factored axial load, e.g. 840 kip or 3700 kN"),
 }
+#: the AISC 360-22 bases a column can be checked on (its ``basis`` choice on the screen)
+BASES = {"lrfd": "LRFD (phi Pn)", "asd": "ASD (Pn / Omega)"}
 
 
 # -- formatting ---------------------------------------------------------------------------
@@ -516,10 +521,13 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     chk = store.latest_check(column_id)
     fields = [EditField(name, label, _entry_text(rec.get(name) if name != "demand" else axial),
                         hint) for name, (label, hint) in EDIT_FIELDS.items()]
+    basis = None
+    if str(rec.get("code") or site.code) == "aisc360-22":
+        basis = str(rec.get("basis") or demand.get("basis") or "lrfd")
     return ColumnDetail(
         id=col.id, tag=col.tag, site_id=site.id, site_name=site.name, unit_system=system,
         identity=identity, record=record, restraints=_restraint_lines(rec, system),
-        check=None if chk is None else _check_view(chk, system), fields=fields)
+        check=None if chk is None else _check_view(chk, system), fields=fields, basis=basis)
 
 
 _ELEMENT_WORDS = {"flange": "flange", "web": "web", "wall": "wall"}
@@ -618,10 +626,22 @@ def _candidate(store: "Store", column_id: str, name: str, text: str) -> tuple[di
             old = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
             rec["demand"] = {**{k: v for k, v in old.items() if k not in ("loads", "psi0")},
                              "axial": text}  # psi0 combines loads: it goes with them
+    elif name == "basis":
+        if text not in BASES:
+            raise InputError("basis", text, "expected lrfd or asd", "lrfd, asd")
+        for rec in (stored, current):
+            rec["basis"] = text
+            # the demand's own basis must agree with the record's: both follow the choice
+            if isinstance(rec.get("demand"), dict) and rec["demand"]:
+                rec["demand"] = {**rec["demand"], "basis": text}
     else:
         raise InputError("field", name, "not an entry of the column screen",
-                         ", ".join(EDIT_FIELDS))
+                         ", ".join([*EDIT_FIELDS, "basis"]))
     return stored, current
+
+
+def _entry_word(name: str) -> str:
+    return EDIT_FIELDS[name][0].lower() if name in EDIT_FIELDS else name
 
 
 def edit_change(column_id: str, name: str, text: str, *, person: str | None = None,
@@ -640,8 +660,9 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
 
     Args:
         column_id: the column.
-        name: ``length``, ``section``, ``material`` or ``demand``.
-        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+        name: ``length``, ``section``, ``material``, ``demand``, or ``basis`` (an AISC
+            column's ``lrfd`` or ``asd``: the record's and its demand's).
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``, ``asd``.
         person, visit_id: who typed it and on which visit (kept with a measurement).
 
     Returns:
@@ -670,7 +691,7 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
             else:
                 # the entry makes a checkable column uncheckable: say which value clashes
                 raise InputError(e.field, e.text, f"{e.reason} (with "
-                                 f"{EDIT_FIELDS[name][0].lower()} {typed})", e.hint) from None
+                                 f"{_entry_word(name)} {typed})", e.hint) from None
         # the entry and its check in one transaction: saved together (one write to disk,
         # not two), or neither
         with store.transaction():
@@ -709,8 +730,9 @@ def apply_edit(store: "Store", column_id: str, name: str, text: str) -> EditResu
     Args:
         store: an open store.
         column_id: the column.
-        name: ``length``, ``section``, ``material`` or ``demand``.
-        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+        name: ``length``, ``section``, ``material``, ``demand``, or ``basis`` (an AISC
+            column's ``lrfd`` or ``asd``: the record's and its demand's).
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``, ``asd``.
 
     Returns:
         An ``EditResult``: ``saved`` with the refreshed ``detail``, or the ``error`` text

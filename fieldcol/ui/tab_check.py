@@ -1,7 +1,7 @@
 """The Check tab of the column screen: right under the status, the capacity about each axis and
 in torsion, what governs and why, the utilization and the warnings; then the column-curve chart,
 the caution, the full trace one tap away, the edit card (length, section, material, axial
-demand) and the record in words.
+demand, and LRFD or ASD for an AISC column) and the record in words.
 
 API: ``CheckTab(app)`` with ``name = "check"``; see ``fieldcol.ui._tab``. Its entries save
 through ``app.saver`` (Enter or leaving the entry) with Undo; a refused entry keeps its text
@@ -17,6 +17,7 @@ from typing import Any
 import flet as ft
 
 from fieldcol.ui import _check_views as cv
+from fieldcol.ui import _entry_controls as ec
 from fieldcol.ui import check_model as cm
 from fieldcol.ui import model as m
 from fieldcol.ui import views as v
@@ -38,6 +39,8 @@ class CheckTab(Tab):
         self.summary: cm.CheckSummary | None = None
         self.edit: ft.Control | None = None  # the edit card, made once (it holds the entries)
         self.trace: tuple[cm.CheckSummary, ft.Control] | None = None  # the trace of a summary
+        self.basis_box = ft.Container()  # LRFD / ASD (an AISC column), in the edit card
+        self._basis_shown: str | None = None
 
     def fetch(self, store: Any, column_id: str) -> cm.CheckSummary | None:
         """(worker thread) The latest check as the tab shows it.
@@ -77,7 +80,14 @@ class CheckTab(Tab):
                 "Check again", icon=ft.Icons.REFRESH, on_click=self._recheck, height=v.TAP))
             self.edit = v._card([v.text_line("Saved when you press Enter or leave the entry, "
                                              "then checked again; Undo in the bar below.",
-                                             color=v.MUTED), *entries, recheck], title="Edit")
+                                             color=v.MUTED), *entries, self.basis_box, recheck],
+                                title="Edit")
+        if d.basis != self._basis_shown:  # drawn again only when it changed
+            self._basis_shown = d.basis
+            self.basis_box.content = None if d.basis is None else ft.Column([
+                v.text_line("Basis (AISC 360-22)", size=16, color=v.MUTED),
+                ec.choice_row(list(m.BASES.items()), d.basis, self._pick_basis, "basis",
+                              said="basis:")], spacing=4)
         s = self.summary
         if s is None or d.check is None:
             body = v.check_body(d)
@@ -123,6 +133,20 @@ class CheckTab(Tab):
             self.failed[name] = text
         else:
             self.failed.pop(name, None)
+
+    def _pick_basis(self, basis: str) -> Any:
+        async def pick(_e: Any = None) -> None:
+            ft.context.disable_auto_update()  # the saver draws the re-checked tab
+            d = self.app.detail
+            if d is None or d.basis == basis:
+                return
+            do, undo = m.edit_change(d.id, "basis", basis, person=self.app.person,
+                                     visit_id=self.app.visit_id)
+            await self.app.saver.save(
+                f"basis {basis.upper()}", do, undo,
+                done=lambda r: f"Saved basis {basis.upper()}; checked again: "
+                               f"{r.check.status.label if r.check else 'not checked'}")
+        return pick
 
     async def _recheck(self, _e: Any = None) -> None:
         app, d = self.app, self.app.detail
