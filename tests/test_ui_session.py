@@ -274,11 +274,13 @@ def test_basis_chosen_on_the_column_screen_checks_on_it_and_undo_puts_it_back(de
         assert asd / lrfd == pytest.approx(1 / (1.67 * 0.90), rel=1e-3)
         assert s.text("save-note").startswith("Saved basis ASD; checked again: ")
         assert s.find("basis-asd").selected and not s.find("basis-lrfd").selected
+        assert "service (ASD)" in s.inner("field-demand", ft.TextField).helper
         await s.tap("save-undo")
         rec = store.get_column(cid).record
         assert "basis" not in rec and rec["demand"].get("basis", "lrfd") == "lrfd"
         assert _strength(store, cid) == pytest.approx(lrfd)
         assert s.find("basis-lrfd").selected
+        assert "factored" in s.inner("field-demand", ft.TextField).helper
     _run(walk())
 
 

@@ -524,6 +524,9 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     basis = None
     if str(rec.get("code") or site.code) == "aisc360-22":
         basis = str(rec.get("basis") or demand.get("basis") or "lrfd")
+        if basis == "asd":  # ASD compares the service load with Pn / Omega
+            fields = [EditField(f.name, f.label, f.value, "service (ASD) axial load, e.g. "
+                                "600 kip") if f.name == "demand" else f for f in fields]
     return ColumnDetail(
         id=col.id, tag=col.tag, site_id=site.id, site_name=site.name, unit_system=system,
         identity=identity, record=record, restraints=_restraint_lines(rec, system),

@@ -69,6 +69,8 @@ class CheckTab(Tab):
                 tf = self.fields[f.name] = v.edit_field(f, self._save)
             elif (tf.value or "") == self.saved.get(f.name, "") and not tf.error:
                 tf.value = f.value  # untouched: show the value as saved now
+            if tf.helper != f.hint:  # e.g. the demand's, once the basis is ASD
+                tf.helper = f.hint
             self.saved[f.name] = f.value
         if self.edit is None:
             # made once per column: the entries inside it are kept objects, and a kept card
