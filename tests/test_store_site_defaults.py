@@ -55,26 +55,15 @@ def test_record_without_code_takes_the_en_sites_code(store):
     assert store.latest_check(col.id).result["code"] == "en1993-1-1"
 
 
-def test_demand_without_basis_takes_the_sites_asd(store):
+@pytest.mark.parametrize("demand", [{"axial": "200 kip"}, None],
+                         ids=["demand-without-basis", "no-demand"])
+def test_a_column_on_an_asd_site_is_checked_on_asd(store, demand):
+    # AISC 360-22 E1: Pn / Omega_c, Omega_c = 1.67: a demand that leaves its basis out, and a
+    # column with no demand at all (the allowable strength shown), both take the site's ASD
     site = store.add_site("Yard Store", code="aisc360-22", unit_system="us")
     store.update_site(site.id, basis="asd")
-    col = store.add_column(site.id, {"tag": "Y1", "section": "W10X49", "material": "A992",
-                                     "length": "16 ft", "demand": {"axial": "200 kip"}})
-    do, _undo = m.edit_change(col.id, "length", "15 ft")
-    do(store)
-    res = store.latest_check(col.id).result
-    assert res["basis"] == "asd"
-    gov = res["modes"][res["governing_mode"]]
-    assert _kN(res["design_strength"]) == pytest.approx(_kN(gov["nominal_strength"]) / 1.67,
-                                                        rel=1e-6)
-
-
-def test_column_without_demand_shows_the_asd_sites_allowable_strength(store):
-    # AISC 360-22 E1: Pn / Omega_c, Omega_c = 1.67, with no demand given at all
-    site = store.add_site("Yard Store", code="aisc360-22", unit_system="us")
-    store.update_site(site.id, basis="asd")
-    col = store.add_column(site.id, {"tag": "Y2", "section": "W10X49", "material": "A992",
-                                     "length": "16 ft"})
+    rec = {"tag": "Y1", "section": "W10X49", "material": "A992", "length": "16 ft"}
+    col = store.add_column(site.id, rec if demand is None else {**rec, "demand": demand})
     do, _undo = m.edit_change(col.id, "length", "15 ft")
     do(store)
     res = store.latest_check(col.id).result
