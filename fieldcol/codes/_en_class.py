@@ -98,3 +98,63 @@ def classify(kind: str, sec: dict[str, np.ndarray], eps: np.ndarray, trace: Trac
     Aeff = np.where(cls == 4, A - loss, A)
     trace.add("Aeff", "area used", "A (Class 1-3); A - sum (1 - rho) c t (Class 4)", Aeff, "mm^2", EC5)
     return cls, Aeff
+
+
+def internal_limits_bending(alpha: np.ndarray, psi: np.ndarray, eps: np.ndarray
+                            ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Table 5.2 (sheet 1) c/t limits of an internal part in bending and compression.
+
+    Class 1: 396 eps / (13 alpha - 1) for alpha > 0.5, else 36 eps / alpha; Class 2: 456 eps /
+    (13 alpha - 1), else 41.5 eps / alpha (alpha: the compressed share of c under the plastic
+    stress distribution). Class 3: 42 eps / (0.67 + 0.33 psi) for psi > -1, else
+    62 eps (1 - psi) sqrt(-psi) (psi: the end-stress ratio of the elastic distribution).
+
+    Args:
+        alpha: compressed share of c (0 < alpha <= 1); psi: sigma_2 / sigma_1 (<= 1); eps: sqrt(235/fy).
+    Returns:
+        (class 1 limit, class 2 limit, class 3 limit) on c/t.
+
+    Example:
+        >>> l1, l2, l3 = internal_limits_bending(np.array(1.0), np.array(1.0), np.array(1.0))
+        >>> round(float(l1), 1), round(float(l2), 1), round(float(l3), 1)
+        (33.0, 38.0, 42.0)
+    """
+    a = np.clip(alpha, 1e-9, 1.0)
+    over = a > 0.5
+    den = np.where(over, 13 * a - 1, 1.0)
+    l1 = np.where(over, 396 * eps / den, 36 * eps / a)
+    l2 = np.where(over, 456 * eps / den, 41.5 * eps / a)
+    p = np.minimum(psi, 1.0)
+    l3 = np.where(p > -1, 42 * eps / (0.67 + 0.33 * p), 62 * eps * (1 - p) * np.sqrt(np.abs(p)))
+    return l1, l2, l3
+
+
+def web_under_bending(ct: np.ndarray, tw: np.ndarray, fy: np.ndarray, eps: np.ndarray, N: np.ndarray,
+                      M: np.ndarray, A: np.ndarray, I: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Class of the web of an I under axial force N (compression, N) and a strong-axis moment M (N*mm).
+
+    alpha from the plastic distribution: the web carries N about the centre of c (the section at
+    its plastic moment reduced for N), alpha = (1 + N / (c tw fy)) / 2 <= 1. psi from the elastic
+    stresses at the ends of c: (N/A - M c/(2 I)) / (N/A + M c/(2 I)). Where M = 0 the web is in
+    pure compression (alpha = psi = 1).
+
+    Args:
+        ct: c/t of the web; tw: web thickness (mm); fy, eps; N (N); M (N*mm); A (mm^2); I (mm^4).
+    Returns:
+        (class 1..4 of the web, alpha, psi).
+
+    Example:
+        >>> cls, a, p = web_under_bending(np.array(40.3), np.array(9.4), np.array(355.), np.array(0.8136),
+        ...     np.array(127e3), np.array(356e6), np.array(9880.), np.array(3.374e8))
+        >>> int(cls), round(float(a), 2)
+        (1, 0.55)
+    """
+    c = ct * tw
+    bent = M > 0
+    alpha = np.where(bent, np.minimum(1.0, 0.5 * (1 + N / (c * tw * fy))), 1.0)
+    s_n = N / A
+    s_m = M * c / (2 * I)
+    psi = np.where(bent, (s_n - s_m) / np.maximum(s_n + s_m, 1e-300), 1.0)
+    l1, l2, l3 = internal_limits_bending(alpha, psi, eps)
+    cls = np.select([ct <= l1, ct <= l2, ct <= l3], [1, 2, 3], 4)
+    return cls, alpha, psi
