@@ -161,7 +161,7 @@ def test_the_f_modification_by_hand():
     f = min(1.0, 1 - 0.5 * (1 - kc) * (1 - 2 * (lb - 0.8) ** 2))
     assert _step(r0.trace, "C1_strong") == pytest.approx(1.77)
     assert _step(r0.trace, "k_c_strong") == pytest.approx(kc)
-    assert _step(r0.trace, "f_strong") == pytest.approx(f, rel=1e-9)
+    assert _step(r0.trace, "f_mod_strong") == pytest.approx(f, rel=1e-9)
     assert _step(r0.trace, "chi_LT_strong") == pytest.approx(min(1.0, 1 / lb**2, chi / f), rel=1e-9)
 
 

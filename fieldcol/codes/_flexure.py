@@ -384,7 +384,7 @@ def chi_lt_rolled(sec: dict[str, np.ndarray], M_Rk: np.ndarray, E: np.ndarray, G
                "1 / (1.33 - 0.33 psi) (linear moment); unknown diagram: 1.0",
                np.where(np.isnan(p), 1.0, 1.0 / (1.33 - 0.33 * np.nan_to_num(p, nan=1.0))), "",
                "EN 1993-1-1 Table 6.6")
-    f = t.add("f", "modification factor", "1 - 0.5 (1 - k_c)(1 - 2 (lb,LT - 0.8)^2) <= 1",
+    f = t.add("f_mod", "modification factor f", "1 - 0.5 (1 - k_c)(1 - 2 (lb,LT - 0.8)^2) <= 1",
               np.minimum(1.0, 1 - 0.5 * (1 - kc) * (1 - 2.0 * (lb - 0.8) ** 2)), "", f"{C6323} (2) (6.58)")
     return t.add("chi_LT", "lateral-torsional reduction factor (rolled case, modified)",
                  "chi_LT / f <= 1, <= 1/lb,LT^2", np.minimum(np.minimum(1.0, cap), chi / f), "",
@@ -520,4 +520,5 @@ def largest_root(g: Callable[[np.ndarray], np.ndarray], hi: np.ndarray, steps: i
     return np.where(np.isnan(hi), np.nan, lo)
 
 
-__all__ = ["aisc_flexure", "c1_end_moments", "chi_lt_rolled", "elastic_lt_moment", "en_effective_modulus", "en_moment", "largest_root"]
+__all__ = ["aisc_flexure", "c1_end_moments", "chi_lt_rolled", "elastic_lt_moment", "en_effective_modulus",
+           "en_moment", "largest_root"]

@@ -362,10 +362,10 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
         return out
 
     # trace at the demand: C1, Mcr, k_c do not depend on the class; W, lb,LT, chi_LT and f do
-    by_class = ("M_Rk", "lb,LT", "chi_LT,0", "f", "chi_LT")
+    by_class = ("M_Rk", "lb,LT", "chi_LT,0", "f_mod", "chi_LT")
     for ax in AXES:
         for s in shown[f"{ax},1"].steps:
-            if s.symbol not in ("M_Rk", "C1", "Mcr", "lb,LT", "curve,LT", "chi_LT,0", "k_c", "f", "chi_LT"):
+            if s.symbol not in ("M_Rk", "C1", "Mcr", "lb,LT", "curve,LT", "chi_LT,0", "k_c", "f_mod", "chi_LT"):
                 continue
             value = s.value
             if s.symbol in by_class:
