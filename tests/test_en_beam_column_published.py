@@ -29,7 +29,7 @@ import pytest
 
 from fieldcol.assess import assess
 from fieldcol.codes import check_en1993
-from fieldcol.codes._en_class import internal_limits_bending, web_under_bending
+from fieldcol.codes._en_class import internal_limits_bending, web_thresholds, web_under_bending
 from fieldcol.codes._flexure import c1_end_moments
 from fieldcol.codes.beamcolumn import check_beam_column
 from fieldcol.sections import from_catalogue
@@ -180,3 +180,23 @@ def test_a_more_favourable_moment_diagram_never_lowers_capacity(worse, better):
     _, b = _run(end_ratio=better)
     assert float(b.capacity[0]) >= float(a.capacity[0]) * (1 - 1e-12)
     assert float(b.ratio[0]) <= float(a.ratio[0]) * (1 + 1e-12)
+
+
+def test_the_turned_round_limits_give_the_same_class():
+    # the bisection classifies by web_thresholds (three comparisons per trial load); it must agree
+    # with the Table 5.2 limits as written (web_under_bending) over webs, forces and moments
+    rng = np.random.default_rng(11)
+    n = 20000
+    ct = rng.uniform(10, 160, n)
+    eps = np.sqrt(235 / rng.choice([235.0, 275.0, 355.0, 460.0], n))
+    tw, fy = rng.uniform(5, 20, n), 235 / eps**2
+    A, I = rng.uniform(3e3, 3e4, n), rng.uniform(5e7, 2e9, n)
+    N, M = rng.uniform(1e3, 3e6, n), rng.choice([0.0, 1.0], n) * rng.uniform(1e5, 1e9, n)
+    cls, alpha, psi = web_under_bending(ct, tw, fy, eps, N, M, A, I)
+    a1, a2, p3 = web_thresholds(ct, eps)
+    fast = np.select([alpha <= a1, alpha <= a2, psi <= p3], [1, 2, 3], 4)
+    # a knife-edge tie may fall either way in the last bit
+    l1, l2, l3 = internal_limits_bending(alpha, psi, eps)
+    edge = np.isclose(ct, l1, rtol=1e-9) | np.isclose(ct, l2, rtol=1e-9) | np.isclose(ct, l3, rtol=1e-9)
+    assert np.array_equal(fast[~edge], cls[~edge])
+    assert (cls == 3).any() and (cls == 1).any() and (cls == 4).any()

@@ -158,3 +158,42 @@ def web_under_bending(ct: np.ndarray, tw: np.ndarray, fy: np.ndarray, eps: np.nd
     l1, l2, l3 = internal_limits_bending(alpha, psi, eps)
     cls = np.select([ct <= l1, ct <= l2, ct <= l3], [1, 2, 3], 4)
     return cls, alpha, psi
+
+
+def web_thresholds(ct: np.ndarray, eps: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The Table 5.2 limits of an internal part turned round: the largest alpha at which c/t is
+    still Class 1 and Class 2, and the largest psi at which it is still Class 3, per column.
+
+    The limits fall as alpha and psi rise, so ``alpha <= a1`` is the same test as
+    ``c/t <= 396 eps/(13 alpha - 1)`` (or 36 eps/alpha), and so on: a load-by-load check then costs
+    three comparisons (the capacity's bisection classifies at every trial load).
+
+    Args:
+        ct: c/t of the part; eps: sqrt(235/fy).
+    Returns:
+        (a1, a2, p3).
+
+    Example:
+        >>> a1, a2, p3 = web_thresholds(np.array(40.3), np.array(0.8136))
+        >>> round(float(a1), 3), round(float(a2), 3), round(float(p3), 3)
+        (0.692, 0.785, 0.539)
+    """
+    ct = np.maximum(ct, 1e-12)
+    r1 = (396 * eps / ct + 1) / 13
+    a1 = np.where(r1 > 0.5, r1, 36 * eps / ct)
+    r2 = (456 * eps / ct + 1) / 13
+    a2 = np.where(r2 > 0.5, r2, np.minimum(41.5 * eps / ct, 0.5))
+    p3 = (42 * eps / ct - 0.67) / 0.33
+    deep = p3 <= -1
+    if np.any(deep):
+        # psi <= -1: 62 eps (1 - psi) sqrt(-psi) = c/t, with q = -psi: (1 + q) sqrt(q) = c/(62 eps t),
+        # rising in q; halve the bracket [1, (c/(62 eps t))^(2/3) + 1]
+        target = ct / (62 * eps)
+        lo = np.ones(np.shape(ct))
+        hi = np.maximum(target, 1.0) ** (2 / 3) + 1
+        for _ in range(60):
+            mid = 0.5 * (lo + hi)
+            low = (1 + mid) * np.sqrt(mid) < target
+            lo, hi = np.where(low, mid, lo), np.where(low, hi, mid)
+        p3 = np.where(deep, -lo, p3)
+    return a1, a2, p3

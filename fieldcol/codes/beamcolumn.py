@@ -37,7 +37,7 @@ from fieldcol.errors import InputError
 from fieldcol.sections._section import Section
 from fieldcol.trace import Trace
 
-from ._en_class import classify, web_under_bending
+from ._en_class import classify, web_thresholds, web_under_bending
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
 from .en1993 import reduction_factor
 from ._inputs import prepare
@@ -309,17 +309,33 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
     # and weak-axis bending keep the class in compression (conservative). The class can only
     # improve on the class in compression, and worsens as N grows with the moments in proportion.
     refine = kind == "i" and has["strong"] and cls_flange is not None
+    if refine:
+        a1, a2, p3 = web_thresholds(sec["ct_web"], eps)
+        c_web = sec["ct_web"] * sec["tw"]
+        half_c = 0.5 * c_web / sec["Ix"]
 
     def section_class(N):
+        # the same classes as web_under_bending, by the turned-round limits (three comparisons)
         if not refine:
-            return cls_c, None, None
+            return cls_c
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             Ms = M_Ed(N, "strong")
             Ms = np.where(np.isfinite(Ms), Ms, 0.0)
-            cw, a, p = web_under_bending(sec["ct_web"], sec["tw"], fy, eps, N, Ms, A, sec["Ix"])
-        return np.maximum(cls_flange, cw), a, p
+            bent = Ms > 0
+            alpha = np.where(bent, np.minimum(1.0, 0.5 * (1 + N / (c_web * sec["tw"] * fy))), 1.0)
+            s_n, s_m = N / A, Ms * half_c
+            psi = np.where(bent, (s_n - s_m) / np.maximum(s_n + s_m, 1e-300), 1.0)
+        cw = np.select([alpha <= a1, alpha <= a2, psi <= p3], [1, 2, 3], 4)
+        return np.maximum(cls_flange, cw)
 
-    cls_d, a_d, p_d = section_class(N_Ed)
+    if refine:
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Ms_d = M_Ed(N_Ed, "strong")
+            Ms_d = np.where(np.isfinite(Ms_d), Ms_d, 0.0)
+            cw_d, a_d, p_d = web_under_bending(sec["ct_web"], sec["tw"], fy, eps, N_Ed, Ms_d, A, sec["Ix"])
+        cls_d = np.maximum(cls_flange, cw_d)
+    else:
+        cls_d = cls_c
     if refine:
         t.add("alpha,web", "compressed share of the web, plastic distribution under N_Ed and M_y,Ed",
               "(1 + N_Ed / (c tw fy)) / 2 <= 1 (the web carries N)", a_d, "", "EN 1993-1-1 Table 5.2 (sheet 1)")
@@ -454,11 +470,25 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
             kyz = np.where(c12, 0.6 * kzz, kzz)
         return kyy, kyz, kzy, kzz
 
-    def both(N):
-        cls = section_class(N)[0]
+    def terms(cls):
         NRk, chi_y, chi_z, lb_y, lb_z = axial_terms(cls)
-        Ny, Nz = chi_y * NRk / gamma, chi_z * NRk / gamma
-        My, Mz = resist(cls)
+        return (cls, chi_y * NRk / gamma, chi_z * NRk / gamma, lb_y, lb_z, *resist(cls))
+
+    # the bracket: the pure-compression resistance, or the gross one where N + M leaves Class 4
+    gross = np.minimum(chig["strong"], np.minimum(chig["weak"], chig["torsion"]) if open_i else chig["weak"])
+    top = np.where(cls_c == 4, np.maximum(design, gross * NRkg / gamma), design)
+    fixed = None
+    if not refine:
+        fixed = terms(cls_c)
+    elif not any(used[("sway", ax)] for ax in AXES):
+        # with the moments in proportion (or growing as N e) the class only worsens as N grows:
+        # the same class at a tiny load and at the top of the bracket holds everywhere between
+        lo_c, hi_c = section_class(top * 1e-9), section_class(top)
+        if np.array_equal(lo_c, hi_c):
+            fixed = terms(hi_c)
+
+    def both(N):
+        cls, Ny, Nz, lb_y, lb_z, My, Mz = fixed if fixed is not None else terms(section_class(N))
         kyy, kyz, kzy, kzz = factors(N, cls, Ny, Nz, lb_y, lb_z)
         a, b = N / Ny, N / Nz
         if has["strong"]:
@@ -475,9 +505,6 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
 
     t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
           "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
-    # the bracket: the pure-compression resistance, or the gross one where N + M leaves Class 4
-    gross = np.minimum(chig["strong"], np.minimum(chig["weak"], chig["torsion"]) if open_i else chig["weak"])
-    top = np.where(cls_c == 4, np.maximum(design, gross * NRkg / gamma), design)
     nan = np.isnan(My_Rd) | np.isnan(Mz_Rd)
     cap, ratio_, eq = _solve(g, N_Ed, top, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
                              "(bisection)", f"{C633} (6.61), (6.62)")
