@@ -200,3 +200,14 @@ def test_the_turned_round_limits_give_the_same_class():
     edge = np.isclose(ct, l1, rtol=1e-9) | np.isclose(ct, l2, rtol=1e-9) | np.isclose(ct, l3, rtol=1e-9)
     assert np.array_equal(fast[~edge], cls[~edge])
     assert (cls == 3).any() and (cls == 1).any() and (cls == 4).any()
+
+
+@pytest.mark.parametrize("M_over_N", [50.0, 400.0, 2800.0])      # mm: eccentricity of the end moments
+def test_the_capacity_is_where_the_interaction_reaches_one(M_over_N):
+    # the capacity (moments in proportion) checked again as a demand: the interaction there is 1,
+    # whatever class the web takes on the way (IPE 450: Class 4 in compression, 1-3 under N + M)
+    N0 = 300e3
+    _, r = _run(N=N0, M=N0 * M_over_N, end_ratio=0.0)
+    cap = float(r.capacity[0])
+    _, again = _run(N=cap, M=cap * M_over_N, end_ratio=0.0)
+    assert float(again.ratio[0]) == pytest.approx(1.0, abs=1e-6)

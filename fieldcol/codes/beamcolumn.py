@@ -477,18 +477,28 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
     # the bracket: the pure-compression resistance, or the gross one where N + M leaves Class 4
     gross = np.minimum(chig["strong"], np.minimum(chig["weak"], chig["torsion"]) if open_i else chig["weak"])
     top = np.where(cls_c == 4, np.maximum(design, gross * NRkg / gamma), design)
-    fixed = None
+    fixed = split = None
     if not refine:
         fixed = terms(cls_c)
     elif not any(used[("sway", ax)] for ax in AXES):
-        # with the moments in proportion (or growing as N e) the class only worsens as N grows:
-        # the same class at a tiny load and at the top of the bracket holds everywhere between
+        # every moment grows in proportion to N (given, end moments, N e): psi does not change with N
+        # and alpha rises with it, so the web is Class 1/2 up to N2 (alpha = a2) and takes the class
+        # psi gives above; one class over the whole bracket is computed once
         lo_c, hi_c = section_class(top * 1e-9), section_class(top)
         if np.array_equal(lo_c, hi_c):
             fixed = terms(hi_c)
+        else:
+            split = ((2 * a2 - 1) * c_web * sec["tw"] * fy, terms(lo_c), terms(hi_c))
 
     def both(N):
-        cls, Ny, Nz, lb_y, lb_z, My, Mz = fixed if fixed is not None else terms(section_class(N))
+        if fixed is not None:
+            T = fixed
+        elif split is not None:
+            low = N <= split[0]
+            T = tuple(np.where(low, a, b) for a, b in zip(split[1], split[2]))
+        else:
+            T = terms(section_class(N))
+        cls, Ny, Nz, lb_y, lb_z, My, Mz = T
         kyy, kyz, kzy, kzz = factors(N, cls, Ny, Nz, lb_y, lb_z)
         a, b = N / Ny, N / Nz
         if has["strong"]:
