@@ -2,6 +2,11 @@
 flexure, EN 1993-1-1 6.3.3 (6.61), (6.62) with the Annex B (method 2) interaction factors, and a
 first-yield check for the ``elastic`` reference.
 
+Under EN the section is classified under the actual N + M (Table 5.2: the web of an I by the
+plastic alpha for Class 1/2 and the elastic psi for Class 3, at every trial load of the capacity),
+Class 1-3 take A and W_pl / W_el, Class 4 Aeff and Weff (Table 6.7); chi_LT of an I follows 6.3.2.3
+with C1 and k_c from the end moments where those are the only moments (C1 = k_c = 1 otherwise).
+
 The moments on a column as it stands come from four sources, each with its own second-order
 treatment (N*mm, per axis):
 
