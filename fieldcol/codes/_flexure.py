@@ -360,7 +360,8 @@ def chi_lt_rolled(sec: dict[str, np.ndarray], M_Rk: np.ndarray, E: np.ndarray, G
     p = np.full(shape, np.nan) if psi is None else np.broadcast_to(np.asarray(psi, dtype=float), shape)
     C1 = t.add("C1", "moment-diagram factor for Mcr (linear end moments, k = kw = 1)",
                "tabulated by psi = M_small/M_large, linear between points; unknown diagram: 1.0",
-               c1_end_moments(p), "", "EN 1993-1-1 6.3.2.2 (2); C1 table for end moments (from memory)")
+               c1_end_moments(p), "", "EN 1993-1-1 6.3.2.2 (2); C1 for linear end moments "
+               "(tabulated; the lower value where tabulations differ)")
     Mcr = t.add("Mcr", "elastic critical moment for lateral-torsional buckling",
                 "C1 pi^2 E Iz / L^2 sqrt(Iw/Iz + L^2 G It / (pi^2 E Iz)), L = Lc,twist",
                 elastic_lt_moment(E, G, sec["Iy"], sec["Cw"], sec["J"], Lb, C1), "N*mm", f"{C6322} (2)")
