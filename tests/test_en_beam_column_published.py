@@ -96,6 +96,10 @@ def test_the_record_gives_the_same_and_says_which_equation():
     assert a.governing_mode == "beam-column"
     assert a.utilization == pytest.approx(0.653, rel=0.005)       # (6.62), sheet 5
     assert a.to_dict()["beam_column"]["equation"] == "6.62"
+    # EN 1993-1-1 Table 6.5: a rolled I with h/b = 450/190 > 2 takes curve c (the example's too),
+    # said as the letter in the trace
+    steps = {st["symbol"]: st["value"] for st in a.to_dict()["steps"]}
+    assert steps["curve,LT_strong"] == "c"
 
 
 def test_web_class_3_by_psi_worked_by_hand():
