@@ -421,7 +421,9 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
-                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance)
+                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance,
+                    holes=col.flange_holes, Fu=None if col.flange_holes is None
+                    else float(col.material.fu_at(col.section.tmax_nominal)))
     if col.built is not None and col.built.open_axis(col.bow_axis) is not None:
         # the chords of a laced or battened column bend apart: the I-shape beam-column rules
         # do not apply; a bow beyond the curve's allowance is left unchecked (not-covered)

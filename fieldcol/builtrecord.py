@@ -92,10 +92,55 @@ def _plates(spec: Mapping[str, Any], key: str, fld: str) -> tuple[float, float] 
 
 # the keys each arrangement reads: any other is refused, never silently left out
 _COMMON = ("arrangement", "connection")
-USED = {"angles-web": _COMMON + ("angle", "web", "flange_plates", "long_leg", "pitch"),
-        "channels": _COMMON + ("channel", "gap", "toes", "lacing", "battens", "plates", "pitch"),
+USED = {"angles-web": _COMMON + ("angle", "web", "flange_plates", "long_leg", "pitch", "holes"),
+        "channels": _COMMON + ("channel", "gap", "toes", "lacing", "battens", "plates", "pitch",
+                               "holes"),
         "angles-box": _COMMON + ("angle", "depth", "width", "lacing", "battens"),
         "angles-star": _COMMON + ("angle", "gap", "pitch")}
+
+
+def parse_holes(spec: Any, fld: str) -> tuple[float, int]:
+    """(hole diameter mm, holes across one flange) of a ``holes`` object
+    ``{"diameter": "15/16 in", "per_flange": 2}``.
+
+    Example:
+        >>> d, n = parse_holes({"diameter": "15/16 in", "per_flange": 2}, "section.built.holes")
+        >>> round(d, 2), n
+        (23.81, 2)
+    """
+    h = _obj(spec, fld, "fastener holes")
+    n = h.get("per_flange")
+    if isinstance(n, bool) or not isinstance(n, int) or not 1 <= n <= 12:
+        raise InputError(f"{fld}.per_flange", n, "must be a whole number of holes from 1 to 12",
+                         "the holes across one flange at one height, e.g. 2")
+    return _len(h, "diameter", fld), n
+
+
+def built_holes(spec: Any, built: BuiltUp, fld: str = "section.built") -> Any:
+    """The fastener holes in the tension flange of a riveted or bolted built-up section
+    (``section.built.holes``) as a ``codes.netflange.FlangeHoles``, or None.
+
+    Example:
+        >>> spec = {"arrangement": "angles-web", "angle": "L4X4X1/2", "connection": "riveted",
+        ...         "web": {"depth": "14 in", "thickness": "3/8 in"},
+        ...         "holes": {"diameter": "15/16 in", "per_flange": 2}}
+        >>> built_holes(spec, parse_built(spec)).count
+        2
+    """
+    if not isinstance(spec, Mapping) or spec.get("holes") is None:
+        return None
+    from fieldcol.codes.netflange import HOLE_ALLOWANCE, FlangeHoles
+    from fieldcol.sections._builtup import tension_flange
+
+    d, n = parse_holes(spec["holes"], f"{fld}.holes")
+    if built.connection == "welded":
+        raise InputError(f"{fld}.holes", "welded", "a welded section has no fastener holes",
+                         "give the connection: riveted or bolted")
+    Afg, t, width, axis, where = tension_flange(built)
+    if n * (d + HOLE_ALLOWANCE) >= width:
+        raise InputError(f"{fld}.holes.per_flange", n, f"{n} holes of {d:.1f} mm take the whole "
+                         f"width of the {where} ({width:.0f} mm)", "count the holes across one flange")
+    return FlangeHoles(d, n, t, Afg, axis, where)
 
 
 def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:

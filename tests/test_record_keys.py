@@ -87,7 +87,8 @@ BUILT = [
     {"tag": "K/10", "length": "16 ft", "material": "A7",
      "section": {"built": {"arrangement": "angles-web", "angle": "L4X4X1/2", "long_leg": "flange",
                            "web": {"depth": "14 in", "thickness": "3/8 in"},
-                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"}}}},
+                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"},
+                           "holes": {"diameter": "15/16 in", "per_flange": 2}}}},
 ]
 BASES = [CATALOGUE, MEASURED_I, RECT, ROUND, *BUILT]
 

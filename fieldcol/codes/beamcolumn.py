@@ -40,6 +40,7 @@ from fieldcol.trace import Trace
 from ._en_class import classify
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
 from ._inputs import prepare
+from .netflange import FlangeHoles, aisc_tension_flange, en_tension_flange
 from ._result import CodeResult, Warning
 
 AXES = ("strong", "weak")
@@ -98,7 +99,8 @@ def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
 def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
-                      sway_Pe: Mapping[str, Any] | None = None) -> BeamColumnResult:
+                      sway_Pe: Mapping[str, Any] | None = None, holes: FlangeHoles | None = None,
+                      Fu: float | None = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -116,6 +118,9 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
             missing: 0 (one end moment, Cm = 0.6).
         sway_Pe: per axis, the buckling load the sway amplifier divides the column's force by (N);
             missing: the column's own (Pe,story = pi^2 EI / Lc^2).
+        holes: fastener holes across the tension flange of a riveted or bolted section
+            (``netflange.FlangeHoles``): AISC 360-22 F13.1 / EN 1993-1-1 6.2.5 (4) cap the
+            flexural strength about ``holes.axis``; Fu (MPa) is then required.
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -162,10 +167,13 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                       "N*mm" if src in ("given", "ends") else "mm", "record")
     design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
     if code == "aisc360-22":
-        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway)
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, holes, Fu)
     if code == "elastic":
+        if holes is not None:
+            t.add("note", "fastener holes in the tension flange: the first-yield reference uses the "
+                  "gross section (rupture at the holes is a check of the codes)", "", "", "", _FY)
         return _elastic(sec, v, M, axial, shape, n, Pr_, design, t)
     raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
 
@@ -185,7 +193,7 @@ def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, 
     return cap, ratio, eq
 
 
-def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
     Fy, E = v["Fy"], v["E"]
     lrfd = basis == "lrfd"
     alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
@@ -197,6 +205,8 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
         t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what, s.formula,
                                 s.value, s.unit, s.clause) for s in sub.steps]
         out |= o & ((M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0)
+        if holes is not None and holes.axis == ax:
+            Mn = aisc_tension_flange(holes, Fy, Fu, sec["Sx" if ax == "strong" else "Sy"], Mn, t)
         Mc[ax] = t.add(f"Mc_{ax}", f"available flexural strength, {ax} axis",
                        "phi_b Mn, phi_b = 0.90" if lrfd else "Mn / Omega_b, Omega_b = 1.67",
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
@@ -261,7 +271,7 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
     return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, holes=None, fu=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
 
     def mode(name, attr):
@@ -305,6 +315,11 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
                   chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")
     Mz_Rd = t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", MRk["weak"] / gamma,
                   "N*mm", f"{C633} (6.61), (6.62)")
+    if holes is not None:
+        if holes.axis == "strong":
+            My_Rd = en_tension_flange(holes, fy, fu, sec["Sx"], My_Rd, t)
+        else:
+            Mz_Rd = en_tension_flange(holes, fy, fu, sec["Sy"], Mz_Rd, t)
     c12 = cls <= 2
     open_i = kind == "i"
 

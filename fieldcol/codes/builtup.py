@@ -325,6 +325,9 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
         factor, clause = 1.0, "elastic stability"
     t.steps.extend(st for st in res.trace.steps if not _replaced(st.symbol, code, {o.axis for o in built.open_axes}))
     t.extend(post)
+    if built.connection != "welded":
+        from .coverplates import GROSS, GROSS_CLAUSE
+        t.add("note", f"{built.connection} built-up member: {GROSS}", "", "", "", GROSS_CLAUSE)
     res.trace = t
     res = _rechoose(res, built, factor, clause)
     res.warnings.extend(warnings)

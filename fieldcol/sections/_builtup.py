@@ -394,3 +394,32 @@ def angles_star(angle: Part, gap: float, pitch: float, *, connection: str = "riv
 def with_notes(b: BuiltUp, *more: str) -> BuiltUp:
     """The built-up section with more notes on its Section."""
     return replace(b, section=replace(b.section, notes=b.section.notes + tuple(more)))
+
+
+def tension_flange(b: BuiltUp) -> tuple[float, float, float, str, str]:
+    """The flange a line of fastener holes crosses: (gross area Afg mm^2, thickness the holes
+    pass through mm, width across which they lie mm, the axis about which bending puts it in
+    tension, the flange in words), for ``angles-web`` (the angles' outstanding legs with the
+    flange plate) and ``channels`` (the two channels' flanges on one side, with the cover
+    plate). Other arrangements raise ``ValueError``.
+
+    Example:
+        >>> from fieldcol.sections._parts import Part
+        >>> h = angles_web(Part("angle", 100, 100, 10, 10), 300, 10, flange_plates=(250, 12))
+        >>> [round(v) for v in tension_flange(h)[:3]]
+        [5000, 22, 200]
+    """
+    turned = (lambda p: p["Iy"] > p["Ix"] * (1 + 1e-9))(properties(list(b.outlines)))
+    axis = _turn_axis("strong", turned)
+    plates = [p for p in b.parts if p.kind == "plate" and p.name in ("flange plate", "cover plate")]
+    bp, tp = (plates[0].b, plates[0].d) if plates else (0.0, 0.0)
+    if b.arrangement == "angles-web":
+        box = b.outlines[1].box()
+        leg, t = box[2] - box[0], b.parts[1].tf
+        return (2 * leg * t + bp * tp, t + tp, 2 * leg, axis,
+                "angles' outstanding legs" + (" and flange plate" if plates else ""))
+    if b.arrangement == "channels":
+        ch = b.parts[0]
+        return (2 * ch.b * ch.tf + bp * tp, ch.tf + tp, 2 * ch.b, axis,
+                "two channel flanges" + (" and cover plate" if plates else ""))
+    raise ValueError(b.arrangement)
