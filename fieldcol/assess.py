@@ -40,6 +40,7 @@ MODE_WORDS = {
     "bow": "measured bow (beam-column)",
     "beam-column": "axial force with bending (beam-column interaction)",
     "section-band": "the section where steel was lost (loss band)",
+    "tie-joint": "the end rivets or bolts of the lacing or battens",
 }
 
 
@@ -460,7 +461,8 @@ def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength],
     if col.built is not None:
         from fieldcol.codes.builtup import check_builtup
         return check_builtup(col.code, col.built, *args[1:], basis=col.basis,
-                             gamma_M1=col.gamma_M1)
+                             gamma_M1=col.gamma_M1,
+                             Fu=float(mat.fu_at(sec.tmax_nominal)))
     if col.plate_joint is not None:
         from fieldcol.codes.coverplates import check_riveted_plates
         return check_riveted_plates(col.code, col.plate_joint, *args, basis=col.basis,

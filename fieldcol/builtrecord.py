@@ -12,7 +12,8 @@ from typing import Any
 from fieldcol.errors import InputError
 from fieldcol.recordkeys import check_keys
 from fieldcol.sections._builtup import (ARRANGEMENTS, CONNECTIONS, LACING_KINDS, Battens, BuiltUp,
-                                        Lacing, angles_box, angles_star, angles_web, channels)
+                                        Lacing, TieFasteners, angles_box, angles_star, angles_web,
+                                        channels)
 from fieldcol.sections._parts import Part, catalogue_part, measured
 
 
@@ -65,7 +66,41 @@ def _planes(spec: Mapping[str, Any], fld: str) -> int:
     return int(n)
 
 
-def _tie(spec: Mapping[str, Any], fld: str) -> Lacing | Battens | None:
+def _fasteners(spec: Any, fld: str, connection: str) -> TieFasteners | None:
+    """The rivets or bolts at each end of a lacing bar or batten (``fasteners``), or None."""
+    if spec is None:
+        return None
+    f = _obj(spec, fld, "tie fasteners")
+    if connection == "welded":
+        raise InputError(fld, "welded", "a welded built-up section has no end rivets or bolts",
+                         "give the connection: riveted or bolted")
+    n = f.get("count")
+    if isinstance(n, bool) or not isinstance(n, int) or not 1 <= n <= 12:
+        raise InputError(f"{fld}.count", n, "must be a whole number from 1 to 12",
+                         "the rivets or bolts at one end of one bar or batten, e.g. 1")
+    kind = "rivet" if connection == "riveted" else "bolt"
+    grade = f.get("grade")
+    if grade is not None:
+        if kind == "rivet":
+            raise InputError(f"{fld}.grade", grade, "rivets have no bolt grade",
+                             "give Fu of the rivet steel, if documented or tested")
+        if not isinstance(grade, str) or not grade.strip():
+            raise InputError(f"{fld}.grade", grade, "must be a bolt grade (text)",
+                             "A307, A325-N, A325-X, A490-N, A490-X; EN: 4.6, 5.6, 8.8, 10.9")
+        grade = grade.strip().upper()
+    Fu = None
+    if f.get("Fu") not in (None, ""):
+        from fieldcol.record import parse_quantity
+        Fu = parse_quantity(f["Fu"], "stress", f"{fld}.Fu")
+        if not 250 <= Fu <= 1600:
+            raise InputError(f"{fld}.Fu", f["Fu"], "outside the range of fastener steels "
+                             "(250 to 1600 MPa)", "e.g. 52 ksi for old rivet steel")
+    return TieFasteners(n, _len(f, "diameter", fld), kind, grade, Fu,
+                        _len(f, "pitch", fld, required=False), _len(f, "edge", fld, required=False),
+                        fld)
+
+
+def _tie(spec: Mapping[str, Any], fld: str, connection: str = "riveted") -> Lacing | Battens | None:
     if spec.get("lacing") is not None and spec.get("battens") is not None:
         raise InputError(f"{fld}.battens", "lacing and battens",
                          "give the lacing or the battens, not both", None)
@@ -74,12 +109,12 @@ def _tie(spec: Mapping[str, Any], fld: str) -> Lacing | Battens | None:
         lac = _obj(spec["lacing"], f, "lacing")
         return Lacing(_choice(lac.get("kind"), LACING_KINDS, f"{f}.kind", "single"),
                       _len(lac, "width", f), _len(lac, "thickness", f), _len(lac, "pitch", f),
-                      _planes(lac, f))
+                      _planes(lac, f), _fasteners(lac.get("fasteners"), f"{f}.fasteners", connection))
     if spec.get("battens") is not None:
         f = f"{fld}.battens"
         bat = _obj(spec["battens"], f, "battens")
         return Battens(_len(bat, "spacing", f), _len(bat, "depth", f), _len(bat, "thickness", f),
-                       _planes(bat, f))
+                       _planes(bat, f), _fasteners(bat.get("fasteners"), f"{f}.fasteners", connection))
     return None
 
 
@@ -175,7 +210,7 @@ def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:
                           long_leg=_choice(spec.get("long_leg"), ("flange", "web"),
                                            f"{fld}.long_leg", "flange"),
                           pitch=_len(spec, "pitch", fld, required=False), field=fld)
-    tie = _tie(spec, fld)
+    tie = _tie(spec, fld, conn)
     if arr == "channels":
         return channels(_part(spec.get("channel"), "channel", f"{fld}.channel"),
                         _len(spec, "gap", fld),

@@ -35,8 +35,9 @@ KEYS: dict[str, tuple[str, ...]] = {
     "measured channel": ("d", "bf", "tf", "tw", "r1", "r2", "slope"),
     "plate": ("width", "thickness"),
     "web plate": ("depth", "thickness"),
-    "lacing": ("kind", "width", "thickness", "pitch", "planes"),
-    "battens": ("spacing", "depth", "thickness", "planes"),
+    "lacing": ("kind", "width", "thickness", "pitch", "planes", "fasteners"),
+    "battens": ("spacing", "depth", "thickness", "planes", "fasteners"),
+    "tie fasteners": ("count", "diameter", "grade", "Fu", "pitch", "edge"),
     "section loss": ("flange", "web", "wall", "uniform", "from", "to", "holes"),
     "holes": ("flange", "web", "wall"),
     "cover plates": ("thickness", "width", "connection", "pitch", "holes"),
@@ -187,6 +188,8 @@ def _built_keys(spec: Any, fld: str) -> None:
                        ("lacing", "lacing"), ("battens", "battens"), ("holes", "fastener holes")):
         if isinstance(spec.get(key), Mapping):
             check_keys(spec[key], table, f"{fld}.{key}")
+            if key in ("lacing", "battens") and isinstance(spec[key].get("fasteners"), Mapping):
+                check_keys(spec[key]["fasteners"], "tie fasteners", f"{fld}.{key}.fasteners")
 
 
 def _material_keys(spec: Mapping[str, Any], fld: str) -> None:

@@ -43,6 +43,24 @@ LACING_KINDS = ("single", "double", "posts")
 
 
 @dataclass(frozen=True)
+class TieFasteners:
+    """The rivets or bolts at one end of a lacing bar or a batten: ``count``, nominal
+    ``diameter`` (mm), ``kind`` (``rivet`` or ``bolt``), bolt ``grade`` (None: not recorded),
+    ``Fu`` of the fastener's steel (MPa; None: not recorded), ``pitch`` between them along the
+    row and ``edge`` (end distance from the last hole's centre, mm; None: not recorded),
+    ``field``: where they were read in the record (for errors)."""
+
+    count: int
+    diameter: float
+    kind: str = "rivet"
+    grade: str | None = None
+    Fu: float | None = None
+    pitch: float | None = None
+    edge: float | None = None
+    field: str = "fasteners"
+
+
+@dataclass(frozen=True)
 class Lacing:
     """Flat-bar lacing in each of ``planes`` planes: ``kind`` single (zig-zag diagonals),
     double (crossed diagonals) or posts (diagonals with posts); bar ``width`` x ``thickness``
@@ -53,6 +71,7 @@ class Lacing:
     thickness: float
     pitch: float
     planes: int = 2
+    fasteners: TieFasteners | None = None   # at each end of a bar
 
     @property
     def area(self) -> float:
@@ -68,6 +87,7 @@ class Battens:
     depth: float
     thickness: float
     planes: int = 2
+    fasteners: TieFasteners | None = None   # at each end of a batten (one chord)
 
     @property
     def I(self) -> float:
