@@ -40,6 +40,7 @@ MODE_WORDS = {
     "bow": "measured bow (beam-column)",
     "beam-column": "axial force with bending (beam-column interaction)",
     "section-band": "the section where steel was lost (loss band)",
+    "tie-joint": "the end rivets or bolts of the lacing or battens",
 }
 
 
@@ -421,7 +422,9 @@ def _bow(col: ColumnInput, Fy: float, lengths: Mapping[str, AxisLength],
     res = check_bow(col.code, col.section, Fy, col.material.E, col.material.G, L,
                     lengths["strong"].Lc, lengths["weak"].Lc, lengths["twist"].Lc, col.bow,
                     col.bow_axis, basis="asd" if col.basis == "asd" else "lrfd",
-                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance)
+                    gamma_M1=col.gamma_M1, Pr=demand, axial=axial, allowance=col.bow_allowance,
+                    holes=col.flange_holes, Fu=None if col.flange_holes is None
+                    else float(col.material.fu_at(col.section.tmax_nominal)))
     if col.built is not None and col.built.open_axis(col.bow_axis) is not None:
         # the chords of a laced or battened column bend apart: the I-shape beam-column rules
         # do not apply; a bow beyond the curve's allowance is left unchecked (not-covered)
@@ -458,7 +461,8 @@ def _code_check(col: ColumnInput, Fy: float, L: Mapping[str, AxisLength],
     if col.built is not None:
         from fieldcol.codes.builtup import check_builtup
         return check_builtup(col.code, col.built, *args[1:], basis=col.basis,
-                             gamma_M1=col.gamma_M1)
+                             gamma_M1=col.gamma_M1,
+                             Fu=float(mat.fu_at(sec.tmax_nominal)))
     if col.plate_joint is not None:
         from fieldcol.codes.coverplates import check_riveted_plates
         return check_riveted_plates(col.code, col.plate_joint, *args, basis=col.basis,

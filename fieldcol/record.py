@@ -168,6 +168,7 @@ class ColumnInput:
     moduli: str = ""               # where E and G come from (the code being applied, or as entered)
     bow_allowance: float = 1000.0  # n of the L/n of bow already in the column curve
     plate_joint: Any = None        # a codes.coverplates.PlateJoint: cover plates riveted or bolted
+    flange_holes: Any = None       # a codes.netflange.FlangeHoles: fastener holes across a flange
 
 
 @dataclass(frozen=True)
@@ -225,11 +226,12 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     code = _choice(record.get("code", "aisc360-22"), CODES, "code")
     length = parse_length(record["length"], "length")
     spec = record["section"]
-    built = None
+    built, holes = None, None
     if isinstance(spec, Mapping) and "built" in spec:
-        from fieldcol.builtrecord import parse_built
+        from fieldcol.builtrecord import built_holes, parse_built
         _section_keys(spec, "section")
         built = parse_built(spec["built"])
+        holes = built_holes(spec["built"], built)
     section = built.section if built is not None else parse_section(spec)
     material, moduli = for_code(parse_material(record["material"], shape=section.kind), code)
     restraints = _object(record.get("restraints"), "restraints",
@@ -260,11 +262,33 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
     allowance = _bow_allowance(condition.get("bow_allowance"))
     band = parse_band(record["section"], length)
     kappa, kappa_label = parse_knowledge(record.get("knowledge"))
+    joint = _record_plate_joint(spec, section)
+    if joint is not None and joint.bare is not None:
+        holes = _plate_holes(spec["plates"], joint)
     return ColumnInput(tag.strip(), section, material, length, axes, twist,
                        _choice(record.get("k_basis", "recommended"), K_BASES, "k_basis"),
                        code, basis, demand, float(gamma), units, bow, plumb, bow_axis, bow_over,
                        plumb_axis, band, kappa, kappa_label, built, moduli, allowance,
-                       _record_plate_joint(spec, section))
+                       joint, holes)
+
+
+def _plate_holes(plates: Mapping[str, Any], joint: Any) -> Any:
+    """The fastener holes across a flange and its riveted or bolted cover plate
+    (``section.plates.holes``), as a ``codes.netflange.FlangeHoles``, or None."""
+    if plates.get("holes") is None:
+        return None
+    from fieldcol.builtrecord import parse_holes
+    from fieldcol.codes.netflange import HOLE_ALLOWANCE, FlangeHoles
+
+    fld = "section.plates.holes"
+    d, n = parse_holes(plates["holes"], fld)
+    bf, tf = float(joint.bare.bf), float(joint.bare.tf)
+    width = min(bf, joint.width)
+    if n * (d + HOLE_ALLOWANCE) >= width:
+        raise InputError(f"{fld}.per_flange", n, f"{n} holes of {d:.1f} mm take the whole width "
+                         f"of the flange and plate ({width:.0f} mm)", "count the holes across one flange")
+    return FlangeHoles(d, n, joint.thickness + tf, joint.width * joint.thickness + bf * tf,
+                       "strong", "flange and cover plate")
 
 
 def _record_plate_joint(spec: Any, section: Section) -> Any:
@@ -448,6 +472,9 @@ def _plate_joint(plates: Mapping[str, Any], fld: str, tp: float, bp: float | Non
     from fieldcol.codes.coverplates import CONNECTIONS, PlateJoint
 
     how = _choice(plates.get("connection", "welded"), CONNECTIONS, f"{fld}.plates.connection")
+    if how == "welded" and plates.get("holes") is not None:
+        raise InputError(f"{fld}.plates.holes", "welded", "welded plates have no fastener holes",
+                         "give the connection: riveted or bolted")
     if how == "welded":
         if plates.get("pitch") not in (None, ""):
             raise InputError(f"{fld}.plates.pitch", plates["pitch"], "welded plates have no "

@@ -30,16 +30,18 @@ KEYS: dict[str, tuple[str, ...]] = {
     "section built up": ("built",),
     "built-up section": ("arrangement", "connection", "angle", "channel", "web", "flange_plates",
                          "long_leg", "pitch", "gap", "toes", "plates", "depth", "width", "lacing",
-                         "battens"),
+                         "battens", "holes"),
     "measured angle": ("d", "b", "t", "r1", "r2"),
     "measured channel": ("d", "bf", "tf", "tw", "r1", "r2", "slope"),
     "plate": ("width", "thickness"),
     "web plate": ("depth", "thickness"),
-    "lacing": ("kind", "width", "thickness", "pitch", "planes"),
-    "battens": ("spacing", "depth", "thickness", "planes"),
+    "lacing": ("kind", "width", "thickness", "pitch", "planes", "fasteners"),
+    "battens": ("spacing", "depth", "thickness", "planes", "fasteners"),
+    "tie fasteners": ("count", "diameter", "grade", "Fu", "pitch", "edge"),
     "section loss": ("flange", "web", "wall", "uniform", "from", "to", "holes"),
     "holes": ("flange", "web", "wall"),
-    "cover plates": ("thickness", "width", "connection", "pitch"),
+    "cover plates": ("thickness", "width", "connection", "pitch", "holes"),
+    "fastener holes": ("diameter", "per_flange"),
     "material by grade": ("grade", "Fy"),
     "material by values": ("Fy", "E", "G", "Fu", "name"),
     "restraints": ("strong", "weak", "twist"),
@@ -124,6 +126,7 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
         _section_keys(sec, "section")
         for key, table in (("loss", "section loss"), ("plates", "cover plates")):
             check_keys(obj(sec.get(key)), table, f"section.{key}")
+        check_keys(obj(obj(sec.get("plates")).get("holes")), "fastener holes", "section.plates.holes")
         check_keys(obj(obj(sec.get("loss")).get("holes")), "holes", "section.loss.holes")
     _material_keys(obj(record.get("material")), "material")
     res = obj(record.get("restraints"))
@@ -182,9 +185,11 @@ def _built_keys(spec: Any, fld: str) -> None:
     check_keys(spec, "built-up section", fld)
     for key, table in (("angle", "measured angle"), ("channel", "measured channel"),
                        ("web", "web plate"), ("flange_plates", "plate"), ("plates", "plate"),
-                       ("lacing", "lacing"), ("battens", "battens")):
+                       ("lacing", "lacing"), ("battens", "battens"), ("holes", "fastener holes")):
         if isinstance(spec.get(key), Mapping):
             check_keys(spec[key], table, f"{fld}.{key}")
+            if key in ("lacing", "battens") and isinstance(spec[key].get("fasteners"), Mapping):
+                check_keys(spec[key]["fasteners"], "tie fasteners", f"{fld}.{key}.fasteners")
 
 
 def _material_keys(spec: Mapping[str, Any], fld: str) -> None:

@@ -16,9 +16,15 @@ An option is a JSON object; values with units are text as typed, like the column
 "to": "fixed" | "pinned" | "free" | "guided" | {"rotation": "50000 kip*in/rad"}}``
     a changed end condition (refused on an axis whose K is given by ``k`` or ``alignment``:
     the end would not change it).
-``{"kind": "plates", "thickness": "3/8 in", "width": "12 in"}``
-    cover plates welded to both flanges of an I section (``width``: the flange width when
-    absent); applied after any recorded section loss.
+``{"kind": "plates", "thickness": "3/8 in", "width": "12 in", "connection": "bolted",
+"pitch": "6 in", "holes": {"diameter": "15/16 in", "per_flange": 4}}``
+    cover plates on both flanges of an I section (``width``: the flange width when absent);
+    applied after any recorded section loss. Welded unless ``connection`` is ``riveted`` or
+    ``bolted`` with the fasteners' ``pitch``: then checked as the section's own riveted or bolted
+    plates (AISC 360-22 E6.1 modified slenderness and E6.2 spacing; EN 1993-1-8 Table 3.3
+    buckling between fasteners); ``holes`` (optional, the holes drilled across a flange and
+    its plate) weaken the flange in tension under bending (AISC 360-22 F13.1, EN 1993-1-1
+    6.2.5 (4)).
 ``{"kind": "remove_brace", "axis": .., "at": .., "twist": false}``
     the brace at ``at`` taken out (e.g. for a change of use); an error if there is none there
     (positions match within 2 mm); a twist restraint at the same point goes with it unless
@@ -52,7 +58,7 @@ _KEYS = {
     "brace": {"axis", "at", "stiffness", "strength", "twist"},
     "cable": {"axis", "at", "cable", "strength", "twist"},
     "end": {"axis", "end", "to"},
-    "plates": {"thickness", "width"},
+    "plates": {"thickness", "width", "connection", "pitch", "holes"},
     "remove_brace": {"axis", "at", "twist"},
     "combined": {"options"},
 }
@@ -339,7 +345,9 @@ def label(option: Mapping[str, Any]) -> str:
         to = ", ".join(f"{k} {v}" for k, v in to.items()) if isinstance(to, Mapping) else to
         return f"{ax} {option.get('end')} -> {to}"
     if kind == "plates":
-        return f"plates {option.get('thickness')} x {option.get('width') or 'flange width'}"
+        how = option.get("connection")
+        how = f", {how} at {option.get('pitch')}" if how in ("riveted", "bolted") else ""
+        return f"plates {option.get('thickness')} x {option.get('width') or 'flange width'}{how}"
     if kind == "remove_brace":
         return f"remove {ax} brace at {at}{twist}"
     if kind == "combined" and isinstance(option.get("options"), list):
@@ -515,8 +523,9 @@ def _add_plates(new: dict, opt: Mapping, fld: str, renames: dict[str, str]) -> N
         raise InputError(fld, opt.get("thickness"), "the section already carries cover plates",
                          "plates on plates are not modelled")
     plates = {"thickness": opt["thickness"]}
-    if opt.get("width") not in (None, ""):
-        plates["width"] = opt["width"]
+    for key in ("width", "connection", "pitch", "holes"):
+        if opt.get(key) not in (None, ""):
+            plates[key] = copy.deepcopy(opt[key])
     spec["plates"] = plates
     # parse here so that a bad plate names the option, not the record
     try:

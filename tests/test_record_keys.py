@@ -73,7 +73,10 @@ BUILT = [
                                        "r1": "0.4 in", "r2": "0 in", "slope": 0.1667},
                            "gap": "6 in", "toes": "out", "pitch": "24 in",
                            "lacing": {"kind": "single", "width": "2 in", "thickness": "3/8 in",
-                                      "pitch": "16 in", "planes": 2}}}},
+                                      "pitch": "16 in", "planes": 2,
+                                      "fasteners": {"count": 1, "diameter": "5/8 in",
+                                                    "Fu": "52 ksi", "edge": "1 in",
+                                                    "pitch": "2 in"}}}}},
     {"tag": "K/8", "length": "18 ft", "material": "A7",
      "section": {"built": {"arrangement": "channels", "channel": "C10X15.3", "gap": "5 in",
                            "plates": {"width": "14 in", "thickness": "3/8 in"}}}},
@@ -83,11 +86,13 @@ BUILT = [
                                      "r2": "0 mm"},
                            "depth": "420 mm", "width": "300 mm",
                            "battens": {"spacing": "600 mm", "depth": "180 mm",
-                                       "thickness": "8 mm", "planes": 2}}}},
+                                       "thickness": "8 mm", "planes": 2,
+                                       "fasteners": {"count": 2, "diameter": "16 mm"}}}}},
     {"tag": "K/10", "length": "16 ft", "material": "A7",
      "section": {"built": {"arrangement": "angles-web", "angle": "L4X4X1/2", "long_leg": "flange",
                            "web": {"depth": "14 in", "thickness": "3/8 in"},
-                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"}}}},
+                           "flange_plates": {"width": "10 in", "thickness": "1/2 in"},
+                           "holes": {"diameter": "15/16 in", "per_flange": 2}}}},
 ]
 BASES = [CATALOGUE, MEASURED_I, RECT, ROUND, *BUILT]
 

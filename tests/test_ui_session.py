@@ -567,6 +567,36 @@ def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
     _run(walk())
 
 
+def test_retrofit_plates_bolted_from_the_form(demo):
+    # the plates card offers the connection and the pitch; a bolted plate without its pitch is
+    # refused on the pitch field, and with it the option is checked as bolted plates (AISC
+    # 360-22 E6.1: the trace of the kept option names a/ri)
+    async def walk():
+        store, site = demo
+        s = Screen(store)
+        await s.start()
+        col = store.find_column(site.id, "A/1-G")
+        await s.go(f"/columns/{col.id}")
+        await s.tap("tab-retrofit")
+        await s.tap("option-kind-plates")
+        assert s.has("option-connection-bolted") and s.has("option-pitch")
+        await s.type("option-thickness", "3/8 in", submit=False)
+        await s.tap("option-connection-bolted")
+        await s.tap("option-compare")
+        assert "required for bolted plates" in (s.inner("option-pitch", ft.TextField).error or "")
+        assert not s.has("retrofit-compare")
+        await s.type("option-pitch", "6 in", submit=False)
+        await s.tap("option-compare")
+        assert s.has("retrofit-compare")
+        await s.tap("option-keep")
+        (r,) = store.retrofits(col.id)
+        assert r.option == {"kind": "plates", "thickness": "3/8 in", "connection": "bolted",
+                            "pitch": "6 in"}
+        assert s.has("retrofit-0-line")
+        assert any("bolted at 6 in" in str(getattr(c, "value", "") or "") for c in s.all())
+    _run(walk())
+
+
 # -- the column list: filters, search, and the place it was scrolled to ----------------------
 @pytest.mark.parametrize("width", [390, 820])
 def test_list_filters_search_and_scroll_kept_on_back(demo, width):

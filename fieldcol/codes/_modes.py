@@ -10,7 +10,7 @@ from ._result import MODES, ModeResult
 
 # Ties go to the first name here: a column that reaches the squash load in every mode is
 # reported as governed by yielding, not by a buckling mode that happens to equal it.
-_TIE_ORDER = ("yield", "flexural-strong", "flexural-weak", "torsional")
+_TIE_ORDER = ("yield", "flexural-strong", "flexural-weak", "torsional", "tie-joint")
 AXES = {"flexural-strong": "strong", "flexural-weak": "weak", "torsional": "twist"}
 
 

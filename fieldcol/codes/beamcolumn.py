@@ -46,6 +46,7 @@ from ._en_class import classify, web_thresholds, web_under_bending
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
 from .en1993 import reduction_factor
 from ._inputs import prepare
+from .netflange import FlangeHoles, aisc_tension_flange, en_tension_flange
 from ._result import CodeResult, Warning
 
 AXES = ("strong", "weak")
@@ -104,8 +105,8 @@ def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
 def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
-                      sway_Pe: Mapping[str, Any] | None = None, member_length: Any = None
-                      ) -> BeamColumnResult:
+                      sway_Pe: Mapping[str, Any] | None = None, member_length: Any = None,
+                      holes: FlangeHoles | None = None, Fu: float | None = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -125,6 +126,9 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
             missing: the column's own (Pe,story = pi^2 EI / Lc^2).
         member_length: the length (mm) the end moments act over, for the EN moment diagram between
             twist restraints (psi of the worst segment, C1, k_c); missing: the twist length.
+        holes: fastener holes across the tension flange of a riveted or bolted section
+            (``netflange.FlangeHoles``): AISC 360-22 F13.1 / EN 1993-1-1 6.2.5 (4) cap the
+            flexural strength about ``holes.axis``; Fu (MPa) is then required.
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -171,10 +175,14 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                       "N*mm" if src in ("given", "ends") else "mm", "record")
     design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
     if code == "aisc360-22":
-        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway)
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, member_length)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, member_length,
+                   holes, Fu)
     if code == "elastic":
+        if holes is not None:
+            t.add("note", "fastener holes in the tension flange: the first-yield reference uses the "
+                  "gross section (rupture at the holes is a check of the codes)", "", "", "", _FY)
         return _elastic(sec, v, M, axial, shape, n, Pr_, design, t)
     raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
 
@@ -194,7 +202,7 @@ def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, 
     return cap, ratio, eq
 
 
-def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
     Fy, E = v["Fy"], v["E"]
     lrfd = basis == "lrfd"
     alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
@@ -206,6 +214,8 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
         t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what, s.formula,
                                 s.value, s.unit, s.clause) for s in sub.steps]
         out |= o & ((M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0)
+        if holes is not None and holes.axis == ax:
+            Mn = aisc_tension_flange(holes, Fy, Fu, sec["Sx" if ax == "strong" else "Sy"], Mn, t)
         Mc[ax] = t.add(f"Mc_{ax}", f"available flexural strength, {ax} axis",
                        "phi_b Mn, phi_b = 0.90" if lrfd else "Mn / Omega_b, Omega_b = 1.67",
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
@@ -278,7 +288,8 @@ def _trace_value(trace: Trace, symbol: str, shape: tuple, n: int) -> np.ndarray 
     return None
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, member_length):
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, member_length,
+        holes=None, fu=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
     A = sec["A"]
 
@@ -440,16 +451,23 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
                 np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
                 f"{ANNEX_B} Table B.3")
 
-    def resist(cls):
+    def resist(cls, trace=None):
         My = pick({c: chiLT["strong"][c] * MRk["strong"][c] for c in candidates}, cls) / gamma
         Mz = pick({c: MRk["weak"][c] for c in candidates}, cls) / gamma
+        if trace is not None:
+            trace.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1", My,
+                      "N*mm", f"{C633} (6.61), (6.62)")
+            trace.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", Mz, "N*mm",
+                      f"{C633} (6.61), (6.62)")
+        if holes is not None:  # the cap at the holes does not depend on the class: said once, at N_Ed
+            quiet = Trace() if trace is None else trace
+            if holes.axis == "strong":
+                My = en_tension_flange(holes, fy, fu, sec["Sx"], My, quiet)
+            else:
+                Mz = en_tension_flange(holes, fy, fu, sec["Sy"], Mz, quiet)
         return My, Mz
 
-    My_Rd, Mz_Rd = resist(cls_d)
-    t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1", My_Rd, "N*mm",
-          f"{C633} (6.61), (6.62)")
-    t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", Mz_Rd, "N*mm",
-          f"{C633} (6.61), (6.62)")
+    My_Rd, Mz_Rd = resist(cls_d, t)
     open_i = kind == "i"
 
     def factors(N, cls, Ny, Nz, lb_y, lb_z):

@@ -49,6 +49,7 @@ from fieldcol.trace import Trace
 
 from ._en_class import classify
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
+from .netflange import aisc_tension_flange, en_tension_flange
 from ._inputs import non_negative, positive, prepare
 from ._result import CodeResult, Warning
 from .aisc360 import check_aisc360
@@ -112,7 +113,7 @@ class BowResult:
 def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_strong: Any,
               Lc_weak: Any, Lc_twist: Any, bow: Any, axis: str = "weak", *, basis: str = "lrfd",
               gamma_M1: float = 1.0, Pr: Any = None, axial: CodeResult | None = None,
-              allowance: float | None = None) -> BowResult:
+              allowance: float | None = None, holes: Any = None, Fu: float | None = None) -> BowResult:
     """Axial capacity of columns bowed beyond what the column curve allows for (L/1000 by
     default, L/1500 as the conservative option), by the code's beam-column interaction.
 
@@ -216,7 +217,12 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
                                 "the formulas assume a nearly straight member", big))
 
     if code == "aisc360-22":
-        Mc, capacity, ratio, out = _aisc(kind, axis, sec, v, e, Pr_b, basis, ax(axial.design, "design"), t)
+        Mn_cap = None
+        if holes is not None and holes.axis == axis:
+            Mn_cap = lambda Mn: aisc_tension_flange(holes, v["Fy"], Fu, sec["Sx" if axis == "strong" else "Sy"],  # noqa: E731
+                                                    Mn, t)
+        Mc, capacity, ratio, out = _aisc(kind, axis, sec, v, e, Pr_b, basis, ax(axial.design, "design"), t,
+                                         Mn_cap)
         if (out & (e > 0)).any():
             warnings.append(Warning("flexure-not-covered",
                                     "flexural strength not covered here for this section and axis "
@@ -225,8 +231,12 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
     elif code == "en1993-1-1":
         modes = {k: (ax(m.Pn, f"modes[{k}].Pn"), None if m.slenderness is None else ax(m.slenderness, k))
                  for k, m in axial.modes.items()}
+        Mc_cap = None
+        if holes is not None and holes.axis == axis:
+            Mc_cap = lambda Mc: en_tension_flange(holes, v["Fy"], Fu, sec["Sx" if axis == "strong" else "Sy"],  # noqa: E731
+                                                  Mc, t)
         Mc, capacity, ratio, cls4 = _en(kind, axis, sec, v, e, Pr_b, gamma, modes,
-                                       ax(axial.design, "design"), t)
+                                       ax(axial.design, "design"), t, Mc_cap)
         if (cls4 & (e > 0)).any():
             warnings.append(Warning("class-4", "Class 4 circular hollow section: outside EN 1993-1-1 "
                                     "(EN 1993-1-6); no capacity with the bow", cls4 & (e > 0)))
@@ -242,9 +252,11 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
 
 # ---- the three codes ---------------------------------------------------------------------------
 
-def _aisc(kind, axis, sec, v, e, Pr, basis, Pc, t):
+def _aisc(kind, axis, sec, v, e, Pr, basis, Pc, t, Mn_cap=None):
     Fy, E = v["Fy"], v["E"]
     Mn, out = aisc_flexure(kind, axis, sec, Fy, E, v["Lc_twist"], t)
+    if Mn_cap is not None:      # fastener holes in the tension flange (AISC 360-22 F13.1)
+        Mn = Mn_cap(Mn)
     lrfd = basis == "lrfd"
     Mc = t.add("Mc", "available flexural strength", "phi_b Mn, phi_b = 0.90" if lrfd else
                "Mn / Omega_b, Omega_b = 1.67", 0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
@@ -291,7 +303,7 @@ def _aisc(kind, axis, sec, v, e, Pr, basis, Pc, t):
     return Mc, capacity, ratio, out
 
 
-def _en(kind, axis, sec, v, e, Pr, gamma, modes, design, t):
+def _en(kind, axis, sec, v, e, Pr, gamma, modes, design, t, Mc_cap=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
     eps = np.sqrt(235.0 / fy)
     cls, _ = classify(kind, sec, eps, Trace())
@@ -303,6 +315,8 @@ def _en(kind, axis, sec, v, e, Pr, gamma, modes, design, t):
     cls4 = cls4 & np.isnan(M_Rk)          # Class 4 left without an effective modulus
     Mc = t.add("Mc", "design moment resistance used in 6.3.3", "chi_LT M_Rk / gamma_M1", chi_LT * M_Rk / gamma,
                "N*mm", f"{C633} (6.61), (6.62)")
+    if Mc_cap is not None:      # fastener holes in the tension flange (EN 1993-1-1 6.2.5 (4))
+        Mc = Mc_cap(Mc)
     NRk = t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4)", modes["yield"][0], "N",
                 "EN 1993-1-1 6.3.3")
     chi_y = t.add("chi_y", "flexural buckling factor, strong axis", "Nb,strong / N_Rk",

@@ -27,6 +27,7 @@ from typing import Any
 
 import numpy as np
 
+from fieldcol.errors import InputError
 from fieldcol.sections._builtup import Battens, BuiltUp, Lacing, OpenAxis
 from fieldcol.trace import Trace
 
@@ -211,14 +212,16 @@ def _not_covered(res: CodeResult, shape: tuple) -> CodeResult:
 
 def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_strong: float,
                   Lc_weak: float, Lc_twist: float, *, basis: str = "lrfd",
-                  gamma_M1: float = 1.0) -> CodeResult:
+                  gamma_M1: float = 1.0, Fu: float | None = None) -> CodeResult:
     """Axial strength of a built-up column under ``code`` (``elastic``, ``aisc360-22``,
     ``en1993-1-1``): the code's own check of the composite section, with the open axes
     replaced by the built-up rules (see the module notes).
 
     Args:
         code: the code. built: the built-up section. Fy, E, G: MPa. Lc_*: effective lengths
-            (mm). basis: AISC ``lrfd`` / ``asd``. gamma_M1: EN partial factor.
+            (mm). basis: AISC ``lrfd`` / ``asd``. gamma_M1: EN partial factor. Fu: the
+            member steel's tensile strength (MPa), for bearing at the lacing's or battens' end
+            fasteners (``codes.tiejoint``; needed only when they are recorded).
     Returns:
         a ``CodeResult`` (a batch of one).
 
@@ -241,6 +244,7 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
     warnings: list[Warning] = []
     one = np.ones(1, dtype=bool)
     post = Trace()          # steps that follow the code's own check of the composite
+    joints: list[float] = []   # nominal member strengths the end fasteners of the ties allow
     if code == "aisc360-22":
         Lm = dict(Lc)
         worst = max(Lc[ax] / r[ax] for ax in Lc)
@@ -277,6 +281,9 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
                 _aisc_lacing_shear(ax, res, float(sec.A), Fy, E, post, warnings, one)
         factor = 0.90 if basis == "lrfd" else 1 / 1.67
         clause = "AISC 360-22 E1, E6"
+        for ax in built.open_axes:
+            if _fasteners(ax, Fu):
+                joints.append(_aisc_joint(built, ax, res, factor, float(Fu), basis, post))
     elif code == "en1993-1-1":
         res = check_en1993(plain, Fy, E, G, Lc_strong, Lc_weak, Lc_twist, gamma_M1=gamma_M1)
         A = float(sec.A)
@@ -297,6 +304,8 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
                     res.modes[_MODE[o]] = integral
                     continue
             cap, Neff = _en_open(built, ax, Lc[o], Fy, E, gamma_M1, post, warnings, one)
+            if _fasteners(ax, Fu):
+                joints.append(_en_joint(built, ax, Lc[o], Fy, E, float(Fu), cap, post) * gamma_M1)
             mode = ModeResult(_MODE[o], np.array(Lc[o]), np.array(np.nan), np.array(Neff),
                               np.array(cap * gamma_M1 / A), np.array(cap * gamma_M1))
             if integral is not None and float(integral.Pn) < float(mode.Pn):
@@ -323,8 +332,20 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
                                              np.array(Lc[o] / r[o]), np.array(Pcr),
                                              np.array(Fcr), np.array(Fcr * A))
         factor, clause = 1.0, "elastic stability"
+    if joints:
+        Pj = min(joints)
+        res.modes["tie-joint"] = ModeResult("tie-joint", None, None, None,
+                                            np.array(Pj / float(sec.A)), np.array(Pj))
+    elif code != "elastic" and built.connection != "welded" and any(
+            isinstance(ax.tie, (Lacing, Battens)) for ax in built.open_axes):
+        post.add("note", "the end rivets or bolts of the lacing or battens are not recorded: not "
+                 "checked (record lacing.fasteners or battens.fasteners)", "", "", "",
+                 "AISC 360-22 J3; EN 1993-1-8 Table 3.4")
     t.steps.extend(st for st in res.trace.steps if not _replaced(st.symbol, code, {o.axis for o in built.open_axes}))
     t.extend(post)
+    if built.connection != "welded":
+        from .coverplates import GROSS, GROSS_CLAUSE
+        t.add("note", f"{built.connection} built-up member: {GROSS}", "", "", "", GROSS_CLAUSE)
     res.trace = t
     res = _rechoose(res, built, factor, clause)
     res.warnings.extend(warnings)
@@ -591,3 +612,103 @@ def _en_open(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, gamma_
           "M_Ed = N_Ed e0 / (1 - N_Ed/Ncr - N_Ed/Sv)", cap, "N", f"{EN64}.1 (6.69), (6.70)")
     _en_ties(ax, cap, L, E, fy, t)
     return cap, 1 / (1 / Ncr + 1 / Sv)
+
+
+def _fasteners(ax: OpenAxis, Fu: float | None) -> bool:
+    """True when the ties' end fasteners are recorded (and so checked); the member's Fu is
+    then needed for bearing."""
+    f = getattr(ax.tie, "fasteners", None)
+    if f is None:
+        return False
+    if Fu is None or not np.isfinite(Fu):
+        raise InputError("material.Fu", "", "the tensile strength is needed for bearing at the "
+                         "lacing's or battens' end fasteners", "give Fu with the material's values, "
+                         "or a grade")
+    return True
+
+
+def _ply(built: BuiltUp, ax: OpenAxis) -> float:
+    """The thinner of the tie and the chord's plate the fasteners pass through (mm)."""
+    return float(min(ax.tie.thickness, built.parts[0].tf))
+
+
+def _per_unit_shear(ax: OpenAxis) -> tuple[float, float]:
+    """(bar force, batten end (shear, moment) folded to the most loaded fastener) per unit of
+    the shear V across the member: a lacing bar V d / (n s h0); a batten V a / (n h0) and
+    V a / (2 n) (EN 1993-1-1 Fig. 6.11 statics, from memory)."""
+    from .tiejoint import batten_force
+
+    tie = ax.tie
+    if isinstance(tie, Lacing):
+        d, _ = lacing_geometry(ax)
+        _, _, share = lacing_bar(ax)
+        return d / (tie.planes * share * ax.h0), 0.0
+    return 0.0, batten_force(tie.fasteners, ax.a / (tie.planes * ax.h0), ax.a / (2 * tie.planes))
+
+
+def _joint_strength(code: str, built: BuiltUp, ax: OpenAxis, Fu: float, basis: str,
+                    t: Trace) -> float:
+    """The strength the end fasteners offer against their force: the group along a lacing
+    bar, the most loaded fastener of a batten (N)."""
+    from .tiejoint import group_strength
+
+    o, tie = ax.axis, ax.tie
+    if isinstance(tie, Battens) and tie.fasteners.count < 2:
+        raise InputError(f"{tie.fasteners.field}.count", 1, "a single rivet or bolt cannot carry "
+                         "the batten's moment (battens are rigid frames with the chords)",
+                         "record the fasteners at one end of one batten, at least 2")
+    group, one = group_strength(code, tie.fasteners, _ply(built, ax), Fu,
+                                tie.width / 2 if isinstance(tie, Lacing) else None, basis, t,
+                                f"{'bar' if isinstance(tie, Lacing) else 'batten'},{o}")
+    if isinstance(tie, Lacing):
+        return group
+    return t.add(f"R,one,batten,{o}", "strength of the most loaded fastener of a batten's end "
+                 "(every distance taken as the end distance, on the safe side)",
+                 "min(shear, bearing at the end distance)", one, "N",
+                 "AISC 360-22 J3.6, J3.10" if code == "aisc360-22" else "EN 1993-1-8 Table 3.4")
+
+
+def _aisc_joint(built: BuiltUp, ax: OpenAxis, res: CodeResult, factor: float, Fu: float,
+                basis: str, t: Trace) -> float:
+    """AISC: the lacing carries 2 % of the available strength (E6.2); the end fasteners of a
+    bar (J3.6, J3.10) limit the member to the strength whose 2 % they carry. AISC gives no
+    force for tie plates (E6.2 sets their proportions): the same 2 % with the batten's statics
+    is used for their fasteners (a judgement). Returns the nominal strength allowed (N)."""
+    o = ax.axis
+    R = _joint_strength("aisc360-22", built, ax, Fu, basis, t)
+    bar, batten = _per_unit_shear(ax)
+    per = bar or batten
+    Pc = float(np.asarray(res.modes[_MODE[o]].Pn).reshape(-1)[0]) * factor
+    what = "one lacing bar's end" if bar else "the most loaded fastener of a batten's end"
+    t.add(f"F,joint,{o}", f"force on {what} at 2 % of the available strength, {o} axis",
+          "0.02 Pc d / (n s h0)" if bar else "0.02 Pc with V a / (n h0), V a / (2 n) on the group",
+          0.02 * Pc * per, "N", f"{E6}.2" + ("" if bar else "; judgement (AISC gives no tie plate force)"))
+    limit = t.add(f"Pc,joint,{o}", f"available member strength the end fasteners allow, {o} axis",
+                  "R_joint / (0.02 F per unit shear)", R / (0.02 * per), "N",
+                  f"{E6}.2; AISC 360-22 J3")
+    return limit / factor
+
+
+def _en_joint(built: BuiltUp, ax: OpenAxis, L: float, fy: float, E: float, Fu: float,
+              cap: float, t: Trace) -> float:
+    """EN: the largest N_Ed whose lacing bar force or batten shear and moment (6.4.2.2,
+    6.4.3.1 (2)) the end fasteners resist (EN 1993-1-8 Table 3.4), by bisection (N)."""
+    o = ax.axis
+    R = _joint_strength("en1993-1-1", built, ax, Fu, "lrfd", t)
+    bar, batten = _per_unit_shear(ax)
+    per = bar or batten
+
+    def force(N: float) -> float:
+        V = chord_force(ax, N, L, E)[2]
+        return V * per
+
+    t.add(f"F,joint,{o}", f"force on {'one lacing bar' if bar else 'the most loaded fastener of a batten'}"
+          f"'s end at the member's other checks' N_Ed, {o} axis", "V_Ed d / (n s h0)" if bar
+          else "V_Ed a / (n h0), V_Ed a / (2 n) on the group", force(cap), "N",
+          f"{EN64}.2.2" if bar else f"{EN64}.3.1 (2)")
+    lo, hi = 0.0, float(built.section.A) * fy
+    for _ in range(60):
+        mid = (lo + hi) / 2
+        lo, hi = (mid, hi) if force(mid) <= R else (lo, mid)
+    return t.add(f"Nb,Rd,joint,{o}", f"largest N_Ed the end fasteners resist, {o} axis",
+                 "F(N_Ed) <= R_joint (bisection)", lo, "N", f"{EN64}; EN 1993-1-8 Table 3.4")

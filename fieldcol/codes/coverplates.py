@@ -17,8 +17,9 @@ that the plates are held only at the rivets:
 * The plates never make the column weaker than the shape without them (common practice: a
   plate too loosely held to work with the shape is left out): when the shape alone (``bare``)
   is stronger, it is taken, and a warning says the plates were not counted.
-* Holes filled by rivets or bolts are not deducted in compression (AISC 360-22 B4.3,
-  EN 1993-1-1 6.2.4 (4), from memory): said in the trace.
+* Holes filled by rivets or bolts are not deducted in compression (AISC 360-22 E3, Pn = Fcr Ag
+  on the gross area of B4.3a; EN 1993-1-1 6.2.4 (3), from memory): said in the trace. In
+  bending, holes across the tension flange are checked by ``netflange`` (F13.1, 6.2.5 (4)).
 """
 
 from __future__ import annotations
@@ -36,6 +37,10 @@ from .en1993 import check_en1993, reduction_factor
 E6 = "AISC 360-22 E6"
 EN18 = "EN 1993-1-8 3.5 Table 3.3"
 CONNECTIONS = ("welded", "riveted", "bolted")
+#: what compression does with holes filled by fasteners, and where the codes say so (from memory)
+GROSS = ("holes filled by the rivets or bolts are not deducted in compression: the gross area "
+         "is used")
+GROSS_CLAUSE = "AISC 360-22 E3 (Pn = Fcr Ag), B4.3a; EN 1993-1-1 6.2.4 (3)"
 
 
 @dataclass(frozen=True)
@@ -139,9 +144,8 @@ def check_riveted_plates(code: str, joint: PlateJoint, section: Any, Fy: float, 
     else:
         from .elastic import check_elastic
         res = check_elastic(section, Fy, E, G, Lc_strong, Lc_weak, Lc_twist)
-    res.trace.add("note", f"cover plates {joint.connection} at {a:.0f} mm: holes filled by the "
-                  "fasteners are not deducted in compression", "", "", "",
-                  "AISC 360-22 B4.3; EN 1993-1-1 6.2.4 (4)")
+    res.trace.add("note", f"cover plates {joint.connection} at {a:.0f} mm: {GROSS}", "", "", "",
+                  GROSS_CLAUSE)
     if joint.bare is not None and code in ("aisc360-22", "en1993-1-1"):
         res = _not_below_the_shape(code, res, joint, Fy, E, G, Lc_strong, Lc_weak, Lc_twist,
                                    basis=basis, gamma_M1=gamma_M1, high_strength=high_strength)

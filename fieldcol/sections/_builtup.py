@@ -43,6 +43,24 @@ LACING_KINDS = ("single", "double", "posts")
 
 
 @dataclass(frozen=True)
+class TieFasteners:
+    """The rivets or bolts at one end of a lacing bar or a batten: ``count``, nominal
+    ``diameter`` (mm), ``kind`` (``rivet`` or ``bolt``), bolt ``grade`` (None: not recorded),
+    ``Fu`` of the fastener's steel (MPa; None: not recorded), ``pitch`` between them along the
+    row and ``edge`` (end distance from the last hole's centre, mm; None: not recorded),
+    ``field``: where they were read in the record (for errors)."""
+
+    count: int
+    diameter: float
+    kind: str = "rivet"
+    grade: str | None = None
+    Fu: float | None = None
+    pitch: float | None = None
+    edge: float | None = None
+    field: str = "fasteners"
+
+
+@dataclass(frozen=True)
 class Lacing:
     """Flat-bar lacing in each of ``planes`` planes: ``kind`` single (zig-zag diagonals),
     double (crossed diagonals) or posts (diagonals with posts); bar ``width`` x ``thickness``
@@ -53,6 +71,7 @@ class Lacing:
     thickness: float
     pitch: float
     planes: int = 2
+    fasteners: TieFasteners | None = None   # at each end of a bar
 
     @property
     def area(self) -> float:
@@ -68,6 +87,7 @@ class Battens:
     depth: float
     thickness: float
     planes: int = 2
+    fasteners: TieFasteners | None = None   # at each end of a batten (one chord)
 
     @property
     def I(self) -> float:
@@ -394,3 +414,32 @@ def angles_star(angle: Part, gap: float, pitch: float, *, connection: str = "riv
 def with_notes(b: BuiltUp, *more: str) -> BuiltUp:
     """The built-up section with more notes on its Section."""
     return replace(b, section=replace(b.section, notes=b.section.notes + tuple(more)))
+
+
+def tension_flange(b: BuiltUp) -> tuple[float, float, float, str, str]:
+    """The flange a line of fastener holes crosses: (gross area Afg mm^2, thickness the holes
+    pass through mm, width across which they lie mm, the axis about which bending puts it in
+    tension, the flange in words), for ``angles-web`` (the angles' outstanding legs with the
+    flange plate) and ``channels`` (the two channels' flanges on one side, with the cover
+    plate). Other arrangements raise ``ValueError``.
+
+    Example:
+        >>> from fieldcol.sections._parts import Part
+        >>> h = angles_web(Part("angle", 100, 100, 10, 10), 300, 10, flange_plates=(250, 12))
+        >>> [round(v) for v in tension_flange(h)[:3]]
+        [5000, 22, 200]
+    """
+    turned = (lambda p: p["Iy"] > p["Ix"] * (1 + 1e-9))(properties(list(b.outlines)))
+    axis = _turn_axis("strong", turned)
+    plates = [p for p in b.parts if p.kind == "plate" and p.name in ("flange plate", "cover plate")]
+    bp, tp = (plates[0].b, plates[0].d) if plates else (0.0, 0.0)
+    if b.arrangement == "angles-web":
+        box = b.outlines[1].box()
+        leg, t = box[2] - box[0], b.parts[1].tf
+        return (2 * leg * t + bp * tp, t + tp, 2 * leg, axis,
+                "angles' outstanding legs" + (" and flange plate" if plates else ""))
+    if b.arrangement == "channels":
+        ch = b.parts[0]
+        return (2 * ch.b * ch.tf + bp * tp, ch.tf + tp, 2 * ch.b, axis,
+                "two channel flanges" + (" and cover plate" if plates else ""))
+    raise ValueError(b.arrangement)

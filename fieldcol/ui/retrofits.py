@@ -48,12 +48,17 @@ FORM_FIELDS: dict[str, list[tuple[str, str, str]]] = {
     "end": [("axis", "Axis", "weak, strong or both"), ("end", "Which end", "bottom or top"),
             ("to", "New end condition", "fixed, pinned, free or guided")],
     "plates": [("thickness", "Plate thickness", "e.g. 3/8 in or 10 mm"),
-               ("width", "Plate width (blank: flange width)", "e.g. 12 in")],
+               ("width", "Plate width (blank: flange width)", "e.g. 12 in"),
+               ("connection", "How the plates are fixed (none picked: welded)",
+                "welded, riveted or bolted"),
+               ("pitch", "Rivet or bolt pitch along the column (riveted or bolted)",
+                "e.g. 6 in or 150 mm")],
     "remove_brace": [("axis", "Axis", "weak, strong or both"),
                      ("at", "Height of the brace", "e.g. 12 ft")],
 }
 CHOICES = {"axis": ("weak", "strong", "both"), "end": ("bottom", "top"),
-           "to": ("fixed", "pinned", "free", "guided")}
+           "to": ("fixed", "pinned", "free", "guided"),
+           "connection": ("welded", "riveted", "bolted")}
 STATUS_WORDS = {"proposed": "proposed", "chosen": "chosen", "rejected": "rejected",
                 "built": "built"}
 
