@@ -253,12 +253,14 @@ def save_record_key(store: "Store", column_id: str, path: tuple[str, ...], value
     return Change(column_id, what, (), before, status)
 
 
-def _with_axial(store: "Store", column_id: str, field: str) -> tuple[dict[str, Any], str]:
+def _with_axial(store: "Store", column_id: str, what: str) -> tuple[dict[str, Any], str]:
     col = store.get_column(column_id)
     d = _demand(col.record)
     if all(d.get(k) in (None, "", {}) for k in ("axial", "loads")):
-        raise InputError(field, "", "the axial demand comes first", "type it in the Edit card "
-                         "above: a beam's reaction is part of the axial force on the column")
+        # named as the axial demand ("Axial demand is needed"); the card shows it under the
+        # entry of ``what``
+        raise InputError("axial demand", "", "this is required", "type the axial force in the Edit "
+                         f"card above first, then {what}")
     return d, store.get_site(col.site_id).unit_system
 
 
@@ -293,7 +295,7 @@ def add_reaction(store: "Store", column_id: str, load: str, axis: str = "strong"
     """
     d = _demand(store.get_column(column_id).record)
     n = len(d.get("reactions") or []) + 1
-    d, system = _with_axial(store, column_id, f"reaction {n} load")
+    d, system = _with_axial(store, column_id, "add the reaction")
     spec: dict[str, Any] = {"load": typed_quantity(load, "force", system, f"reaction {n} load")}
     if axis not in AXES:
         raise InputError(f"reaction {n} axis", str(axis), "pick the axis it bends the column "
@@ -350,7 +352,7 @@ def set_end_moments(store: "Store", column_id: str, axis: str, top: str | None,
         raise InputError("moment axis", str(axis), "pick the axis", "strong or weak")
     words = {"top": f"{axis} axis moment at the top", "bottom": f"{axis} axis moment at the bottom",
              "curvature": f"{axis} axis curvature"}
-    d, system = _with_axial(store, column_id, words["top"])
+    d, system = _with_axial(store, column_id, "the end moments")
     ends = dict(d.get("end_moments") or {})
     if not any(str(x or "").strip() for x in (top, bottom)):
         if axis not in ends:
@@ -390,7 +392,7 @@ def set_story(store: "Store", column_id: str, load: str | None,
                                                   ("stiffness", stiffness))}
     words = {"load": "story load", "buckling_load": "story buckling load",
              "stiffness": "story stiffness"}
-    d, system = _with_axial(store, column_id, words["load"])
+    d, system = _with_axial(store, column_id, "the story")
     if not any(typed.values()):
         if not d.get("story"):
             raise InputError(words["load"], "", "this is required",
