@@ -188,3 +188,27 @@ def test_the_condition_tab_chooses_the_bow_allowance_and_undoes(demo):  # noqa: 
         await s.tap("save-undo")
         assert s.find("bow-allowance-1000").selected
     _run(walk())
+
+
+def test_the_section_tab_offers_the_finish_of_a_measured_en_tube(tmp_path):
+    from fieldcol.store import open_store
+
+    async def walk():
+        store = open_store(tmp_path / "en.db")
+        site = store.add_site("Harrow Quay Grain Store", code="en1993-1-1", unit_system="si")
+        col = store.add_column(site.id, {
+            "tag": "T/2", "section": {"shape": "round", "D": "168.3 mm", "t": "8 mm"},
+            "material": "S355", "length": "3.5 m", "demand": {"axial": "800 kN"}})
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/columns/{col.id}")
+        await s.tap("tab-section")
+        assert s.find("finish-cold-formed").selected and "curve c" in s.text("finish-card")
+        await s.tap("finish-hot-finished")
+        assert s.text("save-note").startswith("Saved finish hot-finished; checked again")
+        assert store.get_column(col.id).record["section"]["finish"] == "hot-finished"
+        assert s.find("finish-hot-finished").selected and "curve a" in s.text("finish-card")
+        await s.tap("save-undo")
+        assert "finish" not in store.get_column(col.id).record["section"]
+        store.close()
+    _run(walk())
