@@ -23,7 +23,7 @@ from fieldcol.ui.views import MUTED, text_line
 if TYPE_CHECKING:
     from fieldcol.ui.tab_check import CheckTab
 
-_PARTS = [("reactions", "Beam reaction"), ("moments", "End moments"), ("story", "Story")]
+_PARTS = [("reactions", "Beams"), ("moments", "Moments"), ("story", "Story")]  # one row at 390 px
 #: entry -> its identifier
 _ENTRIES = {"load": "reaction-load", "eccentricity": "reaction-eccentricity",
             "top": "moment-top", "bottom": "moment-bottom", "story_load": "story-load",
@@ -112,9 +112,9 @@ class LoadsCard:
 
     @staticmethod
     def _pair(a: ft.Control, b: ft.Control) -> ft.Control:
-        return ft.ResponsiveRow([ft.Container(a, col={"xs": 12, "sm": 6}),
-                                 ft.Container(b, col={"xs": 12, "sm": 6})], spacing=8,
-                                run_spacing=8)
+        # one above the other: the pane is phone-wide beside the list on a tablet too, and a
+        # label such as "Reaction 2 eccentricity" wraps in half of it
+        return ft.Column([a, b], spacing=10, horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
 
     def _reaction_form(self, v: lm.LoadsView) -> list[ft.Control]:
         n = len(v.reactions) + 1
@@ -125,9 +125,11 @@ class LoadsCard:
                           self._pick("reactions-axis"), "reaction-axis", said="bends about the"),
             text_line(lm.AXES[axis][1], size=16, color=MUTED),
             self._pair(self._entry("load", f"Reaction {n} load", v.force_unit,
-                                   "part of the axial demand"),
+                                   f"bare numbers in {v.force_unit}; part of the axial demand"),
                        self._entry("eccentricity", f"Reaction {n} eccentricity", v.length_unit,
-                                   "from the column's centre; empty: face + 100 mm")),
+                                   f"from the column's centre, bare numbers in "
+                                   f"{'inches' if v.length_unit == 'in' else 'mm'}; empty: "
+                                   "not measured, the face + 100 mm is taken")),
             text_line("Side it bears on (beams on opposite sides cancel)", size=16,
                       color=MUTED),
             ec.choice_row([(k, w) for k, (w, _) in lm.SIDES.items()], self.side,
@@ -145,9 +147,12 @@ class LoadsCard:
             ec.choice_row([(a, w) for a, (w, _) in lm.AXES.items()], axis,
                           self._pick("moments-axis"), "moment-axis", said="moments about the"),
             self._pair(self._entry("top", "Moment at the top", v.moment_unit,
-                                   f"now {now.top}" if now and now.top else "empty: zero"),
+                                   f"bare numbers in {v.moment_unit}; "
+                                   + (f"now {now.top}" if now and now.top else "empty: zero")),
                        self._entry("bottom", "Moment at the bottom", v.moment_unit,
-                                   f"now {now.bottom}" if now and now.bottom else "empty: zero")),
+                                   f"bare numbers in {v.moment_unit}; "
+                                   + (f"now {now.bottom}" if now and now.bottom
+                                      else "empty: zero"))),
             ec.choice_row([(k, w) for k, (w, _) in lm.CURVATURES.items()], curv,
                           self._pick("curvature"), "curvature", said="bent in"),
             text_line(lm.CURVATURES[curv][1], size=16, color=MUTED),
@@ -160,11 +165,12 @@ class LoadsCard:
                       "gravity load, and its buckling load or its lateral stiffness. Without "
                       "it the column's own load on its own buckling load is taken.", size=16,
                       color=MUTED),
-            self._entry("story_load", "Story load", v.force_unit, "all columns of the story"),
+            self._entry("story_load", "Story load", v.force_unit,
+                        f"all the columns of the story, in {v.force_unit}"),
             self._pair(self._entry("story_buckling", "Story buckling load", v.force_unit,
-                                   "or the stiffness"),
+                                   f"in {v.force_unit}; or give the stiffness"),
                        self._entry("story_stiffness", "Story stiffness", v.stiffness_unit,
-                                   "H / Delta_H")),
+                                   f"H / Delta_H, in {v.stiffness_unit}")),
             ec.big_button("Save story", ft.Icons.SAVE, self._save_story, "save-story")]
 
     # -- handlers -----------------------------------------------------------------------

@@ -245,7 +245,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
 
 
 _EQUATIONS = {
-    "H1-1a": "AISC 360-22 (H1-1a) governs: Pr/Pc >= 0.2, Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy)",
+    "H1-1a": "AISC 360-22 (H1-1a) governs: Pr/Pc ≥ 0.2, Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy)",
     "H1-1b": "AISC 360-22 (H1-1b) governs: Pr/Pc < 0.2, Pr/(2 Pc) + Mrx/Mcx + Mry/Mcy",
     "6.61": "EN 1993-1-1 (6.61) governs: buckling about the strong axis with bending",
     "6.62": "EN 1993-1-1 (6.62) governs: buckling about the weak axis with bending",
@@ -258,9 +258,9 @@ def interaction_words(result: Mapping[str, Any], system: str) -> str:
     """Which interaction equation governs a column with bending, with its ratio and the
     required moments; ``""`` when the check has no bending.
 
-    Example: ``interaction_words(r, "us")`` gives ``"AISC 360-22 (H1-1a) governs: Pr/Pc >= 0.2,
-    Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy) = 0.49 at the demand; Mr 20 kip*ft strong, 0 kip*ft
-    weak"``.
+    Example: ``interaction_words(r, "us")`` gives ``"AISC 360-22 (H1-1a) governs: Pr/Pc ≥ 0.2,
+    Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy) = 0.49 at the demand; Mr about the strong axis 20 kip*ft,
+    about the weak axis 0"``.
     """
     bc = result.get("beam_column")
     if not isinstance(bc, Mapping):
@@ -271,8 +271,12 @@ def interaction_words(result: Mapping[str, Any], system: str) -> str:
     if ratio is not None and math.isfinite(ratio):
         head += f" = {ratio:.2f} at the demand"
     mr = bc.get("required_moment") or {}
-    moments = [f"{_fmt(_val(mr.get(ax)), 'moment', system)} {ax}" for ax in ("strong", "weak")
-               if ax in mr]
+    moments = []
+    for ax in ("strong", "weak"):
+        if ax in mr:
+            val = _val(mr.get(ax))
+            moments.append(f"about the {ax} axis "
+                           + (_fmt(val, "moment", system) if val else "0"))
     return head + (f"; Mr {', '.join(moments)}" if moments else "")
 
 

@@ -1,0 +1,79 @@
+"""The Check tab's loads card in a real browser: `fieldcol app --demo` on loopback, Debian
+chromium driven by Playwright, every request that leaves the machine refused.
+
+A beam reaction added on a phone (390 px): a bad eccentricity refused under its entry with the
+text kept, then saved; the check becomes a beam-column one and says which interaction equation
+governs; Undo takes it back. The same on a tablet (820 px). Screenshots `loads.png`,
+`loads-tablet.png` go to $FIELDCOL_SHOTS.
+
+Outside references: AISC 360-22 H1.1 (H1-1a applies when Pr/Pc >= 0.2); the touch-target
+minimum of 48 px is common practice (Material design guidance).
+"""
+
+from __future__ import annotations
+
+from _browser import (  # noqa: F401  (server and browser are fixtures)
+    PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _open_column, _poll,
+    _sel, _shot, _type_into, _wait, _words, browser, server,
+)
+
+
+def _column(page, tag: str) -> None:
+    _click(page, "site-Kestrel Lane Print Works")
+    _wait(page, "column-A/1-G")
+    _open_column(page, f"column-{tag}")
+    _wait(page, "status")
+
+
+def _status(page) -> str:
+    return STATUS.search(_words(page, "status")).group(0)
+
+
+def _add_reaction(page, shot: str) -> None:
+    before = _poll(lambda: _status(page), lambda s: s.endswith("OK"), "status before")
+    _big_enough(page, "loads-part-reactions", "reaction-axis-strong", "reaction-side-plus",
+                "add-reaction")
+    _type_into(page, "reaction-load", "40", enter=False)
+    _type_into(page, "reaction-eccentricity", "6 inn", enter=False)
+    _click(page, "add-reaction")
+    _poll(lambda: page.locator(f"{_sel('reaction-eccentricity')} input").first
+          .get_attribute("aria-description") or "",
+          lambda d: "Reaction 1 eccentricity '6 inn' not understood" in d,
+          "the error under the entry")
+    assert page.locator(f"{_sel('reaction-eccentricity')} input").first.input_value() == "6 inn"
+    _type_into(page, "reaction-eccentricity", "6", enter=False)
+    _click(page, "add-reaction")
+    note = _poll(lambda: _words(page, "save-note"),
+                 lambda t: "Saved reaction 1: 40 kip, strong axis, 6 in off the centre" in t
+                 and "checked again" in t, "the save note")
+    after = STATUS.search(note.split("checked again")[1]).group(0)
+    assert after != before   # the bending raised the utilization
+    _find(page, "reaction-0")
+    _big_enough(page, "remove-reaction-0")
+    _find(page, "reaction-0")
+    _shot(page, shot)
+    # the result says which interaction equation governs
+    _find(page, "interaction", up=True)
+    _poll(lambda: _words(page, "interaction"), lambda t: "(H1-1a) governs" in t,
+          "the interaction equation under the result")
+    _shot(page, shot.replace(".png", "-result.png"))
+    _click(page, "save-undo")
+    _poll(lambda: _words(page, "save-note"), lambda t: "Undone: reaction 1" in t, "undone")
+    _find(page, "status", up=True)
+    _poll(lambda: _status(page), lambda s: s == before, "the check as it was")
+
+
+def test_phone_adds_a_beam_reaction(server, browser):
+    page = _open(browser, server, PHONE)
+    _column(page, "A/1-G")
+    _add_reaction(page, "loads.png")
+    _offline(page)
+    page.context.close()
+
+
+def test_tablet_adds_a_beam_reaction(server, browser):
+    page = _open(browser, server, TABLET)
+    _column(page, "A/3-G")
+    _add_reaction(page, "loads-tablet.png")
+    _offline(page)
+    page.context.close()
