@@ -3,8 +3,9 @@ chromium driven by Playwright, every request that leaves the machine refused.
 
 A beam reaction added on a phone (390 px): a bad eccentricity refused under its entry with the
 text kept, then saved; the check becomes a beam-column one and says which interaction equation
-governs; Undo takes it back. The same on a tablet (820 px). Screenshots `loads.png`,
-`loads-tablet.png` go to $FIELDCOL_SHOTS.
+governs; Undo takes it back. The same on a tablet (820 px). On a phone, a loss band with a
+hole (Section tab) and the bow allowance (Condition tab). Screenshots `loads.png`,
+`loads-tablet.png`, `loads-band.png`, `loads-allowance.png` go to $FIELDCOL_SHOTS.
 
 Outside references: AISC 360-22 H1.1 (H1-1a applies when Pr/Pc >= 0.2); the touch-target
 minimum of 48 px is common practice (Material design guidance).
@@ -13,8 +14,8 @@ minimum of 48 px is common practice (Material design guidance).
 from __future__ import annotations
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _open_column, _poll,
-    _sel, _shot, _type_into, _wait, _words, browser, server,
+    PHONE, STATUS, TABLET, _big_enough, _choose, _click, _find, _offline, _open, _open_column,
+    _poll, _sel, _shot, _tab, _type_into, _wait, _words, browser, server,
 )
 
 
@@ -75,5 +76,31 @@ def test_tablet_adds_a_beam_reaction(server, browser):
     page = _open(browser, server, TABLET)
     _column(page, "A/3-G")
     _add_reaction(page, "loads-tablet.png")
+    _offline(page)
+    page.context.close()
+
+
+def test_phone_loss_band_and_bow_allowance(server, browser):
+    page = _open(browser, server, PHONE)
+    _column(page, "A/2-G")   # W10X49 with a flange reading of 0.48 in remaining
+    _tab(page, "section")
+    _choose(page, "loss-where-band")
+    _type_into(page, "band-from", "0", enter=False)
+    _type_into(page, "band-to", "6", enter=False)
+    _type_into(page, "hole-web", "1", enter=False)
+    _big_enough(page, "loss-where-full", "loss-where-band", "save-band")
+    _click(page, "save-band")
+    _poll(lambda: _words(page, "save-note"),
+          lambda t: "Saved loss band 0 to 6 in, hole across the web 1 in; checked again" in t,
+          "the band saved")
+    _find(page, "band-card")
+    _shot(page, "loads-band.png")
+    _tab(page, "condition")
+    _big_enough(page, "bow-allowance-1000", "bow-allowance-1500")
+    _choose(page, "bow-allowance-1500")
+    _poll(lambda: _words(page, "save-note"), lambda t: "Saved bow allowance L/1500" in t,
+          "the allowance saved")
+    _find(page, "bow-allowance-card")
+    _shot(page, "loads-allowance.png")
     _offline(page)
     page.context.close()

@@ -24,6 +24,11 @@ if TYPE_CHECKING:
 _WHERE = [("full", "Full length"), ("band", "A band of height")]
 
 
+def _bare(text: str, unit: str) -> str:
+    """``6 in`` on an inch site reads ``6`` in an entry that shows ``in`` beside it."""
+    return text[:-len(unit) - 1] if text.endswith(" " + unit) else text
+
+
 class BandCard:
     """The loss band and finish cards of the Section tab.
 
@@ -44,7 +49,9 @@ class BandCard:
         """
         self.view = view
         if self.typed is None:
-            self.typed = {"from": view.start, "to": view.end, **view.holes}
+            # the unit kept with a bare number is shown beside the entry already
+            self.typed = {k: _bare(t, view.unit) for k, t in
+                          {"from": view.start, "to": view.end, **view.holes}.items()}
 
     def cards(self) -> list[ft.Control]:
         """The band card, and the finish card when it applies.

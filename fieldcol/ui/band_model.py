@@ -116,7 +116,7 @@ def set_band(store: "Store", column_id: str, start: str | None, end: str | None 
         ``hole across the web`` (...) saves nothing.
 
     Example: ``set_band(store, cid, "0", "6", {"web": "1"}).label`` gives
-    ``'loss band 0 in to 6 in, hole across the web 1 in'``.
+    ``'loss band 0 to 6 in, hole across the web 1 in'``.
     """
     col = store.get_column(column_id)
     system = store.get_site(col.site_id).unit_system
