@@ -226,3 +226,34 @@ def test_the_check_tab_adds_a_reaction_shows_the_equation_and_undoes_it(demo):  
         await s.tap("save-story")
         assert s.has("story") and "3000 kip" in s.text("story")
     _run(walk())
+
+
+def test_an_en_column_takes_a_reaction_in_kn_and_mm_by_6_3_3(tmp_path):
+    """EN 1993-1-1 6.3.3: the first-order moment of a beam at an eccentricity enters (6.61) and
+    (6.62) as M_z,Ed (no amplifier of its own: the k factors of Annex B carry it)."""
+    from fieldcol.store import open_store
+
+    store = open_store(tmp_path / "en.db")
+    site = store.add_site("Harrow Quay Grain Store", code="en1993-1-1", unit_system="si")
+    col = store.add_column(site.id, {
+        "tag": "K/1", "section": "HE 200 B", "material": "S355", "length": "4 m",
+        "demand": {"axial": "900 kN"}})
+    r.check_now(store, col.id)
+    axial = _check(store, col.id)["design_strength"]["value"]
+    ch = lm.add_reaction(store, col.id, "100", "weak", "150")
+    assert store.get_column(col.id).record["demand"]["reactions"] == [
+        {"load": "100 kN", "axis": "weak", "eccentricity": "150 mm", "side": "+"}]
+    assert ch.label.startswith("reaction 1: 100 kN, weak axis, 150 mm off the centre")
+    res = _check(store, col.id)
+    bc = res["beam_column"]
+    # by hand: M_z,Ed = 100 kN x 0.150 m = 15 kN*m
+    assert bc["required_moment"]["weak"]["value"] == pytest.approx(15e6, rel=1e-6)
+    assert bc["equation"] in ("6.61", "6.62") and res["governing_mode"] == "beam-column"
+    assert res["design_strength"]["value"] < axial
+    assert res["utilization"]["value"] == pytest.approx(_engine(store, col.id)["utilization"]["value"])
+    words = latest_summary(store, col.id).interaction
+    assert words.startswith(f"EN 1993-1-1 ({bc['equation']}) governs")
+    assert "weak axis 15 kN*m" in words
+    view = lm.loads_view(store, col.id)
+    assert (view.force_unit, view.moment_unit, view.length_unit) == ("kN", "kN*m", "mm")
+    store.close()
