@@ -79,11 +79,12 @@ class BandCard:
             for key, label in (("from", "From height"), ("to", "To height")):
                 self.fields[f"loss band {key}"] = ec.unit_entry(
                     label, typed.get(key, ""), v.unit, hint=f"above the bottom, {bare}",
-                    on_change=self._typed(key))
+                    on_change=self._typed(key), on_submit=self._save)
             holes = []
             for k in v.elements:
                 tf = ec.unit_entry(bm.HOLE_WORDS[k], typed.get(k, ""), v.unit,
-                                   hint="width lost; empty: none", on_change=self._typed(k))
+                                   hint="width lost; empty: none", on_change=self._typed(k),
+                                   on_submit=self._save)
                 self.fields[bm.HOLE_WORDS[k].lower()] = tf
                 holes.append(ft.Container(ft.Semantics(identifier=f"hole-{k}", content=tf),
                                           col={"xs": 12, "sm": 6}))

@@ -44,7 +44,11 @@ class LoadsCard:
         self.side = "plus"
         self.curvature: str | None = None   # None: the recorded one for the axis, else single
         self.typed = {k: "" for k in _ENTRIES}
-        self.entries = {k: ec.unit_entry("", "", None, on_change=self._typed(k), data=k)
+        # Enter in an entry does what the part's button does
+        submit = {"load": self._add_reaction, "eccentricity": self._add_reaction,
+                  "top": self._save_moments, "bottom": self._save_moments}
+        self.entries = {k: ec.unit_entry("", "", None, on_change=self._typed(k), data=k,
+                                         on_submit=submit.get(k, self._save_story))
                         for k in _ENTRIES}
         self.boxes = {k: ft.Semantics(identifier=_ENTRIES[k], content=tf)
                       for k, tf in self.entries.items()}
