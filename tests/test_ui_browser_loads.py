@@ -68,6 +68,15 @@ def test_phone_adds_a_beam_reaction(server, browser):
     page = _open(browser, server, PHONE)
     _column(page, "A/1-G")
     _add_reaction(page, "loads.png")
+    # the other parts of the card, one at a time
+    _choose(page, "loads-part-moments")
+    _big_enough(page, "moment-axis-strong", "curvature-single", "curvature-reverse",
+                "save-moments")
+    _find(page, "moment-top")
+    _shot(page, "loads-moments.png")
+    _choose(page, "loads-part-story")
+    _find(page, "save-story")
+    _shot(page, "loads-story.png")
     _offline(page)
     page.context.close()
 

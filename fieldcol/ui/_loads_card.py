@@ -157,9 +157,11 @@ class LoadsCard:
                                    f"bare numbers in {v.moment_unit}; "
                                    + (f"now {now.bottom}" if now and now.bottom
                                       else "empty: zero"))),
-            ec.choice_row([(k, w) for k, (w, _) in lm.CURVATURES.items()], curv,
-                          self._pick("curvature"), "curvature", said="bent in"),
-            text_line(lm.CURVATURES[curv][1], size=16, color=MUTED),
+            # short words: both on one row at 390 px; the line below says what each means
+            ec.choice_row([("single", "Single (C)"), ("reverse", "Reverse (S)")], curv,
+                          self._pick("curvature"), "curvature", said="curvature:"),
+            text_line(f"{lm.CURVATURES[curv][0]}: {lm.CURVATURES[curv][1]}", size=16,
+                      color=MUTED),
             ec.big_button("Save end moments", ft.Icons.SAVE, self._save_moments,
                           "save-moments")]
 
@@ -174,7 +176,8 @@ class LoadsCard:
             self._pair(self._entry("story_buckling", "Story buckling load", v.force_unit,
                                    f"in {v.force_unit}; or give the stiffness"),
                        self._entry("story_stiffness", "Story stiffness", v.stiffness_unit,
-                                   f"H / Delta_H, in {v.stiffness_unit}")),
+                                   f"sideways force over the sway it makes (H / ΔH), in "
+                                   f"{v.stiffness_unit}")),
             ec.big_button("Save story", ft.Icons.SAVE, self._save_story, "save-story")]
 
     # -- handlers -----------------------------------------------------------------------
@@ -239,7 +242,7 @@ class LoadsCard:
             self._done(("load", "eccentricity"), sent)
             return ch
 
-        await self._run(f"reaction {n} {sent['load'].strip()}", change, {
+        await self._run(f"reaction {n}", change, {
             "axial demand": self.entries["load"], f"reaction {n} load": self.entries["load"],
             f"reaction {n} eccentricity": self.entries["eccentricity"]})
 
@@ -275,7 +278,7 @@ class LoadsCard:
             self._done(("story_load", "story_buckling", "story_stiffness"), sent)
             return ch
 
-        await self._run(f"story {sent['story_load'].strip()}", change, {
+        await self._run("story", change, {
             "axial demand": self.entries["story_load"],
             "story load": self.entries["story_load"],
             "story buckling load": self.entries["story_buckling"],
