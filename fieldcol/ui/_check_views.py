@@ -19,8 +19,9 @@ def result_cards(s: CheckSummary) -> list[ft.Control]:
         s: the ``CheckSummary``.
 
     Returns:
-        Controls, status first (identifier ``status``), then ``capacity-<mode>``,
-        ``governing``, ``warning-<i>``.
+        Controls, status first (identifier ``status``), then ``interaction`` (with bending:
+        which interaction equation governs), ``capacity-<mode>``, ``governing``,
+        ``warning-<i>``.
 
     Example: ``result_cards(latest_summary(store, cid))``.
     """
@@ -32,6 +33,10 @@ def result_cards(s: CheckSummary) -> list[ft.Control]:
         ft.Semantics(identifier="result-line", content=v.text_line(s.result_line, size=18,
                                                                    bold=True)),
         *[v.text_line(x, color=v.MUTED) for x in s.extra],
+        *([ft.Semantics(identifier="interaction", content=ft.Row(
+            [ft.Icon(ft.Icons.FUNCTIONS, color=v.INK, size=22),
+             ft.Text(s.interaction, size=16, color=v.INK, expand=True)],
+            vertical_alignment=ft.CrossAxisAlignment.START))] if s.interaction else []),
         ft.Semantics(identifier="governing", content=ft.Column([
             v.text_line(s.governs, bold=True, color=fg), v.text_line(s.why)], spacing=2)),
     ]

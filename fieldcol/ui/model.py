@@ -564,6 +564,13 @@ def loss_lines(section: Any, system: str) -> list[Line]:
         out.append(Line("Remaining thickness measured", ", ".join(remaining)))
     if loss.get("uniform") not in (None, ""):
         out.append(Line("Loss per exposed face", _thickness_text(loss["uniform"], system)))
+    if loss.get("from") not in (None, "") or loss.get("to") not in (None, ""):
+        out.append(Line("Over a band of height", f"{_length_text(loss.get('from', ''), system)}"
+                        f" to {_length_text(loss.get('to', ''), system)} above the bottom"))
+    holes = loss.get("holes") if isinstance(loss.get("holes"), dict) else {}
+    if any(x not in (None, "") for x in holes.values()):
+        out.append(Line("Holes in the band (width lost)", ", ".join(
+            f"{k} {_thickness_text(x, system)}" for k, x in holes.items() if x not in (None, ""))))
     plates = section.get("plates")
     if isinstance(plates, dict):
         width = plates.get("width")

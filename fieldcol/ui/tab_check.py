@@ -1,7 +1,8 @@
 """The Check tab of the column screen: right under the status, the capacity about each axis and
 in torsion, what governs and why, the utilization and the warnings; then the column-curve chart,
 the caution, the full trace one tap away, the edit card (length, section, material, axial
-demand, and LRFD or ASD for an AISC column) and the record in words.
+demand, and LRFD or ASD for an AISC column), the loads card (beam reactions, end moments,
+the story: ``_loads_card.py``) and the record in words.
 
 API: ``CheckTab(app)`` with ``name = "check"``; see ``fieldcol.ui._tab``. Its entries save
 through ``app.saver`` (Enter or leaving the entry) with Undo; a refused entry keeps its text
@@ -19,8 +20,10 @@ import flet as ft
 from fieldcol.ui import _check_views as cv
 from fieldcol.ui import _entry_controls as ec
 from fieldcol.ui import check_model as cm
+from fieldcol.ui import loads_model as lm
 from fieldcol.ui import model as m
 from fieldcol.ui import views as v
+from fieldcol.ui._loads_card import LoadsCard
 from fieldcol.ui._tab import Tab
 
 
@@ -41,20 +44,22 @@ class CheckTab(Tab):
         self.trace: tuple[cm.CheckSummary, ft.Control] | None = None  # the trace of a summary
         self.basis_box = ft.Container()  # LRFD / ASD (an AISC column), in the edit card
         self._basis_shown: str | None = None
+        self.loads = LoadsCard(self)  # made once: it holds entries
 
-    def fetch(self, store: Any, column_id: str) -> cm.CheckSummary | None:
-        """(worker thread) The latest check as the tab shows it.
+    def fetch(self, store: Any, column_id: str) -> tuple[cm.CheckSummary | None, lm.LoadsView]:
+        """(worker thread) The latest check as the tab shows it, and the loads recorded.
 
         Example: ``tab.took(tab.fetch(store, cid))``.
         """
-        return cm.latest_summary(store, column_id)
+        return cm.latest_summary(store, column_id), lm.loads_view(store, column_id)
 
-    def took(self, data: cm.CheckSummary | None) -> None:
-        """Keep the summary read by ``fetch``.
+    def took(self, data: tuple[cm.CheckSummary | None, lm.LoadsView | None]) -> None:
+        """Keep the summary and the loads read by ``fetch``.
 
-        Example: ``tab.took(summary)``.
+        Example: ``tab.took((summary, loads))``.
         """
-        self.summary = data
+        self.summary, loads = data
+        self.loads.took(loads)
 
     def controls(self) -> list[ft.Control]:
         """Summary, caution, edit card, then modes, warnings, trace and the record.
@@ -95,7 +100,7 @@ class CheckTab(Tab):
             body = v.check_body(d)
             self.first = 2
             return _keyed([*body[:1], v.caution_box()], "result", "caution") + \
-                [self.edit, *_keyed(v.record_body(d), "column", "record")]
+                [self.edit, self.loads.draw(), *_keyed(v.record_body(d), "column", "record")]
         chart = cv.chart_card(s, width=330)   # fits the phone and the tablet's right pane
         result = cv.result_cards(s)
         self.first = len(result) + 1  # the result and the caution are drawn first on opening
@@ -104,7 +109,8 @@ class CheckTab(Tab):
         # keyed: a card drawn again after a save is compared with the one before it, so only
         # what changed goes to the client (the screen is not sent whole again)
         return [*_keyed(result, "result", "warnings"), *_keyed([v.caution_box()], "caution"),
-                self.edit, *_keyed([chart] if chart else [], "chart"), self.trace[1],
+                self.edit, self.loads.draw(), *_keyed([chart] if chart else [], "chart"),
+                self.trace[1],
                 *_keyed(v.record_body(d), "column", "record")]
 
     async def _save(self, e: Any) -> None:

@@ -3,6 +3,8 @@
 Built for one thumb: the tab opens on a bow entry with the keyboard up, the axis already set to
 the one the column records (else the weak axis) and one tap to change; Enter or "Save reading"
 keeps it. Each reading is kept as taken; "Correct" adds a reading pointing at the old one.
+Below the form, the bow the column curves already allow for (L/1000 usual, L/1500
+conservative; identifiers ``bow-allowance-1000``, ``bow-allowance-1500``), saved on the tap.
 Every save goes through ``app.saver`` (undo, "not saved" with retry, typed text kept).
 """
 
@@ -14,6 +16,7 @@ from typing import TYPE_CHECKING, Any, Callable
 import flet as ft
 
 from fieldcol.ui import _entry_controls as ec
+from fieldcol.ui import band_model as bm
 from fieldcol.ui import readings as r
 from fieldcol.ui._tab import Tab
 from fieldcol.ui.views import MUTED, text_line
@@ -62,6 +65,7 @@ class ConditionTab(Tab):
                                           "save-reading")
         self._focus_task: asyncio.Task | None = None
         self._typed_elsewhere = False  # the gauge or note typed since the focus was asked
+        self.allowance = "L/1000"          # as recorded (the engine's default when not)
 
     async def load(self) -> None:
         """Fetch the column's readings (worker thread) and redraw.
@@ -71,8 +75,10 @@ class ConditionTab(Tab):
         d = self.app.detail
         if d is None:
             return
-        view = await asyncio.to_thread(r.condition_view, self.app.store, d.id)
+        view, band = await asyncio.to_thread(
+            lambda s: (r.condition_view(s, d.id), bm.band_view(s, d.id)), self.app.store)
         self.view = view
+        self.allowance = band.allowance
         if self.element not in [k for k, _ in view.elements]:
             self.element = view.elements[0][0]
         if self.correcting and self.correcting not in [x.id for x in view.readings]:
@@ -94,7 +100,38 @@ class ConditionTab(Tab):
         v = self.view
         assert v is not None
         # room at the end: the last card can scroll clear of the save bar
-        self.body.controls = [self._entry(v), *self._readings(v), ft.Container(height=96)]
+        self.body.controls = [self._entry(v), self._allowance(), *self._readings(v),
+                              ft.Container(height=96)]
+
+    def _allowance(self) -> ft.Control:
+        now = self.allowance
+        return ec.card([
+            text_line("Bow the column curves already allow for:", size=16, color=MUTED),
+            ec.choice_row([(k.split("/")[1], w) for k, (w, _) in bm.ALLOWANCE_WORDS.items()],
+                          now.split("/")[1], self._pick_allowance, "bow-allowance",
+                          said="bow allowance"),
+            text_line(bm.ALLOWANCE_WORDS[now][1][:1].upper() + bm.ALLOWANCE_WORDS[now][1][1:]
+                      + ".", size=16)], "Bow allowance", identifier="bow-allowance-card")
+
+    def _pick_allowance(self, n: str) -> Callable[..., Any]:
+        async def pick(_e: Any = None) -> None:
+            d, choice = self.app.detail, f"L/{n}"
+            if d is None or choice == self.allowance:
+                return
+            done: list[r.Change] = []
+
+            def do(store: Any) -> r.Change:
+                ch = bm.set_bow_allowance(store, d.id, choice)
+                done.append(ch)
+                return ch
+
+            def undo(store: Any) -> None:
+                if done:
+                    r.undo_change(store, done[-1])
+
+            await self.app.saver.save(f"bow allowance {choice}", do, undo=undo,
+                                      done=ec.saved_words)
+        return pick
 
     def _entry(self, v: r.ConditionView) -> ft.Control:
         unit = v.unit
