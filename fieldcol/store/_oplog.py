@@ -34,6 +34,7 @@ from datetime import datetime, timezone
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+from fieldcol.store._gcpause import gc_paused
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -294,10 +295,13 @@ def row_op(op_id: str, device_id: str, hlc: int, tbl: str, row_id: str,
 @dataclass(frozen=True)
 class ApplyResult:
     """What applying a batch of operations did: ``new`` operations kept (repeats are skipped),
-    ``rows`` rows written, ``pending`` rows waiting for operations not yet received."""
+    ``rows`` rows written, ``pending`` rows waiting for operations not yet received;
+    ``seqs``: the local sequence numbers the new operations took, first and last (they are
+    numbered one after another in one statement), None when nothing was new."""
     new: int
     rows: int
     pending: int
+    seqs: tuple[int, int] | None = None
 
 
 @dataclass(frozen=True)
@@ -827,7 +831,8 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
     flush(conn, _local_device(conn), schema)  # local edits first: what follows is not ours
     conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')", [QUIET])
     try:
-        return _merge(conn, ops, decoded, schema, source)
+        with gc_paused():
+            return _merge(conn, ops, decoded, schema, source)
     finally:
         conn.execute("DELETE FROM meta WHERE key = ?", [QUIET])
 
@@ -836,8 +841,10 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
            schema: Schema, source: str) -> ApplyResult:
     """``apply`` once local edits are logged, with the triggers standing still."""
     new = _store_ops(conn, ops, source)
+    seqs = None
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
+        seqs = _seq_span(conn, new)
     by_ops: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]] = {}
     for o in new:
         by_ops.setdefault((o.tbl, o.row_id), []).append((o, decoded[id(o)]))
@@ -887,7 +894,17 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
                             {k: entries(k) for k in slow})
     conn.execute("DELETE FROM sync_dirty")  # rows written here are the merge's, not edits
     pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
-    return ApplyResult(len(new), written, pending)
+    return ApplyResult(len(new), written, pending, seqs)
+
+
+def _seq_span(conn: sqlite3.Connection, new: list[Op]) -> tuple[int, int] | None:
+    """The first and last local sequence numbers of operations just stored by one statement;
+    None unless they run one after another with nothing else between them."""
+    first, last = (conn.execute("SELECT seq FROM sync_ops WHERE op_id = ?", [o.op_id]).fetchone()
+                   for o in (new[0], new[-1]))
+    if first is None or last is None or last[0] - first[0] + 1 != len(new):
+        return None
+    return first[0], last[0]
 
 
 def _local_device(conn: sqlite3.Connection) -> str:
@@ -1183,9 +1200,17 @@ def list_conflicts(conn: sqlite3.Connection, *, open_only: bool = True) -> list[
     return out
 
 
+#: the most sequence spans a pull may leave out (see ``ops_after``)
+MAX_SKIP_SPANS = 64
+
+
 def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
-              exclude_source: str | None = None) -> list[tuple[int, Op]]:
+              exclude_source: str | None = None,
+              skip: tuple[str, list[tuple[int, int]]] | None = None) -> list[tuple[int, Op]]:
     """Operations with a local sequence after ``seq``, oldest first, at most ``limit``.
+
+    ``skip``: (device id, spans of sequence numbers): operations of that device within those
+    spans are left out (a device's own operations, which it holds: see ``sync.client``).
 
     Example:
         >>> ops_after(store.db.conn, 10**9, 5)
@@ -1197,5 +1222,10 @@ def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
     if exclude_source:
         sql += " AND source != ?"
         params.append(exclude_source)
+    if skip and skip[1]:
+        spans = skip[1][:MAX_SKIP_SPANS]
+        sql += (" AND NOT (device_id = ? AND ("
+                + " OR ".join("seq BETWEEN ? AND ?" for _ in spans) + "))")
+        params += [skip[0], *(n for span in spans for n in span)]
     params.append(limit)
     return [(r[0], Op(*r[1:])) for r in conn.execute(sql + " ORDER BY seq LIMIT ?", params)]

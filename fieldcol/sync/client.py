@@ -18,8 +18,10 @@ import httpx
 
 from fieldcol.errors import InputError
 from fieldcol.store import Store
+from fieldcol.store._gcpause import gc_paused
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, ops_from_json, wall_ms
+from fieldcol.store._oplog import (FUTURE_TOLERANCE_MS, MAX_SKIP_SPANS, Conflict, ops_from_json,
+                                   wall_ms)
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -154,10 +156,11 @@ def sync_with_hub(store: Store, url: str, token: str, *,
                 int(hello["have_from_you"]) < _own_ops_upto(store, store.cursor(push_c)):
             store.set_cursor(push_c, 0)
             store.set_cursor(pull_c, 0)
+            store.forget_own_spans(hub_id)
             report.warnings.append("the hub holds less than it acknowledged (restored from a "
                                    "backup?): everything was sent again")
-        _push(store, hub, push_c, report, say)
-        _pull(store, hub, pull_c, report, say)
+        _push(store, hub, hub_id, push_c, report, say)
+        _pull(store, hub, hub_id, pull_c, report, say)
         report.conflicts = store.conflicts()
     finally:
         hub.close()
@@ -170,12 +173,13 @@ def _own_ops_upto(store: Store, seq: int) -> int:
                                      "seq <= ?", [store.device_id, seq]).fetchone()[0]
 
 
-def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+def _push(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
           say: Callable[[str, int, int], None]) -> None:
     total = max(0, store.last_op_seq() - store.cursor(cursor))
     done = 0
     while True:
-        batch = store.ops_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
+        with gc_paused():
+            batch = store.ops_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
         if not batch:
             break
         ops = [op for _, op in batch]
@@ -183,10 +187,17 @@ def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
             if _upload(store, hub, sha):
                 report.photos_sent += 1
         head = json.dumps({"device": store.device_id, "schema": list(MIGRATION_NAMES)})
-        body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
-        hub.call("POST", "/v1/push", content=body.encode(),
-                 headers={"Content-Type": "application/json"})
-        store.set_cursor(cursor, batch[-1][0])  # only after the acknowledgement
+        with gc_paused():
+            body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
+        ack = hub.call("POST", "/v1/push", content=body.encode(),
+                       headers={"Content-Type": "application/json"}).json()
+        with store._tx():  # only after the acknowledgement
+            store.set_cursor(cursor, batch[-1][0])
+            span = ack.get("seqs") if isinstance(ack, dict) else None
+            if isinstance(span, list) and len(span) == 2 and all(
+                    type(n) is int for n in span) and 0 < span[0] <= span[1]:
+                # what this push added to the hub: no need to pull it back
+                store.note_own_span(hub_id, span[0], span[1])
         report.sent += len(ops)
         done += len(ops)
         say("send", done, total)
@@ -214,22 +225,44 @@ def _upload(store: Store, hub: _Hub, sha: str) -> bool:
     return True
 
 
-def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
           say: Callable[[str, int, int], None]) -> None:
     while True:
         after = store.cursor(cursor)
-        body = hub.call("GET", "/v1/pull", params={"after": after, "limit": PULL_BATCH}).json()
-        rows = body["ops"]
-        if not rows:
-            break
-        objs = [o for _, o in rows]
-        # this device's own operations come back too: skip those held before decoding them
-        # (photo rows still go through the photo check below, as they always did)
-        ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
-        held = store.held_ops(i for i in ids if isinstance(i, str))
-        objs = [o for o, i in zip(objs, ids)
-                if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
-        ops = ops_from_json(objs, "pull.ops")
+        # the hub leaves out what this store pushed there itself (it holds those operations;
+        # a copy restored from before a push has forgotten that push's span with it)
+        spans = [s for s in store.own_spans(hub_id) if s[1] > after][:MAX_SKIP_SPANS]
+        params: dict[str, Any] = {"after": after, "limit": PULL_BATCH}
+        if spans:
+            params.update(device=store.device_id, skip=",".join(f"{a}-{b}" for a, b in spans))
+        reply = hub.call("GET", "/v1/pull", params=params)
+        with gc_paused():
+            body = reply.json()
+            rows = body["ops"]
+            page = body.get("limit")
+            # a page shorter than asked holds all there was after ``after`` but the spans
+            # left out, which were committed before they were acknowledged: the cursor passes
+            # them too (unless the hub's numbers went back: a restored hub, trust none)
+            whole = type(page) is int and len(rows) < page
+            through = int(rows[-1][0]) if rows else after
+            if spans and max(b for _, b in spans) > int(body["max_seq"]):
+                store.forget_own_spans(hub_id)
+            elif spans and whole:
+                through = max(through, max(b for _, b in spans))
+            if not rows:
+                if through > after:
+                    with store._tx():
+                        store.set_cursor(cursor, through)
+                        store.forget_own_spans(hub_id, through)
+                break
+            objs = [o for _, o in rows]
+            # this device's own operations come back too: skip those held before decoding
+            # them (photo rows still go through the photo check below, as they always did)
+            ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
+            held = store.held_ops(i for i in ids if isinstance(i, str))
+            objs = [o for o, i in zip(objs, ids)
+                    if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
+            ops = ops_from_json(objs, "pull.ops")
         for sha, name in needed_photos(ops).items():  # files before the rows naming them
             if not have_photo(store, sha, name):
                 if _download(store, hub, sha):
@@ -239,9 +272,13 @@ def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
                                            "that took it has not sent it)")
         with store._tx():
             result = store.apply_ops(ops, source="hub", max_future_ms=None)
-            store.set_cursor(cursor, int(rows[-1][0]))
+            store.set_cursor(cursor, through)
+            if spans:
+                store.forget_own_spans(hub_id, through)
         report.received += result.new
-        say("receive", int(rows[-1][0]), int(body["max_seq"]))
+        say("receive", through, int(body["max_seq"]))
+        if whole:
+            break
 
 
 def _download(store: Store, hub: _Hub, sha: str) -> bool:
