@@ -860,7 +860,12 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
     fields_rows = []
-    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()]
+    seq_of = {id(o): seqs[0] + i for i, o in enumerate(new)} if seqs else {}
+    # a row first seen here, by one logged operation: SQLite notes it from the log itself
+    first_seen = [seq_of[id(lst[0][0])] for k, lst in by_ops.items()
+                  if len(lst) == 1 and k not in known and id(lst[0][0]) in seq_of]
+    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()
+                 if not (len(lst) == 1 and (t, r) not in known and id(lst[0][0]) in seq_of)]
     for (tbl, row_id), lst in by_row.items():  # rows held already; new ones are written whole
         best: dict[str, Entry] = {}
         for e in lst:
@@ -882,10 +887,14 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
         "INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
         "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
         rows_rows)
+    if first_seen:
+        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) SELECT o.tbl, o.row_id, "
+                     "o.hlc FROM json_each(?) AS k CROSS JOIN sync_ops AS o ON o.seq = k.value "
+                     "ORDER BY o.tbl, o.row_id", [json.dumps(first_seen)])
     fresh = {k: lst for k, lst in by_ops.items() if k not in known}
     from fieldcol.store._opbulk import write_fresh  # (it builds on this module)
 
-    written, slow = write_fresh(conn, schema, fresh, entries)
+    written, slow = write_fresh(conn, schema, fresh, entries, seq_of)
     touched = dict.fromkeys(slow)
     touched.update(dict.fromkeys(by_row))
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
