@@ -9,8 +9,10 @@ repeats it harmlessly (operations are taken by id, photos by content hash).
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
+import ssl
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -61,6 +63,13 @@ class SyncReport:
         return out
 
 
+@functools.lru_cache(maxsize=1)
+def _tls_context() -> ssl.SSLContext:
+    """The certificate check for an https hub, made once a process (reading the authorities'
+    certificates took longer than a small sync's requests)."""
+    return httpx.create_ssl_context()
+
+
 class _Hub:
     """Thin HTTP calls; every failure becomes an InputError naming what to fix."""
 
@@ -72,6 +81,7 @@ class _Hub:
             raise InputError("token", "", "no token given", "ask for one: fieldcol hub add-device")
         self.url = url.rstrip("/")
         self.http = httpx.Client(base_url=self.url, timeout=TIMEOUT_S, transport=transport,
+                                 verify=_tls_context(),
                                  headers={"Authorization": f"Bearer {token}"})
 
     def close(self) -> None:
