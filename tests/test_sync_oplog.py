@@ -6,6 +6,7 @@ must have (common practice); checked here on real SQLite files.
 
 from __future__ import annotations
 
+import json
 import os
 import random
 from pathlib import Path
@@ -105,6 +106,9 @@ def test_rows_read_from_the_log_keep_every_kind_of_value(tmp_path: Path):
         a.add_finding(s.id, awkward, category="corrosion", severity="low", column_id=c.id)
         assert send(a, b) == a.count_ops()
         assert _quoted(b) == _quoted(a) and dump(b) == dump(a)
+        # the wire's text, written by SQLite, reads back as the operation itself
+        texts = [json.loads(t) for _, _, t in a.ops_json_with_seq(0, 100)]
+        assert texts == [o.to_json() for o in a.ops_after(0, 100)]
 
 
 def test_a_failed_write_logs_nothing(tmp_path: Path):

@@ -1225,8 +1225,36 @@ def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
         >>> ops_after(store.db.conn, 10**9, 5)
         []
     """
-    sql = ("SELECT seq, op_id, device_id, hlc, tbl, row_id, field, value, seen FROM sync_ops "
-           "WHERE seq > ?")
+    sql, params = _after_sql("seq, op_id, device_id, hlc, tbl, row_id, field, value, seen", seq,
+                             limit, exclude_source, skip)
+    return [(r[0], Op(*r[1:])) for r in conn.execute(sql, params)]
+
+
+#: an operation as JSON text, made by SQLite: the fields of ``Op.to_json`` in its order
+_OP_JSON = ("json_object('op_id', op_id, 'device_id', device_id, 'hlc', hlc, 'tbl', tbl, "
+            "'row_id', row_id, 'field', field, 'value', value, 'seen', seen)")
+
+
+def ops_json_after(conn: sqlite3.Connection, seq: int, limit: int, *,
+                   exclude_source: str | None = None,
+                   skip: tuple[str, list[tuple[int, int]]] | None = None
+                   ) -> list[tuple[int, str, str]]:
+    """Like ``ops_after``, each operation as (sequence, table, JSON text of ``Op.to_json()``).
+
+    Why: what goes over the wire is text; SQLite writes it from the stored fields without an
+    ``Op`` made and encoded again for each (a sync sends every operation twice).
+
+    Example:
+        >>> ops_json_after(store.db.conn, 10**9, 5)
+        []
+    """
+    sql, params = _after_sql(f"seq, tbl, {_OP_JSON}", seq, limit, exclude_source, skip)
+    return conn.execute(sql, params).fetchall()
+
+
+def _after_sql(columns: str, seq: int, limit: int, exclude_source: str | None,
+               skip: tuple[str, list[tuple[int, int]]] | None) -> tuple[str, list[Any]]:
+    sql = f"SELECT {columns} FROM sync_ops WHERE seq > ?"
     params: list[Any] = [seq]
     if exclude_source:
         sql += " AND source != ?"
@@ -1236,5 +1264,4 @@ def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
         sql += (" AND NOT (device_id = ? AND ("
                 + " OR ".join("seq BETWEEN ? AND ?" for _ in spans) + "))")
         params += [skip[0], *(n for span in spans for n in span)]
-    params.append(limit)
-    return [(r[0], Op(*r[1:])) for r in conn.execute(sql + " ORDER BY seq LIMIT ?", params)]
+    return sql + " ORDER BY seq LIMIT ?", [*params, limit]

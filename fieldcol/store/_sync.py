@@ -67,6 +67,20 @@ class SyncMixin(StoreBase):
             return _oplog.ops_after(self.db.conn, seq, limit, exclude_source=exclude_source,
                                     skip=skip)
 
+    def ops_json_with_seq(self, seq: int, limit: int = 1000, *,
+                          exclude_source: str | None = None,
+                          skip: tuple[str, list[tuple[int, int]]] | None = None
+                          ) -> list[tuple[int, str, str]]:
+        """Like ``ops_with_seq``, each operation as (sequence, table, its JSON text).
+
+        Example:
+            >>> seq, tbl, text = store.ops_json_with_seq(0, 1)[0]; text.startswith('{"op_id"')
+            True
+        """
+        with self._lock:
+            return _oplog.ops_json_after(self.db.conn, seq, limit, exclude_source=exclude_source,
+                                         skip=skip)
+
     def held_ops(self, op_ids: Iterable[str]) -> set[str]:
         """Which of these operation ids are logged here already.
 

@@ -147,6 +147,13 @@ class HubStore:
         whose operations of that device are left out."""
         return self.store.ops_with_seq(after, limit, skip=skip)
 
+    def pull_json(self, after: int, limit: int,
+                  skip: tuple[str, list[tuple[int, int]]] | None = None
+                  ) -> list[tuple[int, str]]:
+        """``pull``, each operation as its JSON text (``Op.to_json()``'s fields)."""
+        return [(seq, text) for seq, _, text in
+                self.store.ops_json_with_seq(after, limit, skip=skip)]
+
     def max_seq(self) -> int:
         """The hub's newest sequence number."""
         return self.store.last_op_seq()

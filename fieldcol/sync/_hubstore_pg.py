@@ -284,8 +284,22 @@ class PgHubStore:
              skip: tuple[str, list[tuple[int, int]]] | None = None) -> list[tuple[int, Op]]:
         """Operations after hub sequence ``after``, oldest first; ``skip``: (device id, spans)
         whose operations of that device are left out."""
-        sql = ("SELECT seq, op_id, device_id, hlc, tbl, row_id, field, value, seen FROM hub_ops "
-               "WHERE seq > %s")
+        rows = self._after("seq, op_id, device_id, hlc, tbl, row_id, field, value, seen",
+                           after, limit, skip)
+        return [(r[0], Op(*r[1:])) for r in rows]
+
+    def pull_json(self, after: int, limit: int,
+                  skip: tuple[str, list[tuple[int, int]]] | None = None
+                  ) -> list[tuple[int, str]]:
+        """``pull``, each operation as its JSON text (``Op.to_json()``'s fields), written by
+        PostgreSQL."""
+        return self._after("seq, json_build_object('op_id', op_id, 'device_id', device_id, "
+                           "'hlc', hlc, 'tbl', tbl, 'row_id', row_id, 'field', field, "
+                           "'value', value, 'seen', seen)::text", after, limit, skip)
+
+    def _after(self, columns: str, after: int, limit: int,
+               skip: tuple[str, list[tuple[int, int]]] | None) -> list[Any]:
+        sql = f"SELECT {columns} FROM hub_ops WHERE seq > %s"
         params: list[Any] = [after]
         if skip and skip[1]:
             spans = skip[1][:MAX_SKIP_SPANS]
@@ -293,8 +307,7 @@ class PgHubStore:
                     + " OR ".join("seq BETWEEN %s AND %s" for _ in spans) + "))")
             params += [skip[0], *(n for span in spans for n in span)]
         with self._conn() as c:
-            rows = c.execute(sql + " ORDER BY seq LIMIT %s", [*params, limit]).fetchall()
-        return [(r[0], Op(*r[1:])) for r in rows]
+            return c.execute(sql + " ORDER BY seq LIMIT %s", [*params, limit]).fetchall()
 
     def max_seq(self) -> int:
         """The hub's newest committed sequence number."""

@@ -22,8 +22,8 @@ from fieldcol.errors import InputError
 from fieldcol.store import Store
 from fieldcol.store._gcpause import gc_paused
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import (FUTURE_TOLERANCE_MS, MAX_SKIP_SPANS, Conflict, ops_from_json,
-                                   wall_ms)
+from fieldcol.store._oplog import (FUTURE_TOLERANCE_MS, MAX_SKIP_SPANS, Conflict, Op,
+                                   ops_from_json, wall_ms)
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -188,17 +188,16 @@ def _push(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
     total = max(0, store.last_op_seq() - store.cursor(cursor))
     done = 0
     while True:
-        with gc_paused():
-            batch = store.ops_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
+        # each operation as the JSON text that goes, written by SQLite
+        batch = store.ops_json_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
         if not batch:
             break
-        ops = [op for _, op in batch]
-        for sha, name in needed_photos(ops).items():  # photos before the rows naming them
+        photo_ops = [Op.from_json(json.loads(text)) for _, tbl, text in batch if tbl == "photos"]
+        for sha, name in needed_photos(photo_ops).items():  # photos before the rows naming them
             if _upload(store, hub, sha):
                 report.photos_sent += 1
         head = json.dumps({"device": store.device_id, "schema": list(MIGRATION_NAMES)})
-        with gc_paused():
-            body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
+        body = f'{head[:-1]},"ops":[{",".join([text for _, _, text in batch])}]}}'
         ack = hub.call("POST", "/v1/push", content=body.encode(),
                        headers={"Content-Type": "application/json"}).json()
         with store._tx():  # only after the acknowledgement
@@ -208,8 +207,8 @@ def _push(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
                     type(n) is int for n in span) and 0 < span[0] <= span[1]:
                 # what this push added to the hub: no need to pull it back
                 store.note_own_span(hub_id, span[0], span[1])
-        report.sent += len(ops)
-        done += len(ops)
+        report.sent += len(batch)
+        done += len(batch)
         say("send", done, total)
 
 
