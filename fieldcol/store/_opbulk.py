@@ -70,10 +70,14 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
                     slow.append((tbl, row_id))
                     continue
                 if op.field == ROW:  # kept compact: one row of winners, keys spelt out
-                    raw = {k: _dump(values[k]) for k in keys if k in values}
+                    raw = {k: _dump(values[k]) for k in keys if k in values} if keys else {}
                     seq = seq_of.get(id(op))
-                    frows = _compact_rows(schema, tbl, row_id, op, raw)
-                    ready.append((row_id, values, raw, frows[1:] if seq else frows, [], seq))
+                    if seq is None:
+                        frows = _compact_rows(schema, tbl, row_id, op, raw)
+                    else:  # (its "*" row is written with it by _from_log)
+                        frows = [(tbl, row_id, k, op.hlc, op.op_id, j, j)
+                                 for k, j in raw.items()] if raw else []
+                    ready.append((row_id, values, raw, frows, [], seq))
                     continue
                 raw = {f: _dump(v) for f, v in values.items()}
                 frows = [(tbl, row_id, f, op.hlc, op.op_id, j, j) for f, j in raw.items()]
@@ -92,10 +96,13 @@ def write_fresh(conn: sqlite3.Connection, schema: Schema,
         for col, parent in schema.fks[tbl]:
             if parent not in schema.columns or not ready:
                 continue
-            refs = {x[1].get(col) for x in ready} - {None}
-            ok = written.get(parent, set()) | _existing(conn, parent, refs) | {None}
-            slow += [(tbl, x[0]) for x in ready if x[1].get(col) not in ok]
-            ready = [x for x in ready if x[1].get(col) in ok]
+            refs = {x[1].get(col) for x in ready}
+            refs.discard(None)
+            refs -= written.get(parent, set())
+            missing = refs - _existing(conn, parent, refs)
+            if missing:  # (rare: a child before its parent) the rest pass untouched
+                slow += [(tbl, x[0]) for x in ready if x[1].get(col) in missing]
+                ready = [x for x in ready if x[1].get(col) not in missing]
         for key, _scope, _live in schema.uniques[tbl]:
             raws = [x[2][key] for x in ready if x[2].get(key) is not None]
             twice = {r for r in raws if raws.count(r) > 1} if len(set(raws)) < len(raws) else set()

@@ -434,6 +434,25 @@ class Schema:
                 break
         return done
 
+    def check_all(self, ops: list[Op], where: str = "ops") -> dict[int, dict[str, Any]]:
+        """``check`` of every operation (named ``where[i]`` when one is refused), by ``id(op)``.
+
+        Example:
+            >>> Schema(store.db.conn).check_all([])
+            {}
+        """
+        settable = self._settable
+        out = {}
+        for i, op in enumerate(ops):
+            d = op.decoded
+            # the usual row operation, checked at once as in ``check``
+            if d is not None and op.field == ROW and op.tbl not in _FILE_TABLES and \
+                    op.tbl in settable and settable[op.tbl].issuperset(d):
+                out[id(op)] = d
+            else:
+                out[id(op)] = self.check(op, f"{where}[{i}]")
+        return out
+
     def check(self, op: Op, where: str = "op") -> dict[str, Any]:
         """Refuse an operation naming a table or field this store does not have; returns the
         values it sets (field -> stored value), decoded once for the merge.
@@ -821,7 +840,7 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         0
     """
     ops = list(ops)
-    decoded = {id(o): schema.check(o, f"ops[{i}]") for i, o in enumerate(ops)}
+    decoded = schema.check_all(ops)
     if ops and max_future_ms is not None:
         latest = max(ops, key=lambda o: o.hlc)
         if hlc_ms(latest.hlc) > wall_ms() + max_future_ms:
@@ -862,10 +881,14 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
     fields_rows = []
     seq_of = {id(o): seqs[0] + i for i, o in enumerate(new)} if seqs else {}
     # a row first seen here, by one logged operation: SQLite notes it from the log itself
-    first_seen = [seq_of[id(lst[0][0])] for k, lst in by_ops.items()
-                  if len(lst) == 1 and k not in known and id(lst[0][0]) in seq_of]
-    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()
-                 if not (len(lst) == 1 and (t, r) not in known and id(lst[0][0]) in seq_of)]
+    first_seen = []
+    rows_rows = []
+    for key, lst in by_ops.items():
+        seq = seq_of.get(id(lst[0][0])) if len(lst) == 1 and key not in known else None
+        if seq is None:
+            rows_rows.append((*key, max(o.hlc for o, _ in lst)))
+        else:
+            first_seen.append(seq)
     for (tbl, row_id), lst in by_row.items():  # rows held already; new ones are written whole
         best: dict[str, Entry] = {}
         for e in lst:
