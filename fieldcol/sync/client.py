@@ -13,6 +13,7 @@ import functools
 import hashlib
 import json
 import ssl
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -236,58 +237,79 @@ def _upload(store: Store, hub: _Hub, sha: str) -> bool:
 
 def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
           say: Callable[[str, int, int], None]) -> None:
-    while True:
-        after = store.cursor(cursor)
-        # the hub leaves out what this store pushed there itself (it holds those operations;
-        # a copy restored from before a push has forgotten that push's span with it)
-        spans = [s for s in store.own_spans(hub_id) if s[1] > after][:MAX_SKIP_SPANS]
-        params: dict[str, Any] = {"after": after, "limit": PULL_BATCH}
-        if spans:
-            params.update(device=store.device_id, skip=",".join(f"{a}-{b}" for a, b in spans))
-        reply = hub.call("GET", "/v1/pull", params=params)
-        with gc_paused():
-            body = reply.json()
-            rows = body["ops"]
-            page = body.get("limit")
-            # a page shorter than asked holds all there was after ``after`` but the spans
-            # left out, which were committed before they were acknowledged: the cursor passes
-            # them too (unless the hub's numbers went back: a restored hub, trust none)
-            whole = type(page) is int and len(rows) < page
-            through = int(rows[-1][0]) if rows else after
-            if spans and max(b for _, b in spans) > int(body["max_seq"]):
-                store.forget_own_spans(hub_id)
-            elif spans and whole:
-                through = max(through, max(b for _, b in spans))
-            if not rows:
-                if through > after:
-                    with store._tx():
-                        store.set_cursor(cursor, through)
-                        store.forget_own_spans(hub_id, through)
+    # the hub leaves out what this store pushed there itself (it holds those operations; a
+    # copy restored from before a push has forgotten that push's span with it). Read once:
+    # spans come from pushes, all made before the pull.
+    own = store.own_spans(hub_id)
+    # the next page is fetched while this one is merged (the hub reads and sends it, this
+    # store writes: mostly in SQLite and the network, which run beside Python)
+    with ThreadPoolExecutor(max_workers=1, thread_name_prefix="fieldcol-pull") as pool:
+        coming = pool.submit(_fetch_page, hub, store.device_id, store.cursor(cursor), own)
+        while True:
+            after, spans, body = coming.result()
+            with gc_paused():
+                rows = body["ops"]
+                page = body.get("limit")
+                # a page shorter than asked holds all there was after ``after`` but the spans
+                # left out, which were committed before they were acknowledged: the cursor
+                # passes them too (unless the hub's numbers went back: a restored hub, trust
+                # none)
+                whole = type(page) is int and len(rows) < page
+                through = int(rows[-1][0]) if rows else after
+                if spans and max(b for _, b in spans) > int(body["max_seq"]):
+                    store.forget_own_spans(hub_id)
+                    own = spans = []
+                elif spans and whole:
+                    through = max(through, max(b for _, b in spans))
+                if not rows:
+                    if through > after:
+                        with store._tx():
+                            store.set_cursor(cursor, through)
+                            store.forget_own_spans(hub_id, through)
+                    break
+                objs = [o for _, o in rows]
+                # other operations this store holds come back too: skip those before decoding
+                # them (photo rows still go through the photo check below, as they always did)
+                ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
+                held = store.held_ops(i for i in ids if isinstance(i, str))
+                objs = [o for o, i in zip(objs, ids)
+                        if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
+                ops = ops_from_json(objs, "pull.ops")
+            for sha, name in needed_photos(ops).items():  # files before the rows naming them
+                if not have_photo(store, sha, name):
+                    if _download(store, hub, sha):
+                        report.photos_received += 1
+                    else:
+                        report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the "
+                                               "device that took it has not sent it)")
+            if not whole:  # (a failed fetch is raised once this page is merged and noted)
+                coming = pool.submit(_fetch_page, hub, store.device_id, through, own)
+            with store._tx():
+                result = store.apply_ops(ops, source="hub", max_future_ms=None)
+                store.set_cursor(cursor, through)
+                if spans:
+                    store.forget_own_spans(hub_id, through)
+            report.received += result.new
+            say("receive", through, int(body["max_seq"]))
+            if whole:
                 break
-            objs = [o for _, o in rows]
-            # this device's own operations come back too: skip those held before decoding
-            # them (photo rows still go through the photo check below, as they always did)
-            ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
-            held = store.held_ops(i for i in ids if isinstance(i, str))
-            objs = [o for o, i in zip(objs, ids)
-                    if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
-            ops = ops_from_json(objs, "pull.ops")
-        for sha, name in needed_photos(ops).items():  # files before the rows naming them
-            if not have_photo(store, sha, name):
-                if _download(store, hub, sha):
-                    report.photos_received += 1
-                else:
-                    report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the device "
-                                           "that took it has not sent it)")
-        with store._tx():
-            result = store.apply_ops(ops, source="hub", max_future_ms=None)
-            store.set_cursor(cursor, through)
-            if spans:
-                store.forget_own_spans(hub_id, through)
-        report.received += result.new
-        say("receive", through, int(body["max_seq"]))
-        if whole:
-            break
+
+
+def _fetch_page(hub: _Hub, device_id: str, after: int, own: list[tuple[int, int]]
+                ) -> tuple[int, list[tuple[int, int]], dict[str, Any]]:
+    """One page of the hub's operations after ``after``, leaving out this store's own spans:
+    (after, the spans named, the decoded answer)."""
+    spans = [s for s in own if s[1] > after][:MAX_SKIP_SPANS]
+    params: dict[str, Any] = {"after": after, "limit": PULL_BATCH}
+    if spans:
+        params.update(device=device_id, skip=",".join(f"{a}-{b}" for a, b in spans))
+    reply = hub.call("GET", "/v1/pull", params=params)
+    with gc_paused():
+        body = reply.json()
+    if not isinstance(body, dict) or not isinstance(body.get("ops"), list):
+        raise InputError("hub", hub.url, "the hub's answer to a pull is not a page of "
+                         "operations", "check the hub address")
+    return after, spans, body
 
 
 def _download(store: Store, hub: _Hub, sha: str) -> bool:
