@@ -513,6 +513,10 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
     operations become operations of the device that last wrote them, at that time.
     """
     schema = Schema(conn)
+    # every merge asks for the rows still waiting (almost always none): without this it read
+    # every row's note, a pass over the whole store for each batch
+    conn.execute("CREATE INDEX IF NOT EXISTS sync_rows_pending ON sync_rows(tbl, row_id) "
+                 "WHERE pending = 1")
     for key in sorted({u[0] for t in schema.tables for u in schema.uniques[t]}):
         # the claims to a unique key are looked up by value: index only those fields' values
         conn.execute(f"CREATE INDEX IF NOT EXISTS {_key_index(key)} ON sync_fields(tbl, value) "
