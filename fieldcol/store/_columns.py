@@ -6,11 +6,12 @@ import copy
 import json
 import re
 import sqlite3
-import uuid
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+from fieldcol.store import _oplog
 from fieldcol.store import _validate as v
+from fieldcol.store._ids import new_id
 from fieldcol.store._records import (
     Column, ColumnRow, Measurement, RestraintChange, Retrofit, from_row,
 )
@@ -197,8 +198,7 @@ class ColumnsMixin(SitesMixin):
         self._get("sites", site_id, field="site")
         levels: dict[str, str] = {}
         names = ("id", "created_at", "updated_at", "device_id", "deleted_at", "site_id", "tag",
-                 "record", "location", "grid", "level_id") + (
-                     ("created_by",) if self.person is not None else ())
+                 "record", "location", "grid", "level_id", "created_by")
         sql = (f"INSERT INTO columns ({', '.join(names)}) "
                f"VALUES ({', '.join('?' for _ in names)})")
         count = 0
@@ -216,20 +216,32 @@ class ColumnsMixin(SitesMixin):
                     if level_id is None:
                         level_id = levels[name] = self.level(site_id, name).id
                 now = v.now_utc()
-                batch.append((str(uuid.uuid4()), now, now, self.device_id, None, site_id,
+                batch.append((new_id(), now, now, self.device_id, None, site_id,
                               tag.strip(), v.json_text(record, "record"),
                               v.text(location, "location", required=False),
-                              v.text(grid, "grid", required=False), level_id)
-                             + ((self.person,) if self.person is not None else ()))
+                              v.text(grid, "grid", required=False), level_id, self.person))
                 if len(batch) >= 1000:
-                    count += self._insert_many(sql, batch)
-            count += self._insert_many(sql, batch)
+                    count += self._insert_many(sql, names, batch)
+            count += self._insert_many(sql, names, batch)
         return count
 
-    def _insert_many(self, sql: str, batch: list[tuple[Any, ...]]) -> int:
-        """Insert a batch of rows and empty it; a unique key refused is the caller's error."""
+    def _insert_many(self, sql: str, names: tuple[str, ...], batch: list[tuple[Any, ...]]) -> int:
+        """Insert a batch of new columns (ids first in each row) and empty it, with their
+        operations; a unique key refused is the caller's error."""
+        conn, schema = self.db.conn, self._sync_schema
         try:
-            self.db.conn.executemany(sql, batch)
+            if schema is None:
+                conn.executemany(sql, batch)
+            else:
+                # the rows are logged here at once (_oplog.log_new_rows), not noted one by one
+                conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')",
+                             [_oplog.QUIET])
+                try:
+                    conn.executemany(sql, batch)
+                finally:
+                    conn.execute("DELETE FROM meta WHERE key = ?", [_oplog.QUIET])
+                _oplog.log_new_rows(conn, self.device_id, schema, "columns", list(names),
+                                    batch)
         except sqlite3.IntegrityError as e:
             if "columns_live_tag" in str(e) or "columns.site_id, columns.tag" in str(e):
                 raise InputError("tag", "", "a column with this tag already exists on the site",

@@ -28,12 +28,12 @@ import math
 import re
 import sqlite3
 import time
-import uuid
 from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+from fieldcol.store._ids import new_id
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -394,7 +394,25 @@ class Schema:
             self.fks[t] = [(r[3], r[2]) for r in conn.execute(f"PRAGMA foreign_key_list({t})")]
             self.uniques[t] = self._uniques(conn, t, info)
         self.tables = self._ordered()
+        # columns whose values are stored exactly as given when text (or null) is given
+        self._text_cols = {t: frozenset(r[1] for r in conn.execute(f"PRAGMA table_info({t})")
+                                        if (r[2] or "").upper() == "TEXT")
+                           for t in self.columns}
         self._settable = {t: frozenset(c) - frozenset(DERIVED) for t, c in self.columns.items()}
+
+    def as_given(self, tbl: str, names: list[str], rows: list[tuple]) -> bool:
+        """True when rows inserted with these values read back the same: every field of the
+        table named, of type TEXT, each value a text or null (no default, no conversion).
+
+        Example:
+            >>> Schema(store.db.conn).as_given("levels", ["id"], [("x",)])
+            False
+        """
+        cols = self.columns[tbl]
+        if len(names) != len(cols) or set(names) != set(cols) or \
+                not self._text_cols[tbl].issuperset(names):
+            return False
+        return all(x is None or type(x) is str for r in rows for x in r)
 
     @staticmethod
     def _uniques(conn: sqlite3.Connection, t: str,
@@ -660,7 +678,7 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
         if not changed:
             continue
         n_fields += len(texts)
-        op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
+        op = row_op(new_id(), dev, at, tbl, row_id, changed, seen)
         ops.append(op)
         if have:
             fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
@@ -672,18 +690,7 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
                 for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
                     if raw is not None:
                         touched[(tbl, key, scope, live, raw)] = None
-    _store_ops(conn, ops, "local", all_new=True)
-    conn.executemany(
-        "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-        "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
-        "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
-        fields_rows)
-    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
-    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
-    conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
-                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
-                     "excluded.max_hlc)", rows_rows)
+    _write_logged(conn, ops, fields_rows, new_rows, rows_rows)
     # a row's conflicts depend on its own operations only, all written just above
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     for args in _settle_plain(conn, touched):
@@ -691,10 +698,81 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
     return n_fields
 
 
-def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[tuple]:
+def _write_logged(conn: sqlite3.Connection, ops: list[Op], fields_rows: list[tuple],
+                  new_rows: list[tuple], rows_rows: list[tuple]) -> None:
+    """Write local operations with their winners (``fields_rows`` over known ones,
+    ``new_rows`` of rows first written) and their rows' versions."""
+    _store_ops(conn, ops, "local", all_new=True)
+    if fields_rows:
+        conn.executemany(
+            "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+            "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+            "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, "
+            "mat = excluded.mat", fields_rows)
+    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
+    conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
+                     "excluded.max_hlc)", rows_rows)
+
+
+def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: str,
+                 names: list[str], rows: list[tuple]) -> int:
+    """Log rows just inserted (``names``: their columns, the id first) under ids never used
+    before, written while the triggers stood still (``QUIET``): the operations ``flush``
+    would make of them (one a row, its non-null fields; winners kept compact), without
+    noting each row, reading it back and looking up what is known of it (nothing, for a new
+    id). Call inside the writing transaction; returns how many fields were logged.
+
+    Why: a schedule's new columns are a hundred thousand rows of one table; the note a
+    trigger writes per row and the lookups per row cost as much as the rows themselves.
+
+    Example:
+        >>> log_new_rows(store.db.conn, store.device_id, Schema(store.db.conn), "columns",
+        ...              ["id"], [])
+        0
+    """
+    if not rows:
+        return 0
+    if not schema.as_given(tbl, names, rows):  # stored otherwise than given: read them back
+        cur = conn.execute(f"SELECT * FROM {tbl} WHERE id IN ({_marks(rows)})",
+                           [r[0] for r in rows])
+        names = [d[0] for d in cur.description]
+        rows = cur.fetchall()
+    hlc = hlc_tick(conn)
+    uniques = schema.uniques[tbl]
+    settle: dict[tuple, None] = {}
+    count = 0
+    for part in _chunks(rows):
+        ops, new_rows, rows_rows, touched = [], [], [], {}
+        for r in part:
+            row_id = r[0]
+            changed = {k: x for k, x in zip(names, r) if x is not None and k not in DERIVED}
+            count += len(changed)
+            op = row_op(new_id(), device_id, hlc, tbl, row_id, changed, 0)
+            ops.append(op)
+            raw = {key: _dump(changed[key]) for key, _s, _l in uniques if key in changed}
+            new_rows += _compact_rows(schema, tbl, row_id, op, raw)
+            rows_rows.append((tbl, row_id, hlc))
+            for key, scope, live in uniques:
+                if key in raw:
+                    touched[(tbl, key, scope, live, raw[key])] = None
+        _write_logged(conn, ops, [], new_rows, rows_rows)
+        for args in _settle_plain(conn, touched, fresh=True):
+            settle[args] = None
+    for args in settle:
+        _settle_key(conn, *args)
+    return count
+
+
+def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None], *,
+                  fresh: bool = False) -> list[tuple]:
     """Settle at once the unique key values with one claim, held by a row that shows it
     already (no other row can show it: the table's unique index holds); returns the others,
     for ``_settle_key``. Found with a few statements per 500 values, not several per row.
+    ``fresh``: the values were claimed just now by new rows showing them as claimed (with
+    their winners' shown value written as claimed, and no conflicts): one claim is settled.
 
     A value settled here whose claims change later in the same flush (a row further on that
     takes or leaves it) is noted again there, and settled then with every claim it has."""
@@ -710,6 +788,9 @@ def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[
                 [tbl, *raws]):
             claims.setdefault(raw, []).append(row_id)
         single = {c[0]: raw for raw, c in claims.items() if len(c) == 1}
+        if fresh:
+            plain.update((tbl, key, scope, live, raw) for raw in single.values())
+            continue
         if not single:
             continue
         ids = list(single)
