@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import copy
 import json
 import re
@@ -202,7 +203,7 @@ class ColumnsMixin(SitesMixin):
         sql = (f"INSERT INTO columns ({', '.join(names)}) "
                f"VALUES ({', '.join('?' for _ in names)})")
         count = 0
-        with self._tx():
+        with self._tx(), self._unnoted():
             batch: list[tuple[Any, ...]] = []
             for record, level, grid, location in items:
                 tag = record.get("tag")
@@ -225,21 +226,20 @@ class ColumnsMixin(SitesMixin):
             count += self._insert_many(sql, names, batch)
         return count
 
+    def _unnoted(self) -> Any:
+        """The block's inserts into ``columns`` go unnoted by the trigger (``_insert_many``
+        logs them itself), or noted as usual in a store without an operations log."""
+        if self._sync_schema is None:
+            return contextlib.nullcontext()
+        return _oplog.unnoted_inserts(self.db.conn, "columns")
+
     def _insert_many(self, sql: str, names: tuple[str, ...], batch: list[tuple[Any, ...]]) -> int:
         """Insert a batch of new columns (ids first in each row) and empty it, with their
         operations; a unique key refused is the caller's error."""
         conn, schema = self.db.conn, self._sync_schema
         try:
-            if schema is None:
-                conn.executemany(sql, batch)
-            else:
-                # the rows are logged here at once (_oplog.log_new_rows), not noted one by one
-                conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')",
-                             [_oplog.QUIET])
-                try:
-                    conn.executemany(sql, batch)
-                finally:
-                    conn.execute("DELETE FROM meta WHERE key = ?", [_oplog.QUIET])
+            conn.executemany(sql, batch)
+            if schema is not None:
                 _oplog.log_new_rows(conn, self.device_id, schema, "columns", list(names),
                                     batch)
         except sqlite3.IntegrityError as e:

@@ -11,12 +11,24 @@ order within this process, the variant and 62 random bits (unique across devices
 from __future__ import annotations
 
 import os
+import random
 import threading
 import time
 
 _lock = threading.Lock()
 _last = [0, 0]  # the millisecond and the counter of the id made last in this process
-_RANDOM = (1 << 62) - 1
+# random bits from a generator seeded by the system's (a system call per id cost more than
+# the rest of making it); seeded again in a forked child, which would repeat its parent's
+_bits = random.Random(os.urandom(32)).getrandbits
+
+
+def _reseed() -> None:
+    global _bits
+    _bits = random.Random(os.urandom(32)).getrandbits
+
+
+if hasattr(os, "register_at_fork"):
+    os.register_at_fork(after_in_child=_reseed)
 
 
 def new_id() -> str:
@@ -36,7 +48,6 @@ def new_id() -> str:
         else:
             seq = 0
         _last[0], _last[1] = ms, seq
-    n = ((ms & 0xFFFF_FFFF_FFFF) << 80 | 0x7 << 76 | seq << 64 | 0b10 << 62
-         | int.from_bytes(os.urandom(8), "big") & _RANDOM)
+    n = (ms & 0xFFFF_FFFF_FFFF) << 80 | 0x7 << 76 | seq << 64 | 0b10 << 62 | _bits(62)
     h = f"{n:032x}"
     return f"{h[:8]}-{h[8:12]}-{h[12:16]}-{h[16:20]}-{h[20:]}"

@@ -30,7 +30,8 @@ import sqlite3
 import time
 from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
-from typing import Any, Iterable
+from contextlib import contextmanager
+from typing import Any, Iterable, Iterator
 
 from fieldcol.errors import InputError
 from fieldcol.store._ids import new_id
@@ -287,8 +288,11 @@ def row_op(op_id: str, device_id: str, hlc: int, tbl: str, row_id: str,
         >>> row_op("o", "d", 5, "sites", "r", {"name": "A"}, 0).fields()
         {'name': '"A"'}
     """
-    return Op(op_id, device_id, hlc, tbl, row_id, ROW,
-              json.dumps(values, ensure_ascii=False, sort_keys=True), seen)
+    return Op(op_id, device_id, hlc, tbl, row_id, ROW, _encode_row(values), seen)
+
+
+# json.dumps(values, ensure_ascii=False, sort_keys=True) without making an encoder each call
+_encode_row = json.JSONEncoder(ensure_ascii=False, sort_keys=True).encode
 
 
 @dataclass(frozen=True)
@@ -717,10 +721,39 @@ def _write_logged(conn: sqlite3.Connection, ops: list[Op], fields_rows: list[tup
                      "excluded.max_hlc)", rows_rows)
 
 
+@contextmanager
+def unnoted_inserts(conn: sqlite3.Connection, tbl: str) -> Iterator[None]:
+    """Inside a transaction: rows inserted into ``tbl`` while the block runs are not noted
+    for ``flush``; the caller logs them (``log_new_rows``). The table's insert trigger is
+    dropped for the block and made again from its own text as it ends (both in the
+    transaction: a rollback keeps it as it was, and no other connection sees it missing).
+
+    Why: even when it only checks ``QUIET``, a trigger costs more per row than the insert
+    of a schedule's column itself.
+
+    Example:
+        >>> with store.transaction(), unnoted_inserts(store.db.conn, "levels"):
+        ...     pass
+    """
+    if not conn.in_transaction:
+        raise RuntimeError("unnoted_inserts needs the writing transaction")
+    name = f"sync_note_{tbl}_insert"
+    row = conn.execute("SELECT sql FROM sqlite_master WHERE type = 'trigger' AND name = ?",
+                       [name]).fetchone()
+    if row is None:
+        yield
+        return
+    conn.execute(f"DROP TRIGGER {name}")
+    try:
+        yield
+    finally:
+        conn.execute(row[0])
+
+
 def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: str,
                  names: list[str], rows: list[tuple]) -> int:
     """Log rows just inserted (``names``: their columns, the id first) under ids never used
-    before, written while the triggers stood still (``QUIET``): the operations ``flush``
+    before, written unnoted (``unnoted_inserts``): the operations ``flush``
     would make of them (one a row, its non-null fields; winners kept compact), without
     noting each row, reading it back and looking up what is known of it (nothing, for a new
     id). Call inside the writing transaction; returns how many fields were logged.

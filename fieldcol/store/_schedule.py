@@ -76,6 +76,10 @@ class SchedulePlan:
     location: str | None = None
 
 
+# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows
+_encode_plan = json.JSONEncoder(ensure_ascii=False).encode
+
+
 class PlanSpool(Sequence[SchedulePlan]):
     """The plans of a preview, kept in a temporary file rather than in memory: a schedule of
     100,000 rows previews and applies in the same memory as one of a hundred. Reads back as a
@@ -97,9 +101,8 @@ class PlanSpool(Sequence[SchedulePlan]):
         """Keep one plan (written at the end of the file)."""
         if self._file is None:
             self._file = tempfile.TemporaryFile()
-        line = json.dumps([plan.row, plan.tag, plan.action, plan.changes, plan.record,
-                           plan.level, plan.grid, plan.location],
-                          ensure_ascii=False).encode("utf-8") + b"\n"
+        line = _encode_plan([plan.row, plan.tag, plan.action, plan.changes, plan.record,
+                             plan.level, plan.grid, plan.location]).encode("utf-8") + b"\n"
         # reads use pread, so the file's position stays at its end: append where it is
         self._offsets.append(self._end)
         self._file.write(line)
@@ -159,17 +162,42 @@ class PlanSpool(Sequence[SchedulePlan]):
 
 class _TagBook:
     """The tags met so far in a file and the row of each, kept in a private temporary SQLite
-    database (on disk, its page cache bounded): a file's rows never accumulate in memory."""
+    database (on disk, its page cache bounded): a file's rows never accumulate in memory.
+
+    A tag is asked of the database only when a filter of fixed size (a Bloom filter, 2**23
+    bits, two of them set per tag) says it may have been met: most tags are new, and those
+    are written a thousand at a time."""
+
+    _MASK = (1 << 23) - 1
 
     def __init__(self) -> None:
         self._db = sqlite3.connect("")  # "": a temporary database of this connection only
         self._db.execute("CREATE TABLE tags (tag TEXT PRIMARY KEY, row INTEGER) WITHOUT ROWID")
+        self._bits = bytearray(1 << 20)
+        self._pending: dict[str, int] = {}
 
     def first_row(self, tag: str, row: int) -> int | None:
         """The row that used ``tag`` first, or None (and ``row`` is noted as its first)."""
+        h = hash(tag)
+        a, b = h & self._MASK, (h >> 23) & self._MASK
+        bits = self._bits
+        if not (bits[a >> 3] >> (a & 7) & 1 and bits[b >> 3] >> (b & 7) & 1):
+            bits[a >> 3] |= 1 << (a & 7)
+            bits[b >> 3] |= 1 << (b & 7)
+            self._pending[tag] = row
+            if len(self._pending) >= 1000:
+                self._write()
+            return None
+        if tag in self._pending:
+            return self._pending[tag]
+        self._write()
         if self._db.execute("INSERT OR IGNORE INTO tags VALUES (?, ?)", (tag, row)).rowcount:
             return None
         return int(self._db.execute("SELECT row FROM tags WHERE tag = ?", (tag,)).fetchone()[0])
+
+    def _write(self) -> None:
+        self._db.executemany("INSERT INTO tags VALUES (?, ?)", self._pending.items())
+        self._pending.clear()
 
 
 @dataclass
@@ -455,18 +483,28 @@ def _shown(current: dict[str, Any], name: str) -> Any:
     return current.get(name)
 
 
-def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None) -> None:
+def _new_key(code: str | None, vals: dict[str, Any]) -> tuple[str | None, ...] | None:
+    """The memo key of a new column's row, when its entries are all text: its record but for
+    the tag is ``_merge({"tag": ..., "code": code}, vals)``, so these say all of it."""
+    key = (code, *map(vals.get, ("section", "length", "material", "demand", "basis")))
+    return key if all(x is None or type(x) is str for x in key) else None
+
+
+def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None,
+               key: Any = None) -> None:
     """Read the row's entries as the engine would; the whole record when it is complete.
 
     A schedule repeats its sections, lengths, grades and loads: a row equal to one read
     before but for its tag (a non-blank text here: the engine reads nothing else from it)
-    gives the same answer, so it is read once."""
-    try:
-        key = json.dumps([{k: x for k, x in merged.items() if k != "tag"},
-                          {k: vals[k] for k in ("section", "material", "basis") if k in vals},
-                          code], sort_keys=True, allow_nan=False)
-    except (TypeError, ValueError):
-        key = None
+    gives the same answer, so it is read once. ``key``: the row's memo key when the caller
+    has one (``_new_key``), else its JSON text is."""
+    if key is None:
+        try:
+            key = json.dumps([{k: x for k, x in merged.items() if k != "tag"},
+                              {k: vals[k] for k in ("section", "material", "basis") if k in vals},
+                              code], sort_keys=True, allow_nan=False)
+        except (TypeError, ValueError):
+            key = None
     if key is not None and key in _ROW_READ:
         err = _ROW_READ[key]
         if err is not None:
@@ -566,7 +604,7 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
                 # a new column: the record checked is the record kept (the reading copies
                 # nothing into it), so it is merged once
                 rec = _merge(base, vals)
-                _check_row(rec, vals, code)
+                _check_row(rec, vals, code, _new_key(code, vals))
             else:
                 base, current = col.record, store.current_record(col.id)
                 # a cell showing what an export shows is no change: an unedited export
