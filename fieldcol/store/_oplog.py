@@ -783,7 +783,10 @@ def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: 
             row_id = r[0]
             changed = {k: x for k, x in zip(names, r) if x is not None and k not in DERIVED}
             count += len(changed)
-            op = row_op(new_id(), device_id, hlc, tbl, row_id, changed, 0)
+            # row_op's text, written straight: every value is a text here (as_given)
+            op = Op(new_id(), device_id, hlc, tbl, row_id, ROW, "{" + ", ".join(
+                [f"{_encode_text(k)}: {_encode_text(changed[k])}" for k in sorted(changed)])
+                + "}", 0)
             ops.append(op)
             raw = {key: _dump(changed[key]) for key, _s, _l in uniques if key in changed}
             new_rows += _compact_rows(schema, tbl, row_id, op, raw)
