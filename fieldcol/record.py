@@ -7,6 +7,7 @@ A record is what an engineer recorded for one column. Values with units are stri
 
 from __future__ import annotations
 
+import json
 import math
 import re
 from collections.abc import Mapping
@@ -193,6 +194,64 @@ class LossBand:
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
+    """Read a column record into a ``ColumnInput`` (see ``_read_record``).
+
+    A record of plain JSON read before (the same text) gives the same ``ColumnInput`` again,
+    read once: the app checks a column again after each edit elsewhere on it, a report and a
+    schedule's rows read the same records over. ``ColumnInput`` is frozen, so it is shared.
+
+    Example:
+        >>> c = parse_record({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                   "length": "30 ft"})
+        >>> round(c.length, 1), c.code, c.k_basis
+        (9144.0, 'aisc360-22', 'recommended')
+    """
+    return record_and_text(record)[0]
+
+
+def record_and_text(record: Mapping[str, Any]) -> tuple[ColumnInput, str | None]:
+    """``parse_record`` and the record's JSON text (None for a record that is not plain JSON:
+    only dicts with text keys, lists, texts, numbers, booleans and nulls).
+
+    Example:
+        >>> record_and_text({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                  "length": "30 ft"})[1][:13]
+        '{"tag": "C1",'
+    """
+    text = None
+    if _plain(record):
+        try:
+            text = json.dumps(record)
+        except (TypeError, ValueError):
+            text = None
+    if text is not None:
+        hit = _READ.get(text)
+        if hit is not None:
+            return hit, text
+    col = _read_record(record)
+    if text is not None:
+        if len(_READ) >= 256:
+            _READ.clear()
+        _READ[text] = col
+    return col, text
+
+
+#: records read, by their JSON text (bounded)
+_READ: dict[str, ColumnInput] = {}
+
+
+def _plain(value: Any) -> bool:
+    """True for plain JSON values only: a tuple, a number type of its own or a key that is not
+    text could read otherwise than the JSON text it writes."""
+    kind = type(value)
+    if kind is dict:
+        return all(type(k) is str and _plain(x) for k, x in value.items())
+    if kind is list:
+        return all(map(_plain, value))
+    return kind is str or kind is float or kind is int or kind is bool or value is None
+
+
+def _read_record(record: Mapping[str, Any]) -> ColumnInput:
     """Read a column record into a ``ColumnInput``.
 
     Args:
