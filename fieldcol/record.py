@@ -552,6 +552,8 @@ def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None
 # dimensional value needs one; only zero may stand alone.
 _BARE = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?(\s*-?\s*\d+\s*/\s*\d+)?\s*$"
                    r"|^\s*\d+\s*/\s*\d+\s*$")
+#: texts seen to carry more than a bare number (bounded)
+_WITH_UNIT: set[str] = set()
 _EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3700 kN",
              "moment": "120 kip*ft or 163 kN*m",
              "stress": "50 ksi or 345 MPa", "area": "0.2 in2 or 130 mm2",
@@ -560,10 +562,16 @@ _EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3
 
 
 def _unit_required(text: Any, kind: str, fld: str) -> None:
+    if type(text) is str and text in _WITH_UNIT:  # a record's texts repeat: matched once
+        return
     if isinstance(text, bool):
         return
     bare = isinstance(text, (int, float)) or (isinstance(text, str) and _BARE.match(text))
     if not bare:
+        if type(text) is str:
+            if len(_WITH_UNIT) >= 4096:
+                _WITH_UNIT.clear()
+            _WITH_UNIT.add(text)
         return
     try:
         if float(text) == 0:
