@@ -694,7 +694,8 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
                 for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
                     if raw is not None:
                         touched[(tbl, key, scope, live, raw)] = None
-    _write_logged(conn, ops, fields_rows, new_rows, rows_rows)
+    _write_logged(conn, [(o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value,
+                          o.seen, "local") for o in ops], fields_rows, new_rows, rows_rows)
     # a row's conflicts depend on its own operations only, all written just above
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     for args in _settle_plain(conn, touched):
@@ -702,11 +703,14 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
     return n_fields
 
 
-def _write_logged(conn: sqlite3.Connection, ops: list[Op], fields_rows: list[tuple],
+def _write_logged(conn: sqlite3.Connection, op_rows: list[tuple], fields_rows: list[tuple],
                   new_rows: list[tuple], rows_rows: list[tuple]) -> None:
-    """Write local operations with their winners (``fields_rows`` over known ones,
-    ``new_rows`` of rows first written) and their rows' versions."""
-    _store_ops(conn, ops, "local", all_new=True)
+    """Write local operations (``op_rows``: ``sync_ops`` rows, ids made here just now) with
+    their winners (``fields_rows`` over known ones, ``new_rows`` of rows first written) and
+    their rows' versions."""
+    conn.executemany(
+        "INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, source) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)", op_rows)
     if fields_rows:
         conn.executemany(
             "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
@@ -774,27 +778,32 @@ def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: 
         names = [d[0] for d in cur.description]
         rows = cur.fetchall()
     hlc = hlc_tick(conn)
-    uniques = schema.uniques[tbl]
+    at_id = names.index("id")
+    # row_op's text written straight (every value is a text here, as_given): its fields in
+    # sorted order, each key's text made once
+    order = [(i, f"{_encode_text(k)}: ") for k, i in sorted(
+        (k, i) for i, k in enumerate(names) if k not in DERIVED)]
+    keys = [(names.index(key), key, scope, live) for key, scope, live in schema.uniques[tbl]
+            if key in names]
     settle: dict[tuple, None] = {}
     count = 0
     for part in _chunks(rows):
-        ops, new_rows, rows_rows, touched = [], [], [], {}
+        op_rows, new_rows, rows_rows, touched = [], [], [], {}
         for r in part:
-            row_id = r[0]
-            changed = {k: x for k, x in zip(names, r) if x is not None and k not in DERIVED}
-            count += len(changed)
-            # row_op's text, written straight: every value is a text here (as_given)
-            op = Op(new_id(), device_id, hlc, tbl, row_id, ROW, "{" + ", ".join(
-                [f"{_encode_text(k)}: {_encode_text(changed[k])}" for k in sorted(changed)])
-                + "}", 0)
-            ops.append(op)
-            raw = {key: _dump(changed[key]) for key, _s, _l in uniques if key in changed}
-            new_rows += _compact_rows(schema, tbl, row_id, op, raw)
+            row_id, op_id = r[at_id], new_id()
+            fields = [k + _encode_text(r[i]) for i, k in order if r[i] is not None]
+            count += len(fields)
+            op_rows.append((op_id, device_id, hlc, tbl, row_id, ROW,
+                            "{" + ", ".join(fields) + "}", 0, "local"))
+            # its winners kept compact (as _compact_rows writes them), its keys spelt out
+            new_rows.append((tbl, row_id, ROW, hlc, op_id, None, None))
+            for i, key, scope, live in keys:
+                if r[i] is not None:
+                    raw = _encode_text(r[i])
+                    new_rows.append((tbl, row_id, key, hlc, op_id, raw, raw))
+                    touched[(tbl, key, scope, live, raw)] = None
             rows_rows.append((tbl, row_id, hlc))
-            for key, scope, live in uniques:
-                if key in raw:
-                    touched[(tbl, key, scope, live, raw[key])] = None
-        _write_logged(conn, ops, [], new_rows, rows_rows)
+        _write_logged(conn, op_rows, [], new_rows, rows_rows)
         for args in _settle_plain(conn, touched, fresh=True):
             settle[args] = None
     for args in settle:
