@@ -188,7 +188,8 @@ class ColumnsMixin(SitesMixin):
                      items: Iterable[tuple[dict[str, Any], str | None, str | None, str | None]]
                      ) -> int:
         """Create many columns at once (a schedule's new rows): ``items`` of (record, level,
-        grid, location), records already read through ``check_record_keys`` by the caller.
+        grid, location), records already read through ``check_record_keys`` by the caller; a
+        record is a JSON object, or (its tag, its JSON text) as a schedule's plan keeps it.
         Written with ``executemany`` in batches inside one transaction (the caller's, or one
         of its own); a tag taken on the site refuses the whole call. Returns how many.
 
@@ -206,7 +207,10 @@ class ColumnsMixin(SitesMixin):
         with self._tx(), self._unnoted():
             batch: list[tuple[Any, ...]] = []
             for record, level, grid, location in items:
-                tag = record.get("tag")
+                if type(record) is tuple:
+                    tag, text = record
+                else:
+                    tag, text = record.get("tag"), None
                 if not isinstance(tag, str) or not tag.strip():
                     raise InputError("record.tag", repr(tag), "the column tag is required",
                                      "e.g. B/4-L1")
@@ -216,9 +220,10 @@ class ColumnsMixin(SitesMixin):
                     level_id = levels.get(name)
                     if level_id is None:
                         level_id = levels[name] = self.level(site_id, name).id
+                if text is None:
+                    text = v.json_text(record, "record")
                 now = v.now_utc()
-                batch.append((new_id(), now, now, self.device_id, None, site_id,
-                              tag.strip(), v.json_text(record, "record"),
+                batch.append((new_id(), now, now, self.device_id, None, site_id, tag.strip(), text,
                               v.text(location, "location", required=False),
                               v.text(grid, "grid", required=False), level_id, self.person))
                 if len(batch) >= 1000:

@@ -76,8 +76,17 @@ class SchedulePlan:
     location: str | None = None
 
 
-# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows
+# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows;
+# a record as the store writes it (v.json_text)
 _encode_plan = json.JSONEncoder(ensure_ascii=False).encode
+_encode_record = json.JSONEncoder(ensure_ascii=False, allow_nan=False).encode
+
+
+def _plan_of(items: list[Any]) -> SchedulePlan:
+    """A plan from a spool's line (its record decoded when kept as text)."""
+    if type(items[4]) is str:
+        items[4] = json.loads(items[4])
+    return SchedulePlan(*items)
 
 
 class PlanSpool(Sequence[SchedulePlan]):
@@ -101,7 +110,15 @@ class PlanSpool(Sequence[SchedulePlan]):
         """Keep one plan (written at the end of the file)."""
         if self._file is None:
             self._file = tempfile.TemporaryFile()
-        line = _encode_plan([plan.row, plan.tag, plan.action, plan.changes, plan.record,
+        record: Any = plan.record
+        if plan.action == "add" and "code" in record:
+            # a new column's record is kept as the JSON text its row will hold: apply writes
+            # it as it stands (no decoding, no encoding again)
+            try:
+                record = _encode_record(record)
+            except (TypeError, ValueError):
+                record = plan.record
+        line = _encode_plan([plan.row, plan.tag, plan.action, plan.changes, record,
                              plan.level, plan.grid, plan.location]).encode("utf-8") + b"\n"
         # reads use pread, so the file's position stays at its end: append where it is
         self._offsets.append(self._end)
@@ -116,7 +133,7 @@ class PlanSpool(Sequence[SchedulePlan]):
         self._file.flush()
         end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
         start = self._offsets[i]
-        return SchedulePlan(*json.loads(self._pread(end - start, start)))
+        return _plan_of(json.loads(self._pread(end - start, start)))
 
     def _pread(self, n: int, at: int) -> bytes:
         """``n`` bytes from ``at``, leaving the file's position (the end) as it is."""
@@ -137,6 +154,17 @@ class PlanSpool(Sequence[SchedulePlan]):
         return self._read(i % n)
 
     def __iter__(self) -> Iterator[SchedulePlan]:
+        return map(_plan_of, self.raw())
+
+    def raw(self) -> Iterator[list[Any]]:
+        """The plans as kept: ``[row, tag, action, changes, record, level, grid, location]``,
+        a new column's record (with its code) as its JSON text.
+
+        Example:
+            >>> sp = PlanSpool(); sp.append(SchedulePlan(2, "A/1", "add", [], {"tag": "A/1"}))
+            >>> next(sp.raw())[4]
+            {'tag': 'A/1'}
+        """
         if self._file is None:
             return
         self._file.flush()
@@ -149,7 +177,7 @@ class PlanSpool(Sequence[SchedulePlan]):
             lines = (rest + block).split(b"\n")
             rest = lines.pop()
             for line in lines:
-                yield SchedulePlan(*json.loads(line))
+                yield json.loads(line)
 
     def __eq__(self, other: object) -> bool:
         return isinstance(other, Sequence) and list(self) == list(other)
@@ -702,11 +730,18 @@ def _write(store: "Store", preview: SchedulePreview,
         found = store.add_site(preview.site, code=code, unit_system=units, **cs)
     site_code = found.code
 
-    def added() -> Iterator[tuple[dict[str, Any], str | None, str | None, str | None]]:
-        for p in preview.plans:
-            if p.action == "add":
-                p.record.setdefault("code", site_code)
-                yield p.record, p.level, p.grid, p.location
+    def added() -> Iterator[tuple[Any, str | None, str | None, str | None]]:
+        plans = preview.plans
+        for _row, tag, action, _c, record, level, grid, location in (
+                plans.raw() if isinstance(plans, PlanSpool)
+                else ([p.row, p.tag, p.action, p.changes, p.record, p.level, p.grid,
+                       p.location] for p in plans)):
+            if action == "add":
+                if type(record) is str:  # kept as its text, code and all
+                    yield (tag, record), level, grid, location
+                    continue
+                record.setdefault("code", site_code)
+                yield record, level, grid, location
 
     # new columns in batches (each record was read whole by the preview); updates one by one
     store._add_columns(found.id, added())
