@@ -82,6 +82,15 @@ _encode_plan = json.JSONEncoder(ensure_ascii=False).encode
 _encode_record = json.JSONEncoder(ensure_ascii=False, allow_nan=False).encode
 
 
+def _items(line: bytes) -> list[Any]:
+    """A spool's line as kept: its items, a record kept as text in place."""
+    head, tab, text = line.partition(b"\t")
+    items = json.loads(head)
+    if tab:
+        items[4] = text.rstrip(b"\n").decode("utf-8")
+    return items
+
+
 def _plan_of(items: list[Any]) -> SchedulePlan:
     """A plan from a spool's line (its record decoded when kept as text)."""
     if type(items[4]) is str:
@@ -110,16 +119,18 @@ class PlanSpool(Sequence[SchedulePlan]):
         """Keep one plan (written at the end of the file)."""
         if self._file is None:
             self._file = tempfile.TemporaryFile()
-        record: Any = plan.record
-        if plan.action == "add" and "code" in record:
-            # a new column's record is kept as the JSON text its row will hold: apply writes
-            # it as it stands (no decoding, no encoding again)
+        text = None
+        if plan.action == "add" and "code" in plan.record:
+            # a new column's record is kept as the JSON text its row will hold, after a tab
+            # (JSON text holds none): apply writes it as it stands, decoded and encoded never
             try:
-                record = _encode_record(record)
+                text = _encode_record(plan.record)
             except (TypeError, ValueError):
-                record = plan.record
-        line = _encode_plan([plan.row, plan.tag, plan.action, plan.changes, record,
-                             plan.level, plan.grid, plan.location]).encode("utf-8") + b"\n"
+                text = None
+        head = _encode_plan([plan.row, plan.tag, plan.action, plan.changes,
+                             plan.record if text is None else None, plan.level, plan.grid,
+                             plan.location])
+        line = (head if text is None else f"{head}\t{text}").encode("utf-8") + b"\n"
         # reads use pread, so the file's position stays at its end: append where it is
         self._offsets.append(self._end)
         self._file.write(line)
@@ -133,7 +144,7 @@ class PlanSpool(Sequence[SchedulePlan]):
         self._file.flush()
         end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
         start = self._offsets[i]
-        return _plan_of(json.loads(self._pread(end - start, start)))
+        return _plan_of(_items(self._pread(end - start, start)))
 
     def _pread(self, n: int, at: int) -> bytes:
         """``n`` bytes from ``at``, leaving the file's position (the end) as it is."""
@@ -177,7 +188,7 @@ class PlanSpool(Sequence[SchedulePlan]):
             lines = (rest + block).split(b"\n")
             rest = lines.pop()
             for line in lines:
-                yield json.loads(line)
+                yield _items(line)
 
     def __eq__(self, other: object) -> bool:
         return isinstance(other, Sequence) and list(self) == list(other)
