@@ -378,7 +378,8 @@ def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]
                                       'close it, or write a quote inside a cell as ""')
             continue
         # a schedule cell is one line: a cell spanning lines is a quote left open
-        if any("\n" in c or "\r" in c for c in cells):
+        joined = "".join(cells)
+        if "\n" in joined or "\r" in joined:
             yield start, RowError(start, "row", "", "a quote opened on this row is not closed "
                                   f"before row {reader.line_num}", "close it on its own row")
             continue
@@ -457,13 +458,15 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
         if not cell or name in IGNORED:
             continue
         if name in ("length", "demand"):
-            typed = _with_unit(cell, units_by.get(name), name)
-            if (name, typed) not in _READ_OK:  # a schedule repeats its lengths and loads
+            unit = units_by.get(name)
+            typed = _READ_OK.get((name, cell, unit))
+            if typed is None:  # a schedule repeats its lengths and loads: each read once
+                typed = _with_unit(cell, unit, name)
                 if name == "length":
                     units.parse_length(typed, name)
                 else:
                     units.parse_quantity(typed, "force", name)
-                _remember(_READ_OK, (name, typed), True)
+                _remember(_READ_OK, (name, cell, unit), typed)
             out[name] = typed
         elif name in ("section", "material"):
             out[name] = _json_or_text(cell, name)
