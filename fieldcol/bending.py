@@ -214,7 +214,7 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
     res = check_beam_column(col.code, col.section, Fy, col.material.E, col.material.G, demand, axial,
                             span=dict(spans), Lc=dict(Lc), moments=src,
                             basis="asd" if col.basis == "asd" else "lrfd", gamma_M1=col.gamma_M1,
-                            end_ratio=end_ratio(col), sway_Pe=sway)
+                            end_ratio=end_ratio(col), sway_Pe=sway, member_length=col.length)
     trace.extend(res.trace)
     for w in res.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):

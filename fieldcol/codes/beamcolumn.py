@@ -2,6 +2,11 @@
 flexure, EN 1993-1-1 6.3.3 (6.61), (6.62) with the Annex B (method 2) interaction factors, and a
 first-yield check for the ``elastic`` reference.
 
+Under EN the section is classified under the actual N + M (Table 5.2: the web of an I by the
+plastic alpha for Class 1/2 and the elastic psi for Class 3, at every trial load of the capacity),
+Class 1-3 take A and W_pl / W_el, Class 4 Aeff and Weff (Table 6.7); chi_LT of an I follows 6.3.2.3
+with C1 and k_c from the end moments where those are the only moments (C1 = k_c = 1 otherwise).
+
 The moments on a column as it stands come from four sources, each with its own second-order
 treatment (N*mm, per axis):
 
@@ -37,8 +42,9 @@ from fieldcol.errors import InputError
 from fieldcol.sections._section import Section
 from fieldcol.trace import Trace
 
-from ._en_class import classify
+from ._en_class import classify, web_thresholds, web_under_bending
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
+from .en1993 import reduction_factor
 from ._inputs import prepare
 from ._result import CodeResult, Warning
 
@@ -98,7 +104,8 @@ def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
 def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
-                      sway_Pe: Mapping[str, Any] | None = None) -> BeamColumnResult:
+                      sway_Pe: Mapping[str, Any] | None = None, member_length: Any = None
+                      ) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -116,6 +123,8 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
             missing: 0 (one end moment, Cm = 0.6).
         sway_Pe: per axis, the buckling load the sway amplifier divides the column's force by (N);
             missing: the column's own (Pe,story = pi^2 EI / Lc^2).
+        member_length: the length (mm) the end moments act over, for the EN moment diagram between
+            twist restraints (psi of the worst segment, C1, k_c); missing: the twist length.
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -164,7 +173,7 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
     if code == "aisc360-22":
         return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, member_length)
     if code == "elastic":
         return _elastic(sec, v, M, axial, shape, n, Pr_, design, t)
     raise InputError("code", code, "unknown code", "aisc360-22, en1993-1-1 or elastic")
@@ -261,55 +270,30 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway):
     return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
+def _trace_value(trace: Trace, symbol: str, shape: tuple, n: int) -> np.ndarray | None:
+    """The value of the last step named ``symbol`` in ``trace`` as an array of n, or None."""
+    for s in reversed(trace.steps):
+        if s.symbol == symbol:
+            return np.broadcast_to(np.asarray(s.value, dtype=float), shape).reshape(n)
+    return None
+
+
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, member_length):
     fy, E, G = v["Fy"], v["E"], v["G"]
+    A = sec["A"]
 
     def mode(name, attr):
         return np.broadcast_to(np.asarray(getattr(axial.modes[name], attr), dtype=float), shape).reshape(n)
 
     eps = np.sqrt(235.0 / fy)
-    cls, _ = classify(kind, sec, eps, Trace())
-    t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls, "",
-          "EN 1993-1-1 Table 5.2")
-    MRk, chi_LT = {}, {}
-    for ax in AXES:
-        Weff = en_effective_modulus(kind, ax, sec, eps, Trace()) if (cls == 4).any() else None
-        sub = Trace()
-        MRk[ax], chi_LT[ax] = en_moment(kind, ax, sec, cls, fy, E, G, v["Lc_twist"], sub, Weff)
-        t.steps += [s.__class__(f"{s.symbol}_{ax}", s.what, s.formula, s.value, s.unit, s.clause)
-                    for s in sub.steps if s.symbol in ("M_Rk", "chi_LT", "Mcr", "lb,LT")]
-    NRk = t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4)", mode("yield", "Pn"), "N",
-                "EN 1993-1-1 6.3.3")
-    chi_y = t.add("chi_y", "flexural buckling factor, strong axis", "Nb,strong / N_Rk",
-                  mode("flexural-strong", "Pn") / NRk, "", "EN 1993-1-1 6.3.1.2")
-    cz = mode("flexural-weak", "Pn") / NRk
-    if kind == "i":
-        cz = np.minimum(cz, mode("torsional", "Pn") / NRk)
-    chi_z = t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
-                  "min(Nb,weak, Nb,torsion) / N_Rk", cz, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
-    lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
+    comp = Trace()
+    cls_c, _ = classify(kind, sec, eps, comp)
+    cls_flange = _trace_value(comp, "class,flange", (n,), n)
+    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
+    has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
     Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
     if sway is not None:
         Ncr = {ax: sway[ax] for ax in AXES}
-    only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
-    Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
-                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
-                np.where(only_ends["strong"], np.maximum(0.6 - 0.4 * ratio["strong"], 0.4), 1.0), "",
-                f"{ANNEX_B} Table B.3")
-    Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
-                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
-                np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
-                f"{ANNEX_B} Table B.3")
-    Ny, Nz = chi_y * NRk / gamma, chi_z * NRk / gamma
-    My_Rd = t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1",
-                  chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")
-    Mz_Rd = t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", MRk["weak"] / gamma,
-                  "N*mm", f"{C633} (6.61), (6.62)")
-    c12 = cls <= 2
-    open_i = kind == "i"
-
-    used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
-    has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
 
     def M_Ed(N, ax):
         # only the sources this batch has: the bisection calls this some 130 times
@@ -325,7 +309,151 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
             out = out + np.where(M["sway"][ax] > 0, sway_amp * N * M["sway"][ax], 0.0)
         return out
 
-    def factors(N):
+    # Table 5.2 under the actual N and M: the web of an I bent about its strong axis takes the
+    # plastic alpha (Class 1, 2) and the elastic psi (Class 3); flanges, webs of hollow sections
+    # and weak-axis bending keep the class in compression (conservative). The class can only
+    # improve on the class in compression, and worsens as N grows with the moments in proportion.
+    refine = kind == "i" and has["strong"] and cls_flange is not None
+    if refine:
+        a1, a2, p3 = web_thresholds(sec["ct_web"], eps)
+        c_web = sec["ct_web"] * sec["tw"]
+        half_c = 0.5 * c_web / sec["Ix"]
+
+    def section_class(N):
+        # the same classes as web_under_bending, by the turned-round limits (three comparisons)
+        if not refine:
+            return cls_c
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Ms = M_Ed(N, "strong")
+            Ms = np.where(np.isfinite(Ms), Ms, 0.0)
+            bent = Ms > 0
+            alpha = np.where(bent, np.minimum(1.0, 0.5 * (1 + N / (c_web * sec["tw"] * fy))), 1.0)
+            s_n, s_m = N / A, Ms * half_c
+            psi = np.where(bent, (s_n - s_m) / np.maximum(s_n + s_m, 1e-300), 1.0)
+        cw = np.select([alpha <= a1, alpha <= a2, psi <= p3], [1, 2, 3], 4)
+        return np.maximum(cls_flange, cw)
+
+    if refine:
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Ms_d = M_Ed(N_Ed, "strong")
+            Ms_d = np.where(np.isfinite(Ms_d), Ms_d, 0.0)
+            cw_d, a_d, p_d = web_under_bending(sec["ct_web"], sec["tw"], fy, eps, N_Ed, Ms_d, A, sec["Ix"])
+        cls_d = np.maximum(cls_flange, cw_d)
+    else:
+        cls_d = cls_c
+    if refine:
+        t.add("alpha,web", "compressed share of the web, plastic distribution under N_Ed and M_y,Ed",
+              "(1 + N_Ed / (c tw fy)) / 2 <= 1 (the web carries N)", a_d, "", "EN 1993-1-1 Table 5.2 (sheet 1)")
+        t.add("psi,web", "end-stress ratio of the web, elastic distribution under N_Ed and M_y,Ed",
+              "(N/A - M c/(2 Iy)) / (N/A + M c/(2 Iy))", p_d, "", "EN 1993-1-1 Table 5.2 (sheet 1)")
+        t.add("class", "section class under N + M (web: alpha for Class 1, 2 by 396/456 eps/(13 alpha - 1), "
+              "psi for Class 3 by 42 eps/(0.67 + 0.33 psi); flanges in compression)",
+              "worst of the parts", cls_d, "", "EN 1993-1-1 Table 5.2")
+    else:
+        t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls_c, "",
+              "EN 1993-1-1 Table 5.2")
+
+    # moment resistances for each class the section can take under N + M (<= its class in compression)
+    psi = np.full(n, np.nan)
+    only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
+    if kind == "i":
+        # the worst segment between twist restraints lies at the larger end moment:
+        # psi_seg = 1 - (1 - psi)(L_T / L) for a linear diagram over the member length L
+        L = v["Lc_twist"] if member_length is None else np.broadcast_to(
+            np.asarray(member_length, dtype=float), (n,))
+        share = np.minimum(1.0, v["Lc_twist"] / L)
+        psi = np.where(only_ends["strong"], 1.0 - (1.0 - (-ratio["strong"])) * share, np.nan)
+    candidates = [1, 3] + ([4] if (cls_c == 4).any() else [])
+    MRk = {ax: {} for ax in AXES}
+    chiLT = {ax: {} for ax in AXES}
+    shown: dict[str, Trace] = {}
+    for ax in AXES:
+        Weff = en_effective_modulus(kind, ax, sec, eps, Trace()) if 4 in candidates else None
+        for c in candidates:
+            sub = Trace()
+            MRk[ax][c], chiLT[ax][c] = en_moment(kind, ax, sec, np.full(n, c), fy, E, G, v["Lc_twist"], sub,
+                                                 Weff, rolled_case=kind == "i", psi=psi)
+            shown[f"{ax},{c}"] = sub
+
+    def pick(d, cls):
+        out = d[1]
+        for c in (3, 4):
+            if c in d:
+                out = np.where(cls == c, d[c], out)
+        return out
+
+    # trace at the demand: C1, Mcr, k_c do not depend on the class; W, lb,LT, chi_LT and f do
+    by_class = ("M_Rk", "lb,LT", "chi_LT,0", "f_mod", "chi_LT")
+    for ax in AXES:
+        for s in shown[f"{ax},1"].steps:
+            if s.symbol not in ("M_Rk", "C1", "Mcr", "lb,LT", "curve,LT", "chi_LT,0", "k_c", "f_mod", "chi_LT"):
+                continue
+            value = s.value
+            if s.symbol in by_class:
+                value = pick({c: next(x.value for x in shown[f"{ax},{c}"].steps if x.symbol == s.symbol)
+                              for c in candidates}, cls_d)
+            t.steps.append(s.__class__(f"{s.symbol}_{ax}", s.what, s.formula, value, s.unit, s.clause))
+
+    # axial terms: gross area for Class 1-3 under N + M, the effective area (pure compression) for Class 4
+    NRk4 = mode("yield", "Pn")
+    NRkg = fy * A
+    lb4 = {"strong": mode("flexural-strong", "slenderness"), "weak": mode("flexural-weak", "slenderness"),
+           "torsion": mode("torsional", "slenderness")}
+    chi4 = {"strong": mode("flexural-strong", "Pn") / NRk4, "weak": mode("flexural-weak", "Pn") / NRk4,
+            "torsion": mode("torsional", "Pn") / NRk4}
+    lbg, chig = dict(lb4), dict(chi4)
+    if (cls_c == 4).any():
+        for tag, name in (("strong", "flexural-strong"), ("weak", "flexural-weak"), ("torsion", "torsional")):
+            alpha = _trace_value(axial.trace, f"alpha,{tag}", shape, n)
+            if alpha is None:   # no imperfection factor to redo chi with: keep the effective area's
+                continue
+            with np.errstate(divide="ignore", invalid="ignore"):
+                lb = np.sqrt(NRkg / mode(name, "Pe"))
+            lbg[tag] = np.where(cls_c == 4, lb, lb4[tag])
+            chig[tag] = np.where(cls_c == 4, reduction_factor(lb, alpha), chi4[tag])
+
+    def axial_terms(cls):
+        c4 = cls == 4
+        NRk = np.where(c4, NRk4, NRkg)
+        chi_y = np.where(c4, chi4["strong"], chig["strong"])
+        cz4, czg = chi4["weak"], chig["weak"]
+        if kind == "i":
+            cz4, czg = np.minimum(cz4, chi4["torsion"]), np.minimum(czg, chig["torsion"])
+        chi_z = np.where(c4, cz4, czg)
+        lb_y = np.where(c4, lb4["strong"], lbg["strong"])
+        lb_z = np.where(c4, lb4["weak"], lbg["weak"])
+        return NRk, chi_y, chi_z, lb_y, lb_z
+
+    NRk, chi_y, chi_z, _, _ = axial_terms(cls_d)
+    t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4 under N + M)", NRk, "N",
+          "EN 1993-1-1 6.3.3, Table 6.7")
+    t.add("chi_y", "flexural buckling factor, strong axis", "6.3.1.2 with A (Aeff for Class 4)", chi_y, "",
+          "EN 1993-1-1 6.3.1.2")
+    t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
+          "min(chi_z, chi_T), A (Aeff for Class 4)", chi_z, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
+    Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["strong"], np.maximum(0.6 - 0.4 * ratio["strong"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
+    Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
+
+    def resist(cls):
+        My = pick({c: chiLT["strong"][c] * MRk["strong"][c] for c in candidates}, cls) / gamma
+        Mz = pick({c: MRk["weak"][c] for c in candidates}, cls) / gamma
+        return My, Mz
+
+    My_Rd, Mz_Rd = resist(cls_d)
+    t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1", My_Rd, "N*mm",
+          f"{C633} (6.61), (6.62)")
+    t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", Mz_Rd, "N*mm",
+          f"{C633} (6.61), (6.62)")
+    open_i = kind == "i"
+
+    def factors(N, cls, Ny, Nz, lb_y, lb_z):
+        c12 = cls <= 2
         ny, nz = N / Ny, N / Nz
         zero = np.zeros(N.shape)
         kyy = kzy = kyz = kzz = zero
@@ -347,40 +475,66 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
             kyz = np.where(c12, 0.6 * kzz, kzz)
         return kyy, kyz, kzy, kzz
 
+    def terms(cls):
+        NRk, chi_y, chi_z, lb_y, lb_z = axial_terms(cls)
+        return (cls, chi_y * NRk / gamma, chi_z * NRk / gamma, lb_y, lb_z, *resist(cls))
+
+    # the bracket: the pure-compression resistance, or the gross one where N + M leaves Class 4
+    gross = np.minimum(chig["strong"], np.minimum(chig["weak"], chig["torsion"]) if open_i else chig["weak"])
+    top = np.where(cls_c == 4, np.maximum(design, gross * NRkg / gamma), design)
+    fixed = split = None
+    if not refine:
+        fixed = terms(cls_c)
+    elif not any(used[("sway", ax)] for ax in AXES):
+        # every moment grows in proportion to N (given, end moments, N e): psi does not change with N
+        # and alpha rises with it, so the web is Class 1/2 up to N2 (alpha = a2) and takes the class
+        # psi gives above; one class over the whole bracket is computed once
+        lo_c, hi_c = section_class(top * 1e-9), section_class(top)
+        if np.array_equal(lo_c, hi_c):
+            fixed = terms(hi_c)
+        else:
+            split = ((2 * a2 - 1) * c_web * sec["tw"] * fy, terms(lo_c), terms(hi_c))
+
     def both(N):
-        kyy, kyz, kzy, kzz = factors(N)
+        if fixed is not None:
+            T = fixed
+        elif split is not None:
+            low = N <= split[0]
+            T = tuple(np.where(low, a, b) for a, b in zip(split[1], split[2]))
+        else:
+            T = terms(section_class(N))
+        cls, Ny, Nz, lb_y, lb_z, My, Mz = T
+        kyy, kyz, kzy, kzz = factors(N, cls, Ny, Nz, lb_y, lb_z)
         a, b = N / Ny, N / Nz
         if has["strong"]:
-            my = M_Ed(N, "strong") / My_Rd
+            my = M_Ed(N, "strong") / My
             a, b = a + kyy * my, b + kzy * my
         if has["weak"]:
-            mz = M_Ed(N, "weak") / Mz_Rd
+            mz = M_Ed(N, "weak") / Mz
             a, b = a + kyz * mz, b + kzz * mz
-        return a, b
+        return a, b, (kyy, kyz, kzy, kzz)
 
     def g(N):
-        a, b = both(N)
+        a, b, _ = both(N)
         return np.maximum(a, b), np.where(a >= b, "6.61", "6.62")
 
     t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
           "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
     nan = np.isnan(My_Rd) | np.isnan(Mz_Rd)
-    cap, ratio, eq = _solve(g, N_Ed, design, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
-                            "(bisection)", f"{C633} (6.61), (6.62)")
+    cap, ratio_, eq = _solve(g, N_Ed, top, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
+                             "(bisection)", f"{C633} (6.61), (6.62)")
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         Mr = {ax: t.add(f"M_Ed_{ax}", f"design moment, {ax} axis (first order; sway: 1/(1 - N/Ncr))",
                         "given + end + N e + N D/(1 - N/Ncr)", M_Ed(N_Ed, ax), "N*mm", C633) for ax in AXES}
-        kyy, kyz, kzy, kzz = factors(N_Ed)
-        for name, k, ax in (("kyy", kyy, "strong"), ("kyz", kyz, "weak"), ("kzy", kzy, "strong"),
-                            ("kzz", kzz, "weak")):
+        u61, u62, ks = both(N_Ed)
+        for name, k, ax in zip(("kyy", "kyz", "kzy", "kzz"), ks, ("strong", "weak", "strong", "weak")):
             if has[ax]:    # a factor on a moment the column does not carry is not shown
                 t.add(name, f"interaction factor {name} at N_Ed", "Annex B", k, "", ANNEX_B)
-        u61, u62 = both(N_Ed)
     t.add("(6.61)", "interaction, strong-axis buckling",
           "N/(chi_y N_Rk/gM1) + kyy My/(chi_LT My,Rk/gM1) + kyz Mz/(Mz,Rk/gM1)", u61, "", f"{C633} (6.61)")
     t.add("(6.62)", "interaction, weak-axis buckling",
           "N/(chi_z N_Rk/gM1) + kzy My/(chi_LT My,Rk/gM1) + kzz Mz/(Mz,Rk/gM1)", u62, "", f"{C633} (6.62)")
-    t.add("ratio", "interaction ratio", "max((6.61), (6.62))", ratio, "", C633)
+    t.add("ratio", "interaction ratio", "max((6.61), (6.62))", ratio_, "", C633)
     warnings = []
     if (np.asarray(M["given"]["strong"] + M["given"]["weak"]) > 0).any():
         warnings.append(Warning("given-moments-amplified", "moments given with second-order effects are "
@@ -389,7 +543,7 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway):
     if nan.any():
         warnings.append(Warning("flexure-not-covered", "no moment resistance for this section under "
                                 "EN 1993-1-1 (a Class 4 circular hollow section): no beam-column strength", nan))
-    return BeamColumnResult(ratio, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
+    return BeamColumnResult(ratio_, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
 
 
 def _elastic(sec, v, M, axial, shape, n, Pr, design, t):

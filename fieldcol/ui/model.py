@@ -671,27 +671,32 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
                 # the entry makes a checkable column uncheckable: say which value clashes
                 raise InputError(e.field, e.text, f"{e.reason} (with "
                                  f"{EDIT_FIELDS[name][0].lower()} {typed})", e.hint) from None
-        if name == "length":
-            kept["measurement"] = store.add_measurement(
-                column_id, "length", typed, kind="length", taken_by=person, visit_id=visit_id,
-                note="typed on the column screen").id
-        else:
-            kept["record"] = copy.deepcopy(store.get_column(column_id).record)
-            store.update_column(column_id, record=stored)
-        if result is not None:
-            store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
+        # the entry and its check in one transaction: saved together (one write to disk,
+        # not two), or neither
+        with store.transaction():
+            if name == "length":
+                kept["measurement"] = store.add_measurement(
+                    column_id, "length", typed, kind="length", taken_by=person,
+                    visit_id=visit_id, note="typed on the column screen").id
+            else:
+                kept["record"] = copy.deepcopy(store.get_column(column_id).record)
+                store.update_column(column_id, record=stored)
+            if result is not None:
+                store.save_check(column_id, result.to_dict(),
+                                 record=store.current_record(column_id))
         return column_detail(store, column_id)
 
     def undo(store: "Store") -> None:
-        if "measurement" in kept:
-            store.delete("measurements", kept["measurement"])
-        elif "record" in kept:
-            store.update_column(column_id, record=kept["record"])
-        rec = store.current_record(column_id)
-        try:
-            store.save_check(column_id, assess(rec).to_dict(), record=rec)
-        except InputError:
-            pass  # the record as it was could not be checked either: the undo still stands
+        with store.transaction():
+            if "measurement" in kept:
+                store.delete("measurements", kept["measurement"])
+            elif "record" in kept:
+                store.update_column(column_id, record=kept["record"])
+            rec = store.current_record(column_id)
+            try:
+                store.save_check(column_id, assess(rec).to_dict(), record=rec)
+            except InputError:
+                pass  # the record as it was could not be checked either: the undo stands
 
     return do, undo
 
