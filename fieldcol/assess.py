@@ -18,7 +18,7 @@ from fieldcol import CAUTION, __version__
 from fieldcol.codes import CodeResult, check_aisc360
 from fieldcol.demand import combine
 from fieldcol.errors import InputError
-from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record
+from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record, record_and_text
 from fieldcol.stability import Brace, brace_requirement, effective_length
 from fieldcol.trace import Step, Trace
 from fieldcol.units import format_length, format_quantity
@@ -257,7 +257,7 @@ def assess(record: Mapping[str, Any]) -> Assessment:
         >>> a.governing_mode
         'flexural-weak'
     """
-    col = parse_record(record)
+    col, text = record_and_text(record)
     trace = Trace()
     warnings: list[dict[str, str]] = []
     sec, mat = col.section, col.material
@@ -386,7 +386,8 @@ def assess(record: Mapping[str, Any]) -> Assessment:
                       "knowledge factor of existing-building assessment practice")
     _condition_warnings(col, warnings)
     return Assessment(col, result, lengths, demand, demand_name, utilization, warnings, trace,
-                      json.loads(json.dumps(record)), bow, beam, band, kappa, spans, sources)
+                      json.loads(json.dumps(record) if text is None else text), bow, beam, band,
+                      kappa, spans, sources)
 
 
 _MODULI_CLAUSE = {"aisc360-22": "AISC 360-22 Symbols (E, G)", "en1993-1-1": "EN 1993-1-1 3.2.6"}
@@ -526,14 +527,26 @@ def _axis_length(col: ColumnInput, ax: str, spec: AxisInput,
                   "mm", "elastic stability")
         return AxisLength(float(res.K) * col.length, float(res.K), col.length, "analysis", idx,
                           (np.asarray(res.z), np.asarray(res.shape)))
-    sub = Trace()
-    eff = effective_length(col.length, spec.bottom, spec.top, braces, col.k_basis, fld,
-                           assume_rigid=True, trace=sub)
-    for st in sub.steps:
-        trace.steps.append(Step(f"{st.symbol}_{ax}", f"{st.what}, {ax} axis", st.formula,
-                                st.value, st.unit, st.clause))
-    seg = max(eff.segments, key=lambda s: s.Lc)
-    return AxisLength(eff.Lc, eff.K, seg.length, col.k_basis, idx)
+    key = (col.length, spec.bottom, spec.top, tuple(braces), col.k_basis, ax)
+    known = _TABLE_LENGTHS.get(key)
+    if known is None:
+        sub = Trace()
+        eff = effective_length(col.length, spec.bottom, spec.top, braces, col.k_basis, fld,
+                               assume_rigid=True, trace=sub)
+        steps = tuple(Step(f"{st.symbol}_{ax}", f"{st.what}, {ax} axis", st.formula, st.value,
+                           st.unit, st.clause) for st in sub.steps)
+        known = (eff.Lc, eff.K, max(eff.segments, key=lambda s: s.Lc).length, steps)
+        if len(_TABLE_LENGTHS) >= 1024:
+            _TABLE_LENGTHS.clear()
+        _TABLE_LENGTHS[key] = known
+    trace.steps.extend(known[3])
+    return AxisLength(known[0], known[1], known[2], col.k_basis, idx)
+
+
+#: a table effective length and its steps (frozen: shared) by length, ends, rigid braces,
+#: basis and axis: the same column checked again, or its twin on the next floor, reads the
+#: tables once
+_TABLE_LENGTHS: dict[tuple, tuple[float, float, float, tuple[Step, ...]]] = {}
 
 
 @dataclass(frozen=True)

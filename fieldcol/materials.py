@@ -147,7 +147,7 @@ class Material:
         return self._at(t_mm, 2, field)
 
     def _at(self, t_mm: float | np.ndarray, col: int, field: str) -> float | np.ndarray:
-        if type(t_mm) is float and 0.0 < t_mm < math.inf:
+        if (type(t_mm) is float or type(t_mm) is np.float64) and 0.0 < t_mm < math.inf:
             # one thickness: the band by bisection, as searchsorted(side="left") finds it
             constant = self.Fy if col == 1 else self.Fu
             if not self.bands or (col == 1 and self.tested):

@@ -7,6 +7,7 @@ A record is what an engineer recorded for one column. Values with units are stri
 
 from __future__ import annotations
 
+import json
 import math
 import re
 from collections.abc import Mapping
@@ -194,6 +195,64 @@ class LossBand:
 
 
 def parse_record(record: Mapping[str, Any]) -> ColumnInput:
+    """Read a column record into a ``ColumnInput`` (see ``_read_record``).
+
+    A record of plain JSON read before (the same text) gives the same ``ColumnInput`` again,
+    read once: the app checks a column again after each edit elsewhere on it, a report and a
+    schedule's rows read the same records over. ``ColumnInput`` is frozen, so it is shared.
+
+    Example:
+        >>> c = parse_record({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                   "length": "30 ft"})
+        >>> round(c.length, 1), c.code, c.k_basis
+        (9144.0, 'aisc360-22', 'recommended')
+    """
+    return record_and_text(record)[0]
+
+
+def record_and_text(record: Mapping[str, Any]) -> tuple[ColumnInput, str | None]:
+    """``parse_record`` and the record's JSON text (None for a record that is not plain JSON:
+    only dicts with text keys, lists, texts, numbers, booleans and nulls).
+
+    Example:
+        >>> record_and_text({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                  "length": "30 ft"})[1][:13]
+        '{"tag": "C1",'
+    """
+    text = None
+    if _plain(record):
+        try:
+            text = json.dumps(record)
+        except (TypeError, ValueError):
+            text = None
+    if text is not None:
+        hit = _READ.get(text)
+        if hit is not None:
+            return hit, text
+    col = _read_record(record)
+    if text is not None:
+        if len(_READ) >= 256:
+            _READ.clear()
+        _READ[text] = col
+    return col, text
+
+
+#: records read, by their JSON text (bounded)
+_READ: dict[str, ColumnInput] = {}
+
+
+def _plain(value: Any) -> bool:
+    """True for plain JSON values only: a tuple, a number type of its own or a key that is not
+    text could read otherwise than the JSON text it writes."""
+    kind = type(value)
+    if kind is dict:
+        return all(type(k) is str and _plain(x) for k, x in value.items())
+    if kind is list:
+        return all(map(_plain, value))
+    return kind is str or kind is float or kind is int or kind is bool or value is None
+
+
+def _read_record(record: Mapping[str, Any]) -> ColumnInput:
     """Read a column record into a ``ColumnInput``.
 
     Args:
@@ -521,6 +580,8 @@ def parse_material(spec: Any, fld: str = "material", *, shape: str | None = None
 # dimensional value needs one; only zero may stand alone.
 _BARE = re.compile(r"^\s*[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?(\s*-?\s*\d+\s*/\s*\d+)?\s*$"
                    r"|^\s*\d+\s*/\s*\d+\s*$")
+#: texts seen to carry more than a bare number (bounded)
+_WITH_UNIT: set[str] = set()
 _EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3700 kN",
              "moment": "120 kip*ft or 163 kN*m",
              "stress": "50 ksi or 345 MPa", "area": "0.2 in2 or 130 mm2",
@@ -529,10 +590,16 @@ _EXAMPLES = {"length": "30 ft, 12'-6\", 9.1 m or 150 mm", "force": "840 kip or 3
 
 
 def _unit_required(text: Any, kind: str, fld: str) -> None:
+    if type(text) is str and text in _WITH_UNIT:  # a record's texts repeat: matched once
+        return
     if isinstance(text, bool):
         return
     bare = isinstance(text, (int, float)) or (isinstance(text, str) and _BARE.match(text))
     if not bare:
+        if type(text) is str:
+            if len(_WITH_UNIT) >= 4096:
+                _WITH_UNIT.clear()
+            _WITH_UNIT.add(text)
         return
     try:
         if float(text) == 0:

@@ -148,3 +148,25 @@ def test_export_then_reimport_changes_nothing(store: Store, tmp_path: Path):
     with pytest.raises(InputError) as e:
         export_csv(store, "Nowhere", out)
     assert e.value.field == "site"
+
+
+def test_imported_columns_travel_and_later_edits_are_still_logged(store: Store, tmp_path: Path):
+    # a schedule's new columns are logged in bulk (one operation a column, its insert
+    # trigger set aside meanwhile): another store merging the log shows the same columns,
+    # and edits after the import are logged as ever
+    other = store.add_site("Annex", code="aisc360-22", unit_system="us")
+    store.add_column(other.id, {"tag": "A/1-L1"})  # the same tag on another site is no clash
+    apply_schedule(store, "Wool Exchange", _write(tmp_path, GOOD))
+    site = store.find_site("Wool Exchange")
+    ids = {c.id for c in store.list_columns(site.id)}
+    mine = [o for o in store.ops_after(0, 1000) if o.tbl == "columns" and o.row_id in ids]
+    assert len(mine) == 3 and {o.field for o in mine} == {"*"}
+    assert store.conflicts() == []
+    n = store.count_ops()
+    store.update_column(store.find_column(site.id, "A/1-L1").id, grid="C/9")
+    store.add_column(site.id, {"tag": "C/9-L1"})
+    assert store.count_ops() == n + 2
+    with Store(tmp_path / "replica.db") as replica:
+        replica.apply_ops(store.ops_after(0, 1000), source="bundle")
+        got = {(c.tag, c.grid) for c in replica.list_columns(replica.find_site("Wool Exchange").id)}
+    assert got == {("A/1-L1", "C/9"), ("A/2-L1", "A/2"), ("B/1-L1", "B/1"), ("C/9-L1", None)}

@@ -9,8 +9,14 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 from typing import Any, Sequence
+
+# Before numpy is first imported: its BLAS starts a thread per core as it loads, which costs a
+# command such as ``check`` more than its whole calculation (arrays of one column, no matrix
+# work); a count the user set stays as set.
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 from fieldcol import CAUTION, __version__
 from fieldcol.errors import InputError

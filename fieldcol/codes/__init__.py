@@ -22,8 +22,7 @@ Example:
     ['flexural-weak', 'flexural-strong']
 """
 
-import importlib
-from typing import Any
+from fieldcol._lazy import lazy_names
 
 _WHERE = {
     'ColumnCurve': '._curve',
@@ -45,17 +44,5 @@ _WHERE = {
 __all__ = ["MODES", "BowResult", "CodeResult", "ColumnCurve", "column_curve", "check_bow", "ModeResult", "Warning", "check_aisc360", "check_elastic",
            "check_en1993", "critical_stress", "buckling_curves", "reduction_factor"]
 
-
-def __getattr__(name: str) -> Any:
-    # each part is imported when first asked for: a command that checks one column does not
-    # pay for the modules it never runs (the command line starts faster)
-    module = _WHERE.get(name)
-    if module is None:
-        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-    value = getattr(importlib.import_module(module, __name__), name)
-    globals()[name] = value
-    return value
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_WHERE))
+# each name is imported from its module when first asked for (fieldcol._lazy)
+__getattr__, __dir__ = lazy_names(__name__, _WHERE)

@@ -114,6 +114,10 @@ def prepare(section: Section, **values: Any) -> tuple[dict[str, np.ndarray], dic
         raise InputError("section.kind", section.kind, "unknown section kind", f"one of {', '.join(KINDS)}")
     sec = _section_arrays(section)
     vals = {name: positive(name, v) for name, v in values.items()}
+    if all(a.shape == () for a in vals.values()):
+        one = _one_column(sec)
+        if one is not None:  # one column of a catalogue section: its batch of one kept
+            return one, {k: v.reshape((1,)) for k, v in vals.items()}, ()
     shape: tuple = ()
     shapes = {a.shape for group in (sec, vals) for a in group.values()}
     if len(shapes) == 1:
@@ -133,6 +137,25 @@ def prepare(section: Section, **values: Any) -> tuple[dict[str, np.ndarray], dic
     sec = {k: _as_batch(v, shape, inner) for k, v in sec.items()}
     vals = {k: _as_batch(v, shape, inner) for k, v in vals.items()}
     return sec, vals, shape
+
+
+def _one_column(sec: dict[str, np.ndarray]) -> dict[str, np.ndarray] | None:
+    """The batch of one of a shared (read-only) section's checked arrays of one column, made
+    once; None for any other (its arrays may change, or hold several columns)."""
+    kept = _ONE.get(id(sec))
+    if kept is not None and kept[0] is sec:
+        return kept[1]
+    if not all(a.shape == () and not a.flags.writeable for a in sec.values()):
+        return None
+    if len(_ONE) >= 4096:
+        _ONE.clear()
+    one = {k: a.reshape((1,)) for k, a in sec.items()}
+    _ONE[id(sec)] = (sec, one)  # (the dict held, so its id is not taken by another)
+    return one
+
+
+#: id of a shared section's checked arrays -> (them, their batch of one)
+_ONE: dict[int, tuple[dict[str, np.ndarray], dict[str, np.ndarray]]] = {}
 
 
 def _as_batch(a: np.ndarray, shape: tuple, inner: tuple) -> np.ndarray:
@@ -191,9 +214,10 @@ def reshaped(result: CodeResult, shape: tuple) -> CodeResult:
     for w in result.warnings:
         w.mask = one(w.mask)
     for st in result.trace.steps:
-        v = st.value
+        d = st.__dict__
+        v = d["value"]
         if type(v) is np.ndarray and v.shape == (1,):
             # the steps were made by this check alone (nobody else holds them): set the value
             # in place rather than make each frozen step again
-            object.__setattr__(st, "value", v.reshape(shape))
+            d["value"] = v.reshape(shape)
     return result

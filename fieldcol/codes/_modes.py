@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from fieldcol.trace import Trace
@@ -82,11 +84,22 @@ def choose(modes: dict[str, ModeResult], trace: Trace, clause: str,
         (2.0, 'yield')
     """
     names = [n for n in _TIE_ORDER if n in modes and n not in exclude]
-    stack = np.stack([np.asarray(modes[n].Pn, dtype=float) for n in names])
-    nominal = stack.min(axis=0)
-    idx = np.argmin(np.where(np.isnan(stack), np.inf, stack), axis=0)
-    governing = np.asarray(names)[idx]
-    governing = np.where(np.isnan(nominal), "", governing)
+    pns = [modes[n].Pn for n in names]
+    vals = ([float(p[0]) for p in pns]
+            if all(type(p) is np.ndarray and p.shape == (1,) and p.dtype == np.float64
+                   for p in pns) else [])
+    i = min(range(len(vals)), key=vals.__getitem__) if vals else 0
+    if vals and not any(math.isnan(x) for x in vals) and vals[i] != 0.0:
+        # one column (a batch of one) with no NaN and no zero (whose sign numpy's min would
+        # pick): the same least value and first mode giving it, without stacking arrays
+        nominal = np.array([vals[i]])
+        governing = np.array([names[i]], dtype=np.asarray(names).dtype)
+    else:
+        stack = np.stack([np.asarray(p, dtype=float) for p in pns])
+        nominal = stack.min(axis=0)
+        idx = np.argmin(np.where(np.isnan(stack), np.inf, stack), axis=0)
+        governing = np.asarray(names)[idx]
+        governing = np.where(np.isnan(nominal), "", governing)
     trace.add("Pn", "nominal strength: least of the modes", "min(" + ", ".join(names) + ")",
               nominal, "N", clause)
     trace.add("mode", "governing mode", "argmin", governing, "", clause)

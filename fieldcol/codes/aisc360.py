@@ -90,7 +90,8 @@ def check_aisc360(section: Section, Fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_
             cls = np.asarray(e.lam > e.lam_r)
             t.add(f"slender,{e.name}", f"{e.name} slender for compression", "lam > lr", cls, "", B4)
             slender_any = slender_any | cls
-    if slender_any.any():
+    slender_some = bool(slender_any.any())  # asked once: each mode's strength reads it
+    if slender_some:
         warnings.append(Warning("slender-element",
                                 "slender element(s) for axial compression: effective area per "
                                 "AISC 360-22 E7", slender_any))
@@ -98,12 +99,12 @@ def check_aisc360(section: Section, Fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_
     def strength(Fcr: np.ndarray, tag: str) -> np.ndarray:
         if kind == "round":
             Ae = Ae_round
-        elif slender_any.any():
+        elif slender_some:
             Ae = effective_area(elems, A, Fy, Fcr, t, tag)
         else:
             Ae = A
-        clause = "AISC 360-22 E7 (E7-1)" if slender_any.any() else f"{E3} (E3-1)"
-        return t.add(f"Pn,{tag}", f"nominal strength, {tag}", "Fcr Ae" if slender_any.any() else "Fcr Ag",
+        clause = "AISC 360-22 E7 (E7-1)" if slender_some else f"{E3} (E3-1)"
+        return t.add(f"Pn,{tag}", f"nominal strength, {tag}", "Fcr Ae" if slender_some else "Fcr Ag",
                      Fcr * Ae, "N", clause)
 
     modes: dict[str, ModeResult] = {}

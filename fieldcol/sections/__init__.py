@@ -10,8 +10,7 @@ Public API:
     with_plates                            cover plates welded to both flanges of an I
 """
 
-import importlib
-from typing import Any
+from fieldcol._lazy import lazy_names
 
 _WHERE = {
     'catalogue_name': 'fieldcol.sections._catalogue',
@@ -33,17 +32,5 @@ __all__ = [
     "identify", "Match", "with_loss", "with_plates",
 ]
 
-
-def __getattr__(name: str) -> Any:
-    # each part is imported when first asked for: a command that checks one column does not
-    # pay for the modules it never runs (the command line starts faster)
-    module = _WHERE.get(name)
-    if module is None:
-        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-    value = getattr(importlib.import_module(module, __name__), name)
-    globals()[name] = value
-    return value
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_WHERE))
+# each name is imported from its module when first asked for (fieldcol._lazy)
+__getattr__, __dir__ = lazy_names(__name__, _WHERE)

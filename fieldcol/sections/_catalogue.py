@@ -63,21 +63,25 @@ def catalogue_arrays() -> CatalogueArrays:
         >>> "W14X90" in set(cat.names)
         True
     """
-    cols: dict[str, list] = {k: [] for k in CatalogueArrays.__dataclass_fields__}
+    fields = (("names", "designation"), ("family", "family"), ("kind", "kind"), ("d", "d"),
+              ("bf", "bf"), ("tf", "tf"), ("tw", "tw"), ("r", "r"), ("t", "tnom"),
+              ("tdes", "tdes"))
+    cols: dict[str, list] = {k: [] for k, _ in fields}
     for fname, scale in _FILES:
         with (DATA_DIR / fname).open(newline="", encoding="utf-8") as fh:
-            rows = csv.DictReader(line for line in fh if not line.startswith("#"))
-            for rec in rows:
-                cols["names"].append(rec["designation"])
-                cols["family"].append(rec["family"])
-                cols["kind"].append(rec["kind"])
-                for key, col in (("d", "d"), ("bf", "bf"), ("tf", "tf"), ("tw", "tw"), ("r", "r"),
-                                 ("t", "tnom"), ("tdes", "tdes")):
-                    cols[key].append(_num(rec[col], scale))
-    arrays = {k: np.array(v, dtype=object if k in ("names", "family", "kind") else float)
+            # read by position, a column at a time (the first check of a command line
+            # reads the whole catalogue: a dict per row cost most of it)
+            rows = list(csv.reader(line for line in fh if not line.startswith("#")))
+        at = {name: i for i, name in enumerate(rows[0])}
+        body = rows[1:]
+        for key, col in fields:
+            i = at[col]
+            if key in ("names", "family", "kind"):
+                cols[key] += [row[i] for row in body]
+            else:
+                cols[key] += [_num(row[i], scale) for row in body]
+    arrays = {k: np.array(v, dtype=str if k in ("names", "family", "kind") else float)
               for k, v in cols.items()}
-    for k in ("names", "family", "kind"):
-        arrays[k] = arrays[k].astype(str)
     return CatalogueArrays(**arrays)
 
 

@@ -10,8 +10,7 @@ Example:
     2.0
 """
 
-import importlib
-from typing import Any
+from fieldcol._lazy import lazy_names
 
 _WHERE = {
     'k_alignment': '._alignment',
@@ -44,17 +43,5 @@ __all__ = [
     "partial_end", "series", "twist_length",
 ]
 
-
-def __getattr__(name: str) -> Any:
-    # each part is imported when first asked for: a command that checks one column does not
-    # pay for the modules it never runs (the command line starts faster)
-    module = _WHERE.get(name)
-    if module is None:
-        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-    value = getattr(importlib.import_module(module, __name__), name)
-    globals()[name] = value
-    return value
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_WHERE))
+# each name is imported from its module when first asked for (fieldcol._lazy)
+__getattr__, __dir__ = lazy_names(__name__, _WHERE)

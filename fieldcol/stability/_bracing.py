@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from numpy.typing import ArrayLike
 
@@ -49,6 +51,13 @@ def brace_requirement(Pr: ArrayLike, Lbr: ArrayLike, basis: str = "lrfd", kind: 
         >>> [round(float(v), 3) for v in brace_requirement(1.0e6, 3000.0)]
         [10000.0, 3555.556]
     """
+    if type(Pr) is float and type(Lbr) is float and 0.0 <= Pr < math.inf and \
+            0.0 < Lbr < math.inf and basis in ("lrfd", "asd") and kind in ("point", "panel"):
+        # one brace of one column (every check asks this per brace): the same products in
+        # float64 as below, without making arrays of single numbers
+        force, coeff = (0.01, 8.0) if kind == "point" else (0.005, 2.0)
+        factor = 1.0 / _PHI if basis == "lrfd" else _OMEGA
+        return np.float64(force * Pr), np.float64(factor * coeff * Pr / Lbr)
     Pr = _arr(Pr, f"{field}.Pr", positive=False, what="the column's required axial strength, N")
     Lbr = _arr(Lbr, f"{field}.Lbr", positive=True, what="the unbraced length, mm")
     if basis not in ("lrfd", "asd"):

@@ -27,6 +27,7 @@ from fieldcol.store._migrations import (
     MIGRATION_NAMES, SCHEMA_VERSION, migrations, schema_version, unknown_migrations,
 )
 from fieldcol.store._archive import clean_staging
+from fieldcol.store._ids import new_id
 from fieldcol.store._paths import photos_dir, resolve_db_path
 from fieldcol.store._photos import clean_temporary
 from fieldcol.store._schema import DATA_TABLES, VISIT_TABLES
@@ -355,7 +356,7 @@ class StoreBase:
 
     def _book(self) -> dict[str, Any]:
         now = v.now_utc()
-        return {"id": str(uuid.uuid4()), "created_at": now, "updated_at": now,
+        return {"id": new_id(), "created_at": now, "updated_at": now,
                 "device_id": self.device_id, "deleted_at": None}
 
     def _insert(self, table: str, row: dict[str, Any], *, row_id: str | None = None) -> str:

@@ -2,15 +2,17 @@
 
 from __future__ import annotations
 
+import contextlib
 import copy
 import json
 import re
 import sqlite3
-import uuid
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+from fieldcol.store import _oplog
 from fieldcol.store import _validate as v
+from fieldcol.store._ids import new_id
 from fieldcol.store._records import (
     Column, ColumnRow, Measurement, RestraintChange, Retrofit, from_row,
 )
@@ -222,7 +224,8 @@ class ColumnsMixin(SitesMixin):
                      items: Iterable[tuple[dict[str, Any], str | None, str | None, str | None]]
                      ) -> int:
         """Create many columns at once (a schedule's new rows): ``items`` of (record, level,
-        grid, location), records already read through ``check_record_keys`` by the caller.
+        grid, location), records already read through ``check_record_keys`` by the caller; a
+        record is a JSON object, or (its tag, its JSON text) as a schedule's plan keeps it.
         Written with ``executemany`` in batches inside one transaction (the caller's, or one
         of its own); a tag taken on the site refuses the whole call. Returns how many.
 
@@ -233,15 +236,17 @@ class ColumnsMixin(SitesMixin):
         self._get("sites", site_id, field="site")
         levels: dict[str, str] = {}
         names = ("id", "created_at", "updated_at", "device_id", "deleted_at", "site_id", "tag",
-                 "record", "location", "grid", "level_id") + (
-                     ("created_by",) if self.person is not None else ())
+                 "record", "location", "grid", "level_id", "created_by")
         sql = (f"INSERT INTO columns ({', '.join(names)}) "
                f"VALUES ({', '.join('?' for _ in names)})")
         count = 0
-        with self._tx():
+        with self._tx(), self._unnoted():
             batch: list[tuple[Any, ...]] = []
             for record, level, grid, location in items:
-                tag = record.get("tag")
+                if type(record) is tuple:
+                    tag, text = record
+                else:
+                    tag, text = record.get("tag"), None
                 if not isinstance(tag, str) or not tag.strip():
                     raise InputError("record.tag", repr(tag), "the column tag is required",
                                      "e.g. B/4-L1")
@@ -251,21 +256,33 @@ class ColumnsMixin(SitesMixin):
                     level_id = levels.get(name)
                     if level_id is None:
                         level_id = levels[name] = self.level(site_id, name).id
+                if text is None:
+                    text = v.json_text(record, "record")
                 now = v.now_utc()
-                batch.append((str(uuid.uuid4()), now, now, self.device_id, None, site_id,
-                              tag.strip(), v.json_text(record, "record"),
+                batch.append((new_id(), now, now, self.device_id, None, site_id, tag.strip(), text,
                               v.text(location, "location", required=False),
-                              v.text(grid, "grid", required=False), level_id)
-                             + ((self.person,) if self.person is not None else ()))
+                              v.text(grid, "grid", required=False), level_id, self.person))
                 if len(batch) >= 1000:
-                    count += self._insert_many(sql, batch)
-            count += self._insert_many(sql, batch)
+                    count += self._insert_many(sql, names, batch)
+            count += self._insert_many(sql, names, batch)
         return count
 
-    def _insert_many(self, sql: str, batch: list[tuple[Any, ...]]) -> int:
-        """Insert a batch of rows and empty it; a unique key refused is the caller's error."""
+    def _unnoted(self) -> Any:
+        """The block's inserts into ``columns`` go unnoted by the trigger (``_insert_many``
+        logs them itself), or noted as usual in a store without an operations log."""
+        if self._sync_schema is None:
+            return contextlib.nullcontext()
+        return _oplog.unnoted_inserts(self.db.conn, "columns")
+
+    def _insert_many(self, sql: str, names: tuple[str, ...], batch: list[tuple[Any, ...]]) -> int:
+        """Insert a batch of new columns (ids first in each row) and empty it, with their
+        operations; a unique key refused is the caller's error."""
+        conn, schema = self.db.conn, self._sync_schema
         try:
-            self.db.conn.executemany(sql, batch)
+            conn.executemany(sql, batch)
+            if schema is not None:
+                _oplog.log_new_rows(conn, self.device_id, schema, "columns", list(names),
+                                    batch)
         except sqlite3.IntegrityError as e:
             if "columns_live_tag" in str(e) or "columns.site_id, columns.tag" in str(e):
                 raise InputError("tag", "", "a column with this tag already exists on the site",

@@ -28,13 +28,14 @@ import math
 import re
 import sqlite3
 import time
-import uuid
 from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
-from typing import Any, Iterable
+from contextlib import contextmanager
+from typing import Any, Iterable, Iterator
 
 from fieldcol.errors import InputError
 from fieldcol.store._gcpause import gc_paused
+from fieldcol.store._ids import new_id
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -288,8 +289,11 @@ def row_op(op_id: str, device_id: str, hlc: int, tbl: str, row_id: str,
         >>> row_op("o", "d", 5, "sites", "r", {"name": "A"}, 0).fields()
         {'name': '"A"'}
     """
-    return Op(op_id, device_id, hlc, tbl, row_id, ROW,
-              json.dumps(values, ensure_ascii=False, sort_keys=True), seen)
+    return Op(op_id, device_id, hlc, tbl, row_id, ROW, _encode_row(values), seen)
+
+
+# json.dumps(values, ensure_ascii=False, sort_keys=True) without making an encoder each call
+_encode_row = json.JSONEncoder(ensure_ascii=False, sort_keys=True).encode
 
 
 @dataclass(frozen=True)
@@ -398,7 +402,25 @@ class Schema:
             self.fks[t] = [(r[3], r[2]) for r in conn.execute(f"PRAGMA foreign_key_list({t})")]
             self.uniques[t] = self._uniques(conn, t, info)
         self.tables = self._ordered()
+        # columns whose values are stored exactly as given when text (or null) is given
+        self._text_cols = {t: frozenset(r[1] for r in conn.execute(f"PRAGMA table_info({t})")
+                                        if (r[2] or "").upper() == "TEXT")
+                           for t in self.columns}
         self._settable = {t: frozenset(c) - frozenset(DERIVED) for t, c in self.columns.items()}
+
+    def as_given(self, tbl: str, names: list[str], rows: list[tuple]) -> bool:
+        """True when rows inserted with these values read back the same: every field of the
+        table named, of type TEXT, each value a text or null (no default, no conversion).
+
+        Example:
+            >>> Schema(store.db.conn).as_given("levels", ["id"], [("x",)])
+            False
+        """
+        cols = self.columns[tbl]
+        if len(names) != len(cols) or set(names) != set(cols) or \
+                not self._text_cols[tbl].issuperset(names):
+            return False
+        return all(x is None or type(x) is str for r in rows for x in r)
 
     @staticmethod
     def _uniques(conn: sqlite3.Connection, t: str,
@@ -687,7 +709,7 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
         if not changed:
             continue
         n_fields += len(texts)
-        op = row_op(str(uuid.uuid4()), dev, at, tbl, row_id, changed, seen)
+        op = row_op(new_id(), dev, at, tbl, row_id, changed, seen)
         ops.append(op)
         if have:
             fields_rows += [(tbl, row_id, k, at, op.op_id, j, j) for k, j in texts.items()]
@@ -699,18 +721,8 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
                 for raw in {have.get(key, (None, None))[1], _dump(now.get(key))}:
                     if raw is not None:
                         touched[(tbl, key, scope, live, raw)] = None
-    _store_ops(conn, ops, "local", all_new=True)
-    conn.executemany(
-        "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-        "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
-        "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, mat = excluded.mat",
-        fields_rows)
-    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
-    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
-                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
-    conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
-                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
-                     "excluded.max_hlc)", rows_rows)
+    _write_logged(conn, [(o.op_id, o.device_id, o.hlc, o.tbl, o.row_id, o.field, o.value,
+                          o.seen, "local") for o in ops], fields_rows, new_rows, rows_rows)
     # a row's conflicts depend on its own operations only, all written just above
     _recheck_conflicts(conn, [(o.tbl, o.row_id) for o in ops])
     for args in _settle_plain(conn, touched):
@@ -718,10 +730,121 @@ def _flush_part(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: s
     return n_fields
 
 
-def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[tuple]:
+def _write_logged(conn: sqlite3.Connection, op_rows: list[tuple], fields_rows: list[tuple],
+                  new_rows: list[tuple], rows_rows: list[tuple]) -> None:
+    """Write local operations (``op_rows``: ``sync_ops`` rows, ids made here just now) with
+    their winners (``fields_rows`` over known ones, ``new_rows`` of rows first written) and
+    their rows' versions."""
+    conn.executemany(
+        "INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, source) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)", op_rows)
+    if fields_rows:
+        conn.executemany(
+            "INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+            "VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT(tbl, row_id, field) DO UPDATE SET "
+            "hlc = excluded.hlc, op_id = excluded.op_id, value = excluded.value, "
+            "mat = excluded.mat", fields_rows)
+    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
+    conn.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
+                     "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, "
+                     "excluded.max_hlc)", rows_rows)
+
+
+@contextmanager
+def unnoted_inserts(conn: sqlite3.Connection, tbl: str) -> Iterator[None]:
+    """Inside a transaction: rows inserted into ``tbl`` while the block runs are not noted
+    for ``flush``; the caller logs them (``log_new_rows``). The table's insert trigger is
+    dropped for the block and made again from its own text as it ends (both in the
+    transaction: a rollback keeps it as it was, and no other connection sees it missing).
+
+    Why: even when it only checks ``QUIET``, a trigger costs more per row than the insert
+    of a schedule's column itself.
+
+    Example:
+        >>> with store.transaction(), unnoted_inserts(store.db.conn, "levels"):
+        ...     pass
+    """
+    if not conn.in_transaction:
+        raise RuntimeError("unnoted_inserts needs the writing transaction")
+    name = f"sync_note_{tbl}_insert"
+    row = conn.execute("SELECT sql FROM sqlite_master WHERE type = 'trigger' AND name = ?",
+                       [name]).fetchone()
+    if row is None:
+        yield
+        return
+    conn.execute(f"DROP TRIGGER {name}")
+    try:
+        yield
+    finally:
+        conn.execute(row[0])
+
+
+def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: str,
+                 names: list[str], rows: list[tuple]) -> int:
+    """Log rows just inserted (``names``: their columns, the id first) under ids never used
+    before, written unnoted (``unnoted_inserts``): the operations ``flush``
+    would make of them (one a row, its non-null fields; winners kept compact), without
+    noting each row, reading it back and looking up what is known of it (nothing, for a new
+    id). Call inside the writing transaction; returns how many fields were logged.
+
+    Why: a schedule's new columns are a hundred thousand rows of one table; the note a
+    trigger writes per row and the lookups per row cost as much as the rows themselves.
+
+    Example:
+        >>> log_new_rows(store.db.conn, store.device_id, Schema(store.db.conn), "columns",
+        ...              ["id"], [])
+        0
+    """
+    if not rows:
+        return 0
+    if not schema.as_given(tbl, names, rows):  # stored otherwise than given: read them back
+        cur = conn.execute(f"SELECT * FROM {tbl} WHERE id IN ({_marks(rows)})",
+                           [r[0] for r in rows])
+        names = [d[0] for d in cur.description]
+        rows = cur.fetchall()
+    hlc = hlc_tick(conn)
+    at_id = names.index("id")
+    # row_op's text written straight (every value is a text here, as_given): its fields in
+    # sorted order, each key's text made once
+    order = [(i, f"{_encode_text(k)}: ") for k, i in sorted(
+        (k, i) for i, k in enumerate(names) if k not in DERIVED)]
+    keys = [(names.index(key), key, scope, live) for key, scope, live in schema.uniques[tbl]
+            if key in names]
+    settle: dict[tuple, None] = {}
+    count = 0
+    for part in _chunks(rows):
+        op_rows, new_rows, rows_rows, touched = [], [], [], {}
+        for r in part:
+            row_id, op_id = r[at_id], new_id()
+            fields = [k + _encode_text(r[i]) for i, k in order if r[i] is not None]
+            count += len(fields)
+            op_rows.append((op_id, device_id, hlc, tbl, row_id, ROW,
+                            "{" + ", ".join(fields) + "}", 0, "local"))
+            # its winners kept compact (as _compact_rows writes them), its keys spelt out
+            new_rows.append((tbl, row_id, ROW, hlc, op_id, None, None))
+            for i, key, scope, live in keys:
+                if r[i] is not None:
+                    raw = _encode_text(r[i])
+                    new_rows.append((tbl, row_id, key, hlc, op_id, raw, raw))
+                    touched[(tbl, key, scope, live, raw)] = None
+            rows_rows.append((tbl, row_id, hlc))
+        _write_logged(conn, op_rows, [], new_rows, rows_rows)
+        for args in _settle_plain(conn, touched, fresh=True):
+            settle[args] = None
+    for args in settle:
+        _settle_key(conn, *args)
+    return count
+
+
+def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None], *,
+                  fresh: bool = False) -> list[tuple]:
     """Settle at once the unique key values with one claim, held by a row that shows it
     already (no other row can show it: the table's unique index holds); returns the others,
     for ``_settle_key``. Found with a few statements per 500 values, not several per row.
+    ``fresh``: the values were claimed just now by new rows showing them as claimed (with
+    their winners' shown value written as claimed, and no conflicts): one claim is settled.
 
     A value settled here whose claims change later in the same flush (a row further on that
     takes or leaves it) is noted again there, and settled then with every claim it has."""
@@ -737,6 +860,9 @@ def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None]) -> list[
                 [tbl, *raws]):
             claims.setdefault(raw, []).append(row_id)
         single = {c[0]: raw for raw, c in claims.items() if len(c) == 1}
+        if fresh:
+            plain.update((tbl, key, scope, live, raw) for raw in single.values())
+            continue
         if not single:
             continue
         ids = list(single)

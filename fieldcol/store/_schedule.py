@@ -76,6 +76,28 @@ class SchedulePlan:
     location: str | None = None
 
 
+# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows;
+# a record as the store writes it (v.json_text)
+_encode_plan = json.JSONEncoder(ensure_ascii=False).encode
+_encode_record = json.JSONEncoder(ensure_ascii=False, allow_nan=False).encode
+
+
+def _items(line: bytes) -> list[Any]:
+    """A spool's line as kept: its items, a record kept as text in place."""
+    head, tab, text = line.partition(b"\t")
+    items = json.loads(head)
+    if tab:
+        items[4] = text.rstrip(b"\n").decode("utf-8")
+    return items
+
+
+def _plan_of(items: list[Any]) -> SchedulePlan:
+    """A plan from a spool's line (its record decoded when kept as text)."""
+    if type(items[4]) is str:
+        items[4] = json.loads(items[4])
+    return SchedulePlan(*items)
+
+
 class PlanSpool(Sequence[SchedulePlan]):
     """The plans of a preview, kept in a temporary file rather than in memory: a schedule of
     100,000 rows previews and applies in the same memory as one of a hundred. Reads back as a
@@ -97,9 +119,18 @@ class PlanSpool(Sequence[SchedulePlan]):
         """Keep one plan (written at the end of the file)."""
         if self._file is None:
             self._file = tempfile.TemporaryFile()
-        line = json.dumps([plan.row, plan.tag, plan.action, plan.changes, plan.record,
-                           plan.level, plan.grid, plan.location],
-                          ensure_ascii=False).encode("utf-8") + b"\n"
+        text = None
+        if plan.action == "add" and "code" in plan.record:
+            # a new column's record is kept as the JSON text its row will hold, after a tab
+            # (JSON text holds none): apply writes it as it stands, decoded and encoded never
+            try:
+                text = _encode_record(plan.record)
+            except (TypeError, ValueError):
+                text = None
+        head = _encode_plan([plan.row, plan.tag, plan.action, plan.changes,
+                             plan.record if text is None else None, plan.level, plan.grid,
+                             plan.location])
+        line = (head if text is None else f"{head}\t{text}").encode("utf-8") + b"\n"
         # reads use pread, so the file's position stays at its end: append where it is
         self._offsets.append(self._end)
         self._file.write(line)
@@ -113,7 +144,7 @@ class PlanSpool(Sequence[SchedulePlan]):
         self._file.flush()
         end = self._offsets[i + 1] if i + 1 < len(self._offsets) else self._end
         start = self._offsets[i]
-        return SchedulePlan(*json.loads(self._pread(end - start, start)))
+        return _plan_of(_items(self._pread(end - start, start)))
 
     def _pread(self, n: int, at: int) -> bytes:
         """``n`` bytes from ``at``, leaving the file's position (the end) as it is."""
@@ -134,6 +165,17 @@ class PlanSpool(Sequence[SchedulePlan]):
         return self._read(i % n)
 
     def __iter__(self) -> Iterator[SchedulePlan]:
+        return map(_plan_of, self.raw())
+
+    def raw(self) -> Iterator[list[Any]]:
+        """The plans as kept: ``[row, tag, action, changes, record, level, grid, location]``,
+        a new column's record (with its code) as its JSON text.
+
+        Example:
+            >>> sp = PlanSpool(); sp.append(SchedulePlan(2, "A/1", "add", [], {"tag": "A/1"}))
+            >>> next(sp.raw())[4]
+            {'tag': 'A/1'}
+        """
         if self._file is None:
             return
         self._file.flush()
@@ -146,7 +188,7 @@ class PlanSpool(Sequence[SchedulePlan]):
             lines = (rest + block).split(b"\n")
             rest = lines.pop()
             for line in lines:
-                yield SchedulePlan(*json.loads(line))
+                yield _items(line)
 
     def __eq__(self, other: object) -> bool:
         return isinstance(other, Sequence) and list(self) == list(other)
@@ -159,17 +201,43 @@ class PlanSpool(Sequence[SchedulePlan]):
 
 class _TagBook:
     """The tags met so far in a file and the row of each, kept in a private temporary SQLite
-    database (on disk, its page cache bounded): a file's rows never accumulate in memory."""
+    database (on disk, its page cache bounded): a file's rows never accumulate in memory.
+
+    A tag is asked of the database only when a filter of fixed size (a Bloom filter, 2**23
+    bits, two of them set per tag) says it may have been met: most tags are new, and those
+    are written a thousand at a time."""
+
+    _MASK = (1 << 23) - 1
 
     def __init__(self) -> None:
         self._db = sqlite3.connect("")  # "": a temporary database of this connection only
         self._db.execute("CREATE TABLE tags (tag TEXT PRIMARY KEY, row INTEGER) WITHOUT ROWID")
+        self._bits = bytearray(1 << 20)
+        self._pending: dict[str, int] = {}
 
     def first_row(self, tag: str, row: int) -> int | None:
         """The row that used ``tag`` first, or None (and ``row`` is noted as its first)."""
+        h = hash(tag)
+        a, b = h & self._MASK, (h >> 23) & self._MASK
+        bits = self._bits
+        if not (bits[a >> 3] >> (a & 7) & 1 and bits[b >> 3] >> (b & 7) & 1):
+            bits[a >> 3] |= 1 << (a & 7)
+            bits[b >> 3] |= 1 << (b & 7)
+            self._pending[tag] = row
+            if len(self._pending) >= 1000:
+                self._write()
+            return None
+        if tag in self._pending:
+            return self._pending[tag]
+        self._write()
         if self._db.execute("INSERT OR IGNORE INTO tags VALUES (?, ?)", (tag, row)).rowcount:
             return None
         return int(self._db.execute("SELECT row FROM tags WHERE tag = ?", (tag,)).fetchone()[0])
+
+    def _write(self) -> None:
+        # in key order: the B-tree takes a sorted thousand a page at a time
+        self._db.executemany("INSERT INTO tags VALUES (?, ?)", sorted(self._pending.items()))
+        self._pending.clear()
 
 
 @dataclass
@@ -311,7 +379,8 @@ def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]
                                       'close it, or write a quote inside a cell as ""')
             continue
         # a schedule cell is one line: a cell spanning lines is a quote left open
-        if any("\n" in c or "\r" in c for c in cells):
+        joined = "".join(cells)
+        if "\n" in joined or "\r" in joined:
             yield start, RowError(start, "row", "", "a quote opened on this row is not closed "
                                   f"before row {reader.line_num}", "close it on its own row")
             continue
@@ -390,13 +459,15 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
         if not cell or name in IGNORED:
             continue
         if name in ("length", "demand"):
-            typed = _with_unit(cell, units_by.get(name), name)
-            if (name, typed) not in _READ_OK:  # a schedule repeats its lengths and loads
+            unit = units_by.get(name)
+            typed = _READ_OK.get((name, cell, unit))
+            if typed is None:  # a schedule repeats its lengths and loads: each read once
+                typed = _with_unit(cell, unit, name)
                 if name == "length":
                     units.parse_length(typed, name)
                 else:
                     units.parse_quantity(typed, "force", name)
-                _remember(_READ_OK, (name, typed), True)
+                _remember(_READ_OK, (name, cell, unit), typed)
             out[name] = typed
         elif name in ("section", "material"):
             out[name] = _json_or_text(cell, name)
@@ -455,18 +526,28 @@ def _shown(current: dict[str, Any], name: str) -> Any:
     return current.get(name)
 
 
-def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None) -> None:
+def _new_key(code: str | None, vals: dict[str, Any]) -> tuple[str | None, ...] | None:
+    """The memo key of a new column's row, when its entries are all text: its record but for
+    the tag is ``_merge({"tag": ..., "code": code}, vals)``, so these say all of it."""
+    key = (code, *map(vals.get, ("section", "length", "material", "demand", "basis")))
+    return key if all(x is None or type(x) is str for x in key) else None
+
+
+def _check_row(merged: dict[str, Any], vals: dict[str, Any], code: str | None,
+               key: Any = None) -> None:
     """Read the row's entries as the engine would; the whole record when it is complete.
 
     A schedule repeats its sections, lengths, grades and loads: a row equal to one read
     before but for its tag (a non-blank text here: the engine reads nothing else from it)
-    gives the same answer, so it is read once."""
-    try:
-        key = json.dumps([{k: x for k, x in merged.items() if k != "tag"},
-                          {k: vals[k] for k in ("section", "material", "basis") if k in vals},
-                          code], sort_keys=True, allow_nan=False)
-    except (TypeError, ValueError):
-        key = None
+    gives the same answer, so it is read once. ``key``: the row's memo key when the caller
+    has one (``_new_key``), else its JSON text is."""
+    if key is None:
+        try:
+            key = json.dumps([{k: x for k, x in merged.items() if k != "tag"},
+                              {k: vals[k] for k in ("section", "material", "basis") if k in vals},
+                              code], sort_keys=True, allow_nan=False)
+        except (TypeError, ValueError):
+            key = None
     if key is not None and key in _ROW_READ:
         err = _ROW_READ[key]
         if err is not None:
@@ -566,7 +647,7 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
                 # a new column: the record checked is the record kept (the reading copies
                 # nothing into it), so it is merged once
                 rec = _merge(base, vals)
-                _check_row(rec, vals, code)
+                _check_row(rec, vals, code, _new_key(code, vals))
             else:
                 base, current = col.record, store.current_record(col.id)
                 # a cell showing what an export shows is no change: an unedited export
@@ -664,11 +745,18 @@ def _write(store: "Store", preview: SchedulePreview,
         found = store.add_site(preview.site, code=code, unit_system=units, **cs)
     site_code = found.code
 
-    def added() -> Iterator[tuple[dict[str, Any], str | None, str | None, str | None]]:
-        for p in preview.plans:
-            if p.action == "add":
-                p.record.setdefault("code", site_code)
-                yield p.record, p.level, p.grid, p.location
+    def added() -> Iterator[tuple[Any, str | None, str | None, str | None]]:
+        plans = preview.plans
+        for _row, tag, action, _c, record, level, grid, location in (
+                plans.raw() if isinstance(plans, PlanSpool)
+                else ([p.row, p.tag, p.action, p.changes, p.record, p.level, p.grid,
+                       p.location] for p in plans)):
+            if action == "add":
+                if type(record) is str:  # kept as its text, code and all
+                    yield (tag, record), level, grid, location
+                    continue
+                record.setdefault("code", site_code)
+                yield record, level, grid, location
 
     # new columns in batches (each record was read whole by the preview); updates one by one
     store._add_columns(found.id, added())

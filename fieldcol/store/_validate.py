@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import math
 import re
+import time
 from datetime import date, datetime, timezone
 from typing import Any
 
@@ -108,7 +109,16 @@ def now_utc() -> str:
         >>> len(now_utc())
         27
     """
-    return format_utc(datetime.now(timezone.utc))
+    global _SECOND
+    us = time.time_ns() // 1000
+    sec, frac = divmod(us, 1_000_000)
+    cached = _SECOND
+    if cached[0] != sec:  # the date and time to the second, formatted once a second
+        cached = _SECOND = (sec, time.strftime("%Y-%m-%dT%H:%M:%S", time.gmtime(sec)))
+    return f"{cached[1]}.{frac:06d}Z"
+
+
+_SECOND: tuple[int, str] = (-1, "")
 
 
 def record(value: Any, field: str = "record") -> dict[str, Any]:
@@ -131,6 +141,10 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
     return value
 
 
+# json.dumps(value, allow_nan=False, ensure_ascii=False) without making an encoder each call
+_encode_json = json.JSONEncoder(allow_nan=False, ensure_ascii=False).encode
+
+
 def json_text(value: Any, field: str) -> str:
     """``value`` as JSON text; NaN, infinities and non-JSON types are refused, not coerced.
 
@@ -139,7 +153,7 @@ def json_text(value: Any, field: str) -> str:
         '{"a": 1}'
     """
     try:
-        return json.dumps(value, allow_nan=False, ensure_ascii=False)
+        return _encode_json(value)
     except (TypeError, ValueError) as e:
         raise InputError(field, repr(value)[:80], f"cannot be saved as JSON ({e})", None) from None
 
