@@ -216,7 +216,7 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
                             basis="asd" if col.basis == "asd" else "lrfd", gamma_M1=col.gamma_M1,
                             end_ratio=end_ratio(col), sway_Pe=sway, holes=col.flange_holes,
                             Fu=None if col.flange_holes is None
-                            else float(col.material.fu_at(col.section.tmax_nominal)))
+                            else float(col.material.fu_at(col.section.tmax_nominal)), built=col.built)
     trace.extend(res.trace)
     for w in res.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):

@@ -100,7 +100,7 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
                       sway_Pe: Mapping[str, Any] | None = None, holes: FlangeHoles | None = None,
-                      Fu: float | None = None) -> BeamColumnResult:
+                      Fu: float | None = None, built: Any = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -121,6 +121,9 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
         holes: fastener holes across the tension flange of a riveted or bolted section
             (``netflange.FlangeHoles``): AISC 360-22 F13.1 / EN 1993-1-1 6.2.5 (4) cap the
             flexural strength about ``holes.axis``; Fu (MPa) is then required.
+        built: the ``BuiltUp`` the section was composed from, if any: two channels tied at
+            points get the chord rules of ``codes.builtflex``; an arrangement it does not cover
+            gets no flexural strength (NaN, warning ``flexure-not-covered``).
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -166,10 +169,16 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                 t.add(f"{src}_{ax}", f"{what}, {ax} axis", "record", M[src][ax],
                       "N*mm" if src in ("given", "ends") else "mm", "record")
     design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
+    if code in ("aisc360-22", "en1993-1-1") and built is not None:
+        from .builtflex import covered
+
+        why = covered(built)
+        if why:
+            return _not_covered(why, M, v, design, n, t)
     if code == "aisc360-22":
-        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu)
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu, built)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, holes, Fu)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, holes, Fu, built)
     if code == "elastic":
         if holes is not None:
             t.add("note", "fastener holes in the tension flange: the first-yield reference uses the "
@@ -186,24 +195,34 @@ def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, 
            clause: str) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         # 64 halvings leave the bracket below one ulp of any capacity above 1e-4 of the axial one
-        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
         val, eq = g(Pr)
+        # an interaction the rules cannot evaluate (NaN) is not covered: never a capacity of 0
+        Mc_nan = Mc_nan | np.isnan(val)
+        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
         ratio = np.where(Mc_nan, np.nan, np.maximum(val, Pr / design))
     t.add("P", "axial capacity with the moments in proportion", formula, cap, "N", clause)
     return cap, ratio, eq
 
 
-def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None, built=None):
     Fy, E = v["Fy"], v["E"]
     lrfd = basis == "lrfd"
     alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
                   APP8)
     Mc, Pe1, Pe2, out = {}, {}, {}, np.zeros(Pc.shape, bool)
+    cf = None
+    if built is not None and built.arrangement == "channels":
+        from .builtflex import aisc_chord_flexure
+
+        cf = aisc_chord_flexure(built, float(Fy[0]), float(E[0]), float(v["Lc_twist"][0]), t)
     for ax in AXES:
-        sub = Trace()
-        Mn, o = aisc_flexure(kind, ax, sec, Fy, E, v["Lc_twist"], sub)
-        t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what, s.formula,
-                                s.value, s.unit, s.clause) for s in sub.steps]
+        if cf is not None:
+            Mn, o = np.full(Pc.shape, np.nan if cf.out else cf.Mn[ax]), np.full(Pc.shape, bool(cf.out))
+        else:
+            sub = Trace()
+            Mn, o = aisc_flexure(kind, ax, sec, Fy, E, v["Lc_twist"], sub)
+            t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what,
+                                    s.formula, s.value, s.unit, s.clause) for s in sub.steps]
         out |= o & ((M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0)
         if holes is not None and holes.axis == ax:
             Mn = aisc_tension_flange(holes, Fy, Fu, sec["Sx" if ax == "strong" else "Sy"], Mn, t)
@@ -247,11 +266,35 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
             out = out + np.where(M["sway"][ax] > 0, amp(P, Pe2[ax], 1.0) * P * M["sway"][ax], 0.0)
         return out
 
-    def g(P):
+    def member(P):
         m = Mr(P, "strong") / Mc["strong"] + Mr(P, "weak") / Mc["weak"]
         p = P / Pc
         a = p >= 0.2
         return np.where(a, p + 8.0 / 9.0 * m, p / 2.0 + m), np.where(a, "H1-1a", "H1-1b")
+
+    if cf is None:
+        g = member
+    else:
+        factor = 0.90 if lrfd else 1 / 1.67
+        Pch = t.add("Pc,ch", "available strength of one chord over a panel",
+                    "phi_c Pn,ch" if lrfd else "Pn,ch / Omega_c", factor * cf.Pch, "N", "AISC 360-22 E1, E3")
+
+        def chord(P):
+            # the compressed chord: P/2 + M_open / h0 with half the solid-axis moment
+            p = (P / 2 + Mr(P, cf.open) / cf.h0) / Pch
+            m = Mr(P, cf.solid) / Mc[cf.solid]
+            a = p >= 0.2
+            return np.where(a, p + 8.0 / 9.0 * m, p / 2.0 + m)
+
+        def g(P):
+            val, eq = member(P)
+            c = chord(P)
+            return np.maximum(val, c), np.where(c > val, "H1-1 chord", eq)
+
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            t.add("chord", "interaction of the compressed chord at the demand",
+                  "p = (Pr/2 + Mr,open/h0)/Pc,ch, m = Mr,solid/Mc,solid (half the moment on half the strength); "
+                  "p >= 0.2: p + 8/9 m; else p/2 + m", chord(Pr), "", f"{H1} (H1-1a), (H1-1b); judgement")
 
     nan = np.isnan(Mc["strong"]) | np.isnan(Mc["weak"])
     cap, ratio, eq = _solve(g, Pr, Pc, nan, t, "largest P with H1-1 <= 1, moments in proportion (bisection)",
@@ -265,14 +308,41 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
           "else Pr/(2 Pc) + Mrx/Mcx + Mry/Mcy (H1-1b)", ratio, "", f"{H1} (H1-1a), (H1-1b)")
     warnings = []
     if out.any():
-        warnings.append(Warning("flexure-not-covered", "flexural strength not covered for this section and "
+        warnings.append(Warning("flexure-not-covered", cf.out if cf is not None and cf.out else
+                                "flexural strength not covered for this section and "
                                 "axis (AISC 360-22 F5 slender web, HSS slender web, round HSS D/t >= 0.45 E/Fy): "
                                 "no beam-column strength", out))
+    if cf is not None:
+        _tie_shear_warning(M, cf, warnings)
     return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, holes=None, fu=None):
+def _tie_shear_warning(M, cf, warnings) -> None:
+    moved = (M["given"][cf.open] + M["ends"][cf.open] + M["sway"][cf.open]) > 0
+    if moved.any():
+        warnings.append(Warning("tie-shear-from-moment", f"the shear of a moment varying along the member "
+                                f"about the {cf.open} (open) axis must be carried by the lacing or battens: "
+                                "it is not added to their forces here (check them by hand)", moved))
+
+
+def _not_covered(why, M, v, design, n, t) -> BeamColumnResult:
+    nan = np.full(n, np.nan)
+    t.add("note", why, "", "", "", "AISC 360-22 Chapter F; EN 1993-1-1 6.3.2")
+    carried = np.zeros(n, bool)
+    for ax in AXES:
+        carried |= (M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0
+    return BeamColumnResult(nan, np.full(n, "not covered"), nan.copy(), {ax: nan.copy() for ax in AXES},
+                            {ax: nan.copy() for ax in AXES}, t,
+                            [Warning("flexure-not-covered", why, carried | (n > 0))])
+
+
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, holes=None, fu=None, built=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
+    cf = None
+    if built is not None and built.arrangement == "channels":
+        from .builtflex import en_chord_flexure
+
+        cf = en_chord_flexure(built, float(fy[0]), float(E[0]), float(G[0]), float(v["Lc_twist"][0]), gamma, t)
 
     def mode(name, attr):
         return np.broadcast_to(np.asarray(getattr(axial.modes[name], attr), dtype=float), shape).reshape(n)
@@ -297,8 +367,14 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
         cz = np.minimum(cz, mode("torsional", "Pn") / NRk)
     chi_z = t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
                   "min(Nb,weak, Nb,torsion) / N_Rk", cz, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
-    lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
     Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
+    lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
+    if built is not None:
+        # a laced or battened axis has no slenderness of its own in 6.4: sqrt(N_Rk / Ncr,eff)
+        # with the shear-flexible critical load the built-up check reports
+        lb_y, lb_z = (t.add(f"lb_{ax}", f"slenderness, {ax} axis (built-up)", "sqrt(N_Rk / Ncr)",
+                            np.where(np.isnan(lb), np.sqrt(NRk / Ncr[ax]), lb), "", "EN 1993-1-1 6.3.1.2")
+                      for ax, lb in (("strong", lb_y), ("weak", lb_z)))
     if sway is not None:
         Ncr = {ax: sway[ax] for ax in AXES}
     only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
@@ -315,13 +391,20 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
                   chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")
     Mz_Rd = t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", MRk["weak"] / gamma,
                   "N*mm", f"{C633} (6.61), (6.62)")
+    if cf is not None:
+        My_Rd, Mz_Rd = (t.add(f"Mc_{ax}", f"design moment resistance, {ax} axis (two tied channels, "
+                              "replaces the above)", "see M_Rd of the chords", np.full(n, np.nan if cf.out else cf.Mn[ax]),
+                              "N*mm", "EN 1993-1-1 6.3.2, 6.4.1") for ax in AXES)
+        if cf.out:
+            t.add("note", cf.out, "", "", "", "EN 1993-1-1 Table 5.2")
     if holes is not None:
         if holes.axis == "strong":
             My_Rd = en_tension_flange(holes, fy, fu, sec["Sx"], My_Rd, t)
         else:
             Mz_Rd = en_tension_flange(holes, fy, fu, sec["Sy"], Mz_Rd, t)
     c12 = cls <= 2
-    open_i = kind == "i"
+    # a laced, battened or boxed section is closed for torsion: Table B.1 (not susceptible)
+    open_i = kind == "i" and not (built is not None and built.closed)
 
     used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
     has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
@@ -373,9 +456,32 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
             a, b = a + kyz * mz, b + kzz * mz
         return a, b
 
-    def g(N):
+    def member(N):
         a, b = both(N)
         return np.maximum(a, b), np.where(a >= b, "6.61", "6.62")
+
+    g = member
+    if cf is not None:
+        from .builtflex import en_chord_force
+
+        L_open = float(v[f"Lc_{cf.open}"][0])
+
+        def chord(N):
+            # 6.4.1 (6.69) with M_Ed^I; the chord's half of the solid-axis moment with
+            # k = 1 + 0.8 n, the upper bound of Annex B Table B.1 (covers (6.61) and (6.62))
+            c = en_chord_force(cf, N, M_Ed(N, cf.open), L_open, float(E[0])) / cf.Pch
+            return c + (1 + 0.8 * c) * (M_Ed(N, cf.solid) / 2) / cf.Mch
+
+        def g(N):
+            val, eq = member(N)
+            c = chord(N)
+            return np.maximum(val, c), np.where(c > val, "6.4 chord", eq)
+
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            t.add("chord", "interaction of the compressed chord at N_Ed",
+                  "N_ch,Ed / Nb,Rd,ch + (1 + 0.8 n) (M_Ed,solid / 2) / M_Rd,ch, N_ch,Ed = 0.5 N + "
+                  "(N e0 + M_Ed^I) / (1 - N/Ncr - N/Sv) h0 Ach / (2 Ieff)", chord(N_Ed), "",
+                  "EN 1993-1-1 6.4.1 (6.69); Annex B Table B.1 (upper bound of k, a judgement)")
 
     t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
           "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
@@ -402,8 +508,11 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
                                 "taken as M_Ed in EN 1993-1-1 6.3.3, whose k factors amplify them again "
                                 "(conservative)", np.ones(n, bool)))
     if nan.any():
-        warnings.append(Warning("flexure-not-covered", "no moment resistance for this section under "
+        warnings.append(Warning("flexure-not-covered", cf.out if cf is not None and cf.out else
+                                "no moment resistance for this section under "
                                 "EN 1993-1-1 (a Class 4 circular hollow section): no beam-column strength", nan))
+    if cf is not None:
+        _tie_shear_warning(M, cf, warnings)
     return BeamColumnResult(ratio, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
 
 
