@@ -169,3 +169,28 @@ def test_other_built_up_sections_under_moments_are_finite_or_not_covered(name, c
     else:
         assert a.status in ("ok", "over") and math.isfinite(a.utilization)
         assert all(math.isfinite(float(m[0])) for m in a.beam.Mc.values())
+
+
+def test_the_amplifier_about_the_open_axis_uses_the_shear_flexible_load():
+    # Engesser (elastic stability): 1/Pcr = 1/Pe + 1/Sv across the ties, Pe = pi^2 E Iy / L^2
+    # over the span (K1 = 1); the end moment about the open axis is amplified by
+    # B1 = Cm / (1 - Pr / Pe1) with that load (AISC 360-22 App. 8.2.1, from memory)
+    rec = _rec(moments={"strong": "1 kip*ft"})
+    rec["demand"]["end_moments"] = {"weak": {"top": "10 kip*ft"}}
+    a = assess(rec)
+    s = _steps(a)
+    Iy, L = a.to_dict()["section"]["Iy"]["value"], 18 * 304.8
+    Pe = math.pi**2 * a.column.material.E * Iy / L**2   # E 29 000 ksi (common practice)
+    assert "1 / (1/Pe + 1/Sv)" in s["Pe1_weak"]["formula"]
+    assert s["Pe1_weak"]["value"] == pytest.approx(1 / (1 / Pe + 1 / s["Sv_weak"]["value"]), rel=1e-9)
+
+
+@pytest.mark.parametrize("code", ["aisc360-22", "en1993-1-1"])
+def test_channels_far_apart_turn_the_open_axis_to_the_strong_one(code):
+    # with the channels far apart the pair is stiffer about the axis across the gap: x (strong)
+    # becomes the open axis and each channel bends about its own strong axis under the weak-axis moment
+    rec = _rec(code, "lacing", {"strong": "10 kip*ft", "weak": "10 kip*ft"}, "60 kip")
+    rec["section"]["built"]["gap"] = "24 in"
+    a = assess(rec)
+    assert "weak axis twice one channel" in _steps(a)["rule,flexure"]["what"]
+    assert a.status in ("ok", "over") and math.isfinite(a.utilization)

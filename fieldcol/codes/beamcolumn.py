@@ -231,10 +231,21 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None, b
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
         Pe1[ax] = np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2
         Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2 if sway is None else sway[ax]
+        if cf is not None and ax == cf.open:
+            # the ties' shear flexibility lowers the critical load the amplifiers divide by
+            from .builtup import shear_stiffness
+
+            Sv = t.add(f"Sv_{ax}", f"shear stiffness of the ties, {ax} (open) axis, for the amplifiers",
+                       "EN 1993-1-1 6.4 Sv (as in the axial check)", shear_stiffness(cf.axis, float(E[0])), "N",
+                       "elastic stability (Engesser)")
+            Pe1[ax] = 1 / (1 / Pe1[ax] + 1 / Sv)
+            if sway is None:
+                Pe2[ax] = 1 / (1 / Pe2[ax] + 1 / Sv)
         # the amplifiers' loads are shown only where a moment they amplify is present
         if np.any(M["ends"][ax] + M["bow"][ax] > 0):
             t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
-                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway", Pe1[ax], "N",
+                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway (open axis of "
+                  "tied chords: 1 / (1/Pe + 1/Sv))", Pe1[ax], "N",
                   f"{APP8}.1 (A-8-5)")
         if np.any(M["sway"][ax] > 0) and sway is None:
             t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
