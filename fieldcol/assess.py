@@ -733,8 +733,9 @@ def _step(st: Step) -> dict[str, Any]:
     try:
         v = _first(v)
         v = v if math.isfinite(v) else None
-    except (TypeError, ValueError):
-        v = str(v)
+    except (TypeError, ValueError):  # words (a curve letter): one column's, not the batch's
+        arr = np.asarray(v)
+        v = str(arr.reshape(-1)[0]) if arr.size == 1 else str(v)
     return {"symbol": st.symbol, "what": st.what, "formula": st.formula, "value": v,
             "unit": st.unit, "clause": st.clause}
 

@@ -214,7 +214,8 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
     res = check_beam_column(col.code, col.section, Fy, col.material.E, col.material.G, demand, axial,
                             span=dict(spans), Lc=dict(Lc), moments=src,
                             basis="asd" if col.basis == "asd" else "lrfd", gamma_M1=col.gamma_M1,
-                            end_ratio=end_ratio(col), sway_Pe=sway, holes=col.flange_holes,
+                            end_ratio=end_ratio(col), sway_Pe=sway, member_length=col.length,
+                            holes=col.flange_holes,
                             Fu=None if col.flange_holes is None
                             else float(col.material.fu_at(col.section.tmax_nominal)), built=col.built)
     trace.extend(res.trace)

@@ -242,8 +242,9 @@ def parse_record(record: Mapping[str, Any]) -> ColumnInput:
             for ax in AXES}
     twist = _twist(_object(restraints.get("twist"), "restraints.twist",
                            '{"braces": [{"at": "15 ft"}]}'), length, axes)
-    demand = _demand(record.get("demand"), code)
-    basis = demand.basis if demand else _BASES[code][0]
+    own = _own_basis(record, code)
+    demand = _demand(record.get("demand"), code, own)
+    basis = demand.basis if demand else (own or _BASES[code][0])
     gamma = record.get("gamma_M1", 1.0)
     if not isinstance(gamma, (int, float)) or isinstance(gamma, bool) or not 1.0 <= gamma <= 1.5:
         raise InputError("gamma_M1", gamma, "must be a number from 1.0 to 1.5",
@@ -764,7 +765,22 @@ def _twist(spec: Any, length: float, axes: Mapping[str, AxisInput]) -> TwistInpu
     return TwistInput(tuple(at), ends["bottom"], ends["top"])
 
 
-def _demand(spec: Any, code: str) -> Demand | None:
+def _own_basis(record: Mapping[str, Any], code: str) -> str | None:
+    """The record's own ``basis`` (a column with no demand still shows phi Pn or Pn / Omega);
+    a demand's own ``basis`` must agree with it."""
+    given = record.get("basis")
+    if given in (None, ""):
+        return None
+    own = _choice(given, _BASES[code], "basis")
+    spec = record.get("demand")
+    if isinstance(spec, Mapping) and spec.get("basis") not in (None, "") \
+            and spec["basis"] != own:
+        raise InputError("basis", given, f"differs from demand.basis ({spec['basis']})",
+                         "give the basis once, or the same in both")
+    return own
+
+
+def _demand(spec: Any, code: str, basis: str | None = None) -> Demand | None:
     if spec in (None, {}):
         return None
     if not isinstance(spec, Mapping):
@@ -774,7 +790,7 @@ def _demand(spec: Any, code: str) -> Demand | None:
     check_keys(loads, "loads", "demand.loads")
     psi0 = _object(spec.get("psi0"), "demand.psi0", '{"live": 1.0}')
     check_keys(psi0, "psi0", "demand.psi0")
-    basis = _choice(spec.get("basis", _BASES[code][0]), _BASES[code], "demand.basis")
+    basis = _choice(spec.get("basis", basis or _BASES[code][0]), _BASES[code], "demand.basis")
     bending = _bending(spec)
     if spec.get("axial") not in (None, ""):
         if loads:

@@ -22,7 +22,7 @@ _SECTION_COMMON = ("loss", "plates")
 KEYS: dict[str, tuple[str, ...]] = {
     "column record": ("tag", "section", "material", "length", "restraints", "k_basis", "code",
                "demand", "gamma_M1", "units", "condition", "notes", "level", "grid", "location",
-               "knowledge"),
+               "knowledge", "basis"),
     "section by name": ("name", *_SECTION_COMMON),
     "section of shape i": ("shape", "d", "bf", "tf", "tw", "r", "welded", *_SECTION_COMMON),
     "section of shape rect": ("shape", "d", "b", "t", "r", "finish", *_SECTION_COMMON),

@@ -70,7 +70,8 @@ _EN_NAMES = {"Lc": "L_cr", "Ncr": "N_cr", "alpha": "α", "lb": "λ-bar", "Phi": 
              "ry": "i_z", "J": "I_t", "Cw": "I_w", "eps": "ε", "Aeff": "A_eff", "Nc": "N_c,Rk",
              "Pn": "N_Rk", "Nb,Rd": "N_b,Rd", "Lcz": "L_cr,T", "beta_br": "β_br",
              "gamma_M1": "γ_M1", "L": "L", "U": "N_Ed / N_b,Rd", "chi_LT": "χ_LT",
-             "lb,LT": "λ-bar_LT", "alpha_LT": "α_LT", "Pn,yield": "N_c,Rk"}
+             "lb,LT": "λ-bar_LT", "alpha_LT": "α_LT", "Pn,yield": "N_c,Rk", "C1": "C_1",
+             "chi_LT,0": "χ_LT,0", "Phi_LT": "Φ_LT", "alpha,web": "α_web", "psi,web": "ψ_web"}
 _US_NAMES = {"beta_br": "β_br", "phiPn": "φPn", "Pn/Omega": "Pn/Ω", "Lc/r": "Lc/r",
              "Pcr": "Pcr", "Lc": "Lc", "K": "K{s}", "Fe": "Fe", "Fcr": "Fcr", "Pn": "Pn",
              "slender": "slender"}

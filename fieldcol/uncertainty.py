@@ -192,7 +192,7 @@ def run_samples(record: Mapping[str, Any], samples: int, *, seed: int = SEED,
             bc = check_beam_column(col.code, sec, Fy, mat.E, mat.G, Pr, ax, span=a.spans, Lc=L,
                                    moments=a.sources, basis=basis, gamma_M1=col.gamma_M1,
                                    end_ratio=end_ratio(col), sway_Pe=None if pe is None else
-                                   {"strong": pe, "weak": pe})
+                                   {"strong": pe, "weak": pe}, member_length=col.length)
             caps.append(bc.capacity)
             ratios.append(bc.ratio)
         notes = ["effective lengths, moments and demand held at their recorded values"]

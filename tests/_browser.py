@@ -341,7 +341,10 @@ def _open_column(page, identifier: str) -> None:
     """Tap a column row until its screen shows (a tap while the list still glides after a
     wheel scroll is taken as part of the scroll)."""
     time.sleep(0.3)  # let the list come to rest
-    _click(page, identifier, done=lambda: page.locator(_sel("status")).count() > 0)
+    # a row not built yet is looked for with the wheel over the list (left of the column on a
+    # tablet), not over the pane beside it
+    x = LIST_W / 2 if page.viewport_size["width"] >= WIDE else None
+    _click(page, identifier, x=x, done=lambda: page.locator(_sel("status")).count() > 0)
 
 
 def _drawn(page, identifier: str) -> float:

@@ -101,9 +101,17 @@ def test_en_633_hand_worked_heb300():
     i0sq = (Iy + Iz) / A         # 6.3.1.4: torsional buckling, z-z curve
     NcrT = (G * It + math.pi**2 * E * Iw / L**2) / i0sq
     chi_z = min(chi_z, chi(math.sqrt(NRk / NcrT), 0.49))
-    # Mcr with C1 = 1.0 (uniform moment: the engine's conservative choice for any diagram)
-    Mcr = math.pi**2 * E * Iz / L**2 * math.sqrt(Iw / Iz + L**2 * G * It / (math.pi**2 * E * Iz))
-    chi_LT = chi(math.sqrt(Wy * fy / Mcr), 0.21)   # 6.3.2.2, Table 6.4 rolled h/b <= 2: curve a
+    # Mcr with C1 = 1.77 for linear end moments with psi = 0 (C1 tables for end moments, k = kw = 1,
+    # from memory)
+    Mcr = 1.77 * math.pi**2 * E * Iz / L**2 * math.sqrt(Iw / Iz + L**2 * G * It / (math.pi**2 * E * Iz))
+    lb_LT = math.sqrt(Wy * fy / Mcr)
+    # 6.3.2.3 (rolled sections): lb_LT,0 = 0.4, beta = 0.75 (recommended values); Table 6.5 rolled I
+    # h/b <= 2: curve b (alpha_LT 0.34, Table 6.3)
+    phi_LT = 0.5 * (1 + 0.34 * (lb_LT - 0.4) + 0.75 * lb_LT**2)
+    chi_LT0 = min(1.0, 1 / lb_LT**2, 1 / (phi_LT + math.sqrt(phi_LT**2 - 0.75 * lb_LT**2)))   # (6.57)
+    kc = 1 / (1.33 - 0.33 * 0.0)                   # Table 6.6, linear moment, psi = 0
+    f = min(1.0, 1 - 0.5 * (1 - kc) * (1 - 2.0 * (lb_LT - 0.8) ** 2))
+    chi_LT = min(1.0, 1 / lb_LT**2, chi_LT0 / f)   # (6.58)
     Cmy = 0.6 + 0.4 * 0.0                          # Table B.3, psi = 0 (CmLT the same)
     ny, nz = N / (chi_y * NRk), N / (chi_z * NRk)
     kyy = Cmy * min(1 + (lb_y - 0.2) * ny, 1 + 0.8 * ny)                            # Table B.1

@@ -270,6 +270,68 @@ def test_a_hub_restored_from_an_older_backup_gets_everything_again(tmp_path: Pat
         h.stop()
 
 
+class _Counting(httpx.HTTPTransport):
+    """Deliver requests and count the operations each pull answer carries."""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.pulled: list[int] = []
+
+    def handle_request(self, request: httpx.Request) -> httpx.Response:
+        resp = super().handle_request(request)
+        if request.url.path == "/v1/pull":
+            resp.read()
+            self.pulled.append(len(resp.json()["ops"]))
+        return resp
+
+
+def test_a_device_is_not_sent_back_what_it_pushed(tmp_path: Path, hub):
+    (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
+    s = _site(a)
+    for i in range(7):
+        _col(a, s.id, f"C{i}")
+    seen = _Counting()
+    rep = sync_with_hub(a, hub.url, ta, transport=seen)
+    assert rep.sent == a.count_ops() and sum(seen.pulled) == 0
+    assert a.cursor(f"pull:{hub.hub.hub_id}") == hub.hub.max_seq()  # passed its own span
+    assert a.own_spans(hub.hub.hub_id) == []  # spans behind the cursor are dropped
+    sync_with_hub(b, hub.url, tb)
+    b.update_site(s.id, address="from the office")
+    sync_with_hub(b, hub.url, tb)
+    seen = _Counting()
+    assert sync_with_hub(a, hub.url, ta, transport=seen).received == 1 and seen.pulled == [1]
+    _same([a, b, _held(hub, tmp_path)])
+
+
+def test_a_device_restored_from_an_older_copy_gets_back_what_it_pushed_since(tmp_path: Path,
+                                                                           hub):
+    (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
+    s = _site(a)
+    sync_with_hub(a, hub.url, ta)
+    with a._lock:  # the phone's backup, taken now
+        a.db.conn.execute("VACUUM INTO ?", [str(tmp_path / "copy.db")])
+    _col(a, s.id, "C2")
+    sync_with_hub(a, hub.url, ta)  # C2 went to the hub, and a noted that it holds it
+    with Store(tmp_path / "copy.db") as old:  # the phone restored from its backup
+        assert old.device_id == a.device_id and old.list_columns(s.id) == []
+        sync_with_hub(old, hub.url, ta)
+        assert [c.tag for c in old.list_columns(s.id)] == ["C2"]
+        _col(old, s.id, "C3")
+        sync_with_hub(old, hub.url, ta)
+        sync_with_hub(a, hub.url, ta)
+        sync_with_hub(b, hub.url, tb)
+        _same([a, b, old, _held(hub, tmp_path)])
+
+
+def test_a_pull_names_at_most_so_many_spans_each_a_span(tmp_path: Path, hub):
+    (a, ta), = _devices(tmp_path, hub, 1)
+    auth = {"Authorization": f"Bearer {ta}"}
+    for skip in ("9-3", "x-4", ",".join(["1-2"] * 65)):
+        r = httpx.get(f"{hub.url}/v1/pull", params={"device": a.device_id, "skip": skip},
+                      headers=auth)
+        assert r.status_code == 422 and r.json()["field"] == "skip"
+
+
 def test_photos_cut_at_random_offsets_resume_and_arrive_whole(tmp_path: Path, hub):
     (a, ta), (b, tb) = _devices(tmp_path, hub, 2)
     s = _site(a)

@@ -6,6 +6,7 @@ must have (common practice); checked here on real SQLite files.
 
 from __future__ import annotations
 
+import json
 import os
 import random
 from pathlib import Path
@@ -80,6 +81,34 @@ def test_a_bulk_write_of_many_rows_merges_in_bulk_and_ends_equal(tmp_path: Path)
         b.apply_ops(list(reversed(ops)), source="bundle")  # children before parents, too
         assert dump(a) == dump(b)
         assert b.get_column(cols[3].id).location == "by the press"
+
+
+def _quoted(s: Store) -> dict:
+    """Every data row as SQLite spells each value (``quote``: 1 and 1.0, '1' and 1 differ)."""
+    out = {}
+    for t in DATA_TABLES:
+        cols = [r[1] for r in s.db.conn.execute(f"PRAGMA table_info({t})")]
+        out[t] = sorted(s.db.conn.execute(
+            f"SELECT {', '.join(f'quote({c})' for c in cols)} FROM {t}").fetchall())
+    return out
+
+
+def test_rows_read_from_the_log_keep_every_kind_of_value(tmp_path: Path):
+    # a merged row is read by SQLite from the operation's JSON (json_extract), not bound
+    # from Python: each kind of value must land exactly as the recording device wrote it
+    awkward = 'quote " back \\ slash / tab\t line\n é 中 😀 \u0001 end'
+    with Store(tmp_path / "a.db") as a, Store(tmp_path / "b.db") as b:
+        s = site(a)
+        c = a.add_column(s.id, {"tag": "C1", "section": "W10X49", "length": "14 ft",
+                                "notes": awkward})
+        a.add_measurement(c.id, "thickness", "0.5 in", note=awkward)
+        a.add_measurement(c.id, "thickness", "1 in", gauge="ultrasonic")
+        a.add_finding(s.id, awkward, category="corrosion", severity="low", column_id=c.id)
+        assert send(a, b) == a.count_ops()
+        assert _quoted(b) == _quoted(a) and dump(b) == dump(a)
+        # the wire's text, written by SQLite, reads back as the operation itself
+        texts = [json.loads(t) for _, _, t in a.ops_json_with_seq(0, 100)]
+        assert texts == [o.to_json() for o in a.ops_after(0, 100)]
 
 
 def test_a_failed_write_logs_nothing(tmp_path: Path):

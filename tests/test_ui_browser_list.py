@@ -105,25 +105,30 @@ def test_a_round_of_field_work_in_twelve_taps_or_fewer(server, browser, tmp_path
     n = tap.n
     _tab(page, "condition")
     tap.n, tap.log = n + 1, tap.log + ["tab-condition"]                   # 4
+    # the entry takes the keyboard by itself (asked for again once drawn); on a busy machine
+    # headless chromium still leaves it with the page about once in three runs: then one tap
+    # on the entry, counted. What is typed is kept either way: typed once, saved once
     try:
         _poll(lambda: page.evaluate("document.activeElement && "
                                     "document.activeElement.tagName"),
-              lambda tag: tag == "INPUT", "the bow entry focused on opening", 6)
+              lambda tag: tag == "INPUT", "the bow entry focused on opening", 10)
         page.keyboard.type("5/8")
         _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == "5/8",
               "the bow typed", 4)
-    except AssertionError:  # the keyboard did not come up by itself: one tap on the entry
+    except AssertionError:
         tap.n, tap.log = tap.n + 1, tap.log + ["reading-value"]
         _type_into(page, "reading-value", "5/8", enter=False)
-    try:
-        tap("save-reading", done=lambda: bows())                           # 5
-    except AssertionError:
-        # under load the typed text can be lost before the server hears it (a known flaw,
-        # seen about once in ten runs on a busy machine): the engineer sees "Bow is needed",
-        # types it again and saves again; both taps are counted
-        tap.n, tap.log = tap.n + 1, tap.log + ["reading-value"]
+    tap("save-reading", done=lambda: bows() or "not saved" in _words(page, "save-note"))  # 5
+    if not bows():
+        # seen only after a focus from the server that headless chromium did not take: the
+        # tap on the entry then focuses the page's own input box, whose letters never reach
+        # the app (the entry stays empty and the save says "Bow is needed"). A person sees
+        # the empty entry, taps it and types again: two taps more, counted
+        assert "Bow is needed" in _words(page, "save-note"), _words(page, "save-note")
+        tap.n, tap.log = tap.n + 1, tap.log + ["reading-value again"]
         _type_into(page, "reading-value", "5/8", enter=False)
         tap("save-reading", done=lambda: bows())
+    assert len(bows()) == 1, bows()  # nothing lost, nothing saved twice
     _poll(lambda: _words(page, "save-note"), lambda t: "Saved bow 5/8 in" in t, "bow saved")
     _shot(page, f"round-bow{suffix}.png")
     # one photo of a defect: the Findings tab, the photo button, the file picked

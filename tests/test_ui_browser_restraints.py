@@ -10,7 +10,10 @@ $FIELDCOL_SHOTS (``restraint-brace.png``, ``check.png``; ``-tablet`` at 820 px).
 
 from __future__ import annotations
 
-from _browser import (PHONE, TABLET, _click, _find, _open, _open_column, _poll, _sel, _shot, _wait,  # noqa: F401
+import time
+
+from _browser import (PHONE, TABLET, _click, _find, _open, _open_column, _poll, _sel, _shot,  # noqa: F401
+                      _wait, _words,
                       browser, server)
 
 
@@ -36,7 +39,9 @@ def _walk(page, suffix: str, tag: str) -> None:
     _find(page, "column-curve")
     _shot(page, f"check-curve{suffix}.png")
     # the full trace one tap away (its symbols are checked in tests/test_ui_restraints_model.py)
-    _click(page, "trace")
+    # its steps are made when it opens: a tap shows them (their words are aria labels)
+    _click(page, "trace", done=lambda: " = " in _words(page, "trace"))
+    time.sleep(1)
     _shot(page, f"check-trace{suffix}.png")
 
     # Restraints: add a brace at mid-height in two taps and see what governs change

@@ -30,6 +30,8 @@ from flet.pubsub.pubsub_hub import PubSubHub
 
 from fieldcol.demo import SITE_NAME, build_demo
 from fieldcol.store import open_store
+from fieldcol.ui import model as m
+from fieldcol.ui import views as v
 from fieldcol.ui.app import TABS, FieldApp
 
 
@@ -42,10 +44,12 @@ class _Client(Connection):
         self.session: Session | None = None
         self.tasks: list[asyncio.Task] = []
         self.invoked: list[tuple[str, dict]] = []  # methods the app asked the client to run
+        self.sent: list[bytes] = []  # every message as it would travel to the device
         self._encode = configure_encode_object_for_msgpack(BaseControl)
 
     def send_message(self, message: Any) -> None:
-        msgpack.packb([message.action.value, message.body], default=self._encode)
+        self.sent.append(msgpack.packb([message.action.value, message.body],
+                                       default=self._encode))
         if message.action == MessageAction.INVOKE_METHOD:
             body = message.body
             assert self.session is not None
@@ -243,6 +247,57 @@ def test_saved_edit_offers_undo_and_undo_puts_it_back(demo):
         assert not s.has("save-undo")  # only the last change, once
         # the entry shows the value as saved again
         assert s.inner("field-length", ft.TextField).value == before
+    _run(walk())
+
+
+def _strength(store, cid) -> float:
+    return float(store.latest_check(cid).result["design_strength"]["value"])
+
+
+def test_basis_chosen_on_the_column_screen_checks_on_it_and_undo_puts_it_back(demo):
+    """LRFD or ASD for one AISC column: the record and its demand follow the choice, the
+    check is made again on it (AISC 360-22 E1: Omega_c = 1.67 against phi_c = 0.90, so the
+    design strength falls by the ratio 1 / (1.67 x 0.90) = 0.665), Undo puts LRFD back."""
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        cid = store.find_column(site.id, "C/3-G").id
+        lrfd = _strength(store, cid)
+        await s.go(f"/columns/{cid}")
+        assert "(chosen)" in s.find("basis-lrfd").label or s.find("basis-lrfd").selected
+        await s.tap("basis-asd")
+        rec = store.get_column(cid).record
+        assert rec["basis"] == "asd" and rec["demand"]["basis"] == "asd"
+        asd = _strength(store, cid)
+        assert asd / lrfd == pytest.approx(1 / (1.67 * 0.90), rel=1e-3)
+        assert s.text("save-note").startswith("Saved basis ASD; checked again: ")
+        assert s.find("basis-asd").selected and not s.find("basis-lrfd").selected
+        assert "service (ASD)" in s.inner("field-demand", ft.TextField).helper
+        await s.tap("save-undo")
+        rec = store.get_column(cid).record
+        assert "basis" not in rec and rec["demand"].get("basis", "lrfd") == "lrfd"
+        assert _strength(store, cid) == pytest.approx(lrfd)
+        assert s.find("basis-lrfd").selected
+        assert "factored" in s.inner("field-demand", ft.TextField).helper
+    _run(walk())
+
+
+def test_an_en_column_offers_no_lrfd_or_asd(tmp_path):
+    async def walk():
+        store = open_store(tmp_path / "en.db")
+        site = store.add_site("Harrow Quay Grain Store", code="en1993-1-1", unit_system="si")
+        col = store.add_column(site.id, {
+            "tag": "K/1", "section": "HE 200 B", "material": "S355", "length": "4 m",
+            "demand": {"axial": "900 kN"}})
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/columns/{col.id}")
+        assert not s.has("basis-lrfd") and not s.has("basis-asd")
+        with pytest.raises(Exception, match="expected lrfd or asd"):
+            m.edit_change(col.id, "basis", "allowable")[0](store)
+        store.close()
     _run(walk())
 
 
@@ -576,6 +631,38 @@ def test_list_filters_search_and_scroll_kept_on_back(demo, width):
         assert all(r.startswith("column-C/") for r in rows()) and s.text(
             "column-search") == "c/"
         assert ("scroll_to", 612.0) in [(n, a.get("offset")) for n, a in s.client.invoked]
+    _run(walk())
+
+
+def test_tablet_next_column_beside_the_list_sends_only_what_changed(demo):
+    """On a tablet, a tap on another column of the list beside shows it without sending the
+    list again: the other rows stay as drawn (two rows change their highlight)."""
+    async def walk():
+        store, site = demo
+        s = Screen(store, 820)
+        await s.start()
+        await s.go(f"/sites/{site.id}")
+        await s.tap("column-A/1-G")
+        assert s.app.detail.tag == "A/1-G"
+        first = sum(map(len, s.client.sent))
+        s.client.sent.clear()
+        await s.tap("column-B/2-G")
+        assert s.app.detail.tag == "B/2-G" and "B/2-G" in s.text("column-tag")
+        sent = b"".join(s.client.sent)
+        # the rows of other columns are not in what went to the device
+        others = [r.tag for r in m.column_page(store, site.id).rows
+                  if r.tag not in ("A/1-G", "B/2-G")]
+        assert len(others) == 22
+        assert not [t for t in others if f"column-{t}".encode() in sent], "list re-sent"
+        # the two rows swapped their highlight, in place
+        a = s.find("column-A/1-G").content
+        b = s.find("column-B/2-G").content
+        assert b.bgcolor == v.CHOSEN_BG and a.bgcolor == v.CARD
+        print(f"first column {first} bytes, the next {len(sent)} bytes")
+        # the same place: Back to the site, then a column: drawn whole again (a new screen)
+        await s.go(f"/sites/{site.id}")
+        await s.tap("column-C/3-G")
+        assert s.app.detail.tag == "C/3-G" and "C/3-G" in s.text("column-tag")
     _run(walk())
 
 

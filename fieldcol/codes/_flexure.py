@@ -242,7 +242,8 @@ def elastic_lt_moment(E: np.ndarray, G: np.ndarray, Iz: np.ndarray, Iw: np.ndarr
 
 def en_moment(kind: str, axis: str, sec: dict[str, np.ndarray], cls: np.ndarray, fy: np.ndarray,
               E: np.ndarray, G: np.ndarray, Lb: np.ndarray, t: Trace,
-              Weff: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
+              Weff: np.ndarray | None = None, *, rolled_case: bool = False,
+              psi: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
     """Characteristic moment resistance and lateral-torsional reduction per EN 1993-1-1.
 
     M_Rk = W_pl fy (Class 1, 2), W_el fy (Class 3) or W_eff fy (Class 4, ``Weff`` given; NaN
@@ -250,10 +251,15 @@ def en_moment(kind: str, axis: str, sec: dict[str, np.ndarray], cls: np.ndarray,
     chi_LT per 6.3.2.2 (general case) for an I bent about its strong axis, with Mcr for
     Lb = the twist length and C1 = 1.0 (uniform moment: conservative); 1.0 otherwise (weak-axis
     bending, and hollow sections, which are not susceptible to torsional deformation).
+    With ``rolled_case`` chi_LT follows 6.3.2.3 instead (rolled and equivalent welded I: see
+    ``chi_lt_rolled``), and ``psi`` (the end-moment ratio over Lb, -1..1; NaN or None: unknown
+    diagram) gives C1 in Mcr and k_c in f; unknown diagrams take C1 = k_c = 1.0 (conservative).
 
     Args:
         kind, axis: section kind and bending axis; sec: section arrays; cls: section class 1..4;
         fy, E, G: MPa; Lb: length between twist restraints (mm); t: trace.
+        rolled_case: 6.3.2.3 in place of 6.3.2.2; psi: end-moment ratio per column (EN sign:
+            +1 uniform moment).
     Returns:
         (M_Rk N*mm, chi_LT).
 
@@ -280,6 +286,8 @@ def en_moment(kind: str, axis: str, sec: dict[str, np.ndarray], cls: np.ndarray,
         chi = t.add("chi_LT", f"lateral-torsional reduction factor ({why})", "1.0", np.ones(M_Rk.shape), "",
                     C6322)
         return M_Rk, chi
+    if rolled_case:
+        return M_Rk, chi_lt_rolled(sec, M_Rk, E, G, Lb, psi, t)
     Mcr = t.add("Mcr", "elastic critical moment for lateral-torsional buckling",
                 "C1 pi^2 E Iz / L^2 sqrt(Iw/Iz + L^2 G It / (pi^2 E Iz)), C1 = 1.0, L = Lc,twist",
                 elastic_lt_moment(E, G, sec["Iy"], sec["Cw"], sec["J"], Lb), "N*mm", f"{C6322} (2)")
@@ -296,6 +304,92 @@ def en_moment(kind: str, axis: str, sec: dict[str, np.ndarray], cls: np.ndarray,
                 "1 / (Phi_LT + sqrt(Phi_LT^2 - lb,LT^2)) <= 1, Phi_LT = 0.5 (1 + alpha_LT (lb,LT - 0.2) "
                 "+ lb,LT^2)", reduction_factor(lb, alpha), "", f"{C6322} (6.56)")
     return M_Rk, chi
+
+
+# C1 of a doubly symmetric I under linear end moments, k = kw = 1, load at the shear centre, by
+# psi = M_small / M_large (+1 uniform moment). Published C1 tables agree for psi >= 0; for reverse
+# curvature they differ by up to a tenth, and the lowest of the values recalled is taken here
+# (conservative). From memory: the tabulations of C1 for end moments in the design guides to
+# EN 1993-1-1 (one is Table C.1 of Steel Buildings in Europe, Single-Storey Part 4, Appendix C;
+# its values were not read for this table).
+C1_PSI = np.array([-1.0, -0.75, -0.5, -0.25, 0.0, 0.25, 0.5, 0.75, 1.0])
+C1_VALUE = np.array([2.55, 2.42, 2.26, 2.05, 1.77, 1.52, 1.31, 1.14, 1.00])
+C6323 = "EN 1993-1-1 6.3.2.3"
+LT0, BETA = 0.4, 0.75          # 6.3.2.3 (1): recommended values (National Annexes may differ)
+
+
+def c1_end_moments(psi: np.ndarray) -> np.ndarray:
+    """C1 for linear end moments by ``psi`` (-1..1; NaN: unknown diagram, C1 = 1.0), linear between
+    the tabulated points (``C1_PSI``, ``C1_VALUE``).
+
+    Example:
+        >>> c1_end_moments(np.array([1.0, 0.0, -1.0, np.nan])).tolist()
+        [1.0, 1.77, 2.55, 1.0]
+    """
+    p = np.asarray(psi, dtype=float)
+    return np.where(np.isnan(p), 1.0, np.interp(np.nan_to_num(p, nan=1.0), C1_PSI, C1_VALUE))
+
+
+def chi_lt_rolled(sec: dict[str, np.ndarray], M_Rk: np.ndarray, E: np.ndarray, G: np.ndarray,
+                  Lb: np.ndarray, psi: np.ndarray | None, t: Trace) -> np.ndarray:
+    """chi_LT,mod of an I bent about its strong axis by EN 1993-1-1 6.3.2.3 (rolled and equivalent
+    welded sections).
+
+    Mcr = C1 pi^2 E Iz / L^2 sqrt(Iw/Iz + L^2 G It / (pi^2 E Iz)) with C1 from ``psi``;
+    Phi_LT = 0.5 (1 + alpha_LT (lb - lb0) + beta lb^2), lb0 = 0.4, beta = 0.75 (recommended);
+    chi_LT = 1 / (Phi_LT + sqrt(Phi_LT^2 - beta lb^2)) <= 1 and <= 1/lb^2 (6.57); curves by
+    Table 6.5 (rolled h/b <= 2: b, > 2: c; welded h/b <= 2: c, > 2: d); then
+    chi_LT,mod = chi_LT / f <= 1, <= 1/lb^2 (6.58), f = 1 - 0.5 (1 - k_c)(1 - 2 (lb - 0.8)^2) <= 1,
+    k_c = 1 / (1.33 - 0.33 psi) (Table 6.6, linear moment; 1.0 for an unknown diagram).
+
+    Args:
+        sec: section arrays; M_Rk: W fy (N*mm); E, G: MPa; Lb: twist length (mm);
+        psi: end-moment ratio over Lb per column (NaN or None: unknown); t: trace.
+    Returns:
+        chi_LT,mod per column.
+
+    Example:
+        >>> sec = {"Iy": np.array([1676e4]), "Cw": np.array([791e9]), "J": np.array([66.9e4]),
+        ...        "d": np.array([450.]), "bf": np.array([190.]), "rolled": np.array([True])}
+        >>> chi = chi_lt_rolled(sec, np.array([1702e3 * 355.]), 210000., 81000., np.array([1700.]),
+        ...                     np.array([1.0]), Trace())
+        >>> round(float(chi[0]), 3)
+        0.961
+    """
+    shape = np.shape(M_Rk)
+    p = np.full(shape, np.nan) if psi is None else np.broadcast_to(np.asarray(psi, dtype=float), shape)
+    C1 = t.add("C1", "moment-diagram factor for Mcr (linear end moments, k = kw = 1)",
+               "tabulated by psi = M_small/M_large, linear between points; unknown diagram: 1.0",
+               c1_end_moments(p), "", "EN 1993-1-1 6.3.2.2 (2); C1 for linear end moments "
+               "(tabulated; the lower value where tabulations differ)")
+    Mcr = t.add("Mcr", "elastic critical moment for lateral-torsional buckling",
+                "C1 pi^2 E Iz / L^2 sqrt(Iw/Iz + L^2 G It / (pi^2 E Iz)), L = Lc,twist",
+                elastic_lt_moment(E, G, sec["Iy"], sec["Cw"], sec["J"], Lb, C1), "N*mm", f"{C6322} (2)")
+    lb = t.add("lb,LT", "non-dimensional slenderness for LTB", "sqrt(W fy / Mcr)", np.sqrt(M_Rk / Mcr), "",
+               f"{C6323} (1)")
+    deep = sec["d"] / sec["bf"] > 2.0
+    curve = np.where(sec["rolled"], np.where(deep, "c", "b"), np.where(deep, "d", "c"))
+    t.add("curve,LT", "lateral-torsional buckling curve (rolled and equivalent welded)",
+          "rolled I: h/b <= 2 b, > 2 c; welded I: h/b <= 2 c, > 2 d", curve, "", "EN 1993-1-1 Table 6.5")
+    alpha = t.add("alpha_LT", "imperfection factor for LTB", "Table 6.3 from the curve",
+                  np.select([curve == k for k in ALPHA_LT], list(ALPHA_LT.values()), np.nan), "",
+                  "EN 1993-1-1 Table 6.3")
+    phi = 0.5 * (1 + alpha * (lb - LT0) + BETA * lb**2)
+    t.add("Phi_LT", "Phi_LT (rolled case)", f"0.5 (1 + alpha_LT (lb,LT - {LT0:g}) + {BETA:g} lb,LT^2)", phi, "",
+          f"{C6323} (6.57)")
+    cap = 1.0 / np.maximum(lb, 1e-12) ** 2
+    chi = np.minimum(np.minimum(1.0, cap), 1.0 / (phi + np.sqrt(np.maximum(phi**2 - BETA * lb**2, 0.0))))
+    t.add("chi_LT,0", "lateral-torsional reduction factor before f",
+          f"1 / (Phi_LT + sqrt(Phi_LT^2 - {BETA:g} lb,LT^2)) <= 1, <= 1/lb,LT^2", chi, "", f"{C6323} (6.57)")
+    kc = t.add("k_c", "correction factor for the moment distribution",
+               "1 / (1.33 - 0.33 psi) (linear moment); unknown diagram: 1.0",
+               np.where(np.isnan(p), 1.0, 1.0 / (1.33 - 0.33 * np.nan_to_num(p, nan=1.0))), "",
+               "EN 1993-1-1 Table 6.6")
+    f = t.add("f_mod", "modification factor f", "1 - 0.5 (1 - k_c)(1 - 2 (lb,LT - 0.8)^2) <= 1",
+              np.minimum(1.0, 1 - 0.5 * (1 - kc) * (1 - 2.0 * (lb - 0.8) ** 2)), "", f"{C6323} (2) (6.58)")
+    return t.add("chi_LT", "lateral-torsional reduction factor (rolled case, modified)",
+                 "chi_LT / f <= 1, <= 1/lb,LT^2", np.minimum(np.minimum(1.0, cap), chi / f), "",
+                 f"{C6323} (6.58)")
 
 
 def en_effective_modulus(kind: str, axis: str, sec: dict[str, np.ndarray], eps: np.ndarray,
@@ -427,4 +521,5 @@ def largest_root(g: Callable[[np.ndarray], np.ndarray], hi: np.ndarray, steps: i
     return np.where(np.isnan(hi), np.nan, lo)
 
 
-__all__ = ["aisc_flexure", "elastic_lt_moment", "en_effective_modulus", "en_moment", "largest_root"]
+__all__ = ["aisc_flexure", "c1_end_moments", "chi_lt_rolled", "elastic_lt_moment", "en_effective_modulus",
+           "en_moment", "largest_root"]

@@ -2,6 +2,13 @@
 flexure, EN 1993-1-1 6.3.3 (6.61), (6.62) with the Annex B (method 2) interaction factors, and a
 first-yield check for the ``elastic`` reference.
 
+Under EN the section is classified under the actual N + M (Table 5.2: the web of an I by the
+plastic alpha for Class 1/2 and the elastic psi for Class 3, at every trial load of the capacity),
+Class 1-3 take A and W_pl / W_el, Class 4 Aeff and Weff (Table 6.7); chi_LT of an I follows 6.3.2.3
+with C1 and k_c from the end moments where those are the only moments (C1 = k_c = 1 otherwise). Two
+channels tied by lacing or battens (``built=``) keep their class in compression and take the chords'
+moment resistances and the built-up slenderness instead (``codes.builtflex``).
+
 The moments on a column as it stands come from four sources, each with its own second-order
 treatment (N*mm, per axis):
 
@@ -37,8 +44,9 @@ from fieldcol.errors import InputError
 from fieldcol.sections._section import Section
 from fieldcol.trace import Trace
 
-from ._en_class import classify
+from ._en_class import classify, web_thresholds, web_under_bending
 from ._flexure import aisc_flexure, en_effective_modulus, en_moment, largest_root
+from .en1993 import reduction_factor
 from ._inputs import prepare
 from .netflange import FlangeHoles, aisc_tension_flange, en_tension_flange
 from ._result import CodeResult, Warning
@@ -99,8 +107,9 @@ def _pair(name: str, value: Any, n: int) -> dict[str, np.ndarray]:
 def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: Any, axial: CodeResult,
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
-                      sway_Pe: Mapping[str, Any] | None = None, holes: FlangeHoles | None = None,
-                      Fu: float | None = None, built: Any = None) -> BeamColumnResult:
+                      sway_Pe: Mapping[str, Any] | None = None, member_length: Any = None,
+                      holes: FlangeHoles | None = None, Fu: float | None = None,
+                      built: Any = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -118,6 +127,8 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
             missing: 0 (one end moment, Cm = 0.6).
         sway_Pe: per axis, the buckling load the sway amplifier divides the column's force by (N);
             missing: the column's own (Pe,story = pi^2 EI / Lc^2).
+        member_length: the length (mm) the end moments act over, for the EN moment diagram between
+            twist restraints (psi of the worst segment, C1, k_c); missing: the twist length.
         holes: fastener holes across the tension flange of a riveted or bolted section
             (``netflange.FlangeHoles``): AISC 360-22 F13.1 / EN 1993-1-1 6.2.5 (4) cap the
             flexural strength about ``holes.axis``; Fu (MPa) is then required.
@@ -178,7 +189,8 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
     if code == "aisc360-22":
         return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu, built)
     if code == "en1993-1-1":
-        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, holes, Fu, built)
+        return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, member_length,
+                   holes, Fu, built)
     if code == "elastic":
         if holes is not None:
             t.add("note", "fastener holes in the tension flange: the first-yield reference uses the "
@@ -347,78 +359,40 @@ def _not_covered(why, M, v, design, n, t) -> BeamColumnResult:
                             [Warning("flexure-not-covered", why, carried | (n > 0))])
 
 
-def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, holes=None, fu=None, built=None):
+def _trace_value(trace: Trace, symbol: str, shape: tuple, n: int) -> np.ndarray | None:
+    """The value of the last step named ``symbol`` in ``trace`` as an array of n, or None."""
+    for s in reversed(trace.steps):
+        if s.symbol == symbol:
+            return np.broadcast_to(np.asarray(s.value, dtype=float), shape).reshape(n)
+    return None
+
+
+def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, member_length,
+        holes=None, fu=None, built=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
+    A = sec["A"]
     cf = None
     if built is not None and built.arrangement == "channels":
         from .builtflex import en_chord_flexure
 
         cf = en_chord_flexure(built, float(fy[0]), float(E[0]), float(G[0]), float(v["Lc_twist"][0]), gamma, t)
+    # a laced, battened or boxed section is closed for torsion: Table B.1 (not susceptible), and
+    # its torsional buckling is reported by the axial check, not applied
+    open_i = kind == "i" and not (built is not None and built.closed)
 
     def mode(name, attr):
         return np.broadcast_to(np.asarray(getattr(axial.modes[name], attr), dtype=float), shape).reshape(n)
 
     eps = np.sqrt(235.0 / fy)
-    cls, _ = classify(kind, sec, eps, Trace())
-    t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls, "",
-          "EN 1993-1-1 Table 5.2")
-    MRk, chi_LT = {}, {}
-    for ax in AXES:
-        Weff = en_effective_modulus(kind, ax, sec, eps, Trace()) if (cls == 4).any() else None
-        sub = Trace()
-        MRk[ax], chi_LT[ax] = en_moment(kind, ax, sec, cls, fy, E, G, v["Lc_twist"], sub, Weff)
-        t.steps += [s.__class__(f"{s.symbol}_{ax}", s.what, s.formula, s.value, s.unit, s.clause)
-                    for s in sub.steps if s.symbol in ("M_Rk", "chi_LT", "Mcr", "lb,LT")]
-    NRk = t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4)", mode("yield", "Pn"), "N",
-                "EN 1993-1-1 6.3.3")
-    chi_y = t.add("chi_y", "flexural buckling factor, strong axis", "Nb,strong / N_Rk",
-                  mode("flexural-strong", "Pn") / NRk, "", "EN 1993-1-1 6.3.1.2")
-    cz = mode("flexural-weak", "Pn") / NRk
-    if kind == "i":
-        cz = np.minimum(cz, mode("torsional", "Pn") / NRk)
-    chi_z = t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
-                  "min(Nb,weak, Nb,torsion) / N_Rk", cz, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
-    Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
-    lb_y, lb_z = mode("flexural-strong", "slenderness"), mode("flexural-weak", "slenderness")
-    if built is not None:
-        # a laced or battened axis has no slenderness of its own in 6.4: sqrt(N_Rk / Ncr,eff)
-        # with the shear-flexible critical load the built-up check reports
-        lb_y, lb_z = (t.add(f"lb_{ax}", f"slenderness, {ax} axis (built-up)", "sqrt(N_Rk / Ncr)",
-                            np.where(np.isnan(lb), np.sqrt(NRk / Ncr[ax]), lb), "", "EN 1993-1-1 6.3.1.2")
-                      for ax, lb in (("strong", lb_y), ("weak", lb_z)))
-    if sway is not None:
-        Ncr = {ax: sway[ax] for ax in AXES}
-    only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
-    Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
-                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
-                np.where(only_ends["strong"], np.maximum(0.6 - 0.4 * ratio["strong"], 0.4), 1.0), "",
-                f"{ANNEX_B} Table B.3")
-    Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
-                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
-                np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
-                f"{ANNEX_B} Table B.3")
-    Ny, Nz = chi_y * NRk / gamma, chi_z * NRk / gamma
-    My_Rd = t.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1",
-                  chi_LT["strong"] * MRk["strong"] / gamma, "N*mm", f"{C633} (6.61), (6.62)")
-    Mz_Rd = t.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", MRk["weak"] / gamma,
-                  "N*mm", f"{C633} (6.61), (6.62)")
-    if cf is not None:
-        My_Rd, Mz_Rd = (t.add(f"Mc_{ax}", f"design moment resistance, {ax} axis (two tied channels, "
-                              "replaces the above)", "see M_Rd of the chords", np.full(n, np.nan if cf.out else cf.Mn[ax]),
-                              "N*mm", "EN 1993-1-1 6.3.2, 6.4.1") for ax in AXES)
-        if cf.out:
-            t.add("note", cf.out, "", "", "", "EN 1993-1-1 Table 5.2")
-    if holes is not None:
-        if holes.axis == "strong":
-            My_Rd = en_tension_flange(holes, fy, fu, sec["Sx"], My_Rd, t)
-        else:
-            Mz_Rd = en_tension_flange(holes, fy, fu, sec["Sy"], Mz_Rd, t)
-    c12 = cls <= 2
-    # a laced, battened or boxed section is closed for torsion: Table B.1 (not susceptible)
-    open_i = kind == "i" and not (built is not None and built.closed)
-
+    comp = Trace()
+    cls_c, _ = classify(kind, sec, eps, comp)
+    cls_flange = _trace_value(comp, "class,flange", (n,), n)
     used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
     has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
+    Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
+    Ncr_own = dict(Ncr)
+    if sway is not None:
+        Ncr = {ax: sway[ax] for ax in AXES}
 
     def M_Ed(N, ax):
         # only the sources this batch has: the bisection calls this some 130 times
@@ -434,7 +408,176 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
             out = out + np.where(M["sway"][ax] > 0, sway_amp * N * M["sway"][ax], 0.0)
         return out
 
-    def factors(N):
+    # Table 5.2 under the actual N and M: the web of an I bent about its strong axis takes the
+    # plastic alpha (Class 1, 2) and the elastic psi (Class 3); flanges, webs of hollow sections
+    # and weak-axis bending keep the class in compression (conservative). The class can only
+    # improve on the class in compression, and worsens as N grows with the moments in proportion.
+    # Tied channels take the chords' own resistances (codes.builtflex): no refinement.
+    refine = kind == "i" and cf is None and has["strong"] and cls_flange is not None
+    if refine:
+        a1, a2, p3 = web_thresholds(sec["ct_web"], eps)
+        c_web = sec["ct_web"] * sec["tw"]
+        half_c = 0.5 * c_web / sec["Ix"]
+
+    def section_class(N):
+        # the same classes as web_under_bending, by the turned-round limits (three comparisons)
+        if not refine:
+            return cls_c
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Ms = M_Ed(N, "strong")
+            Ms = np.where(np.isfinite(Ms), Ms, 0.0)
+            bent = Ms > 0
+            alpha = np.where(bent, np.minimum(1.0, 0.5 * (1 + N / (c_web * sec["tw"] * fy))), 1.0)
+            s_n, s_m = N / A, Ms * half_c
+            psi = np.where(bent, (s_n - s_m) / np.maximum(s_n + s_m, 1e-300), 1.0)
+        cw = np.select([alpha <= a1, alpha <= a2, psi <= p3], [1, 2, 3], 4)
+        return np.maximum(cls_flange, cw)
+
+    if refine:
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Ms_d = M_Ed(N_Ed, "strong")
+            Ms_d = np.where(np.isfinite(Ms_d), Ms_d, 0.0)
+            cw_d, a_d, p_d = web_under_bending(sec["ct_web"], sec["tw"], fy, eps, N_Ed, Ms_d, A, sec["Ix"])
+        cls_d = np.maximum(cls_flange, cw_d)
+    else:
+        cls_d = cls_c
+    if refine:
+        t.add("alpha,web", "compressed share of the web, plastic distribution under N_Ed and M_y,Ed",
+              "(1 + N_Ed / (c tw fy)) / 2 <= 1 (the web carries N)", a_d, "", "EN 1993-1-1 Table 5.2 (sheet 1)")
+        t.add("psi,web", "end-stress ratio of the web, elastic distribution under N_Ed and M_y,Ed",
+              "(N/A - M c/(2 Iy)) / (N/A + M c/(2 Iy))", p_d, "", "EN 1993-1-1 Table 5.2 (sheet 1)")
+        t.add("class", "section class under N + M (web: alpha for Class 1, 2 by 396/456 eps/(13 alpha - 1), "
+              "psi for Class 3 by 42 eps/(0.67 + 0.33 psi); flanges in compression)",
+              "worst of the parts", cls_d, "", "EN 1993-1-1 Table 5.2")
+    else:
+        t.add("class", "section class in compression (used for bending: conservative)", "Table 5.2", cls_c, "",
+              "EN 1993-1-1 Table 5.2")
+
+    # moment resistances for each class the section can take under N + M (<= its class in compression)
+    psi = np.full(n, np.nan)
+    only_ends = {ax: (M["ends"][ax] > 0) & (M["given"][ax] + M["bow"][ax] + M["sway"][ax] == 0) for ax in AXES}
+    if kind == "i":
+        # the worst segment between twist restraints lies at the larger end moment:
+        # psi_seg = 1 - (1 - psi)(L_T / L) for a linear diagram over the member length L
+        L = v["Lc_twist"] if member_length is None else np.broadcast_to(
+            np.asarray(member_length, dtype=float), (n,))
+        share = np.minimum(1.0, v["Lc_twist"] / L)
+        psi = np.where(only_ends["strong"], 1.0 - (1.0 - (-ratio["strong"])) * share, np.nan)
+    candidates = [1, 3] + ([4] if (cls_c == 4).any() else [])
+    MRk = {ax: {} for ax in AXES}
+    chiLT = {ax: {} for ax in AXES}
+    shown: dict[str, Trace] = {}
+    for ax in AXES:
+        Weff = en_effective_modulus(kind, ax, sec, eps, Trace()) if 4 in candidates else None
+        for c in candidates:
+            sub = Trace()
+            MRk[ax][c], chiLT[ax][c] = en_moment(kind, ax, sec, np.full(n, c), fy, E, G, v["Lc_twist"], sub,
+                                                 Weff, rolled_case=kind == "i", psi=psi)
+            shown[f"{ax},{c}"] = sub
+
+    def pick(d, cls):
+        out = d[1]
+        for c in (3, 4):
+            if c in d:
+                out = np.where(cls == c, d[c], out)
+        return out
+
+    # trace at the demand: C1, Mcr, k_c do not depend on the class; W, lb,LT, chi_LT and f do
+    by_class = ("M_Rk", "lb,LT", "chi_LT,0", "f_mod", "chi_LT")
+    for ax in AXES:
+        for s in shown[f"{ax},1"].steps:
+            if s.symbol not in ("M_Rk", "C1", "Mcr", "lb,LT", "curve,LT", "chi_LT,0", "k_c", "f_mod", "chi_LT"):
+                continue
+            value = s.value
+            if s.symbol in by_class:
+                value = pick({c: next(x.value for x in shown[f"{ax},{c}"].steps if x.symbol == s.symbol)
+                              for c in candidates}, cls_d)
+            t.steps.append(s.__class__(f"{s.symbol}_{ax}", s.what, s.formula, value, s.unit, s.clause))
+
+    # axial terms: gross area for Class 1-3 under N + M, the effective area (pure compression) for Class 4
+    NRk4 = mode("yield", "Pn")
+    NRkg = fy * A
+    lb4 = {"strong": mode("flexural-strong", "slenderness"), "weak": mode("flexural-weak", "slenderness"),
+           "torsion": mode("torsional", "slenderness")}
+    chi4 = {"strong": mode("flexural-strong", "Pn") / NRk4, "weak": mode("flexural-weak", "Pn") / NRk4,
+            "torsion": mode("torsional", "Pn") / NRk4}
+    lbg, chig = dict(lb4), dict(chi4)
+    if (cls_c == 4).any():
+        for tag, name in (("strong", "flexural-strong"), ("weak", "flexural-weak"), ("torsion", "torsional")):
+            alpha = _trace_value(axial.trace, f"alpha,{tag}", shape, n)
+            if alpha is None:   # no imperfection factor to redo chi with: keep the effective area's
+                continue
+            with np.errstate(divide="ignore", invalid="ignore"):
+                lb = np.sqrt(NRkg / mode(name, "Pe"))
+            lbg[tag] = np.where(cls_c == 4, lb, lb4[tag])
+            chig[tag] = np.where(cls_c == 4, reduction_factor(lb, alpha), chi4[tag])
+
+    def axial_terms(cls):
+        c4 = cls == 4
+        NRk = np.where(c4, NRk4, NRkg)
+        chi_y = np.where(c4, chi4["strong"], chig["strong"])
+        cz4, czg = chi4["weak"], chig["weak"]
+        if open_i:
+            cz4, czg = np.minimum(cz4, chi4["torsion"]), np.minimum(czg, chig["torsion"])
+        chi_z = np.where(c4, cz4, czg)
+        lb_y = np.where(c4, lb4["strong"], lbg["strong"])
+        lb_z = np.where(c4, lb4["weak"], lbg["weak"])
+        if built is not None:
+            # a laced or battened axis has no slenderness of its own in 6.4: sqrt(N_Rk / Ncr,eff)
+            # with the shear-flexible critical load the built-up check reports
+            with np.errstate(divide="ignore", invalid="ignore"):
+                lb_y, lb_z = (np.where(np.isnan(lb), np.sqrt(NRk / Ncr_own[ax]), lb)
+                              for ax, lb in (("strong", lb_y), ("weak", lb_z)))
+        return NRk, chi_y, chi_z, lb_y, lb_z
+
+    NRk, chi_y, chi_z, lb_yd, lb_zd = axial_terms(cls_d)
+    if built is not None:
+        for ax, lb in (("strong", lb_yd), ("weak", lb_zd)):
+            t.add(f"lb_{ax}", f"slenderness, {ax} axis (built-up)", "sqrt(N_Rk / Ncr)", lb, "",
+                  "EN 1993-1-1 6.3.1.2")
+    t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4 under N + M)", NRk, "N",
+          "EN 1993-1-1 6.3.3, Table 6.7")
+    t.add("chi_y", "flexural buckling factor, strong axis", "6.3.1.2 with A (Aeff for Class 4)", chi_y, "",
+          "EN 1993-1-1 6.3.1.2")
+    t.add("chi_z", "buckling factor, weak axis (open sections: or torsional, the lower)",
+          "min(chi_z, chi_T), A (Aeff for Class 4)", chi_z, "", "EN 1993-1-1 6.3.1.2, 6.3.1.4")
+    Cmy = t.add("Cmy", "equivalent uniform moment factor, strong axis (CmLT the same)",
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["strong"], np.maximum(0.6 - 0.4 * ratio["strong"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
+    Cmz = t.add("Cmz", "equivalent uniform moment factor, weak axis",
+                "end moments only: 0.6 + 0.4 psi >= 0.4, psi = -M1/M2; otherwise 1.0 (conservative)",
+                np.where(only_ends["weak"], np.maximum(0.6 - 0.4 * ratio["weak"], 0.4), 1.0), "",
+                f"{ANNEX_B} Table B.3")
+
+    def resist(cls, trace=None):
+        My = pick({c: chiLT["strong"][c] * MRk["strong"][c] for c in candidates}, cls) / gamma
+        Mz = pick({c: MRk["weak"][c] for c in candidates}, cls) / gamma
+        if trace is not None:
+            trace.add("Mc_strong", "design moment resistance, strong axis", "chi_LT M_y,Rk / gamma_M1", My,
+                      "N*mm", f"{C633} (6.61), (6.62)")
+            trace.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", Mz, "N*mm",
+                      f"{C633} (6.61), (6.62)")
+        if cf is not None:  # tied channels: the chords' resistances, whatever the class of the whole
+            My, Mz = (np.full(n, np.nan if cf.out else cf.Mn[ax]) for ax in AXES)
+            if trace is not None:
+                for ax, m in (("strong", My), ("weak", Mz)):
+                    trace.add(f"Mc_{ax}", f"design moment resistance, {ax} axis (two tied channels, "
+                              "replaces the above)", "see M_Rd of the chords", m, "N*mm", "EN 1993-1-1 6.3.2, 6.4.1")
+                if cf.out:
+                    trace.add("note", cf.out, "", "", "", "EN 1993-1-1 Table 5.2")
+        if holes is not None:  # the cap at the holes does not depend on the class: said once, at N_Ed
+            quiet = Trace() if trace is None else trace
+            if holes.axis == "strong":
+                My = en_tension_flange(holes, fy, fu, sec["Sx"], My, quiet)
+            else:
+                Mz = en_tension_flange(holes, fy, fu, sec["Sy"], Mz, quiet)
+        return My, Mz
+
+    My_Rd, Mz_Rd = resist(cls_d, t)
+
+    def factors(N, cls, Ny, Nz, lb_y, lb_z):
+        c12 = cls <= 2
         ny, nz = N / Ny, N / Nz
         zero = np.zeros(N.shape)
         kyy = kzy = kyz = kzz = zero
@@ -456,19 +599,47 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
             kyz = np.where(c12, 0.6 * kzz, kzz)
         return kyy, kyz, kzy, kzz
 
+    def terms(cls):
+        NRk, chi_y, chi_z, lb_y, lb_z = axial_terms(cls)
+        return (cls, chi_y * NRk / gamma, chi_z * NRk / gamma, lb_y, lb_z, *resist(cls))
+
+    # the bracket: the pure-compression resistance, or the gross one where N + M leaves Class 4
+    gross = np.minimum(chig["strong"], np.minimum(chig["weak"], chig["torsion"]) if open_i else chig["weak"])
+    top = np.where(cls_c == 4, np.maximum(design, gross * NRkg / gamma), design)
+    fixed = split = None
+    if not refine:
+        fixed = terms(cls_c)
+    elif not any(used[("sway", ax)] for ax in AXES):
+        # every moment grows in proportion to N (given, end moments, N e): psi does not change with N
+        # and alpha rises with it, so the web is Class 1/2 up to N2 (alpha = a2) and takes the class
+        # psi gives above; one class over the whole bracket is computed once
+        lo_c, hi_c = section_class(top * 1e-9), section_class(top)
+        if np.array_equal(lo_c, hi_c):
+            fixed = terms(hi_c)
+        else:
+            split = ((2 * a2 - 1) * c_web * sec["tw"] * fy, terms(lo_c), terms(hi_c))
+
     def both(N):
-        kyy, kyz, kzy, kzz = factors(N)
+        if fixed is not None:
+            T = fixed
+        elif split is not None:
+            low = N <= split[0]
+            T = tuple(np.where(low, a, b) for a, b in zip(split[1], split[2]))
+        else:
+            T = terms(section_class(N))
+        cls, Ny, Nz, lb_y, lb_z, My, Mz = T
+        kyy, kyz, kzy, kzz = factors(N, cls, Ny, Nz, lb_y, lb_z)
         a, b = N / Ny, N / Nz
         if has["strong"]:
-            my = M_Ed(N, "strong") / My_Rd
+            my = M_Ed(N, "strong") / My
             a, b = a + kyy * my, b + kzy * my
         if has["weak"]:
-            mz = M_Ed(N, "weak") / Mz_Rd
+            mz = M_Ed(N, "weak") / Mz
             a, b = a + kyz * mz, b + kzz * mz
-        return a, b
+        return a, b, (kyy, kyz, kzy, kzz)
 
     def member(N):
-        a, b = both(N)
+        a, b, _ = both(N)
         return np.maximum(a, b), np.where(a >= b, "6.61", "6.62")
 
     g = member
@@ -497,22 +668,20 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
     t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
           "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
     nan = np.isnan(My_Rd) | np.isnan(Mz_Rd)
-    cap, ratio, eq = _solve(g, N_Ed, design, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
-                            "(bisection)", f"{C633} (6.61), (6.62)")
+    cap, ratio_, eq = _solve(g, N_Ed, top, nan, t, "largest N with (6.61), (6.62) <= 1, moments in proportion "
+                             "(bisection)", f"{C633} (6.61), (6.62)")
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         Mr = {ax: t.add(f"M_Ed_{ax}", f"design moment, {ax} axis (first order; sway: 1/(1 - N/Ncr))",
                         "given + end + N e + N D/(1 - N/Ncr)", M_Ed(N_Ed, ax), "N*mm", C633) for ax in AXES}
-        kyy, kyz, kzy, kzz = factors(N_Ed)
-        for name, k, ax in (("kyy", kyy, "strong"), ("kyz", kyz, "weak"), ("kzy", kzy, "strong"),
-                            ("kzz", kzz, "weak")):
+        u61, u62, ks = both(N_Ed)
+        for name, k, ax in zip(("kyy", "kyz", "kzy", "kzz"), ks, ("strong", "weak", "strong", "weak")):
             if has[ax]:    # a factor on a moment the column does not carry is not shown
                 t.add(name, f"interaction factor {name} at N_Ed", "Annex B", k, "", ANNEX_B)
-        u61, u62 = both(N_Ed)
     t.add("(6.61)", "interaction, strong-axis buckling",
           "N/(chi_y N_Rk/gM1) + kyy My/(chi_LT My,Rk/gM1) + kyz Mz/(Mz,Rk/gM1)", u61, "", f"{C633} (6.61)")
     t.add("(6.62)", "interaction, weak-axis buckling",
           "N/(chi_z N_Rk/gM1) + kzy My/(chi_LT My,Rk/gM1) + kzz Mz/(Mz,Rk/gM1)", u62, "", f"{C633} (6.62)")
-    t.add("ratio", "interaction ratio", "max((6.61), (6.62))", ratio, "", C633)
+    t.add("ratio", "interaction ratio", "max((6.61), (6.62))", ratio_, "", C633)
     warnings = []
     if (np.asarray(M["given"]["strong"] + M["given"]["weak"]) > 0).any():
         warnings.append(Warning("given-moments-amplified", "moments given with second-order effects are "
@@ -524,7 +693,7 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, h
                                 "EN 1993-1-1 (a Class 4 circular hollow section): no beam-column strength", nan))
     if cf is not None:
         _tie_shear_warning(M, cf, warnings)
-    return BeamColumnResult(ratio, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
+    return BeamColumnResult(ratio_, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
 
 
 def _elastic(sec, v, M, axial, shape, n, Pr, design, t):

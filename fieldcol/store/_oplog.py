@@ -34,6 +34,7 @@ from datetime import datetime, timezone
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
+from fieldcol.store._gcpause import gc_paused
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -294,10 +295,13 @@ def row_op(op_id: str, device_id: str, hlc: int, tbl: str, row_id: str,
 @dataclass(frozen=True)
 class ApplyResult:
     """What applying a batch of operations did: ``new`` operations kept (repeats are skipped),
-    ``rows`` rows written, ``pending`` rows waiting for operations not yet received."""
+    ``rows`` rows written, ``pending`` rows waiting for operations not yet received;
+    ``seqs``: the local sequence numbers the new operations took, first and last (they are
+    numbered one after another in one statement), None when nothing was new."""
     new: int
     rows: int
     pending: int
+    seqs: tuple[int, int] | None = None
 
 
 @dataclass(frozen=True)
@@ -430,6 +434,25 @@ class Schema:
                 break
         return done
 
+    def check_all(self, ops: list[Op], where: str = "ops") -> dict[int, dict[str, Any]]:
+        """``check`` of every operation (named ``where[i]`` when one is refused), by ``id(op)``.
+
+        Example:
+            >>> Schema(store.db.conn).check_all([])
+            {}
+        """
+        settable = self._settable
+        out = {}
+        for i, op in enumerate(ops):
+            d = op.decoded
+            # the usual row operation, checked at once as in ``check``
+            if d is not None and op.field == ROW and op.tbl not in _FILE_TABLES and \
+                    op.tbl in settable and settable[op.tbl].issuperset(d):
+                out[id(op)] = d
+            else:
+                out[id(op)] = self.check(op, f"{where}[{i}]")
+        return out
+
     def check(self, op: Op, where: str = "op") -> dict[str, Any]:
         """Refuse an operation naming a table or field this store does not have; returns the
         values it sets (field -> stored value), decoded once for the merge.
@@ -490,6 +513,10 @@ def install(conn: sqlite3.Connection, device_id: str | None) -> None:
     operations become operations of the device that last wrote them, at that time.
     """
     schema = Schema(conn)
+    # every merge asks for the rows still waiting (almost always none): without this it read
+    # every row's note, a pass over the whole store for each batch
+    conn.execute("CREATE INDEX IF NOT EXISTS sync_rows_pending ON sync_rows(tbl, row_id) "
+                 "WHERE pending = 1")
     for key in sorted({u[0] for t in schema.tables for u in schema.uniques[t]}):
         # the claims to a unique key are looked up by value: index only those fields' values
         conn.execute(f"CREATE INDEX IF NOT EXISTS {_key_index(key)} ON sync_fields(tbl, value) "
@@ -817,7 +844,7 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
         0
     """
     ops = list(ops)
-    decoded = {id(o): schema.check(o, f"ops[{i}]") for i, o in enumerate(ops)}
+    decoded = schema.check_all(ops)
     if ops and max_future_ms is not None:
         latest = max(ops, key=lambda o: o.hlc)
         if hlc_ms(latest.hlc) > wall_ms() + max_future_ms:
@@ -827,7 +854,8 @@ def apply(conn: sqlite3.Connection, ops: Iterable[Op], schema: Schema, *, source
     flush(conn, _local_device(conn), schema)  # local edits first: what follows is not ours
     conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')", [QUIET])
     try:
-        return _merge(conn, ops, decoded, schema, source)
+        with gc_paused():
+            return _merge(conn, ops, decoded, schema, source)
     finally:
         conn.execute("DELETE FROM meta WHERE key = ?", [QUIET])
 
@@ -836,8 +864,10 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
            schema: Schema, source: str) -> ApplyResult:
     """``apply`` once local edits are logged, with the triggers standing still."""
     new = _store_ops(conn, ops, source)
+    seqs = None
     if new:
         _hlc_save(conn, max(_hlc_state(conn), max(o.hlc for o in new)))
+        seqs = _seq_span(conn, new)
     by_ops: dict[tuple[str, str], list[tuple[Op, dict[str, Any]]]] = {}
     for o in new:
         by_ops.setdefault((o.tbl, o.row_id), []).append((o, decoded[id(o)]))
@@ -853,7 +883,16 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
     old_raw: dict[tuple[str, str, str], str | None] = {}
     unique_fields = {(t, u[0]) for t in schema.uniques for u in schema.uniques[t]}
     fields_rows = []
-    rows_rows = [(t, r, max(o.hlc for o, _ in lst)) for (t, r), lst in by_ops.items()]
+    seq_of = {id(o): seqs[0] + i for i, o in enumerate(new)} if seqs else {}
+    # a row first seen here, by one logged operation: SQLite notes it from the log itself
+    first_seen = []
+    rows_rows = []
+    for key, lst in by_ops.items():
+        seq = seq_of.get(id(lst[0][0])) if len(lst) == 1 and key not in known else None
+        if seq is None:
+            rows_rows.append((*key, max(o.hlc for o, _ in lst)))
+        else:
+            first_seen.append(seq)
     for (tbl, row_id), lst in by_row.items():  # rows held already; new ones are written whole
         best: dict[str, Entry] = {}
         for e in lst:
@@ -875,10 +914,14 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
         "INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?) "
         "ON CONFLICT(tbl, row_id) DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)",
         rows_rows)
+    if first_seen:
+        conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) SELECT o.tbl, o.row_id, "
+                     "o.hlc FROM json_each(?) AS k CROSS JOIN sync_ops AS o ON o.seq = k.value "
+                     "ORDER BY o.tbl, o.row_id", [json.dumps(first_seen)])
     fresh = {k: lst for k, lst in by_ops.items() if k not in known}
     from fieldcol.store._opbulk import write_fresh  # (it builds on this module)
 
-    written, slow = write_fresh(conn, schema, fresh, entries)
+    written, slow = write_fresh(conn, schema, fresh, entries, seq_of)
     touched = dict.fromkeys(slow)
     touched.update(dict.fromkeys(by_row))
     for r in conn.execute("SELECT tbl, row_id FROM sync_rows WHERE pending = 1").fetchall():
@@ -887,7 +930,17 @@ def _merge(conn: sqlite3.Connection, ops: list[Op], decoded: dict[int, dict[str,
                             {k: entries(k) for k in slow})
     conn.execute("DELETE FROM sync_dirty")  # rows written here are the merge's, not edits
     pending = conn.execute("SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0]
-    return ApplyResult(len(new), written, pending)
+    return ApplyResult(len(new), written, pending, seqs)
+
+
+def _seq_span(conn: sqlite3.Connection, new: list[Op]) -> tuple[int, int] | None:
+    """The first and last local sequence numbers of operations just stored by one statement;
+    None unless they run one after another with nothing else between them."""
+    first, last = (conn.execute("SELECT seq FROM sync_ops WHERE op_id = ?", [o.op_id]).fetchone()
+                   for o in (new[0], new[-1]))
+    if first is None or last is None or last[0] - first[0] + 1 != len(new):
+        return None
+    return first[0], last[0]
 
 
 def _local_device(conn: sqlite3.Connection) -> str:
@@ -1183,19 +1236,59 @@ def list_conflicts(conn: sqlite3.Connection, *, open_only: bool = True) -> list[
     return out
 
 
+#: the most sequence spans a pull may leave out (see ``ops_after``)
+MAX_SKIP_SPANS = 64
+
+
 def ops_after(conn: sqlite3.Connection, seq: int, limit: int, *,
-              exclude_source: str | None = None) -> list[tuple[int, Op]]:
+              exclude_source: str | None = None,
+              skip: tuple[str, list[tuple[int, int]]] | None = None) -> list[tuple[int, Op]]:
     """Operations with a local sequence after ``seq``, oldest first, at most ``limit``.
+
+    ``skip``: (device id, spans of sequence numbers): operations of that device within those
+    spans are left out (a device's own operations, which it holds: see ``sync.client``).
 
     Example:
         >>> ops_after(store.db.conn, 10**9, 5)
         []
     """
-    sql = ("SELECT seq, op_id, device_id, hlc, tbl, row_id, field, value, seen FROM sync_ops "
-           "WHERE seq > ?")
+    sql, params = _after_sql("seq, op_id, device_id, hlc, tbl, row_id, field, value, seen", seq,
+                             limit, exclude_source, skip)
+    return [(r[0], Op(*r[1:])) for r in conn.execute(sql, params)]
+
+
+#: an operation as JSON text, made by SQLite: the fields of ``Op.to_json`` in its order
+_OP_JSON = ("json_object('op_id', op_id, 'device_id', device_id, 'hlc', hlc, 'tbl', tbl, "
+            "'row_id', row_id, 'field', field, 'value', value, 'seen', seen)")
+
+
+def ops_json_after(conn: sqlite3.Connection, seq: int, limit: int, *,
+                   exclude_source: str | None = None,
+                   skip: tuple[str, list[tuple[int, int]]] | None = None
+                   ) -> list[tuple[int, str, str]]:
+    """Like ``ops_after``, each operation as (sequence, table, JSON text of ``Op.to_json()``).
+
+    Why: what goes over the wire is text; SQLite writes it from the stored fields without an
+    ``Op`` made and encoded again for each (a sync sends every operation twice).
+
+    Example:
+        >>> ops_json_after(store.db.conn, 10**9, 5)
+        []
+    """
+    sql, params = _after_sql(f"seq, tbl, {_OP_JSON}", seq, limit, exclude_source, skip)
+    return conn.execute(sql, params).fetchall()
+
+
+def _after_sql(columns: str, seq: int, limit: int, exclude_source: str | None,
+               skip: tuple[str, list[tuple[int, int]]] | None) -> tuple[str, list[Any]]:
+    sql = f"SELECT {columns} FROM sync_ops WHERE seq > ?"
     params: list[Any] = [seq]
     if exclude_source:
         sql += " AND source != ?"
         params.append(exclude_source)
-    params.append(limit)
-    return [(r[0], Op(*r[1:])) for r in conn.execute(sql + " ORDER BY seq LIMIT ?", params)]
+    if skip and skip[1]:
+        spans = skip[1][:MAX_SKIP_SPANS]
+        sql += (" AND NOT (device_id = ? AND ("
+                + " OR ".join("seq BETWEEN ? AND ?" for _ in spans) + "))")
+        params += [skip[0], *(n for span in spans for n in span)]
+    return sql + " ORDER BY seq LIMIT ?", [*params, limit]

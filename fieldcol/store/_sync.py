@@ -53,16 +53,33 @@ class SyncMixin(StoreBase):
         """
         return [op for _, op in self.ops_with_seq(seq, limit, exclude_source=exclude_source)]
 
-    def ops_with_seq(self, seq: int, limit: int = 1000, *,
-                     exclude_source: str | None = None) -> list[tuple[int, Op]]:
-        """Like ``ops_after`` with each operation's local sequence number.
+    def ops_with_seq(self, seq: int, limit: int = 1000, *, exclude_source: str | None = None,
+                     skip: tuple[str, list[tuple[int, int]]] | None = None
+                     ) -> list[tuple[int, Op]]:
+        """Like ``ops_after`` with each operation's local sequence number; ``skip``: (device
+        id, spans of sequence numbers) whose operations of that device are left out.
 
         Example:
             >>> store.ops_with_seq(0, 1)[0][0] >= 1
             True
         """
         with self._lock:
-            return _oplog.ops_after(self.db.conn, seq, limit, exclude_source=exclude_source)
+            return _oplog.ops_after(self.db.conn, seq, limit, exclude_source=exclude_source,
+                                    skip=skip)
+
+    def ops_json_with_seq(self, seq: int, limit: int = 1000, *,
+                          exclude_source: str | None = None,
+                          skip: tuple[str, list[tuple[int, int]]] | None = None
+                          ) -> list[tuple[int, str, str]]:
+        """Like ``ops_with_seq``, each operation as (sequence, table, its JSON text).
+
+        Example:
+            >>> seq, tbl, text = store.ops_json_with_seq(0, 1)[0]; text.startswith('{"op_id"')
+            True
+        """
+        with self._lock:
+            return _oplog.ops_json_after(self.db.conn, seq, limit, exclude_source=exclude_source,
+                                         skip=skip)
 
     def held_ops(self, op_ids: Iterable[str]) -> set[str]:
         """Which of these operation ids are logged here already.
@@ -123,6 +140,51 @@ class SyncMixin(StoreBase):
         with self._tx():
             self.db.execute("INSERT INTO sync_cursors (name, value) VALUES (?, ?) ON CONFLICT(name) "
                             "DO UPDATE SET value = excluded.value", [name, int(value)])
+
+    def own_spans(self, hub_id: str) -> list[tuple[int, int]]:
+        """Spans of the hub's sequence numbers (first, last) that hold only operations this
+        store pushed there itself (so holds), oldest first; see ``note_own_span``.
+
+        Example:
+            >>> store.own_spans("hub-1")
+            []
+        """
+        prefix = _own_prefix(hub_id)
+        with self._lock:
+            rows = self.db.conn.execute(
+                "SELECT name, value FROM sync_cursors WHERE substr(name, 1, ?) = ?",
+                [len(prefix), prefix]).fetchall()
+        return sorted((int(name[len(prefix):]), value) for name, value in rows)
+
+    def note_own_span(self, hub_id: str, first: int, last: int) -> None:
+        """Remember that hub sequence numbers ``first``..``last`` hold only operations this
+        store pushed (inside the caller's transaction, with the push cursor it moves).
+
+        Why here, in the store: a store restored from an older copy forgets the spans of the
+        pushes it forgot with them, so it never asks to be spared operations it lacks.
+
+        Example:
+            >>> store.note_own_span("hub-1", 5, 9); store.own_spans("hub-1")
+            [(5, 9)]
+        """
+        with self._tx():
+            self.db.execute("INSERT INTO sync_cursors (name, value) VALUES (?, ?) ON "
+                            "CONFLICT(name) DO UPDATE SET value = excluded.value",
+                            [f"{_own_prefix(hub_id)}{int(first)}", int(last)])
+
+    def forget_own_spans(self, hub_id: str, upto: int | None = None) -> None:
+        """Drop the spans that end at or before ``upto`` (all of them when None: the hub's
+        numbers no longer mean what they did).
+
+        Example:
+            >>> store.note_own_span("hub-1", 5, 9); store.forget_own_spans("hub-1", 9)
+            >>> store.own_spans("hub-1")
+            []
+        """
+        prefix = _own_prefix(hub_id)
+        with self._tx():
+            self.db.execute("DELETE FROM sync_cursors WHERE substr(name, 1, ?) = ? AND value <= ?",
+                            [len(prefix), prefix, 2 ** 62 if upto is None else int(upto)])
 
     # -- conflicts ------------------------------------------------------------------------------
     def conflicts(self, *, open_only: bool = True) -> list[Conflict]:
@@ -186,3 +248,7 @@ class SyncMixin(StoreBase):
                     .fetchone()[0],
                     "conflicts": c.execute("SELECT count(*) FROM sync_conflicts WHERE open = 1")
                     .fetchone()[0]}
+
+
+def _own_prefix(hub_id: str) -> str:
+    return f"own:{hub_id}:"

@@ -138,11 +138,21 @@ class HubStore:
     # -- operations ---------------------------------------------------------------------------
     def push(self, ops: list[Op]) -> PushResult:
         """Merge pushed operations (repeats skipped by id); refuses clocks far ahead."""
-        return PushResult(self.store.apply_ops(ops, source="push").new)
+        result = self.store.apply_ops(ops, source="push")
+        return PushResult(result.new, result.seqs)
 
-    def pull(self, after: int, limit: int) -> list[tuple[int, Op]]:
-        """Operations after hub sequence ``after``, oldest first."""
-        return self.store.ops_with_seq(after, limit)
+    def pull(self, after: int, limit: int,
+             skip: tuple[str, list[tuple[int, int]]] | None = None) -> list[tuple[int, Op]]:
+        """Operations after hub sequence ``after``, oldest first; ``skip``: (device id, spans)
+        whose operations of that device are left out."""
+        return self.store.ops_with_seq(after, limit, skip=skip)
+
+    def pull_json(self, after: int, limit: int,
+                  skip: tuple[str, list[tuple[int, int]]] | None = None
+                  ) -> list[tuple[int, str]]:
+        """``pull``, each operation as its JSON text (``Op.to_json()``'s fields)."""
+        return [(seq, text) for seq, _, text in
+                self.store.ops_json_with_seq(after, limit, skip=skip)]
 
     def max_seq(self) -> int:
         """The hub's newest sequence number."""

@@ -34,7 +34,7 @@ from typing import Any, Iterator
 
 from fieldcol.errors import InputError
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import Op, Schema
+from fieldcol.store._oplog import MAX_SKIP_SPANS, Op, Schema
 from fieldcol.sync._hubapi import (Device, HubUnavailable, PushResult, check_name, check_pushed,
                                    now_text, token_hash)
 from fieldcol.sync._hubphotos import HubPhotos
@@ -77,7 +77,8 @@ CREATE INDEX hub_ops_device ON hub_ops (device_id);
 
 
 _PUSH_SQL = """
-WITH seq_lock AS MATERIALIZED (SELECT pg_advisory_xact_lock(%s) AS held)
+WITH seq_lock AS MATERIALIZED (SELECT pg_advisory_xact_lock(%s) AS held),
+added AS (
 INSERT INTO hub_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen)
 SELECT u.op_id, u.device_id, u.hlc, u.tbl, u.row_id, u.field, u.value, u.seen
 FROM seq_lock, unnest(%s::text[], %s::text[], %s::bigint[], %s::text[], %s::text[], %s::text[],
@@ -85,6 +86,9 @@ FROM seq_lock, unnest(%s::text[], %s::text[], %s::bigint[], %s::text[], %s::text
      WITH ORDINALITY AS u(op_id, device_id, hlc, tbl, row_id, field, value, seen, n)
 ORDER BY u.n
 ON CONFLICT (op_id) DO NOTHING
+RETURNING seq
+)
+SELECT count(*), min(seq), max(seq) FROM added
 """
 
 
@@ -270,16 +274,40 @@ class PgHubStore:
             # one statement, so one transaction that the server runs and commits without
             # another round trip: the lock is never held while this process waits for its
             # turn on a busy processor
-            cur = c.execute(_PUSH_SQL, [SEQ_LOCK, *[list(col) for col in cols]])
-            return PushResult(max(cur.rowcount, 0))
+            n, first, last = c.execute(_PUSH_SQL, [SEQ_LOCK, *[list(col) for col in cols]]
+                                       ).fetchone()
+        # the lock keeps every other push out until this one commits: the span between its
+        # first and last numbers holds its own operations only (and gaps left by repeats)
+        return PushResult(n, (first, last) if n else None)
 
-    def pull(self, after: int, limit: int) -> list[tuple[int, Op]]:
-        """Operations after hub sequence ``after``, oldest first."""
-        with self._conn() as c:
-            rows = c.execute("SELECT seq, op_id, device_id, hlc, tbl, row_id, field, value, seen "
-                             "FROM hub_ops WHERE seq > %s ORDER BY seq LIMIT %s",
-                             [after, limit]).fetchall()
+    def pull(self, after: int, limit: int,
+             skip: tuple[str, list[tuple[int, int]]] | None = None) -> list[tuple[int, Op]]:
+        """Operations after hub sequence ``after``, oldest first; ``skip``: (device id, spans)
+        whose operations of that device are left out."""
+        rows = self._after("seq, op_id, device_id, hlc, tbl, row_id, field, value, seen",
+                           after, limit, skip)
         return [(r[0], Op(*r[1:])) for r in rows]
+
+    def pull_json(self, after: int, limit: int,
+                  skip: tuple[str, list[tuple[int, int]]] | None = None
+                  ) -> list[tuple[int, str]]:
+        """``pull``, each operation as its JSON text (``Op.to_json()``'s fields), written by
+        PostgreSQL."""
+        return self._after("seq, json_build_object('op_id', op_id, 'device_id', device_id, "
+                           "'hlc', hlc, 'tbl', tbl, 'row_id', row_id, 'field', field, "
+                           "'value', value, 'seen', seen)::text", after, limit, skip)
+
+    def _after(self, columns: str, after: int, limit: int,
+               skip: tuple[str, list[tuple[int, int]]] | None) -> list[Any]:
+        sql = f"SELECT {columns} FROM hub_ops WHERE seq > %s"
+        params: list[Any] = [after]
+        if skip and skip[1]:
+            spans = skip[1][:MAX_SKIP_SPANS]
+            sql += (" AND NOT (device_id = %s AND ("
+                    + " OR ".join("seq BETWEEN %s AND %s" for _ in spans) + "))")
+            params += [skip[0], *(n for span in spans for n in span)]
+        with self._conn() as c:
+            return c.execute(sql + " ORDER BY seq LIMIT %s", [*params, limit]).fetchall()
 
     def max_seq(self) -> int:
         """The hub's newest committed sequence number."""

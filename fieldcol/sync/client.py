@@ -9,8 +9,11 @@ repeats it harmlessly (operations are taken by id, photos by content hash).
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
+import ssl
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
@@ -18,8 +21,10 @@ import httpx
 
 from fieldcol.errors import InputError
 from fieldcol.store import Store
+from fieldcol.store._gcpause import gc_paused
 from fieldcol.store._migrations import MIGRATION_NAMES
-from fieldcol.store._oplog import FUTURE_TOLERANCE_MS, Conflict, ops_from_json, wall_ms
+from fieldcol.store._oplog import (FUTURE_TOLERANCE_MS, MAX_SKIP_SPANS, Conflict, Op,
+                                   ops_from_json, wall_ms)
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -59,6 +64,13 @@ class SyncReport:
         return out
 
 
+@functools.lru_cache(maxsize=1)
+def _tls_context() -> ssl.SSLContext:
+    """The certificate check for an https hub, made once a process (reading the authorities'
+    certificates took longer than a small sync's requests)."""
+    return httpx.create_ssl_context()
+
+
 class _Hub:
     """Thin HTTP calls; every failure becomes an InputError naming what to fix."""
 
@@ -70,6 +82,7 @@ class _Hub:
             raise InputError("token", "", "no token given", "ask for one: fieldcol hub add-device")
         self.url = url.rstrip("/")
         self.http = httpx.Client(base_url=self.url, timeout=TIMEOUT_S, transport=transport,
+                                 verify=_tls_context(),
                                  headers={"Authorization": f"Bearer {token}"})
 
     def close(self) -> None:
@@ -154,10 +167,11 @@ def sync_with_hub(store: Store, url: str, token: str, *,
                 int(hello["have_from_you"]) < _own_ops_upto(store, store.cursor(push_c)):
             store.set_cursor(push_c, 0)
             store.set_cursor(pull_c, 0)
+            store.forget_own_spans(hub_id)
             report.warnings.append("the hub holds less than it acknowledged (restored from a "
                                    "backup?): everything was sent again")
-        _push(store, hub, push_c, report, say)
-        _pull(store, hub, pull_c, report, say)
+        _push(store, hub, hub_id, push_c, report, say)
+        _pull(store, hub, hub_id, pull_c, report, say)
         report.conflicts = store.conflicts()
     finally:
         hub.close()
@@ -170,25 +184,32 @@ def _own_ops_upto(store: Store, seq: int) -> int:
                                      "seq <= ?", [store.device_id, seq]).fetchone()[0]
 
 
-def _push(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+def _push(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
           say: Callable[[str, int, int], None]) -> None:
     total = max(0, store.last_op_seq() - store.cursor(cursor))
     done = 0
     while True:
-        batch = store.ops_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
+        # each operation as the JSON text that goes, written by SQLite
+        batch = store.ops_json_with_seq(store.cursor(cursor), PUSH_BATCH, exclude_source="hub")
         if not batch:
             break
-        ops = [op for _, op in batch]
-        for sha, name in needed_photos(ops).items():  # photos before the rows naming them
+        photo_ops = [Op.from_json(json.loads(text)) for _, tbl, text in batch if tbl == "photos"]
+        for sha, name in needed_photos(photo_ops).items():  # photos before the rows naming them
             if _upload(store, hub, sha):
                 report.photos_sent += 1
         head = json.dumps({"device": store.device_id, "schema": list(MIGRATION_NAMES)})
-        body = f'{head[:-1]},"ops":[{",".join(o.to_json_text() for o in ops)}]}}'
-        hub.call("POST", "/v1/push", content=body.encode(),
-                 headers={"Content-Type": "application/json"})
-        store.set_cursor(cursor, batch[-1][0])  # only after the acknowledgement
-        report.sent += len(ops)
-        done += len(ops)
+        body = f'{head[:-1]},"ops":[{",".join([text for _, _, text in batch])}]}}'
+        ack = hub.call("POST", "/v1/push", content=body.encode(),
+                       headers={"Content-Type": "application/json"}).json()
+        with store._tx():  # only after the acknowledgement
+            store.set_cursor(cursor, batch[-1][0])
+            span = ack.get("seqs") if isinstance(ack, dict) else None
+            if isinstance(span, list) and len(span) == 2 and all(
+                    type(n) is int for n in span) and 0 < span[0] <= span[1]:
+                # what this push added to the hub: no need to pull it back
+                store.note_own_span(hub_id, span[0], span[1])
+        report.sent += len(batch)
+        done += len(batch)
         say("send", done, total)
 
 
@@ -214,34 +235,81 @@ def _upload(store: Store, hub: _Hub, sha: str) -> bool:
     return True
 
 
-def _pull(store: Store, hub: _Hub, cursor: str, report: SyncReport,
+def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
           say: Callable[[str, int, int], None]) -> None:
-    while True:
-        after = store.cursor(cursor)
-        body = hub.call("GET", "/v1/pull", params={"after": after, "limit": PULL_BATCH}).json()
-        rows = body["ops"]
-        if not rows:
-            break
-        objs = [o for _, o in rows]
-        # this device's own operations come back too: skip those held before decoding them
-        # (photo rows still go through the photo check below, as they always did)
-        ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
-        held = store.held_ops(i for i in ids if isinstance(i, str))
-        objs = [o for o, i in zip(objs, ids)
-                if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
-        ops = ops_from_json(objs, "pull.ops")
-        for sha, name in needed_photos(ops).items():  # files before the rows naming them
-            if not have_photo(store, sha, name):
-                if _download(store, hub, sha):
-                    report.photos_received += 1
-                else:
-                    report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the device "
-                                           "that took it has not sent it)")
-        with store._tx():
-            result = store.apply_ops(ops, source="hub", max_future_ms=None)
-            store.set_cursor(cursor, int(rows[-1][0]))
-        report.received += result.new
-        say("receive", int(rows[-1][0]), int(body["max_seq"]))
+    # the hub leaves out what this store pushed there itself (it holds those operations; a
+    # copy restored from before a push has forgotten that push's span with it). Read once:
+    # spans come from pushes, all made before the pull.
+    own = store.own_spans(hub_id)
+    # the next page is fetched while this one is merged (the hub reads and sends it, this
+    # store writes: mostly in SQLite and the network, which run beside Python)
+    with ThreadPoolExecutor(max_workers=1, thread_name_prefix="fieldcol-pull") as pool:
+        coming = pool.submit(_fetch_page, hub, store.device_id, store.cursor(cursor), own)
+        while True:
+            after, spans, body = coming.result()
+            with gc_paused():
+                rows = body["ops"]
+                page = body.get("limit")
+                # a page shorter than asked holds all there was after ``after`` but the spans
+                # left out, which were committed before they were acknowledged: the cursor
+                # passes them too (unless the hub's numbers went back: a restored hub, trust
+                # none)
+                whole = type(page) is int and len(rows) < page
+                through = int(rows[-1][0]) if rows else after
+                if spans and max(b for _, b in spans) > int(body["max_seq"]):
+                    store.forget_own_spans(hub_id)
+                    own = spans = []
+                elif spans and whole:
+                    through = max(through, max(b for _, b in spans))
+                if not rows:
+                    if through > after:
+                        with store._tx():
+                            store.set_cursor(cursor, through)
+                            store.forget_own_spans(hub_id, through)
+                    break
+                objs = [o for _, o in rows]
+                # other operations this store holds come back too: skip those before decoding
+                # them (photo rows still go through the photo check below, as they always did)
+                ids = [o.get("op_id") if isinstance(o, dict) else None for o in objs]
+                held = store.held_ops(i for i in ids if isinstance(i, str))
+                objs = [o for o, i in zip(objs, ids)
+                        if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
+                ops = ops_from_json(objs, "pull.ops")
+            for sha, name in needed_photos(ops).items():  # files before the rows naming them
+                if not have_photo(store, sha, name):
+                    if _download(store, hub, sha):
+                        report.photos_received += 1
+                    else:
+                        report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the "
+                                               "device that took it has not sent it)")
+            if not whole:  # (a failed fetch is raised once this page is merged and noted)
+                coming = pool.submit(_fetch_page, hub, store.device_id, through, own)
+            with store._tx():
+                result = store.apply_ops(ops, source="hub", max_future_ms=None)
+                store.set_cursor(cursor, through)
+                if spans:
+                    store.forget_own_spans(hub_id, through)
+            report.received += result.new
+            say("receive", through, int(body["max_seq"]))
+            if whole:
+                break
+
+
+def _fetch_page(hub: _Hub, device_id: str, after: int, own: list[tuple[int, int]]
+                ) -> tuple[int, list[tuple[int, int]], dict[str, Any]]:
+    """One page of the hub's operations after ``after``, leaving out this store's own spans:
+    (after, the spans named, the decoded answer)."""
+    spans = [s for s in own if s[1] > after][:MAX_SKIP_SPANS]
+    params: dict[str, Any] = {"after": after, "limit": PULL_BATCH}
+    if spans:
+        params.update(device=device_id, skip=",".join(f"{a}-{b}" for a, b in spans))
+    reply = hub.call("GET", "/v1/pull", params=params)
+    with gc_paused():
+        body = reply.json()
+    if not isinstance(body, dict) or not isinstance(body.get("ops"), list):
+        raise InputError("hub", hub.url, "the hub's answer to a pull is not a page of "
+                         "operations", "check the hub address")
+    return after, spans, body
 
 
 def _download(store: Store, hub: _Hub, sha: str) -> bool:

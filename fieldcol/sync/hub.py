@@ -7,8 +7,9 @@ value from a request that names a file is a content hash, checked as 64 hex digi
 Routes (JSON unless said)::
 
     GET  /v1/hello?device=ID            hub id, schema, newest sequence, ops held from ID, clock
-    POST /v1/push   {device, schema, ops}        -> {acked, new, max_seq}
-    GET  /v1/pull?after=N&limit=M                -> {ops: [[seq, op], ...], max_seq}
+    POST /v1/push   {device, schema, ops}        -> {acked, new, seqs: [first, last], max_seq}
+    GET  /v1/pull?after=N&limit=M[&device=ID&skip=A-B,C-D]
+                                                 -> {ops: [[seq, op], ...], max_seq, limit}
     GET  /v1/photos/{sha}/status                 -> {have, received}
     PUT  /v1/photos/{sha}?offset=K&total=T (raw bytes)  -> {have, received}
     GET  /v1/photos/{sha}?offset=K (raw bytes)
@@ -32,7 +33,8 @@ from fastapi.responses import JSONResponse, Response
 from starlette.concurrency import run_in_threadpool
 
 from fieldcol.errors import InputError
-from fieldcol.store._oplog import ops_from_json, wall_ms
+from fieldcol.store._gcpause import gc_paused
+from fieldcol.store._oplog import MAX_SKIP_SPANS, ops_from_json, wall_ms
 from fieldcol.sync._hubapi import SHA, HubBackend, HubUnavailable, open_hub
 
 MAX_JSON_BYTES = 16 << 20
@@ -125,24 +127,30 @@ def create_app(hub: HubBackend) -> FastAPI:
 
     @app.post("/v1/push")
     async def push(request: Request) -> dict[str, Any]:
-        body = _json(await _body(request, MAX_JSON_BYTES))
-        if not isinstance(body, dict) or not isinstance(body.get("ops"), list):
-            raise _Refused(422, "ops", "expected {device, schema, ops: [...]}")
-        _check_schema(hub, body.get("schema"))
-        ops = ops_from_json(body["ops"], "ops")
+        raw = await _body(request, MAX_JSON_BYTES)
+        with gc_paused():
+            body = _json(raw)
+            if not isinstance(body, dict) or not isinstance(body.get("ops"), list):
+                raise _Refused(422, "ops", "expected {device, schema, ops: [...]}")
+            _check_schema(hub, body.get("schema"))
+            ops = ops_from_json(body["ops"], "ops")
         result = await run_in_threadpool(hub.push, ops)
         await run_in_threadpool(hub.touch, request.state.device.name, body.get("device")
                                 if isinstance(body.get("device"), str) else None)
         return {"acked": len(ops), "new": result.new,
+                "seqs": list(result.seqs) if result.seqs else None,
                 "max_seq": await run_in_threadpool(hub.max_seq)}
 
     @app.get("/v1/pull")
-    def pull(after: str = "0", limit: str = "1000") -> Response:
+    def pull(after: str = "0", limit: str = "1000", device: str = "",
+             skip: str = "") -> Response:
         n = min(_int(limit, "limit"), MAX_PULL)
-        rows = hub.pull(_int(after, "after"), n)
-        # written by hand: the general encoder took longer than reading the rows from the store
-        body = ",".join(f"[{int(seq)},{op.to_json_text()}]" for seq, op in rows)
-        return Response(f'{{"ops":[{body}],"max_seq":{int(hub.max_seq())}}}'.encode(),
+        spans = _spans(skip)
+        # each operation's JSON text comes written by the database
+        rows = hub.pull_json(_int(after, "after"), n, (device, spans) if device and spans else None)
+        body = ",".join([f"[{int(seq)},{text}]" for seq, text in rows])
+        # "limit": the page size used; a shorter page holds everything there was
+        return Response(f'{{"ops":[{body}],"max_seq":{int(hub.max_seq())},"limit":{n}}}'.encode(),
                         media_type="application/json")
 
     @app.get("/v1/photos/{sha}/status")
@@ -170,6 +178,23 @@ def create_app(hub: HubBackend) -> FastAPI:
         return Response(data, media_type="application/octet-stream")
 
     return app
+
+
+def _spans(text: str) -> list[tuple[int, int]]:
+    """``"5-9,20-31"`` as [(5, 9), (20, 31)]: spans of sequence numbers a pull leaves out."""
+    if not text:
+        return []
+    parts = text.split(",")
+    if len(parts) > MAX_SKIP_SPANS:
+        raise _Refused(422, "skip", f"at most {MAX_SKIP_SPANS} spans")
+    out = []
+    for part in parts:
+        first, _, last = part.partition("-")
+        a, b = _int(first, "skip"), _int(last, "skip")
+        if a > b:
+            raise _Refused(422, "skip", "a span runs from its first number to its last")
+        out.append((a, b))
+    return out
 
 
 def _sha(sha: str) -> None:

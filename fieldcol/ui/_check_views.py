@@ -19,8 +19,9 @@ def result_cards(s: CheckSummary) -> list[ft.Control]:
         s: the ``CheckSummary``.
 
     Returns:
-        Controls, status first (identifier ``status``), then ``capacity-<mode>``,
-        ``governing``, ``warning-<i>``.
+        Controls, status first (identifier ``status``), then ``interaction`` (with bending:
+        which interaction equation governs), ``capacity-<mode>``, ``governing``,
+        ``warning-<i>``.
 
     Example: ``result_cards(latest_summary(store, cid))``.
     """
@@ -32,6 +33,10 @@ def result_cards(s: CheckSummary) -> list[ft.Control]:
         ft.Semantics(identifier="result-line", content=v.text_line(s.result_line, size=18,
                                                                    bold=True)),
         *[v.text_line(x, color=v.MUTED) for x in s.extra],
+        *([ft.Semantics(identifier="interaction", content=ft.Row(
+            [ft.Icon(ft.Icons.FUNCTIONS, color=v.INK, size=22),
+             ft.Text(s.interaction, size=16, color=v.INK, expand=True)],
+            vertical_alignment=ft.CrossAxisAlignment.START))] if s.interaction else []),
         ft.Semantics(identifier="governing", content=ft.Column([
             v.text_line(s.governs, bold=True, color=fg), v.text_line(s.why)], spacing=2)),
     ]
@@ -77,17 +82,28 @@ def chart_card(s: CheckSummary, width: float = 340) -> ft.Control | None:
 
 
 def trace_tile(s: CheckSummary) -> ft.Control:
-    """The full trace, folded: one tap opens it (identifier ``trace``).
+    """The full trace, folded: one tap opens it (identifier ``trace``). Its steps are made
+    when it opens (three texts a step, often a hundred steps: sent folded, they made the column
+    screen slow to open).
 
     Example: ``trace_tile(summary)``.
     """
-    steps = [ft.Container(content=ft.Column([
-        v.text_line(f"{t.symbol} = {t.value}", bold=True, selectable=True),
-        v.text_line(t.what),
-        v.text_line(" · ".join(x for x in (t.formula, t.clause) if x), color=v.MUTED)],
-        spacing=1), padding=ft.Padding.symmetric(vertical=4)) for t in s.trace]
-    return ft.Semantics(identifier="trace", content=ft.Container(content=ft.ExpansionTile(
+    def steps() -> list[ft.Control]:
+        return [ft.Container(content=ft.Column([
+            v.text_line(f"{t.symbol} = {t.value}", bold=True, selectable=True),
+            v.text_line(t.what),
+            v.text_line(" · ".join(x for x in (t.formula, t.clause) if x), color=v.MUTED)],
+            spacing=1), padding=ft.Padding.symmetric(vertical=4)) for t in s.trace]
+
+    def toggle(e: ft.Event[ft.ExpansionTile]) -> None:
+        opened = e.data in (True, "true")
+        if opened and not tile.controls:
+            tile.controls = steps()
+
+    tile = ft.ExpansionTile(
         title=v.text_line(f"Full calculation ({len(s.trace)} steps)", bold=True),
-        controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
-        expanded_cross_axis_alignment=ft.CrossAxisAlignment.START, maintain_state=False),
-        border=ft.Border.all(1, v.LINE), border_radius=10, bgcolor=v.CARD))
+        controls=[], controls_padding=ft.Padding.symmetric(horizontal=12),
+        expanded_cross_axis_alignment=ft.CrossAxisAlignment.START, maintain_state=False,
+        on_change=toggle)
+    return ft.Semantics(identifier="trace", content=ft.Container(
+        content=tile, border=ft.Border.all(1, v.LINE), border_radius=10, bgcolor=v.CARD))

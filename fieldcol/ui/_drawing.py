@@ -25,7 +25,7 @@ def _paint(color: str, width: float = 2.0, *, fill: bool = False,
                     stroke_dash_pattern=dash)
 
 
-def _text(x: float, y: float, value: str, size: int = 14, color: str = INK,
+def _text(x: float, y: float, value: str, size: int = 16, color: str = INK,
           bold: bool = False, align: ft.Alignment = ft.Alignment.TOP_LEFT) -> cv.Text:
     return cv.Text(x, y, value, style=ft.TextStyle(size=size, color=color,
                                                    weight=ft.FontWeight.BOLD if bold else None),
@@ -62,7 +62,7 @@ def _support(kind: str, x: float, y: float, top: bool) -> list[cv.Shape]:
     return out
 
 
-def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Canvas:
+def axis_canvas(a: AxisSketch, width: float = 166, height: float = 300) -> cv.Canvas:
     """The side view of one axis: the column, its ends, its braces (filled: counted; hollow and
     dashed: left out) and its first buckled shape (dashed), the axis that governs boxed.
 
@@ -75,7 +75,7 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
 
     Example: ``axis_canvas(sketch(record, "us").axes[1])``.
     """
-    top, bottom = 70.0, height - 40.0
+    top, bottom = 92.0 if a.governs else 70.0, height - 40.0
     x0 = width / 2
     amp = width * 0.28
 
@@ -87,9 +87,14 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
         shapes.append(cv.Rect(2, 2, width - 4, height - 4, border_radius=8,
                               paint=_paint(SHAPE, 3)))
     title = ("Strong axis" if a.axis == "strong" else "Weak axis")
-    shapes.append(_text(x0, 6, title, 15, INK, True, ft.Alignment.TOP_CENTER))
-    shapes.append(_text(x0, 24, ("GOVERNS · " if a.governs else "") + f"Lc {a.Lc_text}", 13,
-                        SHAPE if a.governs else MUTED, a.governs, ft.Alignment.TOP_CENTER))
+    # every word 16 px (read on a phone at arm's length); "GOVERNS" on a line of its own
+    shapes.append(_text(x0, 6, title, 16, INK, True, ft.Alignment.TOP_CENTER))
+    line = 26.0
+    if a.governs:
+        shapes.append(_text(x0, line, "GOVERNS", 16, SHAPE, True, ft.Alignment.TOP_CENTER))
+        line += 20
+    shapes.append(_text(x0, line, f"Lc {a.Lc_text}", 16, SHAPE if a.governs else MUTED,
+                        a.governs, ft.Alignment.TOP_CENTER))
     shapes.append(cv.Line(x0, y(0), x0, y(1), _paint(STEEL, 5)))
     if a.shape:
         path = [cv.Path.MoveTo(x0 + amp * a.shape[0][1], y(a.shape[0][0]))]
@@ -107,9 +112,10 @@ def axis_canvas(a: AxisSketch, width: float = 160, height: float = 300) -> cv.Ca
             shapes.append(cv.Circle(x0, yy, 6, _paint(OFF, 2)))
         if kind in ("cable", "rod"):
             shapes.append(cv.Line(x0, yy, 10, max(top, yy - 40), _paint(INK if counted else OFF, 1.5)))
-        shapes.append(_text(10, yy + 4, kind if counted else f"{kind} (not counted)", 12,
-                            INK if counted else OFF))
-    shapes.append(_text(x0, height - 16, a.note, 13, MUTED, False, ft.Alignment.TOP_CENTER))
+        shapes.append(_text(4, yy + 4, kind, 16, INK if counted else OFF))
+        if not counted:  # said beside the column, where the brace line leaves room
+            shapes.append(_text(x0 + 8, yy + 4, "left out", 16, OFF))
+    shapes.append(_text(x0, height - 20, a.note, 16, MUTED, False, ft.Alignment.TOP_CENTER))
     return cv.Canvas(shapes=shapes, width=width, height=height)
 
 
@@ -126,7 +132,7 @@ def curve_canvas(chart: Chart, width: float = 340, height: float = 240) -> cv.Ca
 
     Example: ``curve_canvas(latest_summary(store, cid).chart)``.
     """
-    left, right, top, bottom = 48.0, width - 10.0, 30.0, height - 36.0
+    left, right, top, bottom = 48.0, width - 10.0, 30.0, height - 44.0
 
     def px(x: float) -> float:
         return left + (right - left) * min(max(x / chart.x_max, 0.0), 1.0)
@@ -138,30 +144,59 @@ def curve_canvas(chart: Chart, width: float = 340, height: float = 240) -> cv.Ca
                               cv.Line(left, top, left, bottom, _paint(INK, 1.5))]
     for xv in _ticks(chart.x_max):
         shapes.append(cv.Line(px(xv), bottom, px(xv), bottom + 5, _paint(INK, 1)))
-        shapes.append(_text(px(xv), bottom + 6, f"{xv:g}", 12, MUTED, False,
+        shapes.append(_text(px(xv), bottom + 6, f"{xv:g}", 16, MUTED, False,
                             ft.Alignment.TOP_CENTER))
     for sv in _ticks(chart.stress_max):
         shapes.append(cv.Line(left - 5, py(sv), left, py(sv), _paint(INK, 1)))
         shapes.append(cv.Line(left, py(sv), right, py(sv), _paint(v.GRID, 1)))
-        shapes.append(_text(left - 7, py(sv) - 8, f"{sv:g}", 12, MUTED, False,
+        shapes.append(_text(left - 7, py(sv) - 10, f"{sv:g}", 16, MUTED, False,
                             ft.Alignment.TOP_RIGHT))
-    shapes.append(_text(right, bottom + 20, chart.x_name, 14, INK, True, ft.Alignment.TOP_RIGHT))
-    shapes.append(_text(4, 4, f"{chart.stress_name} ({chart.stress_unit})", 14, INK, True))
+    shapes.append(_text(right, bottom + 24, chart.x_name, 16, INK, True, ft.Alignment.TOP_RIGHT))
+    shapes.append(_text(4, 4, f"{chart.stress_name} ({chart.stress_unit})", 16, INK, True))
     dashes = [None, [6, 4], [2, 3]]
     for i, (label, pts) in enumerate(chart.curves):
-        path = [cv.Path.MoveTo(px(pts[0][0]), py(pts[0][1]))]
-        path += [cv.Path.LineTo(px(x), py(s)) for x, s in pts[1:]]
+        xy = _thinned([(px(x), py(s)) for x, s in pts])
+        path = [cv.Path.MoveTo(*xy[0])] + [cv.Path.LineTo(x, y) for x, y in xy[1:]]
         shapes.append(cv.Path(path, _paint(STEEL, 2.5, dash=dashes[i % 3])))
-        lx, ls = pts[len(pts) * 3 // 4]
-        shapes.append(_text(px(lx), py(ls) - 18 - 14 * i, label, 12, STEEL))
+        # named in the top right corner, which a falling curve leaves empty
+        shapes.append(_text(right - 4, top + 4 + 20 * i, label, 16, STEEL,
+                            align=ft.Alignment.TOP_RIGHT))
     for p in chart.points:
         x, yv = px(p.x), py(p.stress)
         if p.governs:
             shapes.append(cv.Circle(x, yv, 7, _paint(SHAPE, fill=True)))
-            shapes.append(_text(x + 9, yv - 22, f"{p.label}: governs", 13, SHAPE, True))
+            shapes.append(_text(min(x + 9, right - 150), yv - 26, f"{p.label}: governs", 16,
+                                SHAPE, True))
         else:  # named in the key under the chart: labels of close points would overlap
             shapes.append(cv.Circle(x, yv, 6, _paint(INK, 2)))
     return cv.Canvas(shapes=shapes, width=width, height=height)
+
+
+def _thinned(xy: list[tuple[float, float]], *, tol: float = 0.5) -> list[tuple[float, float]]:
+    """A polyline with the points dropped that lie within ``tol`` px of the straight segment
+    drawn instead of them (a column curve of 61 points draws the same with ~15: every point is
+    a control sent to the client).
+
+    Example:
+        >>> _thinned([(0, 0), (1, 1), (2, 2), (3, 0)])
+        [(0, 0), (2, 2), (3, 0)]
+    """
+    if len(xy) < 3:
+        return list(xy)
+
+    def off(a: tuple[float, float], c: tuple[float, float], b: tuple[float, float]) -> float:
+        dx, dy = c[0] - a[0], c[1] - a[1]
+        norm = (dx * dx + dy * dy) ** 0.5 or 1.0
+        return abs(dy * (b[0] - a[0]) - dx * (b[1] - a[1])) / norm
+
+    out, start = [xy[0]], 0
+    for i in range(2, len(xy)):
+        # can the segment from the last kept point reach point i and pass every point between?
+        if any(off(xy[start], xy[i], xy[j]) > tol for j in range(start + 1, i)):
+            start = i - 1
+            out.append(xy[start])
+    out.append(xy[-1])
+    return out
 
 
 def _ticks(top: float) -> list[float]:

@@ -92,8 +92,16 @@ class FieldApp:
         self.counts: dict[str, int] = {}
         self.tab = "check"
         self.tabs: dict[str, Tab] = {}
+        self.tab_error: list[ft.Control] | None = None  # the shown tab could not be read
+        self._drawn: str | None = None  # a route drawn before the browser reports it
+        self.draws = 0  # screens and tabs drawn (sent) so far: the saver sees if one was
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
+        self._right = ft.Container(expand=True)  # the pane beside the list (tablet)
+        self._title = ft.Text("fieldcol")
+        # the tablet's column screen on show, as (view, site id): another column of the same
+        # site changes it in place (see ``_beside_list``)
+        self._frame: tuple[ft.View, str] | None = None
         self.saver = Saver(self)
         self.theme = "light"
         self.forms: dict[str, dict[str, ft.TextField]] = {}  # per route: what is typed stays
@@ -119,6 +127,9 @@ class FieldApp:
 
     # -- navigation ---------------------------------------------------------------------
     async def _on_route(self, e: ft.RouteChangeEvent) -> None:
+        drawn, self._drawn = self._drawn, None
+        if e.route == drawn:  # already on screen (open_column drew it before the address)
+            return
         await self.show(e.route)
 
     async def _on_resize(self, e: Any) -> None:
@@ -195,8 +206,9 @@ class FieldApp:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
                 ft.Icons.ARROW_BACK, on_click=self._go(back), tooltip="Back",
                 icon_color=v.ON_ACCENT, icon_size=28))
-        head: ft.Control = ft.Text(title, size=20, color=v.ON_ACCENT,
-                                   weight=ft.FontWeight.BOLD)
+        self._frame = None  # a new screen: nothing of the last one to change in place
+        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD)
+        head: ft.Control = self._title
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
         bar = ft.AppBar(leading=leading, title=head, actions=actions or [],
@@ -211,6 +223,7 @@ class FieldApp:
         self.page.views.append(ft.View(route=route, appbar=bar, controls=[screen], padding=0,
                                        bgcolor=v.BG))
         self.page.update()
+        self.draws += 1
 
     # -- screens ------------------------------------------------------------------------
     def _action(self, icon: ft.IconData, tip: str, identifier: str,
@@ -329,7 +342,15 @@ class FieldApp:
 
         Example: ``ft.Container(on_click=app.open_column(cid))``.
         """
-        return self._go(f"/columns/{column_id}")
+        route = f"/columns/{column_id}"
+
+        async def go(_e: Any = None) -> None:
+            # drawn at once, then the address follows: waiting for the browser to hand the
+            # route back first costs a round trip on every tap on a row
+            self._drawn = route
+            await self.show(route)
+            await self.page.push_route(route)
+        return go
 
     async def _load_visit(self, site_id: str) -> None:
         self.visit = await asyncio.to_thread(self.store.open_visit)
@@ -405,9 +426,26 @@ class FieldApp:
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
         self.list_pane.content = left
+        self._right = ft.Container(right, expand=True)
         return ft.Row([self.list_pane, ft.VerticalDivider(width=1, color=v.LINE),
-                       ft.Container(right, expand=True)], expand=True, spacing=0,
+                       self._right], expand=True, spacing=0,
                       vertical_alignment=ft.CrossAxisAlignment.STRETCH)
+
+    def _beside_list(self, route: str, title: str, site_id: str, right: ft.Control) -> bool:
+        """On a tablet showing a column of ``site_id`` beside its list: show another column
+        in its place (the route, the title, the right pane) and keep the rest of the screen.
+        Only what changed travels (the list's rows are kept controls, two change their
+        highlight): a new screen re-sent the whole list on every tap. False when the screen
+        is not that one (then the caller draws it whole)."""
+        f = self._frame
+        if f is None or f[1] != site_id or not self.page.views or self.page.views[-1] is not f[0]:
+            return False
+        f[0].route = route
+        self._title.value = title
+        self._right.content = right
+        self.page.update()
+        self.draws += 1
+        return True
 
     def _load_column(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int]]:
         """(worker thread) The column screen and the numbers beside its tabs."""
@@ -415,16 +453,50 @@ class FieldApp:
         opened = len(self.store.list_findings(d.site_id, status="open", column_id=column_id))
         return d, {"findings": opened, "retrofit": len(self.store.retrofits(column_id))}
 
+    def _load_column_and_visit(self, column_id: str, tab: Tab | None = None
+                               ) -> tuple[m.ColumnDetail, dict[str, int], Any, Any]:
+        """(worker thread) The column, the numbers beside its tabs, the open visit and what
+        ``tab`` shows (its ``fetch``): one trip to the worker for the whole screen."""
+        d, counts = self._load_column(column_id)
+        return d, counts, self.store.open_visit(), \
+            None if tab is None else tab.fetch(self.store, column_id)
+
     async def _show_column(self, column_id: str) -> None:
         same = self.detail is not None and self.detail.id == column_id and bool(self.tabs)
-        self.detail, self.counts = await asyncio.to_thread(self._load_column, column_id)
-        await self._load_visit(self.detail.site_id)
+        first: Tab | None = None
         if not same:  # a new column: fresh tabs (a resize keeps them, and what is typed)
-            self.tabs = {cls.name: cls(self) for cls in TABS}
-            self.tab = "check"
+            tabs = {cls.name: cls(self) for cls in TABS}
+            first = tabs["check"] if type(tabs["check"]).fetch is not Tab.fetch else None
+        try:
+            self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                self._load_column_and_visit, column_id, first)
+        except (sqlite3.Error, OSError, StoreBusyError):
+            if first is None:
+                raise
+            # the tab's part could not be read: the column alone, the tab says why below
+            self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                self._load_column_and_visit, column_id)
+            first = None
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == self.detail.site_id else None
+        if not same:
+            self.tabs, self.tab = tabs, "check"
+            # the shown tab is read before the screen is drawn: one update carries the whole
+            # screen (drawing it empty first, then again filled, sent every control twice)
+            if first is not None:
+                first.took(data)
+                self.tab_error = None
+            else:
+                await self._load_tab(draw=False)
         d = self.detail
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
-        self.pane.controls = self._pane_controls()
+        shown = self._pane_controls()
+        # the top of the tab (the result, the caution) goes first, the rest in a second update:
+        # what a phone shows at once is on screen while the part below is still on its way
+        n = self.tabs[self.tab].first
+        k = len(shown) if n is None else 1 + max(1, n)
+        rest = shown[k:] if self.tab_error is None else []
+        self.pane.controls = shown[:len(shown) - len(rest)]
         actions = [self._action(ft.Icons.CONTENT_COPY, "Duplicate: the next column like this one",
                                 "duplicate-column", self._duplicate),
                    self._action(ft.Icons.DELETE_OUTLINE, "Delete this column (Undo follows)",
@@ -434,12 +506,22 @@ class FieldApp:
                          f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
         else:
             await self.list.load(d.site_id)
-            self._render(f"/columns/{column_id}", f"{d.site_name} · {d.tag}",
-                         self._two_panes(self._list(d.site_id, selected=d.id), self.pane),
-                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
-            await self.list.restore()  # the list beside stays where it was scrolled
-        if not same:
-            await self._load_tab()
+            route, title = f"/columns/{column_id}", f"{d.site_name} · {d.tag}"
+            left = self._list(d.site_id, selected=d.id)
+            if not self._beside_list(route, title, d.site_id, self.pane):
+                self._render(route, title, self._two_panes(left, self.pane),
+                             f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+                self._frame = (self.page.views[-1], d.site_id)
+                await self.list.restore()  # the list beside stays where it was scrolled
+        if rest:
+            drawn = self.pane.controls
+            # a moment for the device to draw the top before the rest arrives: sent at once,
+            # the second update was taken in before the first frame and held it back
+            # (measured: the result on screen ~100 ms sooner in headless chromium)
+            await asyncio.sleep(0.08)
+            if self.pane.controls is drawn and self.detail is d:  # nothing redrawn meanwhile
+                drawn.extend(rest)
+                self.page.update()
 
     async def _duplicate(self, _e: Any = None) -> None:
         d = self.detail
@@ -472,7 +554,9 @@ class FieldApp:
     def _pane_controls(self) -> list[ft.Control]:
         tabs = [(t.name, t.label, t.icon) for t in self.tabs.values()]
         row = v.tab_row(tabs, self.tab, self.counts, self._choose_tab, wrap=self.wide)
-        return [row, *self.tabs[self.tab].controls()]
+        row.key = "tab-row"  # drawn again, it is compared with the last: only changes are sent
+        body = self.tab_error if self.tab_error is not None else self.tabs[self.tab].controls()
+        return [row, *body]
 
     def redraw(self) -> None:
         """Draw the column screen (tab row and the shown tab) again; no I/O.
@@ -483,33 +567,38 @@ class FieldApp:
             return
         self.pane.controls = self._pane_controls()
         self.page.update()
+        self.draws += 1
 
-    async def _load_tab(self) -> None:
+    async def _load_tab(self, *, draw: bool = True) -> None:
+        """Read the shown tab's view-models; then draw it (unless ``draw`` is False: the
+        caller draws the whole screen). A tab that cannot be read shows why, with Try again."""
         d, name = self.detail, self.tab
         if d is None:
             return
         try:
             await self.tabs[name].load()
+            self.tab_error = None
         except (sqlite3.Error, OSError, StoreBusyError) as e:
             async def again(_e: Any = None) -> None:
                 await self._load_tab()
-            self.pane.controls = [self.pane.controls[0], v._card([
+            self.tab_error = [v._card([
                 ft.Semantics(identifier="load-error", content=v.text_line(
                     f"This tab could not be loaded. {failure_words(e)}")),
                 ft.Semantics(identifier="try-again", content=ft.FilledButton(
-                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])] \
-                if self.pane.controls else []
-            self.page.update()
-            return
-        if self.detail is d or (self.detail is not None and self.detail.id == d.id):
+                    "Try again", icon=ft.Icons.REFRESH, on_click=again, height=v.TAP))])]
+        if draw and (self.detail is d or (self.detail is not None and self.detail.id == d.id)):
             if self.tab == name:
                 self.redraw()
 
     def _choose_tab(self, name: str) -> Callable[..., Any]:
         async def choose(_e: Any = None) -> None:
+            ft.context.disable_auto_update()  # redraw and _load_tab send their own updates
             self.tab = name
+            self.tab_error = None
             self.redraw()
             await self._load_tab()
+            if self.tab == name:
+                self.tabs[name].shown()  # e.g. the Condition tab's entry takes the keyboard
         return choose
 
     async def changed(self) -> None:
@@ -524,14 +613,31 @@ class FieldApp:
             if not route.startswith("/columns/"):  # a column going away moves on by itself
                 await self.show(route)
             return
+        tab = self.tabs.get(self.tab)
+        # the column and the open tab's view in one trip to the worker (when the tab can)
+        both = tab if tab is not None and type(tab).fetch is not Tab.fetch else None
         try:
-            self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)
+            try:
+                self.detail, self.counts, self.visit, data = await asyncio.to_thread(
+                    self._load_column_and_visit, d.id, both)
+            except (sqlite3.Error, OSError, StoreBusyError):
+                if both is None:
+                    raise
+                self.detail, self.counts = await asyncio.to_thread(self._load_column, d.id)
+                both = None  # the tab reads again below and says why if it cannot
         except InputError:  # the column itself went (deleted): back to its site
             self.detail = None
             await self.page.push_route(f"/sites/{d.site_id}")
             return
+        self.visit_id = self.visit.id if self.visit is not None and \
+            self.visit.site_id == self.detail.site_id else None
         await self._refresh_list()
-        await self._load_tab()
+        if both is not None and self.tab == both.name and self.tabs.get(self.tab) is both:
+            both.took(data)
+            self.tab_error = None
+            self.redraw()
+        else:
+            await self._load_tab()
 
     async def _refresh_list(self) -> None:
         """Read the list beside the column again (tablet) so it shows the new check."""

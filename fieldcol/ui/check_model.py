@@ -103,6 +103,7 @@ class CheckSummary:
     caution: str = CAUTION
     basis: str = ""
     extra: list[str] = field(default_factory=list)
+    interaction: str = ""           # which interaction equation governs, with its moments
 
 
 def _val(d: Any) -> float | None:
@@ -240,7 +241,43 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
         checked_at=checked_at.replace("T", " ")[:16] + " UTC" if checked_at else "",
         basis=f"γ_M1 = {_gamma(result)}" if code.startswith("en") else
         {"lrfd": "LRFD", "asd": "ASD"}.get(basis, ""),
-        extra=extra)
+        extra=extra, interaction=interaction_words(result, system))
+
+
+_EQUATIONS = {
+    "H1-1a": "AISC 360-22 (H1-1a) governs: Pr/Pc ≥ 0.2, Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy)",
+    "H1-1b": "AISC 360-22 (H1-1b) governs: Pr/Pc < 0.2, Pr/(2 Pc) + Mrx/Mcx + Mry/Mcy",
+    "6.61": "EN 1993-1-1 (6.61) governs: buckling about the strong axis with bending",
+    "6.62": "EN 1993-1-1 (6.62) governs: buckling about the weak axis with bending",
+    "first yield": "First yield governs: the amplified bow and moments bring the extreme fibre "
+                   "to yield (elastic check)",
+}
+
+
+def interaction_words(result: Mapping[str, Any], system: str) -> str:
+    """Which interaction equation governs a column with bending, with its ratio and the
+    required moments; ``""`` when the check has no bending.
+
+    Example: ``interaction_words(r, "us")`` gives ``"AISC 360-22 (H1-1a) governs: Pr/Pc ≥ 0.2,
+    Pr/Pc + 8/9 (Mrx/Mcx + Mry/Mcy) = 0.49 at the demand; Mr about the strong axis 20 kip*ft,
+    about the weak axis 0"``.
+    """
+    bc = result.get("beam_column")
+    if not isinstance(bc, Mapping):
+        return ""
+    eq = str(bc.get("equation") or "")
+    head = _EQUATIONS.get(eq, f"Interaction {eq} governs")
+    ratio = _val(bc.get("interaction"))
+    if ratio is not None and math.isfinite(ratio):
+        head += f" = {ratio:.2f} at the demand"
+    mr = bc.get("required_moment") or {}
+    moments = []
+    for ax in ("strong", "weak"):
+        if ax in mr:
+            val = _val(mr.get(ax))
+            moments.append(f"about the {ax} axis "
+                           + (_fmt(val, "moment", system) if val else "0"))
+    return head + (f"; Mr {', '.join(moments)}" if moments else "")
 
 
 def _gamma(result: Mapping[str, Any]) -> str:

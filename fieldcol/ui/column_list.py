@@ -53,6 +53,10 @@ class ColumnList:
             label_style=ft.TextStyle(size=16))
         self._typing = 0
         self.stale = False
+        # rows drawn before, by column id: a row whose line is unchanged is the same control,
+        # so redrawing the list (a tablet's column tap, a save) sends only what changed
+        self._rows: dict[str, tuple[m.ColumnLine, ft.Control]] = {}
+        self._caution = v.caution_box()
 
     # -- data ----------------------------------------------------------------------------
     async def load(self, site_id: str, *, fresh: bool = False) -> m.ColumnPage:
@@ -66,6 +70,7 @@ class ColumnList:
             self.page = await asyncio.to_thread(m.column_page, store, site_id)
             self.at = 0.0
             self.search.value = ""
+            self._rows = {}
             self.view = ft.ListView(spacing=8, expand=True, padding=12, scroll_interval=150,
                                     on_scroll=self._scrolled)
         elif fresh or self.stale:
@@ -154,16 +159,16 @@ class ColumnList:
         p = self.page
         assert p is not None
         status = [("all", "All", None)] + [(k, w, k) for k, w in m.STATUS_FILTERS.items()]
-        out = [v.choice_chip(f"filter-status-{key}", word, p.status == value,
-                             self._choose(status=value)) for key, word, value in status]
+        rows = [[v.choice_chip(f"filter-status-{key}", word, p.status == value,
+                               self._choose(status=value)) for key, word, value in status]]
         if len(p.levels) > 1 or p.level is not None:
             levels = [("all", "All levels", None)] + [(lv, lv, lv) for lv in p.levels]
-            out += [ft.VerticalDivider(width=9, color=v.LINE)] + [
-                v.choice_chip(f"filter-level-{key}", word, p.level == value,
-                              self._choose(level=value)) for key, word, value in levels]
-        # one row that slides sideways: the rows of columns start high on a phone; what is
-        # chosen is also said in the count line above, so nothing chosen is out of sight
-        return [ft.Row(out, spacing=8, scroll=ft.ScrollMode.AUTO, height=v.TAP + 4)]
+            rows.append([v.choice_chip(f"filter-level-{key}", word, p.level == value,
+                                       self._choose(level=value))
+                         for key, word, value in levels])
+        # the chips wrap onto a second line rather than slide sideways: on a phone a chip
+        # half off the edge ("Not checked") reads as cut, and nothing chosen is out of sight
+        return [ft.Row(r, spacing=8, run_spacing=8, wrap=True) for r in rows]
 
     def _fill(self) -> None:
         p = self.page
@@ -185,9 +190,8 @@ class ColumnList:
                 color=v.MUTED)),
             *([self.tools] if self.tools is not None else []),
             ft.Semantics(identifier="column-search", content=self.search),
-            *self._chips(), v.caution_box()]
-        rows = [v.column_row(r, open_column(r.id), selected=r.id == self.selected)
-                for r in p.rows]
+            *self._chips(), self._caution]
+        rows = [self._row(r, open_column) for r in p.rows]
         if not rows:
             rows = [v.text_line("No column matches. Clear the search or pick All.",
                                 color=v.MUTED)]
@@ -197,3 +201,13 @@ class ColumnList:
                 "Show more columns", icon=ft.Icons.EXPAND_MORE, on_click=self._more,
                 height=v.TAP)))
         self.view.controls = head + rows + tail
+
+    def _row(self, line: m.ColumnLine, open_column: Callable[[str], Any]) -> ft.Control:
+        kept = self._rows.get(line.id)
+        if kept is not None and kept[0] == line:
+            row = kept[1]
+            v.mark_selected(row, line.id == self.selected)
+            return row
+        row = v.column_row(line, open_column(line.id), selected=line.id == self.selected)
+        self._rows[line.id] = (line, row)
+        return row

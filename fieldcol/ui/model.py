@@ -197,6 +197,9 @@ class ColumnDetail:
     check: CheckView | None
     fields: list[EditField]
     caution: str = CAUTION
+    #: an AISC 360-22 column's basis (``lrfd`` or ``asd``: the record's, else its demand's,
+    #: else its site's); ``None`` under another code, where LRFD / ASD mean nothing
+    basis: str | None = None
 
 
 @dataclass(frozen=True)
@@ -216,6 +219,8 @@ EDIT_FIELDS = {
     "material": ("Material", "grade, e.g. A992, A36, A7, S355"),
     "demand": ("Axial demand", "factored axial load, e.g. 840 kip or 3700 kN"),
 }
+#: the AISC 360-22 bases a column can be checked on (its ``basis`` choice on the screen)
+BASES = {"lrfd": "LRFD (phi Pn)", "asd": "ASD (Pn / Omega)"}
 
 
 # -- formatting ---------------------------------------------------------------------------
@@ -516,10 +521,16 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     chk = store.latest_check(column_id)
     fields = [EditField(name, label, _entry_text(rec.get(name) if name != "demand" else axial),
                         hint) for name, (label, hint) in EDIT_FIELDS.items()]
+    basis = None
+    if str(rec.get("code") or site.code) == "aisc360-22":
+        basis = str(rec.get("basis") or demand.get("basis") or "lrfd")
+        if basis == "asd":  # ASD compares the service load with Pn / Omega
+            fields = [EditField(f.name, f.label, f.value, "service (ASD) axial load, e.g. "
+                                "600 kip") if f.name == "demand" else f for f in fields]
     return ColumnDetail(
         id=col.id, tag=col.tag, site_id=site.id, site_name=site.name, unit_system=system,
         identity=identity, record=record, restraints=_restraint_lines(rec, system),
-        check=None if chk is None else _check_view(chk, system), fields=fields)
+        check=None if chk is None else _check_view(chk, system), fields=fields, basis=basis)
 
 
 _ELEMENT_WORDS = {"flange": "flange", "web": "web", "wall": "wall"}
@@ -553,6 +564,13 @@ def loss_lines(section: Any, system: str) -> list[Line]:
         out.append(Line("Remaining thickness measured", ", ".join(remaining)))
     if loss.get("uniform") not in (None, ""):
         out.append(Line("Loss per exposed face", _thickness_text(loss["uniform"], system)))
+    if loss.get("from") not in (None, "") or loss.get("to") not in (None, ""):
+        out.append(Line("Over a band of height", f"{_length_text(loss.get('from', ''), system)}"
+                        f" to {_length_text(loss.get('to', ''), system)} above the bottom"))
+    holes = loss.get("holes") if isinstance(loss.get("holes"), dict) else {}
+    if any(x not in (None, "") for x in holes.values()):
+        out.append(Line("Holes in the band (width lost)", ", ".join(
+            f"{k} {_thickness_text(x, system)}" for k, x in holes.items() if x not in (None, ""))))
     plates = section.get("plates")
     if isinstance(plates, dict):
         width = plates.get("width")
@@ -618,10 +636,22 @@ def _candidate(store: "Store", column_id: str, name: str, text: str) -> tuple[di
             old = rec.get("demand") if isinstance(rec.get("demand"), dict) else {}
             rec["demand"] = {**{k: v for k, v in old.items() if k not in ("loads", "psi0")},
                              "axial": text}  # psi0 combines loads: it goes with them
+    elif name == "basis":
+        if text not in BASES:
+            raise InputError("basis", text, "expected lrfd or asd", "lrfd, asd")
+        for rec in (stored, current):
+            rec["basis"] = text
+            # the demand's own basis must agree with the record's: both follow the choice
+            if isinstance(rec.get("demand"), dict) and rec["demand"]:
+                rec["demand"] = {**rec["demand"], "basis": text}
     else:
         raise InputError("field", name, "not an entry of the column screen",
-                         ", ".join(EDIT_FIELDS))
+                         ", ".join([*EDIT_FIELDS, "basis"]))
     return stored, current
+
+
+def _entry_word(name: str) -> str:
+    return EDIT_FIELDS[name][0].lower() if name in EDIT_FIELDS else name
 
 
 def edit_change(column_id: str, name: str, text: str, *, person: str | None = None,
@@ -640,8 +670,9 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
 
     Args:
         column_id: the column.
-        name: ``length``, ``section``, ``material`` or ``demand``.
-        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+        name: ``length``, ``section``, ``material``, ``demand``, or ``basis`` (an AISC
+            column's ``lrfd`` or ``asd``: the record's and its demand's).
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``, ``asd``.
         person, visit_id: who typed it and on which visit (kept with a measurement).
 
     Returns:
@@ -670,28 +701,33 @@ def edit_change(column_id: str, name: str, text: str, *, person: str | None = No
             else:
                 # the entry makes a checkable column uncheckable: say which value clashes
                 raise InputError(e.field, e.text, f"{e.reason} (with "
-                                 f"{EDIT_FIELDS[name][0].lower()} {typed})", e.hint) from None
-        if name == "length":
-            kept["measurement"] = store.add_measurement(
-                column_id, "length", typed, kind="length", taken_by=person, visit_id=visit_id,
-                note="typed on the column screen").id
-        else:
-            kept["record"] = copy.deepcopy(store.get_column(column_id).record)
-            store.update_column(column_id, record=stored)
-        if result is not None:
-            store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
+                                 f"{_entry_word(name)} {typed})", e.hint) from None
+        # the entry and its check in one transaction: saved together (one write to disk,
+        # not two), or neither
+        with store.transaction():
+            if name == "length":
+                kept["measurement"] = store.add_measurement(
+                    column_id, "length", typed, kind="length", taken_by=person,
+                    visit_id=visit_id, note="typed on the column screen").id
+            else:
+                kept["record"] = copy.deepcopy(store.get_column(column_id).record)
+                store.update_column(column_id, record=stored)
+            if result is not None:
+                store.save_check(column_id, result.to_dict(),
+                                 record=store.current_record(column_id))
         return column_detail(store, column_id)
 
     def undo(store: "Store") -> None:
-        if "measurement" in kept:
-            store.delete("measurements", kept["measurement"])
-        elif "record" in kept:
-            store.update_column(column_id, record=kept["record"])
-        rec = store.current_record(column_id)
-        try:
-            store.save_check(column_id, assess(rec).to_dict(), record=rec)
-        except InputError:
-            pass  # the record as it was could not be checked either: the undo still stands
+        with store.transaction():
+            if "measurement" in kept:
+                store.delete("measurements", kept["measurement"])
+            elif "record" in kept:
+                store.update_column(column_id, record=kept["record"])
+            rec = store.current_record(column_id)
+            try:
+                store.save_check(column_id, assess(rec).to_dict(), record=rec)
+            except InputError:
+                pass  # the record as it was could not be checked either: the undo stands
 
     return do, undo
 
@@ -704,8 +740,9 @@ def apply_edit(store: "Store", column_id: str, name: str, text: str) -> EditResu
     Args:
         store: an open store.
         column_id: the column.
-        name: ``length``, ``section``, ``material`` or ``demand``.
-        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``.
+        name: ``length``, ``section``, ``material``, ``demand``, or ``basis`` (an AISC
+            column's ``lrfd`` or ``asd``: the record's and its demand's).
+        text: the entry as typed, e.g. ``12'-6"``, ``3.81 m``, ``840 kip``, ``asd``.
 
     Returns:
         An ``EditResult``: ``saved`` with the refreshed ``detail``, or the ``error`` text

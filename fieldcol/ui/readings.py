@@ -299,7 +299,7 @@ def _try(store: "Store", column_id: str, record: dict[str, Any], field: str,
 def _with_reading(store: "Store", column_id: str, record: dict[str, Any], quantity: str,
                   text: str, corrects: str | None = None) -> dict[str, Any]:
     """The record the engine would read with one more reading (and its correction rule)."""
-    from fieldcol.store import Measurement, latest_readings, overlay
+    from fieldcol.store import Measurement, latest_readings, overlay, site_defaults
 
     new = Measurement(id="(new)", column_id=column_id, quantity=quantity, kind="length",
                       text=text, value=0.0, unit="mm", taken_at="9999", created_at="9999",
@@ -308,7 +308,8 @@ def _with_reading(store: "Store", column_id: str, record: dict[str, Any], quanti
     if corrects is not None:
         old = next(m for m in readings if m.id == corrects)
         new = Measurement(**{**new.__dict__, "taken_at": old.taken_at})
-    return overlay(record, latest_readings([*readings, new]))[0]
+    site = store.get_site(store.get_column(column_id).site_id)
+    return site_defaults(overlay(record, latest_readings([*readings, new]))[0], site)
 
 
 def add_reading(store: "Store", column_id: str, kind: str, text: str, *,

@@ -490,12 +490,14 @@ def _save(store: "Store", column_id: str, new_record: dict[str, Any], change: di
           label: str) -> Saved:
     """Check the new record, then save it, its restraint change and its check in one go."""
     from fieldcol.assess import assess
+    from fieldcol.store import site_defaults
 
     col = store.get_column(column_id)
     before = copy.deepcopy(col.record)
     current = store.current_record(column_id)
     # the engine reads the stored record with the latest readings on top
-    candidate = copy.deepcopy(new_record)
+    # (and what the record leaves out taken from its site: code, basis, gamma_M1)
+    candidate = site_defaults(new_record, store.get_site(col.site_id))
     for key in ("length", "condition"):
         if key in current:
             candidate[key] = current[key]

@@ -433,7 +433,7 @@ def _save_record(store: "Store", column_id: str, section: Any, what: str,
     ``fresh``: the section holds dimensions just measured, which earlier readings must not
     overrule in the check."""
     from fieldcol.assess import assess
-    from fieldcol.store import SECTION_DIMENSIONS, latest_readings, overlay
+    from fieldcol.store import SECTION_DIMENSIONS, latest_readings, overlay, site_defaults
 
     col = store.get_column(column_id)
     before = copy.deepcopy(col.record)
@@ -441,7 +441,7 @@ def _save_record(store: "Store", column_id: str, section: Any, what: str,
     latest = latest_readings(store.measurements(column_id))
     if fresh:
         latest = {q: m for q, m in latest.items() if q not in SECTION_DIMENSIONS}
-    current = overlay(stored, latest)[0]
+    current = site_defaults(overlay(stored, latest)[0], store.get_site(col.site_id))
     try:
         known = (current, assess(current))
     except InputError as e:

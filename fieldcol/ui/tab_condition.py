@@ -3,6 +3,8 @@
 Built for one thumb: the tab opens on a bow entry with the keyboard up, the axis already set to
 the one the column records (else the weak axis) and one tap to change; Enter or "Save reading"
 keeps it. Each reading is kept as taken; "Correct" adds a reading pointing at the old one.
+Below the form, the bow the column curves already allow for (L/1000 usual, L/1500
+conservative; identifiers ``bow-allowance-1000``, ``bow-allowance-1500``), saved on the tap.
 Every save goes through ``app.saver`` (undo, "not saved" with retry, typed text kept).
 """
 
@@ -14,6 +16,7 @@ from typing import TYPE_CHECKING, Any, Callable
 import flet as ft
 
 from fieldcol.ui import _entry_controls as ec
+from fieldcol.ui import band_model as bm
 from fieldcol.ui import readings as r
 from fieldcol.ui._tab import Tab
 from fieldcol.ui.views import MUTED, text_line
@@ -47,6 +50,22 @@ class ConditionTab(Tab):
         self.field: ft.TextField | None = None
         self._field_key: tuple[Any, ...] | None = None
         self.fix_field: ft.TextField | None = None
+        # the new-reading card and every entry in it are made once and only changed after:
+        # an entry moved into a card made anew is a new box on the device, which drops its
+        # focus and any letter typed that the server has not yet heard of
+        self.form = ec.card([], "New reading", identifier="reading-form")
+        self._form_col: ft.Column = self.form.content.content
+        self._form_head = list(self._form_col.controls)
+        self._value_box: ft.Semantics | None = None
+        self.gauge_field = ec.unit_entry("Gauge", "", None, on_change=self._typed_gauge)
+        self.note_field = ec.unit_entry("Note (optional)", "", None, on_change=self._typed_note)
+        self._gauge_box = ft.Semantics(identifier="reading-gauge", content=self.gauge_field)
+        self._note_box = ft.Semantics(identifier="reading-note", content=self.note_field)
+        self._save_button = ec.big_button("Save reading", ft.Icons.SAVE, self._save,
+                                          "save-reading")
+        self._focus_task: asyncio.Task | None = None
+        self._typed_elsewhere = False  # the gauge or note typed since the focus was asked
+        self.allowance = "L/1000"          # as recorded (the engine's default when not)
 
     async def load(self) -> None:
         """Fetch the column's readings (worker thread) and redraw.
@@ -56,8 +75,10 @@ class ConditionTab(Tab):
         d = self.app.detail
         if d is None:
             return
-        view = await asyncio.to_thread(r.condition_view, self.app.store, d.id)
+        view, band = await asyncio.to_thread(
+            lambda s: (r.condition_view(s, d.id), bm.band_view(s, d.id)), self.app.store)
         self.view = view
+        self.allowance = band.allowance
         if self.element not in [k for k, _ in view.elements]:
             self.element = view.elements[0][0]
         if self.correcting and self.correcting not in [x.id for x in view.readings]:
@@ -79,7 +100,38 @@ class ConditionTab(Tab):
         v = self.view
         assert v is not None
         # room at the end: the last card can scroll clear of the save bar
-        self.body.controls = [self._entry(v), *self._readings(v), ft.Container(height=96)]
+        self.body.controls = [self._entry(v), self._allowance(), *self._readings(v),
+                              ft.Container(height=96)]
+
+    def _allowance(self) -> ft.Control:
+        now = self.allowance
+        return ec.card([
+            text_line("Bow the column curves already allow for:", size=16, color=MUTED),
+            ec.choice_row([(k.split("/")[1], w) for k, (w, _) in bm.ALLOWANCE_WORDS.items()],
+                          now.split("/")[1], self._pick_allowance, "bow-allowance",
+                          said="bow allowance"),
+            text_line(bm.ALLOWANCE_WORDS[now][1][:1].upper() + bm.ALLOWANCE_WORDS[now][1][1:]
+                      + ".", size=16)], "Bow allowance", identifier="bow-allowance-card")
+
+    def _pick_allowance(self, n: str) -> Callable[..., Any]:
+        async def pick(_e: Any = None) -> None:
+            d, choice = self.app.detail, f"L/{n}"
+            if d is None or choice == self.allowance:
+                return
+            done: list[r.Change] = []
+
+            def do(store: Any) -> r.Change:
+                ch = bm.set_bow_allowance(store, d.id, choice)
+                done.append(ch)
+                return ch
+
+            def undo(store: Any) -> None:
+                if done:
+                    r.undo_change(store, done[-1])
+
+            await self.app.saver.save(f"bow allowance {choice}", do, undo=undo,
+                                      done=ec.saved_words)
+        return pick
 
     def _entry(self, v: r.ConditionView) -> ft.Control:
         unit = v.unit
@@ -102,6 +154,9 @@ class ConditionTab(Tab):
                                        on_change=self._typed, on_submit=self._save,
                                        autofocus=self.correcting is None)
             self._field_key = key
+            self._value_box = ft.Semantics(identifier="reading-value", content=self.field)
+            if self.correcting is None:
+                self._focus_soon(self.field)
         else:
             self.field.label, self.field.helper = label, hint or None
             if (self.field.value or "") != self.value:
@@ -111,20 +166,52 @@ class ConditionTab(Tab):
         if kind == "thickness":
             parts.append(ec.choice_row(v.elements, self.element or "", self._pick_element,
                                        "element", said="measured:"))
-        parts.append(ft.Semantics(identifier="reading-value", content=self.field))
+        parts.append(self._value_box)
         if kind == "bow":
             axis = self.axis or v.bow_axis
             parts.append(ec.choice_row([(a, w) for a, (w, _) in r.AXIS_CHOICES.items()], axis,
                                        self._pick_axis, "bow-axis", said="bends about the"))
             parts.append(text_line(r.AXIS_CHOICES[axis][1], size=16, color=MUTED))
         gauge = self.gauges.get(kind, v.gauges.get(kind, ""))
-        gauge_field = ec.unit_entry("Gauge", gauge, None, on_change=self._typed_gauge)
-        note_field = ec.unit_entry("Note (optional)", self.note, None,
-                                   on_change=self._typed_note)
-        parts += [ft.Semantics(identifier="reading-gauge", content=gauge_field),
-                  ft.Semantics(identifier="reading-note", content=note_field),
-                  ec.big_button("Save reading", ft.Icons.SAVE, self._save, "save-reading")]
-        return ec.card(parts, "New reading", identifier="reading-form")
+        for tf, text in ((self.gauge_field, gauge), (self.note_field, self.note)):
+            if (tf.value or "") != text:
+                tf.value = text
+        parts += [self._gauge_box, self._note_box, self._save_button]
+        self._form_col.controls = [*self._form_head, *parts]
+        return self.form
+
+    def shown(self) -> None:
+        """The tab was chosen (again): the bow entry takes the keyboard (a tap on the tab
+        takes it away from an entry already there).
+
+        Example: ``tab.shown()``.
+        """
+        if self.field is not None and self.correcting is None:
+            self._focus_soon(self.field)
+
+    def _focus_soon(self, field: ft.TextField) -> None:
+        """Give ``field`` the keyboard once it is on the screen (autofocus alone loses it when
+        the tap that opened the tab takes the focus back); asked twice, the second time for a
+        device slow to draw, unless something else was typed meanwhile."""
+        self._typed_elsewhere = False
+
+        async def focus() -> None:
+            for wait in (0.15, 0.5):
+                await asyncio.sleep(wait)  # drawn first: the update leaves before this call
+                if field is not self.field or self.app.tab != self.name \
+                        or self._typed_elsewhere:
+                    return  # another entry, another tab, or the gauge or note being typed
+                try:
+                    await asyncio.wait_for(field.focus(), 2)
+                except Exception:  # not on the device yet (or gone): the next try, if any
+                    continue
+        try:
+            loop = asyncio.get_running_loop()
+        except RuntimeError:
+            return
+        if self._focus_task is not None and not self._focus_task.done():
+            self._focus_task.cancel()
+        self._focus_task = loop.create_task(focus())
 
     def _readings(self, v: r.ConditionView) -> list[ft.Control]:
         out: list[ft.Control] = [text_line("Readings that count now", size=19, bold=True)]
@@ -175,9 +262,11 @@ class ConditionTab(Tab):
 
     def _typed_gauge(self, e: Any) -> None:
         self.gauges[self.kind] = e.control.value or ""
+        self._typed_elsewhere = True
 
     def _typed_note(self, e: Any) -> None:
         self.note = e.control.value or ""
+        self._typed_elsewhere = True
 
     def _typed_fix(self, key: str) -> Callable[[Any], None]:
         def keep(e: Any) -> None:

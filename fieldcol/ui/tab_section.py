@@ -1,6 +1,8 @@
 """The column screen's Section tab: the section now, picked from the catalogue with type-ahead,
 or measured (with the gauge) and matched against the catalogue's rolling tolerances; cover
-plates (welded, riveted or bolted, with the fasteners' pitch); the recorded loss labelled as what it is (remaining thickness, or loss per face).
+plates (welded, riveted or bolted, with the fasteners' pitch); the recorded loss labelled as what it is (remaining thickness, or loss per face),
+where it lies (the full length, or a band of height with holes: ``_band_card.py``) and, for a
+measured hollow section under EN 1993-1-1, how it was made.
 
 Every save goes through ``app.saver`` (undo, "not saved" with retry, typed text kept); the
 column is checked again after each, and what is typed stays while the tab is open.
@@ -15,8 +17,10 @@ import flet as ft
 
 from fieldcol.errors import InputError
 from fieldcol.ui import _entry_controls as ec
+from fieldcol.ui import band_model as bm
 from fieldcol.ui import readings as r
 from fieldcol.ui import section as sx
+from fieldcol.ui._band_card import BandCard
 from fieldcol.ui._builtup_card import BuiltCard
 from fieldcol.ui._tab import Tab
 from fieldcol.ui.saving import plain_error
@@ -60,6 +64,7 @@ class SectionTab(Tab):
         self.plate_field: ft.TextField | None = None
         self.plate_fields: dict[str, ft.TextField] = {}
         self.built = BuiltCard(self)
+        self.band = BandCard(self)
 
     async def load(self) -> None:
         """Fetch the section view-model (worker thread) and redraw.
@@ -69,8 +74,10 @@ class SectionTab(Tab):
         d = self.app.detail
         if d is None:
             return
-        view = await asyncio.to_thread(sx.section_view, self.app.store, d.id)
+        view, band = await asyncio.to_thread(
+            lambda s: (sx.section_view(s, d.id), bm.band_view(s, d.id)), self.app.store)
         self.view = view
+        self.band.took(band)
         if view.plates and not any(self.plates[k] for k in ("thickness", "width", "pitch")):
             self.plates = {"thickness": view.plates[0], "width": view.plates[1],
                            "connection": view.plate_joint[0], "pitch": view.plate_joint[1]}
@@ -100,6 +107,8 @@ class SectionTab(Tab):
         parts = [self._now(v), self._pick(v), self._measure(v)]
         if v.plates_allowed and v.source != "built":
             parts.append(self._plates(v))
+        if v.source not in ("built", "none"):
+            parts += self.band.cards()
         parts.append(self.built.card(v))
         self.body.controls = parts + [ft.Container(height=96)]  # clear of the save bar
 

@@ -172,8 +172,11 @@ def choice_chip(identifier: str, word: str, chosen: bool, on_click: Handler) -> 
 
     Example: ``choice_chip("filter-status-over", "Over capacity", True, handler)``.
     """
-    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP) \
-        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP)
+    # narrow side padding: four status choices fit a 390 px phone in two lines at most
+    style = ft.ButtonStyle(padding=ft.Padding.symmetric(horizontal=14))
+    button = ft.FilledButton(word, icon=ft.Icons.CHECK, on_click=on_click, height=TAP,
+                             style=style) \
+        if chosen else ft.OutlinedButton(word, on_click=on_click, height=TAP, style=style)
     return ft.Semantics(identifier=identifier, button=True, selected=chosen,
                         label=f"{word}{' (chosen)' if chosen else ''}", content=button)
 
@@ -237,10 +240,25 @@ def column_row(line: m.ColumnLine, on_click: Handler, *, selected: bool = False)
     ], vertical_alignment=ft.CrossAxisAlignment.CENTER)
     row = _tap_row(body, on_click, f"column-{line.tag}",
                    f"{line.tag}: {line.status.label}, {line.section}, {line.length}")
-    if selected:
-        row.content.bgcolor = CHOSEN_BG
-        row.content.border = ft.Border.all(2, ACCENT)
+    mark_selected(row, selected)
     return row
+
+
+def mark_selected(row: ft.Control, selected: bool) -> None:
+    """Highlight a ``column_row`` (or take the highlight off) in place: a row kept from the
+    last drawing changes two properties, so only those travel to the device.
+
+    Args:
+        row: a control made by ``column_row``.
+        selected: drawn highlighted.
+
+    Example: ``mark_selected(row, True)``.
+    """
+    box = row.content
+    if selected and box.bgcolor != CHOSEN_BG:
+        box.bgcolor, box.border = CHOSEN_BG, ft.Border.all(2, ACCENT)
+    elif not selected and box.bgcolor != CARD:
+        box.bgcolor, box.border = CARD, ft.Border.all(1, LINE)
 
 
 # -- one column ----------------------------------------------------------------------------
