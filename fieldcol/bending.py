@@ -217,7 +217,7 @@ def check_bending(col: ColumnInput, Fy: float, axial: CodeResult, Lc: Mapping[st
                             end_ratio=end_ratio(col), sway_Pe=sway, member_length=col.length,
                             holes=col.flange_holes,
                             Fu=None if col.flange_holes is None
-                            else float(col.material.fu_at(col.section.tmax_nominal)))
+                            else float(col.material.fu_at(col.section.tmax_nominal)), built=col.built)
     trace.extend(res.trace)
     for w in res.warnings:
         if bool(np.asarray(w.mask).reshape(-1)[0]):

@@ -5,7 +5,9 @@ first-yield check for the ``elastic`` reference.
 Under EN the section is classified under the actual N + M (Table 5.2: the web of an I by the
 plastic alpha for Class 1/2 and the elastic psi for Class 3, at every trial load of the capacity),
 Class 1-3 take A and W_pl / W_el, Class 4 Aeff and Weff (Table 6.7); chi_LT of an I follows 6.3.2.3
-with C1 and k_c from the end moments where those are the only moments (C1 = k_c = 1 otherwise).
+with C1 and k_c from the end moments where those are the only moments (C1 = k_c = 1 otherwise). Two
+channels tied by lacing or battens (``built=``) keep their class in compression and take the chords'
+moment resistances and the built-up slenderness instead (``codes.builtflex``).
 
 The moments on a column as it stands come from four sources, each with its own second-order
 treatment (N*mm, per axis):
@@ -106,7 +108,8 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                       *, span: Mapping[str, Any], Lc: Mapping[str, Any], moments: Mapping[str, Any],
                       basis: str = "lrfd", gamma_M1: float = 1.0, end_ratio: Mapping[str, Any] | None = None,
                       sway_Pe: Mapping[str, Any] | None = None, member_length: Any = None,
-                      holes: FlangeHoles | None = None, Fu: float | None = None) -> BeamColumnResult:
+                      holes: FlangeHoles | None = None, Fu: float | None = None,
+                      built: Any = None) -> BeamColumnResult:
     """Axial force with bending about both axes under the code of ``axial``.
 
     Args:
@@ -129,6 +132,9 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
         holes: fastener holes across the tension flange of a riveted or bolted section
             (``netflange.FlangeHoles``): AISC 360-22 F13.1 / EN 1993-1-1 6.2.5 (4) cap the
             flexural strength about ``holes.axis``; Fu (MPa) is then required.
+        built: the ``BuiltUp`` the section was composed from, if any: two channels tied at
+            points get the chord rules of ``codes.builtflex``; an arrangement it does not cover
+            gets no flexural strength (NaN, warning ``flexure-not-covered``).
     Returns:
         a ``BeamColumnResult`` with arrays of shape (n,).
     Raises:
@@ -174,11 +180,17 @@ def check_beam_column(code: str, section: Section, Fy: Any, E: Any, G: Any, Pr: 
                 t.add(f"{src}_{ax}", f"{what}, {ax} axis", "record", M[src][ax],
                       "N*mm" if src in ("given", "ends") else "mm", "record")
     design = np.broadcast_to(np.asarray(axial.design, dtype=float), shape).reshape(n)
+    if code in ("aisc360-22", "en1993-1-1") and built is not None:
+        from .builtflex import covered
+
+        why = covered(built)
+        if why:
+            return _not_covered(why, M, v, design, n, t)
     if code == "aisc360-22":
-        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu)
+        return _aisc(kind, sec, v, M, design, Pr_, basis, t, ratio, sway, holes, Fu, built)
     if code == "en1993-1-1":
         return _en(kind, sec, v, M, axial, shape, n, Pr_, gamma_M1, design, t, ratio, sway, member_length,
-                   holes, Fu)
+                   holes, Fu, built)
     if code == "elastic":
         if holes is not None:
             t.add("note", "fastener holes in the tension flange: the first-yield reference uses the "
@@ -195,24 +207,34 @@ def _solve(g, Pr: np.ndarray, design: np.ndarray, Mc_nan: np.ndarray, t: Trace, 
            clause: str) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         # 64 halvings leave the bracket below one ulp of any capacity above 1e-4 of the axial one
-        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
         val, eq = g(Pr)
+        # an interaction the rules cannot evaluate (NaN) is not covered: never a capacity of 0
+        Mc_nan = Mc_nan | np.isnan(val)
+        cap = np.where(Mc_nan, np.nan, largest_root(lambda P: g(P)[0], design, steps=64))
         ratio = np.where(Mc_nan, np.nan, np.maximum(val, Pr / design))
     t.add("P", "axial capacity with the moments in proportion", formula, cap, "N", clause)
     return cap, ratio, eq
 
 
-def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
+def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None, built=None):
     Fy, E = v["Fy"], v["E"]
     lrfd = basis == "lrfd"
     alpha = t.add("alpha", "force level adjustment factor", "1.0 LRFD, 1.6 ASD", 1.0 if lrfd else 1.6, "",
                   APP8)
     Mc, Pe1, Pe2, out = {}, {}, {}, np.zeros(Pc.shape, bool)
+    cf = None
+    if built is not None and built.arrangement == "channels":
+        from .builtflex import aisc_chord_flexure
+
+        cf = aisc_chord_flexure(built, float(Fy[0]), float(E[0]), float(v["Lc_twist"][0]), t)
     for ax in AXES:
-        sub = Trace()
-        Mn, o = aisc_flexure(kind, ax, sec, Fy, E, v["Lc_twist"], sub)
-        t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what, s.formula,
-                                s.value, s.unit, s.clause) for s in sub.steps]
+        if cf is not None:
+            Mn, o = np.full(Pc.shape, np.nan if cf.out else cf.Mn[ax]), np.full(Pc.shape, bool(cf.out))
+        else:
+            sub = Trace()
+            Mn, o = aisc_flexure(kind, ax, sec, Fy, E, v["Lc_twist"], sub)
+            t.steps += [s.__class__(f"{s.symbol}_{ax}" if s.symbol in ("Mn", "Mp") else s.symbol, s.what,
+                                    s.formula, s.value, s.unit, s.clause) for s in sub.steps]
         out |= o & ((M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0)
         if holes is not None and holes.axis == ax:
             Mn = aisc_tension_flange(holes, Fy, Fu, sec["Sx" if ax == "strong" else "Sy"], Mn, t)
@@ -221,10 +243,21 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
                        0.90 * Mn if lrfd else Mn / 1.67, "N*mm", "AISC 360-22 F1")
         Pe1[ax] = np.pi**2 * E * _I(sec, ax) / v[f"span_{ax}"] ** 2
         Pe2[ax] = np.pi**2 * E * _I(sec, ax) / v[f"Lc_{ax}"] ** 2 if sway is None else sway[ax]
+        if cf is not None and ax == cf.open:
+            # the ties' shear flexibility lowers the critical load the amplifiers divide by
+            from .builtup import shear_stiffness
+
+            Sv = t.add(f"Sv_{ax}", f"shear stiffness of the ties, {ax} (open) axis, for the amplifiers",
+                       "EN 1993-1-1 6.4 Sv (as in the axial check)", shear_stiffness(cf.axis, float(E[0])), "N",
+                       "elastic stability (Engesser)")
+            Pe1[ax] = 1 / (1 / Pe1[ax] + 1 / Sv)
+            if sway is None:
+                Pe2[ax] = 1 / (1 / Pe2[ax] + 1 / Sv)
         # the amplifiers' loads are shown only where a moment they amplify is present
         if np.any(M["ends"][ax] + M["bow"][ax] > 0):
             t.add(f"Pe1_{ax}", f"elastic critical load in the plane of bending, {ax} axis",
-                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway", Pe1[ax], "N",
+                  "pi^2 EI / (K1 L)^2, K1 = 1, L between points held against sway (open axis of "
+                  "tied chords: 1 / (1/Pe + 1/Sv))", Pe1[ax], "N",
                   f"{APP8}.1 (A-8-5)")
         if np.any(M["sway"][ax] > 0) and sway is None:
             t.add(f"Pe2_{ax}", f"story buckling load taken as the column's own, {ax} axis",
@@ -256,11 +289,35 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
             out = out + np.where(M["sway"][ax] > 0, amp(P, Pe2[ax], 1.0) * P * M["sway"][ax], 0.0)
         return out
 
-    def g(P):
+    def member(P):
         m = Mr(P, "strong") / Mc["strong"] + Mr(P, "weak") / Mc["weak"]
         p = P / Pc
         a = p >= 0.2
         return np.where(a, p + 8.0 / 9.0 * m, p / 2.0 + m), np.where(a, "H1-1a", "H1-1b")
+
+    if cf is None:
+        g = member
+    else:
+        factor = 0.90 if lrfd else 1 / 1.67
+        Pch = t.add("Pc,ch", "available strength of one chord over a panel",
+                    "phi_c Pn,ch" if lrfd else "Pn,ch / Omega_c", factor * cf.Pch, "N", "AISC 360-22 E1, E3")
+
+        def chord(P):
+            # the compressed chord: P/2 + M_open / h0 with half the solid-axis moment
+            p = (P / 2 + Mr(P, cf.open) / cf.h0) / Pch
+            m = Mr(P, cf.solid) / Mc[cf.solid]
+            a = p >= 0.2
+            return np.where(a, p + 8.0 / 9.0 * m, p / 2.0 + m)
+
+        def g(P):
+            val, eq = member(P)
+            c = chord(P)
+            return np.maximum(val, c), np.where(c > val, "H1-1 chord", eq)
+
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            t.add("chord", "interaction of the compressed chord at the demand",
+                  "p = (Pr/2 + Mr,open/h0)/Pc,ch, m = Mr,solid/Mc,solid (half the moment on half the strength); "
+                  "p >= 0.2: p + 8/9 m; else p/2 + m", chord(Pr), "", f"{H1} (H1-1a), (H1-1b); judgement")
 
     nan = np.isnan(Mc["strong"]) | np.isnan(Mc["weak"])
     cap, ratio, eq = _solve(g, Pr, Pc, nan, t, "largest P with H1-1 <= 1, moments in proportion (bisection)",
@@ -274,10 +331,32 @@ def _aisc(kind, sec, v, M, Pc, Pr, basis, t, ratio, sway, holes=None, Fu=None):
           "else Pr/(2 Pc) + Mrx/Mcx + Mry/Mcy (H1-1b)", ratio, "", f"{H1} (H1-1a), (H1-1b)")
     warnings = []
     if out.any():
-        warnings.append(Warning("flexure-not-covered", "flexural strength not covered for this section and "
+        warnings.append(Warning("flexure-not-covered", cf.out if cf is not None and cf.out else
+                                "flexural strength not covered for this section and "
                                 "axis (AISC 360-22 F5 slender web, HSS slender web, round HSS D/t >= 0.45 E/Fy): "
                                 "no beam-column strength", out))
+    if cf is not None:
+        _tie_shear_warning(M, cf, warnings)
     return BeamColumnResult(ratio, eq, cap, Mc, Mr_d, t, warnings)
+
+
+def _tie_shear_warning(M, cf, warnings) -> None:
+    moved = (M["given"][cf.open] + M["ends"][cf.open] + M["sway"][cf.open]) > 0
+    if moved.any():
+        warnings.append(Warning("tie-shear-from-moment", f"the shear of a moment varying along the member "
+                                f"about the {cf.open} (open) axis must be carried by the lacing or battens: "
+                                "it is not added to their forces here (check them by hand)", moved))
+
+
+def _not_covered(why, M, v, design, n, t) -> BeamColumnResult:
+    nan = np.full(n, np.nan)
+    t.add("note", why, "", "", "", "AISC 360-22 Chapter F; EN 1993-1-1 6.3.2")
+    carried = np.zeros(n, bool)
+    for ax in AXES:
+        carried |= (M["given"][ax] + M["ends"][ax] + M["bow"][ax] + M["sway"][ax]) > 0
+    return BeamColumnResult(nan, np.full(n, "not covered"), nan.copy(), {ax: nan.copy() for ax in AXES},
+                            {ax: nan.copy() for ax in AXES}, t,
+                            [Warning("flexure-not-covered", why, carried | (n > 0))])
 
 
 def _trace_value(trace: Trace, symbol: str, shape: tuple, n: int) -> np.ndarray | None:
@@ -289,9 +368,17 @@ def _trace_value(trace: Trace, symbol: str, shape: tuple, n: int) -> np.ndarray 
 
 
 def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, member_length,
-        holes=None, fu=None):
+        holes=None, fu=None, built=None):
     fy, E, G = v["Fy"], v["E"], v["G"]
     A = sec["A"]
+    cf = None
+    if built is not None and built.arrangement == "channels":
+        from .builtflex import en_chord_flexure
+
+        cf = en_chord_flexure(built, float(fy[0]), float(E[0]), float(G[0]), float(v["Lc_twist"][0]), gamma, t)
+    # a laced, battened or boxed section is closed for torsion: Table B.1 (not susceptible), and
+    # its torsional buckling is reported by the axial check, not applied
+    open_i = kind == "i" and not (built is not None and built.closed)
 
     def mode(name, attr):
         return np.broadcast_to(np.asarray(getattr(axial.modes[name], attr), dtype=float), shape).reshape(n)
@@ -303,6 +390,7 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
     used = {(src, ax): bool(np.any(M[src][ax] > 0)) for src in SOURCES for ax in AXES}
     has = {ax: any(used[(src, ax)] for src in SOURCES) for ax in AXES}
     Ncr = {"strong": mode("flexural-strong", "Pe"), "weak": mode("flexural-weak", "Pe")}
+    Ncr_own = dict(Ncr)
     if sway is not None:
         Ncr = {ax: sway[ax] for ax in AXES}
 
@@ -324,7 +412,8 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
     # plastic alpha (Class 1, 2) and the elastic psi (Class 3); flanges, webs of hollow sections
     # and weak-axis bending keep the class in compression (conservative). The class can only
     # improve on the class in compression, and worsens as N grows with the moments in proportion.
-    refine = kind == "i" and has["strong"] and cls_flange is not None
+    # Tied channels take the chords' own resistances (codes.builtflex): no refinement.
+    refine = kind == "i" and cf is None and has["strong"] and cls_flange is not None
     if refine:
         a1, a2, p3 = web_thresholds(sec["ct_web"], eps)
         c_web = sec["ct_web"] * sec["tw"]
@@ -428,14 +517,24 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
         NRk = np.where(c4, NRk4, NRkg)
         chi_y = np.where(c4, chi4["strong"], chig["strong"])
         cz4, czg = chi4["weak"], chig["weak"]
-        if kind == "i":
+        if open_i:
             cz4, czg = np.minimum(cz4, chi4["torsion"]), np.minimum(czg, chig["torsion"])
         chi_z = np.where(c4, cz4, czg)
         lb_y = np.where(c4, lb4["strong"], lbg["strong"])
         lb_z = np.where(c4, lb4["weak"], lbg["weak"])
+        if built is not None:
+            # a laced or battened axis has no slenderness of its own in 6.4: sqrt(N_Rk / Ncr,eff)
+            # with the shear-flexible critical load the built-up check reports
+            with np.errstate(divide="ignore", invalid="ignore"):
+                lb_y, lb_z = (np.where(np.isnan(lb), np.sqrt(NRk / Ncr_own[ax]), lb)
+                              for ax, lb in (("strong", lb_y), ("weak", lb_z)))
         return NRk, chi_y, chi_z, lb_y, lb_z
 
-    NRk, chi_y, chi_z, _, _ = axial_terms(cls_d)
+    NRk, chi_y, chi_z, lb_yd, lb_zd = axial_terms(cls_d)
+    if built is not None:
+        for ax, lb in (("strong", lb_yd), ("weak", lb_zd)):
+            t.add(f"lb_{ax}", f"slenderness, {ax} axis (built-up)", "sqrt(N_Rk / Ncr)", lb, "",
+                  "EN 1993-1-1 6.3.1.2")
     t.add("N_Rk", "characteristic axial resistance", "A fy (Aeff fy for Class 4 under N + M)", NRk, "N",
           "EN 1993-1-1 6.3.3, Table 6.7")
     t.add("chi_y", "flexural buckling factor, strong axis", "6.3.1.2 with A (Aeff for Class 4)", chi_y, "",
@@ -459,6 +558,14 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
                       "N*mm", f"{C633} (6.61), (6.62)")
             trace.add("Mc_weak", "design moment resistance, weak axis", "M_z,Rk / gamma_M1", Mz, "N*mm",
                       f"{C633} (6.61), (6.62)")
+        if cf is not None:  # tied channels: the chords' resistances, whatever the class of the whole
+            My, Mz = (np.full(n, np.nan if cf.out else cf.Mn[ax]) for ax in AXES)
+            if trace is not None:
+                for ax, m in (("strong", My), ("weak", Mz)):
+                    trace.add(f"Mc_{ax}", f"design moment resistance, {ax} axis (two tied channels, "
+                              "replaces the above)", "see M_Rd of the chords", m, "N*mm", "EN 1993-1-1 6.3.2, 6.4.1")
+                if cf.out:
+                    trace.add("note", cf.out, "", "", "", "EN 1993-1-1 Table 5.2")
         if holes is not None:  # the cap at the holes does not depend on the class: said once, at N_Ed
             quiet = Trace() if trace is None else trace
             if holes.axis == "strong":
@@ -468,7 +575,6 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
         return My, Mz
 
     My_Rd, Mz_Rd = resist(cls_d, t)
-    open_i = kind == "i"
 
     def factors(N, cls, Ny, Nz, lb_y, lb_z):
         c12 = cls <= 2
@@ -532,9 +638,32 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
             a, b = a + kyz * mz, b + kzz * mz
         return a, b, (kyy, kyz, kzy, kzz)
 
-    def g(N):
+    def member(N):
         a, b, _ = both(N)
         return np.maximum(a, b), np.where(a >= b, "6.61", "6.62")
+
+    g = member
+    if cf is not None:
+        from .builtflex import en_chord_force
+
+        L_open = float(v[f"Lc_{cf.open}"][0])
+
+        def chord(N):
+            # 6.4.1 (6.69) with M_Ed^I; the chord's half of the solid-axis moment with
+            # k = 1 + 0.8 n, the upper bound of Annex B Table B.1 (covers (6.61) and (6.62))
+            c = en_chord_force(cf, N, M_Ed(N, cf.open), L_open, float(E[0])) / cf.Pch
+            return c + (1 + 0.8 * c) * (M_Ed(N, cf.solid) / 2) / cf.Mch
+
+        def g(N):
+            val, eq = member(N)
+            c = chord(N)
+            return np.maximum(val, c), np.where(c > val, "6.4 chord", eq)
+
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            t.add("chord", "interaction of the compressed chord at N_Ed",
+                  "N_ch,Ed / Nb,Rd,ch + (1 + 0.8 n) (M_Ed,solid / 2) / M_Rd,ch, N_ch,Ed = 0.5 N + "
+                  "(N e0 + M_Ed^I) / (1 - N/Ncr - N/Sv) h0 Ach / (2 Ieff)", chord(N_Ed), "",
+                  "EN 1993-1-1 6.4.1 (6.69); Annex B Table B.1 (upper bound of k, a judgement)")
 
     t.add("k", "interaction factors", "Annex B method 2: Table B.1 (kyy, kyz, kzz; kzy hollow), "
           "Table B.2 kzy (I members susceptible to torsional deformation)", "", "", f"{ANNEX_B} Tables B.1, B.2")
@@ -559,8 +688,11 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
                                 "taken as M_Ed in EN 1993-1-1 6.3.3, whose k factors amplify them again "
                                 "(conservative)", np.ones(n, bool)))
     if nan.any():
-        warnings.append(Warning("flexure-not-covered", "no moment resistance for this section under "
+        warnings.append(Warning("flexure-not-covered", cf.out if cf is not None and cf.out else
+                                "no moment resistance for this section under "
                                 "EN 1993-1-1 (a Class 4 circular hollow section): no beam-column strength", nan))
+    if cf is not None:
+        _tie_shear_warning(M, cf, warnings)
     return BeamColumnResult(ratio_, eq, cap, {"strong": My_Rd, "weak": Mz_Rd}, Mr, t, warnings)
 
 
