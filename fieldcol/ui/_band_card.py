@@ -130,18 +130,10 @@ class BandCard:
 
     async def _run(self, label: str, change: Callable[[Any], r.Change],
                    fields: dict[str, ft.TextField] | None = None) -> None:
-        done: list[r.Change] = []
-
-        def do(store: Any) -> r.Change:
-            ch = change(store)
-            done.append(ch)
-            return ch
-
-        def undo(store: Any) -> None:
-            if done:
-                r.undo_change(store, done[-1])
+        def forget() -> None:
             self.typed, self.where = None, None  # shown as recorded again
 
+        do, undo = r.undoable(change, forget)
         await self.tab.app.saver.save(label, do, undo=undo, field=fields or None,
                                       done=ec.saved_words)
 

@@ -216,17 +216,7 @@ class LoadsCard:
     async def _run(self, label: str, change: Callable[[Any], r.Change],
                    fields: dict[str, ft.TextField]) -> None:
         ft.context.disable_auto_update()  # the saver draws the re-checked tab
-        done: list[r.Change] = []
-
-        def do(store: Any) -> r.Change:
-            ch = change(store)
-            done.append(ch)
-            return ch
-
-        def undo(store: Any) -> None:
-            if done:
-                r.undo_change(store, done[-1])
-
+        do, undo = r.undoable(change)
         await self.tab.app.saver.save(label, do, undo=undo, field=fields, done=ec.saved_words)
 
     async def _add_reaction(self, _e: Any = None) -> None:

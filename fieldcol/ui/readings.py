@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import copy
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Callable
 
 from fieldcol import CAUTION
 from fieldcol.errors import InputError
@@ -427,6 +427,28 @@ def correct_reading(store: "Store", reading_id: str, text: str, *, note: str | N
     m = store.correct_measurement(old.id, typed, note=note or None, taken_by=person or None)
     return Change(old.column_id, f"correction of {name}: {typed}", (m.id,), None,
                   check_now(store, old.column_id, known))
+
+
+def undoable(change: Callable[["Store"], Change], after_undo: Callable[[], None] | None = None
+             ) -> tuple[Callable[["Store"], Change], Callable[["Store"], None]]:
+    """``(do, undo)`` for ``Saver.save`` from a change: ``undo`` takes back what ``do`` made
+    (by ``undo_change``), then runs ``after_undo`` (e.g. a card forgetting what was typed).
+
+    Example: ``do, undo = undoable(lambda s: add_reading(s, cid, "bow", "1/2"))``.
+    """
+    done: list[Change] = []
+
+    def do(store: "Store") -> Change:
+        ch = change(store)
+        done.append(ch)
+        return ch
+
+    def undo(store: "Store") -> None:
+        if done:
+            undo_change(store, done[-1])
+        if after_undo is not None:
+            after_undo()
+    return do, undo
 
 
 def undo_change(store: "Store", change: Change) -> None:
