@@ -227,6 +227,24 @@ def test_missing_photo_file_is_said_not_fatal(tmp_path: Path):
     assert "photo file missing on this device" in text
 
 
+def test_a_columns_loads_beyond_its_axial_force_are_on_its_sheet(tmp_path: Path):
+    # what the engine was given is what the sheet says: a beam reaction, end moments, a story
+    with Store(tmp_path / "loads.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        store.add_column(site.id, {
+            "tag": "L1", "section": "W10X49", "material": "A992", "length": "14 ft",
+            "demand": {"axial": "120 kip",
+                       "reactions": [{"load": "40 kip", "axis": "strong", "eccentricity": "6 in"}],
+                       "end_moments": {"weak": {"top": "8 kip*ft", "bottom": "4 kip*ft",
+                                                "curvature": "reverse"}},
+                       "story": {"load": "3000 kip", "buckling_load": "30000 kip"}}})
+        out = site_report(store, site.id, tmp_path / "l1.pdf", report_date="2026-04-01")
+    text = _flat(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages))
+    assert "Reaction 1: 40 kip, strong axis, 6 in off the centre" in text
+    assert "Weak axis: 8 kip*ft at the top, 4 kip*ft at the bottom, reverse curvature" in text
+    assert "Story: 3000 kip gravity load, buckling load 30000 kip" in text
+
+
 def test_cli_writes_the_report_and_names_a_bad_site(demo, tmp_path: Path, capsys):
     store, _, _, _, _ = demo
     db = str(store.path)

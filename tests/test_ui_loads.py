@@ -69,6 +69,10 @@ def test_a_reaction_with_eccentricity_makes_a_beam_column_by_h1_1a(demo):  # noq
     assert bc["interaction"]["value"] >= pr / pc + 8 / 9 * 240 / (0.9 * 33 * 60.4) - 1e-3
     words = latest_summary(store, cid).interaction
     assert words.startswith("AISC 360-22 (H1-1a) governs") and "strong axis 20 kip*ft" in words
+    # the record in words on the column screen says the reaction too
+    from fieldcol.ui.model import column_detail
+    assert ("Loads", "Reaction 1: 40 kip, strong axis, 6 in off the centre, + side") in [
+        (x.label, x.value) for x in column_detail(store, cid).record]
     r.undo_change(store, ch)
     assert "reactions" not in store.get_column(cid).record["demand"]
     assert _check(store, cid)["utilization"]["value"] == pytest.approx(

@@ -302,6 +302,9 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     rows += _restraint_rows(rec.get("restraints"))
     rows += [("Condition", tx.condition_text(rec.get("condition"))),
              ("Demand", tx.demand_text(rec.get("demand")))]
+    from fieldcol.ui.loads_model import load_lines  # plain data: no Flet
+
+    rows += [("Loads", line) for line in load_lines(rec.get("demand"))]
     if c.check is None or c.check.record != rec:  # else the check below says both
         rows += [("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
                  ("Code", tx.value_text(rec.get("code", data.site.code)))]

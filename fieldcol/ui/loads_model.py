@@ -18,6 +18,7 @@ Public API::
     set_story(store, column_id, load, buckling_load="", stiffness="") -> Change
     save_record_key(store, column_id, path, value, what, name) -> Change
     typed_quantity(text, kind, system, field) -> str
+    load_lines(demand) -> list[str]      # the record's loads in words (screen and report)
     AXES, SIDES, CURVATURES
 """
 
@@ -164,6 +165,55 @@ def _demand(record: dict[str, Any]) -> dict[str, Any]:
     return copy.deepcopy(d) if isinstance(d, dict) else {}
 
 
+def _parts(d: dict[str, Any]) -> tuple[list[ReactionLine], dict[str, MomentLine], dict[str, str]]:
+    reactions = []
+    for i, r in enumerate(d.get("reactions") or []):
+        if isinstance(r, dict):
+            axis = r.get("axis") if r.get("axis") in AXES else "strong"
+            reactions.append(ReactionLine(i, str(r.get("load", "")), axis,
+                                          str(r.get("eccentricity") or ""),
+                                          "-" if r.get("side") == "-" else "+"))
+    moments = {}
+    for ax, e in (d.get("end_moments") or {}).items():
+        if ax in AXES and isinstance(e, dict):
+            moments[ax] = MomentLine(ax, str(e.get("top") or ""), str(e.get("bottom") or ""),
+                                     "reverse" if e.get("curvature") == "reverse" else "single")
+    story = {k: str(v) for k, v in (d.get("story") or {}).items() if v not in (None, "")}
+    return reactions, moments, story
+
+
+def load_lines(demand: Any) -> list[str]:
+    """The loads a demand holds beyond its axial force, one line each in words: moments given
+    (second order), first-order end moments, beam reactions, the story. For the column's
+    record in words on the screen and in the report.
+
+    Args:
+        demand: a record's ``demand`` (anything else gives no line).
+
+    Returns:
+        The lines, e.g. ``["Reaction 1: 40 kip, strong axis, 6 in off the centre, + side"]``.
+
+    Example:
+        >>> load_lines({"axial": "120 kip", "moments": {"strong": "20 kip*ft"},
+        ...             "story": {"load": "3000 kip", "buckling_load": "30000 kip"}})
+        ['Moments given (second order): strong axis 20 kip*ft', 'Story: 3000 kip gravity load, buckling load 30000 kip']
+    """
+    if not isinstance(demand, dict):
+        return []
+    reactions, moments, story = _parts(demand)
+    out = []
+    given = demand.get("moments")
+    if isinstance(given, dict) and any(v not in (None, "") for v in given.values()):
+        out.append("Moments given (second order): " + ", ".join(
+            f"{AXES[ax][0].lower() if ax in AXES else ax} {v}" for ax, v in given.items()
+            if v not in (None, "")))
+    out += [m.words for m in moments.values()]
+    out += [r.words for r in reactions]
+    if story:
+        out.append(LoadsView("", "", "", "", "", "", False, [], {}, story).story_words)
+    return out
+
+
 def loads_view(store: "Store", column_id: str) -> LoadsView:
     """The loads on a column as its record holds them.
 
@@ -179,19 +229,7 @@ def loads_view(store: "Store", column_id: str) -> LoadsView:
     col = store.get_column(column_id)
     system = store.get_site(col.site_id).unit_system
     d = _demand(col.record)
-    reactions = []
-    for i, r in enumerate(d.get("reactions") or []):
-        if isinstance(r, dict):
-            axis = r.get("axis") if r.get("axis") in AXES else "strong"
-            reactions.append(ReactionLine(i, str(r.get("load", "")), axis,
-                                          str(r.get("eccentricity") or ""),
-                                          "-" if r.get("side") == "-" else "+"))
-    moments = {}
-    for ax, e in (d.get("end_moments") or {}).items():
-        if ax in AXES and isinstance(e, dict):
-            moments[ax] = MomentLine(ax, str(e.get("top") or ""), str(e.get("bottom") or ""),
-                                     "reverse" if e.get("curvature") == "reverse" else "single")
-    story = {k: str(v) for k, v in (d.get("story") or {}).items() if v not in (None, "")}
+    reactions, moments, story = _parts(d)
     i = 0 if system == "us" else 1
     return LoadsView(column_id, system, _UNITS["force"][i], _UNITS["moment"][i],
                      _UNITS["stiffness"][i], "in" if system == "us" else "mm",

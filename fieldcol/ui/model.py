@@ -507,6 +507,9 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
               Line("Length", _length_text(rec.get("length"), system)),
               Line("Axial demand", demand_text),
               Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
+    from fieldcol.ui.loads_model import load_lines
+
+    record += [Line("Loads", x) for x in load_lines(demand)]
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
         parts = []
