@@ -104,3 +104,15 @@ def test_the_median_error_shrinks_with_the_spreads_on_every_path():
     assert errs[2] < errs[1] < errs[0] or errs[2] <= 1e-4
     none = run_samples(FRAME, 200, spreads=Spreads(0.0, 0.0, 0.0))
     assert none.percentiles[50] == pytest.approx(assess(FRAME).design_strength, rel=1e-9)
+
+
+def test_a_built_up_column_is_refused_not_sampled_as_a_rolled_shape():
+    # the sampled path knows rolled shapes only: a battened pair of channels is refused by name
+    rec = {"tag": "K/7", "length": "18 ft", "material": "A7",
+           "section": {"built": {"arrangement": "channels", "channel": "C12X20.7", "gap": "6 in",
+                                 "toes": "out", "battens": {"spacing": "24 in", "depth": "8 in",
+                                                            "thickness": "3/8 in"}}},
+           "demand": {"axial": "150 kip", "basis": "lrfd"}}
+    with pytest.raises(InputError) as e:
+        run_samples(rec, 1000)
+    assert e.value.field == "samples" and "built-up" in e.value.reason
