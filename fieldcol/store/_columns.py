@@ -259,7 +259,7 @@ class ColumnsMixin(SitesMixin):
                 if text is None:
                     text = v.json_text(record, "record")
                 now = v.now_utc()
-                batch.append((new_id(), now, now, self.device_id, None, site_id, tag.strip(), text,
+                batch.append(("", now, now, self.device_id, None, site_id, tag.strip(), text,
                               v.text(location, "location", required=False),
                               v.text(grid, "grid", required=False), level_id, self.person))
                 if len(batch) >= 1000:
@@ -275,9 +275,13 @@ class ColumnsMixin(SitesMixin):
         return _oplog.unnoted_inserts(self.db.conn, "columns")
 
     def _insert_many(self, sql: str, names: tuple[str, ...], batch: list[tuple[Any, ...]]) -> int:
-        """Insert a batch of new columns (ids first in each row) and empty it, with their
-        operations; a unique key refused is the caller's error."""
+        """Insert a batch of new columns (each row's id still to be given, first) and empty it,
+        with their operations; a unique key refused is the caller's error."""
         conn, schema = self.db.conn, self._sync_schema
+        # in tag order, ids given in that order: the tag indexes (the column's own two, its
+        # claim's) take the batch a page at a time, and the id indexes at their end
+        batch.sort(key=lambda r: r[6])
+        batch[:] = [(new_id(), *r[1:]) for r in batch]
         try:
             conn.executemany(sql, batch)
             if schema is not None:
