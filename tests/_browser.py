@@ -291,10 +291,13 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
         except sync_api.Error:                                    # text sits lower
             _find(page, identifier)
             continue
+        # the keyboard in this entry's own box: an entry typed into just before can still hold
+        # the focus for a moment, and keys sent then would replace its text instead
         try:
-            _poll(lambda: page.evaluate("document.activeElement && "
-                                        "document.activeElement.tagName"),
-                  lambda tag: tag in ("INPUT", "TEXTAREA"), f"focus in {identifier}", 5)
+            _poll(lambda: page.evaluate(
+                "s => { const a = document.activeElement; return !!a && "
+                "['INPUT', 'TEXTAREA'].includes(a.tagName) && !!a.closest(s); }", _sel(identifier)),
+                bool, f"focus in {identifier}", 5)
         except AssertionError:
             continue
         page.keyboard.press("Control+A")
