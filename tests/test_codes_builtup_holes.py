@@ -196,3 +196,11 @@ def test_a_bow_beyond_tolerance_meets_the_holes_too():
     a, b = assess(rec), assess(plain)
     assert _has(a, "Mn,holes_strong")
     assert float(a.bow.Mc) < float(b.bow.Mc)
+
+
+def test_a_riveted_i_takes_the_general_case_for_lateral_torsional_buckling():
+    # EN 1993-1-1 6.3.2.3 is for rolled sections and equivalent welded ones; an I riveted from
+    # angles and plates takes the general case 6.3.2.2 (Table 6.4 curves), the more cautious
+    steps = {s["symbol"]: s for s in assess(_riveted_h(None)).to_dict()["steps"]}
+    assert "Table 6.4" in steps["curve,LT_strong"]["clause"]
+    assert "chi_LT,0_strong" not in steps   # the 6.3.2.3 steps (before f) do not appear

@@ -472,7 +472,7 @@ def _en(kind, sec, v, M, axial, shape, n, N_Ed, gamma, design, t, ratio, sway, m
         for c in candidates:
             sub = Trace()
             MRk[ax][c], chiLT[ax][c] = en_moment(kind, ax, sec, np.full(n, c), fy, E, G, v["Lc_twist"], sub,
-                                                 Weff, rolled_case=kind == "i", psi=psi)
+                                                 Weff, rolled_case=kind == "i" and built is None, psi=psi)
             shown[f"{ax},{c}"] = sub
 
     def pick(d, cls):
