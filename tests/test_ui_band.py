@@ -161,7 +161,7 @@ def test_the_section_tab_saves_a_band_refuses_a_bad_height_and_undoes(demo):  # 
         assert s.text("save-note").startswith("Saved loss band 0 to 6 in, hole across the web")
         assert store.get_column(cid).record["section"]["loss"]["to"] == "6 in"
         assert s.find("loss-where-band").selected
-        assert "above the bottom" in s.text("section-card")
+        assert 'from the bottom to 6" above it' in s.text("section-card")
         await s.tap("save-undo")
         assert "loss" not in store.get_column(cid).record["section"]
         assert s.find("loss-where-full").selected
@@ -212,3 +212,11 @@ def test_the_section_tab_offers_the_finish_of_a_measured_en_tube(tmp_path):
         assert "finish" not in store.get_column(col.id).record["section"]
         store.close()
     _run(walk())
+
+
+def test_a_band_reads_from_the_bottom_or_between_two_heights():
+    from fieldcol.ui.model import _band_text
+
+    assert _band_text({"from": "0", "to": "6 in"}, "us") == 'from the bottom to 6" above it'
+    assert _band_text({"from": "0 mm", "to": "150 mm"}, "si") == "from the bottom to 150 mm above it"
+    assert _band_text({"from": "1 ft", "to": "2 ft"}, "us") == "1'-0\" to 2'-0\" above the bottom"

@@ -263,6 +263,21 @@ def _length_text(text: Any, system: str) -> str:
         return str(text)  # shown as typed: the check will name what is wrong with it
 
 
+def _band_text(loss: dict, system: str) -> str:
+    """Where a loss band lies, e.g. ``from the bottom to 6" above it`` or ``1'-0" to 2'-0"
+    above the bottom``."""
+    from fieldcol.units import parse_length
+
+    to = _length_text(loss.get("to", ""), system)
+    try:
+        at_bottom = parse_length(loss.get("from", ""), "from", allow_zero=True) == 0
+    except InputError:
+        at_bottom = False
+    if at_bottom:
+        return f"from the bottom to {to} above it"
+    return f"{_length_text(loss.get('from', ''), system)} to {to} above the bottom"
+
+
 def _q(d: Any, kind: str, system: str) -> str:
     from fieldcol.units import format_quantity
 
@@ -568,8 +583,7 @@ def loss_lines(section: Any, system: str) -> list[Line]:
     if loss.get("uniform") not in (None, ""):
         out.append(Line("Loss per exposed face", _thickness_text(loss["uniform"], system)))
     if loss.get("from") not in (None, "") or loss.get("to") not in (None, ""):
-        out.append(Line("Over a band of height", f"{_length_text(loss.get('from', ''), system)}"
-                        f" to {_length_text(loss.get('to', ''), system)} above the bottom"))
+        out.append(Line("Over a band of height", _band_text(loss, system)))
     holes = loss.get("holes") if isinstance(loss.get("holes"), dict) else {}
     if any(x not in (None, "") for x in holes.values()):
         out.append(Line("Holes in the band (width lost)", ", ".join(
