@@ -118,3 +118,71 @@ def test_the_sketch_draws_the_lacing_and_the_battens():
     stitched = bm.built_preview("channels", "stitch", {"channel": "C12X20.7", "gap": "6",
                                                        "pitch": "24"}, "us")
     assert stitched.ties == [] and stitched.elevation == []
+
+
+RIVETED = {**BATTENED, "battens.fasteners.count": "2", "battens.fasteners.diameter": "7/8",
+           "holes.diameter": "15/16", "holes.per_flange": "2"}
+
+
+def test_riveted_ties_offer_their_fasteners_and_the_flange_holes_a_welded_one_does_not():
+    keys = [e.key for e in bm.entries("channels", "battens", "riveted")]
+    assert keys[-4:] == ["battens.fasteners.count", "battens.fasteners.diameter",
+                         "holes.diameter", "holes.per_flange"]
+    assert [e.label for e in bm.entries("channels", "lacing", "bolted")][-4:-2] == [
+        "Bolts at each end", "Bolt diameter"]
+    assert not any(e.optional for e in bm.entries("channels", "battens", "welded"))
+    # a box of angles has no flange holes to give (refused by the record: not offered)
+    assert "holes.diameter" not in [e.key for e in bm.entries("angles-box", "lacing", "riveted")]
+    rec = bm.built_record("channels", "battens", RIVETED, "us")
+    assert rec["battens"]["fasteners"] == {"count": 2, "diameter": "7/8 in"}
+    assert rec["holes"] == {"diameter": "15/16 in", "per_flange": 2}
+    assert bm.built_typed({"built": rec})[2] == {**RIVETED, **{
+        k: v + " in" for k, v in RIVETED.items() if k in
+        ("gap", "battens.spacing", "battens.depth", "battens.thickness",
+         "battens.fasteners.diameter", "holes.diameter")}}
+    # left empty, the optional groups are left out of the record
+    assert "holes" not in bm.built_record("channels", "battens", BATTENED, "us")
+
+
+def test_an_optional_group_half_given_or_a_bad_count_is_named_as_labelled():
+    p = bm.built_preview("channels", "battens", {**BATTENED, "battens.fasteners.count": "2"}, "us")
+    assert p.error_key == "battens.fasteners.diameter" and p.error.startswith("Rivet diameter")
+    p = bm.built_preview("channels", "battens", {**RIVETED, "holes.per_flange": "two"}, "us")
+    assert p.error_key == "holes.per_flange" and "whole number" in p.error
+    p = bm.built_preview("channels", "battens", {**RIVETED, "holes.per_flange": "9",
+                                                  "holes.diameter": "1"}, "us")
+    assert p.error_key == "holes.per_flange"
+    assert p.error.startswith("Holes across one flange: 9 holes") and "whole width" in p.error
+
+
+def test_the_tab_saves_the_fasteners_and_the_check_takes_the_tie_joints(demo):  # noqa: F811
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        await s.go(f"/columns/{cid}")
+        await s.tap("tab-section")
+        for key, text in {**RIVETED, "holes.per_flange": "x"}.items():
+            await s.type(f"built-{key}", text, submit=False)
+        await s.tap("save-built")
+        tf = s.inner("built-holes.per_flange", ft.TextField)
+        assert tf.value == "x" and "whole number" in str(tf.error)
+        assert "built" not in store.get_column(cid).record["section"]
+        await s.type("built-holes.per_flange", "2", submit=False)
+        await s.tap("save-built")
+        assert s.text("save-note").startswith("Saved built-up section")
+        built = store.get_column(cid).record["section"]["built"]
+        assert built["battens"]["fasteners"]["count"] == 2 and built["holes"]["per_flange"] == 2
+        modes = store.latest_check(cid).result["modes"]
+        assert "tie-joint" in str(modes)
+        # the card, drawn again, shows what was typed
+        await s.tap("tab-check")
+        await s.tap("tab-section")
+        assert s.inner("built-battens.fasteners.count", ft.TextField).value == "2"
+        assert s.inner("built-holes.diameter", ft.TextField).value == "15/16"
+        # welded: the fastener entries go
+        await s.tap("built-connection-welded")
+        assert not s.has("built-holes.diameter")
+    _run(walk())

@@ -3,7 +3,9 @@ sketch of the parts drawn from what is typed, the properties, and Save.
 
 Identifiers: ``built-card``, ``built-<arrangement>``, ``built-tie-<tie>``, ``built-toes-<out|in>``,
 ``built-connection-<kind>``, ``built-<key>`` (an entry: ``built-channel``,
-``built-battens.spacing``), ``built-sketch`` (the parts with the lacing or battens on the open
+``built-battens.spacing``; riveted or bolted, the optional ``built-battens.fasteners.count``,
+``built-battens.fasteners.diameter`` (or ``lacing.``), ``built-holes.diameter``,
+``built-holes.per_flange``), ``built-sketch`` (the parts with the lacing or battens on the open
 faces), ``built-elevation`` (a side view of one face with the lacing or battens; shown when the
 chords stand apart), ``built-preview``, ``save-built``.
 """
@@ -122,10 +124,12 @@ class BuiltCard:
         system = "us" if v.unit == "in" else "si"
         self.fields = {}
         rows: list[ft.Control] = []
-        for e in bm.entries(self.arrangement, self.tie):
+        for e in bm.entries(self.arrangement, self.tie, self.connection):
             tf = ec.unit_entry(e.label, self.typed.get(e.key, ""),
-                               None if e.kind == "part" else v.unit, hint=e.hint,
-                               on_change=self._typed(e.key))
+                               v.unit if e.kind == "length" else None, hint=e.hint,
+                               on_change=self._typed(e.key),
+                               keyboard=ft.KeyboardType.NUMBER if e.kind == "count"
+                               else ft.KeyboardType.TEXT)
             self.fields[e.key] = tf
             rows.append(ft.Container(ft.Semantics(identifier=f"built-{e.key}", content=tf),
                                      col={"xs": 12 if e.kind == "part" else 6}))

@@ -7,7 +7,7 @@ No Flet here. Entries are kept as typed, keyed ``channel``, ``gap``, ``battens.s
 
 Public API::
 
-    ARRANGEMENTS, TIES, entries(arrangement, tie) -> list[Entry]
+    ARRANGEMENTS, TIES, entries(arrangement, tie, connection) -> list[Entry]
     built_record(arrangement, tie, typed, system) -> dict      (the record's ``built`` object)
     built_preview(arrangement, tie, typed, system) -> BuiltPreview
     built_typed(section) -> (arrangement, tie, typed)           (to fill the card again)
@@ -38,13 +38,16 @@ CONNECTIONS = [("riveted", "Riveted"), ("bolted", "Bolted"), ("welded", "Welded"
 
 @dataclass(frozen=True)
 class Entry:
-    """One thing to type: its key, its label, ``part`` (a catalogue name or nothing) or
-    ``length``, and a hint."""
+    """One thing to type: its key (a dotted path in the record's ``built`` object), its label,
+    its kind (``part``: a catalogue name; ``length``; ``count``: a whole number), a hint, and
+    whether it may be left empty (``optional``: the entries of one group, such as the
+    fasteners at a batten's end, are given all together or not at all)."""
 
     key: str
     label: str
     kind: str = "length"
     hint: str = ""
+    optional: bool = False
 
 
 _PART_HINT = {"channel": "e.g. C12X20.7, MC10X25, UPN 200", "angle": "e.g. L4X4X1/2, L6X4X3/8"}
@@ -75,6 +78,31 @@ _TIE = {
                       Entry("flange_plates.thickness", "Flange plate thickness")],
     "none": [],
 }
+_FASTENER_WORDS = {"riveted": ("Rivets", "Rivet"), "bolted": ("Bolts", "Bolt")}
+
+
+def _optional(arrangement: str, tie: str, connection: str) -> list[Entry]:
+    """The fasteners at each end of a batten or lacing bar (checked as the ``tie-joint``
+    mode) and the rivet or bolt holes across a flange (the net flange in bending), for a
+    riveted or bolted section; a welded one has neither."""
+    if connection not in _FASTENER_WORDS:
+        return []
+    many, one = _FASTENER_WORDS[connection]
+    out: list[Entry] = []
+    if tie in ("battens", "lacing"):
+        bar = "batten" if tie == "battens" else "bar"
+        out += [Entry(f"{tie}.fasteners.count", f"{many} at each end", "count",
+                      f"optional: at one end of one {bar}, e.g. 2", True),
+                Entry(f"{tie}.fasteners.diameter", f"{one} diameter",
+                      hint=f"optional: with the {many.lower()} at each end", optional=True)]
+    if arrangement in ("channels", "angles-web"):
+        out += [Entry("holes.diameter", "Hole diameter",
+                      hint="optional: fastener holes across a flange, for bending", optional=True),
+                Entry("holes.per_flange", "Holes across one flange", "count",
+                      "optional: at one height, e.g. 2", True)]
+    return out
+
+
 # what to measure, said under the sketch
 MEASURE = {
     "channels": "Measure one channel (or read its mark), the clear gap between the two, and "
@@ -154,14 +182,28 @@ def _face_ties(arrangement: str, tie: Any, box: tuple[float, float, float, float
     return out
 
 
-def entries(arrangement: str, tie: str) -> list[Entry]:
-    """The entries of an arrangement with its ties.
+def entries(arrangement: str, tie: str, connection: str = "welded") -> list[Entry]:
+    """The entries of an arrangement with its ties; a riveted or bolted one also has the
+    optional fasteners at the ties' ends and the holes across a flange.
 
     Example:
         >>> [e.key for e in entries("channels", "stitch")]
         ['channel', 'gap', 'pitch']
+        >>> [e.key for e in entries("angles-box", "battens", "riveted")][-2:]
+        ['battens.fasteners.count', 'battens.fasteners.diameter']
     """
-    return list(_BASE[arrangement]) + list(_TIE.get(tie, []))
+    return (list(_BASE[arrangement]) + list(_TIE.get(tie, []))
+            + _optional(arrangement, tie, connection))
+
+
+def _count(text: str, label: str) -> int:
+    if not text.isdigit() or not 1 <= int(text) <= 12:
+        raise InputError(label, text, "must be a whole number from 1 to 12", "e.g. 2")
+    return int(text)
+
+
+def _group(key: str) -> str:
+    return key.rpartition(".")[0]
 
 
 def built_record(arrangement: str, tie: str, typed: dict[str, str], system: str,
@@ -179,26 +221,32 @@ def built_record(arrangement: str, tie: str, typed: dict[str, str], system: str,
     out: dict[str, Any] = {"arrangement": arrangement, "connection": connection}
     if arrangement == "channels":
         out["toes"] = toes
-    for e in entries(arrangement, tie):
+    every = entries(arrangement, tie, connection)
+    given = {_group(e.key) for e in every if e.optional and (typed.get(e.key) or "").strip()}
+    for e in every:
         text = (typed.get(e.key) or "").strip()
+        if e.optional and _group(e.key) not in given:
+            continue
         if e.kind == "part":
             if not text:
                 raise InputError(e.label.lower(), "", "this is required", e.hint)
             value: Any = text
+        elif e.kind == "count":
+            value = _count(text, e.label.lower())
         else:
             value = typed_length(text, system, e.label.lower())
-        head, _, sub = e.key.partition(".")
-        if sub:
-            out.setdefault(head, {})[sub] = value
-        else:
-            out[head] = value
+        *heads, last = e.key.split(".")
+        node = out
+        for head in heads:
+            node = node.setdefault(head, {})
+        node[last] = value
     return out
 
 
-def _label_of(fld: str, arrangement: str, tie: str) -> str | None:
+def _label_of(fld: str, arrangement: str, tie: str, connection: str) -> str | None:
     """The entry key a record path names (``section.built.battens.depth`` -> ``battens.depth``)."""
     path = fld.removeprefix("section.built.")
-    keys = {e.key for e in entries(arrangement, tie)}
+    keys = {e.key for e in entries(arrangement, tie, connection)}
     while path:
         if path in keys:
             return path
@@ -216,16 +264,20 @@ def built_preview(arrangement: str, tie: str, typed: dict[str, str], system: str
         >>> p.error, len(p.polygons), p.lines[0].label
         (None, 2, 'Area')
     """
-    from fieldcol.builtrecord import parse_built
+    from fieldcol.builtrecord import built_holes, parse_built
 
     prev = BuiltPreview(measure=MEASURE[arrangement])
     try:
         spec = built_record(arrangement, tie, typed, system, toes, connection)
         b = parse_built(spec)
+        built_holes(spec, b)   # holes wider than the flange are refused before saving
     except InputError as e:
-        prev.error = f"{e.field}: {e.reason}" + (f" ({e.hint})" if e.hint else "")
-        prev.error_key = _label_of(e.field, arrangement, tie) or next(
-            (x.key for x in entries(arrangement, tie) if x.label.lower() == e.field), None)
+        every = entries(arrangement, tie, connection)
+        prev.error_key = _label_of(e.field, arrangement, tie, connection) or next(
+            (x.key for x in every if x.label.lower() == e.field), None)
+        # said as the entry is labelled, not as the record's path
+        name = next((x.label for x in every if x.key == prev.error_key), e.field)
+        prev.error = f"{name}: {e.reason}" + (f" ({e.hint})" if e.hint else "")
         return prev
     s = b.section
     us = system == "us"
@@ -279,14 +331,15 @@ def built_typed(section: Any) -> tuple[str, str, dict[str, str], str, str]:
     arr = b["arrangement"]
     tie = next((t for t, _ in TIES[arr] if isinstance(b.get(t), dict)),
                "stitch" if arr == "channels" else TIES[arr][0][0])
+    connection = str(b.get("connection", "riveted"))
     typed: dict[str, str] = {}
-    for e in entries(arr, tie):
-        head, _, sub = e.key.partition(".")
-        v = b.get(head)
-        v = v.get(sub) if sub and isinstance(v, dict) else (None if sub else v)
-        if isinstance(v, str):
-            typed[e.key] = v
-    return arr, tie, typed, str(b.get("toes", "out")), str(b.get("connection", "riveted"))
+    for e in entries(arr, tie, connection):
+        v: Any = b
+        for head in e.key.split("."):
+            v = v.get(head) if isinstance(v, dict) else None
+        if isinstance(v, str) or (isinstance(v, int) and not isinstance(v, bool)):
+            typed[e.key] = str(v)
+    return arr, tie, typed, str(b.get("toes", "out")), connection
 
 
 def save_built(store: "Store", column_id: str, arrangement: str, tie: str,
@@ -299,10 +352,10 @@ def save_built(store: "Store", column_id: str, arrangement: str, tie: str,
     Example: ``save_built(store, cid, "channels", "battens", typed).label`` gives
     ``'built-up section'``.
     """
-    from fieldcol.builtrecord import parse_built
+    from fieldcol.builtrecord import built_holes, parse_built
     from fieldcol.ui.section import _save_record
 
     system = store.get_site(store.get_column(column_id).site_id).unit_system
     spec = built_record(arrangement, tie, typed, system, toes, connection)
-    parse_built(spec)   # refuse before anything is written
+    built_holes(spec, parse_built(spec))   # refuse before anything is written
     return _save_record(store, column_id, {"built": spec}, "built-up section")
