@@ -35,8 +35,7 @@ import math
 import numpy as np
 import pytest
 
-from fieldcol.codes.builtup import (check_builtup, chord_force, lacing_geometry,
-                                    shear_stiffness)
+from fieldcol.codes.builtup import check_builtup, chord_force, shear_stiffness
 from fieldcol.sections._builtup import Battens, Lacing, OpenAxis, channels
 from fieldcol.sections._parts import catalogue_part
 
@@ -150,12 +149,19 @@ class Frame:
         mu = np.linalg.eigvalsh(Ci @ -Kg[np.ix_(free, free)] @ Ci.T)
         return 1.0 / float(mu.max())
 
-    def second_order(self, factor: float) -> list[float]:
-        """Member axial forces under factor x the loads, equilibrium on the displaced frame
-        (linear second-order analysis: (K + factor Kg) u = factor F)."""
+    def second_order(self, factor: float) -> list[np.ndarray]:
+        """Each member's end forces in its own axes (N1, V1, M1, N2, V2, M2; N and N mm; the
+        axial force, tension positive, is the fourth) under factor x the loads, equilibrium on
+        the displaced frame (linear second-order analysis: (K + factor Kg) u = factor F)."""
         K = self.stiffness()
-        Kg = self.geometric(self.solve(K, self.force_vector()))
-        return self.axial(self.solve(K + factor * Kg, self.force_vector(factor)))
+        u1 = self.solve(K, self.force_vector())
+        u = self.solve(K + factor * self.geometric(u1), self.force_vector(factor))
+        out = []
+        for m, N in zip(self.members, self.axial(u1)):
+            idx, T, L = self._geometry(m)
+            k = _k_local(self.E, m[2], m[3] if m[4] else 0.0, L) + _kg_local(factor * N, L, m[4])
+            out.append(k @ T @ u[idx])
+        return out
 
 
 def _pitch(ax: OpenAxis) -> float:
@@ -165,13 +171,13 @@ def _pitch(ax: OpenAxis) -> float:
 def _ties(fr: Frame, ax: OpenAxis, A: list[int], B: list[int], sub: int, panels: int,
           ends: bool) -> list[int]:
     """Lacing bars, battens or stitch ties between the chord nodes A and B (``sub`` chord
-    elements per half panel); returns the lacing bars' member numbers."""
+    elements per half panel); returns their member numbers."""
     tie, bars = ax.tie, []
     if tie is None or isinstance(tie, Battens):
         A_b = tie.planes * tie.depth * tie.thickness if tie else 1e3 * ax.Ach
         I_b = tie.planes * tie.I if tie else 1e3 * ax.Ich
         for p in range(0 if ends else 1, panels + (1 if ends else 0)):
-            fr.member(A[2 * sub * p], B[2 * sub * p], A_b, I_b)
+            bars.append(fr.member(A[2 * sub * p], B[2 * sub * p], A_b, I_b))
         return bars
     Ad = tie.planes * tie.area
     for p in range(panels):
@@ -191,7 +197,8 @@ def column_frame(ax: OpenAxis, panels: int, bow: float = 0.0, E: float = E
                  ) -> tuple[Frame, list[int], list[int], list[int]]:
     """A pin-ended column of ``panels`` panels: the chords h0 apart, rigid tie plates at both
     ends, supported at their middles, a unit load at the top; every node moved across by
-    bow sin(pi y / L). Returns (frame, chord A members, chord B members, lacing bars)."""
+    bow sin(pi y / L). Returns (frame, chord A members, chord B members, lacing bars or
+    battens)."""
     a = _pitch(ax)
     L = panels * a
     sub = 2 if not isinstance(ax.tie, Lacing) else 1     # chord elements per half panel
@@ -255,12 +262,15 @@ def built(name: str):
     return channels(UPN200, 150, tie=TIES[name])
 
 
+def lengths(ax: OpenAxis, L: float) -> tuple[float, float]:
+    """(Lc strong, Lc weak): L about the open axis, the solid axis kept out of the way."""
+    return (L, 3 * L) if ax.axis == "strong" else (3 * L, L)
+
+
 def elastic_pcr(b, L: float) -> float:
     """fieldcol's elastic buckling load about the open axis (Engesser)."""
     ax = b.open_axes[0]
-    other = 3 * L                                    # the solid axis kept out of the way
-    Ls = (L, other) if ax.axis == "strong" else (other, L)
-    res = check_builtup("elastic", b, 1e6, E, G, Ls[0], Ls[1], L)
+    res = check_builtup("elastic", b, 1e6, E, G, *lengths(ax, L), L)
     return float(res.modes[f"flexural-{ax.axis}"].Pe)
 
 
@@ -284,12 +294,13 @@ def test_shear_stiffness_is_that_of_the_frame_panel(name):
 
 
 def test_a_wrong_shear_stiffness_would_be_seen():
-    # The check above can fail: the single-lacing Sv with the diagonal's length to the second
-    # power instead of the third (a plausible slip) is off by d / h0 (1.65 here), far outside
-    # the 0.1 % above.
+    # The check above can fail: a plausible slip in the zig-zag's geometry, the diagonal taken
+    # over the whole pitch a instead of half of it, gives an Sv 4.9 times too small here, far
+    # outside the 0.1 % above.
     ax = built("single lacing").open_axes[0]
-    d, _ = lacing_geometry(ax)
-    wrong = shear_stiffness(ax, E) * d / ax.h0
+    t = ax.tie
+    d = math.hypot(ax.h0, ax.a)
+    wrong = t.planes * E * t.area * ax.a * ax.h0**2 / (2 * d**3)
     assert panel_shear_stiffness(ax) != pytest.approx(wrong, rel=0.1)
 
 
@@ -321,8 +332,7 @@ def test_the_en_critical_load_of_a_laced_column_is_on_the_safe_side():
     b = built("single lacing")
     ax = b.open_axes[0]
     L = 20 * _pitch(ax)
-    Ls = (L, 3 * L) if ax.axis == "strong" else (3 * L, L)
-    res = check_builtup("en1993-1-1", b, 355.0, E, G, Ls[0], Ls[1], L)
+    res = check_builtup("en1993-1-1", b, 355.0, E, G, *lengths(ax, L), L)
     Neff = float(res.modes[f"flexural-{ax.axis}"].Pe)
     fr, *_ = column_frame(ax, 20)
     share = 2 * ax.Ich / (0.5 * ax.h0**2 * ax.Ach + 2 * ax.Ich)
@@ -340,41 +350,78 @@ def test_chord_force_at_mid_length_is_that_of_the_bowed_frame(name):
     # lower, by 2.3 to 3.2 % (measured). fieldcol must be above the frame and within 5 %.
     b = built(name)
     ax = b.open_axes[0]
-    panels = 20
-    L = panels * _pitch(ax)
+    L = 20 * _pitch(ax)
     N = 0.5 * elastic_pcr(b, L)
     Nch, _, _ = chord_force(ax, N, L, E)
-    fr, chord_a, chord_b, _ = column_frame(ax, panels, bow=L / 500)
+    fr, chord_a, chord_b, _ = column_frame(ax, 20, bow=L / 500)
     forces = fr.second_order(N)
     half = len(chord_a) // 2
-    frame_Nch = -min(forces[m] for m in chord_a[half - 1:half + 1] + chord_b[half - 1:half + 1])
+    frame_Nch = -min(forces[m][3] for m in chord_a[half - 1:half + 1] + chord_b[half - 1:half + 1])
     assert 0.95 * Nch <= frame_Nch <= Nch
+
+
+def ties_at_the_en_capacity(name: str, panels: int = 20):
+    """The EN check of the column of ``panels`` panels (S355) and its frame at the check's
+    capacity N_b,Rd, where fieldcol reports the forces in the ties. Returns (axis, the check's
+    trace values by symbol, the bow's share of every member's end forces in the frame at that
+    N, the ties' member numbers, the ratio of the two amplifications).
+
+    The bow's share is the bowed frame's forces less the straight frame's (what the shear does;
+    the straight frame's own tie forces come from the chords shortening, which 6.4 does not
+    count). The amplifications: EN's 1 / (1 - N/Ncr - N/Sv) with Ieff against the frame's
+    1 / (1 - N/Pcr,frame); near the capacity EN's is the larger (Ieff leaves out the chords'
+    own stiffness, or all but mu of it), and their ratio is taken out before the forces are
+    compared (it is the same for every tie force)."""
+    b = built(name)
+    ax = b.open_axes[0]
+    L = panels * _pitch(ax)
+    res = check_builtup("en1993-1-1", b, 355.0, E, G, *lengths(ax, L), L)
+    steps = {s.symbol: float(s.value) for s in res.trace.steps if s.unit in ("N", "N mm")}
+    o = ax.axis
+    N = steps[f"Nb,Rd,{o}"]
+    bowed, _, _, ties = column_frame(ax, panels, bow=L / 500)
+    straight, *_ = column_frame(ax, panels)
+    share = [f - g for f, g in zip(bowed.second_order(N), straight.second_order(N))]
+    ratio = (1 - N / straight.buckling_load()) / (1 - N / steps[f"Ncr,{o}"] - N / steps[f"Sv,{o}"])
+    return ax, steps, share, ties, ratio
 
 
 @pytest.mark.parametrize("name", ["single lacing", "crossed lacing", "lacing with posts"])
 def test_lacing_bar_force_is_that_of_the_bowed_frame(name):
     # EN 1993-1-1 6.4.2.2 / 6.4.1 (7): the bars carry V_Ed = pi M_Ed / L, a bar
-    # N_d = V_Ed d / (n s h0) (s = 2 for crossed bars sharing the shear). In the frame the
-    # bow's share of a bar's force is the bowed frame's force less the straight frame's at
-    # the same N (that difference is what the shear does; the straight frame's own bar forces
-    # come from the chords shortening, which 6.4 does not count). The frame's chords carry a
-    # part of the shear by their own bending and its end panels see the shear a little inside
-    # the ends: the frame's largest bar force is 84 to 90 % of EN's (measured). fieldcol must
-    # be above the frame and within 20 %.
-    b = built(name)
-    ax = b.open_axes[0]
-    panels = 20
-    L = panels * _pitch(ax)
-    N = 0.5 * elastic_pcr(b, L)
-    _, _, V = chord_force(ax, N, L, E)
-    d, _ = lacing_geometry(ax)
-    share = 2.0 if ax.tie.kind == "double" else 1.0
-    Nd = V * d / (share * ax.h0)                     # all planes together, as in the frame
-    bowed, _, _, bars = column_frame(ax, panels, bow=L / 500)
-    straight, *_ = column_frame(ax, panels)
-    f_bow, f_straight = bowed.second_order(N), straight.second_order(N)
-    frame_Nd = max(abs(f_bow[m] - f_straight[m]) for m in bars)
-    assert 0.80 * Nd <= frame_Nd <= Nd
+    # N_d = V_Ed d / (n s h0) (s = 2 for crossed bars sharing the shear), reported by fieldcol
+    # at its capacity N_b,Rd; against the bow's share of the bars' forces in the frame at that
+    # N (the frame's bar stands for the n planes). The frame's bars carry less: measured 78 to
+    # 89 % of fieldcol's, which must never be below the frame's (the safe side). With the
+    # amplifications' ratio (1.06 to 1.22 here) taken out, 90 to 95 %: the rest is the shear
+    # the chords carry by their own bending and the end panels seeing the shear a little inside
+    # the ends. Within 15 % then.
+    ax, steps, share, bars, ratio = ties_at_the_en_capacity(name)
+    Nd = steps[f"N_d,Ed,{ax.axis}"]
+    frame_Nd = max(abs(share[m][3]) for m in bars) / ax.tie.planes
+    assert frame_Nd <= Nd
+    assert frame_Nd * ratio == pytest.approx(Nd, rel=0.15)
+
+
+@pytest.mark.parametrize("name", ["battens", "stiff battens"])
+def test_batten_shear_and_moment_are_those_of_the_bowed_frame(name):
+    # EN 1993-1-1 6.4.3.1 (2), Fig. 6.11: a batten carries V_b = V_Ed a / (n h0) and, at the
+    # chord, M_b = V_Ed a / (2 n), reported by fieldcol at its capacity N_b,Rd; against the
+    # bow's share of the battens' end forces in the frame at that N (the frame's batten stands
+    # for the n planes). The frame's battens carry less: measured 74 to 75 % of fieldcol's,
+    # which must never be below the frame's (the safe side). With the amplifications' ratio
+    # (1.22 here: mu below 1 at this slenderness) taken out, 90 to 92 %, as for the lacing.
+    # Within 15 % then; and the frame's own M_b / V_b is h0 / 2, as EN's pair has it (the
+    # batten's point of contraflexure at its middle), within 1 %.
+    ax, steps, share, battens, ratio = ties_at_the_en_capacity(name)
+    Vb, Mb = steps[f"V_b,Ed,{ax.axis}"], steps[f"M_b,Ed,{ax.axis}"]
+    n = ax.tie.planes
+    frame_V = max(abs(share[m][1]) for m in battens) / n
+    frame_M = max(max(abs(share[m][2]), abs(share[m][5])) for m in battens) / n
+    assert frame_V <= Vb and frame_M <= Mb
+    assert frame_V * ratio == pytest.approx(Vb, rel=0.15)
+    assert frame_M * ratio == pytest.approx(Mb, rel=0.15)
+    assert frame_M / frame_V == pytest.approx(ax.h0 / 2, rel=0.01)
 
 
 def test_aisc_modified_slenderness_with_rigid_ties_is_the_frames():
@@ -382,14 +429,14 @@ def test_aisc_modified_slenderness_with_rigid_ties_is_the_frames():
     # Two channels 150 mm apart held by stitch ties (rigid) at a = 600 mm: the frame's
     # buckling load gives an equivalent slenderness pi sqrt(E A / Pcr), which must be fieldcol's
     # (Lc/r)m; that formula is Engesser's with Sv = 2 pi^2 E Ich / a^2 (the chord's Euler load
-    # over a), so it matches the frame as the battens above do: within 1 % at 20 panels.
+    # over a), so it matches the frame as the battens above do: within 1 % at 20 panels
+    # (measured: the frame's slenderness 0.7 % below fieldcol's, on the safe side).
     ch = catalogue_part("C8X11.5", "section.built.channel", "channel")
     b = channels(ch, 150, pitch=600, connection="riveted")
     ax = b.open_axes[0]
     assert ax.tie is None and not ax.back_to_back
     L = 20 * 600.0
-    Ls = (L, 3 * L) if ax.axis == "strong" else (3 * L, L)
-    res = check_builtup("aisc360-22", b, 250.0, 200000.0, 77200.0, Ls[0], Ls[1], L)
+    res = check_builtup("aisc360-22", b, 250.0, 200000.0, 77200.0, *lengths(ax, L), L)
     m = float(next(s for s in res.trace.steps if s.symbol == f"(Lc/r)m,{ax.axis}").value)
     fr, *_ = column_frame(ax, 20, E=200000.0)        # AISC's modulus
     Pcr = fr.buckling_load()
