@@ -36,7 +36,7 @@ import numpy as np
 import pytest
 
 from fieldcol.codes.builtup import check_builtup, chord_force, shear_stiffness
-from fieldcol.sections._builtup import Battens, Lacing, OpenAxis, channels
+from fieldcol.sections._builtup import Battens, Lacing, OpenAxis, angles_box, channels
 from fieldcol.sections._parts import catalogue_part
 
 E = 210000.0          # MPa (EN 1993-1-1 3.2.6)
@@ -140,14 +140,24 @@ class Frame:
         return u
 
     def buckling_load(self) -> float:
-        """The least load factor of the loads at which the frame buckles (linear buckling)."""
+        """The least load factor of the loads at which the frame buckles (linear buckling):
+        the least root of K x = lambda (-Kg) x, by inverse iteration with the Rayleigh quotient
+        (the next mode of a column is well apart from the first, so it converges in a few tens
+        of steps; a full eigen-solution gives the same to 1e-9 but costs more)."""
         K = self.stiffness()
         Kg = self.geometric(self.solve(K, self.force_vector()))
         free = self._free()
-        C = np.linalg.cholesky(K[np.ix_(free, free)])
-        Ci = np.linalg.inv(C)
-        mu = np.linalg.eigvalsh(Ci @ -Kg[np.ix_(free, free)] @ Ci.T)
-        return 1.0 / float(mu.max())
+        Kf, Gf = K[np.ix_(free, free)], -Kg[np.ix_(free, free)]
+        Ki = np.linalg.inv(Kf)
+        x = np.random.default_rng(1).standard_normal(len(free))
+        lam = np.inf
+        for _ in range(500):
+            x = Ki @ (Gf @ x)
+            x /= np.linalg.norm(x)
+            before, lam = lam, float(x @ Kf @ x) / float(x @ Gf @ x)
+            if abs(lam - before) <= 1e-11 * abs(lam):
+                return lam
+        raise AssertionError("the buckling analysis did not converge")
 
     def second_order(self, factor: float) -> list[np.ndarray]:
         """Each member's end forces in its own axes (N1, V1, M1, N2, V2, M2; N and N mm; the
@@ -258,7 +268,18 @@ TIES = {
 }
 
 
+L3X3 = catalogue_part("L3X3X3/8", "section.built.angle", "angle")
+
+#: four angles at the corners of 450 x 350 mm, laced or battened on all four faces: both axes open
+BOXES = {
+    "box, single lacing": Lacing("single", 40, 8, 500),
+    "box, light battens": Battens(600, 80, 6),
+}
+
+
 def built(name: str):
+    if name in BOXES:
+        return angles_box(L3X3, 450, 350, BOXES[name])
     return channels(UPN200, 150, tie=TIES[name])
 
 
@@ -276,17 +297,16 @@ def elastic_pcr(b, L: float) -> float:
 
 # --- the checks --------------------------------------------------------------------------------
 
-@pytest.mark.parametrize("name", ["battens", "light battens", "single lacing",
-                                  "single lacing, one plane", "crossed lacing",
-                                  "lacing with posts"])
-def test_shear_stiffness_is_that_of_the_frame_panel(name):
+@pytest.mark.parametrize("name, axis", [(n, 0) for n in TIES if n != "stiff battens"]
+                         + [(n, i) for n in BOXES for i in (0, 1)])
+def test_shear_stiffness_is_that_of_the_frame_panel(name, axis):
     # Sv of EN 1993-1-1 Fig. 6.9 (lacing) and (6.73) below its cap (battens) against the
     # frame's own shear stiffness. Both rest on the same idealisation (bars pinned, battens
     # rigidly joined at the chord centrelines), so they agree closely: measured within 0.02 %,
     # what is left being the chords' finite axial stiffness (1e6 times real: the member's own
     # bending is not quite nil) and the decay of the foot's restraint at mid-height.
     # Tolerance 0.1 %.
-    ax = built(name).open_axes[0]
+    ax = built(name).open_axes[axis]
     Sv = shear_stiffness(ax, E)
     if isinstance(ax.tie, Battens):
         assert Sv < 2 * math.pi**2 * E * ax.Ich / ax.a**2      # the cap does not govern here
@@ -304,24 +324,27 @@ def test_a_wrong_shear_stiffness_would_be_seen():
     assert panel_shear_stiffness(ax) != pytest.approx(wrong, rel=0.1)
 
 
-@pytest.mark.parametrize("name", ["battens", "stiff battens", "single lacing",
-                                  "crossed lacing", "lacing with posts"])
+@pytest.mark.parametrize("name", ["battens", "light battens", "stiff battens", "single lacing",
+                                  "crossed lacing", "lacing with posts", *BOXES])
 def test_buckling_load_is_that_of_the_frame(name):
     # Engesser's 1/Pcr = 1/Pe + 1/Sv with Pe = pi^2 E I / L^2 of the whole section (fieldcol's
     # elastic check) against the frame's linear buckling load. The smeared model has no panels
-    # and no end tie plates: the frame comes out a little stiffer, by less as the panels get
-    # more numerous (measured, frame / fieldcol: 10 panels 1.013 to 1.081, 20 panels 1.003 to
-    # 1.017, 40 panels 1.001 to 1.003). At 20 panels: within +2.5 % and never below by more
-    # than 0.5 %; at 40 panels within 1 %, and closer than at 20. With stiff battens the
-    # cap 2 pi^2 E Ich / a^2 (EN 1993-1-1 6.4.3.1) is the Sv used, and the frame agrees with it.
+    # and no end tie plates (which stiffen the end panels): the frame comes out stiffer, by
+    # an excess that falls as the square of the number of panels, fieldcol being its limit
+    # (measured, frame / fieldcol - 1: 20 panels +0.3 to +5.6 %, the most with light battens,
+    # where shear governs and the end panels count most; 40 panels +0.07 to +1.3 %, each a
+    # fifth to a quarter of its 20-panel value). So: never below by more than 0.5 % (the
+    # safe side), at most 6 % at 20 panels, and at 40 panels at most 0.3 x the 20-panel excess
+    # + 0.1 %. With stiff battens the cap 2 pi^2 E Ich / a^2 (EN 1993-1-1 6.4.3.1) is the Sv
+    # used, and the frame agrees with it.
     b = built(name)
     ax = b.open_axes[0]
-    ratios = []
+    excess = []
     for panels in (20, 40):
         fr, *_ = column_frame(ax, panels)
-        ratios.append(fr.buckling_load() / elastic_pcr(b, panels * _pitch(ax)))
-    assert 0.995 <= ratios[0] <= 1.025
-    assert abs(ratios[1] - 1) <= 0.01 and abs(ratios[1] - 1) <= abs(ratios[0] - 1)
+        excess.append(fr.buckling_load() / elastic_pcr(b, panels * _pitch(ax)) - 1)
+    assert -0.005 <= excess[0] <= 0.06 and -0.005 <= excess[1]
+    assert excess[1] <= 0.3 * excess[0] + 0.001
 
 
 def test_the_en_critical_load_of_a_laced_column_is_on_the_safe_side():
