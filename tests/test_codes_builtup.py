@@ -3,7 +3,8 @@
 No published worked example's numbers were at hand to check against: the cases below are
 hand-worked, formulas from EN 1993-1-1 6.4 (and AISC 360-22 E6), written out beside each
 check (recalled from memory where marked). Property tests: more connector spacing never raises the capacity;
-a stiffer lacing never lowers it.
+a stiffer lacing never lowers it. The model itself (Sv, Engesser, the chord and lacing forces) is
+checked against an independent plane-frame analysis in tests/test_builtup_frame.py.
 """
 
 import math
