@@ -333,7 +333,10 @@ def _tab(page, name: str) -> None:
         time.sleep(0.2)
         box = _box(page, f"tab-{name}")
     try:
-        _click(page, f"tab-{name}", done=lambda: "(shown)" in _words(page, f"tab-{name}"))
+        # the tabs head the column screen: scrolled down past them, Flutter has dropped their
+        # nodes, so look above first
+        _click(page, f"tab-{name}", up=True,
+               done=lambda: "(shown)" in _words(page, f"tab-{name}"))
     except AssertionError:
         SHOTS.mkdir(parents=True, exist_ok=True)
         page.screenshot(path=str(SHOTS / f"failed-tab-{name}.png"))

@@ -22,9 +22,12 @@ def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
     _tab(page, "section")
     _find(page, "built-channels")
     for key, text in (("channel", "C12X20.7"), ("gap", "6"), ("battens.spacing", "24"),
-                      ("battens.depth", "8"), ("battens.thickness", "3/8")):
+                      ("battens.depth", "8"), ("battens.thickness", "3/8"),
+                      ("battens.fasteners.count", "2"), ("battens.fasteners.diameter", "7/8")):
         _find(page, f"built-{key}")
         _type_into(page, f"built-{key}", text, enter=False)
+    _big_enough(page, "built-battens.fasteners.count", "built-holes.per_flange")
+    _shot(page, "section-built-up-rivets.png")
     _click(page, "built-show")
     _find(page, "built-preview")
     _poll(lambda: _words(page, "built-preview"),
@@ -39,6 +42,9 @@ def test_phone_two_channels_battened_typed_shown_and_saved(server, browser):
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "Built up: two channels" in t,
           "the section now")
+    _tab(page, "check")   # the battens' end rivets are checked with the rest
+    _find(page, "capacity-tie-joint")
+    _tab(page, "section")
     _click(page, "save-undo")
     _find(page, "section-now")
     _poll(lambda: _words(page, "section-now"), lambda t: "Built up" not in t, "undone")

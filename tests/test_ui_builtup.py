@@ -175,8 +175,11 @@ def test_the_tab_saves_the_fasteners_and_the_check_takes_the_tie_joints(demo):  
         assert s.text("save-note").startswith("Saved built-up section")
         built = store.get_column(cid).record["section"]["built"]
         assert built["battens"]["fasteners"]["count"] == 2 and built["holes"]["per_flange"] == 2
-        modes = store.latest_check(cid).result["modes"]
-        assert "tie-joint" in str(modes)
+        assert "tie-joint" in store.latest_check(cid).result["modes"]
+        await s.tap("tab-check")   # shown with the column's other modes
+        row = s.text("capacity-tie-joint")
+        assert row.startswith("The end rivets or bolts of the lacing or battens") and "kip" in row
+        assert "length" not in row
         # the card, drawn again, shows what was typed
         await s.tap("tab-check")
         await s.tap("tab-section")

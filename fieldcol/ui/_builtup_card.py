@@ -124,6 +124,7 @@ class BuiltCard:
         system = "us" if v.unit == "in" else "si"
         self.fields = {}
         rows: list[ft.Control] = []
+        said_optional = False
         for e in bm.entries(self.arrangement, self.tie, self.connection):
             tf = ec.unit_entry(e.label, self.typed.get(e.key, ""),
                                v.unit if e.kind == "length" else None, hint=e.hint,
@@ -131,6 +132,10 @@ class BuiltCard:
                                keyboard=ft.KeyboardType.NUMBER if e.kind == "count"
                                else ft.KeyboardType.TEXT)
             self.fields[e.key] = tf
+            if e.optional and not said_optional:
+                said_optional = True
+                rows.append(ft.Container(text_line(bm.OPTIONAL_WORDS, size=16, color=MUTED),
+                                         col={"xs": 12}))
             rows.append(ft.Container(ft.Semantics(identifier=f"built-{e.key}", content=tf),
                                      col={"xs": 12 if e.kind == "part" else 6}))
         controls: list[ft.Control] = [

@@ -92,17 +92,18 @@ def _optional(arrangement: str, tie: str, connection: str) -> list[Entry]:
     if tie in ("battens", "lacing"):
         bar = "batten" if tie == "battens" else "bar"
         out += [Entry(f"{tie}.fasteners.count", f"{many} at each end", "count",
-                      f"optional: at one end of one {bar}, e.g. 2", True),
-                Entry(f"{tie}.fasteners.diameter", f"{one} diameter",
-                      hint=f"optional: with the {many.lower()} at each end", optional=True)]
+                      f"of one {bar}, e.g. 2", True),
+                Entry(f"{tie}.fasteners.diameter", f"{one} diameter", optional=True)]
     if arrangement in ("channels", "angles-web"):
-        out += [Entry("holes.diameter", "Hole diameter",
-                      hint="optional: fastener holes across a flange, for bending", optional=True),
+        out += [Entry("holes.diameter", "Hole diameter", hint="in a flange", optional=True),
                 Entry("holes.per_flange", "Holes across one flange", "count",
-                      "optional: at one height, e.g. 2", True)]
+                      "at one height, e.g. 2", True)]
     return out
 
 
+# said above the optional entries
+OPTIONAL_WORDS = "Rivets or bolts and their holes, where you can see them (optional; for the " \
+                 "ties' end joints and the net flange in bending):"
 # what to measure, said under the sketch
 MEASURE = {
     "channels": "Measure one channel (or read its mark), the clear gap between the two, and "

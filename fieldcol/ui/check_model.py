@@ -208,7 +208,9 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     closed = ((result.get("section") or {}).get("kind") or "i") != "i"
     caps = []
     xname = "λ-bar" if code == "en1993-1-1" else "Lc/r"
-    for mode in ("flexural-strong", "flexural-weak", "torsional", "yield"):
+    # the four of every column first, then what only some have (a built-up column's tie joints)
+    order = [m for m in ("flexural-strong", "flexural-weak", "torsional", "yield") if m in modes]
+    for mode in order + [m for m in modes if m not in order]:
         m = modes.get(mode)
         if not m:
             continue
@@ -216,9 +218,11 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
         sl = _val(m.get("slenderness"))
         sym = xname + ("" if mode == "yield" else "_" + _SUFFIX.get(code, {}).get(mode, "")) \
             if code == "en1993-1-1" else xname
+        name = names.get(mode) or MODE_WORDS.get(mode, mode).capitalize()
         caps.append(Capacity(
-            mode, names[mode], _fmt(None if pn is None else pn * factor, "force", system),
-            "" if mode == "yield" else _fmt(_val(m.get("effective_length")), "length", system),
+            mode, name, _fmt(None if pn is None else pn * factor, "force", system),
+            "" if mode == "yield" or m.get("effective_length") is None
+            else _fmt(_val(m.get("effective_length")), "length", system),
             "" if sl is None or mode == "yield" else f"{sym} {sl:.3g}" if code == "en1993-1-1"
             else f"{sym} {sl:.1f}",
             mode == gov,
