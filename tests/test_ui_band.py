@@ -143,9 +143,7 @@ def test_the_section_tab_saves_a_band_refuses_a_bad_height_and_undoes(demo):  # 
     cid = store.find_column(site.id, LOSS).id
 
     async def walk():
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         await s.tap("tab-section")
         assert s.find("loss-where-full").selected and not s.has("band-from")
         await s.tap("loss-where-band")
@@ -174,9 +172,7 @@ def test_the_condition_tab_chooses_the_bow_allowance_and_undoes(demo):  # noqa: 
     cid = store.find_column(site.id, BOW).id
 
     async def walk():
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         await s.tap("tab-condition")
         assert s.find("bow-allowance-1000").selected
         assert "straightness a new column may have" in s.text("bow-allowance-card")
@@ -199,9 +195,7 @@ def test_the_section_tab_offers_the_finish_of_a_measured_en_tube(tmp_path):
         col = store.add_column(site.id, {
             "tag": "T/2", "section": {"shape": "round", "D": "168.3 mm", "t": "8 mm"},
             "material": "S355", "length": "3.5 m", "demand": {"axial": "800 kN"}})
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         await s.tap("tab-section")
         assert s.find("finish-cold-formed").selected and "curve c" in s.text("finish-card")
         await s.tap("finish-hot-finished")

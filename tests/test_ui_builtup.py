@@ -57,10 +57,8 @@ def test_the_tab_shows_the_sketch_then_saves(demo):  # noqa: F811
     store, site = demo
 
     async def walk():
-        s = Screen(store)
-        await s.start()
         cid = store.find_column(site.id, "C/3-G").id
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         await s.tap("tab-section")
         assert s.has("built-card")
         for key, text in BATTENED.items():
@@ -160,9 +158,7 @@ def test_the_tab_saves_the_fasteners_and_the_check_takes_the_tie_joints(demo):  
     cid = store.find_column(site.id, "C/3-G").id
 
     async def walk():
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         await s.tap("tab-section")
         for key, text in {**RIVETED, "holes.per_flange": "x"}.items():
             await s.type(f"built-{key}", text, submit=False)

@@ -186,9 +186,7 @@ def test_the_check_tab_adds_a_reaction_shows_the_equation_and_undoes_it(demo):  
     cid = store.find_column(site.id, TAG).id
 
     async def walk():
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         assert s.has("loads-card") and s.find("loads-part-reactions").selected
         assert not s.has("interaction")
         await s.type("reaction-load", "40", submit=False)

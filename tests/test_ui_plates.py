@@ -87,9 +87,7 @@ def test_the_tab_offers_how_the_plates_are_held_and_names_a_missing_pitch(demo):
     cid = store.find_column(site.id, TAG).id
 
     async def walk():
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{cid}")
+        s = await Screen.opened(store, cid)
         await s.tap("tab-section")
         assert s.has("plate-connection-welded") and not s.has("plate-pitch")
         await s.type("plate-thickness", "3/8", submit=False)

@@ -85,6 +85,16 @@ class Screen:
         await self.app.start()
         await self.settle()
 
+    @classmethod
+    async def opened(cls, store: Any, column_id: str | None = None, width: int = 390
+                     ) -> "Screen":
+        """A started session, showing the column ``column_id`` when given."""
+        s = cls(store, width)
+        await s.start()
+        if column_id is not None:
+            await s.go(f"/columns/{column_id}")
+        return s
+
     async def settle(self) -> None:
         for _ in range(200):
             await asyncio.sleep(0.01)
@@ -291,9 +301,7 @@ def test_an_en_column_offers_no_lrfd_or_asd(tmp_path):
         col = store.add_column(site.id, {
             "tag": "K/1", "section": "HE 200 B", "material": "S355", "length": "4 m",
             "demand": {"axial": "900 kN"}})
-        s = Screen(store)
-        await s.start()
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         assert not s.has("basis-lrfd") and not s.has("basis-asd")
         with pytest.raises(Exception, match="expected lrfd or asd"):
             m.edit_change(col.id, "basis", "allowable")[0](store)
@@ -736,9 +744,7 @@ def test_an_en_column_never_says_lrfd(tmp_path):
                                          "material": "S355", "demand": {"axial": "1800 kN"}})
 
         async def walk():
-            s = Screen(store)
-            await s.start()
-            await s.go(f"/columns/{col.id}")
+            s = await Screen.opened(store, col.id)
             await s.tap("check-again")
             words = " ".join(str(c.value) for c in s.all()
                              if isinstance(c, (ft.Text, ft.TextField)) and c.value)
