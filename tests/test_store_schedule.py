@@ -170,3 +170,60 @@ def test_imported_columns_travel_and_later_edits_are_still_logged(store: Store, 
         replica.apply_ops(store.ops_after(0, 1000), source="bundle")
         got = {(c.tag, c.grid) for c in replica.list_columns(replica.find_site("Wool Exchange").id)}
     assert got == {("A/1-L1", "C/9"), ("A/2-L1", "A/2"), ("B/1-L1", "B/1"), ("C/9-L1", None)}
+
+
+def _index_sql(store: Store) -> dict[str, str]:
+    return dict(store.db.conn.execute(
+        "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND tbl_name = 'columns' "
+        "AND sql IS NOT NULL").fetchall())
+
+
+def test_many_new_columns_make_the_tag_indexes_again_and_still_refuse_a_taken_tag(
+        store: Store, tmp_path: Path):
+    # a large batch into a small table drops the site-and-tag index and makes it again at the
+    # end (expected: the size the caller announces); the rows, their log and the unique tag
+    # must come out as one by one (a taken tag refused, never settled as a sync's duplicate)
+    site = store.find_site("Wool Exchange")
+    before = _index_sql(store)
+    assert {"columns_live_tag", "columns_site_tag"} <= set(before)
+    items = [({"tag": f"Z/{i}-L1", "section": "W14X90"}, "L1", f"Z/{i}", None)
+             for i in range(5)]
+    assert store._add_columns(site.id, items, expected=10_000) == 5
+    assert _index_sql(store) == before
+    plan = store.db.conn.execute("EXPLAIN QUERY PLAN SELECT id FROM columns WHERE site_id = ? "
+                                 "AND tag = ? AND deleted_at IS NULL",
+                                 [site.id, "Z/3-L1"]).fetchall()
+    assert "columns_live_tag" in str(plan) or "columns_site_tag" in str(plan)
+    plan = store.db.conn.execute("EXPLAIN QUERY PLAN SELECT id FROM columns WHERE site_id = ? "
+                                 "AND tag = ?", [site.id, "Z/3-L1"]).fetchall()
+    assert "columns_site_tag" in str(plan)
+    with Store(tmp_path / "replica.db") as replica:
+        replica.apply_ops(store.ops_after(0, 1000), source="bundle")
+        got = {c.tag for c in replica.list_columns(replica.find_site("Wool Exchange").id)}
+    assert got == {f"Z/{i}-L1" for i in range(5)}
+    # a tag already on the site: refused, nothing kept, the index as it was
+    n_ops = store.count_ops()
+    with pytest.raises(InputError) as e:
+        store._add_columns(site.id, [({"tag": "Z/9-L1"}, None, None, None),
+                                     ({"tag": "Z/2-L1"}, None, None, None)], expected=10_000)
+    assert e.value.field == "tag"
+    assert _index_sql(store) == before
+    assert store.find_column(site.id, "Z/9-L1") is None
+    assert store.count_ops() == n_ops
+    assert len(store.list_columns(site.id)) == 5
+
+
+def test_many_new_columns_into_a_larger_table_keep_the_indexes(store: Store):
+    # more rows held than announced, or no writing transaction: nothing dropped
+    site = store.find_site("Wool Exchange")
+    store._add_columns(site.id, [({"tag": f"Y/{i}"}, None, None, None) for i in range(3)])
+    before = _index_sql(store)
+    assert store._tag_indexes_later(10_000) == []  # (outside a transaction)
+    with pytest.raises(RuntimeError):
+        with store._tx():
+            store.db.conn.execute("UPDATE columns SET rowid = 20000 WHERE rowid = "
+                                  "(SELECT max(rowid) FROM columns)")
+            assert store._tag_indexes_later(10_000) == []
+            assert store._tag_indexes_later(9_999) == []  # (a small batch)
+            raise RuntimeError("roll back")
+    assert _index_sql(store) == before

@@ -35,7 +35,7 @@ from typing import Any, Iterable, Iterator
 
 from fieldcol.errors import InputError
 from fieldcol.store._gcpause import gc_paused
-from fieldcol.store._ids import new_id
+from fieldcol.store._ids import new_id, new_ids
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -815,27 +815,51 @@ def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: 
     settle: dict[tuple, None] = {}
     count = 0
     for part in _chunks(rows):
-        op_rows, new_rows, rows_rows, touched = [], [], [], {}
-        for r in part:
-            row_id, op_id = r[at_id], new_id()
+        op_rows, key_rows, touched = [], [], {}
+        for r, op_id in zip(part, new_ids(len(part))):
+            row_id = r[at_id]
             fields = [k + _encode_text(r[i]) for i, k in order if r[i] is not None]
             count += len(fields)
             op_rows.append((op_id, device_id, hlc, tbl, row_id, ROW,
                             "{" + ", ".join(fields) + "}", 0, "local"))
             # its winners kept compact (as _compact_rows writes them), its keys spelt out
-            new_rows.append((tbl, row_id, ROW, hlc, op_id, None, None))
             for i, key, scope, live in keys:
                 if r[i] is not None:
                     raw = _encode_text(r[i])
-                    new_rows.append((tbl, row_id, key, hlc, op_id, raw, raw))
+                    key_rows.append((tbl, row_id, key, hlc, op_id, raw, raw))
                     touched[(tbl, key, scope, live, raw)] = None
-            rows_rows.append((tbl, row_id, hlc))
-        _write_logged(conn, op_rows, [], new_rows, rows_rows)
+        _write_new_logged(conn, op_rows, key_rows)
         for args in _settle_plain(conn, touched, fresh=True):
             settle[args] = None
     for args in settle:
         _settle_key(conn, *args)
     return count
+
+
+def _write_new_logged(conn: sqlite3.Connection, op_rows: list[tuple],
+                      key_rows: list[tuple]) -> None:
+    """Write the row operations of rows first written (``op_rows``: ``sync_ops`` rows, one a
+    row, ids made here just now) with their winners kept compact (``_compact_rows``: the
+    ``"*"`` row, and ``key_rows`` spelt out) and their rows' versions.
+
+    Why: the ``"*"`` winner and the version of each row repeat what its operation holds;
+    SQLite copies them from the operations just written (``seq`` above the largest before:
+    AUTOINCREMENT never gives a smaller one) instead of taking them from Python a value at
+    a time."""
+    before = conn.execute("SELECT max(seq) FROM sync_ops").fetchone()[0] or 0
+    conn.executemany(
+        "INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, source) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)", op_rows)
+    # (in the order written: the rows' ids, made in order, sort the same way)
+    conn.execute("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                 f"SELECT tbl, row_id, '{ROW}', hlc, op_id, NULL, NULL FROM sync_ops "
+                 "WHERE seq > ? ORDER BY seq", [before])
+    key_rows.sort(key=lambda r: (r[0], r[1], r[2]))
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", key_rows)
+    conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) SELECT tbl, row_id, hlc "
+                 "FROM sync_ops WHERE seq > ? ORDER BY seq ON CONFLICT(tbl, row_id) "
+                 "DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)", [before])
 
 
 def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None], *,

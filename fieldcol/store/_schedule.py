@@ -25,7 +25,7 @@ import re
 import sqlite3
 import tempfile
 from array import array
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Iterator
@@ -76,10 +76,23 @@ class SchedulePlan:
     location: str | None = None
 
 
-# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows;
-# a record as the store writes it (v.json_text)
-_encode_plan = json.JSONEncoder(ensure_ascii=False).encode
-_encode_record = json.JSONEncoder(ensure_ascii=False, allow_nan=False).encode
+def _encoder(allow_nan: bool) -> Callable[[Any], str]:
+    """``json.dumps(value, ensure_ascii=False, allow_nan=allow_nan)``, its C encoder made once.
+
+    Why: ``JSONEncoder.encode`` makes a new C encoder, and a dict to catch cycles, for every
+    value; a schedule's rows are 100,000 small values, and that setting up cost more than the
+    encoding. No cycle check: a plan holds what was read from a file (trees, never cycles)."""
+    c_make = getattr(json.encoder, "c_make_encoder", None)
+    if c_make is None:  # (a Python without json's C part)
+        return json.JSONEncoder(ensure_ascii=False, allow_nan=allow_nan).encode
+    one = c_make(None, json.JSONEncoder().default, json.encoder.encode_basestring, None,
+                 ": ", ", ", False, False, allow_nan)
+    return lambda value: "".join(one(value, 0))
+
+
+# a plan's line, and a record as the store writes it (v.json_text)
+_encode_plan = _encoder(True)
+_encode_record = _encoder(False)
 
 
 def _items(line: bytes) -> list[Any]:
@@ -759,7 +772,7 @@ def _write(store: "Store", preview: SchedulePreview,
                 yield record, level, grid, location
 
     # new columns in batches (each record was read whole by the preview); updates one by one
-    store._add_columns(found.id, added())
+    store._add_columns(found.id, added(), expected=preview.counts()["add"])
     updates = preview.counts()["update"]
     for p in preview.plans if updates else ():
         if p.action == "update":
