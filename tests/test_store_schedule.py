@@ -227,3 +227,31 @@ def test_many_new_columns_into_a_larger_table_keep_the_indexes(store: Store):
             assert store._tag_indexes_later(9_999) == []  # (a small batch)
             raise RuntimeError("roll back")
     assert _index_sql(store) == before
+
+
+def test_rows_alike_but_for_their_tags_keep_each_tag_in_their_record(store: Store,
+                                                                      tmp_path: Path):
+    # a row like one read before but for its tag reuses that row's record text: each stored
+    # record must still be exactly its own, written as the store writes any record
+    # (json.dumps with ensure_ascii=False: the standard library as the reference)
+    import json
+    import sqlite3
+
+    tags = ['Q/1 "north"', "Q/2 \\ back", "Qé/3", "Q/4 €", "'=Q/5"]
+    lines = ["tag,section,length (ft),material,demand (kip)"]
+    for i, t in enumerate(tags * 2):
+        quoted = '"' + (t + f"-{i}").replace('"', '""') + '"'
+        lines.append(f"{quoted},W14X90,{12 + i % 2},A992,{300 + i % 2}")
+    apply_schedule(store, "Wool Exchange", _write(tmp_path, "\n".join(lines) + "\n"))
+    site = store.find_site("Wool Exchange")
+    conn = sqlite3.connect(store.path)
+    texts = dict(conn.execute("SELECT tag, record FROM columns WHERE site_id = ?", [site.id]))
+    conn.close()
+    assert len(texts) == 10
+    for i, t in enumerate(tags * 2):
+        tag = (t + f"-{i}").removeprefix("'")  # the leading apostrophe guards a cell only
+        want = {"tag": tag, "code": "aisc360-22", "section": "W14X90",
+                "length": f"{12 + i % 2} ft", "material": "A992",
+                "demand": {"axial": f"{300 + i % 2} kip"}}
+        assert texts[tag] == json.dumps(want, ensure_ascii=False)
+        assert store.find_column(site.id, tag).record == want
