@@ -180,6 +180,7 @@ class Material:
         return float(out) if out.ndim == 0 else out
 
 
+@lru_cache(maxsize=512)  # (a schedule names a few grades on thousands of rows)
 def _norm(name: str) -> str:
     """A lookup key that ignores case, spaces, dashes, 'ASTM', 'Gr'/'Grade': 'A572 Gr 50' -> 'a57250'."""
     s = name.strip().lower()

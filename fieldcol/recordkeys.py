@@ -114,6 +114,12 @@ def check_record_keys(record: Mapping[str, Any]) -> None:
         fieldcol.errors.InputError: restraints.weak.braces[0].stifness: cannot use 'stifness': not a known key of the brace (did you mean 'stiffness'? known keys: at, stiffness, strength, added, cable, kind, seen_by, note)
     """
     def obj(value: Any) -> Mapping[str, Any]:
+        # (a record read from JSON holds dicts and plain values: those answered at once)
+        kind = type(value)
+        if kind is dict:
+            return value
+        if kind is str or value is None:
+            return {}
         return value if isinstance(value, Mapping) else {}
 
     def items(value: Any) -> list[tuple[int, Mapping[str, Any]]]:

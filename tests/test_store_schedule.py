@@ -170,3 +170,88 @@ def test_imported_columns_travel_and_later_edits_are_still_logged(store: Store, 
         replica.apply_ops(store.ops_after(0, 1000), source="bundle")
         got = {(c.tag, c.grid) for c in replica.list_columns(replica.find_site("Wool Exchange").id)}
     assert got == {("A/1-L1", "C/9"), ("A/2-L1", "A/2"), ("B/1-L1", "B/1"), ("C/9-L1", None)}
+
+
+def _index_sql(store: Store) -> dict[str, str]:
+    return dict(store.db.conn.execute(
+        "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND tbl_name = 'columns' "
+        "AND sql IS NOT NULL").fetchall())
+
+
+def test_many_new_columns_make_the_tag_indexes_again_and_still_refuse_a_taken_tag(
+        store: Store, tmp_path: Path):
+    # a large batch into a small table drops the site-and-tag index and makes it again at the
+    # end (expected: the size the caller announces); the rows, their log and the unique tag
+    # must come out as one by one (a taken tag refused, never settled as a sync's duplicate)
+    site = store.find_site("Wool Exchange")
+    before = _index_sql(store)
+    assert {"columns_live_tag", "columns_site_tag"} <= set(before)
+    items = [({"tag": f"Z/{i}-L1", "section": "W14X90"}, "L1", f"Z/{i}", None)
+             for i in range(5)]
+    assert store._add_columns(site.id, items, expected=10_000) == 5
+    assert _index_sql(store) == before
+    plan = store.db.conn.execute("EXPLAIN QUERY PLAN SELECT id FROM columns WHERE site_id = ? "
+                                 "AND tag = ? AND deleted_at IS NULL",
+                                 [site.id, "Z/3-L1"]).fetchall()
+    assert "columns_live_tag" in str(plan) or "columns_site_tag" in str(plan)
+    plan = store.db.conn.execute("EXPLAIN QUERY PLAN SELECT id FROM columns WHERE site_id = ? "
+                                 "AND tag = ?", [site.id, "Z/3-L1"]).fetchall()
+    assert "columns_site_tag" in str(plan)
+    with Store(tmp_path / "replica.db") as replica:
+        replica.apply_ops(store.ops_after(0, 1000), source="bundle")
+        got = {c.tag for c in replica.list_columns(replica.find_site("Wool Exchange").id)}
+    assert got == {f"Z/{i}-L1" for i in range(5)}
+    # a tag already on the site: refused, nothing kept, the index as it was
+    n_ops = store.count_ops()
+    with pytest.raises(InputError) as e:
+        store._add_columns(site.id, [({"tag": "Z/9-L1"}, None, None, None),
+                                     ({"tag": "Z/2-L1"}, None, None, None)], expected=10_000)
+    assert e.value.field == "tag"
+    assert _index_sql(store) == before
+    assert store.find_column(site.id, "Z/9-L1") is None
+    assert store.count_ops() == n_ops
+    assert len(store.list_columns(site.id)) == 5
+
+
+def test_many_new_columns_into_a_larger_table_keep_the_indexes(store: Store):
+    # more rows held than announced, or no writing transaction: nothing dropped
+    site = store.find_site("Wool Exchange")
+    store._add_columns(site.id, [({"tag": f"Y/{i}"}, None, None, None) for i in range(3)])
+    before = _index_sql(store)
+    assert store._tag_indexes_later(10_000) == []  # (outside a transaction)
+    with pytest.raises(RuntimeError):
+        with store._tx():
+            store.db.conn.execute("UPDATE columns SET rowid = 20000 WHERE rowid = "
+                                  "(SELECT max(rowid) FROM columns)")
+            assert store._tag_indexes_later(10_000) == []
+            assert store._tag_indexes_later(9_999) == []  # (a small batch)
+            raise RuntimeError("roll back")
+    assert _index_sql(store) == before
+
+
+def test_rows_alike_but_for_their_tags_keep_each_tag_in_their_record(store: Store,
+                                                                      tmp_path: Path):
+    # a row like one read before but for its tag reuses that row's record text: each stored
+    # record must still be exactly its own, written as the store writes any record
+    # (json.dumps with ensure_ascii=False: the standard library as the reference)
+    import json
+    import sqlite3
+
+    tags = ['Q/1 "north"', "Q/2 \\ back", "Qé/3", "Q/4 €", "'=Q/5"]
+    lines = ["tag,section,length (ft),material,demand (kip)"]
+    for i, t in enumerate(tags * 2):
+        quoted = '"' + (t + f"-{i}").replace('"', '""') + '"'
+        lines.append(f"{quoted},W14X90,{12 + i % 2},A992,{300 + i % 2}")
+    apply_schedule(store, "Wool Exchange", _write(tmp_path, "\n".join(lines) + "\n"))
+    site = store.find_site("Wool Exchange")
+    conn = sqlite3.connect(store.path)
+    texts = dict(conn.execute("SELECT tag, record FROM columns WHERE site_id = ?", [site.id]))
+    conn.close()
+    assert len(texts) == 10
+    for i, t in enumerate(tags * 2):
+        tag = (t + f"-{i}").removeprefix("'")  # the leading apostrophe guards a cell only
+        want = {"tag": tag, "code": "aisc360-22", "section": "W14X90",
+                "length": f"{12 + i % 2} ft", "material": "A992",
+                "demand": {"axial": f"{300 + i % 2} kip"}}
+        assert texts[tag] == json.dumps(want, ensure_ascii=False)
+        assert store.find_column(site.id, tag).record == want

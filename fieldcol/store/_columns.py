@@ -12,7 +12,7 @@ from typing import Any, Iterable
 from fieldcol.errors import InputError
 from fieldcol.store import _oplog
 from fieldcol.store import _validate as v
-from fieldcol.store._ids import new_id
+from fieldcol.store._ids import new_ids
 from fieldcol.store._records import (
     Column, ColumnRow, Measurement, RestraintChange, Retrofit, from_row,
 )
@@ -186,6 +186,14 @@ def overlay(record: dict[str, Any], latest: dict[str, Measurement]) -> tuple[dic
     return out, skipped
 
 
+def _refused(e: sqlite3.IntegrityError) -> InputError:
+    """The error to show for new columns that SQLite refused (a tag taken on the site)."""
+    if "columns_live_tag" in str(e) or "columns.site_id, columns.tag" in str(e):
+        return InputError("tag", "", "a column with this tag already exists on the site",
+                          "choose another tag or edit that column")
+    return InputError("record", "", f"the database refused the change ({e})", None)
+
+
 class ColumnsMixin(SitesMixin):
     """Store operations on columns, measurements, restraint changes, retrofits (part of ``Store``)."""
 
@@ -221,13 +229,16 @@ class ColumnsMixin(SitesMixin):
         return self.get_column(new_id)
 
     def _add_columns(self, site_id: str,
-                     items: Iterable[tuple[dict[str, Any], str | None, str | None, str | None]]
-                     ) -> int:
+                     items: Iterable[tuple[dict[str, Any], str | None, str | None, str | None]],
+                     expected: int = 0) -> int:
         """Create many columns at once (a schedule's new rows): ``items`` of (record, level,
         grid, location), records already read through ``check_record_keys`` by the caller; a
         record is a JSON object, or (its tag, its JSON text) as a schedule's plan keeps it.
         Written with ``executemany`` in batches inside one transaction (the caller's, or one
         of its own); a tag taken on the site refuses the whole call. Returns how many.
+        ``expected``: about how many items there are; when they are many and at least as many
+        as the columns already stored, the table's site-and-tag index is made again once they
+        are all in (``_tag_indexes_later``) instead of taking them one by one.
 
         Example:
             >>> store._add_columns(site.id, [({"tag": "B/6-L1"}, "L1", "B/6", None)])
@@ -241,6 +252,7 @@ class ColumnsMixin(SitesMixin):
                f"VALUES ({', '.join('?' for _ in names)})")
         count = 0
         with self._tx(), self._unnoted():
+            later = self._tag_indexes_later(expected)
             batch: list[tuple[Any, ...]] = []
             for record, level, grid, location in items:
                 if type(record) is tuple:
@@ -265,7 +277,49 @@ class ColumnsMixin(SitesMixin):
                 if len(batch) >= 1000:
                     count += self._insert_many(sql, names, batch)
             count += self._insert_many(sql, names, batch)
+            for text in later:
+                try:
+                    self.db.conn.execute(text)
+                except sqlite3.IntegrityError as e:
+                    raise _refused(e) from None
         return count
+
+    #: a column's tag index that only speeds reads (a schedule's batches, each in tag order,
+    #: land all over it); the unique one stays: a taken tag must be refused as its row comes,
+    #: before the log's claims see two rows with one tag and settle them as a sync would
+    _TAG_INDEXES = ("columns_site_tag",)
+
+    def _tag_indexes_later(self, expected: int) -> list[str]:
+        """Inside the writing transaction: drop the ``_TAG_INDEXES`` of ``columns`` when
+        about ``expected`` new rows are to come and they outnumber the rows there (a large
+        schedule into a store not much larger); returns the statements that make them again,
+        to run once the rows are in (``[]``: nothing dropped). An error before then rolls the
+        transaction back, and the indexes with it.
+
+        Why: a schedule's rows, a thousand at a time in tag order, land all over the index,
+        and the pages each batch touches are soon pushed out of SQLite's page cache, written,
+        read back and written again by the next; made again, it is sorted once and written
+        once. Where the table already holds more rows than come (it is read whole to make
+        it), the rows are better added one by one.
+
+        Example:
+            >>> with store._tx():
+            ...     store._tag_indexes_later(0)
+            []
+        """
+        conn = self.db.conn
+        if expected < 10_000 or not conn.in_transaction:
+            return []
+        held = conn.execute("SELECT max(rowid) FROM columns").fetchone()[0] or 0
+        if held > expected:  # (rowids only grow: at least as many rows as there are)
+            return []
+        marks = ", ".join("?" for _ in self._TAG_INDEXES)
+        texts = [r[0] for r in conn.execute(
+            f"SELECT sql FROM sqlite_master WHERE type = 'index' AND tbl_name = 'columns' AND "
+            f"name IN ({marks}) ORDER BY name", self._TAG_INDEXES)]
+        for name in self._TAG_INDEXES:
+            conn.execute(f"DROP INDEX IF EXISTS {name}")
+        return texts
 
     def _unnoted(self) -> Any:
         """The block's inserts into ``columns`` go unnoted by the trigger (``_insert_many``
@@ -281,18 +335,14 @@ class ColumnsMixin(SitesMixin):
         # in tag order, ids given in that order: the tag indexes (the column's own two, its
         # claim's) take the batch a page at a time, and the id indexes at their end
         batch.sort(key=lambda r: r[6])
-        batch[:] = [(new_id(), *r[1:]) for r in batch]
+        batch[:] = [(i, *r[1:]) for i, r in zip(new_ids(len(batch)), batch)]
         try:
             conn.executemany(sql, batch)
             if schema is not None:
                 _oplog.log_new_rows(conn, self.device_id, schema, "columns", list(names),
                                     batch)
         except sqlite3.IntegrityError as e:
-            if "columns_live_tag" in str(e) or "columns.site_id, columns.tag" in str(e):
-                raise InputError("tag", "", "a column with this tag already exists on the site",
-                                 "choose another tag or edit that column") from None
-            raise InputError("record", "", f"the database refused the change ({e})",
-                             None) from None
+            raise _refused(e) from None
         n = len(batch)
         batch.clear()
         return n

@@ -51,3 +51,36 @@ def new_id() -> str:
     n = (ms & 0xFFFF_FFFF_FFFF) << 80 | 0x7 << 76 | seq << 64 | 0b10 << 62 | _bits(62)
     h = f"{n:032x}"
     return f"{h[:8]}-{h[8:12]}-{h[12:16]}-{h[16:20]}-{h[20:]}"
+
+
+def new_ids(n: int) -> list[str]:
+    """``n`` new ids at once, in order, as ``new_id`` makes them one by one.
+
+    Why: a schedule's 100,000 columns need 200,000 ids (the rows and their operations); made
+    together the time and counter are taken once and each id costs a format and no lock.
+
+    Example:
+        >>> a = new_ids(3)
+        >>> a == sorted(a), len(set(a)), new_id() > a[-1]
+        (True, 3, True)
+    """
+    if n <= 0:
+        return []
+    ms = time.time_ns() // 1_000_000
+    with _lock:
+        if ms <= _last[0]:
+            ms, seq = _last[0], _last[1] + 1
+        else:
+            seq = 0
+        last = seq + n - 1  # counters past 0xFFF run on into the next milliseconds
+        _last[0], _last[1] = ms + (last >> 12), last & 0xFFF
+    bits, out, head, prefix = _bits, [], -1, ""
+    for s in range(seq, seq + n):
+        m = ms + (s >> 12)
+        if m != head:
+            head = m
+            t = f"{m & 0xFFFF_FFFF_FFFF:012x}"
+            prefix = f"{t[:8]}-{t[8:]}-7"
+        r = f"{0x8000_0000_0000_0000 | bits(62):016x}"
+        out.append(f"{prefix}{s & 0xFFF:03x}-{r[:4]}-{r[4:]}")
+    return out

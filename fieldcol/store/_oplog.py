@@ -30,12 +30,13 @@ import sqlite3
 import time
 from dataclasses import dataclass, field as _field
 from datetime import datetime, timezone
+from itertools import chain
 from contextlib import contextmanager
 from typing import Any, Iterable, Iterator
 
 from fieldcol.errors import InputError
 from fieldcol.store._gcpause import gc_paused
-from fieldcol.store._ids import new_id
+from fieldcol.store._ids import new_id, new_ids
 
 _encode_text = json.encoder.encode_basestring  # type: ignore[attr-defined]
 
@@ -55,6 +56,7 @@ MAX_VALUE_CHARS = 4_000_000
 #: an operation stamped further ahead of the receiver's clock than this is refused
 FUTURE_TOLERANCE_MS = 15 * 60 * 1000
 _SHIFT = 16
+_TEXT_OR_NULL = frozenset((str, type(None)))
 _FILE_FIELDS = {
     ("photos", "path"): re.compile(r"[0-9a-f]{2}/[0-9a-f]{64}\.(jpg|png|webp)"),
     ("photos", "thumb_path"): re.compile(r"thumbs/[0-9a-f]{2}/[0-9a-f]{64}\.jpg"),
@@ -420,7 +422,8 @@ class Schema:
         if len(names) != len(cols) or set(names) != set(cols) or \
                 not self._text_cols[tbl].issuperset(names):
             return False
-        return all(x is None or type(x) is str for r in rows for x in r)
+        # (the types gathered in C: a schedule's batch is 12,000 values)
+        return set(map(type, chain.from_iterable(rows))) <= _TEXT_OR_NULL
 
     @staticmethod
     def _uniques(conn: sqlite3.Connection, t: str,
@@ -815,9 +818,9 @@ def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: 
     settle: dict[tuple, None] = {}
     count = 0
     for part in _chunks(rows):
-        op_rows, new_rows, rows_rows, touched = [], [], [], {}
-        for r in part:
-            row_id, op_id = r[at_id], new_id()
+        op_rows, new_rows, touched = [], [], {}
+        for r, op_id in zip(part, new_ids(len(part))):
+            row_id = r[at_id]
             fields = [k + _encode_text(r[i]) for i, k in order if r[i] is not None]
             count += len(fields)
             op_rows.append((op_id, device_id, hlc, tbl, row_id, ROW,
@@ -829,13 +832,36 @@ def log_new_rows(conn: sqlite3.Connection, device_id: str, schema: Schema, tbl: 
                     raw = _encode_text(r[i])
                     new_rows.append((tbl, row_id, key, hlc, op_id, raw, raw))
                     touched[(tbl, key, scope, live, raw)] = None
-            rows_rows.append((tbl, row_id, hlc))
-        _write_logged(conn, op_rows, [], new_rows, rows_rows)
+        _write_new_logged(conn, op_rows, new_rows)
         for args in _settle_plain(conn, touched, fresh=True):
             settle[args] = None
     for args in settle:
         _settle_key(conn, *args)
     return count
+
+
+def _write_new_logged(conn: sqlite3.Connection, op_rows: list[tuple],
+                      new_rows: list[tuple]) -> None:
+    """Write the row operations of rows first written (``op_rows``: ``sync_ops`` rows, one a
+    row, ids made here just now) with their winners (``new_rows``, kept compact:
+    ``_compact_rows``) and their rows' versions.
+
+    Why: a row's version repeats what its operation holds; SQLite copies it from the
+    operations just written (``seq`` above the largest before: AUTOINCREMENT never gives a
+    smaller one) instead of taking it from Python a value at a time. (The winners stay in
+    Python: their two rows a column go in together in key order; copied apart, the second
+    would split every page the first filled.)"""
+    before = conn.execute("SELECT max(seq) FROM sync_ops").fetchone()[0] or 0
+    conn.executemany(
+        "INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, source) "
+        "VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)", op_rows)
+    new_rows.sort(key=lambda r: (r[0], r[1], r[2]))  # B-tree inserts in key order
+    conn.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id, value, mat) "
+                     "VALUES (?, ?, ?, ?, ?, ?, ?)", new_rows)
+    # (in the order written: the rows' ids, made in order, sort the same way)
+    conn.execute("INSERT INTO sync_rows (tbl, row_id, max_hlc) SELECT tbl, row_id, hlc "
+                 "FROM sync_ops WHERE seq > ? ORDER BY seq ON CONFLICT(tbl, row_id) "
+                 "DO UPDATE SET max_hlc = max(max_hlc, excluded.max_hlc)", [before])
 
 
 def _settle_plain(conn: sqlite3.Connection, touched: dict[tuple, None], *,

@@ -25,7 +25,7 @@ import re
 import sqlite3
 import tempfile
 from array import array
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Iterator
@@ -76,10 +76,23 @@ class SchedulePlan:
     location: str | None = None
 
 
-# json.dumps(..., ensure_ascii=False) without making an encoder for each of a file's rows;
-# a record as the store writes it (v.json_text)
-_encode_plan = json.JSONEncoder(ensure_ascii=False).encode
-_encode_record = json.JSONEncoder(ensure_ascii=False, allow_nan=False).encode
+def _encoder(allow_nan: bool) -> Callable[[Any], str]:
+    """``json.dumps(value, ensure_ascii=False, allow_nan=allow_nan)``, its C encoder made once.
+
+    Why: ``JSONEncoder.encode`` makes a new C encoder, and a dict to catch cycles, for every
+    value; a schedule's rows are 100,000 small values, and that setting up cost more than the
+    encoding. No cycle check: a plan holds what was read from a file (trees, never cycles)."""
+    c_make = getattr(json.encoder, "c_make_encoder", None)
+    if c_make is None:  # (a Python without json's C part)
+        return json.JSONEncoder(ensure_ascii=False, allow_nan=allow_nan).encode
+    one = c_make(None, json.JSONEncoder().default, json.encoder.encode_basestring, None,
+                 ": ", ", ", False, False, allow_nan)
+    return lambda value: "".join(one(value, 0))
+
+
+# a plan's line, and a record as the store writes it (v.json_text)
+_encode_plan = _encoder(True)
+_encode_record = _encoder(False)
 
 
 def _items(line: bytes) -> list[Any]:
@@ -96,6 +109,22 @@ def _plan_of(items: list[Any]) -> SchedulePlan:
     if type(items[4]) is str:
         items[4] = json.loads(items[4])
     return SchedulePlan(*items)
+
+
+def _record_text(record: dict[str, Any]) -> str | None:
+    """The JSON text a new column's row holds for ``record`` (as ``v.json_text`` writes it),
+    or None when the record is kept as it is (no code yet, or not writable as JSON).
+
+    Example:
+        >>> _record_text({"tag": "A/1", "code": "aisc360-22"})
+        '{"tag": "A/1", "code": "aisc360-22"}'
+    """
+    if "code" not in record:
+        return None
+    try:
+        return _encode_record(record)
+    except (TypeError, ValueError):
+        return None
 
 
 class PlanSpool(Sequence[SchedulePlan]):
@@ -115,22 +144,19 @@ class PlanSpool(Sequence[SchedulePlan]):
         self._end = 0
         self.counts = {"add": 0, "update": 0, "unchanged": 0}
 
-    def append(self, plan: SchedulePlan) -> None:
-        """Keep one plan (written at the end of the file)."""
-        if self._file is None:
-            self._file = tempfile.TemporaryFile()
-        text = None
-        if plan.action == "add" and "code" in plan.record:
-            # a new column's record is kept as the JSON text its row will hold, after a tab
-            # (JSON text holds none): apply writes it as it stands, decoded and encoded never
-            try:
-                text = _encode_record(plan.record)
-            except (TypeError, ValueError):
-                text = None
+    def append(self, plan: SchedulePlan, text: str | None = None) -> None:
+        """Keep one plan (written at the end of the file). ``text``: a new column's record
+        as ``_record_text`` gives it, when the caller has it already."""
+        if text is None and plan.action == "add":
+            text = _record_text(plan.record)
         head = _encode_plan([plan.row, plan.tag, plan.action, plan.changes,
                              plan.record if text is None else None, plan.level, plan.grid,
                              plan.location])
+        # a new column's record is kept as the JSON text its row will hold, after a tab
+        # (JSON text holds none): apply writes it as it stands, decoded and encoded never
         line = (head if text is None else f"{head}\t{text}").encode("utf-8") + b"\n"
+        if self._file is None:
+            self._file = tempfile.TemporaryFile()
         # reads use pread, so the file's position stays at its end: append where it is
         self._offsets.append(self._end)
         self._file.write(line)
@@ -480,6 +506,8 @@ def _row_fields(cells: dict[str, str], units_by: dict[str, str | None]) -> dict[
 #: by their JSON text without the tag: ``None`` (fine) or the error; bounded
 _READ_OK: dict[Any, Any] = {}
 _ROW_READ: dict[str, InputError | None] = {}
+#: a new column's record text after its tag, by its row's memo key (``_new_key``); bounded
+_NEW_TEXT: dict[Any, str] = {}
 _MEMO_MAX = 4096
 
 
@@ -638,16 +666,27 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
                                            None))
             continue
         col = store.find_column(found.id, tag) if found else None
+        key = None
         try:
             vals = _row_fields(cells, units_by)
             if col is None:
+                key = _new_key(code, vals)
+                rest = _NEW_TEXT.get(key) if key is not None else None
+                if rest is not None and key in _ROW_READ and _ROW_READ[key] is None:
+                    # a row read before but for its tag (fine): its record is that row's
+                    # with this tag, so its text is too (neither merged nor written again)
+                    preview.plans.append(
+                        SchedulePlan(n, tag, "add", [], {}, vals.get("level"), vals.get("grid"),
+                                     vals.get("location")),
+                        f"{{\"tag\": {_encode_plan(tag)}{rest}")
+                    continue
                 base: dict[str, Any] = {"tag": tag}
                 if code is not None:
                     base["code"] = code
                 # a new column: the record checked is the record kept (the reading copies
                 # nothing into it), so it is merged once
                 rec = _merge(base, vals)
-                _check_row(rec, vals, code, _new_key(code, vals))
+                _check_row(rec, vals, code, key)
             else:
                 base, current = col.record, store.current_record(col.id)
                 # a cell showing what an export shows is no change: an unedited export
@@ -660,8 +699,12 @@ def _plan(store: "Store", site_name: str, header: list[tuple[str, str | None]],
             preview.errors.append(RowError(n, e.field, e.text, e.reason, e.hint))
             continue
         if col is None:
+            text = _record_text(rec)
+            head = f"{{\"tag\": {_encode_plan(tag)}"
+            if key is not None and text is not None and text.startswith(head):
+                _remember(_NEW_TEXT, key, text[len(head):])
             preview.plans.append(SchedulePlan(n, tag, "add", [], rec, vals.get("level"),
-                                              vals.get("grid"), vals.get("location")))
+                                              vals.get("grid"), vals.get("location")), text)
             continue
         level_name = None
         if col.level_id:
@@ -759,7 +802,7 @@ def _write(store: "Store", preview: SchedulePreview,
                 yield record, level, grid, location
 
     # new columns in batches (each record was read whole by the preview); updates one by one
-    store._add_columns(found.id, added())
+    store._add_columns(found.id, added(), expected=preview.counts()["add"])
     updates = preview.counts()["update"]
     for p in preview.plans if updates else ():
         if p.action == "update":
