@@ -82,11 +82,17 @@ def _encoder(allow_nan: bool) -> Callable[[Any], str]:
     Why: ``JSONEncoder.encode`` makes a new C encoder, and a dict to catch cycles, for every
     value; a schedule's rows are 100,000 small values, and that setting up cost more than the
     encoding. No cycle check: a plan holds what was read from a file (trees, never cycles)."""
+    plain = json.JSONEncoder(ensure_ascii=False, allow_nan=allow_nan).encode
     c_make = getattr(json.encoder, "c_make_encoder", None)
     if c_make is None:  # (a Python without json's C part)
-        return json.JSONEncoder(ensure_ascii=False, allow_nan=allow_nan).encode
-    one = c_make(None, json.JSONEncoder().default, json.encoder.encode_basestring, None,
-                 ": ", ", ", False, False, allow_nan)
+        return plain
+    try:  # a private signature: another Python may change it, and then the plain one serves
+        one = c_make(None, json.JSONEncoder().default, json.encoder.encode_basestring, None,
+                     ": ", ", ", False, False, allow_nan)
+        if "".join(one({"a": [1, "é"]}, 0)) != plain({"a": [1, "é"]}):
+            return plain
+    except TypeError:
+        return plain
     return lambda value: "".join(one(value, 0))
 
 
