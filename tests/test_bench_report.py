@@ -35,7 +35,8 @@ def test_report_case_builds_a_checked_site_and_reports_it(tmp_path: Path):
 def test_import_case_imports_every_row_in_a_fresh_process():
     res = measure(40)
     assert res["import_rows"] == 40
-    assert res["import_100k_s"] >= res["import_apply_s"] > 0
+    # timings rounded to 0.01 s: 40 rows may apply in under 5 ms (the row count shows it ran)
+    assert res["import_100k_s"] >= res["import_apply_s"] >= 0
     assert res["import_peak_mb"] > 0 and res["import_cpu_s"] > 0
 
 
