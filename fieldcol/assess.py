@@ -164,6 +164,7 @@ class Assessment:
                 "elastic_critical_load": _q(m.Pe, "N"),
                 "critical_stress": _q(m.Fcr, "MPa"),
                 "nominal_strength": _q(m.Pn, "N"),
+                "applies": m.applies,
             }
         return {
             "tag": c.tag,

@@ -185,3 +185,20 @@ def test_the_tab_saves_the_fasteners_and_the_check_takes_the_tie_joints(demo):  
         await s.tap("built-connection-welded")
         assert not s.has("built-holes.diameter")
     _run(walk())
+
+
+def test_torsion_of_battened_channels_is_reported_not_applied_and_said_so(demo):  # noqa: F811
+    # laced, battened or boxed members are closed for torsion by their ties (common practice;
+    # the engine's note says so): the Check tab must not show a lower torsional strength as
+    # if it counted
+    from fieldcol.ui import check_model as cm
+
+    store, site = demo
+    cid = store.find_column(site.id, "C/3-G").id
+    bm.save_built(store, cid, "channels", "battens", BATTENED)
+    result = store.latest_check(cid).result
+    assert result["modes"]["torsional"]["applies"] is False
+    assert result["modes"]["flexural-weak"]["applies"] is True
+    s = cm.check_summary(result, "us")
+    tors = next(c for c in s.capacities if c.mode == "torsional")
+    assert not tors.applies and not tors.governs

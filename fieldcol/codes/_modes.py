@@ -72,7 +72,8 @@ def choose(modes: dict[str, ModeResult], trace: Trace, clause: str,
         modes: every mode's result (keys from ``MODES``).
         trace: the steps are added here.
         clause: the clause that says "the least of the modes".
-        exclude: modes reported but not applicable (torsion of closed sections).
+        exclude: modes reported but not applicable (torsion of closed sections); they are
+            marked so (``applies`` False) for whoever shows the modes.
     Returns:
         (nominal N, governing mode names); NaN nominal and ``""`` where any mode is NaN.
 
@@ -83,6 +84,9 @@ def choose(modes: dict[str, ModeResult], trace: Trace, clause: str,
         >>> float(n), str(g)
         (2.0, 'yield')
     """
+    for n in exclude:
+        if n in modes:
+            modes[n].applies = False
     names = [n for n in _TIE_ORDER if n in modes and n not in exclude]
     pns = [modes[n].Pn for n in names]
     vals = ([float(p[0]) for p in pns]

@@ -24,6 +24,8 @@ class ModeResult:
         Fcr: critical stress (MPa) as the code defines it (AISC Fcr; EN chi fy Aeff/A;
             elastic min(Pe/A, Fy)).
         Pn: nominal strength of this mode (N), before any resistance or partial factor.
+        applies: False for a mode reported but not applied (torsional buckling of a section
+            closed for torsion: hollow, or built up and closed by its ties); ``choose`` sets it.
 
     Example:
         >>> m = ModeResult("yield", None, None, None, np.array(250.0), np.array(1e6))
@@ -37,6 +39,7 @@ class ModeResult:
     Pe: np.ndarray | None
     Fcr: np.ndarray
     Pn: np.ndarray
+    applies: bool = True
 
 
 @dataclass

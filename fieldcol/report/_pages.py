@@ -392,7 +392,9 @@ def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
     y = pdf.get_y()
     pdf.text(pdf.l_margin, y + 2.4, "Every mode")
     pdf.set_y(y + 3.6)
-    mrows = [[tx.MODE_WORDS.get(name, name), tx.quantity(m.get("effective_length"), system),
+    mrows = [[tx.MODE_WORDS.get(name, name) + ("" if m.get("applies", True)
+                                              else " (reported only)"),
+              tx.quantity(m.get("effective_length"), system),
               tx.quantity(m.get("slenderness"), system),
               tx.quantity(m.get("critical_stress"), system),
               tx.quantity(m.get("nominal_strength"), system)]

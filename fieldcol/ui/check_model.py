@@ -226,7 +226,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
             "" if sl is None or mode == "yield" else f"{sym} {sl:.3g}" if code == "en1993-1-1"
             else f"{sym} {sl:.1f}",
             mode == gov,
-            not (closed and mode == "torsional")))
+            bool(m.get("applies", not (closed and mode == "torsional")))))
     governs, why = _why(result, gov, code, system)
     warnings = [str(w.get("message", w)) if isinstance(w, dict) else str(w)
                 for w in result.get("warnings") or []]
