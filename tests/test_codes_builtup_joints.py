@@ -173,3 +173,17 @@ def test_a_single_rivet_cannot_hold_a_batten():
     with pytest.raises(InputError) as e:
         assess(rec)
     assert e.value.field == "section.built.battens.fasteners.count"
+
+
+@pytest.mark.parametrize("code", ["aisc360-22", "en1993-1-1"])
+def test_welded_ties_say_their_welds_are_not_checked(code):
+    # a welded laced member has no end fasteners to check; its trace says the welds are left
+    # to the engineer (rather than saying nothing), riveted ones without fasteners say that
+    notes = lambda rec: [s["what"] for s in assess(rec).to_dict()["steps"]  # noqa: E731
+                         if s["symbol"] == "note"]
+    welded = _laced(None, code, connection="welded")
+    assert any("welds at the ends of the lacing or battens are not checked" in n
+               for n in notes(welded))
+    riveted = notes(_laced(None, code))
+    assert any("not recorded: not checked" in n for n in riveted)
+    assert not any("welds" in n for n in riveted)

@@ -341,6 +341,12 @@ def check_builtup(code: str, built: BuiltUp, Fy: float, E: float, G: float, Lc_s
         post.add("note", "the end rivets or bolts of the lacing or battens are not recorded: not "
                  "checked (record lacing.fasteners or battens.fasteners)", "", "", "",
                  "AISC 360-22 J3; EN 1993-1-8 Table 3.4")
+    elif code != "elastic" and built.connection == "welded" and any(
+            isinstance(ax.tie, (Lacing, Battens)) for ax in built.open_axes):
+        # the bar forces are in the trace above; the welds that carry them are the engineer's
+        post.add("note", "the welds at the ends of the lacing or battens are not checked: "
+                 "check them for the bar or batten forces above", "", "", "",
+                 "AISC 360-22 J2; EN 1993-1-8 4.5")
     t.steps.extend(st for st in res.trace.steps if not _replaced(st.symbol, code, {o.axis for o in built.open_axes}))
     t.extend(post)
     if built.connection != "welded":
