@@ -209,10 +209,8 @@ def test_tabs_in_order_each_its_own_module(demo):
 
     async def walk():
         store, site = demo
-        s = Screen(store)
-        await s.start()
         col = store.find_column(site.id, "C/3-G")
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         assert s.app.detail is not None and s.app.detail.tag == "C/3-G"
         assert s.app.person is None and s.app.visit_id is None
         for t in TABS:
@@ -386,10 +384,8 @@ def test_locked_store_says_not_saved_and_retry_saves(demo, monkeypatch):
 def test_brace_at_mid_height_in_two_taps_then_undo(demo):
     async def walk():
         store, site = demo
-        s = Screen(store)
-        await s.start()
         col = store.find_column(site.id, "A/1-G")
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         # the Check tab: capacity per axis and what governs right under the status, the curve
         assert "weak axis governs" in s.text("governing")
         assert s.has("capacity-flexural-weak") and s.has("column-curve") and s.has("trace")
@@ -507,10 +503,8 @@ def _no_hidden_child_in_semantics(s: Screen) -> None:
 def test_findings_tab_face_height_in_plain_words_and_undo(demo):
     async def walk():
         store, site = demo
-        s = Screen(store)
-        await s.start()
         col = store.find_column(site.id, "A/1-G")
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         await s.tap("tab-findings")
         _no_hidden_child_in_semantics(s)
         assert s.has("photo-defect") and s.has("column-photo-add")
@@ -544,10 +538,8 @@ def test_findings_tab_face_height_in_plain_words_and_undo(demo):
 def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
     async def walk():
         store, site = demo
-        s = Screen(store)
-        await s.start()
         col = store.find_column(site.id, "A/1-G")
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         await s.tap("tab-retrofit")
         _no_hidden_child_in_semantics(s)
         assert "licensed engineer" in s.text("caution")
@@ -581,10 +573,8 @@ def test_retrofit_plates_bolted_from_the_form(demo):
     # 360-22 E6.1: the trace of the kept option names a/ri)
     async def walk():
         store, site = demo
-        s = Screen(store)
-        await s.start()
         col = store.find_column(site.id, "A/1-G")
-        await s.go(f"/columns/{col.id}")
+        s = await Screen.opened(store, col.id)
         await s.tap("tab-retrofit")
         await s.tap("option-kind-plates")
         assert s.has("option-connection-bolted") and s.has("option-pitch")
