@@ -6,6 +6,10 @@ recorded it and pulled by an empty device, through a real hub over HTTP on 127.0
 in the same run (the floor a sync is compared with; goal: sync within 3 times of it). Both also
 in processor seconds of this process (``..._cpu_s``; the hub runs in a thread of it): on a
 machine shared with other work the wall-clock pair moves with the load, their ratio with it.
+``store_writes_2000_columns_s`` (and ``_cpu_s``): what one replica must write at the least, the
+same rows with their operations, row notes and winners put straight into a new fieldcol store
+(its indexes, foreign keys and triggers) by ``executemany``: no merge, no JSON, no network. A
+sync writes that twice (the hub's records for the office view, then the device's).
 ``sync_photos_mb_per_s``: 200 photos of 2 MB uploaded by one device and
 downloaded by another, megabytes moved per second over both legs.
 ``bundle_import_5000_rows_s``: a field bundle of a site of 500 columns and 4,500 readings (5,001
@@ -75,6 +79,42 @@ def _copy(src: Path, dst: Path) -> tuple[float, float]:
     return time.perf_counter() - t0, time.process_time() - c0
 
 
+def _store_writes(src: Path, dst: Path) -> tuple[float, float]:
+    """Seconds (wall clock, processor) to write the site's rows and their log into a new store
+    with plain inserts, the values read beforehand (the floor of one replica's merge)."""
+    from fieldcol.store import Store
+    from fieldcol.store._oplog import QUIET, ROW
+
+    a = sqlite3.connect(str(src))
+    tables = ("sites", "columns", "measurements")
+    data = {t: (a.execute(f"SELECT * FROM {t}").fetchall(),
+                [r[1] for r in a.execute(f"PRAGMA table_info({t})")]) for t in tables}
+    ops = a.execute("SELECT op_id, device_id, hlc, tbl, row_id, field, value, seen "
+                    "FROM sync_ops").fetchall()
+    a.close()
+    Store(dst).close()  # the schema, indexes and triggers of a device's store
+    b = sqlite3.connect(str(dst), isolation_level=None)
+    b.execute("PRAGMA synchronous=FULL")
+    b.execute("PRAGMA foreign_keys=ON")
+    t0, c0 = time.perf_counter(), time.process_time()
+    b.execute("BEGIN")
+    b.execute("INSERT INTO meta (key, value) VALUES (?, '1')", [QUIET])  # as a merge does
+    for t, (rows, names) in data.items():
+        b.executemany(f"INSERT INTO {t} ({', '.join(names)}) "
+                      f"VALUES ({', '.join('?' for _ in names)})", rows)
+    b.executemany("INSERT INTO sync_ops (op_id, device_id, hlc, tbl, row_id, field, value, seen, "
+                  "source) VALUES (?, ?, ?, ?, ?, ?, ?, ?, 'hub')", ops)
+    b.executemany("INSERT INTO sync_rows (tbl, row_id, max_hlc) VALUES (?, ?, ?)",
+                  [(o[3], o[4], o[2]) for o in ops])
+    b.executemany("INSERT INTO sync_fields (tbl, row_id, field, hlc, op_id) VALUES (?, ?, ?, ?, ?)",
+                  [(o[3], o[4], ROW, o[2], o[0]) for o in ops])
+    b.execute("DELETE FROM meta WHERE key = ?", [QUIET])
+    b.execute("COMMIT")
+    t, c = time.perf_counter() - t0, time.process_time() - c0
+    b.close()
+    return t, c
+
+
 def _photo(base: bytes, i: int) -> bytes:
     # one noisy JPEG made distinct by bytes after its end marker (readers stop at the marker)
     return base + f"bench photo {i:06d}".encode()
@@ -119,6 +159,7 @@ def run(*, quick: bool = False) -> dict[str, float]:
                 t_sync, c_sync = time.perf_counter() - t0, time.process_time() - c0
                 assert len(b.list_columns(b.list_sites()[0].id, limit=5)) == 5
                 t_copy, c_copy = _copy(root / "a.db", root / "copy.db")
+                t_floor, c_floor = _store_writes(root / "a.db", root / "floor.db")
                 base = _base_jpeg(photo_mb)
                 for i in range(n_photos):
                     a.add_photo(_photo(base, i))
@@ -141,4 +182,6 @@ def run(*, quick: bool = False) -> dict[str, float]:
             "sqlite_copy_2000_columns_s": round(t_copy, 3),
             "sync_2000_columns_cpu_s": round(c_sync, 3),
             "sqlite_copy_2000_columns_cpu_s": round(c_copy, 3),
+            "store_writes_2000_columns_s": round(t_floor, 3),
+            "store_writes_2000_columns_cpu_s": round(c_floor, 3),
             "sync_photos_mb_per_s": round(2 * size_mb / t_photos, 1)}
