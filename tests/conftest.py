@@ -12,7 +12,8 @@ to go silent for minutes on a screen it had just drawn (a screenshot timed out),
 leave the column pane of a tablet blank while the list beside it was drawn; a fresh page drew
 both at once. A test held past ``BROWSER_TIMEOUT`` fails (pytest-timeout) and runs again the
 same way. A real fault fails all three runs; every rerun is listed at the end of the run
-("RERUN ...", ``-rR``) so it can be looked into. Each test's pages are closed after it, so a
+("RERUN ...", ``-rR``) with the error that made it run again ("why tests ran again"), so it
+can be looked into. Each test's pages are closed after it, so a
 silent renderer does not spin on through the tests after it.
 """
 
@@ -33,6 +34,24 @@ def pytest_collection_modifyitems(items):
         if "browser" in getattr(item, "fixturenames", ()):
             item.add_marker(pytest.mark.timeout(BROWSER_TIMEOUT))
             item.add_marker(pytest.mark.flaky(reruns=2))
+
+
+#: (test, the error lines of the failed attempt) of every rerun in this session
+_reruns: list[tuple[str, str]] = []
+
+
+def pytest_runtest_logreport(report):
+    if report.outcome == "rerun":
+        text = getattr(report, "longreprtext", "") or ""
+        errors = [ln[1:].strip() for ln in text.splitlines() if ln.startswith("E ")]
+        _reruns.append((report.nodeid, " | ".join(errors[:3])[:400] or text[-400:]))
+
+
+def pytest_terminal_summary(terminalreporter):
+    if _reruns:
+        terminalreporter.section("why tests ran again")
+        for nodeid, why in _reruns:
+            terminalreporter.write_line(f"{nodeid}: {why}")
 
 
 @pytest.fixture(autouse=True)
