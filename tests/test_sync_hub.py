@@ -101,6 +101,9 @@ def test_two_devices_offline_then_every_sync_order_end_identical(tmp_path: Path,
     (c,) = b.conflicts()
     assert {c.value, c.kept} == {"by the press", "by the dock"}
     assert any("conflicts to review" in line for line in rep.lines())
+    # the conflict names the column as the engineer knows it, not by its id
+    assert any(line.startswith("  column C1 (") and "location" in line for line in rep.lines())
+    assert "1 conflict to review" in rep.lines(details=False)
 
 
 def test_three_devices_every_order_end_identical(tmp_path: Path, hub):
@@ -460,3 +463,19 @@ def test_the_office_view_is_refused_beyond_loopback_without_tls_or_on_the_hubs_p
     assert "office-port" in capsys.readouterr().err
     assert main(["hub", "serve", "--data", data, "--port", "8765", "--office-port", "8765"]) == 2
     assert "other than the hub's" in capsys.readouterr().err
+
+
+def test_row_label_names_rows_as_the_engineer_knows_them(tmp_path: Path):
+    # a column by its tag and site, a reading or finding by its column, a site by its name,
+    # a deleted column still by its tag, a row not held by its table and id
+    with Store(tmp_path / "a.db") as a:
+        s = _site(a)
+        col = _col(a, s.id, "B/2-G")
+        m = a.add_measurement(col.id, "length", "13 ft 11 in", taken_by="R. Osei")
+        name = a.get_site(s.id).name
+        assert a.row_label("columns", col.id) == f"column B/2-G ({name})"
+        assert a.row_label("measurements", m.id) == f"reading on column B/2-G ({name})"
+        assert a.row_label("sites", s.id) == f"site {name}"
+        a.delete("columns", col.id)
+        assert a.row_label("columns", col.id) == f"column B/2-G ({name})"
+        assert a.row_label("findings", "f0e1d2c3b4a5") == "finding f0e1d2c3"

@@ -63,6 +63,9 @@ def test_sync_screen_syncs_and_shows_conflicts(tmp_path: Path, browser):
         page.screenshot(path=str(SHOTS / "sync.png"))
         html = page.content()
         assert "by the press" in html and "by the dock" in html  # both values in view
+        # named by its tag and site, not by its id; what moved said once, in words
+        assert "column C4 (Kestrel Lane Print Works): location" in html
+        assert "1 conflict to review" in html and "(1):" not in html
         _wait(page, "conflict-0-other").click()
         _poll(lambda: page.locator(_sel("sync-status")).first.inner_text(),
               lambda t: "Saved your choice" in t, "choice saved")
@@ -135,3 +138,16 @@ def test_sync_never_imports_the_app():
             names = [a.name for a in node.names] if isinstance(node, ast.Import) else \
                 [node.module or ""] if isinstance(node, ast.ImportFrom) else []
             assert not any(n.startswith(("fieldcol.ui", "flet")) for n in names), f
+
+
+def test_sync_lines_say_what_the_device_holds(tmp_path: Path):
+    # the conflicts are counted on their cards, not again in the summary
+    from fieldcol.ui.sync_view import sync_lines
+
+    with Store(tmp_path / "a.db") as a:
+        site = a.add_site("Kestrel Lane Print Works", code="aisc360-22", unit_system="us")
+        a.add_column(site.id, {"tag": "C4", "section": "W10X49", "length": "14 ft"})
+        lines = sync_lines(a)
+    assert lines[0].startswith("changes kept here: 2 (2 made on this device)")
+    assert lines[1] == "changes waiting for their column or site to arrive: 0"
+    assert not any("conflict" in t for t in lines)

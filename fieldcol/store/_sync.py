@@ -232,6 +232,36 @@ class SyncMixin(StoreBase):
                     seen[0] if seen else 0)
             _oplog.apply(self.db.conn, [op], self._schema(), source="local")
 
+    def row_label(self, tbl: str, row_id: str) -> str:
+        """A synced row named as the engineer knows it: a column by its tag and site, a reading
+        or finding by its column, a site or level by its name (a deleted row too); a row not
+        held here (its parent still to come) by its table and the start of its id.
+
+        Example:
+            >>> store.row_label("columns", "0123456789")
+            'column 01234567'
+        """
+        word = _ROW_WORDS.get(tbl, tbl.replace("_", " "))
+        with self._lock:
+            conn = self.db.conn
+            if tbl in _NAMED:
+                row = conn.execute(f"SELECT {_NAMED[tbl]} FROM {tbl} WHERE id = ?",
+                                   [row_id]).fetchone()
+                return f"{word} {row[0]}" if row and row[0] else f"{word} {row_id[:8]}"
+            if tbl == "columns":
+                row = conn.execute("SELECT c.tag, s.name FROM columns c LEFT JOIN sites s "
+                                   "ON s.id = c.site_id WHERE c.id = ?", [row_id]).fetchone()
+            elif tbl in _OF_COLUMN:
+                row = conn.execute(f"SELECT c.tag, s.name FROM {tbl} t JOIN columns c ON "
+                                   "c.id = t.column_id LEFT JOIN sites s ON s.id = c.site_id "
+                                   "WHERE t.id = ?", [row_id]).fetchone()
+                word = f"{word} on column"
+            else:
+                row = None
+        if not row or not row[0]:
+            return f"{_ROW_WORDS.get(tbl, word)} {row_id[:8]}"
+        return f"{word} {row[0]}" + (f" ({row[1]})" if row[1] else "")
+
     def sync_summary(self) -> dict[str, Any]:
         """Counts for the sync screen: operations logged, made here, rows waiting, open conflicts.
 
@@ -248,6 +278,18 @@ class SyncMixin(StoreBase):
                     .fetchone()[0],
                     "conflicts": c.execute("SELECT count(*) FROM sync_conflicts WHERE open = 1")
                     .fetchone()[0]}
+
+
+#: a synced table's rows in words
+_ROW_WORDS = {"sites": "site", "columns": "column", "findings": "finding",
+              "measurements": "reading", "photos": "photo", "visits": "visit", "levels": "level",
+              "restraint_changes": "restraint change", "retrofits": "retrofit option",
+              "checks": "check", "photo_links": "photo link"}
+#: tables whose rows carry their own name: the field that names one
+_NAMED = {"sites": "name", "levels": "name", "visits": "date", "photos": "original_name"}
+#: tables whose rows belong to a column (named by its tag)
+_OF_COLUMN = ("findings", "measurements", "restraint_changes", "retrofits", "checks",
+              "photo_links")
 
 
 def _own_prefix(hub_id: str) -> str:

@@ -46,22 +46,31 @@ class SyncReport:
     photos_received: int = 0
     conflicts: list[Conflict] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
+    #: each conflict's row as the engineer knows it (``Store.row_label``), by conflict id
+    labels: dict[str, str] = field(default_factory=dict)
 
-    def lines(self) -> list[str]:
-        """Plain lines for the command line and the sync screen.
+    def lines(self, *, details: bool = True) -> list[str]:
+        """Plain lines for the command line and the sync screen; ``details=False`` leaves out
+        one line per conflict (the screen shows each on a card).
 
         Example:
-            >>> SyncReport(sent=3).lines()[0]
-            'sent 3 changes and 0 photos; received 0 changes and 0 photos'
+            >>> SyncReport(sent=3, photos_sent=1).lines()[0]
+            'sent 3 changes and 1 photo; received 0 changes and 0 photos'
         """
-        out = [f"sent {self.sent} changes and {self.photos_sent} photos; received "
-               f"{self.received} changes and {self.photos_received} photos"]
+        out = [f"sent {_n(self.sent, 'change')} and {_n(self.photos_sent, 'photo')}; received "
+               f"{_n(self.received, 'change')} and {_n(self.photos_received, 'photo')}"]
         out += self.warnings
-        if self.conflicts:
+        if self.conflicts and not details:
+            out.append(f"{_n(len(self.conflicts), 'conflict')} to review")
+        elif self.conflicts:
             out.append(f"conflicts to review ({len(self.conflicts)}):")
-            out += [f"  {c.tbl} {c.row_id[:8]} {c.field}: shows {c.kept!r}, other {c.value!r} "
-                    f"({c.kind})" for c in self.conflicts]
+            out += [f"  {self.labels.get(c.id) or f'{c.tbl} {c.row_id[:8]}'}, {c.field}: shows "
+                    f"{c.kept!r}, other {c.value!r} ({c.kind})" for c in self.conflicts]
         return out
+
+
+def _n(count: int, word: str) -> str:
+    return f"{count} {word}" if count == 1 else f"{count} {word}s"
 
 
 @functools.lru_cache(maxsize=1)
@@ -173,6 +182,7 @@ def sync_with_hub(store: Store, url: str, token: str, *,
         _push(store, hub, hub_id, push_c, report, say)
         _pull(store, hub, hub_id, pull_c, report, say)
         report.conflicts = store.conflicts()
+        report.labels = {c.id: store.row_label(c.tbl, c.row_id) for c in report.conflicts}
     finally:
         hub.close()
     return report

@@ -25,10 +25,6 @@ from fieldcol.ui import views as v
 
 TAP = 48
 INK, MUTED, BG = v.INK, v.MUTED, v.BG  # theme roles: the palette gives light and dark colours
-_TABLE_WORDS = {"sites": "site", "columns": "column", "findings": "finding",
-                "measurements": "reading", "photos": "photo", "visits": "visit",
-                "levels": "level", "restraint_changes": "restraint change",
-                "retrofits": "retrofit option", "checks": "check", "photo_links": "photo link"}
 _KIND_WORDS = {"value": "edited on two devices at once",
                "delete": "deleted on one device while edited on another",
                "duplicate": "the same name used twice"}
@@ -67,12 +63,11 @@ def conflict_cards(store: "Store") -> list[ConflictCard]:
     """
     out = []
     for c in store.conflicts():
-        what = _TABLE_WORDS.get(c.tbl, c.tbl)
         field = "deleted" if c.field == "deleted_at" else c.field.replace("_", " ")
         shown, other = _plain(c.kept), _plain(c.value)
         if c.kind == "delete":
             shown, other = "kept (edited elsewhere)", "deleted"
-        out.append(ConflictCard(c.id, f"{what} {c.row_id[:8]}: {field}",
+        out.append(ConflictCard(c.id, f"{store.row_label(c.tbl, c.row_id)}: {field}",
                                 _KIND_WORDS.get(c.kind, c.kind), shown, other))
     return out
 
@@ -86,8 +81,7 @@ def sync_lines(store: "Store") -> list[str]:
     """
     s = store.sync_summary()
     return [f"changes kept here: {s['ops']} ({s['ops_here']} made on this device)",
-            f"waiting for other changes: {s['waiting']} rows",
-            f"conflicts to review: {s['conflicts']}"]
+            f"changes waiting for their column or site to arrive: {s['waiting']}"]
 
 
 class SyncScreen:
@@ -180,8 +174,8 @@ class SyncScreen:
         try:
             report = await asyncio.to_thread(work)
             self.status.value = "Sync finished"
-            self.moved.controls = [ft.Text(t, size=16, color=INK) for t in report.lines()
-                                   if not t.startswith("  ")]
+            self.moved.controls = [ft.Text(t, size=16, color=INK)
+                                   for t in report.lines(details=False)]
         except InputError as e:
             self.status.value = f"Not synced: {e.reason}" + (f" ({e.hint})" if e.hint else "")
         finally:
