@@ -13,7 +13,8 @@ import time
 from urllib.parse import urlparse
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, STATUS, TABLET, _click, _drawn, _entry, _open, _open_column, _poll, _scroll_to,
+    PHONE, STATUS, TABLET, _click, _drawn, _entry, _find, _open, _open_column, _poll,
+    _scroll_to,
     _sel, _shot, _tab, _to_top, _type_into, _wait, _words, browser, server,
 )
 from fieldcol import CAUTION
@@ -188,9 +189,12 @@ def test_phone_findings_photo_history_and_a_new_finding(server, browser):
     _poll(lambda: _words(page, "finding-0") + " " + _words(page, "finding-1"),
           lambda t: words in t and "Base of column" in t, "both findings after a reload")
 
-    # history: the reading as typed, who took it and when
+    # history: each change of the result, then the reading as typed, who took it and when
     _tab(page, "history")
-    _wait(page, "reading-0")
+    _wait(page, "result-0")
+    _poll(lambda: _words(page, "result-0"), lambda t: "flexural buckling" in t, "the result")
+    _shot(page, "phone-history-results.png")
+    _find(page, "reading-0")
     _poll(lambda: _words(page, "reading-0"),
           lambda t: "typed 0.48 in" in t and "R. Amadi" in t and "in use" in t, "the reading")
     _shot(page, "phone-history.png")

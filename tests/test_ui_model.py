@@ -266,3 +266,22 @@ def test_history_of_an_si_site_shows_si_values(demo):
     # 0.75 in = 19.05 mm exactly (1 in = 25.4 mm)
     assert (r.typed, r.value, r.who) == ("0.75 in", "19.05 mm", "P. Ode")
 
+
+
+def test_history_lists_each_change_of_result_with_what_changed(demo):
+    # AISC 360-22 E3 (common practice): a heavier load raises the utilization in proportion;
+    # a save that gives the same answer adds no line, the next change names what changed since
+    store, site = demo
+    cid = _col(store, site, "C/3-G")
+    (first,) = n.column_history(store, cid).results
+    assert first.label == "1.11 OVER" and first.changed == ""
+    assert first.governs == "flexural buckling, weak axis" and first.strength == "585.6 kip"
+    assert m.apply_edit(store, cid, "demand", "650 kip").saved        # the same answer
+    assert len(n.column_history(store, cid).results) == 1
+    assert m.apply_edit(store, cid, "material", "A36").saved          # weaker steel
+    assert m.apply_edit(store, cid, "demand", "400 kip").saved
+    newest, middle, oldest = n.column_history(store, cid).results
+    assert oldest == first and middle.changed == "changed: material"
+    assert newest.changed == "changed: loads"
+    u_mid, u_new = (float(r.label.split()[0]) for r in (middle, newest))
+    assert u_new == pytest.approx(u_mid * 400 / 650, abs=0.006)

@@ -65,10 +65,30 @@ class ReadingLine:
 
 
 @dataclass(frozen=True)
+class ResultLine:
+    """One change of a column's saved result: when, the new result and what had changed."""
+    when: str
+    label: str
+    governs: str
+    strength: str
+    who: str
+    changed: str
+
+
+@dataclass(frozen=True)
 class History:
-    """A column's restraint changes and measurement history, oldest first."""
+    """A column's restraint changes and measurement history, oldest first; ``results``: each
+    change of its checked result, newest first."""
     changes: list[ChangeLine]
     readings: list[ReadingLine]
+    results: list[ResultLine] = field(default_factory=list)
+
+
+#: a record's top-level entries in words, for "what changed" between two results
+RECORD_WORDS = {"demand": "loads", "condition": "loss and bow", "k_basis": "K basis",
+                "gamma_M1": "gamma_M1", "knowledge": "knowledge factor", "basis": "LRFD / ASD"}
+#: how many changes of result the History tab lists
+RESULTS_SHOWN = 20
 
 
 # -- formatting ---------------------------------------------------------------------------
@@ -148,7 +168,55 @@ def column_history(store: "Store", column_id: str) -> History:
             who=m.taken_by or "not recorded",
             when=_when(m.taken_at), gauge=m.gauge or "", note=m.note or "", state=state,
             corrects=f"corrects the reading typed {old.text}" if old else ""))
-    return History(changes, lines)
+    return History(changes, lines, result_history(store, column_id, system))
+
+
+def result_history(store: "Store", column_id: str, system: str) -> list[ResultLine]:
+    """Each change of a column's checked result (status, utilization to two places, governing
+    mode), newest first, with what its record changed since the result before it.
+
+    Why: every save checks the column again; the checks that gave the same answer are kept
+    (each reproducible) but only a change of answer tells the engineer something.
+
+    Args:
+        store: an open store.
+        column_id: the column.
+        system: ``"us"`` or ``"si"``: the units of the design strength.
+
+    Returns:
+        At most ``RESULTS_SHOWN`` lines, newest first.
+
+    Example: ``result_history(store, c3.id, "us")[0].label`` gives ``'1.11 OVER'`` for the
+    demo's C/3-G.
+    """
+    from fieldcol.assess import MODE_WORDS
+    from fieldcol.ui.model import status_of
+    from fieldcol.units import format_quantity
+
+    out: list[ResultLine] = []
+    last_key, last_record = None, None
+    for chk in store.checks(column_id):
+        res = chk.result or {}
+        label = status_of(chk.utilization, True, res.get("status")).label
+        gov = chk.governing_mode or ""
+        key = (label, gov)
+        if key == last_key:
+            continue
+        changed = ""
+        if last_record is not None:
+            keys = sorted(k for k in set(chk.record) | set(last_record)
+                          if chk.record.get(k) != last_record.get(k))
+            changed = ", ".join(RECORD_WORDS.get(k, k.replace("_", " ")) for k in keys)
+            changed = (f"changed: {changed}" if changed else
+                       "same record (the site's settings or fieldcol's version changed)")
+        ds = (res.get("design_strength") or {}).get("value")
+        out.append(ResultLine(
+            when=_when(chk.checked_at), label=label,
+            governs=MODE_WORDS.get(gov, gov) if gov else "no mode governs",
+            strength=format_quantity(ds, "force", system) if isinstance(ds, (int, float)) else "",
+            who=chk.created_by or "", changed=changed))
+        last_key, last_record = key, chk.record
+    return out[::-1][:RESULTS_SHOWN]
 
 
 __all__ = ["History", "ChangeLine", "ReadingLine", "PhotoThumb", "column_history",

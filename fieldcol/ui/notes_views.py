@@ -29,7 +29,8 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
         open_photo: gives the handler that shows a photo larger.
 
     Returns:
-        Two cards.
+        The cards: each change of the checked result (when there is one), restraint changes,
+        readings.
 
     Example: ``history_body(history, lambda p: handler)``.
     """
@@ -73,5 +74,23 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
             ft.Column(parts, spacing=2), padding=ft.Padding.symmetric(vertical=6))))
     if not readings:
         readings.append(text_line("No readings taken yet.", color=MUTED))
-    return [_card(changes, title="Restraint changes"),
-            _card(readings, title="Measurements (every reading kept)")]
+    cards = [_card(changes, title="Restraint changes"),
+             _card(readings, title="Measurements (every reading kept)")]
+    if h.results:
+        cards.insert(0, _card(_result_lines(h.results), title="Result over time (newest first)"))
+    return cards
+
+
+def _result_lines(results: list[n.ResultLine]) -> list[ft.Control]:
+    out: list[ft.Control] = []
+    for i, r in enumerate(results):
+        parts = [text_line(f"{r.label} · {r.governs}", bold=True)]
+        if r.strength:
+            parts.append(text_line(f"design strength {r.strength}", size=16))
+        parts.append(text_line(" · ".join(t for t in (r.when, r.who) if t), size=16,
+                               color=MUTED))
+        if r.changed:
+            parts.append(text_line(r.changed, size=16))
+        out.append(ft.Semantics(identifier=f"result-{i}", content=ft.Container(
+            ft.Column(parts, spacing=2), padding=ft.Padding.symmetric(vertical=6))))
+    return out
