@@ -314,6 +314,24 @@ _LEN_UNITS: dict[str, float] = {
     "feet": MM_PER_FT,
     "'": MM_PER_FT,
 }
+def _did_you_mean(typed: str, units: dict[str, float]) -> str:
+    """`` (did you mean 'ft'?)`` when the typed unit is a near miss of known units that all
+    mean the same size; nothing when the near misses differ (12 mn: mm or m, a thousandfold
+    apart). Only ever said, never applied.
+
+    Example:
+        >>> _did_you_mean("fr", _LEN_UNITS), _did_you_mean("mn", _LEN_UNITS)
+        (" (did you mean 'ft'?)", '')
+    """
+    import difflib
+
+    word = typed.strip().rstrip(".").lower()
+    near = difflib.get_close_matches(word, [u for u in units if len(u) > 1], n=5, cutoff=0.5)
+    if not near or len({units[u] for u in near}) != 1:
+        return ""
+    return f" (did you mean {near[0]!r}?)"
+
+
 _LEN_HELP = "use mm, cm, m, in, ft or feet-inches such as 12'-6\" or 12 ft 6 1/2 in"
 
 _LEN_TOKEN = re.compile(
@@ -490,7 +508,8 @@ def _parse_length(text: str | float | int, field: str, *, default_unit: str = "m
             unit = tokens[i][1]
             i += 1
             if _length_unit(unit) is None:
-                reason = _foreign_unit_reason(unit, "length") or f"unknown length unit {unit!r}"
+                reason = _foreign_unit_reason(unit, "length") or \
+                    f"unknown length unit {unit!r}{_did_you_mean(unit, _LEN_UNITS)}"
                 raise InputError(field, text, reason, _LEN_HELP)
         items.append((value, unit, whole))
 
@@ -771,7 +790,7 @@ def _unit_factor(unit_text: str, kind: str, field: str, text: Any) -> float:
             reason = f"expected {noun} (e.g. {examples}), got {other}"
             hint = f"enter {noun} with its unit"
         elif type(e).__name__ == "UndefinedUnitError":
-            reason = f"unknown unit {unit_text.strip()!r}"
+            reason = f"unknown unit {unit_text.strip()!r}{_did_you_mean(unit_text, _FAST[kind])}"
         else:
             reason = f"cannot read the unit {unit_text.strip()!r}"
         raise InputError(field, text, reason, hint) from None

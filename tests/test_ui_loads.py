@@ -142,7 +142,8 @@ def test_the_story_is_kept_and_removed(demo):  # noqa: F811
 
 @pytest.mark.parametrize("call, field, words", [
     (lambda s, c: lm.add_reaction(s, c, "40", "strong", "6 inn"), "reaction 1 eccentricity",
-     "Reaction 1 eccentricity '6 inn' not understood: unknown length unit 'inn'. Type a length, "
+     "Reaction 1 eccentricity '6 inn' not understood: unknown length unit 'inn' (did you mean 'in'?). "
+     "Type a length, "
      "e.g. 6 in or 150 mm."),
     (lambda s, c: lm.add_reaction(s, c, "", "strong", "6"), "reaction 1 load",
      "Reaction 1 load is needed. Type a force, e.g. 40 kip or 180 kN."),

@@ -160,7 +160,7 @@ REJECTED = [
     ("nan", "number", None),
     ("inf", "number", None),
     ("1e999 mm", "finite", None),
-    ("12 fr", "unknown length unit 'fr'", "12'-6\""),
+    ("12 fr", "unknown length unit 'fr' (did you mean 'ft'?)", "12'-6\""),
     ("5 kip", "expected a length, got a force", None),
     ("5 MPa", "expected a length, got a stress", None),
     ("3,81 m", "comma", "3.81 m"),
@@ -192,6 +192,21 @@ def test_rejected_lengths_name_the_field(text, reason, hint):
     if hint is not None:
         assert hint in e.hint
     assert "col.length" in str(e)
+
+
+@pytest.mark.parametrize("text, kind, guess", [
+    ("12 fr", "length", "ft"), ("6 inn", "length", "in"), ("400 kop", "force", "kip"),
+    ("12 mn", "length", None),   # mm or m: a thousandfold apart, so no guess at all
+    ("3 kNn", "force", None),
+])
+def test_a_mistyped_unit_gets_a_guess_only_when_the_near_misses_agree(text, kind, guess):
+    # a guess is only said, never applied: the entry is still refused
+    with pytest.raises(InputError) as info:
+        parse_length(text, "f") if kind == "length" else parse_quantity(text, kind, "f")
+    if guess:
+        assert f"(did you mean {guess!r}?)" in info.value.reason
+    else:
+        assert "did you mean" not in info.value.reason
 
 
 def test_unknown_default_unit_rejected():
