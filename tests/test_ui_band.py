@@ -70,7 +70,7 @@ def test_a_loss_band_with_a_hole_is_checked_on_its_net_area(demo):  # noqa: F811
 
 @pytest.mark.parametrize("args, field, words", [
     (("0", "6 fr", {}), "loss band to", "Loss band to '6 fr' not understood: unknown length "
-     "unit 'fr'. Type a length, e.g. 6 in or 150 mm."),
+     "unit 'fr' (did you mean 'ft'?). Type a length, e.g. 6 in or 150 mm."),
     (("", "6", {}), "loss band from", "Loss band from is needed"),
     (("0", "300 ft", {}), "loss band to", "the band must lie within the column"),
     (("0", "6", {"web": "12"}), "hole across the web", "the hole is as wide as the plate"),
