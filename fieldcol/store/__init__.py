@@ -10,7 +10,7 @@ Public API::
                                                              *, create_site=None)
     export_csv(store, site_name, out)
     SCHEMA_VERSION, records: Site, Visit, Level, Column, Measurement, RestraintChange,
-    Finding, Photo, PhotoLink, Check, Retrofit, ColumnRow
+    Finding, Photo, PhotoLink, Check, CheckOutcome, Retrofit, ColumnRow
     quantity_name(path), QUANTITY_NAMES     # a reading's quantity in words
 
 The database lives in the platform's app-data folder (``$FLET_APP_STORAGE_DATA`` on mobile,
@@ -33,8 +33,8 @@ from fieldcol.store._columns import (
 from fieldcol.store._migrations import SCHEMA_VERSION
 from fieldcol.store._paths import data_dir, photos_dir, resolve_db_path
 from fieldcol.store._records import (
-    Check, Column, ColumnRow, Finding, Level, Measurement, Photo, PhotoLink, RestraintChange,
-    Retrofit, Site, Visit,
+    Check, CheckOutcome, Column, ColumnRow, Finding, Level, Measurement, Photo, PhotoLink,
+    RestraintChange, Retrofit, Site, Visit,
 )
 from fieldcol.store._schedule import (
     RowError, SchedulePreview, SchedulePlan, apply_schedule, export_csv, preview_schedule,
@@ -70,6 +70,6 @@ __all__ = [
     "preview_schedule", "apply_schedule", "export_csv", "SchedulePreview", "SchedulePlan",
     "RowError", "SCHEMA_VERSION", "CODES", "UNIT_SYSTEMS", "SEVERITIES", "Site", "Visit",
     "Level", "Column", "Measurement", "RestraintChange", "Finding", "Photo", "PhotoLink",
-    "Check", "Retrofit", "ColumnRow", "latest_readings", "overlay", "section_label",
+    "Check", "CheckOutcome", "Retrofit", "ColumnRow", "latest_readings", "overlay", "section_label",
     "quantity_name", "QUANTITY_NAMES", "SECTION_DIMENSIONS", "site_defaults",
 ]

@@ -8,7 +8,7 @@ from typing import Any
 from fieldcol.errors import InputError
 from fieldcol.store import _validate as v
 from fieldcol.store._findings import FindingsMixin
-from fieldcol.store._records import Check, from_row
+from fieldcol.store._records import Check, CheckOutcome, from_row
 
 
 def _utilization(result: dict[str, Any]) -> float | None:
@@ -87,6 +87,23 @@ class ChecksMixin(FindingsMixin):
         return [from_row(Check, r) for r in self._rows(
             "SELECT * FROM checks WHERE column_id = ? AND deleted_at IS NULL "
             "ORDER BY checked_at, created_at", [column_id])]
+
+    def check_outcomes(self, column_id: str) -> list[CheckOutcome]:
+        """What each live check of a column concluded, oldest first, without reading its trace
+        (a column saved a hundred times keeps a hundred checks).
+
+        Example:
+            >>> store.check_outcomes(col.id)[0].governing_mode
+            'flexural-weak'
+        """
+        rows = self._rows(
+            "SELECT checked_at, utilization, governing_mode, json_extract(result, '$.status') "
+            "AS status, json_extract(result, '$.design_strength.value') AS strength, record, "
+            "created_by FROM checks WHERE column_id = ? AND deleted_at IS NULL "
+            "ORDER BY checked_at, created_at", [column_id])
+        return [CheckOutcome(r["checked_at"], r["utilization"], r["governing_mode"], r["status"],
+                             r["strength"], json.loads(r["record"]) if r["record"] else {},
+                             r["created_by"]) for r in rows]
 
     def latest_check(self, column_id: str) -> Check | None:
         """The column's most recent live check, or ``None``.

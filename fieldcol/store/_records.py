@@ -152,6 +152,20 @@ class Check(_Row):
     note: str | None = None
 
 
+@dataclass(frozen=True)
+class CheckOutcome:
+    """What a saved check concluded, without its trace: for a column's history of results.
+    ``design_strength`` in N; ``status`` the engine's word (``ok``, ``over``, ``no-demand``,
+    ``not-covered``)."""
+    checked_at: str
+    utilization: float | None
+    governing_mode: str | None
+    status: str | None
+    design_strength: float | None
+    record: dict[str, Any]
+    created_by: str | None
+
+
 @dataclass(kw_only=True)
 class Retrofit(_Row):
     """A retrofit option for a column: what would be done and the record it would give."""

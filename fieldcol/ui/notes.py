@@ -195,9 +195,8 @@ def result_history(store: "Store", column_id: str, system: str) -> list[ResultLi
 
     out: list[ResultLine] = []
     last_key, last_record = None, None
-    for chk in store.checks(column_id):
-        res = chk.result or {}
-        label = status_of(chk.utilization, True, res.get("status")).label
+    for chk in store.check_outcomes(column_id):
+        label = status_of(chk.utilization, True, chk.status).label
         gov = chk.governing_mode or ""
         key = (label, gov)
         if key == last_key:
@@ -209,7 +208,7 @@ def result_history(store: "Store", column_id: str, system: str) -> list[ResultLi
             changed = ", ".join(RECORD_WORDS.get(k, k.replace("_", " ")) for k in keys)
             changed = (f"changed: {changed}" if changed else
                        "same record (the site's settings or fieldcol's version changed)")
-        ds = (res.get("design_strength") or {}).get("value")
+        ds = chk.design_strength
         out.append(ResultLine(
             when=_when(chk.checked_at), label=label,
             governs=MODE_WORDS.get(gov, gov) if gov else "no mode governs",
