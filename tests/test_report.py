@@ -375,3 +375,29 @@ def test_a_trace_heading_stays_with_its_first_rows(tmp_path: Path):
         at = next(t for t in pages if "Calculation trace" in t)
         tail = at[at.index("Calculation trace"):]
         assert f"Symbol Value What [clause] {first}" in tail, (k, tail[:120])
+
+
+def test_a_columns_changes_of_result_are_on_its_sheet(tmp_path: Path):
+    # two saves with different answers: both on the sheet, newest first, with what changed
+    # (the utilization is the demand over the E3 design strength: 400 / 650 of the first)
+    from fieldcol.assess import assess
+
+    with Store(tmp_path / "hist.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        rec = {"tag": "H1", "section": "W10X49", "material": "A992", "length": "14 ft",
+               "demand": {"axial": "650 kip"}}
+        col = store.add_column(site.id, rec)
+        store.save_check(col.id, assess(rec).to_dict(), record=rec,
+                         checked_at="2026-04-01T09:00:00Z")
+        rec2 = {**rec, "demand": {"axial": "400 kip"}}
+        store.update_column(col.id, record=rec2)
+        store.save_check(col.id, assess(rec2).to_dict(), record=rec2,
+                         checked_at="2026-04-02T09:00:00Z")
+        u1, u2 = (assess(r).utilization for r in (rec, rec2))
+        out = site_report(store, site.id, tmp_path / "h1.pdf", report_date="2026-04-03")
+    text = _flat(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages))
+    assert "Result over time (newest first)" in text
+    newest = text.index(f"2026-04-02 09:00 UTC {u2:.2f} OK")
+    oldest = text.index(f"2026-04-01 09:00 UTC {u1:.2f} OVER")
+    assert newest < oldest and "changed: loads" in text[newest:oldest]
+    assert u2 == pytest.approx(u1 * 400 / 650, rel=1e-9)

@@ -29,6 +29,8 @@ class ColumnData:
     photos: list["Photo"]
     findings: list["Finding"] = field(default_factory=list)
     retrofits: list["Retrofit"] = field(default_factory=list)
+    #: each change of its checked result, newest first (``ui.notes.result_history``)
+    results: list[Any] = field(default_factory=list)
 
     @property
     def utilization(self) -> float | None:
@@ -76,6 +78,7 @@ def gather(store: "Store", site_id: str, columns: Sequence[str] | None) -> SiteD
     Example: ``gather(store, site.id, ["C/3-G"]).columns[0].column.tag`` gives ``'C/3-G'``.
     """
     from fieldcol.store import latest_readings
+    from fieldcol.ui.notes import result_history  # plain data: no Flet
 
     site = store.get_site(site_id)
     if site.deleted_at is not None:
@@ -118,7 +121,8 @@ def gather(store: "Store", site_id: str, columns: Sequence[str] | None) -> SiteD
             restraint_photos={rc.id: store.photos_of(restraint_change_id=rc.id) for rc in rcs},
             photos=store.photos_of(column_id=col.id),
             findings=[f for f in findings if f.column_id == col.id],
-            retrofits=store.retrofits(col.id)))
+            retrofits=store.retrofits(col.id),
+            results=result_history(store, col.id, site.unit_system)))
     wanted = {c.column.id for c in out}
     # site-wide findings (no column) always belong in the report; a column's only with it
     shown = [f for f in findings if f.column_id is None or f.column_id in wanted]

@@ -330,6 +330,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
     _trace(pdf, summ, col.tag)
+    _result_history(pdf, c)
     _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
     if c.retrofits:
@@ -434,6 +435,18 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
                 keep=pdf.first_rows(heads, rows, widths, size=5.8, flow=True))
     pdf.table_flow(heads, rows, widths, size=5.8,
                    continued=f"Calculation trace of column {tag}, continued")
+
+
+def _result_history(pdf: ReportPDF, c: "ColumnData") -> None:
+    if len(c.results) < 2:  # the one result is the check above
+        return
+    rows = [[r.when, r.label, r.governs, r.strength or "-", r.changed or "first check",
+             r.who or "-"] for r in c.results]
+    heads = ["Checked", "Result", "Governs", "Design strength", "What had changed", "By"]
+    widths = (26, 18, 36, 22, 52, 16)
+    pdf.heading("Result over time (newest first)", 3,
+                keep=pdf.first_rows(heads, rows, widths, size=7.0))
+    pdf.table(heads, rows, widths, size=7.0)
 
 
 def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> None:
