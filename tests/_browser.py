@@ -86,11 +86,48 @@ def app_server(db: Path, *, demo: bool = True, env: dict[str, str] | None = None
         log.close()
 
 
+class Served:
+    """``app_server`` for a test module, on a fresh store again when a test runs again: a failed
+    attempt may have changed the store half way (a finding added, a reading corrected), and the
+    next attempt must find it as the first did. The tests of a module do not build on each
+    other's changes, so those after a rerun run on the fresh store as well."""
+
+    def __init__(self, folder: Path, **kw: Any) -> None:
+        self.folder, self.kw, self.n = folder, kw, 0
+        self._stack = contextlib.ExitStack()
+        self._attempt: tuple[str, int] | None = None
+        self._start()
+
+    def _start(self) -> None:
+        self._stack.close()
+        self.n += 1
+        self.db = self.folder / f"ui{self.n}.db"
+        self.base = self._stack.enter_context(app_server(self.db, **self.kw))
+
+    def for_test(self, request: pytest.FixtureRequest) -> "Served":
+        """The server for this test: started afresh on a rerun's first use."""
+        attempt = (request.node.nodeid, getattr(request.node, "execution_count", 1))
+        if attempt[1] > 1 and attempt != self._attempt:
+            self._start()
+        self._attempt = attempt
+        return self
+
+    def close(self) -> None:
+        self._stack.close()
+
+
 @pytest.fixture(scope="module")
-def server(tmp_path_factory):
-    """The demo site served for one test module; yields its base URL."""
-    with app_server(tmp_path_factory.mktemp("ui") / "ui.db") as base:
-        yield base
+def served(tmp_path_factory):
+    """The demo site served for one test module (see ``Served``)."""
+    s = Served(tmp_path_factory.mktemp("ui"))
+    yield s
+    s.close()
+
+
+@pytest.fixture
+def server(served, request):
+    """The demo site's base URL for this test."""
+    return served.for_test(request).base
 
 
 @pytest.fixture(scope="module")

@@ -13,7 +13,8 @@ leave the column pane of a tablet blank while the list beside it was drawn; a fr
 both at once. A test held past ``BROWSER_TIMEOUT`` fails (pytest-timeout) and runs again the
 same way. A real fault fails all three runs; every rerun is listed at the end of the run
 ("RERUN ...", ``-rR``) with the error that made it run again ("why tests ran again"), so it
-can be looked into. Each test's pages are closed after it, so a
+can be looked into. A rerun finds the app's store as the first attempt did: the module's app
+server starts again on a fresh store (``_browser.Served``). Each test's pages are closed after it, so a
 silent renderer does not spin on through the tests after it.
 """
 

@@ -15,7 +15,7 @@ from urllib.parse import urlparse
 from _browser import (  # noqa: F401  (server and browser are fixtures)
     PHONE, STATUS, TABLET, _click, _drawn, _entry, _find, _open, _open_column, _poll,
     _scroll_to,
-    _sel, _shot, _tab, _to_top, _type_into, _wait, _words, browser, server,
+    _sel, _shot, _tab, _to_top, _type_into, _wait, _words, browser, served, server,
 )
 from fieldcol import CAUTION
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
     PHONE, _big_enough, _click, _find, _offline, _open, _poll, _sel, _shot, _tab, _type_into,
-    _words, browser, server,
+    _words, browser, served, server,
 )
 from test_ui_browser_section import _column
 

