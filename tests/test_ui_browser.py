@@ -189,15 +189,16 @@ def test_phone_findings_photo_history_and_a_new_finding(server, browser):
     _poll(lambda: _words(page, "finding-0") + " " + _words(page, "finding-1"),
           lambda t: words in t and "Base of column" in t, "both findings after a reload")
 
-    # history: each change of the result, then the reading as typed, who took it and when
+    # history: the reading as typed, who took it and when; then each change of the result
     _tab(page, "history")
-    _wait(page, "result-0")
-    _poll(lambda: _words(page, "result-0"), lambda t: "flexural buckling" in t, "the result")
-    _shot(page, "phone-history-results.png")
-    _find(page, "reading-0")
+    _wait(page, "reading-0")
     _poll(lambda: _words(page, "reading-0"),
           lambda t: "typed 0.48 in" in t and "R. Amadi" in t and "in use" in t, "the reading")
     _shot(page, "phone-history.png")
+    _find(page, "result-0")
+    _poll(lambda: _words(page, "result-0"), lambda t: "flexural buckling" in t, "the result")
+    _shot(page, "phone-history-results.png")
+    _find(page, "tab-check", up=True)
     box = page.locator(_sel("tab-check")).first.bounding_box()
     assert box and box["height"] >= 48 and box["width"] >= 48, box
     assert all(urlparse(u).hostname not in ("127.0.0.1", "localhost") for u in page.refused)

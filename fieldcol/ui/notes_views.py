@@ -29,8 +29,7 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
         open_photo: gives the handler that shows a photo larger.
 
     Returns:
-        The cards: each change of the checked result (when there is one), restraint changes,
-        readings.
+        The cards: restraint changes, readings, then each change of the checked result.
 
     Example: ``history_body(history, lambda p: handler)``.
     """
@@ -76,9 +75,14 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
         readings.append(text_line("No readings taken yet.", color=MUTED))
     cards = [_card(changes, title="Restraint changes"),
              _card(readings, title="Measurements (every reading kept)")]
-    if h.results:
-        cards.insert(0, _card(_result_lines(h.results), title="Result over time (newest first)"))
+    if h.results:  # after the readings, which are what a visit looks at most
+        cards.append(_card(_result_lines(h.results[:RESULTS_ON_TAB]),
+                           title="Result over time (newest first)"))
     return cards
+
+
+#: changes of result the tab lists (the report lists ``notes.RESULTS_SHOWN``)
+RESULTS_ON_TAB = 8
 
 
 def _result_lines(results: list[n.ResultLine]) -> list[ft.Control]:
