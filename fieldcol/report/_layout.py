@@ -58,6 +58,9 @@ class ReportPDF(FPDF):
         self.missing: set[str] = set()
         self.memo: dict[str, object] = {}   # pictures of records seen before in this report
         self._wrapped: dict[tuple[str, float, float, str], list[str]] = {}
+        #: what a page that a part runs onto belongs to ("Column C/3-G, continued"), printed
+        #: at its top by ``header``: a heading or warning carried over never stands unnamed
+        self.continued = ""
         fonts = ASSETS / "fonts"
         self.add_font(FONT, "", str(fonts / "DejaVuSans.ttf"))
         self.add_font(FONT, "B", str(fonts / "DejaVuSans-Bold.ttf"))
@@ -180,8 +183,13 @@ class ReportPDF(FPDF):
         self.set_line_width(0.2)
         self.line(self.l_margin, 15.5, self.w - self.r_margin, 15.5)
         self.set_text_color(*INK)
-        self.set_font(FONT, "", BODY_PT)
         self.set_y(self.t_margin)
+        if self.continued:
+            self.set_font(FONT, "B", 8)
+            self.lines_at(self.l_margin, self.t_margin, self.wrap(self.continued, self.epw)[:1],
+                          8 * PT_MM * 1.18)
+            self.set_y(self.t_margin + 8 * PT_MM * 1.18 + 0.8)
+        self.set_font(FONT, "", BODY_PT)
 
     def footer(self) -> None:
         """The caution and ``page x of y`` on every page, drawn last so nothing covers it."""
@@ -359,12 +367,14 @@ class ReportPDF(FPDF):
         """A long table flowed in two columns down the page, as a newspaper does: the space
         left on this page first (left column, then right), then the next page; the last part
         is balanced between the two columns. ``continued`` heads each further page (e.g.
-        "Calculation trace of C/3-G, continued"), so rows carried over say what they belong to.
+        "Calculation trace of C/3-G, continued"), so rows carried over say what they belong to;
+        the page's own ``continued`` line is back as it was once the table ends.
 
         Example: ``pdf.table_flow(["Symbol", "Value", "What"], rows, (1, 1, 4), size=6)``.
         """
         half = (self.epw - gap) / 2
         hs = self.row_heights(rows, widths, size=size, width=half)
+        outer, self.continued = self.continued, continued or self.continued
         head = self.row_heights([headings], widths, size=size, width=half, style="B")[0]
         i, n = 0, len(rows)
         fresh = False  # a page just begun for these rows: rows taller than it go on anyway
@@ -408,9 +418,7 @@ class ReportPDF(FPDF):
             i = end
             if i < n:
                 self.add_page()
-                if continued:
-                    self.write_block(continued, size=8, bold=True)
-                    self.ln(0.8)
+        self.continued = outer
 
     def wrap_cell(self, text: str, width: float, style: str, size: float) -> list[str]:
         """A cell's text wrapped to its width less the padding, in ``style`` and ``size``

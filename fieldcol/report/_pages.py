@@ -193,6 +193,7 @@ def register(pdf: ReportPDF, data: "SiteData") -> None:
     """Every column on one line, worst first (on the page the contents placeholder opened)."""
     pdf.heading("Column register")
     pdf.start_section("Column register")  # after the heading: on the page it landed on
+    pdf.continued = "Column register, continued"
     heads, rows = register_rows(data)
     if not rows:
         pdf.para("This site has no columns yet: there is nothing to check.")
@@ -207,8 +208,10 @@ def register(pdf: ReportPDF, data: "SiteData") -> None:
 
 def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
     """All findings on one table, open before closed and most severe first."""
+    pdf.continued = ""
     pdf.heading("Findings register", keep=30)
     pdf.start_section("Findings register")
+    pdf.continued = "Findings register, continued"
     if not data.findings:
         pdf.para("No findings recorded.")
         return
@@ -231,11 +234,13 @@ def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
 
 def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     """Every photo once, four across, captioned with what, where, who and when."""
+    pdf.continued = ""
     if not data.photos:
         return
     pdf.add_page()
     pdf.heading("Photographs")
     pdf.start_section("Photographs")
+    pdf.continued = "Photographs, continued"
     cells = []
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
@@ -275,12 +280,15 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     system = data.site.unit_system
     col, rec = c.column, c.record
     # a sheet starts on a fresh page unless its head and pictures fit below the last one
+    pdf.continued = ""
     if pdf.page_break_trigger - pdf.get_y() < TOP_BLOCK or pdf.get_y() <= pdf.t_margin + 1:
         pdf.add_page()
     else:
         pdf.ln(4)
     pdf.start_section(col.tag, level=1)
     pdf.heading(f"Column {col.tag}   {_util_status(c)}")
+    # every further page of the sheet says whose it is, whatever part of it runs over
+    pdf.continued = f"Column {col.tag}, continued"
     pdf.para(f"Level {c.level or 'not recorded'}   |   grid {col.grid or 'not recorded'}   |   "
              f"{col.location or 'location not recorded'}", size=8.5)
     summ = check_summary(c.check.result, system) if c.check is not None else None

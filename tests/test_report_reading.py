@@ -1,0 +1,120 @@
+"""The site report read as the checking engineer reads it, page by page: every page says whose it
+is, no word or symbol is cut inside a cell, what governs is marked in the table of modes, the
+record reads in words.
+
+Outside references: pypdf (a general-purpose PDF library from PyPI) reads the file back as any
+reader would; EN 1993-1-1 (2005) 6.3.1.2 and 6.3.1.3 for the symbols of flexural buckling
+(L_cr, λ-bar, χ, N_b,Rd) and AISC 360-22 E3 for theirs (Lc, Lc/r, Fcr, Pn, φPn).
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+import pypdf
+import pytest
+
+from fieldcol.assess import assess
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.report import site_report
+from fieldcol.store import Store
+
+PARTS = ("Contents", "Column register", "Findings register", "Photographs")
+#: a part's own heading, told from the same words in a sentence by what follows it
+PART_HEAD = re.compile(r"(Column register) Tag |(Findings register) (?:Ref |No findings)"
+                       r"|(Photographs) P1 ")
+SHEET = re.compile(r"Column (\S+) +(?:\d\.\d{3} (?:OK|OVER)|not checked|not covered|no demand)"
+                   r" Level ")
+
+
+def _flat(text: str) -> str:
+    # pypdf breaks wrapped lines where the PDF does; compare with whitespace collapsed
+    return re.sub(r"\s+", " ", text).strip()
+
+
+def _pages(path: Path) -> list[str]:
+    return [_flat(p.extract_text()) for p in pypdf.PdfReader(path).pages]
+
+
+@pytest.fixture(scope="module")
+def demo(tmp_path_factory):
+    """The demo site's report, pages as text."""
+    root = tmp_path_factory.mktemp("reading")
+    with Store(root / "demo.db") as store:
+        build_demo(store)
+        out = site_report(store, store.site_by_name(SITE_NAME).id, root / "demo.pdf",
+                          report_date="2026-03-10")
+    return _pages(out)
+
+
+def _checked(store: Store, site, rec: dict) -> None:
+    col = store.add_column(site.id, rec)
+    r = store.current_record(col.id)
+    store.save_check(col.id, assess(r).to_dict(), record=r)
+
+
+PINNED = {"bottom": "pinned", "top": "pinned"}
+
+
+@pytest.fixture(scope="module")
+def mixed(tmp_path_factory):
+    """An EN 1993-1-1 site (SI) with a rolled column, a laced and a battened pair of channels
+    (one under a moment), and a column with a loss band with open holes under end moments;
+    its report's pages as text."""
+    root = tmp_path_factory.mktemp("mixed")
+    base = {"material": "S355", "length": "4.5 m", "code": "en1993-1-1",
+            "restraints": {"strong": PINNED, "weak": PINNED}}
+    with Store(root / "en.db") as store:
+        site = store.add_site("Harbour Shed 3", code="en1993-1-1", unit_system="si")
+        _checked(store, site, {"tag": "K1", "section": "HE 300 B", **base,
+                               "demand": {"axial": "1500 kN"}})
+        _checked(store, site, {"tag": "K4", "section": {"built": {
+            "arrangement": "channels", "channel": "UPN 200", "gap": "150 mm", "toes": "out",
+            "lacing": {"kind": "single", "width": "40 mm", "thickness": "8 mm",
+                       "pitch": "400 mm", "fasteners": {"count": 1, "diameter": "16 mm"}},
+            "connection": "riveted"}}, **base, "demand": {"axial": "900 kN"}})
+        _checked(store, site, {"tag": "K5", "section": {"built": {
+            "arrangement": "channels", "channel": "UPN 200", "gap": "150 mm", "toes": "out",
+            "battens": {"spacing": "600 mm", "depth": "150 mm", "thickness": "10 mm"},
+            "connection": "welded"}}, **base, "length": "6 m",
+            "demand": {"axial": "900 kN", "moments": {"strong": "30 kN*m"}}})
+        _checked(store, site, {"tag": "K6", "section": {"name": "HE 200 A", "loss": {
+            "uniform": "1 mm", "from": "0 mm", "to": "300 mm",
+            "holes": {"flange": "20 mm", "web": "30 mm"}}}, **base,
+            "demand": {"axial": "600 kN", "end_moments": {"strong": {
+                "top": "40 kN*m", "bottom": "10 kN*m", "curvature": "single"}}}})
+        out = site_report(store, site.id, root / "en.pdf", report_date="2026-04-01")
+    return _pages(out)
+
+
+def _body(page: str) -> str:
+    """A page's text after its header (site name, report date)."""
+    return page.split(" report date ", 1)[1].split(" ", 1)[1]
+
+
+@pytest.mark.parametrize("which", ["demo", "mixed"])
+def test_every_page_says_whose_it_is(which, request):
+    """A page a column's sheet (or a register) runs onto opens with the column's tag (or the
+    register's name): a trace, a warning or a table carried over is never left unnamed."""
+    pages = request.getfixturevalue(which)
+    tag = part = None
+    for i, page in enumerate(pages[1:], start=2):
+        if "Contents Column register" in page:
+            continue  # drawn last, after its footer: its text comes out in another order
+        body = _body(page)
+        head = SHEET.match(body)
+        if head or any(body.startswith(p) for p in PARTS):
+            pass
+        elif tag is not None and part is None:
+            assert (body.startswith(f"Column {tag}, continued")
+                    or body.startswith(f"Calculation trace of column {tag}, continued")), \
+                (i, body[:80])
+        else:
+            assert part is not None and body.startswith(f"{part}, continued"), (i, body[:80])
+        # what the next page continues: the last part or sheet begun on this one
+        starts = [(m.start(), None, m.group(1)) for m in SHEET.finditer(body)]
+        starts += [(m.start(), next(g for g in m.groups() if g), None)
+                   for m in PART_HEAD.finditer(body)]
+        if starts:
+            _, part, tag = max(starts)
