@@ -118,3 +118,24 @@ def test_every_page_says_whose_it_is(which, request):
                    for m in PART_HEAD.finditer(body)]
         if starts:
             _, part, tag = max(starts)
+
+
+@pytest.mark.parametrize("symbol", ["slender,flange", "slender,web", "Pn,yield"])
+def test_trace_symbols_are_never_cut_inside_a_word_aisc(demo, symbol):
+    # AISC 360-22 Table B4.1a's flange and web limits, E3's yield strength, as the trace names them
+    text = " ".join(demo)
+    assert f" {symbol} " in text
+
+
+@pytest.mark.parametrize("symbol", ["class,flange", "class,web", "λ-bar_z ≤ 0.2", "N_Ed / N_b,Rd"])
+def test_trace_symbols_are_never_cut_inside_a_word_en(mixed, symbol):
+    # EN 1993-1-1 Table 5.2 (classes) and 6.3.1.2 (4) (buckling ignored below λ-bar 0.2)
+    text = " ".join(mixed)
+    assert f" {symbol} " in text
+
+
+def test_the_governing_mode_in_the_trace_is_in_words(demo, mixed):
+    text = " ".join(demo + mixed)
+    assert "governing mode (argmin): flexural buckling, weak axis" in text
+    # the engine's key of a mode is not a word a reader uses (nor cut as "flexural-wea k")
+    assert not re.search(r" mode (?:flexural-|beam-|section-|tie-|torsional gov|yield gov)", text)

@@ -422,6 +422,29 @@ def _warnings(pdf: ReportPDF, c: "ColumnData") -> None:
                          for w in warnings], (14, 156), size=7.0)
 
 
+TRACE_PT = 5.8
+#: mm: the trace's symbol and value columns are as wide as their widest entry, within these
+TRACE_SYMBOL_MM, TRACE_VALUE_MM = (11.0, 24.0), (12.0, 20.0)
+
+
+def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tuple[float, ...]:
+    """The trace's column widths (mm of one of its two columns): a symbol (``slender,flange``,
+    ``λ-bar_z ≤ 0.2``) or value (``1891784 mm^4``) on one line where it can be, the rest for
+    the words."""
+    from fieldcol.report._layout import PAD_X
+
+    pdf.font("", TRACE_PT)
+    half = (pdf.epw - gap) / 2
+    fit = []
+    for col, (lo, hi) in ((0, TRACE_SYMBOL_MM), (1, TRACE_VALUE_MM)):
+        pdf.font("B", TRACE_PT)  # the heading row is bold
+        head = pdf.width_of(("Symbol", "Value")[col])
+        pdf.font("", TRACE_PT)
+        widest = max([head] + [pdf.width_of(r[col]) for r in rows])
+        fit.append(min(hi, max(lo, widest + 2 * PAD_X + 0.3)))
+    return fit[0], fit[1], half - fit[0] - fit[1]
+
+
 def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
     if summ is None or not summ.trace:
         return
@@ -433,14 +456,16 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
             what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \
                 else f" ({t.formula})"
         value = t.value
-        if " " in value and not any(ch.isdigit() for ch in value.split(" ")[0]):
-            what, value = f"{what}: {value}", "(text)"  # long text reads better in the wide column
+        if value in tx.MODE_WORDS:  # the governing mode's key: its words, as the tables say it
+            what, value = f"{what}: {tx.MODE_WORDS[value]}", ""
+        elif " " in value and not any(ch.isdigit() for ch in value.split(" ")[0]):
+            what, value = f"{what}: {value}", ""  # long text reads better in the wide column
         rows.append([t.symbol, value, f"{what} [{t.clause}]" if t.clause else what])
-    heads, widths = ["Symbol", "Value", "What [clause]"], (13, 16, 61)
+    heads, widths = ["Symbol", "Value", "What [clause]"], _trace_widths(pdf, rows)
     # the heading stays on the page of the trace's first rows
     pdf.heading("Calculation trace", 3,
-                keep=pdf.first_rows(heads, rows, widths, size=5.8, flow=True))
-    pdf.table_flow(heads, rows, widths, size=5.8,
+                keep=pdf.first_rows(heads, rows, widths, size=TRACE_PT, flow=True))
+    pdf.table_flow(heads, rows, widths, size=TRACE_PT,
                    continued=f"Calculation trace of column {tag}, continued")
 
 
