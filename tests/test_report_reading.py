@@ -139,3 +139,54 @@ def test_the_governing_mode_in_the_trace_is_in_words(demo, mixed):
     assert "governing mode (argmin): flexural buckling, weak axis" in text
     # the engine's key of a mode is not a word a reader uses (nor cut as "flexural-wea k")
     assert not re.search(r" mode (?:flexural-|beam-|section-|tie-|torsional gov|yield gov)", text)
+
+
+def _sheet(pages: list[str], tag: str) -> str:
+    """A column's sheet: from its heading to the next sheet's heading (or the end)."""
+    text = " ".join(pages)
+    start = next(m.start() for m in SHEET.finditer(text) if m.group(1) == tag)
+    nxt = SHEET.search(text, start + 1)
+    return text[start:nxt.start() if nxt else len(text)]
+
+
+@pytest.mark.parametrize("tag, governs", [
+    ("K1", "flexural buckling, weak axis (governs)"),
+    ("K5", "axial force with bending (beam-column interaction), 6.62 (governs)"),
+    ("K6", "the section where steel was lost (loss band), 6.2.1 (7) (band) (governs)")])
+def test_the_table_of_modes_says_which_governs(mixed, tag, governs):
+    """Moments or a loss band that govern stand in the table of modes beside the axial modes,
+    with their design strength; the one that governs says so in words (bold alone is lost on a
+    grey photocopy). EN 1993-1-1 6.3.3 (6.62) and 6.2.1 (7) are the equations named."""
+    sheet = _sheet(mixed, tag)
+    table = sheet[sheet.index("Every mode"):sheet.index("Calculation trace")]
+    assert table.count("(governs)") == 1, table
+    assert governs in table
+    # the row's design strength is the one printed as the column's design strength
+    design = re.search(r"Design strength (\S+ kN)", sheet).group(1)
+    row = table[table.index(governs) + len(governs):]
+    if tag == "K1":  # length, slenderness, stress, nominal, then the design strength
+        assert re.match(r" 4500 mm [\d.]+ [\d.]+ MPa \d+ kN " + re.escape(design), row), row
+    else:
+        assert row.startswith(" - - - - " + design), row
+
+
+def test_the_table_of_modes_names_the_codes_symbols(demo, mixed):
+    # AISC 360-22 E3: Lc, Lc/r, Fcr, Pn and φPn (LRFD); EN 1993-1-1 6.3.1: L_cr, λ-bar, χ, N_b,Rd
+    us = _sheet(demo, "C/3-G")
+    assert ("Mode Eff. length Lc Slenderness Lc/r Crit. stress Fcr Nominal Pn Design φPn"
+            in us), us[:1500]
+    en = _sheet(mixed, "K1")
+    assert ("Mode Eff. length L_cr Slenderness λ-bar Crit. stress χ f_y Nominal χ A f_y "
+            "Design N_b,Rd" in en), en[:1500]
+
+
+def test_a_design_strength_below_the_axial_one_says_why(mixed):
+    # with the moments the capacity is the largest axial force the interaction allows (every
+    # moment in proportion): the axial strength alone is printed beside it
+    k5 = _sheet(mixed, "K5")
+    got = re.search(r"Design strength (\S+) kN with the moments \(axial force alone (\S+) kN, "
+                    r"nominal (\S+) kN\)", k5)
+    assert got, k5[:1200]
+    assert float(got.group(1)) < float(got.group(2))
+    k6 = _sheet(mixed, "K6")
+    assert re.search(r"Design strength \S+ kN at the loss band \(axial force alone \S+ kN", k6)

@@ -369,10 +369,7 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
                      f"K basis {d.get('k_basis', '-')}; "
                      f"{d.get('material', {}).get('name', '-')}, Fy "
                      f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
-            ("Design strength", f"{tx.quantity(d.get('design_strength'), system)} (nominal "
-                                f"{tx.quantity(d.get('nominal_strength'), system)})"
-             if (d.get("design_strength") or {}).get("value") is not None
-             else "none: the code gives no strength for this column (see the warning)"),
+            ("Design strength", _design_text(d, system)),
             ("Demand", "none recorded" if not dem else
              f"{tx.quantity(dem, system)} ({dem.get('combination', '-')})"),
             ("Utilization", util),
@@ -392,24 +389,105 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
               width=width)
 
 
+#: each code's own symbols under the words of the table of modes (AISC 360-22 E3; EN 1993-1-1
+#: 6.3.1.2, 6.3.1.3; the elastic reference check speaks as AISC does)
+MODE_SYMBOLS = {"aisc360-22": ("Lc", "Lc/r", "Fcr", "Pn"),
+                "en1993-1-1": ("L_cr", "λ-bar", "χ f_y", "χ A f_y"),
+                "elastic": ("Lc", "Lc/r", "Pcr / A", "Pn")}
+#: the checks beside the axial modes that can govern, where the result keeps each
+INTERACTIONS = (("bow", "bow"), ("beam-column", "beam_column"), ("section-band", "section_band"))
+
+
+def _design_symbol(code: str, basis: str) -> str:
+    if code == "en1993-1-1":
+        return "N_b,Rd"
+    if code == "elastic":
+        return "Pn"
+    return "Pn/Ω" if basis == "asd" else "φPn"
+
+
+def _val(q: Any) -> float | None:
+    v = q.get("value") if isinstance(q, dict) else None
+    return float(v) if isinstance(v, (int, float)) else None
+
+
+#: how the design strength was found when more than the axial force governs it
+_WITH = {"beam-column": "with the moments", "bow": "with the measured bow",
+         "section-band": "at the loss band"}
+
+
+def _design_text(d: dict, system: str) -> str:
+    """The design strength with what it stands for: the nominal axial strength beside it, and
+    where moments, a bow or a loss band govern, the axial strength alone as well (else a
+    design strength below the nominal times the resistance factor reads as a slip)."""
+    if (d.get("design_strength") or {}).get("value") is None:
+        return "none: the code gives no strength for this column (see the warning)"
+    shown = tx.quantity(d.get("design_strength"), system)
+    nominal = tx.quantity(d.get("nominal_strength"), system)
+    with_ = _WITH.get(str(d.get("governing_mode")))
+    if with_ is None:
+        return f"{shown} (nominal {nominal})"
+    kappa = _val(d.get("knowledge_factor")) or 1.0
+    axial = _val(d.get("axial_design_strength"))
+    alone = tx.quantity(None if axial is None else {"value": axial * kappa, "unit": "N"}, system)
+    return f"{shown} {with_} (axial force alone {alone}, nominal {nominal})"
+
+
 def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
+    """Every mode with its design strength, the interactions (bow, moments, loss band) as rows
+    of their own, and the one that governs marked in words as well as bold."""
     if c.check is None:
         return
     d = c.check.result
+    code = str(d.get("code", "aisc360-22"))
     pdf.set_font("DejaVu", "B", 8)
     y = pdf.get_y()
     pdf.text(pdf.l_margin, y + 2.4, "Every mode")
     pdf.set_y(y + 3.6)
-    mrows = [[tx.MODE_WORDS.get(name, name) + ("" if m.get("applies", True)
-                                              else " (reported only)"),
-              tx.quantity(m.get("effective_length"), system),
-              tx.quantity(m.get("slenderness"), system),
-              tx.quantity(m.get("critical_stress"), system),
-              tx.quantity(m.get("nominal_strength"), system)]
-             for name, m in (d.get("modes") or {}).items()]
-    gov = [i for i, name in enumerate(d.get("modes") or {}) if name == d.get("governing_mode")]
-    pdf.table(["Mode", "Eff. length", "Slenderness", "Crit. stress",
-               "Nominal"], mrows, (36, 19, 22, 20, 20), bold_rows=gov, size=6.8,
+    gov = d.get("governing_mode")
+    kappa = _val(d.get("knowledge_factor")) or 1.0
+    nominal, axial = _val(d.get("nominal_strength")), _val(d.get("axial_design_strength"))
+    # as the Design strength above: the axial design strength over the nominal, times kappa
+    factor = (axial / nominal if axial and nominal else 1.0) * kappa
+
+    def design(v: float | None) -> str:
+        if v is None or v != v:
+            return "none"
+        return tx.quantity({"value": v, "unit": "N"}, system)
+
+    def mode_cell(name: str, words: str) -> str:
+        return words + (" (governs)" if name == gov else "")
+
+    mrows, gov_rows = [], []
+    for name, m in (d.get("modes") or {}).items():
+        if name == gov:
+            gov_rows.append(len(mrows))
+        pn = _val(m.get("nominal_strength"))
+        mrows.append([mode_cell(name, tx.MODE_WORDS.get(name, name)
+                                + ("" if m.get("applies", True) else " (reported only)")),
+                      tx.quantity(m.get("effective_length"), system),
+                      tx.quantity(m.get("slenderness"), system),
+                      tx.quantity(m.get("critical_stress"), system),
+                      tx.quantity(m.get("nominal_strength"), system),
+                      design(None if pn is None else pn * factor)
+                      if m.get("applies", True) else "-"])
+    for name, key in INTERACTIONS:
+        part = d.get(key)
+        if not isinstance(part, dict):
+            continue
+        eq = part.get("equation")
+        cap = _val(part.get("capacity"))
+        if name == gov:
+            gov_rows.append(len(mrows))
+        mrows.append([mode_cell(name, tx.MODE_WORDS.get(name, name)
+                                + (f", {eq}" if eq else "")),
+                      "-", "-", "-", "-",
+                      "not covered" if cap is None or cap != cap else design(cap * kappa)])
+    sym = MODE_SYMBOLS.get(code, MODE_SYMBOLS["aisc360-22"])
+    heads = ["Mode", f"Eff. length\n{sym[0]}", f"Slenderness\n{sym[1]}",
+             f"Crit. stress\n{sym[2]}", f"Nominal\n{sym[3]}",
+             f"Design\n{_design_symbol(code, str(d.get('basis', '')))}"]
+    pdf.table(heads, mrows, (30, 17, 19, 16, 16, 16), bold_rows=gov_rows, size=6.6,
               width=width)
 
 
@@ -424,7 +502,7 @@ def _warnings(pdf: ReportPDF, c: "ColumnData") -> None:
 
 TRACE_PT = 5.8
 #: mm: the trace's symbol and value columns are as wide as their widest entry, within these
-TRACE_SYMBOL_MM, TRACE_VALUE_MM = (11.0, 24.0), (12.0, 20.0)
+TRACE_SYMBOL_MM, TRACE_VALUE_MM = (11.0, 18.0), (12.0, 19.0)
 
 
 def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tuple[float, ...]:
