@@ -190,3 +190,22 @@ def test_a_design_strength_below_the_axial_one_says_why(mixed):
     assert float(got.group(1)) < float(got.group(2))
     k6 = _sheet(mixed, "K6")
     assert re.search(r"Design strength \S+ kN at the loss band \(axial force alone \S+ kN", k6)
+
+
+def test_a_built_up_section_reads_in_the_words_of_the_trade(mixed):
+    k4 = _sheet(mixed, "K4")
+    assert ("Section built-up: two UPN 200 channels, toes out, 150 mm clear between them; "
+            "single lacing of 40 mm x 8 mm bars at 400 mm pitch, 1 rivet of 16 mm at each end; "
+            "riveted Material" in k4), k4[:600]
+    k5 = _sheet(mixed, "K5")
+    assert "battens 150 mm deep x 10 mm at 600 mm centres; welded" in k5
+    for key in ("arrangement", "kind single", "count 1"):
+        assert key not in k4 + k5, key  # the record's keys are not words a reader uses
+
+
+def test_a_loss_band_says_where_it_is_and_its_holes_apart_from_the_thickness(mixed):
+    k6 = _sheet(mixed, "K6")
+    assert ("HE 200 A; section loss 1 mm per exposed face, from 0 mm to 300 mm above the base; "
+            "open holes at one height in that band, width lost: each flange 20 mm, web 30 mm"
+            in k6), k6[:600]
+    assert "remaining thickness measured: from" not in k6
