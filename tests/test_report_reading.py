@@ -209,3 +209,17 @@ def test_a_loss_band_says_where_it_is_and_its_holes_apart_from_the_thickness(mix
             "open holes at one height in that band, width lost: each flange 20 mm, web 30 mm"
             in k6), k6[:600]
     assert "remaining thickness measured: from" not in k6
+
+
+def test_small_words_read_as_a_person_writes_them(demo, mixed):
+    text = " ".join(demo)
+    assert "strong bottom pinned; top pinned; no braces recorded" in _sheet(demo, "A/1-G")
+    assert "braces none recorded" not in text
+    # a finding's category of the trade stays whole in its cell (was "housekeepi ng")
+    assert re.search(r"F9 info closed whole site housekeeping Debris", text)
+    assert "photographer not recorded" in text and "by: not recorded" not in text
+    # EN 1993-1-1 has no LRFD/ASD basis: the partial factor gamma_M1 (6.1 (1)) stands there
+    k1 = _sheet(mixed, "K1")
+    assert re.search(r"Code EN 1993-1-1:2005\+A1:2014, γ_M1 = 1, K basis recommended", k1), \
+        k1[:900]
+    assert ", EN, K basis" not in " ".join(mixed)

@@ -228,8 +228,9 @@ def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
                      data.refs_of(data.finding_photos.get(f.id, [])) or "-"])
         if f.status == "open" and f.severity in ("urgent", "high"):
             bold.append(i)
+    # a category of the trade (corrosion, housekeeping) stays whole on its line
     pdf.table(["Ref", "Severity", "Status", "Column", "Category", "Finding", "Noted",
-               "Photos"], rows, (7, 15, 12, 15, 16, 68, 19, 12), bold_rows=bold)
+               "Photos"], rows, (7, 14, 11, 14, 21, 66, 19, 12), bold_rows=bold)
 
 
 def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
@@ -245,7 +246,7 @@ def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
         marked = f"; marked: {_marks_words(p.markup)}" if p.markup else ""
-        who = f", by {p.created_by}" if p.created_by else ", by: not recorded"
+        who = f", by {p.created_by}" if p.created_by else ", photographer not recorded"
         name = p.original_name or p.sha256[:12]
         cells.append(PhotoCell(path if path.is_file() else None,
                                f"{ref}  {what}, {where}{marked}. {name}, "
@@ -265,6 +266,9 @@ def _restraint_rows(restraints: Any) -> list[tuple[str, str]]:
     for label, words in tx.restraint_lines(restraints):
         axis, _, part = label.partition(", ")
         short = words.split(" (")[0] if part in ("bottom", "top") else words
+        if part == "braces" and short == "none recorded":
+            rows.setdefault(axis, []).append("no braces recorded")
+            continue
         rows.setdefault(axis, []).append(f"{part} {short}" if part else short)
     return [(axis.replace(" axis", ""), "; ".join(parts)) for axis, parts in rows.items()]
 
@@ -344,6 +348,18 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
         _retrofits(pdf, c, system)
 
 
+def _basis_words(d: dict, summ: Any) -> str:
+    """LRFD or ASD for AISC; the partial factor for EN (its checks have no LRFD/ASD basis:
+    the record's ``en`` printed as "EN" beside the edition read as a slip); nothing for the
+    elastic reference."""
+    basis = str(d.get("basis", ""))
+    if basis in ("lrfd", "asd"):
+        return f"{basis.upper()}, "
+    if str(d.get("code")) == "en1993-1-1" and summ is not None and summ.basis:
+        return f"{summ.basis}, "
+    return ""
+
+
 def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: float) -> None:
     pdf.ln(1)
     pdf.set_font("DejaVu", "B", 8)
@@ -365,7 +381,7 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
             else word)
     dem = d.get("demand")
     rows = [("Checked", f"{tx.when(k.checked_at)} with fieldcol {k.app_version}"),
-            ("Code", f"{k.edition or k.code}, {str(d.get('basis', '')).upper()}, "
+            ("Code", f"{k.edition or k.code}, {_basis_words(d, summ)}"
                      f"K basis {d.get('k_basis', '-')}; "
                      f"{d.get('material', {}).get('name', '-')}, Fy "
                      f"{tx.quantity(d.get('material', {}).get('Fy'), system)}"),
