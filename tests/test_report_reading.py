@@ -223,3 +223,11 @@ def test_small_words_read_as_a_person_writes_them(demo, mixed):
     assert re.search(r"Code EN 1993-1-1:2005\+A1:2014, γ_M1 = 1, K basis recommended", k1), \
         k1[:900]
     assert ", EN, K basis" not in " ".join(mixed)
+
+
+def test_a_batten_moment_is_in_the_sites_units(mixed):
+    # EN 1993-1-1 6.4.3.1 (2), Fig. 6.11: the moment in a batten, V_Ed a / (2 n), in kN*m on an
+    # SI site like every other moment (was "2.688e+06 N mm")
+    k5 = _sheet(mixed, "K5")
+    assert re.search(r"M_b,Ed,y [\d.]+ kN\*m moment in one batten", k5), k5
+    assert "e+" not in " ".join(mixed)
