@@ -231,3 +231,13 @@ def test_a_batten_moment_is_in_the_sites_units(mixed):
     k5 = _sheet(mixed, "K5")
     assert re.search(r"M_b,Ed,y [\d.]+ kN\*m moment in one batten", k5), k5
     assert "e+" not in " ".join(mixed)
+
+
+def test_an_interaction_utilization_is_not_named_as_an_axial_ratio(mixed):
+    # EN 1993-1-1 6.3.1.1 (6.46): N_Ed / N_b,Rd is the axial ratio alone; the ratio of the
+    # interaction (6.62) or of the loss band's section is another number, named U here
+    k6 = _sheet(mixed, "K6")
+    assert re.search(r"N_Ed / N_b,Rd 0\.7\d+ utilization, axial", k6), k6[-1500:]
+    assert re.search(r"U 0\.9\d+ utilization with bending", k6)
+    assert re.search(r"U 1\.09\d utilization in the loss band", k6)
+    assert not re.search(r"N_Ed / N_b,Rd [\d.]+ utilization (?:with|in)", k6)

@@ -153,6 +153,19 @@ def _demand_symbol(code: str) -> str:
     return "N_Ed" if code == "en1993-1-1" else ("P" if code == "elastic" else "Pr")
 
 
+def _trace_symbol(step: Mapping[str, Any], code: str) -> str:
+    """A step's symbol as the code writes it; a utilization other than the axial one (with the
+    bow, the moments, the loss band, the knowledge factor) keeps the plain ``U``: EN's
+    ``N_Ed / N_b,Rd`` beside an interaction ratio would name a division that is not the one
+    made."""
+    from fieldcol.trace import display_symbol
+
+    symbol = str(step.get("symbol", ""))
+    if symbol == "U" and not str(step.get("what", "")).startswith("utilization, axial"):
+        return "U"
+    return display_symbol(symbol, code)
+
+
 def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") -> CheckSummary:
     """The Check tab from a saved check.
 
@@ -230,7 +243,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     governs, why = _why(result, gov, code, system)
     warnings = [str(w.get("message", w)) if isinstance(w, dict) else str(w)
                 for w in result.get("warnings") or []]
-    trace = [TraceLine(display_symbol(str(s.get("symbol", "")), code),
+    trace = [TraceLine(_trace_symbol(s, code),
                        _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
                        or str(s.get("symbol", "")).startswith("slender")
                        else _step_text(s.get("value"), str(s.get("unit", "")), system),
