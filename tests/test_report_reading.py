@@ -241,3 +241,20 @@ def test_an_interaction_utilization_is_not_named_as_an_axial_ratio(mixed):
     assert re.search(r"U 0\.9\d+ utilization with bending", k6)
     assert re.search(r"U 1\.09\d utilization in the loss band", k6)
     assert not re.search(r"N_Ed / N_b,Rd [\d.]+ utilization (?:with|in)", k6)
+
+
+@pytest.mark.parametrize("which", ["demo", "mixed"])
+def test_a_sheets_record_check_and_modes_stay_on_its_first_page(which, request):
+    """The record, the latest check and the whole table of modes stand on the page of the
+    sheet's heading, beside its pictures: a table of modes cut in two, its last rows on the
+    next page, read badly."""
+    pages = request.getfixturevalue(which)
+    for i, page in enumerate(pages):
+        heads = list(SHEET.finditer(page))
+        for k, m in enumerate(heads):
+            end = heads[k + 1].start() if k + 1 < len(heads) else len(page)
+            sheet = page[m.start():end]
+            if "not checked" in sheet[:40]:
+                continue
+            # the table's last axial row (yield) is on the page of the heading
+            assert "yielding (squash load)" in sheet, (i + 1, m.group(1))

@@ -283,9 +283,20 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
 
     system = data.site.unit_system
     col, rec = c.column, c.record
-    # a sheet starts on a fresh page unless its head and pictures fit below the last one
+    summ = check_summary(c.check.result, system) if c.check is not None else None
+    rows = _record_rows(data, c)
+    checked, bold = _result_rows(c, system, summ)
+    modes = _mode_rows(c, system)
+    left_w = pdf.epw - RIGHT_W - 4
+    # a sheet starts on a fresh page unless its head, its record, check and modes, and the
+    # pictures beside them fit below the last one (a table of modes cut in two, its last rows
+    # over the page, away from the pictures, read badly)
+    top = TOP_HEAD + max(TOP_BLOCK - TOP_HEAD, _left_height(pdf, c, rows, checked, modes,
+                                                            left_w))
     pdf.continued = ""
-    if pdf.page_break_trigger - pdf.get_y() < TOP_BLOCK or pdf.get_y() <= pdf.t_margin + 1:
+    # taller than a fresh page: it starts on one of its own
+    need = min(top, pdf.page_break_trigger - pdf.t_margin - 10)
+    if pdf.page_break_trigger - pdf.get_y() < need or pdf.get_y() <= pdf.t_margin + 1:
         pdf.add_page()
     else:
         pdf.ln(4)
@@ -295,9 +306,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     pdf.continued = f"Column {col.tag}, continued"
     pdf.para(f"Level {c.level or 'not recorded'}   |   grid {col.grid or 'not recorded'}   |   "
              f"{col.location or 'location not recorded'}", size=8.5)
-    summ = check_summary(c.check.result, system) if c.check is not None else None
     y0, page0 = pdf.get_y(), pdf.page
-    left_w = pdf.epw - RIGHT_W - 4
     rx = pdf.l_margin + left_w + 4
     # columns of one type share their side view: work it out once per record (tag aside)
     key = "sketch " + json.dumps({k: v for k, v in rec.items() if k != "tag"},
@@ -308,26 +317,12 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     used += _drawings.curve(pdf, summ.chart if summ else None, rx, y0 + used + 2, RIGHT_W, 44)
     right_end = y0 + used + 2
     pdf.set_y(y0)
-    rows = [("Section", tx.section_text(rec.get("section"))),
-            ("Material", tx.material_text(rec.get("material"))),
-            ("Length", tx.value_text(rec.get("length")))]
-    rows += _restraint_rows(rec.get("restraints"))
-    rows += [("Condition", tx.condition_text(rec.get("condition"))),
-             ("Demand", tx.demand_text(rec.get("demand")))]
-    from fieldcol.ui.loads_model import load_lines  # plain data: no Flet
-
-    rows += [("Loads", line) for line in load_lines(rec.get("demand"))]
-    if c.check is None or c.check.record != rec:  # else the check below says both
-        rows += [("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
-                 ("Code", tx.value_text(rec.get("code", data.site.code)))]
-    if "gamma_M1" in rec:
-        rows.append(("gamma_M1", tx.value_text(rec["gamma_M1"])))
     pdf.set_font("DejaVu", "B", 8)
     pdf.text(pdf.l_margin, y0 + 2.4, "Record as entered")
     pdf.set_y(y0 + 3.6)
-    pdf.table(None, rows, (22, 94), size=7.0, width=left_w)
-    _result(pdf, c, system, summ, left_w)
-    _modes(pdf, c, system, left_w)
+    pdf.table(None, rows, RECORD_WIDTHS, size=7.0, width=left_w)
+    _result(pdf, c, checked, bold, left_w)
+    _modes(pdf, modes, left_w)
     if pdf.page == page0:  # the pictures stand beside the tables: go on below both
         pdf.set_y(max(pdf.get_y(), right_end))
     _warnings(pdf, c)
@@ -348,6 +343,49 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
         _retrofits(pdf, c, system)
 
 
+RECORD_WIDTHS = (22, 94)
+#: mm above the record: the sheet's heading and its level / grid line
+TOP_HEAD = 17.0
+
+
+def _left_height(pdf: ReportPDF, c: "ColumnData", rows: list, checked: list,
+                 modes: tuple | None, width: float) -> float:
+    """The height (mm) of the record, the latest check and the table of modes as drawn."""
+    h = 3.6 + sum(pdf.row_heights(rows, RECORD_WIDTHS, size=7.0, width=width)) + 1.6
+    h += 1 + 3.6 + sum(pdf.row_heights(checked, RECORD_WIDTHS, size=7.0, width=width)) + 1.6
+    if c.check is None:
+        h += 8.5 * 0.3528 * 1.18
+    elif c.check.record != c.record:
+        pdf.font("B", 8)
+        h += len(pdf.wrap(CHANGED, width)) * 8 * 0.3528 * 1.18
+    if modes is not None:
+        heads, mrows, _ = modes
+        h += 3.6 + sum(pdf.row_heights([heads], MODE_WIDTHS, size=MODE_PT, width=width,
+                                       style="B"))
+        h += sum(pdf.row_heights(mrows, MODE_WIDTHS, size=MODE_PT, width=width)) + 1.6
+    return h
+
+
+def _record_rows(data: "SiteData", c: "ColumnData") -> list:
+    """The record as entered, a row per item (the restraints one row per axis)."""
+    rec = c.record
+    rows = [("Section", tx.section_text(rec.get("section"))),
+            ("Material", tx.material_text(rec.get("material"))),
+            ("Length", tx.value_text(rec.get("length")))]
+    rows += _restraint_rows(rec.get("restraints"))
+    rows += [("Condition", tx.condition_text(rec.get("condition"))),
+             ("Demand", tx.demand_text(rec.get("demand")))]
+    from fieldcol.ui.loads_model import load_lines  # plain data: no Flet
+
+    rows += [("Loads", line) for line in load_lines(rec.get("demand"))]
+    if c.check is None or c.check.record != rec:  # else the check below says both
+        rows += [("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
+                 ("Code", tx.value_text(rec.get("code", data.site.code)))]
+    if "gamma_M1" in rec:
+        rows.append(("gamma_M1", tx.value_text(rec["gamma_M1"])))
+    return rows
+
+
 def _basis_words(d: dict, summ: Any) -> str:
     """LRFD or ASD for AISC; the partial factor for EN (its checks have no LRFD/ASD basis:
     the record's ``en`` printed as "EN" beside the edition read as a slip); nothing for the
@@ -360,22 +398,32 @@ def _basis_words(d: dict, summ: Any) -> str:
     return ""
 
 
-def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: float) -> None:
+CHANGED = ("The record has changed since this check (the check below used the record as it "
+           "was then): check the column again.")
+
+
+def _result(pdf: ReportPDF, c: "ColumnData", rows: list, bold: list[int], width: float) -> None:
+    """The latest check under its label (rows from ``_result_rows``)."""
     pdf.ln(1)
     pdf.set_font("DejaVu", "B", 8)
     y = pdf.get_y()
     pdf.text(pdf.l_margin, y + 2.4, "Latest check")
     pdf.set_y(y + 3.6)
-    k = c.check
-    if k is None:
+    if c.check is None:
         pdf.write_block("not checked: there is no saved check of this column.", bold=True,
                         width=width, size=8.5)
         return
+    if c.check.record != c.record:
+        pdf.write_block(CHANGED, bold=True, width=width, size=8)
+    pdf.table(None, rows, (22, 94), bold_rows=bold, size=7.0, width=width)
+
+
+def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[int]]:
+    """The latest check's rows and the rows in bold (the utilization when OVER)."""
+    k = c.check
+    if k is None:
+        return [], []
     d = k.result
-    if k.record != c.record:
-        pdf.write_block("The record has changed since this check (the check below used the "
-                        "record as it was then): check the column again.", bold=True,
-                        width=width, size=8)
     word = _status(c)
     util = (f"{tx.utilization_text(k.utilization)} {word}" if word in ("OK", "OVER")
             else word)
@@ -401,8 +449,7 @@ def _result(pdf: ReportPDF, c: "ColumnData", system: str, summ: Any, width: floa
                      f"{tx.quantity(d.get('axial_design_strength'), system)})"))
     if k.note:
         rows.append(("Note", k.note))
-    pdf.table(None, rows, (22, 94), bold_rows=[4] if word == "OVER" else (), size=7.0,
-              width=width)
+    return rows, [4] if word == "OVER" else []
 
 
 #: each code's own symbols under the words of the table of modes (AISC 360-22 E3; EN 1993-1-1
@@ -449,17 +496,29 @@ def _design_text(d: dict, system: str) -> str:
     return f"{shown} {with_} (axial force alone {alone}, nominal {nominal})"
 
 
-def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
-    """Every mode with its design strength, the interactions (bow, moments, loss band) as rows
-    of their own, and the one that governs marked in words as well as bold."""
-    if c.check is None:
+MODE_WIDTHS, MODE_PT = (29, 17, 19, 18, 16, 15), 6.6
+
+
+def _modes(pdf: ReportPDF, table: tuple | None, width: float) -> None:
+    """The table of modes under its label (from ``_mode_rows``)."""
+    if table is None:
         return
-    d = c.check.result
-    code = str(d.get("code", "aisc360-22"))
+    heads, mrows, gov_rows = table
     pdf.set_font("DejaVu", "B", 8)
     y = pdf.get_y()
     pdf.text(pdf.l_margin, y + 2.4, "Every mode")
     pdf.set_y(y + 3.6)
+    pdf.table(heads, mrows, MODE_WIDTHS, bold_rows=gov_rows, size=MODE_PT, width=width)
+
+
+def _mode_rows(c: "ColumnData", system: str) -> tuple | None:
+    """Every mode with its design strength, the interactions (bow, moments, loss band) as rows
+    of their own, and the one that governs marked in words as well as bold: (headings, rows,
+    governing rows), or None without a check."""
+    if c.check is None:
+        return None
+    d = c.check.result
+    code = str(d.get("code", "aisc360-22"))
     gov = d.get("governing_mode")
     kappa = _val(d.get("knowledge_factor")) or 1.0
     nominal, axial = _val(d.get("nominal_strength")), _val(d.get("axial_design_strength"))
@@ -503,8 +562,7 @@ def _modes(pdf: ReportPDF, c: "ColumnData", system: str, width: float) -> None:
     heads = ["Mode", f"Eff. length\n{sym[0]}", f"Slenderness\n{sym[1]}",
              f"Crit. stress\n{sym[2]}", f"Nominal\n{sym[3]}",
              f"Design\n{_design_symbol(code, str(d.get('basis', '')))}"]
-    pdf.table(heads, mrows, (30, 17, 19, 16, 16, 16), bold_rows=gov_rows, size=6.6,
-              width=width)
+    return heads, mrows, gov_rows
 
 
 def _warnings(pdf: ReportPDF, c: "ColumnData") -> None:
