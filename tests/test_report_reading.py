@@ -9,6 +9,7 @@ reader would; EN 1993-1-1 (2005) 6.3.1.2 and 6.3.1.3 for the symbols of flexural
 
 from __future__ import annotations
 
+import csv
 import re
 from pathlib import Path
 
@@ -58,10 +59,15 @@ PINNED = {"bottom": "pinned", "top": "pinned"}
 
 
 @pytest.fixture(scope="module")
-def mixed(tmp_path_factory):
+def mixed(mixed_files):
+    return mixed_files[0]
+
+
+@pytest.fixture(scope="module")
+def mixed_files(tmp_path_factory):
     """An EN 1993-1-1 site (SI) with a rolled column, a laced and a battened pair of channels
     (one under a moment), and a column with a loss band with open holes under end moments;
-    its report's pages as text."""
+    its report's pages as text and the rows of the CSV register beside it."""
     root = tmp_path_factory.mktemp("mixed")
     base = {"material": "S355", "length": "4.5 m", "code": "en1993-1-1",
             "restraints": {"strong": PINNED, "weak": PINNED}}
@@ -85,7 +91,9 @@ def mixed(tmp_path_factory):
             "demand": {"axial": "600 kN", "end_moments": {"strong": {
                 "top": "40 kN*m", "bottom": "10 kN*m", "curvature": "single"}}}})
         out = site_report(store, site.id, root / "en.pdf", report_date="2026-04-01")
-    return _pages(out)
+    rows = list(csv.reader(out.with_suffix(".csv").read_text(encoding="utf-8-sig")
+                           .splitlines()))
+    return _pages(out), rows
 
 
 def _body(page: str) -> str:
@@ -258,3 +266,19 @@ def test_a_sheets_record_check_and_modes_stay_on_its_first_page(which, request):
                 continue
             # the table's last axial row (yield) is on the page of the heading
             assert "yielding (squash load)" in sheet, (i + 1, m.group(1))
+
+
+def test_the_csv_register_says_what_the_pdfs_register_says(mixed_files):
+    """Row for row, the spreadsheet beside the report holds the cells the PDF's register
+    prints; a level or grid not recorded is "-" in both (a lone hyphen is no formula: it
+    needs no guard, and an apostrophe before it showed in the spreadsheet)."""
+    pages, rows = mixed_files
+    text = " ".join(pages)
+    register = text[text.index("Column register Tag"):]
+    register = register[:register.index("Findings register")]
+    assert rows[0] == ["Tag", "Level", "Grid", "Section", "Governing mode", "Utilization",
+                       "Status", "Checked"]
+    assert len(rows) == 1 + 4 + 1
+    for row in rows[1:-1]:
+        assert row[1:3] == ["-", "-"], row
+        assert " ".join(row) in register, row
