@@ -282,3 +282,19 @@ def test_the_csv_register_says_what_the_pdfs_register_says(mixed_files):
     for row in rows[1:-1]:
         assert row[1:3] == ["-", "-"], row
         assert " ".join(row) in register, row
+
+
+def test_a_second_contents_page_says_what_it_is_and_its_pages_are_right(tmp_path: Path):
+    # more column sheets than the first contents page holds (three across)
+    with Store(tmp_path / "big.db") as store:
+        site = store.add_site("Long Quay Sheds", code="aisc360-22", unit_system="us")
+        for i in range(170):
+            store.add_column(site.id, {"tag": f"Q{i:03d}", "section": "W10X49",
+                                       "material": "A992", "length": "12 ft"})
+        out = site_report(store, site.id, tmp_path / "big.pdf", report_date="2026-04-01")
+    pages = _pages(out)
+    assert "Contents" in pages[1] and "Contents, continued Q" in pages[2], pages[2][:300]
+    listed = re.findall(r"(Q\d{3}) (\d+)", pages[1] + " " + pages[2])
+    assert len(listed) == 170
+    for tag, page in listed:
+        assert re.search(rf"Column {tag} +not checked", pages[int(page) - 1]), (tag, page)

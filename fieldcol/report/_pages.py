@@ -185,6 +185,10 @@ def render_contents(pdf: ReportPDF, outline: list) -> None:
         pdf.set_y(y0 + per * lh)
         if i < len(cols):
             pdf.add_page()
+            # its header was drawn before the contents were known: name the page here
+            pdf.write_block("Contents, continued", size=8, bold=True)
+            pdf.ln(0.8)
+            pdf.set_font("DejaVu", "", 7.6)
             rows = TOC_ROWS
 
 
