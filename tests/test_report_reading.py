@@ -221,7 +221,9 @@ def test_a_loss_band_says_where_it_is_and_its_holes_apart_from_the_thickness(mix
 
 def test_small_words_read_as_a_person_writes_them(demo, mixed):
     text = " ".join(demo)
-    assert "strong bottom pinned; top pinned; no braces recorded" in _sheet(demo, "A/1-G")
+    a1 = _sheet(demo, "A/1-G")
+    assert "Strong axis bottom pinned; top pinned; no braces recorded" in a1
+    assert "Weak axis bottom pinned; top pinned; no braces recorded" in a1
     assert "braces none recorded" not in text
     # a finding's category of the trade stays whole in its cell (was "housekeepi ng")
     assert re.search(r"F9 info closed whole site housekeeping Debris", text)

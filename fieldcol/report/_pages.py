@@ -274,7 +274,8 @@ def _restraint_rows(restraints: Any) -> list[tuple[str, str]]:
             rows.setdefault(axis, []).append("no braces recorded")
             continue
         rows.setdefault(axis, []).append(f"{part} {short}" if part else short)
-    return [(axis.replace(" axis", ""), "; ".join(parts)) for axis, parts in rows.items()]
+    # labelled as the other rows of the record are: a capital, the axis named in full
+    return [(axis[:1].upper() + axis[1:], "; ".join(parts)) for axis, parts in rows.items()]
 
 
 def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnData") -> None:
