@@ -466,14 +466,6 @@ MODE_SYMBOLS = {"aisc360-22": ("Lc", "Lc/r", "Fcr", "Pn"),
 INTERACTIONS = (("bow", "bow"), ("beam-column", "beam_column"), ("section-band", "section_band"))
 
 
-def _design_symbol(code: str, basis: str) -> str:
-    if code == "en1993-1-1":
-        return "N_b,Rd"
-    if code == "elastic":
-        return "Pn"
-    return "Pn/Ω" if basis == "asd" else "φPn"
-
-
 def _val(q: Any) -> float | None:
     v = q.get("value") if isinstance(q, dict) else None
     return float(v) if isinstance(v, (int, float)) else None
@@ -520,6 +512,8 @@ def _mode_rows(c: "ColumnData", system: str) -> tuple | None:
     """Every mode with its design strength, the interactions (bow, moments, loss band) as rows
     of their own, and the one that governs marked in words as well as bold: (headings, rows,
     governing rows), or None without a check."""
+    from fieldcol.ui.check_model import design_symbol  # plain data: no Flet
+
     if c.check is None:
         return None
     d = c.check.result
@@ -566,7 +560,7 @@ def _mode_rows(c: "ColumnData", system: str) -> tuple | None:
     sym = MODE_SYMBOLS.get(code, MODE_SYMBOLS["aisc360-22"])
     heads = ["Mode", f"Eff. length\n{sym[0]}", f"Slenderness\n{sym[1]}",
              f"Crit. stress\n{sym[2]}", f"Nominal\n{sym[3]}",
-             f"Design\n{_design_symbol(code, str(d.get('basis', '')))}"]
+             f"Design\n{design_symbol(code, str(d.get('basis', '')))}"]
     return heads, mrows, gov_rows
 
 

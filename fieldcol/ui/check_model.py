@@ -141,7 +141,14 @@ def _yes_no(v: Any) -> str:
     return "yes" if v in (1, 1.0, True, "True") else "no" if v in (0, 0.0, False, "False") else str(v)
 
 
-def _design_symbol(code: str, basis: str) -> str:
+def design_symbol(code: str, basis: str) -> str:
+    """The symbol of the design strength as the code writes it (the Check tab's result line
+    and the report's table of modes).
+
+    Example:
+        >>> design_symbol("aisc360-22", "lrfd"), design_symbol("en1993-1-1", "en")
+        ('φPn', 'N_b,Rd')
+    """
     if code == "en1993-1-1":
         return "N_b,Rd"
     if code == "elastic":
@@ -198,7 +205,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     axial_design = _val(result.get("axial_design_strength"))
     factor = (axial_design / nominal) if axial_design and nominal else 1.0
     demand = _val(result.get("demand"))
-    dsym, psym = _design_symbol(code, basis), _demand_symbol(code)
+    dsym, psym = design_symbol(code, basis), _demand_symbol(code)
     if demand is not None:
         line = (f"{psym} {_fmt(demand, 'force', system)} / {dsym} {_fmt(design, 'force', system)}"
                 f" = {util:.2f}" if util is not None and math.isfinite(util)
