@@ -300,3 +300,16 @@ def test_a_second_contents_page_says_what_it_is_and_its_pages_are_right(tmp_path
     assert len(listed) == 170
     for tag, page in listed:
         assert re.search(rf"Column {tag} +not checked", pages[int(page) - 1]), (tag, page)
+
+
+def test_a_radius_of_gyration_in_the_trace_gives_back_its_slenderness(demo):
+    """C/1-G is a welded I measured on site: d 16 in, bf 12 in, tf 3/4 in, tw 1/2 in. By hand
+    (rectangles, common practice): A = 2 x 12 x 0.75 + 14.5 x 0.5 = 25.25 in2,
+    Iy = 2 x 0.75 x 12^3 / 12 + 14.5 x 0.5^3 / 12 = 216.15 in4, ry = sqrt(Iy / A) = 2.926 in;
+    Lc / ry = 216 / 2.926 = 73.8 (AISC 360-22 E3). To the nearest 1/16 in (2 15/16") the
+    radius gave 73.5 back, not the 73.83 printed beside it."""
+    c1 = _sheet(demo, "C/1-G")
+    ry = float(re.search(r" ry ([\d.]+) in radius of gyration", c1).group(1))
+    assert ry == pytest.approx((216.15 / 25.25) ** 0.5, abs=0.0006)
+    slenderness = float(re.search(r" Lc/r,y ([\d.]+) slenderness", c1).group(1))
+    assert 18 * 12 / ry == pytest.approx(slenderness, rel=2e-4)

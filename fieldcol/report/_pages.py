@@ -3,6 +3,7 @@ per column, the photo grid."""
 
 from __future__ import annotations
 
+import dataclasses
 import json
 from typing import TYPE_CHECKING, Any
 
@@ -341,7 +342,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
-    _trace(pdf, summ, col.tag)
+    _trace(pdf, summ, col.tag, c.check.result.get("steps") if c.check else None, system)
     _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
     if c.retrofits:
@@ -596,12 +597,20 @@ def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tu
     return fit[0], fit[1], half - fit[0] - fit[1]
 
 
-def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
+def _trace(pdf: ReportPDF, summ: Any, tag: str, steps: list | None = None,
+           system: str = "us") -> None:
+    """The trace in two columns. ``steps`` (the check's own, in the same order as
+    ``summ.trace``) give a short length its decimal inches on a US site: a radius of gyration
+    to the nearest 1/16 in (2 15/16") does not give back the Lc/r printed beside it."""
     if summ is None or not summ.trace:
         return
     rows = []
-    for t in summ.trace:
+    raw = steps if steps is not None and len(steps) == len(summ.trace) else [None] * len(summ.trace)
+    for t, st in zip(summ.trace, raw):
         what = t.what
+        if (system == "us" and isinstance(st, dict) and st.get("unit") == "mm"
+                and isinstance(st.get("value"), (int, float))):
+            t = dataclasses.replace(t, value=tx.quantity(st, system))
         if t.formula:
             # a word (record, table, measured) says where the value came from; else an equation
             what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \
