@@ -366,3 +366,30 @@ def test_the_caution_and_page_x_of_y_on_every_page(which, request):
         assert "an aid to, not a substitute for, the judgement of a licensed engineer; " \
                "local codes govern" in t, i
         assert f"page {i} of {len(pages)}" in t, i
+
+
+def test_a_us_sites_trace_speaks_inches_and_ksi(tmp_path: Path):
+    """The engine writes the parts of a built-up section and its fasteners in mm and MPa; a US
+    site's report reads them in inches and ksi, as they were measured (a 3/8 in plate is
+    9.525 mm, a 5/8 in rivet 15.875 mm: exact, 1 in = 25.4 mm; 414 MPa = 60 ksi, NIST SP 811)."""
+    with Store(tmp_path / "u.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        _checked(store, site, {"tag": "L3", "section": {"built": {
+            "arrangement": "channels", "channel": "C12X20.7", "gap": "6 in", "toes": "out",
+            "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in",
+                        "fasteners": {"count": 2, "diameter": "5/8 in"}},
+            "connection": "riveted"}}, "material": "A7", "length": "20 ft",
+            "demand": {"axial": "150 kip"}})
+        _checked(store, site, {"tag": "L4", "section": {"built": {
+            "arrangement": "angles-web", "angle": "L4X4X1/2",
+            "web": {"depth": "14 in", "thickness": "3/8 in"},
+            "flange_plates": {"width": "10 in", "thickness": "1/2 in"},
+            "connection": "riveted"}}, "material": "A7", "length": "18 ft",
+            "demand": {"axial": "300 kip"}})
+        out = site_report(store, site.id, tmp_path / "u.pdf", report_date="2026-04-01")
+    text = " ".join(_pages(out))
+    assert "riveted to a web plate 14 x 3/8 in, flange plates 10 x 1/2 in" in text
+    assert "toes out, 6 in apart" in text
+    assert "2 rivets of 5/8 in" in text
+    assert not re.search(r"\d MPa", text), re.search(r".{60}\d MPa.{20}", text)
+    assert not re.search(r"\d(?: x \d+(?:\.\d+)?)? mm (?:apart|packings|\[|,)", text)
