@@ -393,3 +393,17 @@ def test_a_us_sites_trace_speaks_inches_and_ksi(tmp_path: Path):
     assert "2 rivets of 5/8 in" in text
     assert not re.search(r"\d MPa", text), re.search(r".{60}\d MPa.{20}", text)
     assert not re.search(r"\d(?: x \d+(?:\.\d+)?)? mm (?:apart|packings|\[|,)", text)
+
+
+def test_a_utilization_set_by_an_interaction_says_so(mixed):
+    """Under moments the utilization is the ratio of the interaction equation (EN 1993-1-1
+    6.3.3 (6.62) here), not the demand over the design strength: 900 kN over the printed
+    design strength is another number, so the sheet says which it is."""
+    k5 = _sheet(mixed, "K5")
+    got = re.search(r"Utilization (\d\.\d{3}) OK: interaction ratio \(6\.62\)", k5)
+    assert got, k5[:1500]
+    design = float(re.search(r"Design strength (\d+) kN", k5).group(1))
+    assert abs(900 / design - float(got.group(1))) > 0.002  # truly another number
+    assert "it is the interaction ratio of the code's equation" in mixed[0]
+    k1 = _sheet(mixed, "K1")
+    assert re.search(r"Utilization \d\.\d{3} OK Governing mode", k1)

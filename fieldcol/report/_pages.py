@@ -66,7 +66,10 @@ def cover(pdf: ReportPDF, data: "SiteData", *, report_date: str, version: str,
     pdf.para("Status words used throughout: OK (utilization 1.000 or less), OVER (utilization "
              "above 1.000), not checked (no saved check), not covered (the code gives no "
              "strength for this column), no demand (design strength only). Utilization is the "
-             "demand divided by the design strength of the latest saved check.",
+             "demand divided by the design strength of the latest saved check; where moments, "
+             "a measured bow or a loss band govern, it is the interaction ratio of the code's "
+             "equation, and the design strength the largest axial force that equation allows "
+             "with the moments in proportion.",
              size=8.5, colour=GREY)
 
 
@@ -433,6 +436,11 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
     word = _status(c)
     util = (f"{tx.utilization_text(k.utilization)} {word}" if word in ("OK", "OVER")
             else word)
+    gov = d.get("governing_mode")
+    if word in ("OK", "OVER") and gov in _WITH:
+        # not the demand over the design strength (the equation is not linear in the force)
+        eq = (d.get(dict(INTERACTIONS)[gov]) or {}).get("equation")
+        util += f": interaction ratio ({eq})" if eq else ": interaction ratio"
     dem = d.get("demand")
     rows = [("Checked", f"{tx.when(k.checked_at)} with fieldcol {k.app_version}"),
             ("Code", f"{k.edition or k.code}, {_basis_words(d, summ)}"
