@@ -228,6 +228,8 @@ def test_small_words_read_as_a_person_writes_them(demo, mixed):
     # a finding's category of the trade stays whole in its cell (was "housekeepi ng")
     assert re.search(r"F9 info closed whole site housekeeping Debris", text)
     assert "photographer not recorded" in text and "by: not recorded" not in text
+    # a sentence run on after a colon goes on in lower case
+    assert "Governing mode flexural buckling, weak axis: its buckling length 16'-0\"" in a1
     # EN 1993-1-1 has no LRFD/ASD basis: the partial factor gamma_M1 (6.1 (1)) stands there
     k1 = _sheet(mixed, "K1")
     assert re.search(r"Code EN 1993-1-1:2005\+A1:2014, γ_M1 = 1, K basis recommended", k1), \

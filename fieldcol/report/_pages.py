@@ -427,6 +427,14 @@ def _result(pdf: ReportPDF, c: "ColumnData", rows: list, bold: list[int], width:
     pdf.table(None, rows, (22, 94), bold_rows=bold, size=7.0, width=width)
 
 
+def _after_colon(text: str) -> str:
+    """A sentence run on after a colon: its first word in lower case, unless it is an
+    abbreviation (``EN``, ``K``)."""
+    if len(text) > 1 and text[0].isupper() and text[1].islower():
+        return text[0].lower() + text[1:]
+    return text
+
+
 def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[int]]:
     """The latest check's rows and the rows in bold (the utilization when OVER)."""
     k = c.check
@@ -453,7 +461,8 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
             ("Utilization", util),
             ("Governing mode", (tx.MODE_WORDS.get(d.get("governing_mode") or "",
                                                   d.get("governing_mode") or "")
-                                + (f": {summ.why}" if summ is not None and summ.why else ""))
+                                + (f": {_after_colon(summ.why)}"
+                                   if summ is not None and summ.why else ""))
              if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
