@@ -409,3 +409,11 @@ def test_a_utilization_set_by_an_interaction_says_so(mixed):
     assert "it is the interaction ratio of the code's equation" in mixed[0]
     k1 = _sheet(mixed, "K1")
     assert re.search(r"Utilization \d\.\d{3} OK Governing mode", k1)
+
+
+def test_the_register_names_a_built_up_section_in_words(mixed_files):
+    pages, rows = mixed_files
+    sections = {r[0]: r[3] for r in rows[1:-1]}
+    assert sections["K4"] == "2 UPN 200 channels, laced"
+    assert sections["K5"] == "2 UPN 200 channels, battened"
+    assert sections["K1"] == "HE 300 B" and sections["K6"] == "HE 200 A with loss"

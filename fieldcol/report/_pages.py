@@ -125,8 +125,12 @@ def register_rows(data: "SiteData") -> tuple[list[str], list[list[str]]]:
 
     rows = []
     for c in worst_first(data.columns):
+        section = c.record.get("section")
+        built = section.get("built") if isinstance(section, dict) else None
         rows.append([c.column.tag, c.level or "-", c.column.grid or "-",
-                     section_label(c.record.get("section")) or "-", _mode(c),
+                     # a built-up section in words, not its arrangement's key ("angles-web")
+                     tx.built_label(built) if isinstance(built, dict)
+                     else section_label(section) or "-", _mode(c),
                      tx.utilization_text(c.utilization), _status(c),
                      tx.when(c.check.checked_at)[:10] if c.check else "-"])
     return (["Tag", "Level", "Grid", "Section", "Governing mode", "Utilization", "Status",

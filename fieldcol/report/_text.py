@@ -517,3 +517,24 @@ def us_words(text: str) -> str:
 
     text = _MM.sub(length, text)
     return _MPA.sub(lambda m: f"{float(m.group(1)) / _KSI:.3g} ksi", text)
+
+
+def built_label(built: dict[str, Any]) -> str:
+    """A built-up section in a few words, for the register: its parts, how many, how tied.
+
+    Example: ``built_label({"arrangement": "channels", "channel": "C12X20.7",
+    "battens": {"spacing": "24 in"}})`` gives ``'2 C12X20.7 channels, battened'``.
+    """
+    arr = built.get("arrangement")
+    part = built.get("channel" if arr == "channels" else "angle")
+    name = "measured" if isinstance(part, dict) else value_text(part)
+    tie = ("laced" if "lacing" in built else "battened" if "battens" in built
+           else "boxed by plates" if "plates" in built
+           else "stitched" if "pitch" in built and arr == "channels" else "")
+    head = {"channels": f"2 {name} channels",
+            "angles-web": f"4 {name} angles on a web plate",
+            "angles-box": f"4 {name} angles, boxed",
+            "angles-star": f"4 {name} angles in a cross"}.get(str(arr))
+    if head is None:
+        return f"built-up {value_text(arr)}"
+    return head + (f", {tie}" if tie else "")
