@@ -417,3 +417,21 @@ def test_the_register_names_a_built_up_section_in_words(mixed_files):
     assert sections["K4"] == "2 UPN 200 channels, laced"
     assert sections["K5"] == "2 UPN 200 channels, battened"
     assert sections["K1"] == "HE 300 B" and sections["K6"] == "HE 200 A with loss"
+
+
+def test_an_unchecked_column_names_its_code_and_a_finding_its_place_on_the_sheet(tmp_path):
+    with Store(tmp_path / "o.db") as store:
+        site = store.add_site("Old Mill Annex", code="aisc360-22", unit_system="us")
+        store.add_column(site.id, {"tag": "N2", "section": "W8X31", "material": "A36",
+                                   "length": "10 ft"})
+        col = store.add_column(site.id, {"tag": "N3", "section": "W12X65", "material": "A36",
+                                         "length": "14 ft"})
+        store.add_finding(site.id, "Web buckled locally near the splice", category="damage",
+                          severity="urgent", column_id=col.id, face="north", height="6 ft")
+        out = site_report(store, site.id, tmp_path / "o.pdf", report_date="2026-04-01")
+    pages = _pages(out)
+    n2 = _sheet(pages, "N2")
+    assert "Code AISC 360-22 (ANSI/AISC 360-22)" in n2 and "aisc360-22" not in n2
+    n3 = _sheet(pages, "N3")
+    # the sheet says where on the column, as the register does
+    assert "Web buckled locally near the splice (north face, 6'-0\" up, urgent, open)" in n3

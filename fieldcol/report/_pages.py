@@ -218,6 +218,13 @@ def register(pdf: ReportPDF, data: "SiteData") -> None:
              "is written as CSV beside this report.", size=SMALL_PT + 0.5, colour=GREY)
 
 
+def _place(f: Any, system: str) -> str:
+    """Where on the column a finding is: its face and height, as the register and the
+    column's sheet both say it."""
+    return ", ".join(([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                     + ([f"{_length(f.height, system)} up"] if f.height else []))
+
+
 def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
     """All findings on one table, open before closed and most severe first."""
     pdf.continued = ""
@@ -230,9 +237,7 @@ def findings_register(pdf: ReportPDF, data: "SiteData") -> None:
     rows, bold = [], []
     for i, f in enumerate(data.findings):
         where = (data.tags_by_id.get(f.column_id, "?") if f.column_id else "whole site")
-        place = ", ".join(([FACE_WORDS.get(f.face, f.face)] if f.face else [])
-                          + ([f"{_length(f.height, data.site.unit_system)} up"]
-                             if f.height else []))
+        place = _place(f, data.site.unit_system)
         text = f.text + (f" ({place})" if place else "")
         rows.append([data.finding_refs[f.id], f.severity, f.status, where, f.category, text,
                      f"{tx.when(f.created_at)[:10]}" + (f", {f.created_by}" if f.created_by
@@ -342,7 +347,9 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     if c.findings:
         pdf.heading("Findings on this column", 3)
         pdf.table(None, [(data.finding_refs.get(f.id, ""),
-                          f"{f.text} ({f.severity}, {f.status})"
+                          f"{f.text} ("
+                          + "".join(f"{x}, " for x in [_place(f, system)] if x)
+                          + f"{f.severity}, {f.status})"
                           + (f"; photos {data.refs_of(data.finding_photos.get(f.id, []))}"
                              if data.finding_photos.get(f.id) else ""))
                          for f in c.findings], (10, 160), size=7.2)
@@ -393,7 +400,8 @@ def _record_rows(data: "SiteData", c: "ColumnData") -> list:
     rows += [("Loads", line) for line in load_lines(rec.get("demand"))]
     if c.check is None or c.check.record != rec:  # else the check below says both
         rows += [("K basis", tx.value_text(rec.get("k_basis", "recommended (default)"))),
-                 ("Code", tx.value_text(rec.get("code", data.site.code)))]
+                 ("Code", CODE_WORDS.get(str(rec.get("code", data.site.code)),
+                                         tx.value_text(rec.get("code", data.site.code))))]
     if "gamma_M1" in rec:
         rows.append(("gamma_M1", tx.value_text(rec["gamma_M1"])))
     return rows
