@@ -435,3 +435,26 @@ def test_an_unchecked_column_names_its_code_and_a_finding_its_place_on_the_sheet
     n3 = _sheet(pages, "N3")
     # the sheet says where on the column, as the register does
     assert "Web buckled locally near the splice (north face, 6'-0\" up, urgent, open)" in n3
+
+
+def test_the_heading_of_a_columns_findings_stays_with_its_first_finding(tmp_path: Path):
+    """Wherever a sheet leaves off, "Findings on this column" is never the last thing on a
+    page: a long first finding (a surveyor's full note) goes over with it."""
+    from fieldcol import CAUTION
+    from fieldcol.report._layout import ReportPDF
+    from fieldcol.report._pages import _column_findings
+
+    rows = [("F1", "Flange pitting over the lower third, deepest near the base plate; " * 12
+             + "(high, open)"), ("F2", "Paint failing (low, open)")]
+    for k in range(20):
+        pdf = ReportPDF(paper="Letter", site_name="Yard", report_date="2026-04-01",
+                        caution=CAUTION)
+        pdf.add_page()
+        # the last 40 mm of the page, 2 mm at a time
+        pdf.set_y(pdf.page_break_trigger - 40 + k * 2)
+        _column_findings(pdf, rows)
+        out = tmp_path / f"f{k}.pdf"
+        pdf.output(str(out))
+        pages = _pages(out)
+        at = next(t for t in pages if "Findings on this column" in t)
+        assert "Findings on this column F1 Flange pitting" in at, (k, at[-200:])

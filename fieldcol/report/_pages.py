@@ -345,14 +345,13 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
         pdf.set_y(max(pdf.get_y(), right_end))
     _warnings(pdf, c)
     if c.findings:
-        pdf.heading("Findings on this column", 3)
-        pdf.table(None, [(data.finding_refs.get(f.id, ""),
-                          f"{f.text} ("
-                          + "".join(f"{x}, " for x in [_place(f, system)] if x)
-                          + f"{f.severity}, {f.status})"
-                          + (f"; photos {data.refs_of(data.finding_photos.get(f.id, []))}"
-                             if data.finding_photos.get(f.id) else ""))
-                         for f in c.findings], (10, 160), size=7.2)
+        frows = [(data.finding_refs.get(f.id, ""),
+                  f"{f.text} (" + "".join(f"{x}, " for x in [_place(f, system)] if x)
+                  + f"{f.severity}, {f.status})"
+                  + (f"; photos {data.refs_of(data.finding_photos.get(f.id, []))}"
+                     if data.finding_photos.get(f.id) else ""))
+                 for f in c.findings]
+        _column_findings(pdf, frows)
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
@@ -361,6 +360,14 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     _measurement_history(pdf, c, system)
     if c.retrofits:
         _retrofits(pdf, c, system)
+
+
+def _column_findings(pdf: ReportPDF, rows: list) -> None:
+    """The findings on a column under their heading; a long first finding goes over with its
+    heading, never leaving it alone at the foot of a page."""
+    pdf.heading("Findings on this column", 3, keep=pdf.first_rows(None, rows, (10, 160),
+                                                                   size=7.2))
+    pdf.table(None, rows, (10, 160), size=7.2)
 
 
 RECORD_WIDTHS = (22, 94)
