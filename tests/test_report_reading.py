@@ -458,3 +458,18 @@ def test_the_heading_of_a_columns_findings_stays_with_its_first_finding(tmp_path
         pages = _pages(out)
         at = next(t for t in pages if "Findings on this column" in t)
         assert "Findings on this column F1 Flange pitting" in at, (k, at[-200:])
+
+
+def test_the_elastic_reference_tables_speak_as_its_trace(tmp_path: Path):
+    # the elastic reference check writes Fcr and Pn in its trace (Euler's load over the area,
+    # capped at Fy: common practice); its table of modes uses the same symbols
+    with Store(tmp_path / "e.db") as store:
+        site = store.add_site("Reference Yard", code="elastic", unit_system="us")
+        _checked(store, site, {"tag": "R1", "section": "W10X49", "material": "A992",
+                               "length": "14 ft", "code": "elastic",
+                               "demand": {"axial": "100 kip"}})
+        out = site_report(store, site.id, tmp_path / "e.pdf", report_date="2026-04-01")
+    r1 = _sheet(_pages(out), "R1")
+    assert ("Eff. length Lc Slenderness Lc/r Crit. stress Fcr Nominal Pn Design Pn" in r1), \
+        r1[:1500]
+    assert " Fcr,y " in r1 and " Pn,y " in r1

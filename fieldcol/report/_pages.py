@@ -498,7 +498,7 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
 #: 6.3.1.2, 6.3.1.3; the elastic reference check speaks as AISC does)
 MODE_SYMBOLS = {"aisc360-22": ("Lc", "Lc/r", "Fcr", "Pn"),
                 "en1993-1-1": ("L_cr", "λ-bar", "χ f_y", "χ A f_y"),
-                "elastic": ("Lc", "Lc/r", "Pcr / A", "Pn")}
+                "elastic": ("Lc", "Lc/r", "Fcr", "Pn")}
 #: the checks beside the axial modes that can govern, where the result keeps each
 INTERACTIONS = (("bow", "bow"), ("beam-column", "beam_column"), ("section-band", "section_band"))
 
