@@ -464,7 +464,7 @@ def test_the_elastic_reference_tables_speak_as_its_trace(tmp_path: Path):
     # the elastic reference check writes Fcr and Pn in its trace (Euler's load over the area,
     # capped at Fy: common practice); its table of modes uses the same symbols
     with Store(tmp_path / "e.db") as store:
-        site = store.add_site("Reference Yard", code="elastic", unit_system="us")
+        site = store.add_site("Reference Yard", code="aisc360-22", unit_system="us")
         _checked(store, site, {"tag": "R1", "section": "W10X49", "material": "A992",
                                "length": "14 ft", "code": "elastic",
                                "demand": {"axial": "100 kip"}})
