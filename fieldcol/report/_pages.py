@@ -8,7 +8,7 @@ import json
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
-from fieldcol.report._layout import GREY, SMALL_PT, PhotoCell, ReportPDF
+from fieldcol.report._layout import GREY, PT_MM, SMALL_PT, PhotoCell, ReportPDF
 from fieldcol.store._schema import FACE_WORDS
 from fieldcol.store import quantity_name
 
@@ -380,11 +380,11 @@ def _left_height(pdf: ReportPDF, c: "ColumnData", rows: list, checked: list,
     """The height (mm) of the record, the latest check and the table of modes as drawn."""
     h = 3.6 + sum(pdf.row_heights(rows, RECORD_WIDTHS, size=7.0, width=width)) + 1.6
     h += 1 + 3.6 + sum(pdf.row_heights(checked, RECORD_WIDTHS, size=7.0, width=width)) + 1.6
-    if c.check is None:
-        h += 8.5 * 0.3528 * 1.18
+    if c.check is None:  # one bold line, as write_block sets it
+        h += 8.5 * PT_MM * 1.18
     elif c.check.record != c.record:
         pdf.font("B", 8)
-        h += len(pdf.wrap(CHANGED, width)) * 8 * 0.3528 * 1.18
+        h += len(pdf.wrap(CHANGED, width)) * 8 * PT_MM * 1.18
     if modes is not None:
         heads, mrows, _ = modes
         h += 3.6 + sum(pdf.row_heights([heads], MODE_WIDTHS, size=MODE_PT, width=width,
