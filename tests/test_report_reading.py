@@ -473,3 +473,23 @@ def test_the_elastic_reference_tables_speak_as_its_trace(tmp_path: Path):
     assert ("Eff. length Lc Slenderness Lc/r Crit. stress Fcr Nominal Pn Design Pn" in r1), \
         r1[:1500]
     assert " Fcr,y " in r1 and " Pn,y " in r1
+
+
+def test_a_text_written_again_reads_back_the_same(tmp_path: Path):
+    """The fonts keep each text's encoding into their subset (the report writes the same words
+    thousands of times); new characters met between two writings of a text must not change
+    what the first text reads as (pypdf reads each glyph back through the font's own map)."""
+    from fieldcol import CAUTION
+    from fieldcol.report._layout import ReportPDF
+
+    pdf = ReportPDF(paper="A4", site_name="Yard", report_date="2026-04-01", caution=CAUTION)
+    assert {type(f).__name__ for f in pdf.fonts.values()} == {"_KeptEncoding"}
+    pdf.add_page()
+    lines = ["Flange 0.48 in", "Ржавчина у основания", "Flange 0.48 in", "λ-bar_z ≤ 0.2 χ",
+             "Flange 0.48 in Ж"]
+    for i, line in enumerate(lines):
+        pdf.set_font("DejaVu", "B" if i % 2 else "", 9)
+        pdf.text(20, 30 + 8 * i, line)
+    pdf.output(str(tmp_path / "t.pdf"))
+    text = _flat(pypdf.PdfReader(tmp_path / "t.pdf").pages[0].extract_text())
+    assert " ".join(lines) in text, text
