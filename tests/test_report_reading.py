@@ -493,3 +493,13 @@ def test_a_text_written_again_reads_back_the_same(tmp_path: Path):
     pdf.output(str(tmp_path / "t.pdf"))
     text = _flat(pypdf.PdfReader(tmp_path / "t.pdf").pages[0].extract_text())
     assert " ".join(lines) in text, text
+
+
+def test_a_check_saved_with_the_old_batten_moment_unit_still_reads_in_site_units():
+    # checks saved before the batten moment's unit was N*mm carry "N mm": shown in kN*m
+    from fieldcol.ui.check_model import check_summary
+
+    summ = check_summary({"code": "en1993-1-1", "steps": [
+        {"symbol": "M_b,Ed,y", "what": "moment in one batten at the chord, y axis",
+         "formula": "V_Ed a / (2 n)", "value": 2.688e6, "unit": "N mm", "clause": ""}]}, "si")
+    assert summ.trace[0].value == "2.688 kN*m"

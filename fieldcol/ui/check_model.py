@@ -37,7 +37,9 @@ _SUFFIX = {"aisc360-22": {"flexural-strong": "x", "flexural-weak": "y", "torsion
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
 _STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
                "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle",
+               # checks saved before the built-up batten moment was written in N*mm
+               "N mm": "moment"}
 
 
 @dataclass(frozen=True)
