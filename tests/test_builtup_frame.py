@@ -400,7 +400,7 @@ def ties_at_the_en_capacity(name: str, panels: int = 20):
     ax = b.open_axes[0]
     L = panels * _pitch(ax)
     res = check_builtup("en1993-1-1", b, 355.0, E, G, *lengths(ax, L), L)
-    steps = {s.symbol: float(s.value) for s in res.trace.steps if s.unit in ("N", "N mm")}
+    steps = {s.symbol: float(s.value) for s in res.trace.steps if s.unit in ("N", "N*mm")}
     o = ax.axis
     N = steps[f"Nb,Rd,{o}"]
     bowed, _, _, ties = column_frame(ax, panels, bow=L / 500)

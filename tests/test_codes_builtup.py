@@ -178,7 +178,8 @@ def test_the_store_list_the_check_sheet_and_the_report_name_a_built_up_column(tm
     assert "built-up channels" in str(listed.__dict__)
     assert sheet(d, "us").splitlines()[1].startswith("Section built-up (channels)")
     text = " ".join(" ".join(p.extract_text() for p in pypdf.PdfReader(out).pages).split())
-    assert "built-up section: arrangement channels, channel C12X20.7" in text
+    assert ("built-up: two C12X20.7 channels, toes out, 6 in clear between them; battens 8 in "
+            "deep x 3/8 in at 24 in centres") in text
     assert "aid to, not a substitute for, the judgement of a licensed engineer" in text
 
 

@@ -494,7 +494,7 @@ def _en_ties(ax: OpenAxis, N: float, L: float, E: float, fy: float, t: Trace) ->
         Vb = t.add(f"V_b,Ed,{o}", f"shear in one batten, {o} axis", "V_Ed a / (n h0)",
                    V * ax.a / (n * ax.h0), "N", f"{EN64}.3.1 (2), Fig. 6.11")
         Mb = t.add(f"M_b,Ed,{o}", f"moment in one batten at the chord, {o} axis",
-                   "V_Ed a / (2 n)", V * ax.a / (2 * n), "N mm", f"{EN64}.3.1 (2), Fig. 6.11")
+                   "V_Ed a / (2 n)", V * ax.a / (2 * n), "N*mm", f"{EN64}.3.1 (2), Fig. 6.11")
         t.add(f"F_joint,{o}", f"demand on each batten's connection to a chord, {o} axis: "
               f"shear {Vb / 1e3:.1f} kN with moment {Mb / 1e6:.2f} kN m", "V_b,Ed, M_b,Ed",
               Vb, "N", f"{EN64}.3.1 (2) (connections: check the rivet group or welds)")

@@ -121,7 +121,8 @@ def _write_csv(path: Path, headings: list[str], rows: list[list[str]]) -> None:
         w = csv.writer(f)
         w.writerow(headings)
         for r in rows:
-            w.writerow([guard_cell(x) for x in r])
+            # a lone "-" (nothing recorded) is no formula: guarded, its apostrophe showed
+            w.writerow([x if x == "-" else guard_cell(x) for x in r])
         w.writerow([CAUTION])
 
 

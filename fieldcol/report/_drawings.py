@@ -168,13 +168,16 @@ def curve(pdf: ReportPDF, ch: "Chart | None", x: float, y: float, w: float, h: f
         pdf.text(px - 1.2 - pdf.width_of(lab), sy(t) + 0.8, lab)
         t += step
     pdf.text(px + (pw - pdf.width_of(ch.x_name)) / 2, py + ph + 5.4, ch.x_name)
-    pdf.text(px - 1.0, py - 1.4, f"{ch.stress_name} ({ch.stress_unit})")
+    title = f"{ch.stress_name} ({ch.stress_unit})"
+    pdf.text(px - 1.0, py - 1.4, title)
     for k, (label, pts) in enumerate(ch.curves):
         pdf.set_draw_color(*(SHAPE if k == 0 else GREY))
         pdf.set_line_width(0.4)
         pdf.polyline([(sx(a), sy(b)) for a, b in pts if a <= ch.x_max])
     pdf.set_line_width(0.2)
-    placed: list[tuple[float, float, float, float]] = []
+    # the axis title is a label too: a point near the top left (a stocky column) steps clear
+    placed: list[tuple[float, float, float, float]] = [
+        (px - 1.0, py - 1.4 - 2.0, px - 1.0 + pdf.width_of(title), py - 1.4)]
     for p in sorted(ch.points, key=lambda q: q.x):
         cx, cy = sx(p.x), sy(p.stress)
         pdf.set_draw_color(*(ACCENT if p.governs else INK))

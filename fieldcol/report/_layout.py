@@ -48,6 +48,41 @@ class PhotoCell:
     size: tuple[int, int] | None = None   # pixels of ``image`` (read from the file if None)
 
 
+try:  # fpdf2's font class: its encoding of a text is kept per text (``_encode_once``)
+    from fpdf.fonts import TTFFont as _TTFFont
+except ImportError:  # pragma: no cover - another fpdf2 layout: encode as it does
+    _TTFFont = None  # type: ignore[assignment,misc]
+
+if _TTFFont is not None and hasattr(_TTFFont, "encode_text"):
+    class _KeptEncoding(_TTFFont):  # type: ignore[misc,valid-type]
+        """A bundled font whose encoding of each text is kept with its subset map.
+
+        A report writes the same words (trace lines, headings, units) thousands of times and
+        fpdf2 maps every character into the subset again each time: a fifth of a 500-column
+        report's processor time. A character's code in the subset is fixed when first met, so
+        a kept encoding stays right; it lives on the subset map, so it goes with it.
+        """
+        __slots__ = ()
+
+        def encode_text(self, text: str) -> str:
+            kept = self.subset.__dict__.setdefault("_kept_encodings", {})
+            got = kept.get(text)
+            if got is None:
+                if len(kept) >= 50_000:  # bounded: most lines of a long report differ
+                    kept.clear()
+                got = kept[text] = super().encode_text(text)
+            return got
+else:  # pragma: no cover
+    _KeptEncoding = None  # type: ignore[assignment,misc]
+
+
+def _encode_once(font: object) -> None:
+    """Give a bundled font the kept encoding (nothing changes on an fpdf2 without it)."""
+    if (_KeptEncoding is not None and type(font) is _TTFFont
+            and hasattr(getattr(font, "subset", None), "__dict__")):
+        font.__class__ = _KeptEncoding
+
+
 class ReportPDF(FPDF):
     """A4 or Letter portrait pages with the site's header and the page-count / caution footer."""
 
@@ -58,9 +93,14 @@ class ReportPDF(FPDF):
         self.missing: set[str] = set()
         self.memo: dict[str, object] = {}   # pictures of records seen before in this report
         self._wrapped: dict[tuple[str, float, float, str], list[str]] = {}
+        #: what a page that a part runs onto belongs to ("Column C/3-G, continued"), printed
+        #: at its top by ``header``: a heading or warning carried over never stands unnamed
+        self.continued = ""
         fonts = ASSETS / "fonts"
         self.add_font(FONT, "", str(fonts / "DejaVuSans.ttf"))
         self.add_font(FONT, "B", str(fonts / "DejaVuSans-Bold.ttf"))
+        for f in self.fonts.values():
+            _encode_once(f)
         self.set_margins(16, 20, 16)
         # room for the two-line footer: text must never run under it
         self.set_auto_page_break(True, margin=18)
@@ -180,8 +220,13 @@ class ReportPDF(FPDF):
         self.set_line_width(0.2)
         self.line(self.l_margin, 15.5, self.w - self.r_margin, 15.5)
         self.set_text_color(*INK)
-        self.set_font(FONT, "", BODY_PT)
         self.set_y(self.t_margin)
+        if self.continued:
+            self.set_font(FONT, "B", 8)
+            self.lines_at(self.l_margin, self.t_margin, self.wrap(self.continued, self.epw)[:1],
+                          8 * PT_MM * 1.18)
+            self.set_y(self.t_margin + 8 * PT_MM * 1.18 + 0.8)
+        self.set_font(FONT, "", BODY_PT)
 
     def footer(self) -> None:
         """The caution and ``page x of y`` on every page, drawn last so nothing covers it."""
@@ -359,12 +404,14 @@ class ReportPDF(FPDF):
         """A long table flowed in two columns down the page, as a newspaper does: the space
         left on this page first (left column, then right), then the next page; the last part
         is balanced between the two columns. ``continued`` heads each further page (e.g.
-        "Calculation trace of C/3-G, continued"), so rows carried over say what they belong to.
+        "Calculation trace of C/3-G, continued"), so rows carried over say what they belong to;
+        the page's own ``continued`` line is back as it was once the table ends.
 
         Example: ``pdf.table_flow(["Symbol", "Value", "What"], rows, (1, 1, 4), size=6)``.
         """
         half = (self.epw - gap) / 2
         hs = self.row_heights(rows, widths, size=size, width=half)
+        outer, self.continued = self.continued, continued or self.continued
         head = self.row_heights([headings], widths, size=size, width=half, style="B")[0]
         i, n = 0, len(rows)
         fresh = False  # a page just begun for these rows: rows taller than it go on anyway
@@ -408,9 +455,7 @@ class ReportPDF(FPDF):
             i = end
             if i < n:
                 self.add_page()
-                if continued:
-                    self.write_block(continued, size=8, bold=True)
-                    self.ln(0.8)
+        self.continued = outer
 
     def wrap_cell(self, text: str, width: float, style: str, size: float) -> list[str]:
         """A cell's text wrapped to its width less the padding, in ``style`` and ``size``

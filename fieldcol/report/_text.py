@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import json
 import math
+import re
 from typing import Any
 
 from fieldcol.assess import MODE_WORDS as _MODE_WORDS
@@ -177,7 +178,7 @@ def section_text(section: Any) -> str:
     shape = {"i": "I section", "rect": "rectangular hollow section",
              "round": "round hollow section"}.get(str(section.get("shape")), "section")
     if isinstance(section.get("built"), dict):
-        return "built-up section: " + value_text(section["built"])
+        return built_text(section["built"])
     head = str(section["name"]) if section.get("name") else f"measured {shape}"
     dims = [f"{k} {value_text(v)}" for k, v in section.items()
             if k not in ("name", "shape", "loss", "plates", "welded")]
@@ -186,16 +187,169 @@ def section_text(section: Any) -> str:
     parts = [head + (": " + ", ".join(dims) if dims else "")]
     loss = section.get("loss")
     if isinstance(loss, dict):
-        if "uniform" in loss:
-            parts.append(f"section loss {value_text(loss['uniform'])} per exposed face")
-        rest = {k: x for k, x in loss.items() if k != "uniform"}
-        if rest:
-            parts.append("remaining thickness measured: " + ", ".join(
-                f"{k} {value_text(x)}" for k, x in rest.items()))
+        parts += loss_text(loss)
     plates = section.get("plates")
     if isinstance(plates, dict):
-        parts.append("cover plates on both flanges: " + value_text(plates))
+        parts.append(plates_text(plates))
     return "; ".join(parts)
+
+
+def loss_text(loss: dict[str, Any]) -> list[str]:
+    """A section loss in words: how much, where up the column, and any open holes there.
+
+    Example: ``loss_text({"uniform": "1 mm", "from": "0 mm", "to": "300 mm"})`` gives
+    ``['section loss 1 mm per exposed face, from 0 mm to 300 mm above the base']``.
+    """
+    where = ""
+    if "from" in loss or "to" in loss:
+        where = (f", from {value_text(loss.get('from', 'the base'))} to "
+                 f"{value_text(loss.get('to', 'the top'))} above the base")
+    else:
+        where = " over the full length"
+    parts = []
+    if "uniform" in loss:
+        parts.append(f"section loss {value_text(loss['uniform'])} per exposed face")
+    measured = {k: x for k, x in loss.items() if k not in ("uniform", "from", "to", "holes")}
+    if measured:
+        parts.append("remaining thickness measured: " + ", ".join(
+            f"{k} {value_text(x)}" for k, x in measured.items()))
+    if parts:
+        parts[-1] += where
+    holes = loss.get("holes")
+    if isinstance(holes, dict) and holes:
+        parts.append("open holes at one height in that band, width lost: " + ", ".join(
+            f"{'each flange' if k == 'flange' else 'one wall' if k == 'wall' else k} "
+            f"{value_text(x)}" for k, x in holes.items()))
+    elif holes is not None:
+        parts.append(f"open holes {value_text(holes)}")
+    return parts
+
+
+def _holes_text(holes: Any, fasteners: str) -> str:
+    if not isinstance(holes, dict):
+        return f"{fasteners} holes {value_text(holes)}"
+    n, dia = holes.get("per_flange"), holes.get("diameter")
+    rest = {k: x for k, x in holes.items() if k not in ("per_flange", "diameter")}
+    text = (f"{value_text(n) if n is not None else 'the'} {fasteners} hole"
+            f"{'' if n in (1, '1') else 's'} of {value_text(dia)} across each flange")
+    return text + (f" ({value_text(rest)})" if rest else "")
+
+
+def plates_text(plates: dict[str, Any]) -> str:
+    """Cover plates in words.
+
+    Example: ``plates_text({"width": "10 in", "thickness": "1/2 in"})`` gives
+    ``'cover plates 10 in x 1/2 in on both flanges'``.
+    """
+    conn = plates.get("connection")
+    fasteners = "bolt" if conn == "bolted" else "rivet"
+    text = (f"cover plates {value_text(plates.get('width'))} x "
+            f"{value_text(plates.get('thickness'))} on both flanges")
+    if conn:
+        text += f", {value_text(conn)}"
+    if "pitch" in plates:
+        text += f", {fasteners}s at {value_text(plates['pitch'])} pitch"
+    if "holes" in plates:
+        text += ", " + _holes_text(plates["holes"], fasteners)
+    rest = {k: x for k, x in plates.items()
+            if k not in ("width", "thickness", "connection", "pitch", "holes")}
+    return text + (f" ({value_text(rest)})" if rest else "")
+
+
+def _parts(count: str, part: Any, kind: str) -> str:
+    """``two C12X20.7 channels``, or ``four angles (measured: d 90 mm, ...)``."""
+    if isinstance(part, dict):
+        return f"{count} {kind}s (measured: {value_text(part)})"
+    return f"{count} {value_text(part)} {kind}s"
+
+
+def _tie_fasteners(f: Any, fasteners: str) -> str:
+    if not isinstance(f, dict):
+        return f"{fasteners}s {value_text(f)}"
+    n = f.get("count")
+    text = (f"{value_text(n) if n is not None else 'the'} {fasteners}"
+            f"{'' if n in (1, '1') else 's'} of {value_text(f.get('diameter'))} at each end")
+    rest = {k: x for k, x in f.items() if k not in ("count", "diameter")}
+    return text + (f" ({value_text(rest)})" if rest else "")
+
+
+_LACING = {"single": "single lacing", "double": "double lacing",
+           "posts": "lacing with posts"}
+
+
+def built_text(built: dict[str, Any]) -> str:
+    """A built-up section in the words of the trade: its parts, how they are arranged and
+    tied, and how they are joined.
+
+    Example: ``built_text({"arrangement": "channels", "channel": "C12X20.7", "gap": "6 in",
+    "toes": "out", "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in"}})``
+    gives ``'built-up: two C12X20.7 channels, toes out, 6 in clear between them; battens 8 in
+    deep x 3/8 in at 24 in centres'``.
+    """
+    arr = built.get("arrangement")
+    conn = built.get("connection")
+    fasteners = "bolt" if conn == "bolted" else "rivet"
+    used = {"arrangement", "connection", "angle", "channel", "web", "flange_plates", "long_leg",
+            "pitch", "gap", "toes", "plates", "depth", "width", "lacing", "battens", "holes"}
+    if arr == "channels":
+        head = (_parts("two", built.get("channel"), "channel")
+                + (f", toes {value_text(built['toes'])}" if "toes" in built else "")
+                + (f", {value_text(built['gap'])} clear between them" if "gap" in built else ""))
+    elif arr == "angles-web":
+        web = built.get("web")
+        head = (_parts("four", built.get("angle"), "angle") + " on a web plate "
+                + (f"{value_text(web.get('depth'))} x {value_text(web.get('thickness'))}"
+                   if isinstance(web, dict) else value_text(web)))
+        if "long_leg" in built:
+            head += f", long legs to the {value_text(built['long_leg'])}"
+        fp = built.get("flange_plates")
+        if isinstance(fp, dict):
+            head += (f", flange plates {value_text(fp.get('width'))} x "
+                     f"{value_text(fp.get('thickness'))}")
+    elif arr == "angles-box":
+        head = (_parts("four", built.get("angle"), "angle") + " at the corners of a box "
+                f"{value_text(built.get('depth'))} deep x {value_text(built.get('width'))} wide")
+    elif arr == "angles-star":
+        head = (_parts("four", built.get("angle"), "angle") + " heel to heel in a cross"
+                + (f", on {value_text(built['gap'])} packings" if "gap" in built else "")
+                + (f" at {value_text(built['pitch'])} pitch" if "pitch" in built else ""))
+    else:
+        return "built-up section: " + value_text(built)
+    parts = [head]
+    lacing = built.get("lacing")
+    if isinstance(lacing, dict):
+        text = (f"{_LACING.get(str(lacing.get('kind')), value_text(lacing.get('kind')))} "
+                f"of {value_text(lacing.get('width'))} x {value_text(lacing.get('thickness'))} "
+                f"bars at {value_text(lacing.get('pitch'))} pitch")
+        if "planes" in lacing:
+            text += f", {value_text(lacing['planes'])} planes"
+        if "fasteners" in lacing:
+            text += ", " + _tie_fasteners(lacing["fasteners"], fasteners)
+        parts.append(text)
+    battens = built.get("battens")
+    if isinstance(battens, dict):
+        text = (f"battens {value_text(battens.get('depth'))} deep x "
+                f"{value_text(battens.get('thickness'))} at {value_text(battens.get('spacing'))}"
+                " centres")
+        if "planes" in battens:
+            text += f", {value_text(battens['planes'])} planes"
+        if "fasteners" in battens:
+            text += ", " + _tie_fasteners(battens["fasteners"], fasteners)
+        parts.append(text)
+    if "pitch" in built and arr != "angles-star":
+        parts.append(f"stitch {fasteners}s at {value_text(built['pitch'])} pitch")
+    plates = built.get("plates")
+    if isinstance(plates, dict):
+        parts.append(f"boxed by cover plates {value_text(plates.get('width'))} x "
+                     f"{value_text(plates.get('thickness'))}")
+    if conn:
+        parts.append(str(value_text(conn)))
+    if "holes" in built:
+        parts.append(_holes_text(built["holes"], fasteners))
+    rest = {k: x for k, x in built.items() if k not in used}
+    if rest:
+        parts.append(value_text(rest))
+    return "built-up: " + "; ".join(parts)
 
 
 def material_text(material: Any) -> str:
@@ -317,3 +471,70 @@ def condition_text(condition: Any) -> str:
     parts += [f"{k.replace('_', ' ')} {value_text(v)}" for k, v in condition.items()
               if k not in ("bow", "bow_axis", "plumb")]
     return "; ".join(parts)
+
+
+# a length or stress the engine wrote into a step's words in its own units ("356 x 9.5 mm",
+# "2 rivets of 15.9 mm", "Fu 414 MPa"): a number not glued to a symbol, a power or a ratio
+_MM = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?)(?:( x | to )(\d+(?:\.\d+)?))? mm\b(?![\^\w])")
+_MPA = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?) MPa\b")
+_KSI = 6.894757293168361  # MPa per ksi (NIST SP 811)
+
+
+def _inches(number: str) -> str:
+    """``number`` mm in inches: to the sixteenth where the millimetres, as rounded, are one,
+    else in decimals (``"9.5"`` gives ``'3/8'``, ``"12.2"`` gives ``'0.48'``, ``"2"`` gives
+    ``'0.0787'``)."""
+    mm = float(number)
+    places = len(number.partition(".")[2])
+    sixteenths = round(mm / 25.4 * 16)
+    # within the rounding of the millimetres as written, and within 2 % (2 mm is no 1/16 in)
+    if sixteenths and abs(sixteenths * 25.4 / 16 - mm) <= min(0.5 * 10 ** -places,
+                                                             0.02 * mm) + 1e-9:
+        whole, part = divmod(sixteenths, 16)
+        if not part:
+            return str(whole)
+        g = math.gcd(part, 16)
+        frac = f"{part // g}/{16 // g}"
+        return f"{whole} {frac}" if whole else frac
+    return f"{mm / 25.4:.3g}"
+
+
+def us_words(text: str) -> str:
+    """A step's words with the lengths and stresses the engine wrote in mm and MPa shown in
+    inches and ksi, for a US site.
+
+    Example: ``us_words("a web plate 356 x 9.5 mm, Fu 414 MPa")`` gives
+    ``'a web plate 14 x 3/8 in, Fu 60 ksi'``.
+    """
+    if "mm" not in text and "MPa" not in text:
+        return text
+
+    def length(m: re.Match) -> str:
+        first = _inches(m.group(1))
+        if m.group(2):
+            return f"{first}{m.group(2)}{_inches(m.group(3))} in"
+        return f"{first} in"
+
+    text = _MM.sub(length, text)
+    return _MPA.sub(lambda m: f"{float(m.group(1)) / _KSI:.3g} ksi", text)
+
+
+def built_label(built: dict[str, Any]) -> str:
+    """A built-up section in a few words, for the register: its parts, how many, how tied.
+
+    Example: ``built_label({"arrangement": "channels", "channel": "C12X20.7",
+    "battens": {"spacing": "24 in"}})`` gives ``'2 C12X20.7 channels, battened'``.
+    """
+    arr = built.get("arrangement")
+    part = built.get("channel" if arr == "channels" else "angle")
+    name = "measured" if isinstance(part, dict) else value_text(part)
+    tie = ("laced" if "lacing" in built else "battened" if "battens" in built
+           else "boxed by plates" if "plates" in built
+           else "stitched" if "pitch" in built and arr == "channels" else "")
+    head = {"channels": f"2 {name} channels",
+            "angles-web": f"4 {name} angles on a web plate",
+            "angles-box": f"4 {name} angles, boxed",
+            "angles-star": f"4 {name} angles in a cross"}.get(str(arr))
+    if head is None:
+        return f"built-up {value_text(arr)}"
+    return head + (f", {tie}" if tie else "")

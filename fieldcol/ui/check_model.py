@@ -37,7 +37,9 @@ _SUFFIX = {"aisc360-22": {"flexural-strong": "x", "flexural-weak": "y", "torsion
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
 _STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
                "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle",
+               # checks saved before the built-up batten moment was written in N*mm
+               "N mm": "moment"}
 
 
 @dataclass(frozen=True)
@@ -141,7 +143,14 @@ def _yes_no(v: Any) -> str:
     return "yes" if v in (1, 1.0, True, "True") else "no" if v in (0, 0.0, False, "False") else str(v)
 
 
-def _design_symbol(code: str, basis: str) -> str:
+def design_symbol(code: str, basis: str) -> str:
+    """The symbol of the design strength as the code writes it (the Check tab's result line
+    and the report's table of modes).
+
+    Example:
+        >>> design_symbol("aisc360-22", "lrfd"), design_symbol("en1993-1-1", "en")
+        ('φPn', 'N_b,Rd')
+    """
     if code == "en1993-1-1":
         return "N_b,Rd"
     if code == "elastic":
@@ -151,6 +160,19 @@ def _design_symbol(code: str, basis: str) -> str:
 
 def _demand_symbol(code: str) -> str:
     return "N_Ed" if code == "en1993-1-1" else ("P" if code == "elastic" else "Pr")
+
+
+def _trace_symbol(step: Mapping[str, Any], code: str) -> str:
+    """A step's symbol as the code writes it; a utilization other than the axial one (with the
+    bow, the moments, the loss band, the knowledge factor) keeps the plain ``U``: EN's
+    ``N_Ed / N_b,Rd`` beside an interaction ratio would name a division that is not the one
+    made."""
+    from fieldcol.trace import display_symbol
+
+    symbol = str(step.get("symbol", ""))
+    if symbol == "U" and not str(step.get("what", "")).startswith("utilization, axial"):
+        return "U"
+    return display_symbol(symbol, code)
 
 
 def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") -> CheckSummary:
@@ -185,7 +207,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     axial_design = _val(result.get("axial_design_strength"))
     factor = (axial_design / nominal) if axial_design and nominal else 1.0
     demand = _val(result.get("demand"))
-    dsym, psym = _design_symbol(code, basis), _demand_symbol(code)
+    dsym, psym = design_symbol(code, basis), _demand_symbol(code)
     if demand is not None:
         line = (f"{psym} {_fmt(demand, 'force', system)} / {dsym} {_fmt(design, 'force', system)}"
                 f" = {util:.2f}" if util is not None and math.isfinite(util)
@@ -230,7 +252,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     governs, why = _why(result, gov, code, system)
     warnings = [str(w.get("message", w)) if isinstance(w, dict) else str(w)
                 for w in result.get("warnings") or []]
-    trace = [TraceLine(display_symbol(str(s.get("symbol", "")), code),
+    trace = [TraceLine(_trace_symbol(s, code),
                        _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
                        or str(s.get("symbol", "")).startswith("slender")
                        else _step_text(s.get("value"), str(s.get("unit", "")), system),

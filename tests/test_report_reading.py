@@ -1,0 +1,505 @@
+"""The site report read as the checking engineer reads it, page by page: every page says whose it
+is, no word or symbol is cut inside a cell, what governs is marked in the table of modes, the
+record reads in words.
+
+Outside references: pypdf (a general-purpose PDF library from PyPI) reads the file back as any
+reader would; EN 1993-1-1 (2005) 6.3.1.2 and 6.3.1.3 for the symbols of flexural buckling
+(L_cr, λ-bar, χ, N_b,Rd) and AISC 360-22 E3 for theirs (Lc, Lc/r, Fcr, Pn, φPn).
+"""
+
+from __future__ import annotations
+
+import csv
+import re
+from pathlib import Path
+
+import pypdf
+import pytest
+
+from fieldcol.assess import assess
+from fieldcol.demo import SITE_NAME, build_demo
+from fieldcol.report import site_report
+from fieldcol.store import Store
+
+PARTS = ("Contents", "Column register", "Findings register", "Photographs")
+#: a part's own heading, told from the same words in a sentence by what follows it
+PART_HEAD = re.compile(r"(Column register) Tag |(Findings register) (?:Ref |No findings)"
+                       r"|(Photographs) P1 ")
+SHEET = re.compile(r"Column (\S+) +(?:\d\.\d{3} (?:OK|OVER)|not checked|not covered|no demand)"
+                   r" Level ")
+
+
+def _flat(text: str) -> str:
+    # pypdf breaks wrapped lines where the PDF does; compare with whitespace collapsed
+    return re.sub(r"\s+", " ", text).strip()
+
+
+def _pages(path: Path) -> list[str]:
+    return [_flat(p.extract_text()) for p in pypdf.PdfReader(path).pages]
+
+
+@pytest.fixture(scope="module")
+def demo(tmp_path_factory):
+    """The demo site's report, pages as text."""
+    root = tmp_path_factory.mktemp("reading")
+    with Store(root / "demo.db") as store:
+        build_demo(store)
+        out = site_report(store, store.site_by_name(SITE_NAME).id, root / "demo.pdf",
+                          report_date="2026-03-10")
+    return _pages(out)
+
+
+def _checked(store: Store, site, rec: dict) -> None:
+    col = store.add_column(site.id, rec)
+    r = store.current_record(col.id)
+    store.save_check(col.id, assess(r).to_dict(), record=r)
+
+
+PINNED = {"bottom": "pinned", "top": "pinned"}
+
+
+@pytest.fixture(scope="module")
+def mixed(mixed_files):
+    return mixed_files[0]
+
+
+@pytest.fixture(scope="module")
+def mixed_files(tmp_path_factory):
+    """An EN 1993-1-1 site (SI) with a rolled column, a laced and a battened pair of channels
+    (one under a moment), and a column with a loss band with open holes under end moments;
+    its report's pages as text and the rows of the CSV register beside it."""
+    root = tmp_path_factory.mktemp("mixed")
+    base = {"material": "S355", "length": "4.5 m", "code": "en1993-1-1",
+            "restraints": {"strong": PINNED, "weak": PINNED}}
+    with Store(root / "en.db") as store:
+        site = store.add_site("Harbour Shed 3", code="en1993-1-1", unit_system="si")
+        _checked(store, site, {"tag": "K1", "section": "HE 300 B", **base,
+                               "demand": {"axial": "1500 kN"}})
+        _checked(store, site, {"tag": "K4", "section": {"built": {
+            "arrangement": "channels", "channel": "UPN 200", "gap": "150 mm", "toes": "out",
+            "lacing": {"kind": "single", "width": "40 mm", "thickness": "8 mm",
+                       "pitch": "400 mm", "fasteners": {"count": 1, "diameter": "16 mm"}},
+            "connection": "riveted"}}, **base, "demand": {"axial": "900 kN"}})
+        _checked(store, site, {"tag": "K5", "section": {"built": {
+            "arrangement": "channels", "channel": "UPN 200", "gap": "150 mm", "toes": "out",
+            "battens": {"spacing": "600 mm", "depth": "150 mm", "thickness": "10 mm"},
+            "connection": "welded"}}, **base, "length": "6 m",
+            "demand": {"axial": "900 kN", "moments": {"strong": "30 kN*m"}}})
+        _checked(store, site, {"tag": "K6", "section": {"name": "HE 200 A", "loss": {
+            "uniform": "1 mm", "from": "0 mm", "to": "300 mm",
+            "holes": {"flange": "20 mm", "web": "30 mm"}}}, **base,
+            "demand": {"axial": "600 kN", "end_moments": {"strong": {
+                "top": "40 kN*m", "bottom": "10 kN*m", "curvature": "single"}}}})
+        out = site_report(store, site.id, root / "en.pdf", report_date="2026-04-01")
+    rows = list(csv.reader(out.with_suffix(".csv").read_text(encoding="utf-8-sig")
+                           .splitlines()))
+    return _pages(out), rows
+
+
+def _body(page: str) -> str:
+    """A page's text after its header (site name, report date)."""
+    return page.split(" report date ", 1)[1].split(" ", 1)[1]
+
+
+@pytest.mark.parametrize("which", ["demo", "mixed", "big"])
+def test_every_page_says_whose_it_is(which, request):
+    """A page a column's sheet (or a register) runs onto opens with the column's tag (or the
+    register's name): a trace, a warning or a table carried over is never left unnamed."""
+    pages = request.getfixturevalue(which)
+    tag = part = None
+    for i, page in enumerate(pages[1:], start=2):
+        if "Contents Column register" in page or "Contents, continued" in page:
+            continue  # drawn last, after its footer: its text comes out in another order
+        body = _body(page)
+        head = SHEET.match(body)
+        if head or any(body.startswith(p) for p in PARTS):
+            pass
+        elif tag is not None and part is None:
+            assert (body.startswith(f"Column {tag}, continued")
+                    or body.startswith(f"Calculation trace of column {tag}, continued")), \
+                (i, body[:80])
+        else:
+            assert part is not None and body.startswith(f"{part}, continued"), (i, body[:80])
+        # what the next page continues: the last part or sheet begun on this one
+        starts = [(m.start(), None, m.group(1)) for m in SHEET.finditer(body)]
+        starts += [(m.start(), next(g for g in m.groups() if g), None)
+                   for m in PART_HEAD.finditer(body)]
+        if starts:
+            _, part, tag = max(starts)
+
+
+@pytest.mark.parametrize("symbol", ["slender,flange", "slender,web", "Pn,yield"])
+def test_trace_symbols_are_never_cut_inside_a_word_aisc(demo, symbol):
+    # AISC 360-22 Table B4.1a's flange and web limits, E3's yield strength, as the trace names them
+    text = " ".join(demo)
+    assert f" {symbol} " in text
+
+
+@pytest.mark.parametrize("symbol", ["class,flange", "class,web", "λ-bar_z ≤ 0.2", "N_Ed / N_b,Rd"])
+def test_trace_symbols_are_never_cut_inside_a_word_en(mixed, symbol):
+    # EN 1993-1-1 Table 5.2 (classes) and 6.3.1.2 (4) (buckling ignored below λ-bar 0.2)
+    text = " ".join(mixed)
+    assert f" {symbol} " in text
+
+
+def test_the_governing_mode_in_the_trace_is_in_words(demo, mixed):
+    text = " ".join(demo + mixed)
+    assert "governing mode (argmin): flexural buckling, weak axis" in text
+    # the engine's key of a mode is not a word a reader uses (nor cut as "flexural-wea k")
+    assert not re.search(r" mode (?:flexural-|beam-|section-|tie-|torsional gov|yield gov)", text)
+
+
+def _sheet(pages: list[str], tag: str) -> str:
+    """A column's sheet: from its heading to the next sheet's heading (or the end)."""
+    text = " ".join(pages)
+    start = next(m.start() for m in SHEET.finditer(text) if m.group(1) == tag)
+    nxt = SHEET.search(text, start + 1)
+    return text[start:nxt.start() if nxt else len(text)]
+
+
+@pytest.mark.parametrize("tag, governs", [
+    ("K1", "flexural buckling, weak axis (governs)"),
+    ("K5", "axial force with bending (beam-column interaction), 6.62 (governs)"),
+    ("K6", "the section where steel was lost (loss band), 6.2.1 (7) (band) (governs)")])
+def test_the_table_of_modes_says_which_governs(mixed, tag, governs):
+    """Moments or a loss band that govern stand in the table of modes beside the axial modes,
+    with their design strength; the one that governs says so in words (bold alone is lost on a
+    grey photocopy). EN 1993-1-1 6.3.3 (6.62) and 6.2.1 (7) are the equations named."""
+    sheet = _sheet(mixed, tag)
+    table = sheet[sheet.index("Every mode"):sheet.index("Calculation trace")]
+    assert table.count("(governs)") == 1, table
+    assert governs in table
+    # the row's design strength is the one printed as the column's design strength
+    design = re.search(r"Design strength (\S+ kN)", sheet).group(1)
+    row = table[table.index(governs) + len(governs):]
+    if tag == "K1":  # length, slenderness, stress, nominal, then the design strength
+        assert re.match(r" 4500 mm [\d.]+ [\d.]+ MPa \d+ kN " + re.escape(design), row), row
+    else:
+        assert row.startswith(" - - - - " + design), row
+
+
+def test_the_table_of_modes_names_the_codes_symbols(demo, mixed):
+    # AISC 360-22 E3: Lc, Lc/r, Fcr, Pn and φPn (LRFD); EN 1993-1-1 6.3.1: L_cr, λ-bar, χ, N_b,Rd
+    us = _sheet(demo, "C/3-G")
+    assert ("Mode Eff. length Lc Slenderness Lc/r Crit. stress Fcr Nominal Pn Design φPn"
+            in us), us[:1500]
+    en = _sheet(mixed, "K1")
+    assert ("Mode Eff. length L_cr Slenderness λ-bar Crit. stress χ f_y Nominal χ A f_y "
+            "Design N_b,Rd" in en), en[:1500]
+
+
+def test_a_design_strength_below_the_axial_one_says_why(mixed):
+    # with the moments the capacity is the largest axial force the interaction allows (every
+    # moment in proportion): the axial strength alone is printed beside it
+    k5 = _sheet(mixed, "K5")
+    got = re.search(r"Design strength (\S+) kN with the moments \(axial force alone (\S+) kN, "
+                    r"nominal (\S+) kN\)", k5)
+    assert got, k5[:1200]
+    assert float(got.group(1)) < float(got.group(2))
+    k6 = _sheet(mixed, "K6")
+    assert re.search(r"Design strength \S+ kN at the loss band \(axial force alone \S+ kN", k6)
+
+
+def test_a_built_up_section_reads_in_the_words_of_the_trade(mixed):
+    k4 = _sheet(mixed, "K4")
+    assert ("Section built-up: two UPN 200 channels, toes out, 150 mm clear between them; "
+            "single lacing of 40 mm x 8 mm bars at 400 mm pitch, 1 rivet of 16 mm at each end; "
+            "riveted Material" in k4), k4[:600]
+    k5 = _sheet(mixed, "K5")
+    assert "battens 150 mm deep x 10 mm at 600 mm centres; welded" in k5
+    for key in ("arrangement", "kind single", "count 1"):
+        assert key not in k4 + k5, key  # the record's keys are not words a reader uses
+
+
+def test_a_loss_band_says_where_it_is_and_its_holes_apart_from_the_thickness(mixed):
+    k6 = _sheet(mixed, "K6")
+    assert ("HE 200 A; section loss 1 mm per exposed face, from 0 mm to 300 mm above the base; "
+            "open holes at one height in that band, width lost: each flange 20 mm, web 30 mm"
+            in k6), k6[:600]
+    assert "remaining thickness measured: from" not in k6
+
+
+def test_small_words_read_as_a_person_writes_them(demo, mixed):
+    text = " ".join(demo)
+    a1 = _sheet(demo, "A/1-G")
+    assert "Strong axis bottom pinned; top pinned; no braces recorded" in a1
+    assert "Weak axis bottom pinned; top pinned; no braces recorded" in a1
+    assert "braces none recorded" not in text
+    # a finding's category of the trade stays whole in its cell (was "housekeepi ng")
+    assert re.search(r"F9 info closed whole site housekeeping Debris", text)
+    assert "photographer not recorded" in text and "by: not recorded" not in text
+    # a sentence run on after a colon goes on in lower case
+    assert "Governing mode flexural buckling, weak axis: its buckling length 16'-0\"" in a1
+    # EN 1993-1-1 has no LRFD/ASD basis: the partial factor gamma_M1 (6.1 (1)) stands there
+    k1 = _sheet(mixed, "K1")
+    assert re.search(r"Code EN 1993-1-1:2005\+A1:2014, γ_M1 = 1, K basis recommended", k1), \
+        k1[:900]
+    assert ", EN, K basis" not in " ".join(mixed)
+
+
+def test_a_batten_moment_is_in_the_sites_units(mixed):
+    # EN 1993-1-1 6.4.3.1 (2), Fig. 6.11: the moment in a batten, V_Ed a / (2 n), in kN*m on an
+    # SI site like every other moment (was "2.688e+06 N mm")
+    k5 = _sheet(mixed, "K5")
+    assert re.search(r"M_b,Ed,y [\d.]+ kN\*m moment in one batten", k5), k5
+    assert "e+" not in " ".join(mixed)
+
+
+def test_an_interaction_utilization_is_not_named_as_an_axial_ratio(mixed):
+    # EN 1993-1-1 6.3.1.1 (6.46): N_Ed / N_b,Rd is the axial ratio alone; the ratio of the
+    # interaction (6.62) or of the loss band's section is another number, named U here
+    k6 = _sheet(mixed, "K6")
+    assert re.search(r"N_Ed / N_b,Rd 0\.7\d+ utilization, axial", k6), k6[-1500:]
+    assert re.search(r"U 0\.9\d+ utilization with bending", k6)
+    assert re.search(r"U 1\.09\d utilization in the loss band", k6)
+    assert not re.search(r"N_Ed / N_b,Rd [\d.]+ utilization (?:with|in)", k6)
+
+
+@pytest.mark.parametrize("which", ["demo", "mixed"])
+def test_a_sheets_record_check_and_modes_stay_on_its_first_page(which, request):
+    """The record, the latest check and the whole table of modes stand on the page of the
+    sheet's heading, beside its pictures: a table of modes cut in two, its last rows on the
+    next page, read badly."""
+    pages = request.getfixturevalue(which)
+    for i, page in enumerate(pages):
+        heads = list(SHEET.finditer(page))
+        for k, m in enumerate(heads):
+            end = heads[k + 1].start() if k + 1 < len(heads) else len(page)
+            sheet = page[m.start():end]
+            if "not checked" in sheet[:40]:
+                continue
+            # the table's last axial row (yield) is on the page of the heading
+            assert "yielding (squash load)" in sheet, (i + 1, m.group(1))
+
+
+def test_the_csv_register_says_what_the_pdfs_register_says(mixed_files):
+    """Row for row, the spreadsheet beside the report holds the cells the PDF's register
+    prints; a level or grid not recorded is "-" in both (a lone hyphen is no formula: it
+    needs no guard, and an apostrophe before it showed in the spreadsheet)."""
+    pages, rows = mixed_files
+    text = " ".join(pages)
+    register = text[text.index("Column register Tag"):]
+    register = register[:register.index("Findings register")]
+    assert rows[0] == ["Tag", "Level", "Grid", "Section", "Governing mode", "Utilization",
+                       "Status", "Checked"]
+    assert len(rows) == 1 + 4 + 1
+    for row in rows[1:-1]:
+        assert row[1:3] == ["-", "-"], row
+        assert " ".join(row) in register, row
+
+
+@pytest.fixture(scope="module")
+def big(tmp_path_factory):
+    """A site of 170 columns not yet checked: more column sheets than the first contents page
+    holds (three across), a register over several pages; its report's pages as text."""
+    root = tmp_path_factory.mktemp("big")
+    with Store(root / "big.db") as store:
+        site = store.add_site("Long Quay Sheds", code="aisc360-22", unit_system="us")
+        for i in range(170):
+            store.add_column(site.id, {"tag": f"Q{i:03d}", "section": "W10X49",
+                                       "material": "A992", "length": "12 ft"})
+        out = site_report(store, site.id, root / "big.pdf", report_date="2026-04-01")
+    return _pages(out)
+
+
+def test_a_second_contents_page_says_what_it_is_and_its_pages_are_right(big):
+    pages = big
+    assert "Contents" in pages[1] and "Contents, continued Q" in pages[2], pages[2][:300]
+    listed = re.findall(r"(Q\d{3}) (\d+)", pages[1] + " " + pages[2])
+    assert len(listed) == 170
+    for tag, page in listed:
+        assert re.search(rf"Column {tag} +not checked", pages[int(page) - 1]), (tag, page)
+
+
+def test_a_radius_of_gyration_in_the_trace_gives_back_its_slenderness(demo):
+    """C/1-G is a welded I measured on site: d 16 in, bf 12 in, tf 3/4 in, tw 1/2 in. By hand
+    (rectangles, common practice): A = 2 x 12 x 0.75 + 14.5 x 0.5 = 25.25 in2,
+    Iy = 2 x 0.75 x 12^3 / 12 + 14.5 x 0.5^3 / 12 = 216.15 in4, ry = sqrt(Iy / A) = 2.926 in;
+    Lc / ry = 216 / 2.926 = 73.8 (AISC 360-22 E3). To the nearest 1/16 in (2 15/16") the
+    radius gave 73.5 back, not the 73.83 printed beside it."""
+    c1 = _sheet(demo, "C/1-G")
+    ry = float(re.search(r" ry ([\d.]+) in radius of gyration", c1).group(1))
+    assert ry == pytest.approx((216.15 / 25.25) ** 0.5, abs=0.0006)
+    slenderness = float(re.search(r" Lc/r,y ([\d.]+) slenderness", c1).group(1))
+    assert 18 * 12 / ry == pytest.approx(slenderness, rel=2e-4)
+
+
+def _runs(path: Path, page: int) -> list[tuple[str, float, float, float]]:
+    """The text runs of a page with where they start (pt) and their size."""
+    runs = []
+
+    def visit(text, cm, tm, font, size):
+        if text.strip():
+            runs.append((text.strip(), tm[4], tm[5], size))
+
+    pypdf.PdfReader(path).pages[page].extract_text(visitor_text=visit)
+    return runs
+
+
+def test_a_point_of_the_column_curve_never_writes_over_the_axis_title(tmp_path: Path):
+    """A square tube (HSS6X6X3/8, 12 ft long) has its torsional point (reported only for a
+    closed section, AISC 360-22 E4 user note) at a very low slenderness: at the top left of
+    the column curve, where its label was written over the "Fcr (ksi)" title of the axis."""
+    with Store(tmp_path / "t.db") as store:
+        site = store.add_site("Tube Yard", code="aisc360-22", unit_system="us")
+        _checked(store, site, {"tag": "E/1", "section": "HSS6X6X3/8", "material": "A500 Gr B",
+                               "length": "12 ft", "demand": {"axial": "150 kip"}})
+        out = site_report(store, site.id, tmp_path / "t.pdf", report_date="2026-04-01")
+    page = next(i for i, t in enumerate(_pages(out)) if "Column E/1 " in t)
+    runs = [r for r in _runs(out, page) if r[3] == 5.4]
+    title = next(r for r in runs if r[0] == "Fcr (ksi)")
+    labels = [r for r in runs if r[0].endswith(")") and r is not title
+              or r[0].endswith("governs")]
+    assert any(r[0].startswith("twist") for r in labels), labels
+
+    def box(r):  # DejaVu Sans: about 0.6 em a character, a line 1.2 em high (common practice)
+        return r[1], r[2], r[1] + 0.6 * r[3] * len(r[0]), r[2] + 1.2 * r[3]
+
+    x0, y0, x1, y1 = box(title)
+    for r in labels:
+        a0, b0, a1, b1 = box(r)
+        assert a1 <= x0 or x1 <= a0 or b1 <= y0 or y1 <= b0, (r, title)
+
+
+@pytest.mark.parametrize("which", ["mixed", "big"])
+def test_the_caution_and_page_x_of_y_on_every_page(which, request):
+    pages = request.getfixturevalue(which)
+    for i, t in enumerate(pages, start=1):
+        assert "an aid to, not a substitute for, the judgement of a licensed engineer; " \
+               "local codes govern" in t, i
+        assert f"page {i} of {len(pages)}" in t, i
+
+
+def test_a_us_sites_trace_speaks_inches_and_ksi(tmp_path: Path):
+    """The engine writes the parts of a built-up section and its fasteners in mm and MPa; a US
+    site's report reads them in inches and ksi, as they were measured (a 3/8 in plate is
+    9.525 mm, a 5/8 in rivet 15.875 mm: exact, 1 in = 25.4 mm; 414 MPa = 60 ksi, NIST SP 811)."""
+    with Store(tmp_path / "u.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        _checked(store, site, {"tag": "L3", "section": {"built": {
+            "arrangement": "channels", "channel": "C12X20.7", "gap": "6 in", "toes": "out",
+            "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in",
+                        "fasteners": {"count": 2, "diameter": "5/8 in"}},
+            "connection": "riveted"}}, "material": "A7", "length": "20 ft",
+            "demand": {"axial": "150 kip"}})
+        _checked(store, site, {"tag": "L4", "section": {"built": {
+            "arrangement": "angles-web", "angle": "L4X4X1/2",
+            "web": {"depth": "14 in", "thickness": "3/8 in"},
+            "flange_plates": {"width": "10 in", "thickness": "1/2 in"},
+            "connection": "riveted"}}, "material": "A7", "length": "18 ft",
+            "demand": {"axial": "300 kip"}})
+        out = site_report(store, site.id, tmp_path / "u.pdf", report_date="2026-04-01")
+    text = " ".join(_pages(out))
+    assert "riveted to a web plate 14 x 3/8 in, flange plates 10 x 1/2 in" in text
+    assert "toes out, 6 in apart" in text
+    assert "2 rivets of 5/8 in" in text
+    assert not re.search(r"\d MPa", text), re.search(r".{60}\d MPa.{20}", text)
+    assert not re.search(r"\d(?: x \d+(?:\.\d+)?)? mm (?:apart|packings|\[|,)", text)
+
+
+def test_a_utilization_set_by_an_interaction_says_so(mixed):
+    """Under moments the utilization is the ratio of the interaction equation (EN 1993-1-1
+    6.3.3 (6.62) here), not the demand over the design strength: 900 kN over the printed
+    design strength is another number, so the sheet says which it is."""
+    k5 = _sheet(mixed, "K5")
+    got = re.search(r"Utilization (\d\.\d{3}) OK: interaction ratio \(6\.62\)", k5)
+    assert got, k5[:1500]
+    design = float(re.search(r"Design strength (\d+) kN", k5).group(1))
+    assert abs(900 / design - float(got.group(1))) > 0.002  # truly another number
+    assert "it is the interaction ratio of the code's equation" in mixed[0]
+    k1 = _sheet(mixed, "K1")
+    assert re.search(r"Utilization \d\.\d{3} OK Governing mode", k1)
+
+
+def test_the_register_names_a_built_up_section_in_words(mixed_files):
+    pages, rows = mixed_files
+    sections = {r[0]: r[3] for r in rows[1:-1]}
+    assert sections["K4"] == "2 UPN 200 channels, laced"
+    assert sections["K5"] == "2 UPN 200 channels, battened"
+    assert sections["K1"] == "HE 300 B" and sections["K6"] == "HE 200 A with loss"
+
+
+def test_an_unchecked_column_names_its_code_and_a_finding_its_place_on_the_sheet(tmp_path):
+    with Store(tmp_path / "o.db") as store:
+        site = store.add_site("Old Mill Annex", code="aisc360-22", unit_system="us")
+        store.add_column(site.id, {"tag": "N2", "section": "W8X31", "material": "A36",
+                                   "length": "10 ft"})
+        col = store.add_column(site.id, {"tag": "N3", "section": "W12X65", "material": "A36",
+                                         "length": "14 ft"})
+        store.add_finding(site.id, "Web buckled locally near the splice", category="damage",
+                          severity="urgent", column_id=col.id, face="north", height="6 ft")
+        out = site_report(store, site.id, tmp_path / "o.pdf", report_date="2026-04-01")
+    pages = _pages(out)
+    n2 = _sheet(pages, "N2")
+    assert "Code AISC 360-22 (ANSI/AISC 360-22)" in n2 and "aisc360-22" not in n2
+    n3 = _sheet(pages, "N3")
+    # the sheet says where on the column, as the register does
+    assert "Web buckled locally near the splice (north face, 6'-0\" up, urgent, open)" in n3
+
+
+def test_the_heading_of_a_columns_findings_stays_with_its_first_finding(tmp_path: Path):
+    """Wherever a sheet leaves off, "Findings on this column" is never the last thing on a
+    page: a long first finding (a surveyor's full note) goes over with it."""
+    from fieldcol import CAUTION
+    from fieldcol.report._layout import ReportPDF
+    from fieldcol.report._pages import _column_findings
+
+    rows = [("F1", "Flange pitting over the lower third, deepest near the base plate; " * 12
+             + "(high, open)"), ("F2", "Paint failing (low, open)")]
+    for k in range(20):
+        pdf = ReportPDF(paper="Letter", site_name="Yard", report_date="2026-04-01",
+                        caution=CAUTION)
+        pdf.add_page()
+        # the last 40 mm of the page, 2 mm at a time
+        pdf.set_y(pdf.page_break_trigger - 40 + k * 2)
+        _column_findings(pdf, rows)
+        out = tmp_path / f"f{k}.pdf"
+        pdf.output(str(out))
+        pages = _pages(out)
+        at = next(t for t in pages if "Findings on this column" in t)
+        assert "Findings on this column F1 Flange pitting" in at, (k, at[-200:])
+
+
+def test_the_elastic_reference_tables_speak_as_its_trace(tmp_path: Path):
+    # the elastic reference check writes Fcr and Pn in its trace (Euler's load over the area,
+    # capped at Fy: common practice); its table of modes uses the same symbols
+    with Store(tmp_path / "e.db") as store:
+        site = store.add_site("Reference Yard", code="aisc360-22", unit_system="us")
+        _checked(store, site, {"tag": "R1", "section": "W10X49", "material": "A992",
+                               "length": "14 ft", "code": "elastic",
+                               "demand": {"axial": "100 kip"}})
+        out = site_report(store, site.id, tmp_path / "e.pdf", report_date="2026-04-01")
+    r1 = _sheet(_pages(out), "R1")
+    assert ("Eff. length Lc Slenderness Lc/r Crit. stress Fcr Nominal Pn Design Pn" in r1), \
+        r1[:1500]
+    assert " Fcr,y " in r1 and " Pn,y " in r1
+
+
+def test_a_text_written_again_reads_back_the_same(tmp_path: Path):
+    """The fonts keep each text's encoding into their subset (the report writes the same words
+    thousands of times); new characters met between two writings of a text must not change
+    what the first text reads as (pypdf reads each glyph back through the font's own map)."""
+    from fieldcol import CAUTION
+    from fieldcol.report._layout import ReportPDF
+
+    pdf = ReportPDF(paper="A4", site_name="Yard", report_date="2026-04-01", caution=CAUTION)
+    assert {type(f).__name__ for f in pdf.fonts.values()} == {"_KeptEncoding"}
+    pdf.add_page()
+    lines = ["Flange 0.48 in", "Ржавчина у основания", "Flange 0.48 in", "λ-bar_z ≤ 0.2 χ",
+             "Flange 0.48 in Ж"]
+    for i, line in enumerate(lines):
+        pdf.set_font("DejaVu", "B" if i % 2 else "", 9)
+        pdf.text(20, 30 + 8 * i, line)
+    pdf.output(str(tmp_path / "t.pdf"))
+    text = _flat(pypdf.PdfReader(tmp_path / "t.pdf").pages[0].extract_text())
+    assert " ".join(lines) in text, text
+
+
+def test_a_check_saved_with_the_old_batten_moment_unit_still_reads_in_site_units():
+    # checks saved before the batten moment's unit was N*mm carry "N mm": shown in kN*m
+    from fieldcol.ui.check_model import check_summary
+
+    summ = check_summary({"code": "en1993-1-1", "steps": [
+        {"symbol": "M_b,Ed,y", "what": "moment in one batten at the chord, y axis",
+         "formula": "V_Ed a / (2 n)", "value": 2.688e6, "unit": "N mm", "clause": ""}]}, "si")
+    assert summ.trace[0].value == "2.688 kN*m"
