@@ -130,6 +130,14 @@ def server(served, request):
     return served.for_test(request).base
 
 
+@pytest.fixture
+def server_db(served, request):
+    """(base URL, database path) of the demo site for this test (a module that reads the store
+    itself imports it as its ``server``)."""
+    s = served.for_test(request)
+    return s.base, s.db
+
+
 @pytest.fixture(scope="module")
 def browser():
     with sync_api.sync_playwright() as p:

@@ -24,26 +24,12 @@ from PIL import Image, ImageDraw
 
 from _browser import (  # noqa: F401  (browser is a fixture)
     SIZES, TIMEOUT, _box, _click, _find, _offline, _open, _poll, _sel, _shot, _tab,
-    _type_into, _wait, _words, Served, app_server, browser,
+    _type_into, _wait, _words, app_server, browser, served,
+    server_db as server,
 )
 from fieldcol.ui.palette import luminance
 
 SITE = "Kestrel Lane Print Works"
-
-
-@pytest.fixture(scope="module")
-def served(tmp_path_factory):
-    """The demo site served for this module (``Served``: afresh when a test runs again)."""
-    s = Served(tmp_path_factory.mktemp("list"))
-    yield s
-    s.close()
-
-
-@pytest.fixture
-def server(served, request):
-    """(base URL, database path) for this test."""
-    s = served.for_test(request)
-    return s.base, s.db
 
 
 def _rows(db: Path, sql: str, params=()):

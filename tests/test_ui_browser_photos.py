@@ -26,24 +26,10 @@ from PIL import Image, ImageDraw
 from _browser import (  # noqa: F401  (browser is a fixture)
     SIZES, TIMEOUT, _choose, _click, _find, _offline, _open, _open_column, _poll, _sel, _shot, _tab,
     _type_into,
-    _wait, _words, Served, app_server, browser,
+    _wait, _words, app_server, browser, served,
+    server_db as server,
 )
 from fieldcol import CAUTION
-
-
-@pytest.fixture(scope="module")
-def served(tmp_path_factory):
-    """The demo site served for this module (``Served``: afresh when a test runs again)."""
-    s = Served(tmp_path_factory.mktemp("photos"))
-    yield s
-    s.close()
-
-
-@pytest.fixture
-def server(served, request):
-    """(base URL, database path) for this test."""
-    s = served.for_test(request)
-    return s.base, s.db
 
 
 def _photo(path: Path, shade: int) -> Path:
