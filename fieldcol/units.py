@@ -64,6 +64,7 @@ __all__ = [
     "N_PER_LBF",
     "N_PER_KIP",
     "MPA_PER_KSI",
+    "us_words",
     "MPA_PER_PSI",
     "N_PER_TF",
     "get_registry",
@@ -1083,3 +1084,49 @@ def from_display(value: float | np.ndarray, kind: str, system: str) -> float | n
     if isinstance(value, np.ndarray) or np.ndim(value) > 0:
         return np.asarray(value, dtype=float) * factor
     return float(value) * factor
+
+
+# a length or stress the engine wrote into a step's words in its own units ("356 x 9.5 mm",
+# "2 rivets of 15.9 mm", "Fu 414 MPa"): a number not glued to a symbol, a power or a ratio
+_WORD_MM = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?)(?:( x | to )(\d+(?:\.\d+)?))? mm\b(?![\^\w])")
+_WORD_MPA = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?) MPa\b")
+
+
+def _inches(number: str) -> str:
+    """``number`` mm in inches: to the sixteenth where the millimetres, as rounded, are one,
+    else in decimals (``"9.5"`` gives ``'3/8'``, ``"12.2"`` gives ``'0.48'``, ``"2"`` gives
+    ``'0.0787'``)."""
+    mm = float(number)
+    places = len(number.partition(".")[2])
+    sixteenths = round(mm / 25.4 * 16)
+    # within the rounding of the millimetres as written, and within 2 % (2 mm is no 1/16 in)
+    if sixteenths and abs(sixteenths * 25.4 / 16 - mm) <= min(0.5 * 10 ** -places,
+                                                             0.02 * mm) + 1e-9:
+        whole, part = divmod(sixteenths, 16)
+        if not part:
+            return str(whole)
+        g = math.gcd(part, 16)
+        frac = f"{part // g}/{16 // g}"
+        return f"{whole} {frac}" if whole else frac
+    return f"{mm / 25.4:.3g}"
+
+
+def us_words(text: str) -> str:
+    """A step's words with the lengths and stresses the engine wrote in mm and MPa shown in
+    inches and ksi, for a US site.
+
+    Example:
+        >>> us_words("a web plate 356 x 9.5 mm, Fu 414 MPa")
+        'a web plate 14 x 3/8 in, Fu 60 ksi'
+    """
+    if "mm" not in text and "MPa" not in text:
+        return text
+
+    def length(m: re.Match) -> str:
+        first = _inches(m.group(1))
+        if m.group(2):
+            return f"{first}{m.group(2)}{_inches(m.group(3))} in"
+        return f"{first} in"
+
+    text = _WORD_MM.sub(length, text)
+    return _WORD_MPA.sub(lambda m: f"{float(m.group(1)) / MPA_PER_KSI:.3g} ksi", text)

@@ -140,6 +140,28 @@ def test_trace_values_carry_site_units(demo):
     assert all(s.value and s.what for s in steps)
 
 
+def test_a_us_sites_trace_words_speak_inches_and_ksi(demo):
+    # the engine writes a built-up section's parts and rivets in mm and MPa; the Check tab on a
+    # US site reads them as they were measured (3/8 in = 9.525 mm and 5/8 in = 15.875 mm exactly,
+    # 1 in = 25.4 mm; 414 MPa = 60 ksi, NIST SP 811)
+    store, site = demo
+    col = store.add_column(site.id, {"tag": "L3", "section": {"built": {
+        "arrangement": "channels", "channel": "C12X20.7", "gap": "6 in", "toes": "out",
+        "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in",
+                    "fasteners": {"count": 2, "diameter": "5/8 in"}},
+        "connection": "riveted"}}, "material": "A7", "length": "20 ft",
+        "demand": {"axial": "150 kip"}}, level="Ground")
+    from fieldcol.ui.check_model import check_summary  # what the Check tab's trace shows
+
+    m.recheck(store, col.id)
+    trace = check_summary(store.latest_check(col.id).result, "us").trace
+    words = " ".join(f"{t.what} {t.value}" for t in trace)
+    assert "5/8 in" in words
+    assert not re.search(r"\d MPa", words), re.search(r".{60}\d MPa.{20}", words)
+    assert not re.search(r"\d(?: x \d+(?:\.\d+)?)? mm\b(?!\^)", words), \
+        re.search(r".{60}\d mm.{20}", words)
+
+
 def test_si_site_shows_si_units(demo):
     store, _ = demo
     si = store.add_site("Canal Basin Sheds", code="en1993-1-1", unit_system="si")

@@ -644,8 +644,7 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str, steps: list | None = None,
     rows = []
     raw = steps if steps is not None and len(steps) == len(summ.trace) else [None] * len(summ.trace)
     for t, st in zip(summ.trace, raw):
-        # the engine's words carry its own units (mm, MPa): a US site reads inches and ksi
-        what = tx.us_words(t.what) if system == "us" else t.what
+        what = t.what  # (in the site's units: ``check_model`` made them so)
         if (system == "us" and isinstance(st, dict) and st.get("unit") == "mm"
                 and isinstance(st.get("value"), (int, float))):
             t = dataclasses.replace(t, value=tx.quantity(st, system))
@@ -658,7 +657,7 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str, steps: list | None = None,
             what, value = f"{what}: {tx.MODE_WORDS[value]}", ""
         elif " " in value and not any(ch.isdigit() for ch in value.split(" ")[0]):
             # long text reads better in the wide column
-            what, value = f"{what}: {tx.us_words(value) if system == 'us' else value}", ""
+            what, value = f"{what}: {value}", ""
         rows.append([t.symbol, value, f"{what} [{t.clause}]" if t.clause else what])
     heads, widths = ["Symbol", "Value", "What [clause]"], _trace_widths(pdf, rows)
     # the heading stays on the page of the trace's first rows

@@ -8,7 +8,6 @@ from __future__ import annotations
 
 import json
 import math
-import re
 from typing import Any
 
 from fieldcol.assess import MODE_WORDS as _MODE_WORDS
@@ -471,52 +470,6 @@ def condition_text(condition: Any) -> str:
     parts += [f"{k.replace('_', ' ')} {value_text(v)}" for k, v in condition.items()
               if k not in ("bow", "bow_axis", "plumb")]
     return "; ".join(parts)
-
-
-# a length or stress the engine wrote into a step's words in its own units ("356 x 9.5 mm",
-# "2 rivets of 15.9 mm", "Fu 414 MPa"): a number not glued to a symbol, a power or a ratio
-_MM = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?)(?:( x | to )(\d+(?:\.\d+)?))? mm\b(?![\^\w])")
-_MPA = re.compile(r"(?<![\w.^/])(\d+(?:\.\d+)?) MPa\b")
-_KSI = 6.894757293168361  # MPa per ksi (NIST SP 811)
-
-
-def _inches(number: str) -> str:
-    """``number`` mm in inches: to the sixteenth where the millimetres, as rounded, are one,
-    else in decimals (``"9.5"`` gives ``'3/8'``, ``"12.2"`` gives ``'0.48'``, ``"2"`` gives
-    ``'0.0787'``)."""
-    mm = float(number)
-    places = len(number.partition(".")[2])
-    sixteenths = round(mm / 25.4 * 16)
-    # within the rounding of the millimetres as written, and within 2 % (2 mm is no 1/16 in)
-    if sixteenths and abs(sixteenths * 25.4 / 16 - mm) <= min(0.5 * 10 ** -places,
-                                                             0.02 * mm) + 1e-9:
-        whole, part = divmod(sixteenths, 16)
-        if not part:
-            return str(whole)
-        g = math.gcd(part, 16)
-        frac = f"{part // g}/{16 // g}"
-        return f"{whole} {frac}" if whole else frac
-    return f"{mm / 25.4:.3g}"
-
-
-def us_words(text: str) -> str:
-    """A step's words with the lengths and stresses the engine wrote in mm and MPa shown in
-    inches and ksi, for a US site.
-
-    Example: ``us_words("a web plate 356 x 9.5 mm, Fu 414 MPa")`` gives
-    ``'a web plate 14 x 3/8 in, Fu 60 ksi'``.
-    """
-    if "mm" not in text and "MPa" not in text:
-        return text
-
-    def length(m: re.Match) -> str:
-        first = _inches(m.group(1))
-        if m.group(2):
-            return f"{first}{m.group(2)}{_inches(m.group(3))} in"
-        return f"{first} in"
-
-    text = _MM.sub(length, text)
-    return _MPA.sub(lambda m: f"{float(m.group(1)) / _KSI:.3g} ksi", text)
 
 
 def built_label(built: dict[str, Any]) -> str:

@@ -19,6 +19,7 @@ from typing import TYPE_CHECKING, Any, Mapping
 
 from fieldcol import CAUTION
 from fieldcol.assess import MODE_WORDS
+from fieldcol.units import us_words
 
 if TYPE_CHECKING:
     from fieldcol.store import Store
@@ -252,11 +253,14 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
     governs, why = _why(result, gov, code, system)
     warnings = [str(w.get("message", w)) if isinstance(w, dict) else str(w)
                 for w in result.get("warnings") or []]
+    # the engine writes its own units (mm, MPa) into a step's words: a US site reads inches, ksi
+    words = us_words if system == "us" else str
     trace = [TraceLine(_trace_symbol(s, code),
                        _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
                        or str(s.get("symbol", "")).startswith("slender")
-                       else _step_text(s.get("value"), str(s.get("unit", "")), system),
-                       str(s.get("what", "")), str(s.get("formula", "")), str(s.get("clause", "")))
+                       else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
+                       words(str(s.get("what", ""))), str(s.get("formula", "")),
+                       str(s.get("clause", "")))
              for s in result.get("steps") or []]
     return CheckSummary(
         title=f"{CODE_TITLES.get(code, code)} check" if code != "elastic" else CODE_TITLES[code],
