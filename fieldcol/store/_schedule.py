@@ -453,8 +453,10 @@ def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]
         # a schedule cell is one line: a cell spanning lines is a quote left open
         joined = "".join(cells)
         if "\n" in joined or "\r" in joined:
-            yield start, RowError(start, "row", "", "a quote opened on this row is not closed "
-                                  f"before row {reader.line_num}", "close it on its own row")
+            where = next(i for i, c in enumerate(cells) if "\n" in c or "\r" in c)
+            yield start, RowError(start, f"cell {where}", "", "a quote opened on this row is "
+                                  f"not closed before row {reader.line_num}",
+                                  "close it on its own row")
             continue
         yield start, cells
 
