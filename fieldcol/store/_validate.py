@@ -41,7 +41,7 @@ def _utf8(value: str, field: str) -> None:
     try:
         value.encode("utf-8")
     except UnicodeEncodeError as e:
-        raise InputError(field, value.encode("utf-8", "backslashreplace").decode("ascii"),
+        raise InputError(field, value.encode("utf-8", "backslashreplace").decode("utf-8"),
                          f"holds a code that is no character at position {e.start + 1}",
                          "type the text again") from None
 
