@@ -493,3 +493,19 @@ def test_a_key_with_no_name_is_named_by_its_object(path, field):
     with pytest.raises(InputError) as e:
         assess(rec)
     assert e.value.field == field and "has no name" in e.value.reason
+
+
+@pytest.mark.parametrize("extra, said", [
+    (["--seed", "-1"], "seed: cannot use '-1'"),                   # before: numpy's ValueError
+    (["--size-sd", "1e300"], "size-sd: cannot use"),                # before: named thickness-sd
+    (["--size-sd", "100"], "size-sd: cannot use"),                  # before: named r[157]
+    (["--thickness-sd", "6"], "thickness-sd: cannot use '6.0'"),
+    (["--fy-cov", "nan"], "fy-cov: cannot use 'nan'"),
+])
+def test_check_samples_name_the_option_that_is_wrong(tmp_path, extra, said):
+    # W14X90 (AISC Shapes Database v15.0): d = 13.9 in, tf = 0.710 in; a depth spread of
+    # 100 mm gives samples whose web has no room for its fillets
+    p = tmp_path / "c.json"
+    p.write_text(json.dumps(README), encoding="utf-8")
+    code, _, err = _run(["check", str(p), "--samples", "200", *extra])
+    assert code == 2 and err.startswith(f"error: {said}"), err
