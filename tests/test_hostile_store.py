@@ -331,3 +331,21 @@ def test_import_schedule_refuses_with_row_and_column_and_exit_2(depot, row, col,
     assert code == 2 and "Traceback" not in err
     assert err.startswith(f"error: row {row + 2}.{HEAD[col]}: cannot use"), err
     assert dump(depot) == before
+
+
+@pytest.mark.parametrize("remove, field", [
+    (lambda st, C: rm.remove_twist(st, C, "0"), "twist"),
+    (lambda st, C: rm.remove_twist(st, C, None), "twist"),
+    (lambda st, C: rm.remove_twist(st, C, True), "twist"),   # not the point at 1
+    (lambda st, C: lm.remove_reaction(st, C, None), "reaction"),
+    (lambda st, C: rm.remove_brace(st, C, [("weak", "0")]), "brace"),
+    (lambda st, C: rm.remove_brace(st, C, []), "brace"),      # before: AssertionError
+])
+def test_a_position_that_is_no_whole_number_is_named(fresh, remove, field):
+    # before: TypeError comparing the index, or an AssertionError for no brace at all
+    store, site, path = fresh
+    cid = store.find_column(site.id, "C/2-G").id    # a weak-axis brace and a twist point
+    before = dump(path)
+    with pytest.raises(InputError) as e:
+        remove(store, cid)
+    assert e.value.field == field and dump(path) == before
