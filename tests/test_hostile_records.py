@@ -203,16 +203,21 @@ def _named_in(record, field: str) -> bool:
     return bool(path) and (_holds(record, path) or _holds(record, path[:-1]))
 
 
-def _mutated(name: str, path: tuple, value) -> dict:
-    rec = copy.deepcopy(BASES[name])
-    node = rec
+def _with(obj: dict, path: tuple, value) -> dict:
+    """A copy of ``obj`` with ``value`` at ``path`` (``GONE``: the key taken away)."""
+    out = copy.deepcopy(obj)
+    node = out
     for key in path[:-1]:
         node = node[key]
     if value is GONE:
         del node[path[-1]]
     else:
         node[path[-1]] = copy.deepcopy(value)
-    return rec
+    return out
+
+
+def _mutated(name: str, path: tuple, value) -> dict:
+    return _with(BASES[name], path, value)
 
 
 def _outcome(rec) -> InputError | None:
@@ -397,14 +402,7 @@ OPTION_PATHS = [(i, p) for i, o in enumerate(OPTIONS) for p in _paths(o)]
 @given(where=st.sampled_from(OPTION_PATHS), value=junk)
 def test_a_mutated_retrofit_option_is_named_under_options(files, where, value):
     i, path = where
-    opt = copy.deepcopy(OPTIONS[i])
-    node = opt
-    for key in path[:-1]:
-        node = node[key]
-    if value is GONE:
-        del node[path[-1]]
-    else:
-        node[path[-1]] = copy.deepcopy(value)
+    opt = _with(OPTIONS[i], path, value)
     try:
         text = json.dumps(opt, allow_nan=False)
     except ValueError:
