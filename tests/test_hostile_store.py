@@ -349,3 +349,21 @@ def test_a_position_that_is_no_whole_number_is_named(fresh, remove, field):
     with pytest.raises(InputError) as e:
         remove(store, cid)
     assert e.value.field == field and dump(path) == before
+
+
+@pytest.mark.parametrize("record, field", [
+    ({"tag": "A", "length": float("nan")}, "length"),             # RFC 8259: no NaN
+    ({"tag": "A", "restraints": {"weak": {"braces": [{"at": float("inf")}]}}},
+     "restraints.weak.braces[0].at"),
+    ({"tag": "A", "notes": b"x"}, "notes"),
+    ({"tag": "A", "notes": "\ud800"}, "notes"),
+])
+def test_a_record_the_store_cannot_keep_names_the_entry(tmp_path, record, field):
+    # before: the field was "record", whatever entry it was
+    path = tmp_path / "s.db"
+    with Store(path) as s:
+        site = s.add_site("Depot", code="aisc360-22", unit_system="us")
+        before = dump(path)
+        with pytest.raises(InputError) as e:
+            s.add_column(site.id, record)
+        assert e.value.field == field and dump(path) == before

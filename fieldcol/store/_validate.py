@@ -152,25 +152,34 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
     try:
         json_text(value, field)
     except InputError:
-        _utf8_entries(value, "")  # a lone surrogate: named by its path in the record
+        _json_entries(value, "")  # the entry JSON cannot hold, named by its path in the record
         raise
     return value
 
 
-def _utf8_entries(value: Any, path: str) -> None:
-    """Refuse the first text in a record (key or entry) that is not UTF-8, naming its path as
-    the record's own errors do (``restraints.weak.braces[0].note``)."""
+def _json_entries(value: Any, path: str) -> None:
+    """Refuse the first entry of a record that JSON text cannot hold (a lone surrogate in a
+    key or a text, NaN or an infinity, a value of no JSON type), naming its path as the
+    record's own errors do (``restraints.weak.braces[0].note``)."""
+    fld = path or "record"
     if isinstance(value, str):
-        _utf8(value, path or "record")
+        _utf8(value, fld)
+    elif isinstance(value, float) and not math.isfinite(value):
+        raise InputError(fld, repr(value), "not a finite number", "JSON has no NaN or Infinity")
     elif isinstance(value, dict):
         for k, item in value.items():
             sub = f"{path}.{k}" if path else str(k)
-            if isinstance(k, str):
-                _utf8(k, sub)
-            _utf8_entries(item, sub)
-    elif isinstance(value, list):
+            if not isinstance(k, str):
+                raise InputError(sub, repr(k), "a key must be text", None)
+            _utf8(k, sub)
+            _json_entries(item, sub)
+    elif isinstance(value, (list, tuple)):
         for i, item in enumerate(value):
-            _utf8_entries(item, f"{path}[{i}]")
+            _json_entries(item, f"{path}[{i}]")
+    elif value is not None and not isinstance(value, (bool, int, float)):
+        raise InputError(fld, repr(value)[:80], f"a value of type {type(value).__name__} cannot "
+                         "be kept as JSON",
+                         "text, a number, true or false, a list or an object")
 
 
 # json.dumps(value, allow_nan=False, ensure_ascii=False) without making an encoder each call
