@@ -536,7 +536,8 @@ def _parse_length(text: str | float | int, field: str, *, default_unit: str = "m
         if v2 >= 12:
             raise InputError(field, text, f"{v2:g} in is a foot or more", _ft_in_hint(v1, v2))
         mm = (v1 * 12.0 + v2) * MM_PER_IN
-    return _check_number_value(sign * mm, field, text, "a length", allow_zero, allow_negative, _MAX_LENGTH)
+    return _check_number_value(sign * mm, field, text, "a length", allow_zero, allow_negative,
+                               _MAX_LENGTH)
 
 
 def _fraction(tok: str, field: str, text: str) -> float:

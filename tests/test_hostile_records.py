@@ -379,7 +379,8 @@ def test_check_in_its_own_process_prints_no_traceback(tmp_path):
     r = subprocess.run([sys.executable, "-m", "fieldcol", "check", str(p)], capture_output=True,
                        text=True, cwd=ROOT, timeout=120)
     assert r.returncode == 2 and "Traceback" not in r.stderr
-    assert r.stderr.startswith("error: section.built.lacing.fasteners.diameter: cannot use '1e300 in'")
+    assert r.stderr.startswith(
+        "error: section.built.lacing.fasteners.diameter: cannot use '1e300 in'")
 
 
 OPTIONS = [
@@ -456,8 +457,10 @@ def test_alignment_still_reads_pinned_ends():
     (["--D", "6in", "--d", "13.9in", "--t", "0.3in"], "d: cannot use '13.9in'"),
     (["--d", "13.9in"], "d: cannot use '13.9in'"),
     ([], "d: cannot use ''"),
-    (["--d", "13.9in", "--bf", "nan in", "--tf", "0.7in", "--tw", "0.45in"], "bf: cannot use 'nan in'"),
-    (["--d", "1e300 in", "--bf", "14.5in", "--tf", "0.7in", "--tw", "0.45in"], "d: cannot use '1e300 in'"),
+    (["--d", "13.9in", "--bf", "nan in", "--tf", "0.7in", "--tw", "0.45in"],
+     "bf: cannot use 'nan in'"),
+    (["--d", "1e300 in", "--bf", "14.5in", "--tf", "0.7in", "--tw", "0.45in"],
+     "d: cannot use '1e300 in'"),
     (["--d", "13.9in", "--bf", "14.5in", "--tf", "0.7in", "--tw", "0.45in", "--limit", "0"],
      "limit: cannot use '0'"),
 ])
@@ -480,9 +483,9 @@ def test_every_junk_text_is_reported_without_a_traceback_by_the_cli(tmp_path):
     assert code == 2 and err.startswith("error: section") and "\\udc80" in err
 
 
-@pytest.mark.parametrize("path, field", [((), "record"), (("section",), "section"),
-                                         (("section", "loss"), "section.loss"),
-                                         (("restraints", "weak", "braces", 0), "restraints.weak.braces[0]")])
+@pytest.mark.parametrize("path, field", [
+    ((), "record"), (("section",), "section"), (("section", "loss"), "section.loss"),
+    (("restraints", "weak", "braces", 0), "restraints.weak.braces[0]")])
 def test_a_key_with_no_name_is_named_by_its_object(path, field):
     # before: the field was '' (or 'section.loss.'), naming nothing
     rec = copy.deepcopy(RICH)

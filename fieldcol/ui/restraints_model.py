@@ -587,7 +587,8 @@ def remove_brace(store: "Store", column_id: str, refs: Sequence[tuple[str, int]]
     removed = None
     if not refs or any(not _index(i) for _, i in refs):
         raise InputError("brace", ", ".join(f"{ax} {i}" for ax, i in refs),
-                         "that brace is no longer recorded", "the list was changed meanwhile: look again")
+                         "that brace is no longer recorded",
+                         "the list was changed meanwhile: look again")
     for ax, i in sorted(refs, key=lambda r: -r[1]):
         lst = (axes.get(ax) or {}).get("braces") if isinstance(axes.get(ax), dict) else None
         lst = lst or []
