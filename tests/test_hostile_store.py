@@ -367,3 +367,14 @@ def test_a_record_the_store_cannot_keep_names_the_entry(tmp_path, record, field)
         with pytest.raises(InputError) as e:
             s.add_column(site.id, record)
         assert e.value.field == field and dump(path) == before
+
+
+def test_lines_ended_by_a_lone_carriage_return_are_said_so(depot):
+    # before: "a quote is not closed (new-line character seen in unquoted field ...)": there was
+    # no quote. RFC 4180 ends a record with CR LF; a lone CR is an old Mac line end.
+    csv_path = depot.with_name("cr.csv")
+    csv_path.write_bytes(b"tag,section,length\nA/1,W14X90,30 ft\rA/2,W14X90,30 ft\n")
+    with Store(depot) as s:
+        pv = preview_schedule(s, "Depot", csv_path)
+    assert [(e.row, e.field) for e in pv.errors] == [(2, "row")]
+    assert "lone carriage return" in pv.errors[0].reason and "quote" not in pv.errors[0].reason

@@ -446,6 +446,9 @@ def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]
                 held.lines.clear()
                 yield start, RowError(start, f"cell {where}", "",
                                       f"a cell longer than {limit} characters", None)
+            elif "new-line character" in str(e):  # lines ended by a lone CR (old Mac files)
+                yield start, RowError(start, "row", "", "a line ends in a lone carriage return",
+                                      "save the sheet as CSV UTF-8 (lines end LF or CR LF)")
             else:
                 yield start, RowError(start, "row", "", f"a quote is not closed ({e})",
                                       'close it, or write a quote inside a cell as ""')
