@@ -203,7 +203,10 @@ def parse_built(spec: Any, fld: str = "section.built") -> BuiltUp:
                            _len(spec, "gap", fld), _len(spec, "pitch", fld), connection=conn,
                            field=fld)
     if arr == "angles-web":
-        web = _obj(spec.get("web") or {}, f"{fld}.web", "web plate")
+        if spec.get("web") is None:  # named itself, not its depth: the object is what is missing
+            raise InputError(f"{fld}.web", "", "required",
+                             '{"depth": "14 in", "thickness": "3/8 in"}')
+        web = _obj(spec["web"], f"{fld}.web", "web plate")
         return angles_web(_part(spec.get("angle"), "angle", f"{fld}.angle"),
                           _len(web, "depth", f"{fld}.web"), _len(web, "thickness", f"{fld}.web"),
                           flange_plates=_plates(spec, "flange_plates", fld), connection=conn,

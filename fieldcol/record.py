@@ -841,7 +841,7 @@ def _own_basis(record: Mapping[str, Any], code: str) -> str | None:
     own = _choice(given, _BASES[code], "basis")
     spec = record.get("demand")
     if isinstance(spec, Mapping) and spec.get("basis") not in (None, "") \
-            and spec["basis"] != own:
+            and _choice(spec["basis"], _BASES[code], "demand.basis") != own:  # read as typed
         raise InputError("basis", given, f"differs from demand.basis ({spec['basis']})",
                          "give the basis once, or the same in both")
     return own

@@ -91,6 +91,9 @@ def _known_only(spec: Mapping[str, Any], allowed: tuple[str, ...], obj: str, fld
         if key in allowed:
             continue
         name = str(key)
+        if not name:  # a key with no name: named by the object holding it
+            raise InputError(fld or "record", name, f"a key of the {obj} has no name",
+                             "known keys: " + ", ".join(allowed))
         hint = "known keys: " + ", ".join(allowed)
         near = suggest(name, allowed)
         if near:

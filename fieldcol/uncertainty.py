@@ -110,11 +110,24 @@ def sampled_section(sec: Section, n: int, spreads: Spreads, rng: np.random.Gener
     b = one["bf"] + spreads.size * rng.standard_normal(n) if sec.kind != "round" else d
     tf = one["tf"] + spreads.thickness * rng.standard_normal(n)
     tw = one["tw"] + spreads.thickness * rng.standard_normal(n) if sec.kind == "i" else tf
-    if np.any(tf <= 0) or np.any(tw <= 0) or np.any(d <= 2 * tf):
+    if np.any(tf <= 0) or np.any(tw <= 0):
         raise InputError("thickness-sd", repr(spreads.thickness), "the spread gives plates of no thickness",
                          "give a smaller standard deviation")
+    # an outline too small for its plates: named by the spread that is the larger share of
+    # what it spreads (sizes of the depth, thicknesses of the flange)
+    too_small = "size-sd" if spreads.size * one["tf"] >= spreads.thickness * one["d"] \
+        else "thickness-sd"
+    if np.any(d <= 2 * tf):
+        spread = spreads.size if too_small == "size-sd" else spreads.thickness
+        raise InputError(too_small, repr(spread), "the spread gives outlines too small for their "
+                         "plates", "give a smaller standard deviation")
     nominal = _outline(sec, one["d"], one["bf"], one["tf"], one["tw"])
-    sample = _outline(sec, d, b, tf, tw)
+    try:
+        sample = _outline(sec, d, b, tf, tw)
+    except InputError as e:  # a sampled outline that cannot be drawn (fillets filling the web)
+        spread = spreads.size if too_small == "size-sd" else spreads.thickness
+        raise InputError(too_small, repr(spread), f"the spread gives sections that cannot be "
+                         f"drawn ({e.reason})", "give a smaller standard deviation") from None
     new = {k: float(np.asarray(getattr(sec, k)).reshape(-1)[0])
            * np.asarray(getattr(sample, k), dtype=float)
            / float(np.asarray(getattr(nominal, k)).reshape(-1)[0]) if float(
@@ -145,6 +158,8 @@ def run_samples(record: Mapping[str, Any], samples: int, *, seed: int = SEED,
     if isinstance(samples, bool) or not isinstance(samples, int) or not 100 <= samples <= 1_000_000:
         raise InputError("samples", repr(samples), "must be a whole number from 100 to 1000000",
                          "10000 gives the 5th percentile to about 1 %")
+    if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
+        raise InputError("seed", repr(seed), "must be a whole number, 0 or more", "e.g. 1")
     for name, v in (("thickness-sd", spreads.thickness), ("size-sd", spreads.size)):
         if not (math.isfinite(v) and v >= 0):
             raise InputError(name, repr(v), "must be zero or a positive number of mm")

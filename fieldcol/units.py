@@ -260,11 +260,21 @@ def _comma_error(field: str, text: str, example: str) -> InputError:
     )
 
 
+# Far beyond anything built, in the engine's units (N, MPa, mm^4, ...; a length: 1000 km): such
+# a number only overflows the engine's powers and products (a section's depth to the 6th) or
+# underflows to a division by zero.
+_MIN_SIZE, _MAX_SIZE, _MAX_LENGTH = 1e-12, 1e30, 1e9
+
+
 def _check_number_value(
-    value: float, field: str, text: Any, what: str, allow_zero: bool, allow_negative: bool
+    value: float, field: str, text: Any, what: str, allow_zero: bool, allow_negative: bool,
+    largest: float = _MAX_SIZE,
 ) -> float:
     if not math.isfinite(value):
         raise InputError(field, text, f"{what} must be a finite number", "enter a number with its unit")
+    if value != 0 and not _MIN_SIZE <= abs(value) <= largest:
+        raise InputError(field, text, f"{what} this {'large' if abs(value) > 1 else 'small'} "
+                         "cannot be a measured or design value", "check the number and its unit")
     if value < 0 and not allow_negative:
         raise InputError(field, text, f"{what} cannot be negative", "enter the size without a sign")
     if value == 0 and not allow_zero:
@@ -449,7 +459,8 @@ def _parse_length(text: str | float | int, field: str, *, default_unit: str = "m
         raise InputError(field, default_unit, "unknown default unit for a length", _LEN_HELP)
     number = _python_number(text, field)
     if number is not None:
-        return _check_number_value(_to_mm(number, None, default), field, text, "a length", allow_zero, allow_negative)
+        return _check_number_value(_to_mm(number, None, default), field, text, "a length", allow_zero, allow_negative,
+                                   _MAX_LENGTH)
 
     s = _clean(text)
     if not s:
@@ -545,7 +556,8 @@ def _parse_length(text: str | float | int, field: str, *, default_unit: str = "m
         if v2 >= 12:
             raise InputError(field, text, f"{v2:g} in is a foot or more", _ft_in_hint(v1, v2))
         mm = (v1 * 12.0 + v2) * MM_PER_IN
-    return _check_number_value(sign * mm, field, text, "a length", allow_zero, allow_negative)
+    return _check_number_value(sign * mm, field, text, "a length", allow_zero, allow_negative,
+                               _MAX_LENGTH)
 
 
 def _fraction(tok: str, field: str, text: str) -> float:

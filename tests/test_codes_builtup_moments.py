@@ -127,7 +127,7 @@ def test_en_chord_force_adds_the_first_order_moment_by_hand():
 
 
 @settings(max_examples=12, deadline=None)
-@given(st.floats(1.0, 40.0), st.floats(0.0, 10.0), st.floats(0.0, 2.0),
+@given(st.floats(1.0, 40.0), st.just(0.0) | st.floats(1e-9, 10.0), st.floats(0.0, 2.0),
        st.sampled_from(["aisc360-22", "en1993-1-1"]), st.sampled_from(sorted(TIES)))
 def test_more_moment_never_raises_the_capacity(strong, weak, grow, code, tie):
     # common practice: a larger moment with the same axial force never gives a larger capacity

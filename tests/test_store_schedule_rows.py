@@ -84,7 +84,7 @@ def test_an_unclosed_quote_is_a_row_error_not_a_merged_row(store, tmp_path):
 def test_a_huge_cell_is_a_row_error(store, tmp_path):
     got, pv = _errors(store, tmp_path, HEAD + "A/1,L1," + "x" * 10_000_000 +
                       ",W14X90,30 ft,A992,800 kip,lrfd\nA/2,L1,A/2,W14X90,30 ft,A992,,\n")
-    assert got == [(2, "row")] and "longer than" in pv.errors[0].reason
+    assert got == [(2, "grid")] and "longer than" in pv.errors[0].reason
 
 
 def test_reimporting_an_unedited_export_of_the_demo_changes_nothing(tmp_path):

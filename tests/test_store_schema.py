@@ -150,7 +150,7 @@ def test_column_round_trip_levels_and_listing(store: Store, site):
     assert e.value.field == "record.tag"
     with pytest.raises(InputError) as e:
         store.add_column(site.id, {"tag": "X", "length": float("nan")})
-    assert e.value.field == "record"
+    assert e.value.field == "length"  # the entry JSON cannot hold (RFC 8259: no NaN)
     moved = store.update_column(col.id, grid="C/5", level="L2")
     assert moved.grid == "C/5" and store.list_columns(site.id)[1].level == "L2"
     assert [r.tag for r in store.list_columns(site.id, limit=1, offset=1)] == ["B/4-L1"]

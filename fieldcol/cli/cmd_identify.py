@@ -78,7 +78,15 @@ def run(args: argparse.Namespace) -> int:
     if _BARE.match(args.gauge) and args.units is None and float(args.gauge or 0) != 0:
         raise InputError("gauge", args.gauge, "a unit is needed", "e.g. 0.02 in or 0.5 mm, or --units")
     gauge = parse_length(args.gauge, "gauge", default_unit=unit, allow_zero=True)
-    matches = identify(**measured, gauge=gauge, family=args.family, limit=args.limit, code=args.code)
+    try:
+        matches = identify(**measured, gauge=gauge, family=args.family, limit=args.limit,
+                           code=args.code)
+    except InputError as e:
+        if e.field not in measured and e.field not in ("d", "gauge"):
+            raise
+        # quote the entry as typed (13.9in), not the millimetres identify was given
+        typed = args.gauge if e.field == "gauge" else getattr(args, f"m_{e.field}") or ""
+        raise InputError(e.field, typed, e.reason, e.hint) from None
     found = any(m.within_tolerance for m in matches)
     if args.json:
         print_json({

@@ -393,19 +393,62 @@ def _header(cells: list[str]) -> list[tuple[str, str | None]]:
     return cols
 
 
+class _Held:
+    """The lines of the record being read, kept so that a cell too long for ``csv`` can be
+    found in them (``csv`` says only that one was)."""
+
+    def __init__(self, lines: Iterable[str]):
+        self._it = iter(lines)
+        self.lines: list[str] = []
+
+    def __iter__(self) -> "_Held":
+        return self
+
+    def __next__(self) -> str:
+        line = next(self._it)
+        self.lines.append(line)
+        return line
+
+
+def _long_cell(text: str, limit: int) -> int:
+    """The index of the first cell of one CSV record longer than ``limit`` characters
+    (quotes as RFC 4180 writes them), counted as ``csv`` counts them."""
+    cell, size, quoted = 0, 0, False
+    for ch in text:
+        if ch == '"':
+            quoted = not quoted
+            continue
+        if ch == "," and not quoted:
+            cell, size = cell + 1, 0
+            continue
+        size += 1
+        if size > limit:
+            return cell
+    return cell
+
+
 def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]:
-    """(spreadsheet row where the record starts, its cells or the error reading it)."""
-    reader = csv.reader(lines, strict=True)
+    """(spreadsheet row where the record starts, its cells or the error reading it); a cell
+    too long is a ``RowError`` whose ``field`` is ``cell <index>`` (named by the header)."""
+    held = _Held(lines)
+    reader = csv.reader(held, strict=True)
     while True:
         start = reader.line_num + 1
+        held.lines.clear()
         try:
             cells = next(reader)
         except StopIteration:
             return
         except csv.Error as e:
             if "field limit" in str(e):
-                yield start, RowError(start, "row", "", f"a cell longer than "
-                                      f"{csv.field_size_limit()} characters", None)
+                limit = csv.field_size_limit()
+                where = _long_cell("".join(held.lines), limit)
+                held.lines.clear()
+                yield start, RowError(start, f"cell {where}", "",
+                                      f"a cell longer than {limit} characters", None)
+            elif "new-line character" in str(e):  # lines ended by a lone CR (old Mac files)
+                yield start, RowError(start, "row", "", "a line ends in a lone carriage return",
+                                      "save the sheet as CSV UTF-8 (lines end LF or CR LF)")
             else:
                 yield start, RowError(start, "row", "", f"a quote is not closed ({e})",
                                       'close it, or write a quote inside a cell as ""')
@@ -413,8 +456,10 @@ def _records(lines: Iterable[str]) -> Iterator[tuple[int, list[str] | RowError]]
         # a schedule cell is one line: a cell spanning lines is a quote left open
         joined = "".join(cells)
         if "\n" in joined or "\r" in joined:
-            yield start, RowError(start, "row", "", "a quote opened on this row is not closed "
-                                  f"before row {reader.line_num}", "close it on its own row")
+            where = next(i for i, c in enumerate(cells) if "\n" in c or "\r" in c)
+            yield start, RowError(start, f"cell {where}", "", "a quote opened on this row is "
+                                  f"not closed before row {reader.line_num}",
+                                  "close it on its own row")
             continue
         yield start, cells
 
@@ -444,6 +489,9 @@ def _rows_after(records: Iterator[tuple[int, list[str] | RowError]],
     names = [name for name, _ in header]
     for n, cells in records:
         if isinstance(cells, RowError):
+            if cells.field.startswith("cell "):  # a cell too long: named by its column
+                i = int(cells.field[5:])
+                cells.field = names[i] if i < width else "row"
             yield n, cells
             continue
         if not any(c.strip() for c in cells) or cells[0].lstrip().startswith("#"):

@@ -26,12 +26,24 @@ def text(value: Any, field: str, *, required: bool = True) -> str | None:
         return None
     if not isinstance(value, str):
         raise InputError(field, value, "expected text", None)
+    _utf8(value, field)
     v = value.strip()
     if not v:
         if required:
             raise InputError(field, value, "this is required", "type a value")
         return None
     return v
+
+
+def _utf8(value: str, field: str) -> None:
+    """A lone surrogate (``"\\ud800"``: JSON escapes can carry one) is no character: SQLite
+    cannot take it as UTF-8, so it is refused here, named, before anything is written."""
+    try:
+        value.encode("utf-8")
+    except UnicodeEncodeError as e:
+        raise InputError(field, value.encode("utf-8", "backslashreplace").decode("utf-8"),
+                         f"holds a code that is no character at position {e.start + 1}",
+                         "type the text again") from None
 
 
 def choice(value: Any, field: str, allowed: tuple[str, ...], *, required: bool = True) -> str | None:
@@ -137,8 +149,37 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
     if not isinstance(tag, str) or not tag.strip():
         raise InputError(f"{field}.tag", repr(tag), "the column tag is required", "e.g. B/4-L1")
     check_record_keys(value)
-    json_text(value, field)
+    try:
+        json_text(value, field)
+    except InputError:
+        _json_entries(value, "")  # the entry JSON cannot hold, named by its path in the record
+        raise
     return value
+
+
+def _json_entries(value: Any, path: str) -> None:
+    """Refuse the first entry of a record that JSON text cannot hold (a lone surrogate in a
+    key or a text, NaN or an infinity, a value of no JSON type), naming its path as the
+    record's own errors do (``restraints.weak.braces[0].note``)."""
+    fld = path or "record"
+    if isinstance(value, str):
+        _utf8(value, fld)
+    elif isinstance(value, float) and not math.isfinite(value):
+        raise InputError(fld, repr(value), "not a finite number", "JSON has no NaN or Infinity")
+    elif isinstance(value, dict):
+        for k, item in value.items():
+            sub = f"{path}.{k}" if path else str(k)
+            if not isinstance(k, str):
+                raise InputError(sub, repr(k), "a key must be text", None)
+            _utf8(k, sub)
+            _json_entries(item, sub)
+    elif isinstance(value, (list, tuple)):
+        for i, item in enumerate(value):
+            _json_entries(item, f"{path}[{i}]")
+    elif value is not None and not isinstance(value, (bool, int, float)):
+        raise InputError(fld, repr(value)[:80], f"a value of type {type(value).__name__} cannot "
+                         "be kept as JSON",
+                         "text, a number, true or false, a list or an object")
 
 
 # json.dumps(value, allow_nan=False, ensure_ascii=False) without making an encoder each call
@@ -153,9 +194,12 @@ def json_text(value: Any, field: str) -> str:
         '{"a": 1}'
     """
     try:
-        return _encode_json(value)
+        out = _encode_json(value)
     except (TypeError, ValueError) as e:
         raise InputError(field, repr(value)[:80], f"cannot be saved as JSON ({e})", None) from None
+    if not out.isascii():  # only then can it hold a lone surrogate
+        _utf8(out, field)
+    return out
 
 
 def finite(value: Any, field: str) -> float | None:

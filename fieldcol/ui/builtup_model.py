@@ -193,6 +193,12 @@ def entries(arrangement: str, tie: str, connection: str = "welded") -> list[Entr
         >>> [e.key for e in entries("angles-box", "battens", "riveted")][-2:]
         ['battens.fasteners.count', 'battens.fasteners.diameter']
     """
+    if arrangement not in _BASE:
+        raise InputError("arrangement", arrangement, "not an arrangement of the card",
+                         ", ".join(a for a, _ in ARRANGEMENTS))
+    if tie not in (t for t, _ in TIES[arrangement]):
+        raise InputError("ties", tie, f"not a way to tie {arrangement}",
+                         ", ".join(t for t, _ in TIES[arrangement]))
     return (list(_BASE[arrangement]) + list(_TIE.get(tie, []))
             + _optional(arrangement, tie, connection))
 

@@ -360,8 +360,9 @@ def remove_reaction(store: "Store", column_id: str, index: int) -> Change:
     """
     d = _demand(store.get_column(column_id).record)
     reactions = list(d.get("reactions") or [])
-    if not 0 <= index < len(reactions):
-        raise InputError("reaction", str(index + 1), "no such reaction is recorded", None)
+    if isinstance(index, bool) or not isinstance(index, int) or not 0 <= index < len(reactions):
+        shown = str(index + 1) if isinstance(index, int) else repr(index)
+        raise InputError("reaction", shown, "no such reaction is recorded", None)
     del reactions[index]
     return save_record_key(store, column_id, ("demand", "reactions"), reactions or None,
                            f"reaction {index + 1} removed", lambda e: e)

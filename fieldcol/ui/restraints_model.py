@@ -585,8 +585,13 @@ def remove_brace(store: "Store", column_id: str, refs: Sequence[tuple[str, int]]
     new = copy.deepcopy(col.record)
     axes = new.get("restraints") or {}
     removed = None
+    if not refs or any(not _index(i) for _, i in refs):
+        raise InputError("brace", ", ".join(f"{ax} {i}" for ax, i in refs),
+                         "that brace is no longer recorded",
+                         "the list was changed meanwhile: look again")
     for ax, i in sorted(refs, key=lambda r: -r[1]):
-        lst = (axes.get(ax) or {}).get("braces") or []
+        lst = (axes.get(ax) or {}).get("braces") if isinstance(axes.get(ax), dict) else None
+        lst = lst or []
         if not 0 <= i < len(lst):
             raise InputError("brace", f"{ax} {i}", "that brace is no longer recorded",
                              "the list was changed meanwhile: look again")
@@ -674,6 +679,11 @@ def add_twist(store: "Store", column_id: str, at: str, *, who: str | None = None
         raise InputError("twist", e.text, e.reason, e.hint) from None
 
 
+def _index(i: object) -> bool:
+    """A position in a list as the screen gives it: a whole number (not True / False)."""
+    return isinstance(i, int) and not isinstance(i, bool)
+
+
 def remove_twist(store: "Store", column_id: str, index: int, *, who: str | None = None) -> Saved:
     """Remove a twist restraint point, and log it.
 
@@ -683,7 +693,7 @@ def remove_twist(store: "Store", column_id: str, index: int, *, who: str | None 
     new = copy.deepcopy(col.record)
     tw = (new.get("restraints") or {}).get("twist") or {}
     pts = tw.get("braces") or []
-    if not 0 <= index < len(pts):
+    if not _index(index) or not 0 <= index < len(pts):
         raise InputError("twist", str(index), "that twist restraint is no longer recorded",
                          "look again")
     gone = pts.pop(index)

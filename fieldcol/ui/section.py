@@ -25,7 +25,7 @@ import copy
 import functools
 import re
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Mapping
 
 from fieldcol import CAUTION
 from fieldcol.errors import InputError
@@ -428,10 +428,12 @@ def _kept(old: Any) -> dict[str, Any]:
 
 
 def _save_record(store: "Store", column_id: str, section: Any, what: str,
-                 fresh: bool = False) -> Change:
+                 fresh: bool = False, entries: Mapping[str, str] | None = None) -> Change:
     """Check the column with the new section, then save it (nothing saved when refused);
     ``fresh``: the section holds dimensions just measured, which earlier readings must not
-    overrule in the check."""
+    overrule in the check. A refusal names the entry (``entries``: record path -> the entry
+    as labelled, ``section.plates.thickness`` -> ``plate thickness``), else the record's
+    own field, with ``what`` was being saved."""
     from fieldcol.assess import assess
     from fieldcol.store import SECTION_DIMENSIONS, latest_readings, overlay, site_defaults
 
@@ -450,7 +452,10 @@ def _save_record(store: "Store", column_id: str, section: Any, what: str,
         except InputError:  # not checkable before either: the section is still recorded
             known = None
         else:
-            raise InputError(what, e.text, e.reason, e.hint) from None
+            for path, label in (entries or {}).items():
+                if e.field == path or e.field.startswith((path + ".", path + "[")):
+                    raise InputError(label, e.text, e.reason, e.hint) from None
+            raise InputError(e.field, e.text, f"{e.reason} (with {what})", e.hint) from None
     store.update_column(column_id, record=stored)
     return Change(column_id, what, (), before, check_now(store, column_id, known))
 
@@ -528,22 +533,17 @@ def save_measured(store: "Store", column_id: str, shape: str, typed: dict[str, s
         section = {"shape": shape, **{k: text for k, (text, _) in dims.items()},
                    **({"welded": True} if welded else {}), **kept}
         what = f"measured {_SHAPE_WORDS[shape]} ({len(dims)} readings)"
-    # the section is checked before any reading is kept, so a refusal leaves nothing behind
-    change = _save_record(store, column_id, section, what, fresh=True)
-    ids = []
-    try:
-        for key, (text, _) in dims.items():
-            ids.append(store.add_measurement(
-                column_id, f"section.{key}", text, kind="length", gauge=gauge or None,
-                taken_by=person or None, visit_id=visit_id,
-                note="measured to identify the section").id)
-    except BaseException:
-        for rid in ids:
-            store.delete("measurements", rid)
-        store.update_column(column_id, record=change.record_before)
-        raise
-    return Change(column_id, what, tuple(ids), change.record_before,
-                  check_now(store, column_id))
+    # the section, its readings and the check in one transaction: a reading refused (its
+    # gauge, who took it) leaves every row as it was, not a record put back and tombstones
+    with store.transaction():
+        change = _save_record(store, column_id, section, what, fresh=True)
+        ids = [store.add_measurement(
+                   column_id, f"section.{key}", text, kind="length", gauge=gauge or None,
+                   taken_by=person or None, visit_id=visit_id,
+                   note="measured to identify the section").id
+               for key, (text, _) in dims.items()]
+        return Change(column_id, what, tuple(ids), change.record_before,
+                      check_now(store, column_id))
 
 
 def set_plates(store: "Store", column_id: str, thickness: str | None,
@@ -610,4 +610,7 @@ def set_plates(store: "Store", column_id: str, thickness: str | None,
         plates.update(connection=how, pitch=kept)
         what += f", {how} at {kept}"
     section["plates"] = plates
-    return _save_record(store, column_id, section, what)
+    pitch_word = {"riveted": "rivet pitch", "bolted": "bolt pitch"}.get(how, "plate pitch")
+    return _save_record(store, column_id, section, what, entries={
+        "section.plates.thickness": "plate thickness", "section.plates.width": "plate width",
+        "section.plates.pitch": pitch_word, "section.plates.connection": "plate connection"})

@@ -88,11 +88,15 @@ def site_change(site_id: str | None, values: dict[str, str]) -> Change:
     def do(store: "Store") -> str:
         fields = _fields(values)
         if site_id is None:
-            site = store.add_site(fields.pop("name"), code=fields.pop("code"),
-                                  unit_system=fields.pop("unit_system"),
-                                  address=fields.pop("address"), owner_ref=fields.pop("owner_ref"))
+            # one transaction: a default refused by update_site (gamma_M1, material) must not
+            # leave the new site half made
+            with store.transaction():
+                site = store.add_site(fields.pop("name"), code=fields.pop("code"),
+                                      unit_system=fields.pop("unit_system"),
+                                      address=fields.pop("address"),
+                                      owner_ref=fields.pop("owner_ref"))
+                store.update_site(site.id, **fields)
             kept["new"] = site.id
-            store.update_site(site.id, **fields)
             return site.id
         old = store.get_site(site_id)
         kept["old"] = {k: getattr(old, k) for k in fields}
