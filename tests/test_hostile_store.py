@@ -209,6 +209,26 @@ def test_a_lone_surrogate_is_named_and_nothing_is_written(fresh, make, field):
         store.end_visit()
 
 
+@pytest.mark.parametrize("make, field", [
+    (lambda st, C, S: sites.add_column_change(S, {"tag": "Z/\x001"})[0](st), "tag"),
+    (lambda st, C, S: readings.add_reading(st, C, "plumb", "1/2 in", note="bay\x07 3"), "note"),
+    (lambda st, C, S: rm.save_brace(st, C, {**rm.empty_draft(st.current_record(C)),
+                                            "note": "strut\x00"}),
+     "restraints.weak.braces[1].note"),
+])
+def test_a_control_character_is_named_and_nothing_is_written(fresh, make, field):
+    # a NUL ends a text early in C strings, CSV readers and PDF text (ISO/IEC 646 C0 controls:
+    # U+0000-U+001F and U+007F); tab, line feed and carriage return stay allowed in notes
+    store, site, path = fresh
+    cid = store.find_column(site.id, "C/3-G").id
+    before = dump(path)
+    with pytest.raises(InputError) as e:
+        make(store, cid, site.id)
+    assert e.value.field == field and "control character" in e.value.reason
+    assert dump(path) == before
+    readings.add_reading(store, cid, "plumb", "1/2 in", note="line 1\n\tline 2\r\n")
+
+
 def test_a_new_site_refused_for_its_gamma_leaves_no_site(fresh):
     # before: the site was added, then its defaults refused: a site half made
     store, _, path = fresh
@@ -319,7 +339,8 @@ def _cli(argv):
 
 @pytest.mark.parametrize("row, col, cell", [(0, 5, "1e300 ft"), (1, 4, '{"name": NaN}'),
                                             (2, 2, "x" * 140_000), (0, 6, "a\nb"),
-                                            (1, 7, "nan kip")])
+                                            (1, 7, "nan kip"), (0, 0, "A/\x001"),
+                                            (2, 3, "west\x1bwall")])
 def test_import_schedule_refuses_with_row_and_column_and_exit_2(depot, row, col, cell):
     rows = [list(r) for r in ROWS]
     rows[row][col] = cell

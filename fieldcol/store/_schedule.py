@@ -500,6 +500,13 @@ def _rows_after(records: Iterator[tuple[int, list[str] | RowError]],
             yield n, RowError(n, "row", ",".join(cells[width:])[:80],
                               "more cells than header columns", None)
             continue
+        if v.CONTROL.search("".join(cells)):  # (one search a row; the cell found after)
+            i, bad = next((i, m) for i, c in enumerate(cells) if (m := v.CONTROL.search(c)))
+            yield n, RowError(n, names[i] if i < width else "row",
+                              cells[i].encode("unicode_escape").decode("ascii")[:80],
+                              f"holds a control character (U+{ord(bad.group()):04X})",
+                              "type the cell again")
+            continue
         got = len(cells)
         row = {}
         for i, name in enumerate(names):

@@ -35,6 +35,10 @@ def text(value: Any, field: str, *, required: bool = True) -> str | None:
     return v
 
 
+#: C0 control characters and DEL, but tab, line feed and carriage return (notes keep lines)
+CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f]")
+
+
 def _utf8(value: str, field: str) -> None:
     """A lone surrogate (``"\\ud800"``: JSON escapes can carry one) is no character: SQLite
     cannot take it as UTF-8, so it is refused here, named, before anything is written."""
@@ -44,6 +48,11 @@ def _utf8(value: str, field: str) -> None:
         raise InputError(field, value.encode("utf-8", "backslashreplace").decode("utf-8"),
                          f"holds a code that is no character at position {e.start + 1}",
                          "type the text again") from None
+    bad = CONTROL.search(value)
+    if bad:  # a NUL ends the text early in C, a CSV reader or a PDF; the others print nothing
+        raise InputError(field, value.encode("unicode_escape").decode("ascii")[:80],
+                         f"holds a control character (U+{ord(bad.group()):04X}) at position "
+                         f"{bad.start() + 1}", "type the text again")
 
 
 def choice(value: Any, field: str, allowed: tuple[str, ...], *, required: bool = True) -> str | None:
@@ -150,10 +159,12 @@ def record(value: Any, field: str = "record") -> dict[str, Any]:
         raise InputError(f"{field}.tag", repr(tag), "the column tag is required", "e.g. B/4-L1")
     check_record_keys(value)
     try:
-        json_text(value, field)
+        out = json_text(value, field)
     except InputError:
         _json_entries(value, "")  # the entry JSON cannot hold, named by its path in the record
         raise
+    if "\\u00" in out or "\\b" in out or "\\f" in out:  # JSON escapes a control character so
+        _json_entries(value, "")  # (or a backslash was typed): find it, named by its path
     return value
 
 
