@@ -519,6 +519,12 @@ def _add_plates(new: dict, opt: Mapping, fld: str, renames: dict[str, str]) -> N
         raise InputError(f"{fld}.thickness", "", "required: the plate thickness", 'e.g. "3/8 in"')
     spec = new["section"]
     spec = {"name": spec} if isinstance(spec, str) else copy.deepcopy(dict(spec))
+    if spec.get("built") is not None:
+        # said here: the section parser would only call "plates" an unknown key of a built-up one
+        raise InputError(f"{fld}.kind", "plates", "this column is built up; cover plates are "
+                         "added to a rolled or welded I section",
+                         "a built-up section takes its flange plates in section.built: "
+                         "check a copy of the record with them")
     if spec.get("plates") is not None:
         raise InputError(fld, opt.get("thickness"), "the section already carries cover plates",
                          "plates on plates are not modelled")

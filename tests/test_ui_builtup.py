@@ -202,3 +202,25 @@ def test_torsion_of_battened_channels_is_reported_not_applied_and_said_so(demo):
     s = cm.check_summary(result, "us")
     tors = next(c for c in s.capacities if c.mode == "torsional")
     assert not tors.applies and not tors.governs
+
+
+def test_the_retrofit_tab_offers_no_cover_plates_on_a_built_up_column(demo):  # noqa: F811
+    # cover plates are added to a rolled or welded I section (the engine refuses them on a
+    # built-up one: tests/test_hostile_records.py); the form offers only what it can compare
+    store, site = demo
+
+    async def walk():
+        cid = store.find_column(site.id, "C/3-G").id
+        s = await Screen.opened(store, cid)
+        await s.tap("tab-retrofit")
+        assert s.has("option-kind-plates") and not s.has("option-no-plates")
+        await s.tap("option-kind-plates")
+        await s.tap("tab-section")
+        for key, text in BATTENED.items():
+            await s.type(f"built-{key}", text, submit=False)
+        await s.tap("save-built")
+        await s.tap("tab-retrofit")
+        assert not s.has("option-kind-plates") and s.has("option-kind-brace")
+        assert "built up" in s.text("option-no-plates")
+        assert s.has("option-at")  # the picked plates gave way to a brace, ready to type
+    _run(walk())

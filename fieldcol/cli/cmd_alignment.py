@@ -42,8 +42,15 @@ def run(args: argparse.Namespace) -> int:
     from fieldcol.cli import print_json
     from fieldcol.stability import k_alignment
 
+    from fieldcol.errors import InputError
+
     args.ga, args.gb = _g(args.ga, "ga"), _g(args.gb, "gb")
-    k = float(k_alignment(args.ga, args.gb, args.sway, field="ga and gb"))
+    if args.sway and math.isinf(args.ga) and math.isinf(args.gb):
+        # named here: the engine's own words ("Ga = Gb = inf") are not what was typed
+        raise InputError("gb", "pinned (with ga pinned too)",
+                         "mechanism: a sway column pinned at both ends",
+                         "give one end a finite G, or leave out --sway for a braced frame")
+    k = float(k_alignment(args.ga, args.gb, args.sway, field="ga, gb"))
     if args.json:
         print_json({"Ga": args.ga if math.isfinite(args.ga) else "inf",
                     "Gb": args.gb if math.isfinite(args.gb) else "inf",

@@ -178,6 +178,36 @@ def option_of(kind: str, typed: dict[str, Any]) -> dict[str, Any]:
     return opt
 
 
+def plates_refused(record: dict[str, Any]) -> str | None:
+    """Why cover plates cannot be an option for this column, or None when they can.
+
+    The engine is asked with a trial plate, so the form offers exactly what a comparison takes
+    (a built-up or hollow section, or one already plated, takes no cover plates).
+
+    Args:
+        record: the column record as it stands.
+
+    Returns:
+        The engine's reason in words, or None (also when the record itself cannot be checked:
+        its own error is shown where the column is).
+
+    Example:
+        >>> plates_refused({"tag": "C1", "section": "HSS8X8X1/4", "material": "A500B",
+        ...                 "length": "12 ft"})
+        'plates on hollow sections are not modelled'
+        >>> plates_refused({"tag": "C1", "section": "W14X90", "material": "A992",
+        ...                 "length": "12 ft"}) is None
+        True
+    """
+    from fieldcol.retrofit import apply_option
+
+    try:
+        apply_option(record, {"kind": "plates", "thickness": "10 mm"})
+    except InputError as e:
+        return e.reason if e.field.startswith("option") else None
+    return None
+
+
 def form_field(e: InputError) -> str:
     """The form field an engine error on an option names (``option.cable.area`` -> ``area``).
 
@@ -376,6 +406,6 @@ def brace_sweep(store: "Store", column_id: str, axis: str, *, points: int = 11,
                  demand_text=_force(res.demand, system))
 
 
-__all__ = ["KIND_WORDS", "FORM_FIELDS", "CHOICES", "Compared", "Sweep", "SweepPoint",
+__all__ = ["plates_refused", "KIND_WORDS", "FORM_FIELDS", "CHOICES", "Compared", "Sweep", "SweepPoint",
            "option_of", "form_field", "compare_option", "saved_options", "keep_option",
            "drop_option", "sweep_axis", "brace_sweep"]

@@ -4,7 +4,7 @@ proposed brace up the column on a chart.
 
 Identifiers: ``caution``, ``option-kind-<kind>``, ``part-kind-<kind>``, ``option-<field>``,
 ``option-axis-<a>``, ``option-end-<e>``, ``option-to-<t>``, ``option-twist``, ``option-add-part``,
-``option-part-<i>``, ``option-compare``, ``option-keep``, ``retrofit-compare``,
+``option-part-<i>``, ``option-no-plates``, ``option-compare``, ``option-keep``, ``retrofit-compare``,
 ``retrofit-note``, ``sweep-axis-<a>``, ``sweep-run``, ``sweep-chart``, ``retrofit-<i>``,
 ``retrofit-<i>-line``, ``retrofit-<i>-drop``.
 """
@@ -135,6 +135,7 @@ class RetrofitTab(Tab):
         super().__init__(app)
         self.options: list[rm.Compared] | None = None
         self.load_error: str | None = None
+        self.no_plates: str | None = None  # why cover plates are not offered for this column
         self.root = ft.Column(spacing=12, horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
         self.note = ft.Text("", size=16, color=INK)
 
@@ -152,8 +153,9 @@ class RetrofitTab(Tab):
         """Check every kept option against the column as it stands (off the UI loop)."""
         cid = self.cid
         store = self.app.store
-        key = await asyncio.to_thread(lambda: json.dumps(store.current_record(cid),
-                                                         sort_keys=True))
+        record = await asyncio.to_thread(store.current_record, cid)
+        key = json.dumps(record, sort_keys=True)
+        self.no_plates = await asyncio.to_thread(rm.plates_refused, record)
         try:
             self.options = await asyncio.to_thread(rm.saved_options, store, cid)
             self.load_error = None
@@ -163,6 +165,10 @@ class RetrofitTab(Tab):
         if st.get("record") != key:
             # what was on screen was for the column as it was: it is worked out again on request
             st.update(record=key, compared=None, sweep=None)
+        if self.no_plates:  # a choice the column cannot take is not left picked
+            st["kind"] = "brace" if st["kind"] == "plates" else st["kind"]
+            st["part"] = "brace" if st["part"] == "plates" else st["part"]
+            st["parts"] = [p for p in st["parts"] if p.get("kind") != "plates"]
 
     def controls(self) -> list[ft.Control]:
         """The tab's body (synchronous)."""
@@ -235,9 +241,13 @@ class RetrofitTab(Tab):
 
     def _builder(self) -> ft.Control:
         st = self.st
-        kinds = [(k, w) for k, w in rm.KIND_WORDS.items()]
+        kinds = [(k, w) for k, w in rm.KIND_WORDS.items() if k != "plates" or not self.no_plates]
         body: list[ft.Control] = [choice_row("option-kind", kinds, st["kind"], self._kind,
                                              "kind of option")]
+        if self.no_plates:
+            body.append(ft.Semantics(identifier="option-no-plates", content=text_line(
+                f"Cover plates are not offered here: {self.no_plates}.", size=16,
+                color=MUTED)))
         if st["kind"] == "combined":
             for i, part in enumerate(st["parts"]):
                 body.append(ft.Semantics(identifier=f"option-part-{i}", content=ft.Row([
@@ -250,7 +260,7 @@ class RetrofitTab(Tab):
                 body.append(text_line("Add the parts one at a time; they are applied in order.",
                                       size=16, color=MUTED))
             body.append(text_line("Next part", size=16, bold=True))
-            body.append(choice_row("part-kind", [(k, rm.KIND_WORDS[k]) for k in SINGLE],
+            body.append(choice_row("part-kind", [(k, w) for k, w in kinds if k in SINGLE],
                                    st["part"], self._part_kind, "kind of part"))
             body += self._fields(st["part"])
             body.append(ft.Semantics(identifier="option-add-part", button=True,
