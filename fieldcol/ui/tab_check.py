@@ -99,7 +99,7 @@ class CheckTab(Tab):
         if s is None or d.check is None:
             body = v.check_body(d)
             self.first = 2
-            return _keyed([*body[:1], v.caution_box()], "result", "caution") + \
+            return _keyed([*body, v.caution_box()], "result", "caution") + \
                 [self.edit, self.loads.draw(), *_keyed(v.record_body(d), "column", "record")]
         chart = cv.chart_card(s, width=330)   # fits the phone and the tablet's right pane
         result = cv.result_cards(s)

@@ -263,13 +263,16 @@ def mark_selected(row: ft.Control, selected: bool) -> None:
 
 # -- one column ----------------------------------------------------------------------------
 def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
-    """The latest check in full: result, modes, warnings, the trace (expandable).
+    """The headline of the latest check: status, utilization, what governs, when.
+
+    Drawn while the full reading (``check_model.latest_summary``) is not there yet; the modes,
+    warnings and trace are drawn from that one reading only.
 
     Args:
         detail: ``model.column_detail(...)``.
 
     Returns:
-        The controls (a "not checked" note when the column has no check yet).
+        One card (a "not checked" note when the column has no check yet).
 
     Example: ``check_body(detail)``.
     """
@@ -280,38 +283,14 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
                        text_line("Tap 'Check again' to check this column.", color=MUTED)],
                       title="Latest check")]
     fg = TONES[chk.status.tone][0]
-    summary = _card([
+    return [_card([
         ft.Row([status_chip(chk.status, big=True, identifier="status")]),
         text_line(f"Utilization {chk.utilization} = demand {chk.demand} / design strength "
-              f"{chk.design_strength}", size=16, color=INK),
+                  f"{chk.design_strength}", size=16, color=INK),
         ft.Semantics(identifier="governing", content=text_line(
             f"Governing: {chk.governing}", bold=True, color=fg)),
         text_line(f"{chk.code} · checked {chk.checked_at}", size=16, color=MUTED),
-    ], title="Latest check")
-    modes = _card([ft.Column([
-        text_line(md.name + (" (governs)" if md.governing else ""), bold=md.governing),
-        text_line((f"effective length {md.effective_length} · " if md.effective_length else "")
-              + f"nominal strength {md.strength}", size=16, color=MUTED)],
-        spacing=1) for md in chk.modes], title="Every mode")
-    out: list[ft.Control] = [summary, modes]
-    if chk.warnings:
-        out.append(_card([ft.Row([ft.Icon(ft.Icons.REPORT_PROBLEM_OUTLINED, color=CAUTION_EDGE),
-                                  ft.Text(w, size=16, color=INK, expand=True)],
-                                 vertical_alignment=ft.CrossAxisAlignment.START)
-                          for w in chk.warnings], title="Warnings"))
-    steps = [ft.Container(content=ft.Column([
-        text_line(f"{s.symbol} = {s.value}", bold=True, selectable=True),
-        text_line(s.what, size=16),
-        text_line(" · ".join(x for x in (s.formula, s.clause) if x), size=16, color=MUTED)],
-        spacing=1), padding=ft.Padding.symmetric(vertical=4))
-        for s in chk.steps]
-    out.append(ft.Container(content=ft.ExpansionTile(
-        title=text_line(f"Calculation trace ({len(chk.steps)} steps)", bold=True),
-        controls=steps, controls_padding=ft.Padding.symmetric(horizontal=12),
-        expanded_cross_axis_alignment=ft.CrossAxisAlignment.START,
-        maintain_state=False), border=ft.Border.all(1, LINE), border_radius=10,
-        bgcolor=CARD))
-    return out
+    ], title="Latest check")]
 
 
 def record_body(detail: m.ColumnDetail) -> list[ft.Control]:
