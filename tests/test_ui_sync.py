@@ -151,3 +151,66 @@ def test_sync_lines_say_what_the_device_holds(tmp_path: Path):
     assert lines[0].startswith("changes kept here: 2 (2 made on this device)")
     assert lines[1] == "changes waiting for their column or site to arrive: 0"
     assert not any("conflict" in t for t in lines)
+
+
+def _serve_screen(db: Path, tmp_path: Path) -> tuple[subprocess.Popen, int]:
+    port = free_port()
+    log = tmp_path / "screen.log"
+    env = {**os.environ, "FLET_FORCE_WEB_SERVER": "true"}
+    with open(log, "w") as out:
+        proc = subprocess.Popen([sys.executable, "-c", "import sys; from fieldcol.ui.sync_view "
+                                 "import serve; serve(sys.argv[1], int(sys.argv[2]))", str(db),
+                                 str(port)], env=env, stdout=out, stderr=subprocess.STDOUT)
+    _listening(proc, port, log)
+    return proc, port
+
+
+def test_a_bundle_is_saved_and_another_opened_from_the_sync_screen(tmp_path: Path, browser):
+    """No network at all: the phone saves its changes as a bundle (a download here), and opens a
+    bundle made on the office tablet; a damaged file is refused, naming it, nothing changed."""
+    from fieldcol.sync._bundle import export_bundle, import_bundle
+
+    db = tmp_path / "phone.db"
+    with Store(db) as a:
+        site = a.add_site("Kestrel Lane Print Works", code="aisc360-22", unit_system="us")
+        a.add_column(site.id, {"tag": "C4", "section": "W10X49", "length": "14 ft"})
+    with Store(tmp_path / "tablet.db") as t:
+        other = t.add_site("Heron Quay Cold Store", code="en1993-1-1", unit_system="si")
+        t.add_column(other.id, {"tag": "K2", "section": "HEB 200", "length": "4.2 m"})
+        export_bundle(t, tmp_path / "from-tablet.zip")
+    bad = tmp_path / "damaged.zip"
+    bad.write_bytes((tmp_path / "from-tablet.zip").read_bytes()[:300])  # cut short in transit
+    proc, port = _serve_screen(db, tmp_path)
+    try:
+        page = _open(browser, f"http://127.0.0.1:{port}", PHONE)
+        with page.expect_download(timeout=60_000) as got:
+            _wait(page, "bundle-save").click()
+        saved = tmp_path / got.value.suggested_filename
+        got.value.save_as(saved)
+        assert saved.name.startswith("fieldcol-") and saved.suffix == ".zip"
+        _poll(lambda: page.locator(_sel("bundle-status")).first.inner_text(),
+              lambda t: "2 changes" in t, "bundle saved")
+        with Store(tmp_path / "office.db") as office:  # the saved file is a whole bundle
+            assert import_bundle(office, saved).new == 2
+            assert office.find_column(office.list_sites()[0].id, "C4") is not None
+        for path, said in ((bad, "Not opened: damaged.zip"),
+                           (tmp_path / "from-tablet.zip", "2 new changes of 2")):
+            with page.expect_file_chooser(timeout=60_000) as chooser:
+                _wait(page, "bundle-open").click()
+            chooser.value.set_files(str(path))
+            _poll(lambda: page.locator(_sel("bundle-status")).first.inner_text(),
+                  lambda t, s=said: s in t, f"bundle {path.name}", timeout=60)
+            if path == bad:
+                with Store(db) as a:  # refused whole: the phone's store as it was
+                    assert [s.name for s in a.list_sites()] == ["Kestrel Lane Print Works"]
+                assert "Nothing was changed" in page.content()
+        SHOTS.mkdir(parents=True, exist_ok=True)
+        time.sleep(1)
+        page.screenshot(path=str(SHOTS / "bundle.png"))
+        assert page.refused == [] or all("rive" in u for u in page.refused)
+    finally:
+        proc.terminate()
+        proc.wait(10)
+    with Store(db) as a:
+        assert sorted(s.name for s in a.list_sites()) == ["Heron Quay Cold Store",
+                                                          "Kestrel Lane Print Works"]

@@ -1,5 +1,6 @@
-"""Photos into the app: the platform picker (which offers the camera on a phone build) or, in a
-browser, a file upload to the server.
+"""Files into and out of the app: photos and field bundles through the platform picker (which
+offers the camera on a phone build) or, in a browser, a file upload to the server; a bundle out
+through the platform's save dialog (a download in a browser).
 
 In web mode the Python side runs on the server and the picker gives no path and no bytes: each
 picked file is uploaded (HTTP PUT to a signed URL) into ``UPLOAD_DIR``, read once, then removed.
@@ -10,7 +11,8 @@ Public API::
 
     Picked(name, data)
     intake_for(page) -> Intake          # one per session, kept referenced (a Flet service)
-    await intake.pick(camera=False) -> list[Picked]
+    await intake.pick(many=True, what="photo") -> list[Picked]     # or what="bundle"
+    await intake.save(name, data)       # a file out: the save dialog, or a download
     configure_uploads() -> str          # the upload folder, made and remembered
 """
 
@@ -32,6 +34,15 @@ from fieldcol.errors import InputError
 
 UPLOAD_DIR: str | None = None
 MAX_BYTES = 64 * 1024 * 1024   # the store refuses larger photos too
+#: a bundle carries a site's photos: 512 MB is several hundred phone photos, and what a phone
+#: can hold in memory to hand over
+BUNDLE_BYTES = 512 * 1024 * 1024
+# what -> (picker file type, extensions, largest file, what to do about a larger one)
+_KINDS = {"photo": (ft.FilePickerFileType.IMAGE, None, MAX_BYTES,
+                    "the file is larger than 64 MB", "take the photo at a lower resolution"),
+          "bundle": (ft.FilePickerFileType.CUSTOM, ["zip"], BUNDLE_BYTES,
+                     "the file is larger than 512 MB",
+                     "make the bundle on the other device with fewer photos (since a date)")}
 _INTAKES: "weakref.WeakKeyDictionary[ft.Page, Intake]" = weakref.WeakKeyDictionary()
 _UNSAFE = re.compile(r"[^A-Za-z0-9._-]+")
 
@@ -59,7 +70,7 @@ def configure_uploads(folder: str | None = None) -> str:
     os.makedirs(UPLOAD_DIR, mode=0o700, exist_ok=True)
     # a per-run key: upload URLs are signed and die with the server
     os.environ.setdefault("FLET_SECRET_KEY", secrets.token_urlsafe(32))
-    os.environ.setdefault("FLET_MAX_UPLOAD_SIZE", str(MAX_BYTES))
+    os.environ.setdefault("FLET_MAX_UPLOAD_SIZE", str(BUNDLE_BYTES))  # photos: MAX_BYTES, below
     return UPLOAD_DIR
 
 
@@ -71,39 +82,56 @@ class Intake:
         self.picker = ft.FilePicker(on_upload=self._on_upload)
         self._waiting: dict[str, asyncio.Future[str | None]] = {}
 
-    async def pick(self, *, many: bool = True) -> list[Picked]:
-        """Ask for photos; gives them read (an empty list when the engineer cancels).
+    async def pick(self, *, many: bool = True, what: str = "photo") -> list[Picked]:
+        """Ask for photos or a bundle; gives them read (an empty list when the engineer cancels).
 
         Args:
             many: allow several at once.
+            what: ``"photo"`` (images) or ``"bundle"`` (a field bundle, ``.zip``).
 
         Returns:
-            The picked photos. Raises ``InputError`` on field ``photo`` when one cannot be
-            received (too large, upload refused), naming the file.
+            The picked files. Raises ``InputError`` on field ``photo`` (or ``bundle``) when one
+            cannot be received (too large, upload refused), naming the file.
 
         Example: ``photos = await intake_for(page).pick()``.
         """
+        kind, extensions, limit, too_big, hint = _KINDS[what]
         web = bool(getattr(self.page, "web", False))
         files = await self.picker.pick_files(
-            file_type=ft.FilePickerFileType.IMAGE, allow_multiple=many, with_data=not web)
+            file_type=kind, allowed_extensions=extensions, allow_multiple=many,
+            with_data=not web)
         out = []
         for f in files or []:
-            if f.size and f.size > MAX_BYTES:
-                raise InputError("photo", f.name, "the file is larger than 64 MB",
-                                 "take the photo at a lower resolution")
+            if f.size and f.size > limit:
+                raise InputError(what, f.name, too_big, hint)
             if f.bytes:
                 out.append(Picked(f.name, f.bytes))
             elif f.path:
                 out.append(Picked(f.name, await asyncio.to_thread(Path(f.path).read_bytes)))
             else:
-                out.append(Picked(f.name, await self._upload(f)))
+                out.append(Picked(f.name, await self._upload(f, what)))
         return out
 
-    async def _upload(self, f: ft.FilePickerFile) -> bytes:
+    async def save(self, name: str, data: bytes) -> str | None:
+        """Hand a file out: the platform's save dialog, or a download in a browser.
+
+        Args:
+            name: the file name offered.
+            data: its bytes.
+
+        Returns:
+            The path chosen on a desktop; None in a browser or on a phone (the platform keeps
+            the file) or when the engineer cancels.
+
+        Example: ``await intake_for(page).save("site.zip", data)``.
+        """
+        return await self.picker.save_file(file_name=name, src_bytes=data)
+
+    async def _upload(self, f: ft.FilePickerFile, what: str) -> bytes:
         if UPLOAD_DIR is None:
-            raise InputError("photo", f.name, "this server takes no uploads",
+            raise InputError(what, f.name, "this server takes no uploads",
                              "start the app with `fieldcol app`")
-        rel = f"{uuid.uuid4().hex}/{_UNSAFE.sub('_', f.name)[-80:] or 'photo'}"
+        rel = f"{uuid.uuid4().hex}/{_UNSAFE.sub('_', f.name)[-80:] or what}"
         done: asyncio.Future[str | None] = asyncio.get_running_loop().create_future()
         self._waiting[f.name] = done
         try:
@@ -117,10 +145,10 @@ class Intake:
         path = Path(UPLOAD_DIR) / rel
         try:
             if error:
-                raise InputError("photo", f.name, f"the upload failed ({error})", "try again")
+                raise InputError(what, f.name, f"the upload failed ({error})", "try again")
             return await asyncio.to_thread(path.read_bytes)
         except OSError as e:
-            raise InputError("photo", f.name, f"the upload did not arrive ({e})",
+            raise InputError(what, f.name, f"the upload did not arrive ({e})",
                              "try again") from None
         finally:
             path.unlink(missing_ok=True)  # the store keeps its own copy

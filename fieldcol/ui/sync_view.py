@@ -1,5 +1,6 @@
 """The sync screen: hub address and token (kept on this device only), a sync button with
-progress, what went and came, and the conflicts to review.
+progress, what went and came, the conflicts to review, and field bundles (save this device's
+changes as one file, open one made elsewhere) for when there is no network.
 
 ``SyncScreen(page, store)`` builds its controls and runs the sync in a worker thread;
 ``sync_lines(store)`` and ``conflict_cards(store)`` are the plain view-models (tested without
@@ -102,6 +103,16 @@ class SyncScreen:
         self.summary = ft.Column([], spacing=2)
         self.button = ft.Button("Sync now", icon=ft.Icons.SYNC, height=TAP,
                                 on_click=self.sync)
+        self.bundle_status = ft.Text("", size=16, color=INK)
+        self.bundle_buttons = [
+            ft.Semantics(identifier="bundle-save", button=True, content=ft.OutlinedButton(
+                "Save a bundle", icon=ft.Icons.ARCHIVE_OUTLINED, height=TAP,
+                on_click=self.save_bundle)),
+            ft.Semantics(identifier="bundle-open", button=True, content=ft.OutlinedButton(
+                "Open a bundle", icon=ft.Icons.UNARCHIVE_OUTLINED, height=TAP,
+                on_click=self.open_bundle))]
+        from fieldcol.ui.intake import intake_for
+        intake_for(page)  # the picker is a service: in the page before its first use
 
     def _typed(self, _e: Any = None) -> None:
         self.status.value = ""
@@ -182,6 +193,52 @@ class SyncScreen:
             self.button.disabled, self.progress.visible = False, False
         await self.refresh()
 
+    def _bundle_busy(self, words: str | None) -> None:
+        for b in self.bundle_buttons:
+            b.content.disabled = words is not None
+        if words is not None:
+            self.bundle_status.value = words
+        self.page.update()
+
+    async def save_bundle(self, _e: Any = None) -> None:
+        """Make a bundle of every change kept here and hand it out (a download in a browser)."""
+        from fieldcol.ui.bundles import made_words, make_bundle
+        from fieldcol.ui.intake import intake_for
+
+        self._bundle_busy("Making the bundle...")
+        try:
+            made = await asyncio.to_thread(make_bundle, self.store)
+            await intake_for(self.page).save(made.name, made.data)
+            self.bundle_status.value = made_words(made)
+        except InputError as e:
+            self.bundle_status.value = f"Not saved: {e.reason}" + (f" ({e.hint})" if e.hint else "")
+        finally:
+            self._bundle_busy(None)
+
+    async def open_bundle(self, _e: Any = None) -> None:
+        """Pick a bundle, check it whole and merge it; say what came and show any conflicts."""
+        from fieldcol.ui.bundles import open_bundle, opened_words
+        from fieldcol.ui.intake import intake_for
+
+        name = "the bundle"
+        try:
+            picked = await intake_for(self.page).pick(many=False, what="bundle")
+            if not picked:
+                return
+            name = picked[0].name
+            self._bundle_busy(f"Checking {name}...")
+            info = await asyncio.to_thread(open_bundle, self.store, name, picked[0].data)
+            self.bundle_status.value = opened_words(info)
+        except InputError as e:
+            # an operation inside it names its own field; the file is named either way
+            where = "" if e.field == "bundle" else f"{e.field}: "
+            self.bundle_status.value = (f"Not opened: {name}: {where}{e.reason}"
+                                        + (f" ({e.hint})" if e.hint else "")
+                                        + ". Nothing was changed.")
+        finally:
+            self._bundle_busy(None)
+        await self.refresh()
+
     def controls(self) -> list[ft.Control]:
         """The screen's body."""
         head = ft.Text("Office hub", size=18, weight=ft.FontWeight.BOLD, color=INK)
@@ -193,7 +250,15 @@ class SyncScreen:
                 ft.Semantics(identifier="sync-status", content=self.status),
                 self.moved, self.summary,
                 ft.Text("Conflicts to review", size=18, weight=ft.FontWeight.BOLD, color=INK),
-                self.conflicts]
+                self.conflicts,
+                ft.Text("Field bundle (no network)", size=18, weight=ft.FontWeight.BOLD,
+                        color=INK),
+                ft.Text("Carry this device's changes and photos as one file, or open a file "
+                        "made on another device. Opening one twice changes nothing.", size=16,
+                        color=MUTED),
+                ft.Row(self.bundle_buttons, wrap=True, spacing=8),
+                ft.Semantics(identifier="bundle-status", live_region=True,
+                             content=self.bundle_status)]
 
 
 def serve(db: str, port: int) -> None:
@@ -215,4 +280,7 @@ def serve(db: str, port: int) -> None:
         page.add(ft.ListView(screen.controls(), spacing=12, padding=12, expand=True))
         await screen.refresh()
 
-    ft.run(main, view=ft.AppView.WEB_BROWSER, host="127.0.0.1", port=port, no_cdn=True)
+    from fieldcol.ui.intake import configure_uploads
+
+    ft.run(main, view=ft.AppView.WEB_BROWSER, host="127.0.0.1", port=port, no_cdn=True,
+           upload_dir=configure_uploads())  # a bundle picked in a browser arrives as an upload
