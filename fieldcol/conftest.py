@@ -10,7 +10,8 @@ import pytest
 
 # doctests of these modules run in a fresh temp folder holding a small real store
 _STORE_MODULES = ("fieldcol.store", "fieldcol.cli", "fieldcol.bench", "fieldcol.demo",
-                  "fieldcol.sync", "fieldcol.ui.sync_view", "fieldcol.ui.bundles")
+                  "fieldcol.sync", "fieldcol.ui.sync_view", "fieldcol.ui.bundles",
+                  "fieldcol.ui.report_view")
 
 # an invented column: W14X90, 30 ft, pinned both ways, 500 kip factored load
 REC = {"tag": "B/4-L1", "section": "W14X90", "material": "A992", "length": "30 ft",

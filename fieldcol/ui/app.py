@@ -1,7 +1,8 @@
 """The field app: routes, screens and the column screen's tabs over one open store.
 
 Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
-theme), ``/sync`` (the office hub: address, token, sync, conflicts), ``/sites/new``,
+theme), ``/sync`` (the office hub: address, token, sync, conflicts, field bundles),
+``/sites/<id>/report`` (the site's PDF report and CSV register, handed out), ``/sites/new``,
 ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``, ``/sites/<id>/new-column``,
 ``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
@@ -165,6 +166,8 @@ class FieldApp:
                 await self._show_column_form(parts[1])
             elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "visit":
                 await self._show_visit_form(parts[1])
+            elif len(parts) == 3 and parts[0] == "sites" and parts[2] == "report":
+                await self._show_report(parts[1])
             elif len(parts) == 2 and parts[0] == "sites":
                 await self._show_site(parts[1])
             elif len(parts) == 2 and parts[0] == "columns":
@@ -407,13 +410,24 @@ class FieldApp:
             else ft.Column([visit, new], spacing=8)
         return self.list.control(selected, tools)
 
+    async def _show_report(self, site_id: str) -> None:
+        from fieldcol.ui.report_view import ReportScreen
+
+        self.detail = None
+        card = await asyncio.to_thread(m.site_card, self.store, site_id)
+        screen = ReportScreen(self.page, self.store, site_id)
+        self._render(f"/sites/{site_id}/report", f"Report: {card.name}",
+                     screen.controls(card.summary), f"/sites/{site_id}")
+
     async def _show_site(self, site_id: str) -> None:
         self.detail = None
         # the rows shown before read again (checks may be new), then back where they were
         page = await self.list.load(site_id, fresh=True)
         await self._load_visit(site_id)
         title = page.site.name
-        actions = [self._action(ft.Icons.EDIT, "Edit site", "edit-site",
+        actions = [self._action(ft.Icons.PICTURE_AS_PDF, "Site report", "site-report",
+                                self._go(f"/sites/{site_id}/report")),
+                   self._action(ft.Icons.EDIT, "Edit site", "edit-site",
                                 self._go(f"/sites/{site_id}/edit"))]
         if not self.wide:
             self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions)

@@ -292,6 +292,15 @@ def _card(site: Any, counts: dict[str, int]) -> SiteCard:
         columns=counts["columns"], over=counts["over"], not_checked=counts["not_checked"])
 
 
+def site_card(store: "Store", site_id: str) -> SiteCard:
+    """One site's card: its column count and how many columns are over capacity.
+
+    Example: ``site_card(store, site.id).summary`` gives ``'24 columns, 5 over capacity'`` for
+    the demo site.
+    """
+    return _card(store.get_site(site_id), store.site_counts(site_id))
+
+
 def site_cards(store: "Store") -> list[SiteCard]:
     """Every live site with its column count and how many columns are over capacity.
 
