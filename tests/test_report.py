@@ -403,3 +403,54 @@ def test_a_columns_changes_of_result_are_on_its_sheet(tmp_path: Path):
     oldest = text.index(f"2026-04-01 09:00 UTC {u1:.2f} OVER")
     assert newest < oldest and "changed: loads" in text[newest:oldest]
     assert u2 == pytest.approx(u1 * 400 / 650, rel=1e-9)
+
+
+def test_the_demo_dates_what_was_seen_on_its_own_visits(demo):
+    """The demo's story holds together: every finding, reading, photo and check is dated on one
+    of the site's two visits, and the findings register says so, whenever the demo is built
+    (a finding stamped when the demo was built came after the report's own date)."""
+    store, site, _, _, pages = demo
+    visits = {v.date for v in store.list_visits(site.id)}
+    assert len(visits) == 2
+    findings = store.list_findings(site.id)
+    assert findings and all(f.created_at[:10] in visits for f in findings), \
+        [(f.text[:20], f.created_at) for f in findings]
+    dates = {v.id: v.date for v in store.list_visits(site.id)}
+    assert all(dates.get(f.visit_id) == f.created_at[:10] for f in findings)
+    for col in store.list_columns(site.id):
+        assert all(m.taken_at[:10] in visits for m in store.measurements(col.id))
+        chk = store.latest_check(col.id)
+        assert chk is None or chk.checked_at[:10] in visits
+    for f in findings:
+        for p in store.photos_of(finding_id=f.id):
+            # the photo taken as the finding was noted
+            assert p.exif_taken_at[:16] == f.created_at[:16], (p.exif_taken_at, f.created_at)
+    text = " ".join(pages)
+    register = text[text.index("Findings register Ref"):]
+    noted = re.findall(r"\b(20\d\d-\d\d-\d\d), (R\. Amadi|T\. Nguyen)\b", register)
+    assert len(noted) >= len(findings) and {d for d, _ in noted} <= visits, noted
+    late = [d for d in re.findall(r"\b20\d\d-\d\d-\d\d\b", text) if d > max(visits)]
+    assert set(late) <= {"2026-03-10"}, sorted(set(late))  # the report's own date alone
+
+
+def test_a_finding_noted_after_the_visit_keeps_when_and_by_whom_it_was_seen(tmp_path: Path):
+    with Store(tmp_path / "n.db") as store:
+        site = store.add_site("Slate Quay", code="aisc360-22", unit_system="us")
+        other = store.add_site("Mill Race", code="aisc360-22", unit_system="us")
+        visit = store.add_visit(site.id, "2026-05-02", who="J. Okafor")
+        f = store.add_finding(site.id, "Base plate cracked", category="damage",
+                              severity="high", noted_at="2026-05-02T09:40:00+01:00",
+                              noted_by="J. Okafor", visit_id=visit.id)
+        assert (f.created_at, f.created_by, f.visit_id) == (
+            "2026-05-02T08:40:00.000000Z", "J. Okafor", visit.id)
+        for kwargs, field in (({"noted_at": "2026-05-02 09:40"}, "noted_at"),
+                              ({"noted_at": "yesterday"}, "noted_at"),
+                              ({"noted_by": "   "}, "noted_by"),
+                              ({"visit_id": "no-such-visit"}, "visit"),
+                              ({"visit_id": store.add_visit(other.id, "2026-05-03").id},
+                               "visit")):
+            with pytest.raises(InputError) as e:
+                store.add_finding(site.id, "Web dented", category="damage", severity="low",
+                                  **kwargs)
+            assert e.value.field == field
+        assert len(store.list_findings(site.id)) == 1  # nothing half saved
