@@ -125,7 +125,7 @@ def test_over_columns_say_over_and_findings_show_their_text(demo):
     assert _flat(strap.text) in c3  # listed in its column's sheet too
     # the demo photos carry an EXIF time, printed under them in the photo grid
     photos = " ".join(t for t in pages if "Photographs" in t)
-    assert "taken 2026-02-10 11:00:00 +00:00" in photos
+    assert "taken 2026-02-10 10:20:00 +00:00" in photos  # A/2-G's rust, as noted
     assert re.search(r"P1 F1 corrosion, column \S+", photos)
 
 
@@ -454,3 +454,21 @@ def test_a_finding_noted_after_the_visit_keeps_when_and_by_whom_it_was_seen(tmp_
                                   **kwargs)
             assert e.value.field == field
         assert len(store.list_findings(site.id)) == 1  # nothing half saved
+
+
+def test_the_measured_bow_reads_as_its_warning_and_its_reading_do(demo):
+    """B/2-G: a bow of 1 1/8 in over 16 ft (string line). L/1000 = 0.192 in is allowed for in
+    the column curve (AISC 303 straightness tolerance L/1000), so 1.125 - 0.192 = 0.933 in is
+    checked as an eccentricity: 15/16 in to the nearest 1/16 (common practice on a tape). The
+    sheet's bow row writes the reading and its excess as the warning beside it does, not a
+    second way (0.933 in) for the same value."""
+    *_, pages = demo
+    b2 = _column_text(pages, "B/2-G")
+    row = re.search(r"Measured bow weak axis: bow (\S+ ?\S*\") measured, excess over L/1000 "
+                    r"(\S+\")", b2)
+    warn = re.search(r"measured bow (\S+ ?\S*\") exceeds L/1000 = \S+\", .*? the excess (\S+\")",
+                     b2)
+    assert row and warn, b2[:2000]
+    assert row.group(1) == warn.group(1) == '1 1/8"'
+    assert row.group(2) == warn.group(2) == '15/16"'
+    assert "0.933 in; capacity" not in b2

@@ -136,20 +136,24 @@ def _built_or_measured(section: dict) -> str:
 def sheet(d: dict, system: str) -> str:
     """The calculation sheet of an assessment's JSON form."""
     from fieldcol import CAUTION
+    from fieldcol.units import format_step, us_words
 
     out = [f"Column {d['tag']}  -  {d['edition']} ({d['basis']}), K basis: {d['k_basis']}",
            f"Section {d['section']['name'] or _built_or_measured(d['section'])}, "
            f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}",
            f"fieldcol {d['app_version']}", ""]
     out += ["Input"] + [f"  {line}" for line in _input_lines(d["input"])] + ["", "Calculation"]
+    # the engine writes its own units (mm, MPa) into a step's words: a US site reads inches, ksi
+    words = us_words if system == "us" else str
     for st in d["steps"]:
-        q = {"value": st["value"], "unit": st["unit"]} if isinstance(st["value"], float) else None
-        if q is None and st["symbol"] == "section":
-            out.append(f"  {'section':<14} {st['value']}")
+        if not isinstance(st["value"], float) and st["symbol"] == "section":
+            out.append(f"  {'section':<14} {words(str(st['value']))}")
             continue
-        val = show(q, system) if q else str(st["value"])
-        formula = f" = {st['formula']}" if st["formula"] else ""
-        out.append(f"  {st['symbol']:<14} {val:>16}  {st['what']}{formula}  [{st['clause']}]")
+        val = (format_step(st["value"], st["unit"], system) if isinstance(st["value"], float)
+               else words(str(st["value"])))
+        formula = f" = {words(st['formula'])}" if st["formula"] else ""
+        out.append(f"  {st['symbol']:<14} {val:>16}  {words(st['what'])}{formula}  "
+                   f"[{st['clause']}]")
     out += ["", "Modes"]
     for name, m in d["modes"].items():
         out.append(f"  {name:<16} Lc {show(m['effective_length'], system):>14}  "

@@ -3,7 +3,6 @@ per column, the photo grid."""
 
 from __future__ import annotations
 
-import dataclasses
 import json
 from typing import TYPE_CHECKING, Any
 
@@ -355,7 +354,7 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
-    _trace(pdf, summ, col.tag, c.check.result.get("steps") if c.check else None, system)
+    _trace(pdf, summ, col.tag)
     _result_history(pdf, c)
     _restraint_history(pdf, data, c)
     _measurement_history(pdf, c, system)
@@ -486,13 +485,26 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
              if d.get("governing_mode") else "none: no mode has a strength")]
     bow = d.get("bow")
     if bow:
-        rows.append(("Measured bow", f"{bow.get('axis')} axis, excess over {bow.get('allowance', 'L/1000')} "
-                     f"{tx.quantity(bow.get('excess'), system)}; capacity with the bow "
-                     f"{tx.quantity(bow.get('capacity'), system)} (axial alone "
-                     f"{tx.quantity(d.get('axial_design_strength'), system)})"))
+        rows.append(("Measured bow", _bow_text(bow, k.record, d, system)))
     if k.note:
         rows.append(("Note", k.note))
     return rows, [4] if word == "OVER" else []
+
+
+def _bow_text(bow: dict, record: Any, d: dict, system: str) -> str:
+    """The measured bow and its excess as the warning beside it and the app's record write a
+    bow (``format_length``: to the 1/16 in on a US site), then the capacity with it."""
+    from fieldcol.units import format_length
+
+    cond = record.get("condition") if isinstance(record, dict) else None
+    typed = cond.get("bow") if isinstance(cond, dict) else None
+    excess = _val(bow.get("excess"))
+    return (f"{bow.get('axis')} axis: "
+            + (f"bow {_length(typed, system)} measured, " if typed else "")
+            + f"excess over {bow.get('allowance', 'L/1000')} "
+            + ("-" if excess is None else format_length(excess, system))
+            + f"; capacity with the bow {tx.quantity(bow.get('capacity'), system)} (axial alone "
+            f"{tx.quantity(d.get('axial_design_strength'), system)})")
 
 
 #: each code's own symbols under the words of the table of modes (AISC 360-22 E3; EN 1993-1-1
@@ -618,7 +630,7 @@ TRACE_SYMBOL_MM, TRACE_VALUE_MM = (11.0, 18.0), (12.0, 19.0)
 
 def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tuple[float, ...]:
     """The trace's column widths (mm of one of its two columns): a symbol (``slender,flange``,
-    ``λ-bar_z ≤ 0.2``) or value (``1891784 mm^4``) on one line where it can be, the rest for
+    ``λ-bar_z ≤ 0.2``) or value (``1.892e6 mm^4``) on one line where it can be, the rest for
     the words."""
     from fieldcol.report._layout import PAD_X
 
@@ -634,20 +646,14 @@ def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tu
     return fit[0], fit[1], half - fit[0] - fit[1]
 
 
-def _trace(pdf: ReportPDF, summ: Any, tag: str, steps: list | None = None,
-           system: str = "us") -> None:
-    """The trace in two columns. ``steps`` (the check's own, in the same order as
-    ``summ.trace``) give a short length its decimal inches on a US site: a radius of gyration
-    to the nearest 1/16 in (2 15/16") does not give back the Lc/r printed beside it."""
+def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
+    """The trace in two columns, its values and words as the Check tab shows them
+    (``check_model`` wrote them in the site's units)."""
     if summ is None or not summ.trace:
         return
     rows = []
-    raw = steps if steps is not None and len(steps) == len(summ.trace) else [None] * len(summ.trace)
-    for t, st in zip(summ.trace, raw):
-        what = t.what  # (in the site's units: ``check_model`` made them so)
-        if (system == "us" and isinstance(st, dict) and st.get("unit") == "mm"
-                and isinstance(st.get("value"), (int, float))):
-            t = dataclasses.replace(t, value=tx.quantity(st, system))
+    for t in summ.trace:
+        what = t.what
         if t.formula:
             # a word (record, table, measured) says where the value came from; else an equation
             what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \

@@ -36,11 +36,6 @@ _AXIS_NAMES["elastic"] = _AXIS_NAMES["aisc360-22"]
 _SUFFIX = {"aisc360-22": {"flexural-strong": "x", "flexural-weak": "y", "torsional": "z"},
            "en1993-1-1": {"flexural-strong": "y", "flexural-weak": "z", "torsional": "T"}}
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
-_STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
-               "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle",
-               # checks saved before the built-up batten moment was written in N*mm
-               "N mm": "moment"}
 
 
 @dataclass(frozen=True)
@@ -125,7 +120,7 @@ def _fmt(value: float | None, kind: str, system: str) -> str:
 
 
 def _step_text(value: Any, unit: str, system: str) -> str:
-    from fieldcol.units import format_quantity
+    from fieldcol.units import format_step
 
     if value is None:
         return "none"
@@ -133,11 +128,7 @@ def _step_text(value: Any, unit: str, system: str) -> str:
         return {"True": "yes", "False": "no"}.get(value, value)
     if isinstance(value, bool):
         return "yes" if value else "no"
-    kind = _STEP_KINDS.get(unit)
-    if kind is not None:
-        return format_quantity(float(value), kind, system)
-    number = f"{float(value):.4g}"
-    return f"{number} {unit}" if unit else number
+    return format_step(float(value), unit, system)
 
 
 def _yes_no(v: Any) -> str:
@@ -259,7 +250,7 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
                        _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
                        or str(s.get("symbol", "")).startswith("slender")
                        else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
-                       words(str(s.get("what", ""))), str(s.get("formula", "")),
+                       words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
                        str(s.get("clause", "")))
              for s in result.get("steps") or []]
     return CheckSummary(
