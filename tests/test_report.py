@@ -355,7 +355,7 @@ def test_a_trace_heading_stays_with_its_first_rows(tmp_path: Path):
     """Wherever a column's sheet leaves off, the "Calculation trace" heading is never the last
     thing on a page: its first rows follow it on the same page."""
     from fieldcol.report._layout import ReportPDF
-    from fieldcol.report._pages import _trace
+    from fieldcol.report._column_sheet import _trace
     from fieldcol.ui.check_model import check_summary
 
     summ = check_summary(assess({"tag": "B/4-L1", "section": "W14X90", "material": "A992",
@@ -472,3 +472,16 @@ def test_the_measured_bow_reads_as_its_warning_and_its_reading_do(demo):
     assert row.group(1) == warn.group(1) == '1 1/8"'
     assert row.group(2) == warn.group(2) == '15/16"'
     assert "0.933 in; capacity" not in b2
+
+
+def test_the_reports_modules_stay_short_and_its_surface_the_same():
+    """The project's style rule (modules short and named for what they do): the column sheet
+    has a module of its own, no module of the report runs past 600 lines, and what callers
+    use of the report is unchanged."""
+    import fieldcol.report as report
+    from fieldcol.report import _column_sheet, _pages
+
+    assert report.__all__ == ["site_report", "REPORT_CAUTION", "PAPER"]
+    assert callable(_column_sheet.column_sheet) and not hasattr(_pages, "column_sheet")
+    for f in Path(report.__file__).parent.glob("*.py"):
+        assert len(f.read_text(encoding="utf-8").splitlines()) <= 600, f.name

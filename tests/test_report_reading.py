@@ -442,7 +442,7 @@ def test_the_heading_of_a_columns_findings_stays_with_its_first_finding(tmp_path
     page: a long first finding (a surveyor's full note) goes over with it."""
     from fieldcol import CAUTION
     from fieldcol.report._layout import ReportPDF
-    from fieldcol.report._pages import _column_findings
+    from fieldcol.report._column_sheet import _column_findings
 
     rows = [("F1", "Flange pitting over the lower third, deepest near the base plate; " * 12
              + "(high, open)"), ("F2", "Paint failing (low, open)")]

@@ -11,6 +11,7 @@ import math
 from typing import Any
 
 from fieldcol.assess import MODE_WORDS as _MODE_WORDS
+from fieldcol.store._schema import FACE_WORDS
 
 # engine unit -> fieldcol.units kind, so each value is shown in the site's unit system
 _KIND = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
@@ -30,6 +31,55 @@ RESTRAINT_KIND_WORDS = {"brace_added": "brace added", "brace_removed": "brace re
                         "other": "other"}
 
 SEVERITY_ORDER = ("urgent", "high", "medium", "low", "info")
+
+
+#: the design code in words (the cover, a sheet whose record has no check yet)
+CODE_WORDS = {"aisc360-22": "AISC 360-22 (ANSI/AISC 360-22)",
+              "en1993-1-1": "EN 1993-1-1 (Eurocode 3)", "elastic": "elastic reference check"}
+
+
+def column_status(c: Any) -> str:
+    """A column's status word from its latest check (a ``_gather.ColumnData``).
+
+    Example: ``column_status(c)`` gives ``'OVER'`` for the demo's C/3-G.
+    """
+    return status_word(c.check is not None, c.status, c.utilization)
+
+
+def util_status(c: Any) -> str:
+    """The utilization with its status word, or the word alone when there is no number.
+
+    Example: ``util_status(c)`` gives ``'1.110 OVER'`` for the demo's C/3-G.
+    """
+    word = column_status(c)
+    return f"{utilization_text(c.utilization)} {word}" if word in ("OK", "OVER") else word
+
+
+def length_text(text: Any, system: str) -> str:
+    """A length as typed, shown in the site's units (as typed when it cannot be read: its
+    check names what is wrong with it).
+
+    Example: ``length_text("4 ft", "us")`` gives ``'4\'-0"'``.
+    """
+    from fieldcol.errors import InputError
+    from fieldcol.units import format_length, parse_length
+
+    if text in (None, ""):
+        return "not recorded"
+    try:
+        return format_length(parse_length(text, "length"), system)
+    except InputError:
+        return str(text)
+
+
+def place_text(f: Any, system: str) -> str:
+    """Where on the column a finding is: its face and height, as the register and the
+    column's sheet both say it.
+
+    Example: ``place_text(finding, "us")`` gives ``'web, 4\'-0" up'``.
+    """
+    return ", ".join(([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                     + ([f"{length_text(f.height, system)} up"] if f.height else []))
 
 
 def quantity(q: dict[str, Any] | None, system: str, digits: int = 4) -> str:
