@@ -914,14 +914,16 @@ def _divide(num: float, den: float, field: str, text: Any) -> float:
 
 def _fmt_number(x: float, digits: int, plain_below: float = 1e7) -> str:
     """``digits`` significant digits; whole part never rounded below ``plain_below``; else
-    ``123.5e6``."""
+    ``123.5e6``, but a round number of six digits (no more than ``digits`` significant, as a
+    code states E = 210000 MPa) stays whole."""
     if not math.isfinite(x):
         return str(x)
     if x == 0:
         return "0"
     ax = abs(x)
     e = math.floor(math.log10(ax))
-    if ax < 1e-3 or ax >= plain_below:
+    if ax < 1e-3 or (ax >= plain_below
+                     and not (ax < 1e6 and float(f"{x:.{digits}g}") == x)):
         # engineering notation (exponent a multiple of 3) reads like "x 10^6 mm^4"
         e3 = 3 * math.floor(e / 3)
         mant = x / 10.0**e3
@@ -996,6 +998,29 @@ def _format_length(mm: float, system: str) -> str:
     return f"{_fmt_number(mm, 4)} mm"
 
 
+def format_reading(mm: float, system: str) -> str:
+    """A length read off a gauge or a rule (a thickness, a bow, an out-of-plumb) as the app
+    shows a reading: under a foot on a US site in decimal inches to 0.001 in, as gauges show
+    it; else as ``format_length``. The one way a sheet writes such a value (the reading, its
+    warning, the report's rows).
+
+    Args:
+        mm: the length in mm.
+        system: ``"us"`` or ``"si"``.
+
+    Returns:
+        e.g. ``"1.125 in"``, ``"0.933 in"``, ``"28.6 mm"``, ``"12'-6\""``.
+
+    Example:
+        >>> format_reading(28.575, "us"), format_reading(23.7, "us"), format_reading(28.6, "si")
+        ('1.125 in', '0.933 in', '28.6 mm')
+    """
+    if system == "us" and type(mm) in _PLAIN and math.isfinite(mm) and abs(mm) < MM_PER_FT:
+        # (a nudge so that 0.0005 in rounds up, as a person rounds it)
+        return f"{_fixed(mm / MM_PER_IN + math.copysign(1e-9, mm), 3)} in"
+    return format_length(mm, system)
+
+
 def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> str:
     """A quantity in internal units, as text in the site's display unit.
 
@@ -1036,8 +1061,9 @@ def _format_quantity(value: float, kind: str, system: str, digits: int = 4,
 
 
 #: a trace writes a value of 1e5 or more as an engineer does, in engineering notation
-#: (``1.892e6 mm^4``, ``210e3 MPa``): six whole digits claim more than the check knows, and
-#: E = 29000 ksi or A = 14908 mm^2 below it stay as the tables print them
+#: (``1.892e6 mm^4``, ``224.6e3 mm^4``): six whole digits claim more than the check knows;
+#: E = 29000 ksi or A = 14908 mm^2 below it, and a round E = 210000 MPa, stay as the codes and
+#: tables print them
 TRACE_PLAIN_BELOW = 1e5
 #: the engine's unit of a trace step -> its kind (``N mm``: checks saved before the built-up
 #: batten moment was written in N*mm)

@@ -459,19 +459,23 @@ def test_a_finding_noted_after_the_visit_keeps_when_and_by_whom_it_was_seen(tmp_
 def test_the_measured_bow_reads_as_its_warning_and_its_reading_do(demo):
     """B/2-G: a bow of 1 1/8 in over 16 ft (string line). L/1000 = 0.192 in is allowed for in
     the column curve (AISC 303 straightness tolerance L/1000), so 1.125 - 0.192 = 0.933 in is
-    checked as an eccentricity: 15/16 in to the nearest 1/16 (common practice on a tape). The
-    sheet's bow row writes the reading and its excess as the warning beside it does, not a
-    second way (0.933 in) for the same value."""
+    checked as an eccentricity. The sheet writes the reading, the allowance and the excess one
+    way wherever they appear (its bow row, the warning beside it, the readings, the trace), the
+    way the app shows the reading: decimal inches, as gauges show them (not 15/16" beside
+    0.933 in for the same value)."""
     *_, pages = demo
     b2 = _column_text(pages, "B/2-G")
-    row = re.search(r"Measured bow weak axis: bow (\S+ ?\S*\") measured, excess over L/1000 "
-                    r"(\S+\")", b2)
-    warn = re.search(r"measured bow (\S+ ?\S*\") exceeds L/1000 = \S+\", .*? the excess (\S+\")",
-                     b2)
+    row = re.search(r"Measured bow weak axis: bow (\S+ in) measured, excess over L/1000 "
+                    r"(\S+ in)", b2)
+    warn = re.search(r"measured bow (\S+ in) exceeds L/1000 = (\S+ in), .*? the excess "
+                     r"(\S+ in)", b2)
     assert row and warn, b2[:2000]
-    assert row.group(1) == warn.group(1) == '1 1/8"'
-    assert row.group(2) == warn.group(2) == '15/16"'
-    assert "0.933 in; capacity" not in b2
+    assert row.group(1) == warn.group(1) == "1.125 in"
+    assert warn.group(2) == "0.192 in"
+    assert row.group(2) == warn.group(3) == "0.933 in"
+    assert "Bow 1 1/8 in 1.125 in T. Nguyen" in b2  # the readings: as typed, then its value
+    assert re.search(r"\be 0\.933 in excess bow", b2)
+    assert '15/16"' not in b2 and '3/16"' not in b2
 
 
 def test_the_reports_modules_stay_short_and_its_surface_the_same():

@@ -237,17 +237,22 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
 
 
 def _bow_text(bow: dict, record: Any, d: dict, system: str) -> str:
-    """The measured bow and its excess as the warning beside it and the app's record write a
-    bow (``format_length``: to the 1/16 in on a US site), then the capacity with it."""
-    from fieldcol.units import format_length
+    """The measured bow and its excess as the app shows the reading and the warning beside
+    writes them (``format_reading``: decimal inches under a foot on a US site), then the
+    capacity with it."""
+    from fieldcol.errors import InputError
+    from fieldcol.units import format_reading, parse_length
 
     cond = record.get("condition") if isinstance(record, dict) else None
-    typed = cond.get("bow") if isinstance(cond, dict) else None
+    try:
+        bow_mm = parse_length(cond.get("bow"), "bow") if isinstance(cond, dict) else None
+    except InputError:
+        bow_mm = None  # not readable: its check's warning names it
     excess = _val(bow.get("excess"))
     return (f"{bow.get('axis')} axis: "
-            + (f"bow {tx.length_text(typed, system)} measured, " if typed else "")
+            + (f"bow {format_reading(bow_mm, system)} measured, " if bow_mm is not None else "")
             + f"excess over {bow.get('allowance', 'L/1000')} "
-            + ("-" if excess is None else format_length(excess, system))
+            + ("-" if excess is None else format_reading(excess, system))
             + f"; capacity with the bow {tx.quantity(bow.get('capacity'), system)} (axial alone "
             f"{tx.quantity(d.get('axial_design_strength'), system)})")
 
@@ -443,6 +448,8 @@ def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> Non
 
 
 def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
+    from fieldcol.units import format_reading
+
     if not c.measurements:
         return
     by_id = {m.id: m for m in c.measurements}
@@ -450,8 +457,9 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
     rows = []
     for m in c.measurements:
         kind = tx._KIND.get(m.unit)  # the reading's canonical value, shown in the site's units
-        shown = tx.quantity({"value": m.value, "unit": m.unit}, system) if kind else \
-            f"{m.value:g} {m.unit}"
+        shown = (format_reading(m.value, system) if kind == "length"  # as the app shows it
+                 else tx.quantity({"value": m.value, "unit": m.unit}, system) if kind
+                 else f"{m.value:g} {m.unit}")
         if m.id in corrected:
             state = "corrected by a later entry"
         elif m.id in c.counting:

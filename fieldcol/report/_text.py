@@ -453,10 +453,15 @@ def restraint_lines(restraints: Any) -> list[tuple[str, str]]:
     ``('weak axis, bottom', 'pinned (free to rotate, held in place)')``.
     """
     out: list[tuple[str, str]] = []
-    if not isinstance(restraints, dict) or not restraints:
-        return [("restraints", "not recorded")]
+    if restraints is None or restraints == {}:
+        restraints = {}  # the check takes an end not recorded as pinned (record.py): say so
+    elif not isinstance(restraints, dict):
+        return [("restraints", value_text(restraints))]
     for axis in ("strong", "weak", "twist"):
         spec = restraints.get(axis)
+        if spec is None and axis != "twist":
+            out.append((f"{axis} axis", "not recorded: both ends taken as pinned"))
+            continue
         if spec is None:
             continue
         if not isinstance(spec, dict):
@@ -466,6 +471,8 @@ def restraint_lines(restraints: Any) -> list[tuple[str, str]]:
         for end in ("bottom", "top"):
             if end in spec:
                 out.append((f"{label}, {end}", _end_text(spec[end])))
+            elif axis != "twist":
+                out.append((f"{label}, {end}", "taken as pinned (not recorded)"))
         if "k" in spec:
             out.append((f"{label}, K", f"K taken as {value_text(spec['k'])} (override)"))
         if "alignment" in spec:

@@ -38,6 +38,11 @@ _SUFFIX = {"aisc360-22": {"flexural-strong": "x", "flexural-weak": "y", "torsion
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
 
 
+#: the clause of a step that restates an input (a code check lists the material, the
+#: effective lengths and the demand it was given): shown once, where it was worked out
+_RESTATED = ("material", "effective length", "demand")
+
+
 @dataclass(frozen=True)
 class Capacity:
     """The design strength of one mode, with what it rests on."""
@@ -246,13 +251,20 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
                 for w in result.get("warnings") or []]
     # the engine writes its own units (mm, MPa) into a step's words: a US site reads inches, ksi
     words = us_words if system == "us" else str
-    trace = [TraceLine(_trace_symbol(s, code),
-                       _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
-                       or str(s.get("symbol", "")).startswith("slender")
-                       else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
-                       words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
-                       str(s.get("clause", "")))
-             for s in result.get("steps") or []]
+    trace: list[TraceLine] = []
+    shown = set()
+    for s in result.get("steps") or []:
+        step = TraceLine(_trace_symbol(s, code),
+                         _yes_no(s.get("value"))
+                         if "≤" in display_symbol(str(s.get("symbol", "")), code)
+                         or str(s.get("symbol", "")).startswith("slender")
+                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
+                         words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
+                         str(s.get("clause", "")))
+        if step.clause in _RESTATED and (step.symbol, step.value) in shown:
+            continue  # the code check's own list of its inputs: each was given above
+        shown.add((step.symbol, step.value))
+        trace.append(step)
     return CheckSummary(
         title=f"{CODE_TITLES.get(code, code)} check" if code != "elastic" else CODE_TITLES[code],
         status_word=status.word, status_icon=status.icon, status_tone=status.tone,
