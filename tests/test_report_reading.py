@@ -669,3 +669,31 @@ def test_restraints_not_recorded_say_what_the_check_took(tmp_path: Path):
     assert "Weak axis bottom fixed; top taken as pinned; no braces recorded" in n2
     assert "Strong axis not recorded: both ends taken as pinned" in n2
     assert "(pinned-pinned)" in n1  # the trace's K: what the words say was taken
+
+
+def test_a_column_held_back_by_its_tie_joints_says_why(tmp_path: Path):
+    """Two C12X20.7 channels battened with two 5/8 in rivets at each end: the rivets cannot
+    carry the force of the 2 % shear of AISC 360-22 E6.2 at the member's buckling strength,
+    so they govern. The sheet says that, not "see the warnings" where no warning is about
+    them."""
+    from fieldcol.ui.check_model import check_summary
+
+    rec = {"tag": "L3", "section": {"built": {
+        "arrangement": "channels", "channel": "C12X20.7", "gap": "6 in", "toes": "out",
+        "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in",
+                    "fasteners": {"count": 2, "diameter": "5/8 in"}},
+        "connection": "riveted"}}, "material": "A7", "length": "20 ft",
+        "demand": {"axial": "150 kip"}}
+    result = assess(rec).to_dict()
+    assert result["governing_mode"] == "tie-joint"
+    summ = check_summary(result, "us")
+    assert summ.governs == "The end rivets or bolts of the lacing or battens govern"
+    assert "AISC 360-22 E6.2" in summ.why and "warnings" not in summ.why
+    assert not any("rivet" in w for w in summ.warnings)
+    with Store(tmp_path / "j.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        _checked(store, site, rec)
+        out = site_report(store, site.id, tmp_path / "j.pdf", report_date="2026-04-01")
+    sheet = _sheet(_pages(out), "L3")
+    assert ("Governing mode the end rivets or bolts of the lacing or battens: the rivets or "
+            "bolts at the ends of a lacing bar or batten cannot carry") in sheet

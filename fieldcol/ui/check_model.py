@@ -326,7 +326,8 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
              "flexural-weak": "Buckling about the weak axis",
              "torsional": "Twisting (torsional buckling)", "yield": "Squashing (yield)",
              "bow": "The measured bow (bending with the axial load)", "": "No strength"}
-    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (" governs" if gov else ": the code gives none for this column")
+    verb = " govern" if gov == "tie-joint" else " governs"  # (the rivets or bolts ...)
+    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (verb if gov else ": the code gives none for this column")
     if gov in ("flexural-strong", "flexural-weak", "torsional"):
         ax = {"flexural-strong": "strong", "flexural-weak": "weak", "torsional": "twist"}[gov]
         m = modes.get(gov) or {}
@@ -365,6 +366,14 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
         b = result.get("section_band") or {}
         return head, (f"The section where steel was lost ({_fmt(_val(b.get('from')), 'length', system)} to "
                       f"{_fmt(_val(b.get('to')), 'length', system)}) holds less than the member buckles at.")
+    if gov == "tie-joint":
+        shear = ("2 % of the axial strength as shear (AISC 360-22 E6.2)" if code == "aisc360-22"
+                 else "the shear of EN 1993-1-1 6.4" if code == "en1993-1-1"
+                 else "the shear of the bowed member")
+        # no warning says this: the trace has the joints' strength and the force on them
+        return head, (f"The rivets or bolts at the ends of a lacing bar or batten cannot carry "
+                      f"what {shear} puts on them at the member's buckling strength: the "
+                      "strength is what they allow (the joint steps of the trace).")
     return head, "See the warnings."
 
 
