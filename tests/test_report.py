@@ -489,3 +489,15 @@ def test_the_reports_modules_stay_short_and_its_surface_the_same():
     assert callable(_column_sheet.column_sheet) and not hasattr(_pages, "column_sheet")
     for f in Path(report.__file__).parent.glob("*.py"):
         assert len(f.read_text(encoding="utf-8").splitlines()) <= 600, f.name
+
+
+def test_a_restraint_change_gives_each_detail_once(demo):
+    """The strap on C/3-G was recorded at 12 ft in its words and its details; the restraint
+    history says where once, and keeps the details the words lack (its member, its
+    stiffness)."""
+    *_, pages = demo
+    c3 = _column_text(pages, "C/3-G")
+    row = re.search(r"brace added weak (light steel strap .*?\)\)?) R\. Amadi", c3)
+    assert row, c3
+    assert row.group(1).count("12 ft") == 1, row.group(1)
+    assert "member 1 1/2 x 1/8 in strap" in row.group(1) and "0.6 kip/in" in row.group(1)

@@ -435,11 +435,20 @@ def _result_history(pdf: ReportPDF, c: "ColumnData") -> None:
     pdf.table(heads, rows, widths, size=7.0)
 
 
+def _change_text(description: str, detail: Any) -> str:
+    """A restraint change in words, its recorded details after it, less those the words
+    already give ("at 12 ft (at 12 ft, ...)" read as two places)."""
+    if isinstance(detail, dict):
+        detail = {k: v for k, v in detail.items()
+                  if not (isinstance(v, str) and v.strip() and v.strip() in description)}
+    return description + (f" ({tx.value_text(detail)})" if detail else "")
+
+
 def _restraint_history(pdf: ReportPDF, data: "SiteData", c: "ColumnData") -> None:
     if not c.restraint_changes:
         return
     rows = [[rc.date, tx.RESTRAINT_KIND_WORDS.get(rc.kind, rc.kind), rc.axis or "-",
-             rc.description + (f" ({tx.value_text(rc.detail)})" if rc.detail else ""),
+             _change_text(rc.description, rc.detail),
              rc.seen_by or "-", data.refs_of(c.restraint_photos.get(rc.id, [])) or "-"]
             for rc in c.restraint_changes]
     heads, widths = ["Date", "Change", "Axis", "What", "Seen by", "Photos"], (18, 22, 12, 90, 20, 12)
