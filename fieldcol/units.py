@@ -1091,6 +1091,17 @@ def format_step(value: float, unit: str, system: str) -> str:
         >>> format_step(1891784.0, "mm^4", "si"), format_step(64.6, "mm", "us")
         ('1.892e6 mm^4', '2.543 in')
     """
+    key = ("step", type(value), value, unit, system)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_step(value, unit, system)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_step(value: float, unit: str, system: str) -> str:
     kind = STEP_KINDS.get(unit)
     if kind == "length" and system == "us" and abs(value) < MM_PER_FT:
         return f"{_fmt_number(float(value) / MM_PER_IN, 4, TRACE_PLAIN_BELOW)} in"
