@@ -8,12 +8,6 @@ import argparse
 import json
 
 
-# internal unit -> units.py kind, to show each step in the site's unit system
-_KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": "modulus",
-         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness", "N*mm/rad": "rotational_stiffness",
-         "N*mm": "moment"}
-
-
 def register(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser("check", help="axial capacity of one column record (JSON file or store)",
                        description="Check the axial capacity of one column record: every mode, "
@@ -114,12 +108,12 @@ def _stored(args: argparse.Namespace) -> tuple[dict, str, str]:
 
 def show(q: dict | None, system: str, digits: int = 4) -> str:
     """A ``{"value", "unit"}`` quantity in the display system, e.g. ``"1121 kip"``."""
-    from fieldcol.units import format_length, format_quantity
+    from fieldcol.units import STEP_KINDS, format_length, format_quantity
 
     if q is None or q.get("value") is None:
         return "-"
     v, unit = q["value"], q["unit"]
-    kind = _KIND.get(unit)
+    kind = STEP_KINDS.get(unit)
     if kind == "length":
         return format_length(v, system) if system == "us" and v > 300 else format_quantity(v, kind, system, digits)
     if kind:

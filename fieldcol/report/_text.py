@@ -12,11 +12,10 @@ from typing import Any
 
 from fieldcol.assess import MODE_WORDS as _MODE_WORDS
 from fieldcol.store._schema import FACE_WORDS
+from fieldcol.units import STEP_KINDS
 
 # engine unit -> fieldcol.units kind, so each value is shown in the site's unit system
-_KIND = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
-         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-         "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+_KIND = STEP_KINDS
 
 END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
              "fixed": "fixed (rotation and position held)",
