@@ -501,3 +501,12 @@ def test_a_restraint_change_gives_each_detail_once(demo):
     assert row, c3
     assert row.group(1).count("12 ft") == 1, row.group(1)
     assert "member 1 1/2 x 1/8 in strap" in row.group(1) and "0.6 kip/in" in row.group(1)
+
+
+def test_the_register_names_a_measured_section_by_its_sizes(demo):
+    """C/1-G is a welded I measured on site, 16 in deep with 12 in flanges: the register (and
+    its CSV) says so, not "measured I" alone."""
+    _, _, out, _, pages = demo
+    assert "C/1-G Ground C/1 measured welded I 16 in x 12 in flexural" in _register_page(pages)
+    rows = out.with_suffix(".csv").read_text(encoding="utf-8-sig").splitlines()
+    assert any(r.startswith("C/1-G,Ground,C/1,measured welded I 16 in x 12 in,") for r in rows)

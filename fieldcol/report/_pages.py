@@ -103,6 +103,8 @@ def register_rows(data: "SiteData") -> tuple[list[str], list[list[str]]]:
         rows.append([c.column.tag, c.level or "-", c.column.grid or "-",
                      # a built-up section in words, not its arrangement's key ("angles-web")
                      tx.built_label(built) if isinstance(built, dict)
+                     else tx.measured_label(section)
+                     if isinstance(section, dict) and not section.get("name")
                      else section_label(section) or "-", _mode(c),
                      tx.utilization_text(c.utilization), tx.column_status(c),
                      tx.when(c.check.checked_at)[:10] if c.check else "-"])

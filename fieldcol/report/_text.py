@@ -528,6 +528,23 @@ def condition_text(condition: Any) -> str:
     return "; ".join(parts)
 
 
+def measured_label(section: dict[str, Any]) -> str:
+    """A section measured on site in a few words, for the register: its shape and main sizes
+    as typed ("measured I" alone left the reader to find which I).
+
+    Example: ``measured_label({"shape": "i", "d": "16 in", "bf": "12 in", "welded": True})``
+    gives ``'measured welded I 16 in x 12 in'``.
+    """
+    shape = str(section.get("shape", "")).strip().lower()
+    head = {"i": "welded I" if section.get("welded") else "I", "rect": "RHS",
+            "round": "CHS"}.get(shape, "section")
+    sizes = " x ".join(value_text(section[k])
+                       for k in {"i": ("d", "bf"), "rect": ("d", "b", "t"),
+                                 "round": ("D", "t")}.get(shape, ()) if k in section)
+    return (f"measured {head}" + (f" {sizes}" if sizes else "")
+            + (" with loss" if section.get("loss") else ""))
+
+
 def built_label(built: dict[str, Any]) -> str:
     """A built-up section in a few words, for the register: its parts, how many, how tied.
 
