@@ -21,7 +21,7 @@ from fieldcol.errors import InputError
 from fieldcol.record import AXES, AxisInput, ColumnInput, parse_record, record_and_text
 from fieldcol.stability import Brace, brace_requirement, effective_length
 from fieldcol.trace import Step, Trace
-from fieldcol.units import format_length, format_quantity
+from fieldcol.units import format_quantity, format_reading
 
 if TYPE_CHECKING:  # bow, beam-column, EN, elastic and the buckling analysis: imported when used
     from fieldcol.codes import BowResult
@@ -725,9 +725,10 @@ def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> Non
 
 
 def _show(col: ColumnInput, value: float, kind: str = "length") -> str:
-    """A value in the record's display units, for messages the engineer reads."""
+    """A value in the record's display units, for messages the engineer reads (a short length
+    as the app shows a reading of it: a bow, its allowance and excess, in decimal inches)."""
     if kind == "length":
-        return format_length(value, col.units)
+        return format_reading(value, col.units)
     return format_quantity(value, kind, col.units)
 
 

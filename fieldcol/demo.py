@@ -135,26 +135,30 @@ RESTRAINT_CHANGES = [
      "T. Nguyen", {"bottom": "fixed"}),
 ]
 
-# (key, tag or None, text, category, severity, status, photo style, visit date)
+# (key, tag or None, text, category, severity, status, photo style, when seen, by whom): each
+# finding dated on the visit it was seen on, so the registers read in the order of the survey
 FINDINGS = [
     ("A/2-rust", "A/2-G", "Base of column heavily corroded; flange down to 0.48 in "
-     "(0.56 in nominal) 4 in above the slab", "corrosion", "high", "open", "rust", _V1),
+     "(0.56 in nominal) 4 in above the slab", "corrosion", "high", "open", "rust",
+     f"{_V1}T10:20:00Z", "R. Amadi"),
     ("B/3-rust", "B/3-G", "Pack rust between base plate and flange; flange 0.50 in remaining",
-     "corrosion", "high", "open", "rust", _V2),
+     "corrosion", "high", "open", "rust", f"{_V2}T09:35:00Z", "T. Nguyen"),
     ("D/2-rust", "D/2-G", "Flange corroded by the old wash-down drain; 0.33 in remaining",
-     "corrosion", "medium", "open", "rust", _V2),
+     "corrosion", "medium", "open", "rust", f"{_V2}T11:10:00Z", "T. Nguyen"),
     ("B/2-bow", "B/2-G", "Column visibly bowed about the weak axis: 1 1/8 in over 16 ft by "
-     "string line, beyond the L/1000 straightness tolerance", "bow", "high", "open", "bow", _V2),
+     "string line, beyond the L/1000 straightness tolerance", "bow", "high", "open", "bow",
+     f"{_V2}T10:15:00Z", "T. Nguyen"),
     ("C/3-strap", "C/3-G", "Strap brace to timber partition is far too flexible to count as a "
-     "brace point", "bracing", "high", "open", "strap", _V1),
+     "brace point", "bracing", "high", "open", "strap", f"{_V1}T13:15:00Z", "R. Amadi"),
     ("C/4-cable", "C/4-G", "Wire rope to roof truss of unknown origin; confirm its anchorage "
-     "before relying on it", "bracing", "medium", "open", "cable", _V1),
+     "before relying on it", "bracing", "medium", "open", "cable", f"{_V1}T13:30:00Z",
+     "R. Amadi"),
     ("G/1-dent", "G/1-G", "Forklift dent about 3 ft above the slab; pipe wall locally flattened",
-     "damage", "medium", "open", "dent", _V2),
+     "damage", "medium", "open", "dent", f"{_V2}T14:20:00Z", "R. Amadi"),
     ("roof-leak", None, "Roof leaks over bay C keep the column bases wet", "water", "medium",
-     "open", None, _V2),
+     "open", None, f"{_V2}T08:45:00Z", "R. Amadi"),
     ("D-debris", None, "Debris cleared from around the D-line column bases", "housekeeping",
-     "info", "closed", None, _V1),
+     "info", "closed", None, f"{_V1}T09:20:00Z", "R. Amadi"),
 ]
 
 RETROFITS = [
@@ -287,25 +291,28 @@ def build_demo(store: "Store") -> DemoSummary:
                                   corrects=meas_ids[corrects] if corrects else None,
                                   measurement_id=meas_ids[key])
             added += 1
-    for key, tag, date, kind, axis, desc, seen, detail in RESTRAINT_CHANGES:
+    for i, (key, tag, date, kind, axis, desc, seen, detail) in enumerate(RESTRAINT_CHANGES):
         rid = _id("restraint", key)
         if not have("restraint_changes", rid):
             store.add_restraint_change(cols[tag], date, kind, desc, axis=axis, seen_by=seen,
                                        detail=detail, change_id=rid)
             added += 1
             if kind in ("brace_added", "cable_found"):
+                # photographed on the first visit, one after another round the press bay
                 store.add_photo(demo_photo("cable" if kind == "cable_found" else "strap", tag,
-                                           f"{_V1}T13:00:00"),
+                                           f"{_V1}T13:{5 * i:02d}:00"),
                                 original_name=f"{tag.replace('/', '-')}-restraint.jpg",
                                 restraint_change_id=rid, caption=desc)
-    for key, tag, text, cat, sev, status, style, date in FINDINGS:
+    for key, tag, text, cat, sev, status, style, when, who in FINDINGS:
         fid = _id("finding", key)
         if not have("findings", fid):
             store.add_finding(site_id, text, category=cat, severity=sev, status=status,
-                              column_id=cols[tag] if tag else None, finding_id=fid)
+                              column_id=cols[tag] if tag else None, noted_at=when,
+                              noted_by=who, visit_id=visits[when[:10]], finding_id=fid)
             added += 1
             if style:
-                photo = store.add_photo(demo_photo(style, tag, f"{date}T11:00:00"),
+                # the photo taken as the finding was noted
+                photo = store.add_photo(demo_photo(style, tag, when[:19]),
                                         original_name=f"{tag.replace('/', '-')}-{style}.jpg",
                                         finding_id=fid, caption=text[:60])
                 if key in MARKUP:

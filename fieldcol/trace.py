@@ -81,7 +81,8 @@ _EN_NAMES = {"Lc": "L_cr", "Ncr": "N_cr", "alpha": "α", "lb": "λ-bar", "Phi": 
              "gamma_M1": "γ_M1", "L": "L", "U": "N_Ed / N_b,Rd", "chi_LT": "χ_LT",
              "lb,LT": "λ-bar_LT", "alpha_LT": "α_LT", "Pn,yield": "N_c,Rk", "C1": "C_1",
              "chi_LT,0": "χ_LT,0", "Phi_LT": "Φ_LT", "alpha,web": "α_web", "psi,web": "ψ_web"}
-_US_NAMES = {"beta_br": "β_br", "phiPn": "φPn", "Pn/Omega": "Pn/Ω", "Lc/r": "Lc/r",
+# (the torsional length as the other lengths are written: Lc,x, Lc,y, Lc,z)
+_US_NAMES = {"Lcz": "Lc,z", "beta_br": "β_br", "phiPn": "φPn", "Pn/Omega": "Pn/Ω", "Lc/r": "Lc/r",
              "Pcr": "Pcr", "Lc": "Lc", "K": "K{s}", "Fe": "Fe", "Fcr": "Fcr", "Pn": "Pn",
              "slender": "slender"}
 

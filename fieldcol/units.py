@@ -912,15 +912,18 @@ def _divide(num: float, den: float, field: str, text: Any) -> float:
 # Display
 
 
-def _fmt_number(x: float, digits: int) -> str:
-    """``digits`` significant digits; whole part never rounded below 1e7; else ``123.5e6``."""
+def _fmt_number(x: float, digits: int, plain_below: float = 1e7) -> str:
+    """``digits`` significant digits; whole part never rounded below ``plain_below``; else
+    ``123.5e6``, but a round number of six digits (no more than ``digits`` significant, as a
+    code states E = 210000 MPa) stays whole."""
     if not math.isfinite(x):
         return str(x)
     if x == 0:
         return "0"
     ax = abs(x)
     e = math.floor(math.log10(ax))
-    if ax < 1e-3 or ax >= 1e7:
+    if ax < 1e-3 or (ax >= plain_below
+                     and not (ax < 1e6 and float(f"{x:.{digits}g}") == x)):
         # engineering notation (exponent a multiple of 3) reads like "x 10^6 mm^4"
         e3 = 3 * math.floor(e / 3)
         mant = x / 10.0**e3
@@ -995,6 +998,29 @@ def _format_length(mm: float, system: str) -> str:
     return f"{_fmt_number(mm, 4)} mm"
 
 
+def format_reading(mm: float, system: str) -> str:
+    """A length read off a gauge or a rule (a thickness, a bow, an out-of-plumb) as the app
+    shows a reading: under a foot on a US site in decimal inches to 0.001 in, as gauges show
+    it; else as ``format_length``. The one way a sheet writes such a value (the reading, its
+    warning, the report's rows).
+
+    Args:
+        mm: the length in mm.
+        system: ``"us"`` or ``"si"``.
+
+    Returns:
+        e.g. ``"1.125 in"``, ``"0.933 in"``, ``"28.6 mm"``, ``"12'-6\""``.
+
+    Example:
+        >>> format_reading(28.575, "us"), format_reading(23.7, "us"), format_reading(28.6, "si")
+        ('1.125 in', '0.933 in', '28.6 mm')
+    """
+    if system == "us" and type(mm) in _PLAIN and math.isfinite(mm) and abs(mm) < MM_PER_FT:
+        # (a nudge so that 0.0005 in rounds up, as a person rounds it)
+        return f"{_fixed(mm / MM_PER_IN + math.copysign(1e-9, mm), 3)} in"
+    return format_length(mm, system)
+
+
 def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> str:
     """A quantity in internal units, as text in the site's display unit.
 
@@ -1023,13 +1049,65 @@ def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> st
     return got
 
 
-def _format_quantity(value: float, kind: str, system: str, digits: int = 4) -> str:
+def _format_quantity(value: float, kind: str, system: str, digits: int = 4,
+                     plain_below: float = 1e7) -> str:
     table = _check_system(system)
     _check_kind(kind, "kind")
     if kind == "length" and system == "us":
         return format_length(value, system)
     unit, factor = table[kind]
-    number = _fmt_number(float(value) / factor, digits)
+    number = _fmt_number(float(value) / factor, digits, plain_below)
+    return f"{number} {unit}" if unit else number
+
+
+#: a trace writes a value of 1e5 or more as an engineer does, in engineering notation
+#: (``1.892e6 mm^4``, ``224.6e3 mm^4``): six whole digits claim more than the check knows;
+#: E = 29000 ksi or A = 14908 mm^2 below it, and a round E = 210000 MPa, stay as the codes and
+#: tables print them
+TRACE_PLAIN_BELOW = 1e5
+#: the engine's unit of a trace step -> its kind (``N mm``: checks saved before the built-up
+#: batten moment was written in N*mm)
+STEP_KINDS: dict[str, str] = {u: k for k, u in INTERNAL_UNITS.items() if u} | {"N mm": "moment"}
+
+
+def format_step(value: float, unit: str, system: str) -> str:
+    """A calculation step's value, in the engine's ``unit``, as every trace writes it (the
+    app's Check tab, the report, ``fieldcol check``).
+
+    Four significant figures, from ``TRACE_PLAIN_BELOW`` up in engineering notation (the
+    exponent a multiple of 3); on a US site a length under a foot in decimal inches (a radius
+    of gyration to the nearest 1/16 in does not give back the Lc/r beside it), a longer one
+    in feet-inches; a unit the engine does not use for a kind is kept as written.
+
+    Args:
+        value: the step's number in ``unit``.
+        unit: the engine's unit (``"mm^4"``, ``"N"``, ``""`` for a pure number).
+        system: ``"us"`` or ``"si"``.
+
+    Returns:
+        the text, e.g. ``"1.892e6 mm^4"``, ``"2.544 in"``, ``"16'-0\""``, ``"0.3685"``.
+
+    Example:
+        >>> format_step(1891784.0, "mm^4", "si"), format_step(64.6, "mm", "us")
+        ('1.892e6 mm^4', '2.543 in')
+    """
+    key = ("step", type(value), value, unit, system)
+    got = _SHOWN.get(key)
+    if got is None:
+        got = _format_step(value, unit, system)
+        if len(_SHOWN) >= 8192:
+            _SHOWN.clear()
+        _SHOWN[key] = got
+    return got
+
+
+def _format_step(value: float, unit: str, system: str) -> str:
+    kind = STEP_KINDS.get(unit)
+    if kind == "length" and system == "us" and abs(value) < MM_PER_FT:
+        return f"{_fmt_number(float(value) / MM_PER_IN, 4, TRACE_PLAIN_BELOW)} in"
+    if kind is not None:
+        return _format_quantity(value, kind, system, 4, TRACE_PLAIN_BELOW)
+    number = _fmt_number(float(value), 4, TRACE_PLAIN_BELOW)
     return f"{number} {unit}" if unit else number
 
 

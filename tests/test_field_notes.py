@@ -309,10 +309,11 @@ def test_findings_with_photos_and_exif_time(demo):
     assert f.text.startswith("Base of column heavily corroded")
     assert (f.category, f.severity_word, f.status_word) == ("corrosion", "high", "open")
     assert f.severity_icon and f.status_icon and f.label.startswith("high, open, corrosion: ")
-    assert f.date.endswith(" UTC") and f.where == "" and not f.needs_words
+    # noted on the first visit, when its photo was taken
+    assert f.date == "2026-02-10 10:20 UTC" and f.where == "" and not f.needs_words
     (p,) = f.photos
-    # the demo photo carries EXIF DateTimeOriginal 2026:02:10 11:00:00 and offset +00:00
-    assert p.taken == "taken 2026-02-10 11:00 +00:00" and p.size == "480 x 640 px"
+    # the demo photo carries EXIF DateTimeOriginal 2026:02:10 10:20:00 and offset +00:00
+    assert p.taken == "taken 2026-02-10 10:20 +00:00" and p.size == "480 x 640 px"
     # a JPEG starts with the SOI marker FF D8 (ITU-T T.81); the thumbnail is at most 320 px
     assert p.thumb[:2] == b"\xff\xd8" and max(Image.open(io.BytesIO(p.thumb)).size) <= 320
     assert p.aspect == pytest.approx(480 / 640, abs=0.01)

@@ -49,8 +49,9 @@ def test_report_and_check_text_run_without_flet():
     import subprocess
     import sys
 
-    code = ("import sys; import fieldcol.report._pages, fieldcol.report._drawings, "
-            "fieldcol.report._plain, fieldcol.ui.check_model, fieldcol.ui.restraints_model; "
+    code = ("import sys; import fieldcol.report._pages, fieldcol.report._column_sheet, "
+            "fieldcol.report._drawings, fieldcol.report._plain, fieldcol.ui.check_model, "
+            "fieldcol.ui.restraints_model; "
             "bad = [m for m in sys.modules if m == 'flet' or m.startswith('flet.')]; "
             "assert not bad, bad")
     subprocess.run([sys.executable, "-c", code], check=True, cwd=ROOT.parent)

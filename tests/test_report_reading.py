@@ -442,7 +442,7 @@ def test_the_heading_of_a_columns_findings_stays_with_its_first_finding(tmp_path
     page: a long first finding (a surveyor's full note) goes over with it."""
     from fieldcol import CAUTION
     from fieldcol.report._layout import ReportPDF
-    from fieldcol.report._pages import _column_findings
+    from fieldcol.report._column_sheet import _column_findings
 
     rows = [("F1", "Flange pitting over the lower third, deepest near the base plate; " * 12
              + "(high, open)"), ("F2", "Paint failing (low, open)")]
@@ -503,3 +503,197 @@ def test_a_check_saved_with_the_old_batten_moment_unit_still_reads_in_site_units
         {"symbol": "M_b,Ed,y", "what": "moment in one batten at the chord, y axis",
          "formula": "V_Ed a / (2 n)", "value": 2.688e6, "unit": "N mm", "clause": ""}]}, "si")
     assert summ.trace[0].value == "2.688 kN*m"
+
+
+def _unrounded(text: str) -> list[str]:
+    """Whole numbers of six digits or more with more than four significant figures."""
+    return [n for n in re.findall(r"(?<![\d.,-])\d{6,}(?![\d-])", text)
+            if len(n.rstrip("0")) > 4]
+
+
+#: (code, record) pairs whose traces hold every kind of value: section properties to mm^6,
+#: forces, stresses, moments, stiffnesses, short and long lengths, pure numbers
+TRACE_RECORDS = [
+    ("aisc", {"tag": "T1", "section": "W14X90", "material": "A992", "length": "24 ft",
+              "restraints": {"strong": PINNED, "weak": {**PINNED, "braces": [
+                  {"at": "12 ft", "stiffness": "20 kip/in"}]}},
+              "demand": {"axial": "500 kip", "moments": {"strong": "80 kip*ft"}}}),
+    ("en", {"tag": "T2", "section": "HE 300 B", "material": "S355", "length": "4.5 m",
+            "code": "en1993-1-1", "restraints": {"strong": PINNED, "weak": PINNED},
+            "demand": {"axial": "1500 kN", "moments": {"strong": "60 kN*m"}}}),
+    ("en built-up", {"tag": "T3", "section": {"built": {
+        "arrangement": "channels", "channel": "UPN 200", "gap": "150 mm", "toes": "out",
+        "battens": {"spacing": "600 mm", "depth": "150 mm", "thickness": "10 mm"},
+        "connection": "welded"}}, "material": "S355", "length": "6 m", "code": "en1993-1-1",
+        "restraints": {"strong": PINNED, "weak": PINNED}, "demand": {"axial": "900 kN"}}),
+]
+
+
+@pytest.mark.parametrize("system", ["us", "si"])
+@pytest.mark.parametrize("name, record", TRACE_RECORDS, ids=[n for n, _ in TRACE_RECORDS])
+def test_trace_values_read_to_four_figures_as_an_engineer_writes_them(name, record, system):
+    """Every value of a trace (the Check tab's, the report's) to four significant figures, a
+    whole number of six digits or more in engineering notation (common practice: "1.892e6
+    mm^4", E = "210e3 MPa"), and each reads back through the entry parser to the engine's
+    own number within that rounding (a US length of a foot or more in feet-inches to the
+    nearest 1/16 in, common practice for a tape)."""
+    from fieldcol.ui.check_model import check_summary
+    from fieldcol.units import STEP_KINDS, parse_length, parse_quantity
+
+    result = assess(record).to_dict()
+    summ = check_summary(result, system)
+    checked = 0
+    from fieldcol.trace import display_symbol
+
+    steps = {(display_symbol(st["symbol"], result["code"]), st["what"]): st
+             for st in result["steps"]}
+    for line in summ.trace:
+        step = steps.get((line.symbol, line.what))
+        if step is None:  # (its words in inches on a US site)
+            continue
+        kind = STEP_KINDS.get(step["unit"])
+        if not isinstance(step["value"], float) or kind is None or kind == "angle" \
+                or line.value in ("yes", "no"):
+            continue
+        text = line.value
+        assert not _unrounded(text), (line.symbol, text)
+        if "'" in text or '"' in text:
+            assert parse_length(text, "x") == pytest.approx(step["value"], abs=25.4 / 32)
+        else:
+            number = text.split(" ")[0].lstrip("-")
+            mantissa = number.split("e")[0].replace(".", "").lstrip("0")
+            whole = "e" not in number and "." not in number
+            assert (len(mantissa) <= 4 or (whole and len(mantissa) <= 5)
+                    or (whole and len(mantissa.rstrip("0")) <= 4)), (line.symbol, text)
+            back = (parse_length(text, "x", allow_zero=True) if kind == "length"
+                    else parse_quantity(text, kind, "x", allow_zero=True, allow_negative=True))
+            assert back == pytest.approx(step["value"], rel=5.1e-4, abs=1e-9), \
+                (line.symbol, text, step["value"])
+        checked += 1
+    assert checked > 25
+
+
+def test_a_large_section_property_in_the_report_is_in_engineering_notation(mixed):
+    """HE 300 B: It = 185 cm^4 in the EN 10365 tables (from memory; the trace's own value
+    from its plates and root fillets is near it): written 1.892e6 mm^4, never a run of
+    seven digits; no value of the report's traces is a whole number of six digits or more."""
+    k1 = _sheet(mixed, "K1")
+    it = re.search(r"I_t (\d\.\d{1,3})e6 mm\^4 torsion constant", k1)
+    assert it and 1.80 <= float(it.group(1)) <= 1.95, k1[:200]
+    assert "E 210000 MPa" in k1  # a round value stays as EN 1993-1-1 3.2.6 states it
+    for page in mixed:
+        assert not _unrounded(page), _unrounded(page)
+
+
+def test_a_us_sites_formulas_speak_inches_too(tmp_path: Path):
+    """The engine writes the hole allowance of AISC 360-22 B4.3b and the section check in a
+    loss band in its own millimetres (dh + 2 mm, Lc = 1 mm); a US site's trace reads them in
+    inches (2 mm = 0.0787 in, 1 mm = 0.0394 in: 1 in = 25.4 mm exactly, NIST SP 811), in the
+    report, the Check tab and ``fieldcol check``'s sheet alike."""
+    from fieldcol.cli.cmd_check import sheet
+    from fieldcol.ui.check_model import check_summary
+
+    holes = {"tag": "L4", "section": {"built": {
+        "arrangement": "angles-web", "angle": "L4X4X1/2",
+        "web": {"depth": "14 in", "thickness": "3/8 in"},
+        "flange_plates": {"width": "10 in", "thickness": "1/2 in"},
+        "connection": "riveted", "holes": {"diameter": "15/16 in", "per_flange": 2}}},
+        "material": {"Fy": "33 ksi", "Fu": "60 ksi", "E": "29000 ksi", "G": "11200 ksi"},
+        "length": "18 ft", "demand": {"axial": "300 kip", "moments": {"strong": "30 kip*ft"}}}
+    band = {"tag": "L5", "section": {"name": "W10X49", "loss": {
+        "uniform": "1/16 in", "from": "0 in", "to": "12 in"}}, "material": "A36",
+        "length": "14 ft", "demand": {"axial": "200 kip", "end_moments": {"strong": {
+            "top": "30 kip*ft", "bottom": "10 kip*ft", "curvature": "single"}}}}
+    with Store(tmp_path / "f.db") as store:
+        site = store.add_site("Tannery Row", code="aisc360-22", unit_system="us")
+        _checked(store, site, holes)
+        _checked(store, site, band)
+        out = site_report(store, site.id, tmp_path / "f.pdf", report_date="2026-04-01")
+    text = " ".join(_pages(out))
+    assert "(dh + 0.0787 in)" in text and "Lc = 0.0394 in" in text
+    metric = re.compile(r"\d ?(?:mm|MPa|kN)\b")
+    assert not metric.search(text), metric.search(text)
+    for rec in (holes, band):
+        result = assess(rec).to_dict()
+        lines = check_summary(result, "us").trace
+        assert not any(metric.search(f"{t.value} {t.what} {t.formula}") for t in lines)
+        assert not metric.search(sheet(result, "us")), metric.search(sheet(result, "us"))
+
+
+@pytest.mark.parametrize("code", ["aisc", "en"])
+def test_an_input_a_code_check_lists_again_is_shown_once(demo, mixed, code):
+    """A code check lists the material, the effective lengths and the demand it was given;
+    the trace (the report's, the Check tab's) shows each once, where it was worked out, under
+    one symbol (AISC 360-22 E4's torsional length written as the others are: Lc,z; EN
+    1993-1-1 6.3.1.4: L_cr,T)."""
+    from fieldcol.ui.check_model import check_summary
+
+    tag, rec = {"aisc": TRACE_RECORDS[0], "en": TRACE_RECORDS[1]}[code]
+    lines = check_summary(assess(rec).to_dict(), "us" if code == "aisc" else "si").trace
+    pairs = [(t.symbol, t.value) for t in lines]
+    symbols = ({"Fy", "E", "G", "Lc,x", "Lc,y", "Lc,z", "Pr"} if code == "aisc"
+               else {"E", "G", "L_cr,y", "L_cr,z", "L_cr,T", "N_Ed"})
+    for sym in symbols:
+        assert sum(s == sym for s, _ in pairs) == 1, (sym, [p for p in pairs if p[0] == sym])
+    assert "Lcz" not in {s for s, _ in pairs}
+    sheet = _sheet(demo, "A/1-G") if code == "aisc" else _sheet(mixed, "K1")
+    e = "E 29000 ksi" if code == "aisc" else "E 210000 MPa"
+    assert sheet.count(e) == 1, sheet.count(e)
+
+
+def test_an_en_trace_never_says_no_load_was_given_when_one_was(mixed):
+    """EN 1993-1-1 6.3.1.2 (4): buckling may be ignored for λ-bar <= 0.2 or NEd/Ncr <= 0.04.
+    The resistance is found without the load, so the second test is not used: said so, not
+    "no load given" beside a demand of 1500 kN."""
+    k1 = _sheet(mixed, "K1")
+    assert "N_Ed 1500 kN" in k1 and "no load given" not in k1
+    assert "the resistance does not depend on the load: NEd/Ncr <= 0.04 not used" in k1
+
+
+def test_restraints_not_recorded_say_what_the_check_took(tmp_path: Path):
+    """A column recorded without restraints (or with an end left out) is checked with that
+    end pinned (the record's default); its sheet says so rather than "not recorded" beside a
+    side view of pinned ends and K = 1 (AISC 360-22 Commentary Table C-A-7.1, pinned-pinned)."""
+    with Store(tmp_path / "r.db") as store:
+        site = store.add_site("Lock Keeper's Yard", code="aisc360-22", unit_system="us")
+        _checked(store, site, {"tag": "N1", "section": "W8X31", "material": "A36",
+                               "length": "12 ft", "demand": {"axial": "100 kip"}})
+        _checked(store, site, {"tag": "N2", "section": "W8X31", "material": "A36",
+                               "length": "12 ft", "restraints": {"weak": {"bottom": "fixed"}},
+                               "demand": {"axial": "100 kip"}})
+        out = site_report(store, site.id, tmp_path / "r.pdf", report_date="2026-04-01")
+    pages = _pages(out)
+    n1, n2 = _sheet(pages, "N1"), _sheet(pages, "N2")
+    assert ("Strong axis not recorded: both ends taken as pinned Weak axis not recorded: both "
+            "ends taken as pinned") in n1
+    assert "Weak axis bottom fixed; top taken as pinned; no braces recorded" in n2
+    assert "Strong axis not recorded: both ends taken as pinned" in n2
+    assert "(pinned-pinned)" in n1  # the trace's K: what the words say was taken
+
+
+def test_a_column_held_back_by_its_tie_joints_says_why(tmp_path: Path):
+    """Two C12X20.7 channels battened with two 5/8 in rivets at each end: the rivets cannot
+    carry the force of the 2 % shear of AISC 360-22 E6.2 at the member's buckling strength,
+    so they govern. The sheet says that, not "see the warnings" where no warning is about
+    them."""
+    from fieldcol.ui.check_model import check_summary
+
+    rec = {"tag": "L3", "section": {"built": {
+        "arrangement": "channels", "channel": "C12X20.7", "gap": "6 in", "toes": "out",
+        "battens": {"spacing": "24 in", "depth": "8 in", "thickness": "3/8 in",
+                    "fasteners": {"count": 2, "diameter": "5/8 in"}},
+        "connection": "riveted"}}, "material": "A7", "length": "20 ft",
+        "demand": {"axial": "150 kip"}}
+    result = assess(rec).to_dict()
+    assert result["governing_mode"] == "tie-joint"
+    summ = check_summary(result, "us")
+    assert summ.governs == "The end rivets or bolts of the lacing or battens govern"
+    assert "AISC 360-22 E6.2" in summ.why and "warnings" not in summ.why
+    assert not any("rivet" in w for w in summ.warnings)
+    with Store(tmp_path / "j.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        _checked(store, site, rec)
+        out = site_report(store, site.id, tmp_path / "j.pdf", report_date="2026-04-01")
+    sheet = _sheet(_pages(out), "L3")
+    assert ("Governing mode the end rivets or bolts of the lacing or battens: the rivets or "
+            "bolts at the ends of a lacing bar or batten cannot carry") in sheet

@@ -8,12 +8,6 @@ import argparse
 import json
 
 
-# internal unit -> units.py kind, to show each step in the site's unit system
-_KIND = {"N": "force", "MPa": "stress", "mm": "length", "mm^2": "area", "mm^3": "modulus",
-         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness", "N*mm/rad": "rotational_stiffness",
-         "N*mm": "moment"}
-
-
 def register(sub: argparse._SubParsersAction) -> None:
     p = sub.add_parser("check", help="axial capacity of one column record (JSON file or store)",
                        description="Check the axial capacity of one column record: every mode, "
@@ -114,12 +108,12 @@ def _stored(args: argparse.Namespace) -> tuple[dict, str, str]:
 
 def show(q: dict | None, system: str, digits: int = 4) -> str:
     """A ``{"value", "unit"}`` quantity in the display system, e.g. ``"1121 kip"``."""
-    from fieldcol.units import format_length, format_quantity
+    from fieldcol.units import STEP_KINDS, format_length, format_quantity
 
     if q is None or q.get("value") is None:
         return "-"
     v, unit = q["value"], q["unit"]
-    kind = _KIND.get(unit)
+    kind = STEP_KINDS.get(unit)
     if kind == "length":
         return format_length(v, system) if system == "us" and v > 300 else format_quantity(v, kind, system, digits)
     if kind:
@@ -136,20 +130,24 @@ def _built_or_measured(section: dict) -> str:
 def sheet(d: dict, system: str) -> str:
     """The calculation sheet of an assessment's JSON form."""
     from fieldcol import CAUTION
+    from fieldcol.units import format_step, us_words
 
     out = [f"Column {d['tag']}  -  {d['edition']} ({d['basis']}), K basis: {d['k_basis']}",
            f"Section {d['section']['name'] or _built_or_measured(d['section'])}, "
            f"{d['material']['name']}, Fy {show(d['material']['Fy'], system)}",
            f"fieldcol {d['app_version']}", ""]
     out += ["Input"] + [f"  {line}" for line in _input_lines(d["input"])] + ["", "Calculation"]
+    # the engine writes its own units (mm, MPa) into a step's words: a US site reads inches, ksi
+    words = us_words if system == "us" else str
     for st in d["steps"]:
-        q = {"value": st["value"], "unit": st["unit"]} if isinstance(st["value"], float) else None
-        if q is None and st["symbol"] == "section":
-            out.append(f"  {'section':<14} {st['value']}")
+        if not isinstance(st["value"], float) and st["symbol"] == "section":
+            out.append(f"  {'section':<14} {words(str(st['value']))}")
             continue
-        val = show(q, system) if q else str(st["value"])
-        formula = f" = {st['formula']}" if st["formula"] else ""
-        out.append(f"  {st['symbol']:<14} {val:>16}  {st['what']}{formula}  [{st['clause']}]")
+        val = (format_step(st["value"], st["unit"], system) if isinstance(st["value"], float)
+               else words(str(st["value"])))
+        formula = f" = {words(st['formula'])}" if st["formula"] else ""
+        out.append(f"  {st['symbol']:<14} {val:>16}  {words(st['what'])}{formula}  "
+                   f"[{st['clause']}]")
     out += ["", "Modes"]
     for name, m in d["modes"].items():
         out.append(f"  {name:<16} Lc {show(m['effective_length'], system):>14}  "

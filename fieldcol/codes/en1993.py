@@ -146,8 +146,10 @@ def check_en1993(section: Section, fy: Any, E: Any, G: Any, Lc_strong: Any, Lc_w
                     0.5 * (1 + alpha * (lb - 0.2) + lb**2), "", f"{C6312} (6.49)")
         chi = t.add(f"chi,{tag}", f"reduction factor, {tag}", "1 / (Phi + sqrt(Phi^2 - lb^2)) <= 1",
                     reduction_factor(lb, alpha), "", f"{C6312} (6.49)")
-        t.add(f"ignore,{tag}", f"buckling may be ignored, {tag} (lb <= 0.2; NEd/Ncr <= 0.04 not checked: "
-              "no load given)", "lb <= 0.2", lb <= 0.2, "", f"{C6312} (4)")
+        # the resistance is found without the load, so the clause's other test is not used
+        t.add(f"ignore,{tag}", f"buckling may be ignored, {tag} (lb <= 0.2; the resistance does "
+              "not depend on the load: NEd/Ncr <= 0.04 not used)", "lb <= 0.2", lb <= 0.2, "",
+              f"{C6312} (4)")
         Pn = t.add(f"Nb,{tag}", f"buckling resistance before gamma_M1, {tag}", "chi A fy (Aeff for Class 4)",
                    chi * (Aeff * fy), "N", f"{C6312} (6.47), (6.48)")
         return lb, chi * fy * Aeff / A, Pn

@@ -59,7 +59,7 @@ def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], 
     Example: ``site_report(store, store.site_by_name("Kestrel Lane Print Works").id,
     "kestrel.pdf")`` writes the demo site's report and returns ``Path("kestrel.pdf")``.
     """
-    from fieldcol.report import _pages
+    from fieldcol.report import _column_sheet, _pages
     from fieldcol.report._gather import gather
     from fieldcol.report._layout import MISSING_MARK, ReportPDF
 
@@ -87,7 +87,7 @@ def site_report(store: "Store", site_id: str, out_path: str | os.PathLike[str], 
     _pages.register(pdf, data)
     _pages.findings_register(pdf, data)
     for c in data.columns:
-        _pages.column_sheet(pdf, store, data, c)
+        _column_sheet.column_sheet(pdf, store, data, c)
     _pages.photo_grid(pdf, store, data)
     if pdf.missing:
         pdf.para(f"{len(pdf.missing)} character(s) in the records cannot be shown in this "

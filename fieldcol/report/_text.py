@@ -11,11 +11,11 @@ import math
 from typing import Any
 
 from fieldcol.assess import MODE_WORDS as _MODE_WORDS
+from fieldcol.store._schema import FACE_WORDS
+from fieldcol.units import STEP_KINDS
 
 # engine unit -> fieldcol.units kind, so each value is shown in the site's unit system
-_KIND = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
-         "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-         "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle"}
+_KIND = STEP_KINDS
 
 END_WORDS = {"pinned": "pinned (free to rotate, held in place)",
              "fixed": "fixed (rotation and position held)",
@@ -30,6 +30,55 @@ RESTRAINT_KIND_WORDS = {"brace_added": "brace added", "brace_removed": "brace re
                         "other": "other"}
 
 SEVERITY_ORDER = ("urgent", "high", "medium", "low", "info")
+
+
+#: the design code in words (the cover, a sheet whose record has no check yet)
+CODE_WORDS = {"aisc360-22": "AISC 360-22 (ANSI/AISC 360-22)",
+              "en1993-1-1": "EN 1993-1-1 (Eurocode 3)", "elastic": "elastic reference check"}
+
+
+def column_status(c: Any) -> str:
+    """A column's status word from its latest check (a ``_gather.ColumnData``).
+
+    Example: ``column_status(c)`` gives ``'OVER'`` for the demo's C/3-G.
+    """
+    return status_word(c.check is not None, c.status, c.utilization)
+
+
+def util_status(c: Any) -> str:
+    """The utilization with its status word, or the word alone when there is no number.
+
+    Example: ``util_status(c)`` gives ``'1.110 OVER'`` for the demo's C/3-G.
+    """
+    word = column_status(c)
+    return f"{utilization_text(c.utilization)} {word}" if word in ("OK", "OVER") else word
+
+
+def length_text(text: Any, system: str) -> str:
+    """A length as typed, shown in the site's units (as typed when it cannot be read: its
+    check names what is wrong with it).
+
+    Example: ``length_text("4 ft", "us")`` gives ``'4\'-0"'``.
+    """
+    from fieldcol.errors import InputError
+    from fieldcol.units import format_length, parse_length
+
+    if text in (None, ""):
+        return "not recorded"
+    try:
+        return format_length(parse_length(text, "length"), system)
+    except InputError:
+        return str(text)
+
+
+def place_text(f: Any, system: str) -> str:
+    """Where on the column a finding is: its face and height, as the register and the
+    column's sheet both say it.
+
+    Example: ``place_text(finding, "us")`` gives ``'web, 4\'-0" up'``.
+    """
+    return ", ".join(([FACE_WORDS.get(f.face, f.face)] if f.face else [])
+                     + ([f"{length_text(f.height, system)} up"] if f.height else []))
 
 
 def quantity(q: dict[str, Any] | None, system: str, digits: int = 4) -> str:
@@ -403,10 +452,15 @@ def restraint_lines(restraints: Any) -> list[tuple[str, str]]:
     ``('weak axis, bottom', 'pinned (free to rotate, held in place)')``.
     """
     out: list[tuple[str, str]] = []
-    if not isinstance(restraints, dict) or not restraints:
-        return [("restraints", "not recorded")]
+    if restraints is None or restraints == {}:
+        restraints = {}  # the check takes an end not recorded as pinned (record.py): say so
+    elif not isinstance(restraints, dict):
+        return [("restraints", value_text(restraints))]
     for axis in ("strong", "weak", "twist"):
         spec = restraints.get(axis)
+        if spec is None and axis != "twist":
+            out.append((f"{axis} axis", "not recorded: both ends taken as pinned"))
+            continue
         if spec is None:
             continue
         if not isinstance(spec, dict):
@@ -416,6 +470,8 @@ def restraint_lines(restraints: Any) -> list[tuple[str, str]]:
         for end in ("bottom", "top"):
             if end in spec:
                 out.append((f"{label}, {end}", _end_text(spec[end])))
+            elif axis != "twist":
+                out.append((f"{label}, {end}", "taken as pinned (not recorded)"))
         if "k" in spec:
             out.append((f"{label}, K", f"K taken as {value_text(spec['k'])} (override)"))
         if "alignment" in spec:
@@ -470,6 +526,23 @@ def condition_text(condition: Any) -> str:
     parts += [f"{k.replace('_', ' ')} {value_text(v)}" for k, v in condition.items()
               if k not in ("bow", "bow_axis", "plumb")]
     return "; ".join(parts)
+
+
+def measured_label(section: dict[str, Any]) -> str:
+    """A section measured on site in a few words, for the register: its shape and main sizes
+    as typed ("measured I" alone left the reader to find which I).
+
+    Example: ``measured_label({"shape": "i", "d": "16 in", "bf": "12 in", "welded": True})``
+    gives ``'measured welded I 16 in x 12 in'``.
+    """
+    shape = str(section.get("shape", "")).strip().lower()
+    head = {"i": "welded I" if section.get("welded") else "I", "rect": "RHS",
+            "round": "CHS"}.get(shape, "section")
+    sizes = " x ".join(value_text(section[k])
+                       for k in {"i": ("d", "bf"), "rect": ("d", "b", "t"),
+                                 "round": ("D", "t")}.get(shape, ()) if k in section)
+    return (f"measured {head}" + (f" {sizes}" if sizes else "")
+            + (" with loss" if section.get("loss") else ""))
 
 
 def built_label(built: dict[str, Any]) -> str:

@@ -42,7 +42,8 @@ class FindingsMixin(ColumnsMixin):
     def add_finding(self, site_id: str, text: str, *, category: str, severity: str,
                     column_id: str | None = None, status: str = "open",
                     face: str | None = None, height: str | None = None,
-                    finding_id: str | None = None) -> Finding:
+                    noted_at: str | None = None, noted_by: str | None = None,
+                    visit_id: str | None = None, finding_id: str | None = None) -> Finding:
         """Note a finding about a site or one of its columns.
 
         Args:
@@ -53,6 +54,10 @@ class FindingsMixin(ColumnsMixin):
                 ``top``), or None when not said.
             height: where up the column, as typed (``"4 ft"``, ``"1.2 m"``), measured from the
                 bottom; not above the top of the column; None when not said.
+            noted_at: when it was seen (ISO 8601 with a time zone), for a finding written up
+                after the visit from notes taken on it; now when None.
+            noted_by: who saw it; the person recording on this device when None.
+            visit_id: the visit it was seen on; the visit open on this device when None.
 
         Example:
             >>> store.add_finding(site.id, "Web dented at 4 ft", category="damage",
@@ -66,6 +71,15 @@ class FindingsMixin(ColumnsMixin):
         given.update({k: val for k, val in (("face", face), ("height", height))
                       if val is not None})
         row = {"site_id": site_id, **self._finding_fields(given, site_id)}
+        if noted_at is not None:
+            # the register dates a finding by when it was seen, not when it was typed in
+            row["created_at"] = v.utc_timestamp(noted_at, "noted_at")
+        if noted_by is not None:
+            row["created_by"] = v.text(noted_by, "noted_by")
+        if visit_id is not None:
+            if self._get("visits", visit_id, field="visit")["site_id"] != site_id:
+                raise InputError("visit", visit_id, "that visit is to another site", None)
+            row["visit_id"] = visit_id
         return self.get_finding(self._insert("findings", row, row_id=finding_id))
 
     def _finding_fields(self, fields: dict, site_id: str) -> dict:

@@ -36,11 +36,11 @@ _AXIS_NAMES["elastic"] = _AXIS_NAMES["aisc360-22"]
 _SUFFIX = {"aisc360-22": {"flexural-strong": "x", "flexural-weak": "y", "torsional": "z"},
            "en1993-1-1": {"flexural-strong": "y", "flexural-weak": "z", "torsional": "T"}}
 _SUFFIX["elastic"] = _SUFFIX["aisc360-22"]
-_STEP_KINDS = {"mm": "length", "N": "force", "MPa": "stress", "mm^2": "area", "mm^3": "modulus",
-               "mm^4": "inertia", "mm^6": "warping", "N/mm": "stiffness",
-               "N*mm/rad": "rotational_stiffness", "N*mm": "moment", "deg": "angle",
-               # checks saved before the built-up batten moment was written in N*mm
-               "N mm": "moment"}
+
+
+#: the clause of a step that restates an input (a code check lists the material, the
+#: effective lengths and the demand it was given): shown once, where it was worked out
+_RESTATED = ("material", "effective length", "demand")
 
 
 @dataclass(frozen=True)
@@ -125,7 +125,7 @@ def _fmt(value: float | None, kind: str, system: str) -> str:
 
 
 def _step_text(value: Any, unit: str, system: str) -> str:
-    from fieldcol.units import format_quantity
+    from fieldcol.units import format_step
 
     if value is None:
         return "none"
@@ -133,11 +133,7 @@ def _step_text(value: Any, unit: str, system: str) -> str:
         return {"True": "yes", "False": "no"}.get(value, value)
     if isinstance(value, bool):
         return "yes" if value else "no"
-    kind = _STEP_KINDS.get(unit)
-    if kind is not None:
-        return format_quantity(float(value), kind, system)
-    number = f"{float(value):.4g}"
-    return f"{number} {unit}" if unit else number
+    return format_step(float(value), unit, system)
 
 
 def _yes_no(v: Any) -> str:
@@ -255,13 +251,20 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
                 for w in result.get("warnings") or []]
     # the engine writes its own units (mm, MPa) into a step's words: a US site reads inches, ksi
     words = us_words if system == "us" else str
-    trace = [TraceLine(_trace_symbol(s, code),
-                       _yes_no(s.get("value")) if "≤" in display_symbol(str(s.get("symbol", "")), code)
-                       or str(s.get("symbol", "")).startswith("slender")
-                       else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
-                       words(str(s.get("what", ""))), str(s.get("formula", "")),
-                       str(s.get("clause", "")))
-             for s in result.get("steps") or []]
+    trace: list[TraceLine] = []
+    shown = set()
+    for s in result.get("steps") or []:
+        step = TraceLine(_trace_symbol(s, code),
+                         _yes_no(s.get("value"))
+                         if "≤" in display_symbol(str(s.get("symbol", "")), code)
+                         or str(s.get("symbol", "")).startswith("slender")
+                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
+                         words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
+                         str(s.get("clause", "")))
+        if step.clause in _RESTATED and (step.symbol, step.value) in shown:
+            continue  # the code check's own list of its inputs: each was given above
+        shown.add((step.symbol, step.value))
+        trace.append(step)
     return CheckSummary(
         title=f"{CODE_TITLES.get(code, code)} check" if code != "elastic" else CODE_TITLES[code],
         status_word=status.word, status_icon=status.icon, status_tone=status.tone,
@@ -323,7 +326,8 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
              "flexural-weak": "Buckling about the weak axis",
              "torsional": "Twisting (torsional buckling)", "yield": "Squashing (yield)",
              "bow": "The measured bow (bending with the axial load)", "": "No strength"}
-    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (" governs" if gov else ": the code gives none for this column")
+    verb = " govern" if gov == "tie-joint" else " governs"  # (the rivets or bolts ...)
+    head = words.get(gov, MODE_WORDS.get(gov, gov).capitalize()) + (verb if gov else ": the code gives none for this column")
     if gov in ("flexural-strong", "flexural-weak", "torsional"):
         ax = {"flexural-strong": "strong", "flexural-weak": "weak", "torsional": "twist"}[gov]
         m = modes.get(gov) or {}
@@ -362,6 +366,14 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
         b = result.get("section_band") or {}
         return head, (f"The section where steel was lost ({_fmt(_val(b.get('from')), 'length', system)} to "
                       f"{_fmt(_val(b.get('to')), 'length', system)}) holds less than the member buckles at.")
+    if gov == "tie-joint":
+        shear = ("2 % of the axial strength as shear (AISC 360-22 E6.2)" if code == "aisc360-22"
+                 else "the shear of EN 1993-1-1 6.4" if code == "en1993-1-1"
+                 else "the shear of the bowed member")
+        # no warning says this: the trace has the joints' strength and the force on them
+        return head, (f"The rivets or bolts at the ends of a lacing bar or batten cannot carry "
+                      f"what {shear} puts on them at the member's buckling strength: the "
+                      "strength is what they allow (the joint steps of the trace).")
     return head, "See the warnings."
 
 

@@ -167,11 +167,10 @@ def _shape(section: Any) -> str:
 
 
 def _value_text(m: "Measurement", system: str) -> str:
-    from fieldcol.units import format_quantity
+    from fieldcol.units import format_quantity, format_reading
 
-    if m.kind == "length" and system == "us" and abs(m.value) < 304.8:
-        # a thickness or a bow reads in decimal inches, as gauges show it
-        return f"{m.value / 25.4 + 1e-9:.3f}".rstrip("0").rstrip(".") + " in"
+    if m.kind == "length":
+        return format_reading(m.value, system)
     return format_quantity(m.value, m.kind, system)
 
 
