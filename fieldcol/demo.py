@@ -302,7 +302,7 @@ def build_demo(store: "Store") -> DemoSummary:
                 store.add_photo(demo_photo("cable" if kind == "cable_found" else "strap", tag,
                                            f"{_V1}T13:{5 * i:02d}:00"),
                                 original_name=f"{tag.replace('/', '-')}-restraint.jpg",
-                                restraint_change_id=rid, caption=desc)
+                                restraint_change_id=rid, caption=desc, taken_by=seen)
     for key, tag, text, cat, sev, status, style, when, who in FINDINGS:
         fid = _id("finding", key)
         if not have("findings", fid):
@@ -314,7 +314,7 @@ def build_demo(store: "Store") -> DemoSummary:
                 # the photo taken as the finding was noted
                 photo = store.add_photo(demo_photo(style, tag, when[:19]),
                                         original_name=f"{tag.replace('/', '-')}-{style}.jpg",
-                                        finding_id=fid, caption=text[:60])
+                                        finding_id=fid, caption=text[:60], taken_by=who)
                 if key in MARKUP:
                     store.set_markup(photo.id, MARKUP[key])
     for tag, desc, option in RETROFITS:

@@ -456,6 +456,27 @@ def test_a_finding_noted_after_the_visit_keeps_when_and_by_whom_it_was_seen(tmp_
         assert len(store.list_findings(site.id)) == 1  # nothing half saved
 
 
+def test_a_photo_keeps_who_took_it(tmp_path: Path):
+    from PIL import Image
+    import io
+
+    def jpeg(shade: int) -> bytes:
+        buf = io.BytesIO()
+        Image.new("RGB", (32, 24), (shade, 90, 40)).save(buf, "JPEG")
+        return buf.getvalue()
+
+    with Store(tmp_path / "p.db") as store:
+        store.set_who("R. Amadi", "RA", "site phone")
+        assert store.add_photo(jpeg(10)).created_by == "R. Amadi"  # the person recording
+        assert store.add_photo(jpeg(20), taken_by="T. Nguyen").created_by == "T. Nguyen"
+        for bad in ("   ", "T.\x1bNguyen"):
+            with pytest.raises(InputError) as e:
+                store.add_photo(jpeg(30), taken_by=bad)
+            assert e.value.field == "taken_by"
+        n = store.db.conn.execute("SELECT count(*) FROM photos").fetchone()[0]
+        assert n == 2  # nothing half saved
+
+
 def test_the_measured_bow_reads_as_its_warning_and_its_reading_do(demo):
     """B/2-G: a bow of 1 1/8 in over 16 ft (string line). L/1000 = 0.192 in is allowed for in
     the column curve (AISC 303 straightness tolerance L/1000), so 1.125 - 0.192 = 0.933 in is

@@ -227,7 +227,9 @@ def test_small_words_read_as_a_person_writes_them(demo, mixed):
     assert "braces none recorded" not in text
     # a finding's category of the trade stays whole in its cell (was "housekeepi ng")
     assert re.search(r"F9 info closed whole site housekeeping Debris", text)
-    assert "photographer not recorded" in text and "by: not recorded" not in text
+    # each demo photo names who took it (the person who noted the finding or the restraint)
+    assert re.search(r"P1\b.{0,200}?, by (R\. Amadi|T\. Nguyen)", text), text[-2000:]
+    assert "photographer not recorded" not in text and "by: not recorded" not in text
     # a sentence run on after a colon goes on in lower case
     assert "Governing mode flexural buckling, weak axis: its buckling length 16'-0\"" in a1
     # EN 1993-1-1 has no LRFD/ASD basis: the partial factor gamma_M1 (6.1 (1)) stands there

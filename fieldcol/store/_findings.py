@@ -209,7 +209,7 @@ class FindingsMixin(ColumnsMixin):
     def add_photo(self, source: bytes | str | os.PathLike[str], *,
                   original_name: str | None = None, finding_id: str | None = None,
                   column_id: str | None = None, restraint_change_id: str | None = None,
-                  caption: str | None = None) -> Photo:
+                  caption: str | None = None, taken_by: str | None = None) -> Photo:
         """Keep a photo (once per content) and optionally attach it to one thing.
 
         Args:
@@ -217,6 +217,8 @@ class FindingsMixin(ColumnsMixin):
             original_name: the name to remember (defaults to the file's name).
             finding_id / column_id / restraint_change_id: attach to this (at most one).
             caption: the attachment's caption.
+            taken_by: who took it (default: the person recording on this device); kept with a
+                photo stored for the first time.
 
         Returns:
             The ``Photo`` (the existing one when the same bytes were stored before).
@@ -240,6 +242,8 @@ class FindingsMixin(ColumnsMixin):
                     "exif_taken_at", "latitude", "longitude")}
                 row["original_name"] = v.text(original_name or name, "original_name",
                                               required=False)
+                if taken_by is not None:
+                    row["created_by"] = v.text(taken_by, "taken_by")
                 # the id follows the content, so the same photo taken in on two devices is
                 # one row when they sync, never two rows fighting over one hash
                 photo_id = self._insert("photos", row,
