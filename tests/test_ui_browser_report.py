@@ -16,7 +16,7 @@ import pypdf
 import pytest
 
 from _browser import (  # noqa: F401  (browser and served are fixtures)
-    SIZES, TIMEOUT, _click, _open, _poll, _sel, _shot, _type_into, _wait, _words, browser,
+    SIZES, TIMEOUT, _click, _open, _open_column, _poll, _sel, _shot, _type_into, _wait, _words, browser,
     served, server,
 )
 from fieldcol import CAUTION
@@ -58,3 +58,22 @@ def test_the_site_report_is_made_in_the_app_and_handed_out(server, browser, tmp_
     assert rows[-1] == [CAUTION]
     _shot(page, f"report-made{suffix}.png")
     assert page.refused == [] or all("rive" in u for u in page.refused)
+
+
+def test_a_column_s_calculation_sheet_from_its_check_tab(server, browser, tmp_path):
+    page = _open(browser, server, SIZES["phone"])
+    _click(page, f"site-{SITE}", done=lambda: page.locator(_sel("column-A/1-G")).count() > 0)
+    _open_column(page, "column-C/3-G")
+    _click(page, "column-sheet", done=lambda: page.locator(_sel("report-make")).count() > 0)
+    _wait(page, "caution")
+    _shot(page, "report-column.png")
+    with page.expect_download(timeout=TIMEOUT * 2 * 1000) as got:
+        _click(page, "report-make")
+    path = tmp_path / got.value.suggested_filename
+    got.value.save_as(path)
+    assert path.name.startswith("kestrel-lane-print-works-c-3-g-")
+    text = " ".join(" ".join(p.extract_text().split()) for p in pypdf.PdfReader(path).pages)
+    assert "Column C/3-G" in text and "Column C/2-G" not in text
+    _poll(lambda: _words(page, "report-status"), lambda t: "1 column" in t, "sheet made")
+    _click(page, "back", scroll=False,  # back to the column, its result on top
+           done=lambda: "C/3-G" in _words(page, "column-tag"))

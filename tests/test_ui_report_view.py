@@ -43,3 +43,15 @@ def test_file_names_keep_to_safe_characters():
     # a site name with slashes or dots never makes a path of its own
     assert report_name("../Unit 4/Bay 2", "2026-12-05") == "unit-4-bay-2-2026-12-05.pdf"
     assert report_name("///", "2026-12-05") == "site-2026-12-05.pdf"
+
+
+def test_one_column_s_calculation_sheet(demo):  # noqa: F811
+    store, site = demo
+    made = make_report(store, site.id, "2026-12-05", "C/3-G")
+    assert made.name == "kestrel-lane-print-works-c-3-g-2026-12-05.pdf" and made.columns == 1
+    text = " ".join(" ".join(p.extract_text().split())
+                    for p in pypdf.PdfReader(io.BytesIO(made.pdf)).pages)
+    assert "Column C/3-G" in text and "Column C/2-G" not in text
+    assert CAUTION.split(";")[0] in text
+    rows = made.csv.decode("utf-8-sig").splitlines()
+    assert rows[1].startswith("C/3-G,") and len(rows) == 3  # heading, the column, the caution

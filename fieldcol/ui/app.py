@@ -2,7 +2,8 @@
 
 Routes: ``/`` (sites; at first start it asks who is using the device), ``/settings`` (who,
 theme), ``/sync`` (the office hub: address, token, sync, conflicts, field bundles),
-``/sites/<id>/report`` (the site's PDF report and CSV register, handed out), ``/sites/new``,
+``/sites/<id>/report`` (the site's PDF report and CSV register, handed out),
+``/columns/<id>/report`` (one column's calculation sheet, the same way), ``/sites/new``,
 ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``, ``/sites/<id>/new-column``,
 ``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
@@ -172,6 +173,8 @@ class FieldApp:
                 await self._show_site(parts[1])
             elif len(parts) == 2 and parts[0] == "columns":
                 await self._show_column(parts[1])
+            elif len(parts) == 3 and parts[0] == "columns" and parts[2] == "report":
+                await self._show_report(None, parts[1])
             else:
                 await self._show_sites()
         except (sqlite3.Error, OSError, StoreBusyError) as e:
@@ -410,14 +413,24 @@ class FieldApp:
             else ft.Column([visit, new], spacing=8)
         return self.list.control(selected, tools)
 
-    async def _show_report(self, site_id: str) -> None:
+    async def _show_report(self, site_id: str | None, column_id: str | None = None) -> None:
+        """The report of a site, or (``column_id``) one column's calculation sheet."""
         from fieldcol.ui.report_view import ReportScreen
 
         self.detail = None
+        col = None
+        if column_id is not None:
+            col = await asyncio.to_thread(self.store.get_column, column_id)
+            site_id = col.site_id
+        assert site_id is not None
         card = await asyncio.to_thread(m.site_card, self.store, site_id)
-        screen = ReportScreen(self.page, self.store, site_id)
-        self._render(f"/sites/{site_id}/report", f"Report: {card.name}",
-                     screen.controls(card.summary), f"/sites/{site_id}")
+        screen = ReportScreen(self.page, self.store, site_id, col.tag if col else None)
+        if col is None:
+            self._render(f"/sites/{site_id}/report", f"Report: {card.name}",
+                         screen.controls(card.summary), f"/sites/{site_id}")
+        else:
+            self._render(f"/columns/{column_id}/report", f"Sheet: {col.tag}",
+                         screen.controls(card.summary), f"/columns/{column_id}")
 
     async def _show_site(self, site_id: str) -> None:
         self.detail = None

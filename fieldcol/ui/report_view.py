@@ -1,6 +1,7 @@
-"""The report screen of a site (``/sites/<id>/report``): the site's PDF report and its column
-register (CSV) made in the app and handed out (the platform's save dialog; a download in a
-browser), the same files as ``fieldcol report``.
+"""The report screen of a site (``/sites/<id>/report``) or of one column
+(``/columns/<id>/report``, its calculation sheet): the PDF report and its column register (CSV)
+made in the app and handed out (the platform's save dialog; a download in a browser), the same
+files as ``fieldcol report`` (``--column TAG`` for one column).
 
 ``make_report(store, site_id, date)`` and ``report_words`` are the plain view-model (tested
 without Flet); ``ReportScreen(page, store, site_id)`` builds the controls and makes the report
@@ -40,14 +41,18 @@ class MadeReport:
     columns: int
 
 
-def report_name(site_name: str, date: str) -> str:
-    """The file name a report is offered under: the site and the report's date.
+def report_name(site_name: str, date: str, tag: str | None = None) -> str:
+    """The file name a report is offered under: the site (and the column) and the date.
 
     Example:
         >>> report_name("Kestrel Lane Print Works", "2026-12-05")
         'kestrel-lane-print-works-2026-12-05.pdf'
+        >>> report_name("Kestrel Lane Print Works", "2026-12-05", "C/3-G")
+        'kestrel-lane-print-works-c-3-g-2026-12-05.pdf'
     """
     stem = _UNSAFE.sub("-", site_name.lower()).strip("-")[:60] or "site"
+    if tag:
+        stem += "-" + (_UNSAFE.sub("-", tag.lower()).strip("-")[:30] or "column")
     return f"{stem}-{date}.pdf"
 
 
@@ -61,13 +66,14 @@ def today() -> str:
     return dt.datetime.now(dt.timezone.utc).date().isoformat()
 
 
-def make_report(store: "Store", site_id: str, date: str) -> MadeReport:
-    """Write the site's report and register to a private temporary folder and read them back.
+def make_report(store: "Store", site_id: str, date: str, tag: str | None = None) -> MadeReport:
+    """Write the report and register to a private temporary folder and read them back.
 
     Args:
         store: the open store.
         site_id: the site.
         date: the date printed on the report, ``YYYY-MM-DD``.
+        tag: one column's tag (its sheet alone); every column of the site when None.
 
     Returns:
         A ``MadeReport``. Raises ``InputError`` naming the field (``report_date`` for a bad date).
@@ -82,10 +88,11 @@ def make_report(store: "Store", site_id: str, date: str) -> MadeReport:
     site = store.get_site(site_id)
     date = (date or "").strip() or today()
     with tempfile.TemporaryDirectory(prefix="fieldcol-report-") as tmp:
-        out = site_report(store, site_id, Path(tmp) / "report.pdf", report_date=date)
+        out = site_report(store, site_id, Path(tmp) / "report.pdf", report_date=date,
+                          columns=[tag] if tag else None)
         pdf, csv = out.read_bytes(), out.with_suffix(".csv").read_bytes()
-    columns = store.site_counts(site_id)["columns"]  # every live column has its sheet
-    name = report_name(site.name, date)
+    columns = 1 if tag else store.site_counts(site_id)["columns"]  # a sheet each
+    name = report_name(site.name, date, tag)
     return MadeReport(name, pdf, name[:-4] + ".csv", csv, columns)
 
 
@@ -104,10 +111,11 @@ def report_words(made: MadeReport) -> str:
 class ReportScreen:
     """The report screen's controls and handlers over one site."""
 
-    def __init__(self, page: ft.Page, store: "Store", site_id: str) -> None:
+    def __init__(self, page: ft.Page, store: "Store", site_id: str,
+                 tag: str | None = None) -> None:
         from fieldcol.ui.intake import intake_for
 
-        self.page, self.store, self.site_id = page, store, site_id
+        self.page, self.store, self.site_id, self.tag = page, store, site_id, tag
         self.made: MadeReport | None = None
         self.date = ft.TextField(label="Report date", value=today(), hint_text="YYYY-MM-DD",
                                  text_size=17, keyboard_type=ft.KeyboardType.DATETIME,
@@ -122,11 +130,14 @@ class ReportScreen:
 
     def controls(self, counts: str) -> list[ft.Control]:
         """The screen's body; ``counts`` says what the site holds (``SiteCard.summary``)."""
+        what = (f"Column {self.tag}: its sheet (the record, the latest check with every mode "
+                "and the trace, the histories), its findings and their photos."
+                if self.tag else
+                f"Every column of the site ({counts}), worst first: the register, the "
+                "findings, one sheet per column with its check and trace, and the photos.")
         return [
             v._card([
-                v.text_line(f"Every column of the site ({counts}), worst first: the register, "
-                            "the findings, one sheet per column with its check and trace, and "
-                            "the photos. The register also comes as a CSV for a spreadsheet.",
+                v.text_line(what + " The register also comes as a CSV for a spreadsheet.",
                             size=16),
                 ft.Semantics(identifier="report-date", content=self.date),
                 ft.Row([ft.Semantics(identifier="report-make", button=True, content=self.make),
@@ -134,7 +145,8 @@ class ReportScreen:
                                      content=self.csv), self.busy], wrap=True, spacing=8,
                        run_spacing=8),
                 ft.Semantics(identifier="report-status", live_region=True,
-                             content=self.status)], title="Site report"),
+                             content=self.status)],
+                    title=f"Calculation sheet of {self.tag}" if self.tag else "Site report"),
             v.caution_box()]
 
     def _show(self, words: str, *, busy: bool = False) -> None:
@@ -152,7 +164,7 @@ class ReportScreen:
         self._show("Making the report...", busy=True)
         try:
             self.made = await asyncio.to_thread(make_report, self.store, self.site_id,
-                                                self.date.value or "")
+                                                self.date.value or "", self.tag)
             await intake_for(self.page).save(self.made.name, self.made.pdf)
             self._show(report_words(self.made))
         except InputError as e:

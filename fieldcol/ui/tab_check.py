@@ -85,9 +85,13 @@ class CheckTab(Tab):
                        for f in d.fields]
             recheck = ft.Semantics(identifier="check-again", content=ft.FilledButton(
                 "Check again", icon=ft.Icons.REFRESH, on_click=self._recheck, height=v.TAP))
+            sheet = ft.Semantics(identifier="column-sheet", button=True, content=ft.OutlinedButton(
+                "Calculation sheet (PDF)", icon=ft.Icons.PICTURE_AS_PDF, height=v.TAP,
+                on_click=self._sheet))
             self.edit = v._card([v.text_line("Saved when you press Enter or leave the entry, "
                                              "then checked again; Undo in the bar below.",
-                                             color=v.MUTED), *entries, self.basis_box, recheck],
+                                             color=v.MUTED), *entries, self.basis_box,
+                                 ft.Row([recheck, sheet], wrap=True, spacing=8, run_spacing=8)],
                                 title="Edit")
         if d.basis != self._basis_shown:  # drawn again only when it changed
             self._basis_shown = d.basis
@@ -112,6 +116,10 @@ class CheckTab(Tab):
                 self.edit, self.loads.draw(), *_keyed([chart] if chart else [], "chart"),
                 self.trace[1],
                 *_keyed(v.record_body(d), "column", "record")]
+
+    async def _sheet(self, _e: Any = None) -> None:
+        if self.app.detail is not None:
+            await self.app.page.push_route(f"/columns/{self.app.detail.id}/report")
 
     async def _save(self, e: Any) -> None:
         # every path below sends its own update (the saver draws the re-checked tab): the one
