@@ -140,7 +140,7 @@ def test_phone_findings_photo_history_and_a_new_finding(server, browser):
           lambda t: "Base of column heavily corroded" in t and "high" in t and "open" in t,
           "the finding's words")
     photo = _wait(page, "photo-f0-0")
-    assert "taken 2026-02-10 11:00" in _words(page, "photo-f0-0")
+    assert "taken 2026-02-10 10:20" in _words(page, "photo-f0-0")  # taken as its finding was noted
     box = photo.bounding_box()
     assert box and box["width"] >= 48 and box["height"] >= 48, box
     # the thumbnail is drawn (the demo photo is a grey column on a lighter wall, not a blank)
