@@ -128,6 +128,23 @@ def test_ends_and_twist_points_are_saved_and_logged(demo):
     assert rm.restraints_view(store.current_record(cid), "us").twist == []
 
 
+def test_an_end_change_says_the_check_it_saved(demo):
+    """The save bar's "checked again: ..." after an end change comes from the check saved with
+    it. A7 (Fy 33 ksi, the historic ASTM A7 minimum, from memory), W10X49
+    (A 14.4 in2, ry 2.54 in: AISC Shapes Database v15.0, from memory), 16 ft: fixing one
+    weak-axis end of a pinned column takes K from 1.0 to the recommended design 0.80 (AISC
+    360-22 Commentary Table C-A-7.1, from memory), so by AISC 360-22 E3 by hand Lc/r 60.5,
+    Fe 78.3 ksi, Fcr 27.7 ksi, phi Pn 358 kip and 120 kip / 358 kip = 0.335."""
+    store, site = demo
+    cid = _col(store, site, "A/1-G")
+    saved = rm.set_end(store, cid, "weak", "top", "fixed", who="R. Amadi")
+    chk = store.latest_check(cid)
+    assert saved.status == f"{chk.utilization:.2f} OK"
+    assert chk.utilization == pytest.approx(120 / 358.5, rel=0.01)
+    # the twist restraint and the removal say theirs too
+    assert rm.add_twist(store, cid, "8 ft").status.endswith("OK")
+
+
 def test_sketch_follows_the_brace_being_typed(demo):
     store, site = demo
     rec = store.current_record(_col(store, site, "A/1-G"))
