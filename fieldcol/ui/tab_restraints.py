@@ -322,10 +322,13 @@ class RestraintsTab(Tab):
                     options=[ft.DropdownOption(
                         key=k, text=k, content=v.text_line(f"{k}: {rm.END_HELP[k]}"))
                         for k in rm.END_KINDS],
-                    helper_text=rm.END_HELP.get(ev.kind, ""),
-                    helper_style=ft.TextStyle(size=16, color=v.MUTED),
                     on_select=self._end_chosen(axis, end), data=(axis, end), expand=True)
                 rows.append(ft.Semantics(identifier=f"end-{axis}-{end}", content=dd))
+                # a text, not the dropdown's helper: the dropdown gives a screen reader no
+                # words of its own, this line does
+                means = v.text_line(rm.END_HELP.get(ev.kind, ""), color=v.MUTED)
+                rows.append(ft.Semantics(identifier=f"end-{axis}-{end}-means", content=ft.Container(
+                    means, padding=ft.Padding.only(left=16))))
                 if ev.kind == "spring" or (axis, end) in self.spring:
                     tf = self.spring.get((axis, end))
                     if tf is None:
