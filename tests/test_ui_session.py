@@ -743,3 +743,46 @@ def test_an_en_column_never_says_lrfd(tmp_path):
         _run(walk())
     finally:
         store.close()
+
+
+# -- words that fit: a helper cut to one line at 390 px -------------------------------------
+def _entries(s: "Screen") -> list[ft.TextField]:
+    return [c for c in s.all() if isinstance(c, ft.TextField)]
+
+
+def test_every_entry_has_room_for_its_hint_and_its_error(demo):
+    """At 390 px an entry's hint or error left at Flutter's one line was cut off mid-word
+    ("one line is enough, e.g. web pitted 3..."): every entry of the column screen, its forms
+    open, gives both at least two lines."""
+    async def walk():
+        store, site = demo
+        col = store.find_column(site.id, "A/1-G")
+        s = await Screen.opened(store, col.id)
+        seen: dict[str, int] = {}
+
+        def look(where: str) -> None:
+            for tf in _entries(s):
+                what = f"{where}: {tf.label}"
+                seen[what] = 1
+                if tf.helper:
+                    assert (tf.helper_max_lines or 1) >= 2, what
+                assert (tf.error_max_lines or 1) >= 2, what
+        for t in TABS:
+            await s.tap(f"tab-{t.name}")
+            look(t.name)
+        await s.tap("tab-findings")
+        await s.tap("new-finding")
+        look("finding form")
+        await s.tap("tab-restraints")
+        await s.tap("add-brace")
+        await s.tap("brace-kind-cable")
+        look("brace form")
+        await s.tap("tab-retrofit")
+        for kind in ("brace", "cable", "plates"):
+            await s.tap(f"option-kind-{kind}")
+            look(f"retrofit {kind}")
+        # the walk met the forms it meant to
+        assert any(k.startswith("finding form: What was found") for k in seen)
+        assert any(k.startswith("brace form: Cable or rod length") for k in seen)
+        assert sum(k.startswith("retrofit plates") for k in seen) >= 2
+    _run(walk())

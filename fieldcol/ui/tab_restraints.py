@@ -55,6 +55,7 @@ class RestraintsTab(Tab):
         self.inputs: dict[str, ft.TextField] = {}
         self.twist_field = ft.TextField(label="Height of a twist restraint", text_size=18,
                                         helper="e.g. 12 ft or 3.6 m", border_color=v.LINE,
+                                        error_max_lines=3, helper_max_lines=2,
                                         color=v.INK, on_submit=self._add_twist,
                                         on_change=self._clear_error)
         self.spring: dict[tuple[str, str], ft.TextField] = {}
@@ -335,6 +336,7 @@ class RestraintsTab(Tab):
                         tf = ft.TextField(label="Rotational stiffness", value=ev.rotation,
                                           helper="e.g. 50000 kip*in/rad or 5000 kN*m/rad",
                                           text_size=18, border_color=v.LINE, color=v.INK,
+                                          error_max_lines=3, helper_max_lines=2,
                                           on_submit=self._spring_saved(axis, end),
                                           helper_style=ft.TextStyle(size=16, color=v.MUTED))
                         self.spring[(axis, end)] = tf
@@ -349,6 +351,7 @@ class RestraintsTab(Tab):
                     label="Rotational stiffness (then Enter)", text_size=18,
                     helper="e.g. 50000 kip*in/rad or 5000 kN*m/rad", border_color=v.LINE,
                     color=v.INK, on_submit=self._spring_saved(axis, end),
+                    error_max_lines=3, helper_max_lines=2,
                     helper_style=ft.TextStyle(size=16, color=v.MUTED))
                 self.redraw()
                 return

@@ -224,7 +224,7 @@ class RetrofitTab(Tab):
                 label=label, helper=hint, value=typed.get(name, ""), on_change=on_change,
                 text_size=17, color=INK, border_color=LINE, error=errors.get(name),
                 error_max_lines=3, error_style=ft.TextStyle(size=16, color=TONES["over"][0]),
-                helper_style=ft.TextStyle(size=16, color=MUTED))))
+                helper_max_lines=2, helper_style=ft.TextStyle(size=16, color=MUTED))))
         if kind in ("brace", "cable"):
             def twist(e: Any) -> None:
                 typed["twist"] = bool(e.control.value)
