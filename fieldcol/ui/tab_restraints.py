@@ -255,7 +255,7 @@ class RestraintsTab(Tab):
         fields += [self._input("strength"), self._input("added"), self._input("seen_by"),
                    self._input("note"),
                    ft.Semantics(identifier="brace-twist", content=ft.Checkbox(
-                       label="Also holds the column against twisting here",
+                       label="Also holds it against twisting",
                        value=bool(d.get("twist")), on_change=self._twist_toggled,
                        label_style=ft.TextStyle(size=16, color=v.INK))),
                    ft.Row([ft.Semantics(identifier="save-brace", button=True,

@@ -229,7 +229,7 @@ class RetrofitTab(Tab):
             def twist(e: Any) -> None:
                 typed["twist"] = bool(e.control.value)
             out.append(ft.Semantics(identifier=f"{prefix}-twist", content=ft.Checkbox(
-                label="It also stops the column twisting there", value=bool(typed.get("twist")),
+                label="Also holds it against twisting", value=bool(typed.get("twist")),
                 on_change=twist, label_style=ft.TextStyle(size=16, color=INK))))
         return out
 
