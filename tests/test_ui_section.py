@@ -157,6 +157,8 @@ def test_a_bow_reading_changes_the_check_and_undo_takes_it_back(demo):
     assert view.bow_axis == "weak" and view.readings == [] and view.unit == "in"
     # AISC 303 straightness L/1000 (from memory): 16 ft -> 0.19 in
     assert view.bow_limit == f"{16 * 12 / 1000:.2f} in"
+    # AISC 303-16 7.13.1.1 plumb 1/500: 16 ft -> 0.38 in
+    assert view.plumb_limit == f"{16 * 12 / 500:.2f} in"
     before = store.latest_check(cid)
     ch = r.add_reading(store, cid, "bow", "1 1/4", axis="weak", gauge="string line and rule",
                        person="R. Amadi")

@@ -786,3 +786,16 @@ def test_every_entry_has_room_for_its_hint_and_its_error(demo):
         assert any(k.startswith("brace form: Cable or rod length") for k in seen)
         assert sum(k.startswith("retrofit plates") for k in seen) >= 2
     _run(walk())
+
+
+def test_the_plumb_entry_gives_its_tolerance_as_the_bow_entry_does(demo):
+    """AISC 303-16 7.13.1.1: plumb within 1/500 of the height; A/1-G is 16 ft, so 0.38 in."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/1-G").id)
+        await s.tap("tab-condition")
+        assert "L/1000 = 0.19 in" in s.inner("reading-value", ft.TextField).helper
+        await s.tap("reading-kind-plumb")
+        hint = s.inner("reading-value", ft.TextField).helper
+        assert hint.startswith("erection tolerance H/500 = 0.38 in over 16'-0\""), hint
+    _run(walk())
