@@ -302,7 +302,8 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
     steps = [ft.Container(content=ft.Column([
         text_line(f"{s.symbol} = {s.value}", bold=True, selectable=True),
         text_line(s.what, size=16),
-        text_line(" · ".join(x for x in (s.formula, s.clause) if x), size=16, color=MUTED)],
+        text_line(" · ".join(dict.fromkeys(x for x in (s.formula, s.clause) if x)), size=16,
+                  color=MUTED)],
         spacing=1), padding=ft.Padding.symmetric(vertical=4))
         for s in chk.steps]
     out.append(ft.Container(content=ft.ExpansionTile(
