@@ -799,3 +799,26 @@ def test_the_plumb_entry_gives_its_tolerance_as_the_bow_entry_does(demo):
         hint = s.inner("reading-value", ft.TextField).helper
         assert hint.startswith("erection tolerance H/500 = 0.38 in over 16'-0\""), hint
     _run(walk())
+
+
+def test_sync_without_its_address_names_the_entries_missing(demo):
+    """Sync now with nothing typed: each empty entry says it is needed (the status line alone
+    named none), and the message goes once the entry is typed in."""
+    async def walk():
+        store, _site = demo
+        s = await Screen.opened(store)
+        await s.go("/sync")
+        await s.type("field-hub-url", "http://127.0.0.1:9", submit=False)
+        await s.type("field-hub-url", "", submit=False)
+        await s.tap("sync-now")
+        url = s.inner("field-hub-url", ft.TextField)
+        token = s.inner("field-hub-token", ft.TextField)
+        assert url.error == "The hub address is needed: ask the office for it"
+        assert token.error == "The device token is needed: ask the office for it"
+        assert "Not synced" in s.text("sync-status")
+        # room for the words (cut to one line at 390 px)
+        assert url.error_max_lines >= 2 and token.error_max_lines >= 2
+        await s.type("field-hub-token", "abc", submit=False)
+        assert s.inner("field-hub-token", ft.TextField).error is None
+        assert s.inner("field-hub-url", ft.TextField).error   # still missing
+    _run(walk())
