@@ -578,6 +578,8 @@ def test_retrofit_plates_bolted_from_the_form(demo):
         await s.tap("tab-retrofit")
         await s.tap("option-kind-plates")
         assert s.has("option-connection-bolted") and s.has("option-pitch")
+        # welded unless picked otherwise, and shown so (it showed none chosen)
+        assert "(chosen)" in s.find("option-connection-welded").label
         await s.type("option-thickness", "3/8 in", submit=False)
         await s.tap("option-connection-bolted")
         await s.tap("option-compare")

@@ -39,8 +39,14 @@ _STATE: "weakref.WeakKeyDictionary[Any, dict[str, dict]]" = weakref.WeakKeyDicti
 CHART_INK, CHART_GRID, CHART_EDGE, CHART_BG = v.ACCENT, v.GRID, v.INK, v.CARD
 
 
+#: what a form starts with: plates are welded unless picked otherwise, and the choice shows it
+#: (it showed none chosen while meaning welded)
+_START: dict[str, dict[str, str]] = {"plates": {"connection": "welded"}}
+
+
 def _fresh() -> dict[str, Any]:
-    return {"kind": "brace", "part": "brace", "typed": {k: {} for k in SINGLE}, "parts": [],
+    return {"kind": "brace", "part": "brace",
+            "typed": {k: dict(_START.get(k, {})) for k in SINGLE}, "parts": [],
             "errors": {}, "compared": None, "sweep": None, "sweep_axis": "", "busy": ""}
 
 
@@ -402,7 +408,7 @@ class RetrofitTab(Tab):
         one = self._single()
         if one is not None:
             st["parts"].append(one)
-            st["typed"][st["part"]] = {}
+            st["typed"][st["part"]] = dict(_START.get(st["part"], {}))
             st["errors"] = {}
             self._say(f"Part {len(st['parts'])} added: {rm_label(one)}")
         self._redraw()
