@@ -824,3 +824,15 @@ def test_sync_without_its_address_names_the_entries_missing(demo):
         assert s.inner("field-hub-token", ft.TextField).error is None
         assert s.inner("field-hub-url", ft.TextField).error   # still missing
     _run(walk())
+
+
+def test_the_history_shows_the_caution_with_its_results(demo):
+    """The caution goes wherever results show (the owners' rule): the History tab lists each
+    change of result, and had no caution."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/2-G").id)
+        await s.tap("tab-history")
+        assert s.has("result-0")
+        assert "licensed engineer" in s.text("caution") and "local codes govern" in s.text("caution")
+    _run(walk())
