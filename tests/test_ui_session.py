@@ -836,3 +836,14 @@ def test_the_history_shows_the_caution_with_its_results(demo):
         assert s.has("result-0")
         assert "licensed engineer" in s.text("caution") and "local codes govern" in s.text("caution")
     _run(walk())
+
+
+def test_the_measure_card_says_the_unit_a_bare_number_takes(demo):
+    """An empty dimension entry shows its unit only once it takes the keyboard (Flutter draws the
+    suffix then): the card says it before anything is typed."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/1-G").id)
+        await s.tap("tab-section")
+        assert "Bare numbers in inches." in s.text("measure-card")
+    _run(walk())

@@ -177,6 +177,9 @@ class SectionTab(Tab):
         self._fill_matches()
         return ec.card([
             ec.choice_row(_SHAPES, shape, self._pick_shape, "shape", said="shape:"),
+            # an empty entry shows its unit only once it has the keyboard: say it beforehand
+            text_line(f"Bare numbers in {'inches' if v.unit == 'in' else 'mm'}.", size=16,
+                      color=MUTED),
             ft.ResponsiveRow(entries, spacing=8, run_spacing=8),
             text_line("Gauge used", size=16, color=MUTED),
             ec.choice_row(_GAUGES, gauge if gauge in dict(_GAUGES) else "", self._pick_gauge,
