@@ -193,3 +193,27 @@ def test_en_check_summary_uses_en_symbols():
     assert s.chart.x_name == "λ-bar" and [c[0] for c in s.chart.curves] == ["curve b (y-y)",
                                                                           "curve c (z-z)"]
     assert "λ-bar_z" in s.why
+
+
+def test_both_cable_forms_ask_for_the_angle_the_engine_takes(demo):
+    """The cable's stiffness is (A E / L) cos^2(theta), theta between the cable and the way the
+    braced point moves (common practice): the Restraints form asked for that, the Retrofit form
+    for the angle "to the floor", which is the same only for a cable square to the wall in
+    plan (a level cable skewed 60 deg in plan gives a quarter of the stiffness, not all)."""
+    from fieldcol.ui import retrofits
+    from fieldcol.ui.tab_restraints import _FORM_LABELS
+
+    retro = {name: (label, hint) for name, label, hint in retrofits.FORM_FIELDS["cable"]}
+    for label, hint in (retro["angle"], _FORM_LABELS["angle"]):
+        assert "angle" in label.lower() and "floor" not in label.lower()
+        assert hint.startswith("to the way the column moves") and "(0 = in line)" in hint
+    # and the engine's own refusal of a cable without it speaks of the same angle
+    from fieldcol.assess import assess
+
+    store, site = demo
+    rec = store.current_record(_col(store, site, "A/1-G"))
+    rec["restraints"]["weak"]["braces"] = [{"at": "8 ft", "cable": {"area": "0.2 in2",
+                                                                     "length": "12 ft"}}]
+    with pytest.raises(InputError) as e:
+        assess(rec)
+    assert "direction the braced point moves" in e.value.reason

@@ -43,7 +43,9 @@ FORM_FIELDS: dict[str, list[tuple[str, str, str]]] = {
               ("at", "Height from the bottom", "e.g. 12 ft or 3.6 m"),
               ("area", "Cable area", "e.g. 0.2 in2"),
               ("length", "Cable length", "e.g. 20 ft"),
-              ("angle", "Angle to the floor", "e.g. 45 deg"),
+              # the engine's angle is to the way the braced point moves (k = A E / L cos^2):
+              # "to the floor" is that only for a cable square to the wall in plan
+              ("angle", "Cable angle", "to the way the column moves, e.g. 45 deg (0 = in line)"),
               ("strength", "Strength (blank: not known)", "e.g. 5 kip")],
     "end": [("axis", "Axis", "weak, strong or both"), ("end", "Which end", "bottom or top"),
             ("to", "New end condition", "fixed, pinned, free or guided")],

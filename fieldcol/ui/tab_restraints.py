@@ -25,7 +25,8 @@ _FORM_LABELS = {"at": ("Height above the bottom", "e.g. 12 ft, 12'-6\" or 3.8 m"
                 "strength": ("Strength (blank: taken as enough)", "e.g. 5 kip or 22 kN"),
                 "area": ("Cable or rod area", "e.g. 0.6 in2 or 380 mm2"),
                 "length": ("Cable or rod length", "e.g. 18 ft or 5.5 m"),
-                "angle": ("Angle to the way the column moves", "e.g. 40 deg (0 = in line)"),
+                "angle": ("Cable or rod angle",
+                          "to the way the column moves, e.g. 40 deg (0 = in line)"),
                 "added": ("Added (date or note)", "e.g. 2026-12-03 or 2019 retrofit"),
                 "seen_by": ("Seen by", "who saw it"),
                 "note": ("Note", "e.g. angle to the north wall")}
