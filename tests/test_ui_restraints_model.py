@@ -207,6 +207,13 @@ def test_both_cable_forms_ask_for_the_angle_the_engine_takes(demo):
     for label, hint in (retro["angle"], _FORM_LABELS["angle"]):
         assert "angle" in label.lower() and "floor" not in label.lower()
         assert hint.startswith("to the way the column moves") and "(0 = in line)" in hint
+    # a blank stiffness or strength means the same on both forms: what the engine takes then
+    # (rigid and strong enough; the kept option's warning says so), not "not known"
+    brace = {name: label for name, label, _hint in retrofits.FORM_FIELDS["brace"]}
+    assert (brace["stiffness"], brace["strength"]) == (_FORM_LABELS["stiffness"][0],
+                                                       _FORM_LABELS["strength"][0])
+    assert {label for name, label, _h in retrofits.FORM_FIELDS["cable"] if name == "strength"} \
+        == {_FORM_LABELS["strength"][0]}
     # and the engine's own refusal of a cable without it speaks of the same angle
     from fieldcol.assess import assess
 

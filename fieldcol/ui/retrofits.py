@@ -37,8 +37,8 @@ KIND_WORDS = {"brace": "Add a brace", "cable": "Add a cable or rod",
 FORM_FIELDS: dict[str, list[tuple[str, str, str]]] = {
     "brace": [("axis", "Axis it holds", "weak, strong or both"),
               ("at", "Height from the bottom", "e.g. 12 ft or 3.6 m"),
-              ("stiffness", "Stiffness (blank: rigid)", "e.g. 20 kip/in"),
-              ("strength", "Strength (blank: not known)", "e.g. 5 kip")],
+              ("stiffness", "Stiffness (blank: taken as rigid)", "e.g. 20 kip/in"),
+              ("strength", "Strength (blank: taken as enough)", "e.g. 5 kip")],
     "cable": [("axis", "Axis it holds", "weak, strong or both"),
               ("at", "Height from the bottom", "e.g. 12 ft or 3.6 m"),
               ("area", "Cable area", "e.g. 0.2 in2"),
@@ -46,7 +46,7 @@ FORM_FIELDS: dict[str, list[tuple[str, str, str]]] = {
               # the engine's angle is to the way the braced point moves (k = A E / L cos^2):
               # "to the floor" is that only for a cable square to the wall in plan
               ("angle", "Cable angle", "to the way the column moves, e.g. 45 deg (0 = in line)"),
-              ("strength", "Strength (blank: not known)", "e.g. 5 kip")],
+              ("strength", "Strength (blank: taken as enough)", "e.g. 5 kip")],
     "end": [("axis", "Axis", "weak, strong or both"), ("end", "Which end", "bottom or top"),
             ("to", "New end condition", "fixed, pinned, free or guided")],
     "plates": [("thickness", "Plate thickness", "e.g. 3/8 in or 10 mm"),
