@@ -847,3 +847,22 @@ def test_the_measure_card_says_the_unit_a_bare_number_takes(demo):
         await s.tap("tab-section")
         assert "Bare numbers in inches." in s.text("measure-card")
     _run(walk())
+
+
+def test_a_column_not_yet_checkable_says_which_entry_is_still_empty(demo):
+    """A copy whose length is not measured yet: the Check tab said "Tap 'Check again'", which
+    only led to a refusal; it names the entry still empty, and the save bar after typing
+    another entry says so too."""
+    async def walk():
+        store, site = demo
+        col = store.add_column(site.id, {"tag": "Z/9-G", "section": "W10X49",
+                                         "material": "A36"})
+        s = await Screen.opened(store, col.id)
+        words = " ".join(str(c.value) for c in s.all() if isinstance(c, ft.Text) and c.value)
+        assert "Length is still empty: type it below" in words
+        await s.type("field-demand", "150 kip")
+        assert "Saved axial demand 150 kip; not checked yet: Length is still empty" in \
+            s.text("save-note")
+        await s.type("field-length", "16 ft")
+        assert "checked again: " in s.text("save-note") and s.has("capacity-flexural-weak")
+    _run(walk())

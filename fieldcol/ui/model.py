@@ -230,11 +230,21 @@ def check_words(detail: "ColumnDetail") -> str:
     """
     if detail.check is not None:
         return f"checked again: {detail.check.status.label}"
-    empty = [f.label for f in detail.fields if f.name != "demand" and not f.value.strip()]
+    empty = still_empty(detail)
     if empty:
         return f"not checked yet: {' and '.join(empty)} {'is' if len(empty) == 1 else 'are'} " \
                "still empty"
     return "not checked yet: the record is not complete"
+
+
+def still_empty(detail: "ColumnDetail") -> list[str]:
+    """The labels of the edit entries a check needs that are still empty (a column without a
+    demand is still checked: its strength is shown).
+
+    Example: ``still_empty(detail)`` gives ``["Length"]`` for a copy whose length is not
+    measured yet.
+    """
+    return [f.label for f in detail.fields if f.name != "demand" and not f.value.strip()]
 
 
 #: the AISC 360-22 bases a column can be checked on (its ``basis`` choice on the screen)
