@@ -41,7 +41,8 @@ def _measure_and_accept(page, shot: str) -> None:
         _type_into(page, f"dim-{key}", f"{value:.2f}", enter=False)
     _click(page, "find-matches")
     _poll(lambda: _words(page, "match-0"),
-          lambda t: "W14X90" in t and "within rolling tolerance" in t and "Depth +0.02 in" in t,
+          lambda t: "W14X90" in t and "within rolling tolerance" in t
+          and "Depth 0.02 in more than listed" in t,
           "the catalogue match with its deviations")
     _find(page, "match-0")
     _big_enough(page, "accept-W14X90", "gauge-caliper", "shape-i")

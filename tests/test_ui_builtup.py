@@ -142,6 +142,21 @@ def test_riveted_ties_offer_their_fasteners_and_the_flange_holes_a_welded_one_do
     assert "holes" not in bm.built_record("channels", "battens", BATTENED, "us")
 
 
+def test_the_clear_gap_says_where_it_is_measured_for_the_toes_chosen(demo):  # noqa: F811
+    """Both ways in one hint ran to four lines in a half-width entry at 390 px and were cut
+    off: the hint follows the Toes choice, what was typed stays."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "C/1-G").id)
+        await s.tap("tab-section")
+        assert s.inner("built-gap", ft.TextField).helper == "between the webs' backs"
+        await s.type("built-gap", "6", submit=False)
+        await s.tap("built-toes-in")
+        gap = s.inner("built-gap", ft.TextField)
+        assert (gap.helper, gap.value) == ("between the toe tips", "6")
+    _run(walk())
+
+
 def test_an_optional_group_half_given_or_a_bad_count_is_named_as_labelled():
     p = bm.built_preview("channels", "battens", {**BATTENED, "battens.fasteners.count": "2"}, "us")
     assert p.error_key == "battens.fasteners.diameter" and p.error.startswith("Rivet diameter")

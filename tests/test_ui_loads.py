@@ -89,6 +89,9 @@ def test_an_unmeasured_eccentricity_takes_the_stated_default_and_the_trace_says_
     # W10X49: d / 2 = 9.98 / 2 in (Manual Table 1-1, from memory) + 100 mm
     assert step["value"] == pytest.approx(9.98 / 2 * INCH + 100, abs=1.0)
     assert "not measured" in lm.loads_view(store, cid).reactions[0].words
+    # the entry's hint says it in the site's unit first (100 mm = 3.94 in: 25.4 mm to the
+    # inch, exact by definition), beside "bare numbers in inches"
+    assert lm.loads_view(store, cid).default_offset_words == "about 4 in (100 mm)"
 
 
 def test_reactions_on_opposite_sides_cancel_and_remove_keeps_the_others(demo):  # noqa: F811
@@ -191,6 +194,8 @@ def test_the_check_tab_adds_a_reaction_shows_the_equation_and_undoes_it(demo):  
         assert s.has("loads-card") and s.find("loads-part-reactions").selected
         assert not s.has("interaction")
         await s.type("reaction-load", "40", submit=False)
+        assert "the face + about 4 in (100 mm) is taken" in \
+            s.inner("reaction-eccentricity", ft.TextField).helper
         await s.type("reaction-eccentricity", "6 inn", submit=False)
         await s.tap("add-reaction")
         tf = s.inner("reaction-eccentricity", ft.TextField)
@@ -241,6 +246,7 @@ def test_an_en_column_takes_a_reaction_in_kn_and_mm_by_6_3_3(tmp_path):
         "tag": "K/1", "section": "HE 200 B", "material": "S355", "length": "4 m",
         "demand": {"axial": "900 kN"}})
     r.check_now(store, col.id)
+    assert lm.loads_view(store, col.id).default_offset_words == "100 mm"
     axial = _check(store, col.id)["design_strength"]["value"]
     ch = lm.add_reaction(store, col.id, "100", "weak", "150")
     assert store.get_column(col.id).record["demand"]["reactions"] == [

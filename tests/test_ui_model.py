@@ -223,6 +223,21 @@ def test_good_length_is_a_new_measurement_and_rechecks(demo):
         store, site.id).rows].index("C/3-G")].status.label == "0.94 OK"
 
 
+def test_a_column_still_being_entered_says_what_is_still_empty(demo):
+    """The save bar after an edit: "checked again: 0.94 OK", or, for a column not yet
+    checkable, which entries are still empty (it said "checked again: not checked")."""
+    store, site = demo
+    col = store.add_column(site.id, {"tag": "Z/9-G", "section": "W10X49"})
+    d = m.edit_change(col.id, "demand", "150 kip")[0](store)
+    assert d.check is None
+    assert m.check_words(d) == "not checked yet: Length and Material are still empty"
+    d = m.edit_change(col.id, "material", "A36")[0](store)
+    assert m.check_words(d) == "not checked yet: Length is still empty"
+    d = m.edit_change(col.id, "length", "16 ft")[0](store)
+    assert m.check_words(d) == f"checked again: {d.check.status.label}"
+    assert d.check.status.label.endswith("OK")
+
+
 def test_good_record_entries_update_the_record(demo):
     store, site = demo
     cid = _col(store, site, "C/3-G")

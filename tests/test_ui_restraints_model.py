@@ -128,6 +128,23 @@ def test_ends_and_twist_points_are_saved_and_logged(demo):
     assert rm.restraints_view(store.current_record(cid), "us").twist == []
 
 
+def test_an_end_change_says_the_check_it_saved(demo):
+    """The save bar's "checked again: ..." after an end change comes from the check saved with
+    it. A7 (Fy 33 ksi, the historic ASTM A7 minimum, from memory), W10X49
+    (A 14.4 in2, ry 2.54 in: AISC Shapes Database v15.0, from memory), 16 ft: fixing one
+    weak-axis end of a pinned column takes K from 1.0 to the recommended design 0.80 (AISC
+    360-22 Commentary Table C-A-7.1, from memory), so by AISC 360-22 E3 by hand Lc/r 60.5,
+    Fe 78.3 ksi, Fcr 27.7 ksi, phi Pn 358 kip and 120 kip / 358 kip = 0.335."""
+    store, site = demo
+    cid = _col(store, site, "A/1-G")
+    saved = rm.set_end(store, cid, "weak", "top", "fixed", who="R. Amadi")
+    chk = store.latest_check(cid)
+    assert saved.status == f"{chk.utilization:.2f} OK"
+    assert chk.utilization == pytest.approx(120 / 358.5, rel=0.01)
+    # the twist restraint and the removal say theirs too
+    assert rm.add_twist(store, cid, "8 ft").status.endswith("OK")
+
+
 def test_sketch_follows_the_brace_being_typed(demo):
     store, site = demo
     rec = store.current_record(_col(store, site, "A/1-G"))
@@ -176,3 +193,34 @@ def test_en_check_summary_uses_en_symbols():
     assert s.chart.x_name == "λ-bar" and [c[0] for c in s.chart.curves] == ["curve b (y-y)",
                                                                           "curve c (z-z)"]
     assert "λ-bar_z" in s.why
+
+
+def test_both_cable_forms_ask_for_the_angle_the_engine_takes(demo):
+    """The cable's stiffness is (A E / L) cos^2(theta), theta between the cable and the way the
+    braced point moves (common practice): the Restraints form asked for that, the Retrofit form
+    for the angle "to the floor", which is the same only for a cable square to the wall in
+    plan (a level cable skewed 60 deg in plan gives a quarter of the stiffness, not all)."""
+    from fieldcol.ui import retrofits
+    from fieldcol.ui.tab_restraints import _FORM_LABELS
+
+    retro = {name: (label, hint) for name, label, hint in retrofits.FORM_FIELDS["cable"]}
+    for label, hint in (retro["angle"], _FORM_LABELS["angle"]):
+        assert "angle" in label.lower() and "floor" not in label.lower()
+        assert hint.startswith("to the way the column moves") and "(0 = in line)" in hint
+    # a blank stiffness or strength means the same on both forms: what the engine takes then
+    # (rigid and strong enough; the kept option's warning says so), not "not known"
+    brace = {name: label for name, label, _hint in retrofits.FORM_FIELDS["brace"]}
+    assert (brace["stiffness"], brace["strength"]) == (_FORM_LABELS["stiffness"][0],
+                                                       _FORM_LABELS["strength"][0])
+    assert {label for name, label, _h in retrofits.FORM_FIELDS["cable"] if name == "strength"} \
+        == {_FORM_LABELS["strength"][0]}
+    # and the engine's own refusal of a cable without it speaks of the same angle
+    from fieldcol.assess import assess
+
+    store, site = demo
+    rec = store.current_record(_col(store, site, "A/1-G"))
+    rec["restraints"]["weak"]["braces"] = [{"at": "8 ft", "cable": {"area": "0.2 in2",
+                                                                     "length": "12 ft"}}]
+    with pytest.raises(InputError) as e:
+        assess(rec)
+    assert "direction the braced point moves" in e.value.reason

@@ -65,6 +65,12 @@ def test_matches_rank_the_measured_shape_with_deviations_against_a6():
     first = sx.find_matches("i", _w14x90_typed(dd), "caliper", "us")[0]
     assert first.name == "W14X90" and first.within
     assert f"({dd * IN / band * 100:.0f}% of the tolerance)" in first.deviations[0]
+    # the difference in words, measured against the catalogue's
+    assert first.deviations[0].startswith("Depth 0.1 in more than listed"), first.deviations[0]
+    exact = sx.find_matches("i", _w14x90_typed(), "caliper", "us")[0]
+    assert exact.deviations[0].startswith("Depth as listed (0% of"), exact.deviations[0]
+    under = sx.find_matches("i", _w14x90_typed(-dd), "caliper", "us")[0]
+    assert under.deviations[0].startswith("Depth 0.1 in less than listed"), under.deviations[0]
     far = sx.find_matches("i", _w14x90_typed(0.2), "caliper", "us")  # 0.2 in > 1/8 in + gauge
     w = next(x for x in far if x.name == "W14X90")
     assert not w.within and "outside" in w.deviations[0]
@@ -157,6 +163,8 @@ def test_a_bow_reading_changes_the_check_and_undo_takes_it_back(demo):
     assert view.bow_axis == "weak" and view.readings == [] and view.unit == "in"
     # AISC 303 straightness L/1000 (from memory): 16 ft -> 0.19 in
     assert view.bow_limit == f"{16 * 12 / 1000:.2f} in"
+    # AISC 303-16 7.13.1.1 plumb 1/500: 16 ft -> 0.38 in
+    assert view.plumb_limit == f"{16 * 12 / 500:.2f} in"
     before = store.latest_check(cid)
     ch = r.add_reading(store, cid, "bow", "1 1/4", axis="weak", gauge="string line and rule",
                        person="R. Amadi")
@@ -250,4 +258,4 @@ def test_a_name_that_does_not_fit_what_was_measured_is_flagged(demo):
     sx.choose_section(store, cid, "W14X109")
     (note,) = sx.section_view(store, cid).notes
     assert note.startswith("The dimensions measured lie outside the rolling tolerances of "
-                           "W14X109") and "Depth -0.3 in" in note  # 14.0 - 14.3
+                           "W14X109") and "Depth 0.3 in less than listed" in note  # 14.0 - 14.3

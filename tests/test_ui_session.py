@@ -578,6 +578,8 @@ def test_retrofit_plates_bolted_from_the_form(demo):
         await s.tap("tab-retrofit")
         await s.tap("option-kind-plates")
         assert s.has("option-connection-bolted") and s.has("option-pitch")
+        # welded unless picked otherwise, and shown so (it showed none chosen)
+        assert "(chosen)" in s.find("option-connection-welded").label
         await s.type("option-thickness", "3/8 in", submit=False)
         await s.tap("option-connection-bolted")
         await s.tap("option-compare")
@@ -743,3 +745,124 @@ def test_an_en_column_never_says_lrfd(tmp_path):
         _run(walk())
     finally:
         store.close()
+
+
+# -- words that fit: a helper cut to one line at 390 px -------------------------------------
+def _entries(s: "Screen") -> list[ft.TextField]:
+    return [c for c in s.all() if isinstance(c, ft.TextField)]
+
+
+def test_every_entry_has_room_for_its_hint_and_its_error(demo):
+    """At 390 px an entry's hint or error left at Flutter's one line was cut off mid-word
+    ("one line is enough, e.g. web pitted 3..."): every entry of the column screen, its forms
+    open, gives both at least two lines."""
+    async def walk():
+        store, site = demo
+        col = store.find_column(site.id, "A/1-G")
+        s = await Screen.opened(store, col.id)
+        seen: dict[str, int] = {}
+
+        def look(where: str) -> None:
+            for tf in _entries(s):
+                what = f"{where}: {tf.label}"
+                seen[what] = 1
+                if tf.helper:
+                    assert (tf.helper_max_lines or 1) >= 2, what
+                assert (tf.error_max_lines or 1) >= 2, what
+        for t in TABS:
+            await s.tap(f"tab-{t.name}")
+            look(t.name)
+        await s.tap("tab-findings")
+        await s.tap("new-finding")
+        look("finding form")
+        await s.tap("tab-restraints")
+        await s.tap("add-brace")
+        await s.tap("brace-kind-cable")
+        look("brace form")
+        await s.tap("tab-retrofit")
+        for kind in ("brace", "cable", "plates"):
+            await s.tap(f"option-kind-{kind}")
+            look(f"retrofit {kind}")
+        # the walk met the forms it meant to
+        assert any(k.startswith("finding form: What was found") for k in seen)
+        assert any(k.startswith("brace form: Cable or rod length") for k in seen)
+        assert sum(k.startswith("retrofit plates") for k in seen) >= 2
+    _run(walk())
+
+
+def test_the_plumb_entry_gives_its_tolerance_as_the_bow_entry_does(demo):
+    """AISC 303-16 7.13.1.1: plumb within 1/500 of the height; A/1-G is 16 ft, so 0.38 in."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/1-G").id)
+        await s.tap("tab-condition")
+        assert "L/1000 = 0.19 in" in s.inner("reading-value", ft.TextField).helper
+        await s.tap("reading-kind-plumb")
+        hint = s.inner("reading-value", ft.TextField).helper
+        assert hint.startswith("erection tolerance H/500 = 0.38 in over 16'-0\""), hint
+    _run(walk())
+
+
+def test_sync_without_its_address_names_the_entries_missing(demo):
+    """Sync now with nothing typed: each empty entry says it is needed (the status line alone
+    named none), and the message goes once the entry is typed in."""
+    async def walk():
+        store, _site = demo
+        s = await Screen.opened(store)
+        await s.go("/sync")
+        await s.type("field-hub-url", "http://127.0.0.1:9", submit=False)
+        await s.type("field-hub-url", "", submit=False)
+        await s.tap("sync-now")
+        url = s.inner("field-hub-url", ft.TextField)
+        token = s.inner("field-hub-token", ft.TextField)
+        assert url.error == "The hub address is needed: ask the office for it"
+        assert token.error == "The device token is needed: ask the office for it"
+        assert "Not synced" in s.text("sync-status")
+        # room for the words (cut to one line at 390 px)
+        assert url.error_max_lines >= 2 and token.error_max_lines >= 2
+        await s.type("field-hub-token", "abc", submit=False)
+        assert s.inner("field-hub-token", ft.TextField).error is None
+        assert s.inner("field-hub-url", ft.TextField).error   # still missing
+    _run(walk())
+
+
+def test_the_history_shows_the_caution_with_its_results(demo):
+    """The caution goes wherever results show (the owners' rule): the History tab lists each
+    change of result, and had no caution."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/2-G").id)
+        await s.tap("tab-history")
+        assert s.has("result-0")
+        assert "licensed engineer" in s.text("caution") and "local codes govern" in s.text("caution")
+    _run(walk())
+
+
+def test_the_measure_card_says_the_unit_a_bare_number_takes(demo):
+    """An empty dimension entry shows its unit only once it takes the keyboard (Flutter draws the
+    suffix then): the card says it before anything is typed."""
+    async def walk():
+        store, site = demo
+        s = await Screen.opened(store, store.find_column(site.id, "A/1-G").id)
+        await s.tap("tab-section")
+        assert "Bare numbers in inches." in s.text("measure-card")
+    _run(walk())
+
+
+def test_a_column_not_yet_checkable_says_which_entry_is_still_empty(demo):
+    """A copy whose length is not measured yet: the Check tab said "Tap 'Check again'", which
+    only led to a refusal; it names the entry still empty, and the save bar after typing
+    another entry says so too."""
+    async def walk():
+        store, site = demo
+        col = store.add_column(site.id, {"tag": "Z/9-G", "section": "W10X49",
+                                         "material": "A36"})
+        s = await Screen.opened(store, col.id)
+        words = " ".join(str(c.value) for c in s.all() if isinstance(c, ft.Text) and c.value)
+        assert "Length is still empty: type it below" in words
+        await s.type("field-demand", "150 kip")
+        assert "Saved axial demand 150 kip; not checked yet: Length is still empty" in \
+            s.text("save-note")
+        await s.type("field-length", "16 ft")
+        assert "checked again: " in s.text("save-note") and s.has("capacity-flexural-weak")
+    _run(walk())

@@ -125,7 +125,7 @@ class BuiltCard:
         self.fields = {}
         rows: list[ft.Control] = []
         said_optional = False
-        for e in bm.entries(self.arrangement, self.tie, self.connection):
+        for e in bm.entries(self.arrangement, self.tie, self.connection, self.toes):
             tf = ec.unit_entry(e.label, self.typed.get(e.key, ""),
                                v.unit if e.kind == "length" else None, hint=e.hint,
                                on_change=self._typed(e.key),

@@ -92,7 +92,7 @@ def trace_tile(s: CheckSummary) -> ft.Control:
         return [ft.Container(content=ft.Column([
             v.text_line(f"{t.symbol} = {t.value}", bold=True, selectable=True),
             v.text_line(t.what),
-            v.text_line(" · ".join(x for x in (t.formula, t.clause) if x), color=v.MUTED)],
+            v.text_line(t.source, color=v.MUTED)],
             spacing=1), padding=ft.Padding.symmetric(vertical=4)) for t in s.trace]
 
     def toggle(e: ft.Event[ft.ExpansionTile]) -> None:

@@ -148,9 +148,18 @@ def saved_words(change: "Change") -> str:
     Example: ``saved_words(change)`` gives ``"Saved bow 1 1/8 in about the weak axis; checked
     again: 1.18 OVER"``.
     """
-    if change.status:
-        return f"Saved {change.label}; checked again: {change.status}"
-    return f"Saved {change.label} (not checked: the record is not complete yet)"
+    return checked_words(change.label, change.status)
+
+
+def checked_words(label: str, status: str) -> str:
+    """The save bar's words for a change saved with the column's check that followed it.
+
+    Example: ``checked_words("top end, weak axis: fixed", "0.55 OK")`` gives ``"Saved top
+    end, weak axis: fixed; checked again: 0.55 OK"``.
+    """
+    if status:
+        return f"Saved {label}; checked again: {status}"
+    return f"Saved {label} (not checked: the record is not complete yet)"
 
 
 def status_line(detail: "ColumnDetail | None") -> ft.Control:

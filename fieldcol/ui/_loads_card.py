@@ -133,7 +133,7 @@ class LoadsCard:
                        self._entry("eccentricity", f"Reaction {n} eccentricity", v.length_unit,
                                    f"from the column's centre, bare numbers in "
                                    f"{'inches' if v.length_unit == 'in' else 'mm'}; empty: "
-                                   "not measured, the face + 100 mm is taken")),
+                                   f"the face + {v.default_offset_words} is taken")),
             text_line("Side it bears on (beams on opposite sides cancel)", size=16,
                       color=MUTED),
             ec.choice_row([(k, w) for k, (w, _) in lm.SIDES.items()], self.side,

@@ -16,7 +16,7 @@ Public API::
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.errors import InputError
@@ -53,8 +53,7 @@ class Entry:
 _PART_HINT = {"channel": "e.g. C12X20.7, MC10X25, UPN 200", "angle": "e.g. L4X4X1/2, L6X4X3/8"}
 _BASE = {
     "channels": [Entry("channel", "Channel", "part", _PART_HINT["channel"]),
-                 Entry("gap", "Clear gap", hint="between the webs' backs (toes out) or the "
-                                                "toe tips (toes in)")],
+                 Entry("gap", "Clear gap", hint="between the webs' backs")],
     "angles-web": [Entry("angle", "Angle", "part", _PART_HINT["angle"]),
                    Entry("web.depth", "Web plate depth"),
                    Entry("web.thickness", "Web plate thickness")],
@@ -183,15 +182,19 @@ def _face_ties(arrangement: str, tie: Any, box: tuple[float, float, float, float
     return out
 
 
-def entries(arrangement: str, tie: str, connection: str = "welded") -> list[Entry]:
+def entries(arrangement: str, tie: str, connection: str = "welded", toes: str = "out"
+            ) -> list[Entry]:
     """The entries of an arrangement with its ties; a riveted or bolted one also has the
-    optional fasteners at the ties' ends and the holes across a flange.
+    optional fasteners at the ties' ends and the holes across a flange. Two channels' clear
+    gap says where it is measured for the way their toes point (``out`` or ``in``).
 
     Example:
         >>> [e.key for e in entries("channels", "stitch")]
         ['channel', 'gap', 'pitch']
         >>> [e.key for e in entries("angles-box", "battens", "riveted")][-2:]
         ['battens.fasteners.count', 'battens.fasteners.diameter']
+        >>> entries("channels", "battens", toes="in")[1].hint
+        'between the toe tips'
     """
     if arrangement not in _BASE:
         raise InputError("arrangement", arrangement, "not an arrangement of the card",
@@ -199,8 +202,12 @@ def entries(arrangement: str, tie: str, connection: str = "welded") -> list[Entr
     if tie not in (t for t, _ in TIES[arrangement]):
         raise InputError("ties", tie, f"not a way to tie {arrangement}",
                          ", ".join(t for t, _ in TIES[arrangement]))
-    return (list(_BASE[arrangement]) + list(_TIE.get(tie, []))
-            + _optional(arrangement, tie, connection))
+    base = list(_BASE[arrangement])
+    if arrangement == "channels" and toes == "in":
+        # one hint for the toes chosen: both ways in one line ran to four lines at 390 px
+        # and were cut off
+        base = [replace(e, hint="between the toe tips") if e.key == "gap" else e for e in base]
+    return base + list(_TIE.get(tie, [])) + _optional(arrangement, tie, connection)
 
 
 def _count(text: str, label: str) -> int:

@@ -86,6 +86,17 @@ class TraceLine:
     formula: str
     clause: str
 
+    @property
+    def source(self) -> str:
+        """The formula and the clause on one line, said once when they are the same (a value
+        from the record read "record · record").
+
+        Example:
+            >>> TraceLine("Pr", "120 kip", "required axial strength", "record", "record").source
+            'record'
+        """
+        return " · ".join(dict.fromkeys(x for x in (self.formula, self.clause) if x))
+
 
 @dataclass(frozen=True)
 class CheckSummary:

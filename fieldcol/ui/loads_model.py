@@ -151,6 +151,17 @@ class LoadsView:
     notes: list[str] = field(default_factory=list)
 
     @property
+    def default_offset_words(self) -> str:
+        """What is added to the face for a reaction's eccentricity not measured, in the site's
+        unit first: a US site's entry reads inches, so "100 mm" alone beside "bare numbers in
+        inches" read as a slip. E.g. ``"about 4 in (100 mm)"`` or ``"100 mm"``."""
+        from fieldcol.bending import DEFAULT_OFFSET
+
+        if self.length_unit == "in":
+            return f"about {DEFAULT_OFFSET / 25.4:.0f} in ({DEFAULT_OFFSET:.0f} mm)"
+        return f"{DEFAULT_OFFSET:.0f} mm"
+
+    @property
     def story_words(self) -> str:
         """E.g. ``"Story: 3000 kip gravity load, buckling load 30000 kip"``, or ``""``."""
         if not self.story:

@@ -195,6 +195,34 @@ EDIT_FIELDS = {
     "material": ("Material", "grade, e.g. A992, A36, A7, S355"),
     "demand": ("Axial demand", "factored axial load, e.g. 840 kip or 3700 kN"),
 }
+
+
+def check_words(detail: "ColumnDetail") -> str:
+    """What the save bar says of the check after an edit: the status, or why there is none yet
+    (the entries still empty, as labelled): "checked again: not checked" said nothing.
+
+    Example: ``check_words(detail)`` gives ``"checked again: 0.84 OK"``, or ``"not checked
+    yet: Length is still empty"`` for a column still being entered.
+    """
+    if detail.check is not None:
+        return f"checked again: {detail.check.status.label}"
+    empty = still_empty(detail)
+    if empty:
+        return f"not checked yet: {' and '.join(empty)} {'is' if len(empty) == 1 else 'are'} " \
+               "still empty"
+    return "not checked yet: the record is not complete"
+
+
+def still_empty(detail: "ColumnDetail") -> list[str]:
+    """The labels of the edit entries a check needs that are still empty (a column without a
+    demand is still checked: its strength is shown).
+
+    Example: ``still_empty(detail)`` gives ``["Length"]`` for a copy whose length is not
+    measured yet.
+    """
+    return [f.label for f in detail.fields if f.name != "demand" and not f.value.strip()]
+
+
 #: the AISC 360-22 bases a column can be checked on (its ``basis`` choice on the screen)
 BASES = {"lrfd": "LRFD (phi Pn)", "asd": "ASD (Pn / Omega)"}
 

@@ -15,7 +15,7 @@ import flet as ft
 
 from fieldcol.ui import notes as n
 from fieldcol.ui.photo_views import thumbnails
-from fieldcol.ui.views import INK, MUTED, Handler, _card, text_line
+from fieldcol.ui.views import INK, MUTED, Handler, _card, caution_box, text_line
 
 ICONS = {"add_link": ft.Icons.ADD_LINK, "link_off": ft.Icons.LINK_OFF, "cable": ft.Icons.CABLE,
          "swap_vert": ft.Icons.SWAP_VERT, "edit_note": ft.Icons.EDIT_NOTE}
@@ -78,6 +78,7 @@ def history_body(h: n.History, open_photo: Callable[[n.PhotoThumb], Handler]) ->
     if h.results:  # after the readings, which are what a visit looks at most
         cards.append(_card(_result_lines(h.results[:RESULTS_ON_TAB]),
                            title="Result over time (newest first)"))
+        cards.append(caution_box())   # results are shown here too
     return cards
 
 

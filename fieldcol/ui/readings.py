@@ -108,6 +108,7 @@ class ConditionView:
     caution: str = CAUTION
     length: str = ""
     bow_limit: str = ""
+    plumb_limit: str = ""
     notes: list[str] = field(default_factory=list)
 
 
@@ -226,17 +227,21 @@ def condition_view(store: "Store", column_id: str) -> ConditionView:
             value=_value_text(m, system), who=m.taken_by or "who: not recorded",
             when=_when(m.taken_at), gauge=m.gauge or "", note=m.note or "",
             corrects=f"corrects {old.text}" if old else ""))
-    length, limit = "", ""
+    length, limit, plumb = "", "", ""
     try:
         mm = parse_length(rec.get("length"), "length")
         length = format_length(mm, system)
         # straightness tolerance between supports L/1000 (AISC 303 6.4.1, from memory)
         limit = _value_text_mm(mm / 1000, system)
+        # plumb 1/500 of the height (AISC 303-16 7.13.1.1): the bow's hint has its tolerance,
+        # the plumb's had none to weigh a reading against
+        plumb = _value_text_mm(mm / 500, system)
     except InputError:
         pass
     return ConditionView(column_id=column_id, unit=unit_of(system), shape=shape, bow_axis=axis,
                          elements=[(k, ELEMENTS[k][0]) for k in _SHAPE_ELEMENTS[shape]],
-                         readings=items, gauges=gauges, length=length, bow_limit=limit)
+                         readings=items, gauges=gauges, length=length, bow_limit=limit,
+                         plumb_limit=plumb)
 
 
 def _value_text_mm(mm: float, system: str) -> str:

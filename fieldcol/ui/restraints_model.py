@@ -110,6 +110,7 @@ class Saved:
     record_before: dict[str, Any]
     change_id: str | None
     label: str
+    status: str = ""   # the column's check after the save ("0.84 OK"), for the save bar
 
 
 # -- reading -------------------------------------------------------------------------------
@@ -491,6 +492,7 @@ def _save(store: "Store", column_id: str, new_record: dict[str, Any], change: di
     """Check the new record, then save it, its restraint change and its check in one go."""
     from fieldcol.assess import assess
     from fieldcol.store import site_defaults
+    from fieldcol.ui.model import status_of
 
     col = store.get_column(column_id)
     before = copy.deepcopy(col.record)
@@ -513,8 +515,10 @@ def _save(store: "Store", column_id: str, new_record: dict[str, Any], change: di
                                         detail=change.get("detail"))
         if change.get("photo_id"):
             store.attach_photo(change["photo_id"], restraint_change_id=rc.id)
-        store.save_check(column_id, result.to_dict(), record=store.current_record(column_id))
-    return Saved(column_id, before, rc.id, label)
+        d = result.to_dict()
+        chk = store.save_check(column_id, d, record=store.current_record(column_id))
+    return Saved(column_id, before, rc.id, label,
+                 status_of(chk.utilization, True, d.get("status")).label)
 
 
 def _today() -> str:

@@ -79,6 +79,15 @@ def _words(field: str) -> tuple[str, str]:
     return text[:1].upper() + text[1:], ""
 
 
+def _label_words(tf: Any) -> str | None:
+    """An entry's label as words for a message, less its asides: "Stiffness (blank: taken as
+    rigid)" -> "Stiffness"; ``None`` for an entry without a text label."""
+    label = getattr(tf, "label", None)
+    if not isinstance(label, str):
+        return None
+    return re.sub(r"\s*\([^)]*\)", "", label).strip() or None
+
+
 def _sentence(text: str) -> str:
     text = text.strip()
     if not text:
@@ -87,11 +96,12 @@ def _sentence(text: str) -> str:
     return text if text.endswith((".", "?", "!")) else text + "."
 
 
-def plain_error(e: InputError) -> str:
+def plain_error(e: InputError, named: str | None = None) -> str:
     """An input error in plain words: what is wrong with which entry, and what would do.
 
     Args:
         e: the ``InputError``.
+        named: the entry's words as its label shows them (else from ``FIELD_WORDS``).
 
     Returns:
         One or two short sentences; never the internal ``field: cannot use ...`` form.
@@ -101,8 +111,11 @@ def plain_error(e: InputError) -> str:
         'Length is needed. Type a length, e.g. 12\\'-6" or 3.8 m.'
         >>> plain_error(InputError("length", "12 fr", "unknown length unit 'fr'", "use ft or m"))
         "Length '12 fr' not understood: unknown length unit 'fr'. Use ft or m."
+        >>> plain_error(InputError("length", "", "the entry is empty", None), "Cable length")[:22]
+        'Cable length is needed'
     """
     words, example = _words(e.field)
+    words = named or words
     if isinstance(e, StoreBusyError):
         return "The database is busy (another program is writing to it). Try again in a moment."
     if not str(e.text).strip() or e.text in ("''", "None") or e.reason in _REQUIRED:
@@ -242,7 +255,12 @@ class Saver:
                 if isinstance(field, dict) else field
             if at is not None:
                 self._show_at(at, words)
-            self.say(f"{label[:1].upper() + label[1:]} not saved: {words}", kind="error")
+            # the bar is read away from the form: a form's entry is named as labelled there
+            # ("Cable or rod length is needed", not "Length", which reads as the column's)
+            named = _label_words(at) if isinstance(field, dict) and \
+                field.get(e.field) is at else None
+            self.say(f"{label[:1].upper() + label[1:]} not saved: {plain_error(e, named)}",
+                     kind="error")
             return None
         finally:
             self._running.discard(label)

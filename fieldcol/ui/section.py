@@ -94,8 +94,9 @@ class SectionView:
 class MatchLine:
     """One catalogue candidate for the measured dimensions.
 
-    ``deviations`` read e.g. ``"Depth +0.03 in (25% of the tolerance)"``; ``within`` is True
-    when every dimension lies inside its rolling-tolerance band (widened by the gauge's).
+    ``deviations`` read e.g. ``"Depth 0.03 in more than listed (25% of the tolerance)"``;
+    ``within`` is True when every dimension lies inside its rolling-tolerance band (widened by
+    the gauge's).
     """
     name: str
     within: bool
@@ -106,7 +107,8 @@ class MatchLine:
 
     @property
     def label(self) -> str:
-        """What a screen reader says: ``"W14X90, within rolling tolerance: Depth +0.03 in ..."``."""
+        """What a screen reader says: ``"W14X90, within rolling tolerance: Depth 0.03 in more
+        than listed ..."``."""
         return f"{self.name}, {self.word}: " + "; ".join(self.deviations)
 
 
@@ -390,10 +392,13 @@ def find_matches(shape: str, typed: dict[str, str], gauge: str | None, system: s
         for k, dev in mt.deviation_mm.items():
             share = abs(mt.deviation_frac[k]) * 100
             size = _length(abs(dev), system)
-            sign = "" if size in ("0 in", "0 mm") else "+" if dev >= 0 else "-"
+            # in words, not a sign: "Depth 0 in" read as a depth of nothing, "-0.105 in" as
+            # a negative depth
+            off = "as listed" if size in ("0 in", "0 mm") else \
+                f"{size} {'more' if dev >= 0 else 'less'} than listed"
             where = f"{share:.0f}% of the tolerance" if share <= 100 else \
                 f"{share / 100:.1f} x the tolerance: outside"
-            devs.append(f"{labels.get(k, k)} {sign}{size} ({where})")
+            devs.append(f"{labels.get(k, k)} {off} ({where})")
         out.append(MatchLine(
             name=mt.name, within=mt.within_tolerance,
             word="within rolling tolerance" if mt.within_tolerance else "outside tolerance",

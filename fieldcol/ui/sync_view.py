@@ -92,10 +92,11 @@ class SyncScreen:
         self.page, self.store = page, store
         self.url = ft.TextField(label="Hub address", value=store.setting("hub_url") or "",
                                 hint_text="https://hub.example.org", text_size=16,
-                                keyboard_type=ft.KeyboardType.URL, on_change=self._typed)
+                                keyboard_type=ft.KeyboardType.URL, on_change=self._typed,
+                                error_max_lines=3)
         self.token = ft.TextField(label="Device token", value=store.setting("hub_token") or "",
                                   password=True, can_reveal_password=True, text_size=16,
-                                  on_change=self._typed)
+                                  on_change=self._typed, error_max_lines=3)
         self.progress = ft.ProgressBar(value=0, visible=False)
         self.status = ft.Text("", size=16, color=INK)
         self.moved = ft.Column([], spacing=4)
@@ -114,8 +115,10 @@ class SyncScreen:
         from fieldcol.ui.intake import intake_for
         intake_for(page)  # the picker is a service: in the page before its first use
 
-    def _typed(self, _e: Any = None) -> None:
+    def _typed(self, e: Any = None) -> None:
         self.status.value = ""
+        if e is not None and getattr(e.control, "error", None):
+            e.control.error = None   # being corrected: its message goes
 
     async def refresh(self) -> None:
         """Reload the counts and the conflicts from the store."""
@@ -189,6 +192,11 @@ class SyncScreen:
                                    for t in report.lines(details=False)]
         except InputError as e:
             self.status.value = f"Not synced: {e.reason}" + (f" ({e.hint})" if e.hint else "")
+            # the words also go under each entry that is missing: the status line alone
+            # named no entry, and it sits below them both
+            for entry, what in ((self.url, "The hub address"), (self.token, "The device token")):
+                if not (entry.value or "").strip():
+                    entry.error = f"{what} is needed: ask the office for it"
         finally:
             self.button.disabled, self.progress.visible = False, False
         await self.refresh()

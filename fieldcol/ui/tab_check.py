@@ -143,8 +143,7 @@ class CheckTab(Tab):
         do, undo = m.edit_change(d.id, name, text, person=app.person, visit_id=app.visit_id)
         res = await app.saver.save(
             f"{label} {text.strip()}", do, undo, tf,
-            done=lambda r: f"Saved {label} {text.strip()}; checked again: "
-                           f"{r.check.status.label if r.check else 'not checked'}")
+            done=lambda r: f"Saved {label} {text.strip()}; {m.check_words(r)}")
         if res is None and tf.error:
             self.failed[name] = text
         else:
@@ -160,8 +159,7 @@ class CheckTab(Tab):
                                      visit_id=self.app.visit_id)
             await self.app.saver.save(
                 f"basis {basis.upper()}", do, undo,
-                done=lambda r: f"Saved basis {basis.upper()}; checked again: "
-                               f"{r.check.status.label if r.check else 'not checked'}")
+                done=lambda r: f"Saved basis {basis.upper()}; {m.check_words(r)}")
         return pick
 
     async def _recheck(self, _e: Any = None) -> None:

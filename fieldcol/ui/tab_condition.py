@@ -142,6 +142,8 @@ class ConditionTab(Tab):
         hint = bare
         if kind == "bow" and v.bow_limit:
             hint = f"new-column tolerance L/1000 = {v.bow_limit} over {v.length}; {bare}"
+        if kind == "plumb" and v.plumb_limit:
+            hint = f"erection tolerance H/500 = {v.plumb_limit} over {v.length}; {bare}"
         if kind == "thickness":
             label = dict(v.elements)[self.element or v.elements[0][0]].split(":")[0] + \
                 (" thickness remaining" if self.element != "uniform" else " loss per face")

@@ -222,7 +222,7 @@ class FindingsTab(Tab):
                     e.control.update()
             tf = ft.TextField(label=label, value=getattr(d, key), on_change=on_change,
                               helper=helper, text_size=17, color=INK, border_color=LINE,
-                              error=errors.get(key), error_max_lines=3,
+                              error=errors.get(key), error_max_lines=3, helper_max_lines=2,
                               error_style=_error_style(),
                               helper_style=ft.TextStyle(size=16, color=MUTED), **kw)
             self.fields[key] = tf

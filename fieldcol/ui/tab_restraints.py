@@ -14,6 +14,7 @@ from typing import Any, Callable
 import flet as ft
 
 from fieldcol.errors import InputError
+from fieldcol.ui import _entry_controls as ec
 from fieldcol.ui import restraints_model as rm
 from fieldcol.ui import views as v
 from fieldcol.ui._drawing import axis_canvas
@@ -24,10 +25,17 @@ _FORM_LABELS = {"at": ("Height above the bottom", "e.g. 12 ft, 12'-6\" or 3.8 m"
                 "strength": ("Strength (blank: taken as enough)", "e.g. 5 kip or 22 kN"),
                 "area": ("Cable or rod area", "e.g. 0.6 in2 or 380 mm2"),
                 "length": ("Cable or rod length", "e.g. 18 ft or 5.5 m"),
-                "angle": ("Angle to the way the column moves", "e.g. 40 deg (0 = in line)"),
+                "angle": ("Cable or rod angle",
+                          "to the way the column moves, e.g. 40 deg (0 = in line)"),
                 "added": ("Added (date or note)", "e.g. 2026-12-03 or 2019 retrofit"),
                 "seen_by": ("Seen by", "who saw it"),
                 "note": ("Note", "e.g. angle to the north wall")}
+
+
+def _checked(label: str) -> Callable[[rm.Saved], str]:
+    """The save bar's words after a restraint change: the change and the new check (a brace
+    or an end changes the result, and the engineer is looking at the sketch, not the number)."""
+    return lambda saved: ec.checked_words(label, saved.status)
 
 
 class RestraintsTab(Tab):
@@ -48,6 +56,7 @@ class RestraintsTab(Tab):
         self.inputs: dict[str, ft.TextField] = {}
         self.twist_field = ft.TextField(label="Height of a twist restraint", text_size=18,
                                         helper="e.g. 12 ft or 3.6 m", border_color=v.LINE,
+                                        error_max_lines=3, helper_max_lines=2,
                                         color=v.INK, on_submit=self._add_twist,
                                         on_change=self._clear_error)
         self.spring: dict[tuple[str, str], ft.TextField] = {}
@@ -178,8 +187,9 @@ class RestraintsTab(Tab):
                 holder["s"] = rm.remove_brace(store, cid, refs, who=who)
                 return holder["s"]
 
-            await self.app.saver.save(f"removal of the brace at {b.at_text}", do,
-                                      lambda store: rm.restore(store, holder["s"]))
+            label = f"removal of the brace at {b.at_text}"
+            await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]),
+                                      done=_checked(label))
         return remove
 
     def _input(self, name: str) -> ft.TextField:
@@ -246,7 +256,7 @@ class RestraintsTab(Tab):
         fields += [self._input("strength"), self._input("added"), self._input("seen_by"),
                    self._input("note"),
                    ft.Semantics(identifier="brace-twist", content=ft.Checkbox(
-                       label="Also holds the column against twisting here",
+                       label="Also holds it against twisting",
                        value=bool(d.get("twist")), on_change=self._twist_toggled,
                        label_style=ft.TextStyle(size=16, color=v.INK))),
                    ft.Row([ft.Semantics(identifier="save-brace", button=True,
@@ -285,7 +295,9 @@ class RestraintsTab(Tab):
 
         at = str(draft.get("at") or "").strip()
         label = ("the brace at " if refs else "a brace at ") + at
-        res = await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]))
+        # the form's entries by name: a refusal in the bar names the entry as labelled
+        res = await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]),
+                                        dict(self.inputs), done=_checked(label))
         if res is None:
             e = holder.get("error")
             if e is not None and e.field in self.inputs:
@@ -305,18 +317,27 @@ class RestraintsTab(Tab):
                                     bold=True))
             for end in ("top", "bottom"):
                 ev = self.view.ends[(axis, end)]
+                # the box shows the kind, its meaning goes below it: "pinned: held in place,
+                # free to rotate" does not fit the box at 390 px and was cut off mid-word
                 dd = ft.Dropdown(
                     label=f"{end.capitalize()} end", value=ev.kind, text_size=17,
-                    options=[ft.DropdownOption(key=k, text=f"{k}: {rm.END_HELP[k]}")
-                             for k in rm.END_KINDS],
+                    options=[ft.DropdownOption(
+                        key=k, text=k, content=v.text_line(f"{k}: {rm.END_HELP[k]}"))
+                        for k in rm.END_KINDS],
                     on_select=self._end_chosen(axis, end), data=(axis, end), expand=True)
                 rows.append(ft.Semantics(identifier=f"end-{axis}-{end}", content=dd))
+                # a text, not the dropdown's helper: the dropdown gives a screen reader no
+                # words of its own, this line does
+                means = v.text_line(rm.END_HELP.get(ev.kind, ""), color=v.MUTED)
+                rows.append(ft.Semantics(identifier=f"end-{axis}-{end}-means", content=ft.Container(
+                    means, padding=ft.Padding.only(left=16))))
                 if ev.kind == "spring" or (axis, end) in self.spring:
                     tf = self.spring.get((axis, end))
                     if tf is None:
                         tf = ft.TextField(label="Rotational stiffness", value=ev.rotation,
                                           helper="e.g. 50000 kip*in/rad or 5000 kN*m/rad",
                                           text_size=18, border_color=v.LINE, color=v.INK,
+                                          error_max_lines=3, helper_max_lines=2,
                                           on_submit=self._spring_saved(axis, end),
                                           helper_style=ft.TextStyle(size=16, color=v.MUTED))
                         self.spring[(axis, end)] = tf
@@ -331,6 +352,7 @@ class RestraintsTab(Tab):
                     label="Rotational stiffness (then Enter)", text_size=18,
                     helper="e.g. 50000 kip*in/rad or 5000 kN*m/rad", border_color=v.LINE,
                     color=v.INK, on_submit=self._spring_saved(axis, end),
+                    error_max_lines=3, helper_max_lines=2,
                     helper_style=ft.TextStyle(size=16, color=v.MUTED))
                 self.redraw()
                 return
@@ -351,8 +373,9 @@ class RestraintsTab(Tab):
             holder["s"] = rm.set_end(store, cid, axis, end, kind, rotation=rotation, who=who)
             return holder["s"]
 
-        res = await self.app.saver.save(f"{end} end, {axis} axis: {kind}", do,
-                                        lambda store: rm.restore(store, holder["s"]), field)
+        label = f"{end} end, {axis} axis: {kind}"
+        res = await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]),
+                                        field, done=_checked(label))
         if res is not None:
             self.spring.pop((axis, end), None)
             await self.load()
@@ -390,9 +413,9 @@ class RestraintsTab(Tab):
             holder["s"] = rm.add_twist(store, cid, at, who=who)
             return holder["s"]
 
-        res = await self.app.saver.save(f"twist restraint at {at.strip()}", do,
-                                        lambda store: rm.restore(store, holder["s"]),
-                                        self.twist_field)
+        label = f"twist restraint at {at.strip()}"
+        res = await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]),
+                                        self.twist_field, done=_checked(label))
         if res is not None:
             self.twist_field.value = ""
             await self.load()
@@ -407,8 +430,9 @@ class RestraintsTab(Tab):
                 holder["s"] = rm.remove_twist(store, cid, idx, who=who)
                 return holder["s"]
 
-            if await self.app.saver.save(f"removal of the twist restraint at {text}", do,
-                                         lambda store: rm.restore(store, holder["s"])):
+            label = f"removal of the twist restraint at {text}"
+            if await self.app.saver.save(label, do, lambda store: rm.restore(store, holder["s"]),
+                                         done=_checked(label)):
                 await self.load()
                 self.redraw()
         return remove

@@ -39,8 +39,14 @@ _STATE: "weakref.WeakKeyDictionary[Any, dict[str, dict]]" = weakref.WeakKeyDicti
 CHART_INK, CHART_GRID, CHART_EDGE, CHART_BG = v.ACCENT, v.GRID, v.INK, v.CARD
 
 
+#: what a form starts with: plates are welded unless picked otherwise, and the choice shows it
+#: (it showed none chosen while meaning welded)
+_START: dict[str, dict[str, str]] = {"plates": {"connection": "welded"}}
+
+
 def _fresh() -> dict[str, Any]:
-    return {"kind": "brace", "part": "brace", "typed": {k: {} for k in SINGLE}, "parts": [],
+    return {"kind": "brace", "part": "brace",
+            "typed": {k: dict(_START.get(k, {})) for k in SINGLE}, "parts": [],
             "errors": {}, "compared": None, "sweep": None, "sweep_axis": "", "busy": ""}
 
 
@@ -230,12 +236,12 @@ class RetrofitTab(Tab):
                 label=label, helper=hint, value=typed.get(name, ""), on_change=on_change,
                 text_size=17, color=INK, border_color=LINE, error=errors.get(name),
                 error_max_lines=3, error_style=ft.TextStyle(size=16, color=TONES["over"][0]),
-                helper_style=ft.TextStyle(size=16, color=MUTED))))
+                helper_max_lines=2, helper_style=ft.TextStyle(size=16, color=MUTED))))
         if kind in ("brace", "cable"):
             def twist(e: Any) -> None:
                 typed["twist"] = bool(e.control.value)
             out.append(ft.Semantics(identifier=f"{prefix}-twist", content=ft.Checkbox(
-                label="It also stops the column twisting there", value=bool(typed.get("twist")),
+                label="Also holds it against twisting", value=bool(typed.get("twist")),
                 on_change=twist, label_style=ft.TextStyle(size=16, color=INK))))
         return out
 
@@ -412,7 +418,7 @@ class RetrofitTab(Tab):
         one = self._single()
         if one is not None:
             st["parts"].append(one)
-            st["typed"][st["part"]] = {}
+            st["typed"][st["part"]] = dict(_START.get(st["part"], {}))
             st["errors"] = {}
             self._say(f"Part {len(st['parts'])} added: {rm_label(one)}")
         self._redraw()

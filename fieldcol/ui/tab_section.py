@@ -104,7 +104,9 @@ class SectionTab(Tab):
     def _draw(self) -> None:
         v = self.view
         assert v is not None
-        parts = [self._now(v), self._pick(v), self._measure(v)]
+        # the matches follow the card, not inside it: a card taller than the screen had its
+        # node cut short by the web client, and a match's Use button inside it with it
+        parts = [self._now(v), self._pick(v), self._measure(v), self.match_area]
         if v.plates_allowed and v.source != "built":
             parts.append(self._plates(v))
         if v.source not in ("built", "none"):
@@ -177,6 +179,9 @@ class SectionTab(Tab):
         self._fill_matches()
         return ec.card([
             ec.choice_row(_SHAPES, shape, self._pick_shape, "shape", said="shape:"),
+            # an empty entry shows its unit only once it has the keyboard: say it beforehand
+            text_line(f"Bare numbers in {'inches' if v.unit == 'in' else 'mm'}.", size=16,
+                      color=MUTED),
             ft.ResponsiveRow(entries, spacing=8, run_spacing=8),
             text_line("Gauge used", size=16, color=MUTED),
             ec.choice_row(_GAUGES, gauge if gauge in dict(_GAUGES) else "", self._pick_gauge,
@@ -184,8 +189,7 @@ class SectionTab(Tab):
             ft.Row([ec.big_button("Find matches", ft.Icons.SEARCH, self._find, "find-matches"),
                     ec.big_button("Keep as measured", ft.Icons.STRAIGHTEN, self._keep,
                                   "keep-measured", filled=False)], wrap=True, spacing=8,
-                   run_spacing=8),
-            self.match_area], "Measure it", identifier="measure-card")
+                   run_spacing=8)], "Measure it", identifier="measure-card")
 
     def _fill_matches(self) -> None:
         if self.matches is None:
@@ -213,9 +217,13 @@ class SectionTab(Tab):
                                         padding=ft.Padding.symmetric(horizontal=8, vertical=3))],
                           wrap=True, spacing=8)
             lines = [text_line(x, size=16) for x in m.deviations]
-            out.append(ft.Semantics(identifier=f"match-{i}", label=m.label, content=ec.card(
-                [head, *lines, ec.big_button(f"Use {m.name}", ft.Icons.CHECK, self._accept(m.name),
-                                             f"accept-{m.name}", filled=m.within)])))
+            # the button beside the labelled words, not inside them: a labelled node whose lines
+            # wrap is sized short by the web client, and the button inside it was cut to 34 px
+            words = ft.Semantics(identifier=f"match-{i}", label=m.label, content=ft.Column(
+                [head, *lines], spacing=10, horizontal_alignment=ft.CrossAxisAlignment.STRETCH))
+            out.append(ec.card([words, ec.big_button(
+                f"Use {m.name}", ft.Icons.CHECK, self._accept(m.name), f"accept-{m.name}",
+                filled=m.within)]))
         self.match_area.controls = out
 
     def _plates(self, v: sx.SectionView) -> ft.Control:
