@@ -278,9 +278,14 @@ def check_body(detail: m.ColumnDetail) -> list[ft.Control]:
     """
     chk = detail.check
     if chk is None:
+        # "Tap Check again" with an entry still empty only led to a refusal: say what is missing
+        empty = m.still_empty(detail)
+        then = (f"{' and '.join(empty)} {'is' if len(empty) == 1 else 'are'} still empty: type "
+                f"{'it' if len(empty) == 1 else 'them'} below, and the column is checked."
+                if empty else "Tap 'Check again' to check this column.")
         return [_card([ft.Row([status_chip(m.status_of(None, False), big=True,
                                            identifier="status")]),
-                       text_line("Tap 'Check again' to check this column.", color=MUTED)],
+                       text_line(then, color=MUTED)],
                       title="Latest check")]
     fg = TONES[chk.status.tone][0]
     return [_card([
