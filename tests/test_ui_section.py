@@ -181,6 +181,28 @@ def test_a_bow_reading_changes_the_check_and_undo_takes_it_back(demo):
     assert store.latest_check(cid).utilization == pytest.approx(before.utilization)
 
 
+def test_a_braced_column_s_plumb_says_why_its_result_stays(demo):
+    # statics (common practice): a column held in place at both ends and tilted as a whole has
+    # no moment from the tilt; the bracing takes P times the out-of-plumb over the height
+    from fieldcol.ui._entry_controls import saved_words
+
+    store, site = demo
+    cid = _col(store, site, "A/1-G")  # pinned and held at both ends about both axes
+    before = store.latest_check(cid).utilization
+    ch = r.add_reading(store, cid, "plumb", "1/2")
+    assert store.latest_check(cid).utilization == pytest.approx(before)
+    words = saved_words(ch)
+    assert words.startswith("Saved out of plumb 1/2 in; checked again: ")
+    assert "both ends held against sway about the weak axis" in words and "bracing" in words
+    # a sway column's plumb is the P-delta the check takes: no such note
+    rec = store.current_record(cid)
+    rec["restraints"] = {**rec.get("restraints", {}),
+                         "weak": {"bottom": "fixed", "top": "free"}}
+    store.update_column(cid, record=rec)
+    ch = r.add_reading(store, cid, "plumb", "3/4")
+    assert ch.note == "" and "bracing" not in saved_words(ch)
+
+
 def test_the_axis_defaults_to_what_the_column_says(demo):
     store, site = demo
     cid = _col(store, site, "A/1-G")

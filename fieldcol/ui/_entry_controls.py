@@ -148,17 +148,17 @@ def saved_words(change: "Change") -> str:
     Example: ``saved_words(change)`` gives ``"Saved bow 1 1/8 in about the weak axis; checked
     again: 1.18 OVER"``.
     """
-    return checked_words(change.label, change.status)
+    return checked_words(change.label, change.status, change.note)
 
 
-def checked_words(label: str, status: str) -> str:
+def checked_words(label: str, status: str, note: str = "") -> str:
     """The save bar's words for a change saved with the column's check that followed it.
 
     Example: ``checked_words("top end, weak axis: fixed", "0.55 OK")`` gives ``"Saved top
     end, weak axis: fixed; checked again: 0.55 OK"``.
     """
     if status:
-        return f"Saved {label}; checked again: {status}"
+        return f"Saved {label}; checked again: {status}" + (f" ({note})" if note else "")
     return f"Saved {label} (not checked: the record is not complete yet)"
 
 

@@ -21,6 +21,7 @@ Public API::
 from __future__ import annotations
 
 import copy
+import math
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Callable
 
@@ -65,12 +66,14 @@ class Change:
         readings: ids of the readings it added.
         record_before: the stored record before, when the change rewrote it.
         status: the column's status after the change (``"0.84 OK"``), or ``""`` unchecked.
+        note: why the result may not move, when it would puzzle (a braced column's plumb).
     """
     column_id: str
     label: str
     readings: tuple[str, ...] = ()
     record_before: dict[str, Any] | None = None
     status: str = ""
+    note: str = ""
 
 
 @dataclass(frozen=True)
@@ -396,7 +399,24 @@ def add_reading(store: "Store", column_id: str, kind: str, text: str, *,
         raise
     label = f"{name} {typed}" + (f" about the {axis} axis" if kind == "bow" else "")
     return Change(column_id, label, (m.id,), before if changed else None,
-                  check_now(store, column_id, known))
+                  check_now(store, column_id, known),
+                  _plumb_note(current) if kind == "plumb" else "")
+
+
+def _plumb_note(record: dict[str, Any]) -> str:
+    """Why an out-of-plumb reading leaves a braced column's result as it was (the engine's
+    trace says the same: statics, no moment in a column held at both ends)."""
+    from fieldcol.record import parse_record
+
+    try:
+        col = parse_record(record)
+    except InputError:
+        return ""
+    spec = col.axes[col.plumb_axis]
+    if math.isinf(spec.bottom.translation) and math.isinf(spec.top.translation):
+        return (f"both ends held against sway about the {col.plumb_axis} axis: the tilt puts "
+                "no moment in this column, the bracing takes its push")
+    return ""
 
 
 def correct_reading(store: "Store", reading_id: str, text: str, *, note: str | None = None,
