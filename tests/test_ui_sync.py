@@ -93,7 +93,8 @@ def _listening(proc: subprocess.Popen, port: int, log: Path) -> None:
 
 def test_the_office_view_shows_every_site_from_every_device(tmp_path: Path, browser):
     """`fieldcol hub serve --office-port`: two devices sync to the hub over HTTP; the app in a
-    browser over the hub's records shows both devices' sites; /sync is one tap away."""
+    browser over the hub's records shows both devices' sites; /sync is one tap away and offers
+    the bundles and conflicts, not a hub to sync with."""
     data = tmp_path / "hub"
     hub = HubStore(data)
     tokens = [hub.add_device("site-phone"), hub.add_device("site-tablet")]
@@ -120,8 +121,11 @@ def test_the_office_view_shows_every_site_from_every_device(tmp_path: Path, brow
         for name in names:
             _poll(lambda: page.content(), lambda html, n=name: n in html, f"site {name}")
         _wait(page, "open-sync").click()
-        _wait(page, "sync-now")
-        _wait(page, "field-hub-url")
+        # the hub has no hub to reach: its screen keeps the conflicts and the bundles
+        assert "office hub" in _wait(page, "office-note").inner_text()
+        _wait(page, "bundle-open")
+        assert page.locator(_sel("sync-now")).count() == 0
+        assert page.locator(_sel("field-hub-url")).count() == 0
         assert all("rive" in u for u in page.refused)  # the one font loader it tries
     finally:
         proc.terminate()

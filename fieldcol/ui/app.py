@@ -77,13 +77,16 @@ class FieldApp:
     Args:
         page: the Flet page of this session.
         store: an open ``Store`` (shared by sessions; it serialises its own calls).
+        office: True when the store is the office hub's (the office view): the sync screen
+            then has no hub to reach, only bundles and conflicts.
 
     Example: ``await FieldApp(page, store).start()`` inside ``main(page)``.
     """
 
-    def __init__(self, page: ft.Page, store: "Store") -> None:
+    def __init__(self, page: ft.Page, store: "Store", *, office: bool = False) -> None:
         self.page = page
         self.store = store
+        self.office = office
         self.lock = asyncio.Lock()
         self.wide = False
         self.person: str | None = None
@@ -258,8 +261,9 @@ class FieldApp:
         from fieldcol.ui.sync_view import SyncScreen
 
         self.detail = None
-        screen = SyncScreen(self.page, self.store)
-        self._render("/sync", "Sync with the office", screen.controls(), "/")
+        screen = SyncScreen(self.page, self.store, office=self.office)
+        self._render("/sync", "Bundles and conflicts" if self.office else "Sync with the office",
+                     screen.controls(), "/")
         await screen.refresh()
 
     async def _save_who(self, _e: Any = None) -> None:
@@ -711,11 +715,12 @@ async def main(page: ft.Page) -> None:
     await FieldApp(page, _STORE).start()
 
 
-def make_main(store: "Store") -> Callable[[ft.Page], Any]:
+def make_main(store: "Store", *, office: bool = False) -> Callable[[ft.Page], Any]:
     """The Flet ``main`` for a store: each session gets its own ``FieldApp``.
 
     Args:
         store: an open ``Store``.
+        office: the store is the office hub's (see ``FieldApp``).
 
     Returns:
         An async ``main(page)``.
@@ -723,12 +728,12 @@ def make_main(store: "Store") -> Callable[[ft.Page], Any]:
     Example: ``ft.run(make_main(store))``.
     """
     async def main(page: ft.Page) -> None:
-        await FieldApp(page, store).start()
+        await FieldApp(page, store, office=office).start()
     return main
 
 
 def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550,
-        key: str | None = None) -> None:
+        key: str | None = None, office: bool = False) -> None:
     """Serve the app to browsers (web mode, no CDN: it works with no network) until stopped.
 
     The web app is Flet's own, served by uvicorn behind ``fieldcol.ui._access.Guard``: beyond
@@ -738,6 +743,7 @@ def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550,
         store: an open ``Store``.
         host, port: where to listen.
         key: the access key; required when ``host`` is not loopback.
+        office: the store is the office hub's (see ``FieldApp``).
 
     Example: ``run(open_store("site.db"), port=8550)``.
     """
@@ -752,7 +758,8 @@ def run(store: "Store", *, host: str = "127.0.0.1", port: int = 8550,
     from fieldcol.ui.intake import configure_uploads
 
     # photos picked in a browser arrive as uploads (signed URLs) into a private folder
-    web = flet_fastapi.app(make_main(store), no_cdn=True, upload_dir=configure_uploads())
+    web = flet_fastapi.app(make_main(store, office=office), no_cdn=True,
+                           upload_dir=configure_uploads())
     config = uvicorn.Config(Guard(web, key, port), host=host, port=port,
                             ws="websockets-sansio", log_level="warning",
                             access_log=False,  # an access log would record keys in addresses

@@ -42,5 +42,5 @@ def office_runner(host: str, port: int, *, key: str | None = None,
 
         for url in open_addresses(host, port, key):
             say(f"office view: open {url} in a browser")
-        run_app(store, host=host, port=port, key=key)
+        run_app(store, host=host, port=port, key=key, office=True)
     return run

@@ -88,8 +88,8 @@ def sync_lines(store: "Store") -> list[str]:
 class SyncScreen:
     """The sync screen's controls and handlers over one store."""
 
-    def __init__(self, page: ft.Page, store: "Store") -> None:
-        self.page, self.store = page, store
+    def __init__(self, page: ft.Page, store: "Store", *, office: bool = False) -> None:
+        self.page, self.store, self.office = page, store, office
         self.url = ft.TextField(label="Hub address", value=store.setting("hub_url") or "",
                                 hint_text="https://hub.example.org", text_size=16,
                                 keyboard_type=ft.KeyboardType.URL, on_change=self._typed,
@@ -250,19 +250,26 @@ class SyncScreen:
     def controls(self) -> list[ft.Control]:
         """The screen's body."""
         head = ft.Text("Office hub", size=18, weight=ft.FontWeight.BOLD, color=INK)
-        return [head,
-                ft.Semantics(identifier="field-hub-url", content=self.url),
-                ft.Semantics(identifier="field-hub-token", content=self.token),
-                ft.Semantics(identifier="sync-now", content=self.button),
-                self.progress,
-                ft.Semantics(identifier="sync-status", content=self.status),
-                self.moved, self.summary,
+        if self.office:  # the hub itself: there is no hub to reach from here
+            hub: list[ft.Control] = [head, ft.Semantics(identifier="office-note", content=ft.Text(
+                "This is the office hub: the devices sync to it. What is changed or opened "
+                "here reaches each device at its next sync.", size=16, color=MUTED))]
+        else:
+            hub = [head,
+                   ft.Semantics(identifier="field-hub-url", content=self.url),
+                   ft.Semantics(identifier="field-hub-token", content=self.token),
+                   ft.Semantics(identifier="sync-now", content=self.button),
+                   self.progress,
+                   ft.Semantics(identifier="sync-status", content=self.status),
+                   self.moved]
+        whose = "the hub's records" if self.office else "this device's changes"
+        return [*hub, self.summary,
                 ft.Text("Conflicts to review", size=18, weight=ft.FontWeight.BOLD, color=INK),
                 self.conflicts,
                 ft.Text("Field bundle (no network)", size=18, weight=ft.FontWeight.BOLD,
                         color=INK),
-                ft.Text("Carry this device's changes and photos as one file, or open a file "
-                        "made on another device. Opening one twice changes nothing.", size=16,
+                ft.Text(f"Carry {whose} and photos as one file, or open a file made on "
+                        "another device. Opening one twice changes nothing.", size=16,
                         color=MUTED),
                 ft.Row(self.bundle_buttons, wrap=True, spacing=8),
                 ft.Semantics(identifier="bundle-status", live_region=True,
