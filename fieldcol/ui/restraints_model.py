@@ -287,7 +287,7 @@ def _entry(draft: Mapping[str, Any]) -> dict[str, Any]:
         raise InputError("kind", kind, "pick what the brace is", ", ".join(BRACE_KINDS))
     b: dict[str, Any] = {"at": txt("at"), "kind": kind}
     if kind in ("cable", "rod") and (txt("area") or txt("angle") or txt("length")):
-        for key, example in (("area", "0.6 in2 or 380 mm2"), ("length", "18 ft or 5.5 m"),
+        for key, example in (("area", "0.6 in^2 or 380 mm^2"), ("length", "18 ft or 5.5 m"),
                              ("angle", "40 deg")):
             if not txt(key):
                 raise InputError(key, "", f"a {kind} needs its {key} too", "e.g. " + example)

@@ -41,7 +41,7 @@ FORM_FIELDS: dict[str, list[tuple[str, str, str]]] = {
               ("strength", "Strength (blank: taken as enough)", "e.g. 5 kip")],
     "cable": [("axis", "Axis it holds", "weak, strong or both"),
               ("at", "Height from the bottom", "e.g. 12 ft or 3.6 m"),
-              ("area", "Cable area", "e.g. 0.2 in2"),
+              ("area", "Cable area", "e.g. 0.2 in^2"),
               ("length", "Cable length", "e.g. 20 ft"),
               # the engine's angle is to the way the braced point moves (k = A E / L cos^2):
               # "to the floor" is that only for a cable square to the wall in plan

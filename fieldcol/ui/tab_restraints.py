@@ -23,7 +23,7 @@ from fieldcol.ui._tab import Tab
 _FORM_LABELS = {"at": ("Height above the bottom", "e.g. 12 ft, 12'-6\" or 3.8 m"),
                 "stiffness": ("Stiffness (blank: taken as rigid)", "e.g. 20 kip/in or 3.5 kN/mm"),
                 "strength": ("Strength (blank: taken as enough)", "e.g. 5 kip or 22 kN"),
-                "area": ("Cable or rod area", "e.g. 0.6 in2 or 380 mm2"),
+                "area": ("Cable or rod area", "e.g. 0.6 in^2 or 380 mm^2"),
                 "length": ("Cable or rod length", "e.g. 18 ft or 5.5 m"),
                 "angle": ("Cable or rod angle",
                           "to the way the column moves, e.g. 40 deg (0 = in line)"),
