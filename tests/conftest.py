@@ -12,7 +12,8 @@ to go silent for minutes on a screen it had just drawn (a screenshot timed out),
 leave the column pane of a tablet blank while the list beside it was drawn; a fresh page drew
 both at once. A test held past ``BROWSER_TIMEOUT`` fails (pytest-timeout) and runs again the
 same way. A real fault fails all three runs; every rerun is listed at the end of the run
-("RERUN ...", ``-rR``) with the error that made it run again ("why tests ran again"), so it
+("RERUN ...", ``-rR``) with the error that made it run again and the test line it was at
+("why tests ran again": for a timeout, where the test was held), so it
 can be looked into. A rerun finds the app's store as the first attempt did: the module's app
 server starts again on a fresh store (``_browser.Served``). Each test's pages are closed after it, so a
 silent renderer does not spin on through the tests after it.
@@ -41,11 +42,21 @@ def pytest_collection_modifyitems(items):
 _reruns: list[tuple[str, str]] = []
 
 
+def _where(text: str) -> str:
+    """The last line of a test module the failure passed through: where a hung test was held
+    (a timeout's own message says only how long)."""
+    import re
+
+    spots = re.findall(r"^(tests/[\w/]+\.py):(\d+)", text, re.M)
+    return f" (at {spots[-1][0]}:{spots[-1][1]})" if spots else ""
+
+
 def pytest_runtest_logreport(report):
     if report.outcome == "rerun":
         text = getattr(report, "longreprtext", "") or ""
         errors = [ln[1:].strip() for ln in text.splitlines() if ln.startswith("E ")]
-        _reruns.append((report.nodeid, " | ".join(errors[:3])[:400] or text[-400:]))
+        why = " | ".join(errors[:3])[:400] or text[-400:]
+        _reruns.append((report.nodeid, why + _where(text)))
 
 
 def pytest_terminal_summary(terminalreporter):
