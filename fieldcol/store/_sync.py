@@ -7,7 +7,7 @@ import uuid
 from typing import Any, Iterable
 
 from fieldcol.errors import InputError
-from fieldcol.store import _oplog
+from fieldcol.store import _oplog, _snapshot
 from fieldcol.store._base import StoreBase
 from fieldcol.store._oplog import ApplyResult, Conflict, Op
 
@@ -80,6 +80,17 @@ class SyncMixin(StoreBase):
         with self._lock:
             return _oplog.ops_json_after(self.db.conn, seq, limit, exclude_source=exclude_source,
                                          skip=skip)
+
+    def holds_nothing(self) -> bool:
+        """True when this store holds no synced row and no operation (a device's first sync
+        may then take the hub's records whole).
+
+        Example:
+            >>> store.holds_nothing()
+            False
+        """
+        with self._lock:
+            return _snapshot.is_empty(self.db.conn, self._schema())
 
     def held_ops(self, op_ids: Iterable[str]) -> set[str]:
         """Which of these operation ids are logged here already.

@@ -18,6 +18,7 @@ from fieldcol.errors import InputError
 from fieldcol.store import Store
 from fieldcol.store._migrations import MIGRATION_NAMES
 from fieldcol.store._oplog import Op
+from fieldcol.store._snapshot import write_snapshot
 from fieldcol.sync._hubapi import SHA, Device, PushResult, check_name
 from fieldcol.sync._hubapi import now_text as _now
 from fieldcol.sync._hubapi import token_hash as _hash
@@ -59,6 +60,10 @@ class HubStore:
         self.store = Store(self.dir / "hub.db")
         self.partial = self.dir / "partial"
         self.photos = HubPhotos(self.store.photos_dir, self.partial)
+        self.snapshots = self.dir / "snapshots"
+        self.snapshots.mkdir(exist_ok=True)
+        for old in self.snapshots.glob("*.db"):  # left by a hub stopped while making one
+            old.unlink(missing_ok=True)
         self._lock = threading.RLock()
         self._dev = sqlite3.connect(str(self.dir / "devices.db"), check_same_thread=False,
                                     timeout=10)
@@ -153,6 +158,14 @@ class HubStore:
         """``pull``, each operation as its JSON text (``Op.to_json()``'s fields)."""
         return [(seq, text) for seq, _, text in
                 self.store.ops_json_with_seq(after, limit, skip=skip)]
+
+    def snapshot(self) -> Path | None:
+        """A new file of the hub's merged records, their operations and merge state (for a
+        device's first sync; ``fieldcol.store._snapshot``), in ``DIR/snapshots/``; the caller
+        removes it (the web layer as soon as it has it open)."""
+        dest = self.snapshots / f"{uuid.uuid4().hex}.db"
+        write_snapshot(self.store.path, dest, hub_id=self.hub_id)
+        return dest
 
     def max_seq(self) -> int:
         """The hub's newest sequence number."""

@@ -309,6 +309,11 @@ class PgHubStore:
         with self._conn() as c:
             return c.execute(sql + " ORDER BY seq LIMIT %s", [*params, limit]).fetchall()
 
+    def snapshot(self) -> None:
+        """None: this hub keeps operations, not merged records, so a device's first sync pulls
+        them one by one."""
+        return None
+
     def max_seq(self) -> int:
         """The hub's newest committed sequence number."""
         with self._conn() as c:

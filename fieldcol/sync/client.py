@@ -13,8 +13,10 @@ import functools
 import hashlib
 import json
 import ssl
+import tempfile
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any, Callable
 
 import httpx
@@ -25,6 +27,7 @@ from fieldcol.store._gcpause import gc_paused
 from fieldcol.store._migrations import MIGRATION_NAMES
 from fieldcol.store._oplog import (FUTURE_TOLERANCE_MS, MAX_SKIP_SPANS, Conflict, Op,
                                    ops_from_json, wall_ms)
+from fieldcol.store._snapshot import apply_snapshot, snapshot_photos
 from fieldcol.sync._photofiles import have_photo, needed_photos, photo_file, take_photo
 
 PUSH_BATCH = 5000
@@ -112,11 +115,35 @@ class _Hub:
             if r.status_code != 503 or wait is None:
                 break
             time.sleep(wait)  # every request is safe to repeat (ops by id, photos by offset)
+        if r.status_code == 404 and absent_ok:
+            return r
+        self._check(r, path)
+        return r
+
+    def save(self, path: str, dest: Path) -> bool:
+        """Stream the answer to GET ``path`` into the new file ``dest``; False when the hub
+        answers 404 (it has no such thing to give)."""
+        try:
+            with self.http.stream("GET", path) as r:
+                if r.status_code == 404:
+                    return False
+                if r.status_code != 200:
+                    r.read()
+                    self._check(r, path)
+                with open(dest, "xb") as fh:
+                    for chunk in r.iter_bytes():
+                        fh.write(chunk)
+        except httpx.HTTPError as e:
+            raise InputError("hub", self.url, f"cannot reach the hub ({type(e).__name__}: "
+                             f"{e})", "check the address and the network, then sync "
+                             "again") from None
+        return True
+
+    def _check(self, r: httpx.Response, path: str) -> None:
+        """Raise the ``InputError`` an answer of 400 or more means."""
         if r.status_code == 503:
             raise InputError("hub", self.url, "the hub cannot reach its database just now",
                              "sync again in a few minutes; what was sent stays sent")
-        if r.status_code == 404 and absent_ok:
-            return r
         if r.status_code == 401:
             raise InputError("token", "****", "the hub refused this token (wrong or revoked)",
                              "ask the office for a new one: fieldcol hub add-device")
@@ -131,12 +158,12 @@ class _Hub:
                                  "check the clock on this device; the changes stay here and go "
                                  "at the next sync")
             raise InputError(str(f), path, f"the hub said {r.status_code}: {reason}", hint)
-        return r
 
 
 def sync_with_hub(store: Store, url: str, token: str, *,
                   progress: Callable[[str, int, int], None] | None = None,
-                  transport: httpx.BaseTransport | None = None) -> SyncReport:
+                  transport: httpx.BaseTransport | None = None,
+                  take_whole: bool = True) -> SyncReport:
     """Sync this store with the hub at ``url``.
 
     Args:
@@ -145,6 +172,8 @@ def sync_with_hub(store: Store, url: str, token: str, *,
         token: this device's token.
         progress: called with (step, done, total) as the sync goes.
         transport: an httpx transport (tests cut connections with one).
+        take_whole: an empty store takes the hub's records whole when the hub keeps them
+            (``store/_snapshot``); False: operation by operation, as every later sync.
 
     Returns:
         A ``SyncReport``. Raises ``InputError`` (field ``token``, ``hub``, ``clock`` or
@@ -180,6 +209,8 @@ def sync_with_hub(store: Store, url: str, token: str, *,
             report.warnings.append("the hub holds less than it acknowledged (restored from a "
                                    "backup?): everything was sent again")
         _push(store, hub, hub_id, push_c, report, say)
+        if take_whole:
+            _first_pull(store, hub, hub_id, pull_c, report, say)
         _pull(store, hub, hub_id, pull_c, report, say)
         report.conflicts = store.conflicts()
         report.labels = {c.id: store.row_label(c.tbl, c.row_id) for c in report.conflicts}
@@ -243,6 +274,30 @@ def _upload(store: Store, hub: _Hub, sha: str) -> bool:
             if r["have"]:
                 break
     return True
+
+
+def _first_pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
+                say: Callable[[str, int, int], None]) -> None:
+    """An empty store takes the hub's merged records whole (``store/_snapshot``): SQLite
+    copies them, where pulling them would merge every operation in Python. A hub that keeps
+    no records answers 404 and the pull goes operation by operation."""
+    if store.cursor(cursor) or not store.holds_nothing():
+        return
+    with tempfile.TemporaryDirectory(prefix=".fieldcol-snapshot-",
+                                     dir=store.path.parent) as tmp:
+        dest = Path(tmp) / "snapshot.db"
+        if not hub.save("/v1/snapshot", dest):
+            return
+        for sha, name in snapshot_photos(dest).items():  # files before the rows naming them
+            if not have_photo(store, sha, name):
+                if _download(store, hub, sha):
+                    report.photos_received += 1
+                else:
+                    report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the "
+                                           "device that took it has not sent it)")
+        got = apply_snapshot(store, dest, hub_id=hub_id, cursor=cursor)
+    report.received += got.ops
+    say("receive", got.seq, got.seq)
 
 
 def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,

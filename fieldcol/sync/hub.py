@@ -10,6 +10,8 @@ Routes (JSON unless said)::
     POST /v1/push   {device, schema, ops}        -> {acked, new, seqs: [first, last], max_seq}
     GET  /v1/pull?after=N&limit=M[&device=ID&skip=A-B,C-D]
                                                  -> {ops: [[seq, op], ...], max_seq, limit}
+    GET  /v1/snapshot (a SQLite file)   the hub's records for a device's first sync; 404
+                                        from a hub that keeps no records
     GET  /v1/photos/{sha}/status                 -> {have, received}
     PUT  /v1/photos/{sha}?offset=K&total=T (raw bytes)  -> {have, received}
     GET  /v1/photos/{sha}?offset=K (raw bytes)
@@ -25,11 +27,12 @@ PostgreSQL with ``--database`` (any number of processes behind a load balancer).
 from __future__ import annotations
 
 import json
+import os
 import threading
-from typing import Any, Callable
+from typing import Any, Callable, Iterator
 
 from fastapi import FastAPI, Request
-from fastapi.responses import JSONResponse, Response
+from fastapi.responses import JSONResponse, Response, StreamingResponse
 from starlette.concurrency import run_in_threadpool
 
 from fieldcol.errors import InputError
@@ -153,6 +156,20 @@ def create_app(hub: HubBackend) -> FastAPI:
         return Response(f'{{"ops":[{body}],"max_seq":{int(hub.max_seq())},"limit":{n}}}'.encode(),
                         media_type="application/json")
 
+    @app.get("/v1/snapshot")
+    def snapshot() -> Response:
+        path = hub.snapshot()
+        if path is None:
+            return JSONResponse({"field": "snapshot", "reason": "this hub keeps no merged "
+                                 "records", "hint": "pull the operations"}, status_code=404)
+        fh = open(path, "rb")
+        # gone from the folder at once, read through the open file: a download cut short or
+        # a hub stopped half way leaves nothing behind
+        path.unlink()
+        size = os.fstat(fh.fileno()).st_size
+        return StreamingResponse(_pieces(fh), media_type="application/vnd.sqlite3",
+                                 headers={"Content-Length": str(size)})
+
     @app.get("/v1/photos/{sha}/status")
     def photo_status(sha: str) -> dict[str, Any]:
         _sha(sha)
@@ -178,6 +195,16 @@ def create_app(hub: HubBackend) -> FastAPI:
         return Response(data, media_type="application/octet-stream")
 
     return app
+
+
+def _pieces(fh: Any) -> Iterator[bytes]:
+    """A file's bytes in pieces of 1 MiB, the file closed at the end (or when the client
+    goes)."""
+    try:
+        while piece := fh.read(1 << 20):
+            yield piece
+    finally:
+        fh.close()
 
 
 def _spans(text: str) -> list[tuple[int, int]]:
