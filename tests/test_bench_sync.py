@@ -12,6 +12,7 @@ def test_quick_sync_bench_gives_every_measurement():
     res = _sync.run(quick=True)
     for key in ("sync_2000_columns_s", "sqlite_copy_2000_columns_s", "store_writes_2000_columns_s",
                 "sync_2000_columns_cpu_s", "store_writes_2000_columns_cpu_s",
+                "sync_push_2000_columns_s", "sync_ops_2000_columns_s",
                 "sync_photos_mb_per_s", "bundle_import_5000_rows_s"):
         assert res[key] >= 0, key
 

@@ -107,6 +107,9 @@ def test_an_empty_device_takes_the_hubs_records_whole_and_ends_as_one_pulling_ea
         _same([a, b, whole, by_ops, _held(hub, tmp_path)])
         assert _state(whole) == _state(by_ops)
         assert len(whole.conflicts()) == 1  # the hub's conflict comes to review here too
+        # the copied findings are in the full-text index (its triggers ran on the copy)
+        assert [f.text for f in whole.search_findings("pitted")] == \
+            ["flange pitted at the base plate"]
         # every operation arrived as the hub's: none goes back at the next push
         assert whole.db.conn.execute("SELECT DISTINCT source FROM sync_ops").fetchall() == \
             [("hub",)]
