@@ -97,9 +97,13 @@ def test_an_empty_device_takes_the_hubs_records_whole_and_ends_as_one_pulling_ea
         a, ta, b, tb = _busy_site(tmp_path, hub)
         whole, by_ops = Store(tmp_path / "whole.db"), Store(tmp_path / "ops.db")
         tw, to = hub.token("whole"), hub.token("ops")
-        seen = _Paths()
-        rep = sync_with_hub(whole, hub.url, tw, transport=seen)
+        seen, steps = _Paths(), []
+        rep = sync_with_hub(whole, hub.url, tw, transport=seen,
+                            progress=lambda *step: steps.append(step))
         assert "/v1/snapshot" in seen.paths and rep.received == hub.hub.max_seq()
+        # the download says how far it is, in bytes, to the whole file
+        got = [(done, total) for step, done, total in steps if step == "records"]
+        assert got and got[-1][0] == got[-1][1] > 10_000
         assert rep.photos_received == 1
         seen = _Paths()
         sync_with_hub(by_ops, hub.url, to, take_whole=False, transport=seen)

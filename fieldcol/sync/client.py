@@ -120,9 +120,11 @@ class _Hub:
         self._check(r, path)
         return r
 
-    def save(self, path: str, dest: Path) -> bool:
+    def save(self, path: str, dest: Path,
+             progress: Callable[[int, int], None] | None = None) -> bool:
         """Stream the answer to GET ``path`` into the new file ``dest``; False when the hub
-        answers 404 (it has no such thing to give)."""
+        answers 404 (it has no such thing to give). ``progress``: called with (bytes so far,
+        bytes in all) as they arrive."""
         try:
             with self.http.stream("GET", path) as r:
                 if r.status_code == 404:
@@ -130,9 +132,12 @@ class _Hub:
                 if r.status_code != 200:
                     r.read()
                     self._check(r, path)
+                total = int(r.headers.get("content-length") or 0)
                 with open(dest, "xb") as fh:
                     for chunk in r.iter_bytes():
                         fh.write(chunk)
+                        if progress:
+                            progress(fh.tell(), total)
         except httpx.HTTPError as e:
             raise InputError("hub", self.url, f"cannot reach the hub ({type(e).__name__}: "
                              f"{e})", "check the address and the network, then sync "
@@ -170,7 +175,8 @@ def sync_with_hub(store: Store, url: str, token: str, *,
         store: this device's store.
         url: the hub's address.
         token: this device's token.
-        progress: called with (step, done, total) as the sync goes.
+        progress: called with (step, done, total) as the sync goes: ``send`` and ``receive``
+            count operations, ``records`` the bytes of a first sync's download.
         transport: an httpx transport (tests cut connections with one).
         take_whole: an empty store takes the hub's records whole when the hub keeps them
             (``store/_snapshot``); False: operation by operation, as every later sync.
@@ -286,7 +292,7 @@ def _first_pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncR
     with tempfile.TemporaryDirectory(prefix=".fieldcol-snapshot-",
                                      dir=store.path.parent) as tmp:
         dest = Path(tmp) / "snapshot.db"
-        if not hub.save("/v1/snapshot", dest):
+        if not hub.save("/v1/snapshot", dest, lambda done, total: say("records", done, total)):
             return
         for sha, name in snapshot_photos(dest).items():  # files before the rows naming them
             if not have_photo(store, sha, name):

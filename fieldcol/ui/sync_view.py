@@ -169,8 +169,12 @@ class SyncScreen:
         def progress(step: str, done: int, total: int) -> None:
             def show() -> None:
                 self.progress.value = min(1.0, done / total) if total else None
-                self.status.value = f"{'Sending' if step == 'send' else 'Receiving'}: " \
-                                    f"{done} of {total}"
+                if step == "records":  # a first sync: the hub's records whole, in bytes
+                    self.status.value = f"Receiving the office's records: " \
+                                        f"{done / 1e6:.1f} of {total / 1e6:.1f} MB"
+                else:
+                    self.status.value = f"{'Sending' if step == 'send' else 'Receiving'}: " \
+                                        f"{done} of {total}"
                 self.page.update()
             loop.call_soon_threadsafe(show)
 
