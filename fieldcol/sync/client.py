@@ -294,13 +294,7 @@ def _first_pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncR
         dest = Path(tmp) / "snapshot.db"
         if not hub.save("/v1/snapshot", dest, lambda done, total: say("records", done, total)):
             return
-        for sha, name in snapshot_photos(dest).items():  # files before the rows naming them
-            if not have_photo(store, sha, name):
-                if _download(store, hub, sha):
-                    report.photos_received += 1
-                else:
-                    report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the "
-                                           "device that took it has not sent it)")
+        _fetch_photos(store, hub, snapshot_photos(dest), report)
         got = apply_snapshot(store, dest, hub_id=hub_id, cursor=cursor)
     report.received += got.ops
     say("receive", got.seq, got.seq)
@@ -346,13 +340,7 @@ def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
                 objs = [o for o, i in zip(objs, ids)
                         if not (isinstance(i, str) and i in held and o.get("tbl") != "photos")]
                 ops = ops_from_json(objs, "pull.ops")
-            for sha, name in needed_photos(ops).items():  # files before the rows naming them
-                if not have_photo(store, sha, name):
-                    if _download(store, hub, sha):
-                        report.photos_received += 1
-                    else:
-                        report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the "
-                                               "device that took it has not sent it)")
+            _fetch_photos(store, hub, needed_photos(ops), report)
             if not whole:  # (a failed fetch is raised once this page is merged and noted)
                 coming = pool.submit(_fetch_page, hub, store.device_id, through, own)
             with store._tx():
@@ -364,6 +352,17 @@ def _pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncReport,
             say("receive", through, int(body["max_seq"]))
             if whole:
                 break
+
+
+def _fetch_photos(store: Store, hub: _Hub, names: dict[str, str], report: SyncReport) -> None:
+    """The photo files (hash -> name) this store lacks, fetched before the rows naming them."""
+    for sha, name in names.items():
+        if not have_photo(store, sha, name):
+            if _download(store, hub, sha):
+                report.photos_received += 1
+            else:
+                report.warnings.append(f"photo {sha[:12]} is not on the hub yet (the device "
+                                       "that took it has not sent it)")
 
 
 def _fetch_page(hub: _Hub, device_id: str, after: int, own: list[tuple[int, int]]
