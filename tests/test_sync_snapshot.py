@@ -211,6 +211,8 @@ def test_a_good_snapshot_is_taken_whole(tmp_path: Path, snap: Path):
     (["CREATE VIEW odd AS SELECT 1"], "view odd"),
     (["CREATE TRIGGER t AFTER INSERT ON sites BEGIN SELECT 1; END"], "trigger t"),
     (["CREATE TABLE extra (x)"], "table extra"),
+    (["ALTER TABLE sites ADD COLUMN x AS (upper(name))"], "table sites"),
+    (["DROP TABLE visits", "CREATE VIRTUAL TABLE visits USING fts5(x)"], "table visits"),
     (["DROP TABLE sync_fields"], "no table sync_fields"),
     (["UPDATE snapshot_info SET value = '2' WHERE key = 'format'"], "of format ['2']"),
     (["UPDATE snapshot_info SET value = 'x' WHERE key = 'seq'"], "sequence number 'x'"),

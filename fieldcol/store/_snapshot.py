@@ -134,8 +134,6 @@ def apply_snapshot(store: Any, src: str | Path, *, hub_id: str, cursor: str) -> 
                          "sync again") from None
     with store._lock, ThreadPoolExecutor(max_workers=1,
                                          thread_name_prefix="fieldcol-snapshot") as pool:
-        if not is_empty(conn, schema):
-            raise InputError("snapshot", where, "this store holds records already", None)
         # the operations are checked beside the copy; the copy commits only if they pass
         checked = pool.submit(_check_ops, src, schema, where)
         # (a plain path: the store's connection does not read URIs, and nothing here writes
@@ -143,6 +141,10 @@ def apply_snapshot(store: Any, src: str | Path, *, hub_id: str, cursor: str) -> 
         conn.execute("ATTACH DATABASE ? AS snap", [str(src)])
         try:
             with store._tx():
+                # asked under the write lock: another program may have written since
+                if not is_empty(conn, schema):
+                    raise InputError("snapshot", where, "this store holds records already",
+                                     None)
                 conn.execute("INSERT OR IGNORE INTO meta (key, value) VALUES (?, '1')", [QUIET])
                 rows = 0
                 for t in schema.tables:  # parents first: foreign keys hold row by row
@@ -173,13 +175,17 @@ def _check_file(src: Path, mine: dict[str, list[str]], schema: Schema, hub_id: s
     expected = {*schema.tables, *STATE_TABLES, _INFO}
     conn = _read_only(src)
     try:
-        objects = conn.execute("SELECT type, name FROM sqlite_master").fetchall()
-        odd = [f"{kind} {name}" for kind, name in objects
-               if kind != "table" or name not in expected]
+        objects = conn.execute("SELECT type, name, sql FROM sqlite_master").fetchall()
+        # plain tables only: no view, trigger or index, no virtual table, no column computed
+        # when read (nothing of the file's own runs when this store reads it)
+        odd = [f"{kind} {name}" for kind, name, sql in objects
+               if kind != "table" or name not in expected
+               or str(sql).upper().startswith("CREATE VIRTUAL")
+               or any(c[6] for c in conn.execute(f"PRAGMA table_xinfo({_quote(name)})"))]
         if odd:
             raise InputError("snapshot", where, f"holds what a snapshot never does ({odd[0]})",
                              None)
-        missing = expected - {name for _, name in objects}
+        missing = expected - {name for _, name, _ in objects}
         if missing:
             raise InputError("snapshot", where, f"has no table {sorted(missing)[0]}", None)
         info: dict[str, list[str]] = {}
@@ -209,6 +215,10 @@ def _check_file(src: Path, mine: dict[str, list[str]], schema: Schema, hub_id: s
         return int(seq), columns
     finally:
         conn.close()
+
+
+def _quote(name: str) -> str:
+    return '"' + str(name).replace('"', '""') + '"'
 
 
 def _table_columns(conn: sqlite3.Connection, table: str) -> list[str]:
