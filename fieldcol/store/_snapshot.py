@@ -118,8 +118,11 @@ def apply_snapshot(store: Any, src: str | Path, *, hub_id: str, cursor: str) -> 
         hub's fieldcol is newer) with nothing written when the file is refused.
 
     Example:
-        >>> apply_snapshot(store, "snap.db", hub_id="h1", cursor="pull:h1").seq  # doctest: +SKIP
-        41
+        >>> from fieldcol.store import Store
+        >>> seq = write_snapshot(store.path, "snap.db", hub_id="h1")
+        >>> with Store("new.db") as new:
+        ...     apply_snapshot(new, "snap.db", hub_id="h1", cursor="pull:h1").seq == seq
+        True
     """
     src = Path(src)
     schema: Schema = store._schema()
@@ -230,8 +233,9 @@ def snapshot_photos(src: str | Path) -> dict[str, str]:
     each name checked to be of this store's own layout.
 
     Example:
-        >>> snapshot_photos("snap.db")  # doctest: +SKIP
-        {'5e2c...': '5e/5e2c....jpg'}
+        >>> _ = write_snapshot(store.path, "snap.db", hub_id="h1")
+        >>> [name == f"{sha[:2]}/{sha}.jpg" for sha, name in snapshot_photos("snap.db").items()]
+        [True]
     """
     src = Path(src)
     conn = _read_only(src)
