@@ -250,3 +250,29 @@ def test_a_store_holding_records_never_takes_a_snapshot(tmp_path: Path, snap: Pa
         with pytest.raises(InputError) as e:
             apply_snapshot(d, snap, hub_id="hub-1", cursor="pull:hub-1")
         assert "holds records already" in e.value.reason and len(d.list_sites()) == 1
+
+
+def test_a_row_waiting_for_its_parent_on_the_hub_waits_on_the_device_and_lands_with_it(
+        tmp_path: Path):
+    hub = RunningHub(tmp_path / "hub")
+    try:
+        with Store(tmp_path / "a.db") as a:
+            site = _site(a)
+            _col(a, site.id, "C1")
+            ops = a.ops_after(0, 100)
+        site_ops = [o for o in ops if o.tbl == "sites"]
+        rest = [o for o in ops if o.tbl != "sites"]
+        held = hub.hub.store
+        assert held.apply_ops(rest, source="bundle").pending == 1  # the column waits
+        d, td = Store(tmp_path / "d.db"), hub.token("d")
+        seen = _Paths()
+        sync_with_hub(d, hub.url, td, transport=seen)
+        assert "/v1/snapshot" in seen.paths
+        assert d.list_sites() == [] and d.db.conn.execute(
+            "SELECT count(*) FROM sync_rows WHERE pending = 1").fetchone()[0] == 1
+        held.apply_ops(site_ops, source="bundle")  # the site arrives at the hub
+        sync_with_hub(d, hub.url, td)
+        assert [c.tag for c in d.list_columns(d.list_sites()[0].id)] == ["C1"]
+        _same([d, held])
+    finally:
+        hub.stop()
