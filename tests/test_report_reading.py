@@ -219,6 +219,23 @@ def test_a_loss_band_says_where_it_is_and_its_holes_apart_from_the_thickness(mix
     assert "remaining thickness measured: from" not in k6
 
 
+@pytest.mark.parametrize("which, tag, heading", [
+    ("mixed", "K6", "the section where steel was lost (loss band)"),
+    ("demo", "B/2-G", "measured bow (beam-column)")])
+def test_the_governing_mode_says_its_heading_once(which, tag, heading, request):
+    """The Governing mode row is the mode's words then why it governs: the reason goes on from
+    the heading instead of starting with the heading's own words again."""
+    sheet = _sheet(request.getfixturevalue(which), tag)
+    row = re.search(r"Governing mode (.*?) (?:Measured bow|Note|Every mode) ", sheet)
+    assert row and row.group(1).startswith(heading + ": "), sheet[:1500]
+    reason = row.group(1)[len(heading) + 2:]
+    assert not reason.startswith(("the section where", "the measured bow")), reason
+    assert row.group(1).count("where steel was lost") <= 1
+    assert row.group(1).count("measured bow") <= 1
+    if tag == "K6":  # the band's place, from the record (0 mm to 300 mm above the base)
+        assert reason.startswith("from the bottom to 300 mm above it, "), reason
+
+
 def test_small_words_read_as_a_person_writes_them(demo, mixed):
     text = " ".join(demo)
     a1 = _sheet(demo, "A/1-G")
