@@ -343,43 +343,6 @@ def test_a_radius_of_gyration_in_the_trace_gives_back_its_slenderness(demo):
     assert 18 * 12 / ry == pytest.approx(slenderness, rel=2e-4)
 
 
-def _runs(path: Path, page: int) -> list[tuple[str, float, float, float]]:
-    """The text runs of a page with where they start (pt) and their size."""
-    runs = []
-
-    def visit(text, cm, tm, font, size):
-        if text.strip():
-            runs.append((text.strip(), tm[4], tm[5], size))
-
-    pypdf.PdfReader(path).pages[page].extract_text(visitor_text=visit)
-    return runs
-
-
-def test_a_point_of_the_column_curve_never_writes_over_the_axis_title(tmp_path: Path):
-    """A square tube (HSS6X6X3/8, 12 ft long) has its torsional point (reported only for a
-    closed section, AISC 360-22 E4 user note) at a very low slenderness: at the top left of
-    the column curve, where its label was written over the "Fcr (ksi)" title of the axis."""
-    with Store(tmp_path / "t.db") as store:
-        site = store.add_site("Tube Yard", code="aisc360-22", unit_system="us")
-        _checked(store, site, {"tag": "E/1", "section": "HSS6X6X3/8", "material": "A500 Gr B",
-                               "length": "12 ft", "demand": {"axial": "150 kip"}})
-        out = site_report(store, site.id, tmp_path / "t.pdf", report_date="2026-04-01")
-    page = next(i for i, t in enumerate(_pages(out)) if "Column E/1 " in t)
-    runs = [r for r in _runs(out, page) if r[3] == 5.4]
-    title = next(r for r in runs if r[0] == "Fcr (ksi)")
-    labels = [r for r in runs if r[0].endswith(")") and r is not title
-              or r[0].endswith("governs")]
-    assert any(r[0].startswith("twist") for r in labels), labels
-
-    def box(r):  # DejaVu Sans: about 0.6 em a character, a line 1.2 em high (common practice)
-        return r[1], r[2], r[1] + 0.6 * r[3] * len(r[0]), r[2] + 1.2 * r[3]
-
-    x0, y0, x1, y1 = box(title)
-    for r in labels:
-        a0, b0, a1, b1 = box(r)
-        assert a1 <= x0 or x1 <= a0 or b1 <= y0 or y1 <= b0, (r, title)
-
-
 @pytest.mark.parametrize("which", ["mixed", "big"])
 def test_the_caution_and_page_x_of_y_on_every_page(which, request):
     pages = request.getfixturevalue(which)
