@@ -145,7 +145,8 @@ def _record_rows(data: "SiteData", c: "ColumnData") -> list:
             ("Material", tx.material_text(rec.get("material"))),
             ("Length", tx.value_text(rec.get("length")))]
     rows += _restraint_rows(rec.get("restraints"))
-    rows += [("Condition", tx.condition_text(rec.get("condition"))),
+    rows += [("Condition", tx.condition_text(rec.get("condition"),
+                                                 data.site.unit_system)),
              ("Demand", tx.demand_text(rec.get("demand")))]
     from fieldcol.ui.loads_model import load_lines  # plain data: no Flet
 
@@ -238,7 +239,7 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
 
 def _bow_text(bow: dict, record: Any, d: dict, system: str) -> str:
     """The measured bow and its excess as the app shows the reading and the warning beside
-    writes them (``format_reading``: decimal inches under a foot on a US site), then the
+    writes them (``format_reading``: on a US site a reading as recorded, ``1 1/8 in``), then the
     capacity with it."""
     from fieldcol.errors import InputError
     from fieldcol.units import format_reading, parse_length

@@ -135,8 +135,8 @@ def _fmt(value: float | None, kind: str, system: str) -> str:
     return format_quantity(value, kind, system)
 
 
-def _step_text(value: Any, unit: str, system: str) -> str:
-    from fieldcol.units import format_step
+def _step_text(value: Any, unit: str, system: str, what: str = "") -> str:
+    from fieldcol.units import format_reading, format_step
 
     if value is None:
         return "none"
@@ -144,6 +144,10 @@ def _step_text(value: Any, unit: str, system: str) -> str:
         return {"True": "yes", "False": "no"}.get(value, value)
     if isinstance(value, bool):
         return "yes" if value else "no"
+    if unit == "mm" and what.startswith("measured "):
+        # a reading (the bow, the out-of-plumb) as it was recorded and as its warning, the
+        # record and the app write it, not to four figures as a worked-out length
+        return format_reading(float(value), system)
     return format_step(float(value), unit, system)
 
 
@@ -269,7 +273,8 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
                          _yes_no(s.get("value"))
                          if "≤" in display_symbol(str(s.get("symbol", "")), code)
                          or str(s.get("symbol", "")).startswith("slender")
-                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
+                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system,
+                                               str(s.get("what", "")))),
                          words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
                          str(s.get("clause", "")))
         if step.clause in _RESTATED and (step.symbol, step.value) in shown:
