@@ -263,6 +263,44 @@ def test_cli_writes_the_report_and_names_a_bad_site(demo, tmp_path: Path, capsys
     assert not (tmp_path / "n.pdf").exists()
 
 
+def test_the_fpdf2_internals_the_report_relies_on_are_there(tmp_path: Path):
+    """``_layout._KeptEncoding`` subclasses fpdf2's ``fpdf.fonts.TTFFont``, overrides its
+    ``encode_text(text) -> str`` and keeps each result on the font's ``subset`` map. None of
+    that is public fpdf2 API, so pyproject.toml pins fpdf2 to the minor release tested; an
+    fpdf2 that moves them fails here by name instead of leaving a report that has gone slow
+    (or, worse, encodes differently) in silence."""
+    import inspect
+    import tomllib
+
+    import fpdf
+    import fpdf.fonts
+
+    from fieldcol.report import _layout
+
+    pins = [d for d in tomllib.loads((Path(__file__).parents[1] / "pyproject.toml").read_text(
+        encoding="utf-8"))["project"]["dependencies"] if d.startswith("fpdf2")]
+    assert pins == ["fpdf2>=2.8.9,<2.9"]
+    version = tuple(int(x) for x in fpdf.__version__.split(".")[:3])
+    assert (2, 8, 9) <= version < (2, 9), f"fpdf2 {fpdf.__version__} is outside the pin"
+    TTFFont = getattr(fpdf.fonts, "TTFFont", None)
+    assert TTFFont is not None, f"fpdf2 {fpdf.__version__}: fpdf.fonts.TTFFont is gone"
+    encode = getattr(TTFFont, "encode_text", None)
+    assert encode is not None and list(inspect.signature(encode).parameters) == [
+        "self", "text"], f"fpdf2 {fpdf.__version__}: TTFFont.encode_text(self, text) changed"
+    assert _layout._KeptEncoding is not None and issubclass(_layout._KeptEncoding, TTFFont)
+    pdf = _layout.ReportPDF(paper="A4", site_name="Yard", report_date="2026-04-01",
+                            caution=CAUTION)
+    font = next(iter(pdf.fonts.values()))
+    assert type(font) is _layout._KeptEncoding
+    pdf.add_page()
+    pdf.set_font(_layout.FONT, "", 9)
+    pdf.text(20, 30, "Flange 0.48 in λ-bar")
+    # the kept encoding is fpdf2's own, and it is kept where the subset map can carry it
+    assert font.encode_text("Flange 0.48 in λ-bar") == TTFFont.encode_text(
+        font, "Flange 0.48 in λ-bar")
+    assert "Flange 0.48 in λ-bar" in vars(font.subset)["_kept_encodings"]
+
+
 def test_fonts_are_bundled_with_their_licence():
     fonts = ASSETS / "fonts"
     for name in ("DejaVuSans.ttf", "DejaVuSans-Bold.ttf"):
