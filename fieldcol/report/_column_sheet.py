@@ -6,6 +6,7 @@ options."""
 from __future__ import annotations
 
 import json
+import re
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
@@ -397,6 +398,11 @@ def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tu
     return fit[0], fit[1], half - fit[0] - fit[1]
 
 
+#: a step's formula that is a statement with its own symbol ("E = 29,000 ksi, G = 11,200 ksi
+#: as AISC 360-22 states them"): "elastic modulus = E = ..." read as one equation
+_STATEMENT = re.compile(r"^[A-Za-z_,]+ = ")
+
+
 def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
     """The trace in two columns, its values and words as the Check tab shows them
     (``check_model`` wrote them in the site's units)."""
@@ -405,10 +411,14 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
     rows = []
     for t in summ.trace:
         what = t.what
-        if t.formula:
-            # a word (record, table, measured) says where the value came from; else an equation
-            what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \
-                else f" ({t.formula})"
+        if t.formula and t.formula != t.clause:  # not "(record) [record]"
+            # a word (record, table, measured) says where the value came from; a statement
+            # ("E = 29,000 ksi, G = ...") or a list of values ("minimum 0.75, usual 1.0")
+            # follows a colon; an equation an equals sign
+            what += (f": {t.formula}" if _STATEMENT.match(t.formula) else f" = {t.formula}"
+                     if any(ch in t.formula for ch in "=()+-*/^<>")
+                     else f": {t.formula}" if any(ch.isdigit() for ch in t.formula)
+                     else f" ({t.formula})")
         value = t.value
         if value in tx.MODE_WORDS:  # the governing mode's key: its words, as the tables say it
             what, value = f"{what}: {tx.MODE_WORDS[value]}", ""
@@ -467,7 +477,8 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
     rows = []
     for m in c.measurements:
         kind = tx._KIND.get(m.unit)  # the reading's canonical value, shown in the site's units
-        shown = (format_reading(m.value, system) if kind == "length"  # as the app shows it
+        shown = (format_reading(m.value, system, fraction=m.quantity.startswith("condition."))
+                 if kind == "length"  # as the app shows it
                  else tx.quantity({"value": m.value, "unit": m.unit}, system) if kind
                  else f"{m.value:g} {m.unit}")
         if m.id in corrected:
