@@ -125,7 +125,7 @@ def test_over_columns_say_over_and_findings_show_their_text(demo):
     assert _flat(strap.text) in c3  # listed in its column's sheet too
     # the demo photos carry an EXIF time, printed under them in the photo grid
     photos = " ".join(t for t in pages if "Photographs" in t)
-    assert "taken 2026-02-10 10:20:00 +00:00" in photos  # A/2-G's rust, as noted
+    assert "taken 2026-02-10 10:20 UTC" in photos  # A/2-G's rust, as noted
     assert re.search(r"P1 F1 corrosion, column \S+", photos)
 
 

@@ -413,7 +413,8 @@ def test_an_unchecked_column_names_its_code_and_a_finding_its_place_on_the_sheet
         out = site_report(store, site.id, tmp_path / "o.pdf", report_date="2026-04-01")
     pages = _pages(out)
     n2 = _sheet(pages, "N2")
-    assert "Code AISC 360-22 (ANSI/AISC 360-22)" in n2 and "aisc360-22" not in n2
+    assert "Code ANSI/AISC 360-22 (Specification for Structural Steel Buildings)" in n2 \
+        and "aisc360-22" not in n2
     n3 = _sheet(pages, "N3")
     # the sheet says where on the column, as the register does
     assert "Web buckled locally near the splice (north face, 6'-0\" up, urgent, open)" in n3

@@ -10,7 +10,7 @@ import re
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
-from fieldcol.report._layout import PT_MM, ReportPDF
+from fieldcol.report._layout import GREY, PT_MM, ReportPDF
 from fieldcol.store import quantity_name
 
 if TYPE_CHECKING:
@@ -97,6 +97,10 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
                      if data.finding_photos.get(f.id) else ""))
                  for f in c.findings]
         _column_findings(pdf, frows)
+        if any(f.status != "closed" for f in c.findings):
+            # a dent or a crack noted here is not in the strength above unless the record
+            # holds it: the reader must not take the check as having weighed it
+            pdf.para(FINDINGS_NOTE, size=7.2, colour=GREY)
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
@@ -106,6 +110,12 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     _measurement_history(pdf, c, system)
     if c.retrofits:
         _retrofits(pdf, c, system)
+
+
+#: under a column's open findings: what the check above did and did not take into account
+FINDINGS_NOTE = ("The check above takes only what the record holds (section, loss, bow, plumb, "
+                 "restraints, loads): an open finding is not in its strength until the engineer "
+                 "records its effect.")
 
 
 def _column_findings(pdf: ReportPDF, rows: list) -> None:
@@ -401,6 +411,28 @@ def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tu
 #: a step's formula that is a statement with its own symbol ("E = 29,000 ksi, G = 11,200 ksi
 #: as AISC 360-22 states them"): "elastic modulus = E = ..." read as one equation
 _STATEMENT = re.compile(r"^[A-Za-z_,]+ = ")
+#: a formula that is a sentence ("... under EN; AISC E3 makes no difference"): not an equation
+_PROSE = re.compile(r"\b[a-z]{2,} [a-z]{2,} [a-z]{2,}\b")
+
+
+def _with_formula(what: str, formula: str, clause: str) -> str:
+    """A step's words and its formula as one reads them: a word (record, table, measured)
+    says where the value came from, in brackets; a statement (``E = 29,000 ksi, G = ...``), a
+    sentence or a list of values (``minimum 0.75, usual 1.0``) follows a colon; an equation an
+    equals sign; a formula that only repeats the source (``record``) is left out.
+
+    Example: ``_with_formula("required axial strength (given)", "record", "record")`` gives
+    ``'required axial strength (given)'``.
+    """
+    if not formula or formula == clause:
+        return what
+    if _STATEMENT.match(formula) or _PROSE.search(formula):
+        return f"{what}: {formula}"
+    if any(ch in formula for ch in "=()+-*/^<>"):
+        return f"{what} = {formula}"
+    if any(ch.isdigit() for ch in formula):
+        return f"{what}: {formula}"
+    return f"{what} ({formula})"
 
 
 def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
@@ -410,15 +442,7 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
         return
     rows = []
     for t in summ.trace:
-        what = t.what
-        if t.formula and t.formula != t.clause:  # not "(record) [record]"
-            # a word (record, table, measured) says where the value came from; a statement
-            # ("E = 29,000 ksi, G = ...") or a list of values ("minimum 0.75, usual 1.0")
-            # follows a colon; an equation an equals sign
-            what += (f": {t.formula}" if _STATEMENT.match(t.formula) else f" = {t.formula}"
-                     if any(ch in t.formula for ch in "=()+-*/^<>")
-                     else f": {t.formula}" if any(ch.isdigit() for ch in t.formula)
-                     else f" ({t.formula})")
+        what = _with_formula(t.what, t.formula, t.clause)
         value = t.value
         if value in tx.MODE_WORDS:  # the governing mode's key: its words, as the tables say it
             what, value = f"{what}: {tx.MODE_WORDS[value]}", ""

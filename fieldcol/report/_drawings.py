@@ -106,7 +106,16 @@ def sketch(pdf: ReportPDF, sk: "Sketch", x: float, y: float, w: float, h: float)
             _small(pdf, 5.2)
             pdf.set_text_color(*GREY)
             label = kind if counted else f"{kind}, not counted"
-            pdf.lines_at(cx - amp - 2, by + 0.2, pdf.wrap(label, amp + 6), 2.0)
+            # left of the column's line, under the brace (over it where the buckled shape
+            # swings left there): never written over the column or its shape
+            x0, x1 = bx + 1.0, cx - 0.8
+            lines = pdf.wrap(label, x1 - x0)
+            tall = 2.0 * len(lines)
+            spans = [(by + 0.2, by + 0.2 + tall), (by - 0.4 - tall, by - 0.4)]
+            shape = [(cx + wv * amp, bot_y - zf * (bot_y - top_y)) for zf, wv in ax.shape]
+            top = next((a for a, b in spans if all(px_ > x1 + 0.3 for px_, py_ in shape
+                                                   if a - 0.5 <= py_ <= b + 0.5)), spans[0][0])
+            pdf.lines_at(x0, top, lines, 2.0)
             pdf.set_text_color(*INK)
         _small(pdf, 6.2, True)
         pdf.set_text_color(*(ACCENT if ax.governs else INK))

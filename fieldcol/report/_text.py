@@ -33,7 +33,7 @@ SEVERITY_ORDER = ("urgent", "high", "medium", "low", "info")
 
 
 #: the design code in words (the cover, a sheet whose record has no check yet)
-CODE_WORDS = {"aisc360-22": "AISC 360-22 (ANSI/AISC 360-22)",
+CODE_WORDS = {"aisc360-22": "ANSI/AISC 360-22 (Specification for Structural Steel Buildings)",
               "en1993-1-1": "EN 1993-1-1 (Eurocode 3)", "elastic": "elastic reference check"}
 
 
@@ -179,17 +179,6 @@ def when(iso: str | None) -> str:
         return iso
     tail = " UTC" if iso.endswith("Z") or iso.endswith("+00:00") else ""
     return f"{iso[:10]} {iso[11:16]}{tail}"
-
-
-def exif_time(iso: str | None) -> str:
-    """A photo's EXIF time as recorded by the camera, or a plain note that there is none.
-
-    Example: ``exif_time("2026-02-10T11:00:00+00:00")`` gives ``'taken 2026-02-10 11:00:00 +00:00'``.
-    """
-    if not iso:
-        return "no EXIF time"
-    offset = f" {iso[19:]}" if len(iso) > 19 else " (camera clock)"
-    return f"taken {iso[:10]} {iso[11:19]}{offset}"
 
 
 def value_text(v: Any) -> str:
