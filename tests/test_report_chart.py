@@ -78,6 +78,49 @@ def reports(tmp_path_factory):
     return out
 
 
+@pytest.fixture(scope="module")
+def braced(tmp_path_factory):
+    """Columns whose braces the side view labels: a strap too soft to count at mid-height, a
+    single cable (tension only: not counted), a strut that counts at a third of the height
+    (two half-waves, the shape swinging both ways past it); the report's path and tags."""
+    root = tmp_path_factory.mktemp("braced")
+    with Store(root / "b.db") as store:
+        site = store.add_site("Brace Yard", code="aisc360-22", unit_system="us")
+        base = {"section": "W14X90", "material": "A992", "length": "24 ft",
+                "demand": {"axial": "500 kip"}}
+        weak = {"S1": [{"at": "12 ft", "stiffness": "0.6 kip/in"}],
+                "S2": [{"at": "12 ft", "cable": {"area": "0.6 in^2", "length": "18 ft",
+                                                 "angle": "40 deg"}}],
+                "S3": [{"at": "8 ft"}]}
+        for tag, braces in weak.items():
+            _checked(store, site, {"tag": tag, **base, "restraints": {
+                "strong": PINNED, "weak": {**PINNED, "braces": braces}}})
+        out = site_report(store, site.id, root / "b.pdf", report_date="2026-04-01")
+    return out, list(weak)
+
+
+def test_a_braces_words_never_cross_the_column_or_its_buckled_shape(braced):
+    """The side view names each brace beside its line ("strap", "cable, not counted"): the
+    words keep off the column's own line and the first buckled shape drawn over it."""
+    path, tags = braced
+    reader = pypdf.PdfReader(path)
+    texts = [re.sub(r"\s+", " ", p.extract_text()) for p in reader.pages]
+    for tag in tags:
+        index = next(i for i, t in enumerate(texts) if re.search(rf"Column {tag} ", t)
+                     and "Side view" in t)
+        runs, segments, _ = _page_geometry(reader, index)
+        words = [r for r in runs if r[3] == pytest.approx(5.2)
+                 and re.fullmatch(r"(strut|cable|strap|rod)(, not)?|counted|not counted", r[0])]
+        assert words, (tag, [r[0] for r in runs if r[3] < 6])
+        for text, box, _, _ in words:
+            inner = (box[0] + 0.05, box[1] + 0.05, box[2] - 0.05, box[3] - 0.05)
+            for seg in segments:
+                # the brace's own line runs along the top of its words: horizontal lines
+                # aside, nothing drawn (the column, its shape) passes through them
+                if abs(seg[1] - seg[3]) > 0.05:
+                    assert not segment_meets_box(seg, inner), (tag, text, seg)
+
+
 def _widths():
     pdf = FPDF(unit="mm")
     pdf.add_font(FONT, "", str(ASSETS / "fonts" / "DejaVuSans.ttf"))

@@ -39,10 +39,10 @@ PAD_Y = 0.7
 MISSING_MARK = "\u25a1"  # a white square: the font has no glyph for the character here
 #: a number, a fraction and a unit stay on one line ("1 1/8 in", "300 mm", "0.192 in,"): a
 #: reading cut after its whole inches reads as another number
-_NUMBER = re.compile(r"""^[(\['"]?[-−]?\d[\d.,]*$""")
+_NUMBER = re.compile(r"""^[(\['"]?[-−]?\d[\d.,]*(?:e[-+]?\d+)?$""")
 _FRACTION = re.compile(r"""^\d+/\d+(?:\s*(?:in|")?)[),;:.'"]*$""")
-_UNIT = re.compile(r"^(?:in|in\.|mm|m|ft|kip|kips|kN|ksi|MPa|psi|kip\*ft|kip\*in|kN\*m|"
-                   r"""in\^[24]|mm\^[246]|in2|mm2|%)[),;:.'"]*$""")
+_UNIT = re.compile(r"""^(?:in\.?|mm|m|ft|kips?|kN|N|ksi|MPa|psi|lbf?|%)\d?"""
+                   r"""(?:[*/](?:in|mm|m|ft|kips?|kN|N|rad)|\^\d)*[),;:.'"]*$""")
 
 
 @dataclass
