@@ -17,7 +17,6 @@ import pypdf
 import pytest
 
 from fieldcol.assess import assess
-from fieldcol.demo import SITE_NAME, build_demo
 from fieldcol.report import site_report
 from fieldcol.store import Store
 
@@ -39,14 +38,9 @@ def _pages(path: Path) -> list[str]:
 
 
 @pytest.fixture(scope="module")
-def demo(tmp_path_factory):
+def demo(demo_report_pdf):
     """The demo site's report, pages as text."""
-    root = tmp_path_factory.mktemp("reading")
-    with Store(root / "demo.db") as store:
-        build_demo(store)
-        out = site_report(store, store.site_by_name(SITE_NAME).id, root / "demo.pdf",
-                          report_date="2026-03-10")
-    return _pages(out)
+    return _pages(demo_report_pdf)
 
 
 def _checked(store: Store, site, rec: dict) -> None:

@@ -13,10 +13,7 @@ import re
 import pypdf
 import pytest
 
-from fieldcol.demo import SITE_NAME, build_demo
-from fieldcol.report import site_report
 from fieldcol.report._column_sheet import FINDINGS_NOTE, _with_formula
-from fieldcol.store import Store
 
 
 def _flat(text: str) -> str:
@@ -24,14 +21,9 @@ def _flat(text: str) -> str:
 
 
 @pytest.fixture(scope="module")
-def report(tmp_path_factory):
+def report(demo_report_pdf):
     """The demo site's report: each page's lines as pypdf reads them."""
-    root = tmp_path_factory.mktemp("wording")
-    with Store(root / "demo.db") as store:
-        build_demo(store)
-        out = site_report(store, store.site_by_name(SITE_NAME).id, root / "demo.pdf",
-                          report_date="2026-03-10")
-    return [p.extract_text().split("\n") for p in pypdf.PdfReader(out).pages]
+    return [p.extract_text().split("\n") for p in pypdf.PdfReader(demo_report_pdf).pages]
 
 
 #: a line that ends on a bare number, and one that starts with a fraction or a unit
