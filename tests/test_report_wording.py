@@ -72,6 +72,9 @@ def test_the_wrapping_keeps_a_reading_whole_at_any_width():
     ("hollow section", "curve a (hot-finished) or c (cold-formed) under EN; AISC E3 makes no "
      "difference", "x", "hollow section: curve a (hot-finished) or c (cold-formed) under EN; "
      "AISC E3 makes no difference"),
+    # what a brace needs by its formula, then what was recorded (not "not recorded = ...")
+    ("stiffness the brace needs; given: not recorded", "(1/phi) 8 Pr / Lbr", "App. 6.2",
+     "stiffness the brace needs = (1/phi) 8 Pr / Lbr; given: not recorded"),
     # an equation keeps its equals sign
     ("slenderness, weak axis", "Lc,weak / r", "AISC 360-22 E3", "slenderness, weak axis = "
      "Lc,weak / r"),
@@ -85,6 +88,7 @@ def test_the_trace_in_the_report_reads_as_words_where_it_is_words(report):
     assert "(record) [record]" not in text
     assert "modulus = E =" not in text and "elastic modulus: E = 29,000 ksi" in text
     assert "utilization = minimum" not in text
+    assert "not recorded = " not in text and "given: 0.6 kip/in = " not in text
 
 
 def test_an_open_finding_says_the_check_has_not_weighed_it(report):
@@ -118,3 +122,9 @@ def test_the_cover_names_the_code_once(report):
     cover = _flat(" ".join(report[0]))
     assert "Design code ANSI/AISC 360-22 (Specification for Structural Steel Buildings)" in cover
     assert "AISC 360-22 (ANSI/AISC 360-22)" not in cover
+
+
+def test_a_bow_that_governs_names_its_interaction_equation(report):
+    # B/2-G: the bow is checked by AISC 360-22 H1.1 (H1-1a / H1-1b), as its trace says
+    text = _flat(" ".join(" ".join(lines) for lines in report))
+    assert "Utilization 0.920 OK: interaction ratio (H1-1)" in text

@@ -211,6 +211,10 @@ def _after_colon(text: str) -> str:
     return text
 
 
+#: the equations a measured bow is checked by (codes/bow.py; its result names none)
+_BOW_EQUATION = {"aisc360-22": "H1-1", "en1993-1-1": "6.61, 6.62", "elastic": "Perry-Robertson"}
+
+
 def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[int]]:
     """The latest check's rows and the rows in bold (the utilization when OVER)."""
     k = c.check
@@ -223,7 +227,8 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
     gov = d.get("governing_mode")
     if word in ("OK", "OVER") and gov in _WITH:
         # not the demand over the design strength (the equation is not linear in the force)
-        eq = (d.get(dict(INTERACTIONS)[gov]) or {}).get("equation")
+        eq = (d.get(dict(INTERACTIONS)[gov]) or {}).get("equation") or (
+            _BOW_EQUATION.get(str(d.get("code"))) if gov == "bow" else None)
         util += f": interaction ratio ({eq})" if eq else ": interaction ratio"
     dem = d.get("demand")
     rows = [("Checked", f"{tx.when(k.checked_at)} with fieldcol {k.app_version}"),
@@ -419,13 +424,17 @@ def _with_formula(what: str, formula: str, clause: str) -> str:
     """A step's words and its formula as one reads them: a word (record, table, measured)
     says where the value came from, in brackets; a statement (``E = 29,000 ksi, G = ...``), a
     sentence or a list of values (``minimum 0.75, usual 1.0``) follows a colon; an equation an
-    equals sign; a formula that only repeats the source (``record``) is left out.
+    equals sign, before what was given (``...; given: 0.6 kip/in``); a formula that only
+    repeats the source (``record``) is left out.
 
     Example: ``_with_formula("required axial strength (given)", "record", "record")`` gives
     ``'required axial strength (given)'``.
     """
     if not formula or formula == clause:
         return what
+    head, given, tail = what.partition("; given: ")
+    if given:  # what the step needs, by its formula; then what was recorded
+        return f"{_with_formula(head, formula, clause)}{given}{tail}"
     if _STATEMENT.match(formula) or _PROSE.search(formula):
         return f"{what}: {formula}"
     if any(ch in formula for ch in "=()+-*/^<>"):
