@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Sequence
+from typing import Iterable, Iterator, Sequence
 
 #: x0, y0, x1, y1 with x0 <= x1 and y0 <= y1 (mm)
 Box = tuple[float, float, float, float]
@@ -211,10 +211,13 @@ def _place(anchors: Sequence[tuple[float, float]], sizes: Sequence[tuple[float, 
         first = tuple((toward or [None] * len(anchors))[i] or ())
         angles = first + tuple(a for a in ANGLES if a not in first)
         rings = RINGS if not (lead and lead[i]) else tuple(r for r in RINGS if r >= LEADER_FROM)
-        near = _ring_boxes(ax, ay, w, h, radii[i], angles, rings)
+        short = tuple(r for r in rings if r <= CROSS_UP_TO)
         got = None
-        for boxes, strict in ((near, True), (_grid_boxes(ax, ay, w, h, area), True),
-                              ([b for b in near if b[1] <= CROSS_UP_TO], False)):
+        # each made only as far as it is asked for: most labels sit beside their point, and
+        # the grid's thousands of places are seldom needed
+        for boxes, strict in ((_ring_boxes(ax, ay, w, h, radii[i], angles, rings), True),
+                              (_grid_boxes(ax, ay, w, h, area), True),
+                              (_ring_boxes(ax, ay, w, h, radii[i], angles, short), False)):
             got = _first_free(ax, ay, em, boxes, area, lines, taken, leaders, others, apart,
                               radii[i], strict)
             if got is not None:
@@ -228,22 +231,21 @@ def _place(anchors: Sequence[tuple[float, float]], sizes: Sequence[tuple[float, 
 
 
 def _ring_boxes(ax: float, ay: float, w: float, h: float, mark: float,
-                angles: Sequence[int], rings: Sequence[float]) -> list[tuple[Box, float]]:
+                angles: Sequence[int], rings: Sequence[float]) -> Iterator[tuple[Box, float]]:
     """Boxes round a point: at each distance beyond its mark, one per direction, the box's
     nearest corner (or the middle of its nearest side) there: to the right a label starts
     there, to the left it ends there. Each with that distance."""
-    out = []
     for ring in rings:
         for deg in angles:
             c, s = math.cos(math.radians(deg)), -math.sin(math.radians(deg))
             ox, oy = ax + c * (mark + ring), ay + s * (mark + ring)
             x0 = ox if c > 0.38 else ox - w if c < -0.38 else ox - w / 2
             y0 = oy if s > 0.38 else oy - h if s < -0.38 else oy - h / 2
-            out.append(((x0, y0, x0 + w, y0 + h), ring))
-    return out
+            yield (x0, y0, x0 + w, y0 + h), ring
 
 
-def _grid_boxes(ax: float, ay: float, w: float, h: float, area: Box) -> list[tuple[Box, float]]:
+def _grid_boxes(ax: float, ay: float, w: float, h: float,
+                area: Box) -> Iterator[tuple[Box, float]]:
     """Every place in the area on a grid of 1 mm across and 0.5 mm down, nearest the point
     first (where the rings found nothing free: a crowded chart)."""
     out = []
@@ -255,7 +257,7 @@ def _grid_boxes(ax: float, ay: float, w: float, h: float, area: Box) -> list[tup
             nx_, ny_ = min(max(ax, box[0]), box[2]), min(max(ay, box[1]), box[3])
             out.append((box, max(LEADER_FROM, math.hypot(nx_ - ax, ny_ - ay))))
     out.sort(key=lambda b: b[1])
-    return out
+    yield from out
 
 
 def _crosses_a_line(lead: Segment, lines: Sequence[Segment]) -> bool:
@@ -268,7 +270,7 @@ def _crosses_a_line(lead: Segment, lines: Sequence[Segment]) -> bool:
     return any(segments_touch(short, seg) for seg in lines)
 
 
-def _first_free(ax: float, ay: float, em: float, boxes: Sequence[tuple[Box, float]],
+def _first_free(ax: float, ay: float, em: float, boxes: Iterable[tuple[Box, float]],
                 area: Box, lines: Sequence[Segment], taken: Sequence[Box],
                 leaders: Sequence[Segment], marks: Sequence[Box], apart: Sequence[Box],
                 mark: float, strict: bool) -> Placed | None:
@@ -279,7 +281,11 @@ def _first_free(ax: float, ay: float, em: float, boxes: Sequence[tuple[Box, floa
         if any(boxes_meet(box, t, PAD) for t in taken) or \
                 any(boxes_meet(box, m, PAD) for m in marks) or \
                 boxes_meet(box, (ax - mark, ay - mark, ax + mark, ay + mark), PAD) or \
-                any(segment_meets_box(seg, box, PAD) for seg in lines) or \
+                any(segment_meets_box(seg, box, PAD) for seg in lines
+                    # (a segment wholly beside the box cannot meet it: skipped cheaply)
+                    if min(seg[0], seg[2]) < box[2] + PAD and max(seg[0], seg[2]) > box[0] - PAD
+                    and min(seg[1], seg[3]) < box[3] + PAD
+                    and max(seg[1], seg[3]) > box[1] - PAD) or \
                 any(segment_meets_box(seg, box, PAD) for seg in leaders):
             continue
         lead = _leader(ax, ay, mark, box) if ring >= LEADER_FROM else None
