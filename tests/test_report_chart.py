@@ -16,6 +16,8 @@ import re
 import pypdf
 import pytest
 from fpdf import FPDF
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from pypdf.generic import ContentStream
 
 from fieldcol.assess import assess
@@ -285,3 +287,31 @@ def test_the_geometry_helpers_agree_with_hand_cases():
     # 7.2 pt is 2.54 mm (1 pt = 1/72 in): 0.76 of it above the baseline, 0.24 below
     assert text_box(10, 20, 12, 7.2) == pytest.approx((10, 20 - 0.76 * 2.54, 22, 20 + 0.24 * 2.54))
 
+
+
+@settings(max_examples=60, deadline=None, derandomize=True)
+@given(points=st.lists(st.tuples(st.floats(2, 58), st.floats(2, 38)), min_size=1, max_size=6),
+       heights=st.lists(st.floats(0, 40), min_size=2, max_size=12),
+       widths=st.lists(st.floats(3, 20), min_size=6, max_size=6))
+def test_placed_labels_never_meet_whatever_the_chart(points, heights, widths):
+    """Any points, any line across the chart: whatever is placed meets nothing (another
+    label, a leader, a mark, the line) and lies inside the chart; a label left out is None."""
+    size, area = 5.4, (0.0, 0.0, 60.0, 40.0)
+    step = 60.0 / (len(heights) - 1)
+    line = [(i * step, a, (i + 1) * step, b) for i, (a, b) in enumerate(zip(heights,
+                                                                             heights[1:]))]
+    sizes = [(w, text_box(0, 0, w, size)[3] - text_box(0, 0, w, size)[1])
+             for w in widths[:len(points)]]
+    got = place(points, sizes, size, area=area, lines=line, keep_out=[(0, 0, 8, 2)],
+                radii=[0.9] * len(points))
+    assert len(got) == len(points)
+    marks = [(x - 0.9, y - 0.9, x + 0.9, y + 0.9) for x, y in points]
+    for i, p in enumerate(got):
+        if p is None:
+            continue
+        assert not boxes_meet(p.box, (0, 0, 8, 2))
+        # its own mark too: a label never covers a point, its own or another's
+        _never_meet([p], area, marks, line)
+        for q in got[i + 1:]:
+            if q is not None:
+                _never_meet([p, q], area, [], [])
