@@ -34,9 +34,10 @@ PINNED = {"bottom": "pinned", "top": "pinned"}
 #: columns whose points crowd each other, the curve or the axis title: three points close
 #: together on a falling curve (a historic A7 W10), a square tube (strong and weak at the same
 #: slenderness; its torsional point, reported for a closed section by the AISC 360-22 E4 user
-#: note, at the top left by the axis title, where its label was once written over the title), a stub (every point on the plateau), a
-#: very slender column (a point past Lc/r 200), a round pipe; under EN 1993-1-1 a rolled I with
-#: two curves (b and c) close together, a stub there, and a hollow section (one curve)
+#: note, at the top left by the axis title, where its label was once written over the
+#: title), a stub (every point on the plateau), a very slender column (a point past Lc/r
+#: 200), a round pipe; under EN 1993-1-1 a rolled I with two curves (b and c) close together,
+#: a stub there, and a hollow section (one curve)
 US = [("A2", "W10X49", "A7", "16 ft", "230 kip"),
       ("E1", "HSS6X6X3/8", "A500 Gr B", "12 ft", "150 kip"),
       ("S1", "W14X90", "A992", "2 ft", "300 kip"),
@@ -283,7 +284,8 @@ def test_the_geometry_helpers_agree_with_hand_cases():
     assert not segment_meets_box((4, 4, 4, 8), (4, 4, 6, 6))  # along an edge only
     assert segments_cross((0, 0, 2, 2), (0, 2, 2, 0))
     assert not segments_cross((0, 0, 1, 1), (1, 1, 2, 0))
-    assert not boxes_meet((0, 0, 1, 1), (1, 0, 2, 1)) and boxes_meet((0, 0, 1, 1), (1, 0, 2, 1), 0.1)
+    assert not boxes_meet((0, 0, 1, 1), (1, 0, 2, 1))
+    assert boxes_meet((0, 0, 1, 1), (1, 0, 2, 1), 0.1)
     # 7.2 pt is 2.54 mm (1 pt = 1/72 in): 0.76 of it above the baseline, 0.24 below
     assert text_box(10, 20, 12, 7.2) == pytest.approx((10, 20 - 0.76 * 2.54, 22, 20 + 0.24 * 2.54))
 
