@@ -726,7 +726,8 @@ def _condition_warnings(col: ColumnInput, warnings: list[dict[str, str]]) -> Non
 
 def _show(col: ColumnInput, value: float, kind: str = "length") -> str:
     """A value in the record's display units, for messages the engineer reads (a short length
-    as the app shows a reading of it: a bow, its allowance and excess, in decimal inches)."""
+    as ``units.format_reading`` writes a reading everywhere: a bow as recorded, ``1 1/8 in``;
+    its allowance and excess, worked out, to 0.001 in)."""
     if kind == "length":
         return format_reading(value, col.units)
     return format_quantity(value, kind, col.units)

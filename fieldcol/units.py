@@ -998,24 +998,42 @@ def _format_length(mm: float, system: str) -> str:
     return f"{_fmt_number(mm, 4)} mm"
 
 
-def format_reading(mm: float, system: str) -> str:
-    """A length read off a gauge or a rule (a thickness, a bow, an out-of-plumb) as the app
-    shows a reading: under a foot on a US site in decimal inches to 0.001 in, as gauges show
-    it; else as ``format_length``. The one way a sheet writes such a value (the reading, its
-    warning, the report's rows).
+def format_reading(mm: float, system: str, *, fraction: bool = True) -> str:
+    """A length read on site (a bow or an out-of-plumb off a string line and a rule, a
+    thickness left off a gauge) as the engineer records it: the one writer of such a value
+    wherever it shows (the app's readings and record, the engine's warnings, the report's
+    rows and trace).
+
+    On a US site, under a foot: a bow or a plumb reading that is a whole number of sixteenths
+    as the fraction an engineer writes on site (to the nearest 1/16 or 1/8 in: ``1 1/8 in``),
+    any other value in decimal inches to 0.001 in (``0.933 in``), so a reading comes back as
+    it was recorded and a value worked out from it (an excess, an allowance) is not rounded
+    to a sixteenth it is not; a gauge's reading (``fraction=False``: a thickness) always in
+    decimals, as the gauge shows it (``0.5 in``). Else as ``format_length``.
 
     Args:
         mm: the length in mm.
         system: ``"us"`` or ``"si"``.
+        fraction: False for a gauge's reading (a thickness left), never written as a fraction.
 
     Returns:
-        e.g. ``"1.125 in"``, ``"0.933 in"``, ``"28.6 mm"``, ``"12'-6\""``.
+        e.g. ``"1 1/8 in"``, ``"0.933 in"``, ``"3/16 in"``, ``"28.6 mm"``, ``"12'-6\""``.
 
     Example:
         >>> format_reading(28.575, "us"), format_reading(23.7, "us"), format_reading(28.6, "si")
-        ('1.125 in', '0.933 in', '28.6 mm')
+        ('1 1/8 in', '0.933 in', '28.6 mm')
+        >>> format_reading(12.7, "us", fraction=False)
+        '0.5 in'
     """
     if system == "us" and type(mm) in _PLAIN and math.isfinite(mm) and abs(mm) < MM_PER_FT:
+        inches = abs(mm) / MM_PER_IN
+        n16 = round(inches * 16)
+        if fraction and n16 and abs(inches * 16 - n16) < 1e-6:
+            whole, part = divmod(n16, 16)
+            g = math.gcd(part, 16)
+            frac = f"{part // g}/{16 // g}" if part else ""
+            sign = "-" if mm < 0 else ""
+            return f"{sign}{' '.join(x for x in (str(whole) if whole else '', frac) if x)} in"
         # (a nudge so that 0.0005 in rounds up, as a person rounds it)
         return f"{_fixed(mm / MM_PER_IN + math.copysign(1e-9, mm), 3)} in"
     return format_length(mm, system)

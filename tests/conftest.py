@@ -94,3 +94,18 @@ def pg_server():
 def pg_database(pg_server) -> str:
     """The address of a new, empty database on the session's server."""
     return pg_server.create(f"t{os.getpid()}_{next(_names)}")
+
+
+@pytest.fixture(scope="session")
+def demo_report_pdf(tmp_path_factory):
+    """The demo site's report as the CLI writes it (dated 2026-03-10), made once for every
+    test that reads it back page by page."""
+    from fieldcol.demo import SITE_NAME, build_demo
+    from fieldcol.report import site_report
+    from fieldcol.store import Store
+
+    root = tmp_path_factory.mktemp("demo-report")
+    with Store(root / "demo.db") as store:
+        build_demo(store)
+        return site_report(store, store.site_by_name(SITE_NAME).id, root / "demo.pdf",
+                           report_date="2026-03-10")

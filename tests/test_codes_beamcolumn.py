@@ -314,4 +314,7 @@ def test_the_check_screen_says_what_governs_with_bending_and_in_a_band():
     b = assess({"tag": "B", "material": "A992", "length": "14 ft", "demand": {"axial": "200 kip"},
                 "section": {"name": "W10X49", "loss": {"flange": "0.3 in", "from": "0 in", "to": "1 ft"}}})
     s = check_summary(b.to_dict(), "us")
-    assert "loss band" in s.result_line and "steel was lost" in s.why
+    assert "loss band" in s.result_line and "steel was lost" in s.governs
+    # the reason says where, and does not begin with the heading's own words again
+    assert s.why.startswith("From the bottom to 1'-0\" above it,"), s.why
+    assert "steel was lost" not in s.why

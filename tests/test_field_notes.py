@@ -313,7 +313,7 @@ def test_findings_with_photos_and_exif_time(demo):
     assert f.date == "2026-02-10 10:20 UTC" and f.where == "" and not f.needs_words
     (p,) = f.photos
     # the demo photo carries EXIF DateTimeOriginal 2026:02:10 10:20:00 and offset +00:00
-    assert p.taken == "taken 2026-02-10 10:20 +00:00" and p.size == "480 x 640 px"
+    assert p.taken == "taken 2026-02-10 10:20 UTC" and p.size == "480 x 640 px"
     # a JPEG starts with the SOI marker FF D8 (ITU-T T.81); the thumbnail is at most 320 px
     assert p.thumb[:2] == b"\xff\xd8" and max(Image.open(io.BytesIO(p.thumb)).size) <= 320
     assert p.aspect == pytest.approx(480 / 640, abs=0.01)

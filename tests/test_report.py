@@ -125,7 +125,7 @@ def test_over_columns_say_over_and_findings_show_their_text(demo):
     assert _flat(strap.text) in c3  # listed in its column's sheet too
     # the demo photos carry an EXIF time, printed under them in the photo grid
     photos = " ".join(t for t in pages if "Photographs" in t)
-    assert "taken 2026-02-10 10:20:00 +00:00" in photos  # A/2-G's rust, as noted
+    assert "taken 2026-02-10 10:20 UTC" in photos  # A/2-G's rust, as noted
     assert re.search(r"P1 F1 corrosion, column \S+", photos)
 
 
@@ -261,6 +261,44 @@ def test_cli_writes_the_report_and_names_a_bad_site(demo, tmp_path: Path, capsys
     err = capsys.readouterr().err
     assert "site" in err and "Nowhere" in err
     assert not (tmp_path / "n.pdf").exists()
+
+
+def test_the_fpdf2_internals_the_report_relies_on_are_there(tmp_path: Path):
+    """``_layout._KeptEncoding`` subclasses fpdf2's ``fpdf.fonts.TTFFont``, overrides its
+    ``encode_text(text) -> str`` and keeps each result on the font's ``subset`` map. None of
+    that is public fpdf2 API, so pyproject.toml pins fpdf2 to the minor release tested; an
+    fpdf2 that moves them fails here by name instead of leaving a report that has gone slow
+    (or, worse, encodes differently) in silence."""
+    import inspect
+    import tomllib
+
+    import fpdf
+    import fpdf.fonts
+
+    from fieldcol.report import _layout
+
+    pins = [d for d in tomllib.loads((Path(__file__).parents[1] / "pyproject.toml").read_text(
+        encoding="utf-8"))["project"]["dependencies"] if d.startswith("fpdf2")]
+    assert pins == ["fpdf2>=2.8.9,<2.9"]
+    version = tuple(int(x) for x in fpdf.__version__.split(".")[:3])
+    assert (2, 8, 9) <= version < (2, 9), f"fpdf2 {fpdf.__version__} is outside the pin"
+    TTFFont = getattr(fpdf.fonts, "TTFFont", None)
+    assert TTFFont is not None, f"fpdf2 {fpdf.__version__}: fpdf.fonts.TTFFont is gone"
+    encode = getattr(TTFFont, "encode_text", None)
+    assert encode is not None and list(inspect.signature(encode).parameters) == [
+        "self", "text"], f"fpdf2 {fpdf.__version__}: TTFFont.encode_text(self, text) changed"
+    assert _layout._KeptEncoding is not None and issubclass(_layout._KeptEncoding, TTFFont)
+    pdf = _layout.ReportPDF(paper="A4", site_name="Yard", report_date="2026-04-01",
+                            caution=CAUTION)
+    font = next(iter(pdf.fonts.values()))
+    assert type(font) is _layout._KeptEncoding
+    pdf.add_page()
+    pdf.set_font(_layout.FONT, "", 9)
+    pdf.text(20, 30, "Flange 0.48 in λ-bar")
+    # the kept encoding is fpdf2's own, and it is kept where the subset map can carry it
+    assert font.encode_text("Flange 0.48 in λ-bar") == TTFFont.encode_text(
+        font, "Flange 0.48 in λ-bar")
+    assert "Flange 0.48 in λ-bar" in vars(font.subset)["_kept_encodings"]
 
 
 def test_fonts_are_bundled_with_their_licence():
@@ -480,23 +518,59 @@ def test_a_photo_keeps_who_took_it(tmp_path: Path):
 def test_the_measured_bow_reads_as_its_warning_and_its_reading_do(demo):
     """B/2-G: a bow of 1 1/8 in over 16 ft (string line). L/1000 = 0.192 in is allowed for in
     the column curve (AISC 303 straightness tolerance L/1000), so 1.125 - 0.192 = 0.933 in is
-    checked as an eccentricity. The sheet writes the reading, the allowance and the excess one
-    way wherever they appear (its bow row, the warning beside it, the readings, the trace), the
-    way the app shows the reading: decimal inches, as gauges show them (not 15/16" beside
-    0.933 in for the same value)."""
-    *_, pages = demo
+    checked as an eccentricity. The reading is written one way wherever it appears (the
+    record, its bow row, the warning beside it, the readings, the trace, the app): as the
+    engineer recorded it, to the 1/16 in as a fraction (common practice on US sites); the
+    allowance and the excess, worked out from it, to 0.001 in (not 15/16 in beside 0.933 in
+    for the same value)."""
+    store, site, *_, pages = demo
     b2 = _column_text(pages, "B/2-G")
-    row = re.search(r"Measured bow weak axis: bow (\S+ in) measured, excess over L/1000 "
+    row = re.search(r"Measured bow weak axis: bow (\d[\d/ .]*? in) measured, excess over L/1000 "
                     r"(\S+ in)", b2)
-    warn = re.search(r"measured bow (\S+ in) exceeds L/1000 = (\S+ in), .*? the excess "
+    warn = re.search(r"measured bow (\d[\d/ .]*? in) exceeds L/1000 = (\S+ in), .*? the excess "
                      r"(\S+ in)", b2)
     assert row and warn, b2[:2000]
-    assert row.group(1) == warn.group(1) == "1.125 in"
+    assert row.group(1) == warn.group(1) == "1 1/8 in"
     assert warn.group(2) == "0.192 in"
     assert row.group(2) == warn.group(3) == "0.933 in"
-    assert "Bow 1 1/8 in 1.125 in T. Nguyen" in b2  # the readings: as typed, then its value
+    assert "Condition bow 1 1/8 in " in b2  # the record as entered
+    assert "Bow 1 1/8 in 1 1/8 in T. Nguyen" in b2  # the readings: as typed, then its value
+    assert re.search(r"\bbow 1 1/8 in measured out-of-straightness", b2)  # the trace
     assert re.search(r"\be 0\.933 in excess bow", b2)
-    assert '15/16"' not in b2 and '3/16"' not in b2
+    assert "1.125 in" not in b2 and '15/16"' not in b2 and "15/16 in" not in b2
+    # the app writes the same reading with the same writer (the record and the warning)
+    from fieldcol.ui.check_model import latest_summary
+    from fieldcol.ui.model import column_detail
+    from fieldcol.ui.readings import condition_view
+
+    col = store.find_column(site.id, "B/2-G")
+    app = dict((x.label, x.value) for x in column_detail(store, col.id).record)
+    assert app["Condition"].startswith("bow 1 1/8 in")
+    assert [r.value for r in condition_view(store, col.id).readings] == ["1 1/8 in"]
+    assert any(w.startswith("measured bow 1 1/8 in exceeds L/1000 = 0.192 in")
+               for w in latest_summary(store, col.id).warnings)
+
+
+def test_a_bow_typed_in_decimals_is_written_one_way_everywhere(tmp_path: Path):
+    """A gauge reading of 0.93 in stays 0.93 in; 1.125 in typed is the 1 1/8 in it is (1 in =
+    25.4 mm exactly, NIST SP 811): the record, the warning, the bow row and the trace of one
+    sheet write each the same way."""
+    with Store(tmp_path / "bow.db") as store:
+        site = store.add_site("Ferry Road Bakery", code="aisc360-22", unit_system="us")
+        for tag, bow in (("W1", "0.93 in"), ("W2", "1.125 in")):
+            col = store.add_column(site.id, {
+                "tag": tag, "section": "W10X49", "material": "A992", "length": "14 ft",
+                "condition": {"bow": bow, "bow_axis": "weak"}, "demand": {"axial": "150 kip"}})
+            rec = store.current_record(col.id)
+            store.save_check(col.id, assess(rec).to_dict(), record=rec)
+        out = site_report(store, site.id, tmp_path / "bow.pdf", report_date="2026-04-01")
+    pages = [_flat(p.extract_text()) for p in pypdf.PdfReader(out).pages]
+    for tag, shown in (("W1", "0.93 in"), ("W2", "1 1/8 in")):
+        sheet = _column_text(pages, tag)
+        assert f"Condition bow {shown} about the weak axis" in sheet, sheet[:800]
+        assert f"measured bow {shown} exceeds L/1000" in sheet
+        assert f"bow {shown} measured, excess" in sheet
+        assert re.search(rf"\bbow {re.escape(shown)} measured out-of-straightness", sheet)
 
 
 def test_the_reports_modules_stay_short_and_its_surface_the_same():

@@ -104,7 +104,7 @@ def test_phone_bow_reading_in_three_taps_changes_the_check(server, browser):
           "the save note with the new check")
     _find(page, "condition-reading-0")
     _poll(lambda: _words(page, "condition-reading-0"),
-          lambda t: "Bow: 1.25 in" in t and "string line and rule" in t, "the reading listed")
+          lambda t: "Bow: 1 1/4 in" in t and "string line and rule" in t, "the reading listed")
     _big_enough(page, "save-reading", "bow-axis-weak", "bow-axis-strong", "correct-0")
     _find(page, "tab-status")
     _shot(page, "reading-bow.png")
@@ -161,7 +161,7 @@ def test_tablet_section_and_condition(server, browser):
     _poll(lambda: _words(page, "save-note"),
           lambda t: "Saved bow 3/4 in about the strong axis" in t, "saved with its axis")
     _find(page, "condition-reading-0")
-    _poll(lambda: _words(page, "condition-reading-0"), lambda t: "Bow: 0.75 in" in t,
+    _poll(lambda: _words(page, "condition-reading-0"), lambda t: "Bow: 3/4 in" in t,
           "the reading listed")
     _find(page, "tab-status")
     _shot(page, "tablet-reading-bow.png")

@@ -121,7 +121,10 @@ def test_condition_and_loss_in_site_units(demo):
     store, site = demo
     lines = dict((x.label, x.value) for x in m.column_detail(
         store, _col(store, site, "B/2-G")).record)
-    assert lines["Condition"] == 'bow 1 1/8"'  # as measured with a string line
+    # as measured with a string line, and as the check's warning writes it (format_reading)
+    assert lines["Condition"] == "bow 1 1/8 in"
+    assert any(w.startswith("measured bow 1 1/8 in exceeds") for w in
+               latest_summary(store, _col(store, site, "B/2-G")).warnings)
     assert m.column_detail(store, _col(store, site, "B/2-G")).check.governing.startswith(
         "measured bow")
     lines = dict((x.label, x.value) for x in m.column_detail(

@@ -424,6 +424,39 @@ def test_format_length(mm, us, si):
     assert format_length(mm, "si") == si
 
 
+@pytest.mark.parametrize(
+    "typed, shown, gauge",
+    [
+        ("1 1/8 in", "1 1/8 in", "1.125 in"),   # a bow by string line and rule, to the 1/8 in
+        ("1.125 in", "1 1/8 in", "1.125 in"),   # the same reading typed in decimals
+        ("3/16 in", "3/16 in", "0.188 in"),
+        ("15/16 in", "15/16 in", "0.938 in"),
+        ("0.93 in", "0.93 in", "0.93 in"),      # a gauge's decimals: not a sixteenth, kept
+        ("0.48 in", "0.48 in", "0.48 in"),
+        ("1/2 in", "1/2 in", "0.5 in"),
+        ("2 in", "2 in", "2 in"),
+        ("13 in", "1'-1\"", "1'-1\""),          # a foot and more: feet-inches
+    ],
+)
+def test_format_reading_writes_a_reading_as_it_was_recorded(typed, shown, gauge):
+    """US site practice (common practice): a bow or an out-of-plumb is read off a rule to the
+    nearest 1/16 or 1/8 in and written as that fraction; a thickness off a gauge in its
+    decimals. 1 in = 25.4 mm exactly (NIST SP 811 B.8), so the sixteenths come back whole."""
+    mm = parse_length(typed, "bow")
+    assert units.format_reading(mm, "us") == shown
+    assert units.format_reading(mm, "us", fraction=False) == gauge
+    assert parse_length(shown, "bow") == pytest.approx(mm, abs=0.0005 * IN)
+
+
+def test_format_reading_writes_worked_out_values_to_the_thousandth():
+    # 16 ft / 1000 = 0.192 in; 1.125 - 0.192 = 0.933 in (AISC 303 straightness L/1000): no
+    # sixteenth, so no fraction (15/16 in would be a value the check did not use)
+    L = 16 * 12 * IN
+    assert units.format_reading(L / 1000, "us") == "0.192 in"
+    assert units.format_reading(1.125 * IN - L / 1000, "us") == "0.933 in"
+    assert units.format_reading(28.6, "si") == "28.6 mm"
+
+
 def test_format_quantity_examples():
     assert format_quantity(parse_quantity("840 kip", "force", "P"), "force", "us") == "840 kip"
     assert format_quantity(3_736_000.0, "force", "si") == "3736 kN"

@@ -6,10 +6,11 @@ options."""
 from __future__ import annotations
 
 import json
+import re
 from typing import TYPE_CHECKING, Any
 
 from fieldcol.report import _text as tx
-from fieldcol.report._layout import PT_MM, ReportPDF
+from fieldcol.report._layout import GREY, PT_MM, ReportPDF
 from fieldcol.store import quantity_name
 
 if TYPE_CHECKING:
@@ -96,6 +97,10 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
                      if data.finding_photos.get(f.id) else ""))
                  for f in c.findings]
         _column_findings(pdf, frows)
+        if any(f.status != "closed" for f in c.findings):
+            # a dent or a crack noted here is not in the strength above unless the record
+            # holds it: the reader must not take the check as having weighed it
+            pdf.para(FINDINGS_NOTE, size=7.2, colour=GREY)
     if c.photos:
         pdf.para(f"Photos of this column: {data.refs_of(c.photos)} (see Photographs).",
                  size=7.5)
@@ -105,6 +110,12 @@ def column_sheet(pdf: ReportPDF, store: "Store", data: "SiteData", c: "ColumnDat
     _measurement_history(pdf, c, system)
     if c.retrofits:
         _retrofits(pdf, c, system)
+
+
+#: under a column's open findings: what the check above did and did not take into account
+FINDINGS_NOTE = ("The check above takes only what the record holds (section, loss, bow, plumb, "
+                 "restraints, loads): an open finding is not in its strength until the engineer "
+                 "records its effect.")
 
 
 def _column_findings(pdf: ReportPDF, rows: list) -> None:
@@ -145,7 +156,8 @@ def _record_rows(data: "SiteData", c: "ColumnData") -> list:
             ("Material", tx.material_text(rec.get("material"))),
             ("Length", tx.value_text(rec.get("length")))]
     rows += _restraint_rows(rec.get("restraints"))
-    rows += [("Condition", tx.condition_text(rec.get("condition"))),
+    rows += [("Condition", tx.condition_text(rec.get("condition"),
+                                                 data.site.unit_system)),
              ("Demand", tx.demand_text(rec.get("demand")))]
     from fieldcol.ui.loads_model import load_lines  # plain data: no Flet
 
@@ -199,6 +211,10 @@ def _after_colon(text: str) -> str:
     return text
 
 
+#: the equations a measured bow is checked by (codes/bow.py; its result names none)
+_BOW_EQUATION = {"aisc360-22": "H1-1", "en1993-1-1": "6.61, 6.62", "elastic": "Perry-Robertson"}
+
+
 def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[int]]:
     """The latest check's rows and the rows in bold (the utilization when OVER)."""
     k = c.check
@@ -211,7 +227,8 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
     gov = d.get("governing_mode")
     if word in ("OK", "OVER") and gov in _WITH:
         # not the demand over the design strength (the equation is not linear in the force)
-        eq = (d.get(dict(INTERACTIONS)[gov]) or {}).get("equation")
+        eq = (d.get(dict(INTERACTIONS)[gov]) or {}).get("equation") or (
+            _BOW_EQUATION.get(str(d.get("code"))) if gov == "bow" else None)
         util += f": interaction ratio ({eq})" if eq else ": interaction ratio"
     dem = d.get("demand")
     rows = [("Checked", f"{tx.when(k.checked_at)} with fieldcol {k.app_version}"),
@@ -238,7 +255,7 @@ def _result_rows(c: "ColumnData", system: str, summ: Any) -> tuple[list, list[in
 
 def _bow_text(bow: dict, record: Any, d: dict, system: str) -> str:
     """The measured bow and its excess as the app shows the reading and the warning beside
-    writes them (``format_reading``: decimal inches under a foot on a US site), then the
+    writes them (``format_reading``: on a US site a reading as recorded, ``1 1/8 in``), then the
     capacity with it."""
     from fieldcol.errors import InputError
     from fieldcol.units import format_reading, parse_length
@@ -396,6 +413,37 @@ def _trace_widths(pdf: ReportPDF, rows: list[list[str]], gap: float = 4.0) -> tu
     return fit[0], fit[1], half - fit[0] - fit[1]
 
 
+#: a step's formula that is a statement with its own symbol ("E = 29,000 ksi, G = 11,200 ksi
+#: as AISC 360-22 states them"): "elastic modulus = E = ..." read as one equation
+_STATEMENT = re.compile(r"^[A-Za-z_,]+ = ")
+#: a formula that is a sentence ("... under EN; AISC E3 makes no difference"): not an equation
+_PROSE = re.compile(r"\b[a-z]{2,} [a-z]{2,} [a-z]{2,}\b")
+
+
+def _with_formula(what: str, formula: str, clause: str) -> str:
+    """A step's words and its formula as one reads them: a word (record, table, measured)
+    says where the value came from, in brackets; a statement (``E = 29,000 ksi, G = ...``), a
+    sentence or a list of values (``minimum 0.75, usual 1.0``) follows a colon; an equation an
+    equals sign, before what was given (``...; given: 0.6 kip/in``); a formula that only
+    repeats the source (``record``) is left out.
+
+    Example: ``_with_formula("required axial strength (given)", "record", "record")`` gives
+    ``'required axial strength (given)'``.
+    """
+    if not formula or formula == clause:
+        return what
+    head, given, tail = what.partition("; given: ")
+    if given:  # what the step needs, by its formula; then what was recorded
+        return f"{_with_formula(head, formula, clause)}{given}{tail}"
+    if _STATEMENT.match(formula) or _PROSE.search(formula):
+        return f"{what}: {formula}"
+    if any(ch in formula for ch in "=()+-*/^<>"):
+        return f"{what} = {formula}"
+    if any(ch.isdigit() for ch in formula):
+        return f"{what}: {formula}"
+    return f"{what} ({formula})"
+
+
 def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
     """The trace in two columns, its values and words as the Check tab shows them
     (``check_model`` wrote them in the site's units)."""
@@ -403,11 +451,7 @@ def _trace(pdf: ReportPDF, summ: Any, tag: str) -> None:
         return
     rows = []
     for t in summ.trace:
-        what = t.what
-        if t.formula:
-            # a word (record, table, measured) says where the value came from; else an equation
-            what += f" = {t.formula}" if any(ch in t.formula for ch in "=()+-*/^<>0123456789") \
-                else f" ({t.formula})"
+        what = _with_formula(t.what, t.formula, t.clause)
         value = t.value
         if value in tx.MODE_WORDS:  # the governing mode's key: its words, as the tables say it
             what, value = f"{what}: {tx.MODE_WORDS[value]}", ""
@@ -466,7 +510,8 @@ def _measurement_history(pdf: ReportPDF, c: "ColumnData", system: str) -> None:
     rows = []
     for m in c.measurements:
         kind = tx._KIND.get(m.unit)  # the reading's canonical value, shown in the site's units
-        shown = (format_reading(m.value, system) if kind == "length"  # as the app shows it
+        shown = (format_reading(m.value, system, fraction=m.quantity.startswith("condition."))
+                 if kind == "length"  # as the app shows it
                  else tx.quantity({"value": m.value, "unit": m.unit}, system) if kind
                  else f"{m.value:g} {m.unit}")
         if m.id in corrected:

@@ -106,7 +106,16 @@ def sketch(pdf: ReportPDF, sk: "Sketch", x: float, y: float, w: float, h: float)
             _small(pdf, 5.2)
             pdf.set_text_color(*GREY)
             label = kind if counted else f"{kind}, not counted"
-            pdf.lines_at(cx - amp - 2, by + 0.2, pdf.wrap(label, amp + 6), 2.0)
+            # left of the column's line, under the brace (over it where the buckled shape
+            # swings left there): never written over the column or its shape
+            x0, x1 = bx + 1.0, cx - 0.8
+            lines = pdf.wrap(label, x1 - x0)
+            tall = 2.0 * len(lines)
+            spans = [(by + 0.2, by + 0.2 + tall), (by - 0.4 - tall, by - 0.4)]
+            shape = [(cx + wv * amp, bot_y - zf * (bot_y - top_y)) for zf, wv in ax.shape]
+            top = next((a for a, b in spans if all(px_ > x1 + 0.3 for px_, py_ in shape
+                                                   if a - 0.5 <= py_ <= b + 0.5)), spans[0][0])
+            pdf.lines_at(x0, top, lines, 2.0)
             pdf.set_text_color(*INK)
         _small(pdf, 6.2, True)
         pdf.set_text_color(*(ACCENT if ax.governs else INK))
@@ -170,37 +179,138 @@ def curve(pdf: ReportPDF, ch: "Chart | None", x: float, y: float, w: float, h: f
     pdf.text(px + (pw - pdf.width_of(ch.x_name)) / 2, py + ph + 5.4, ch.x_name)
     title = f"{ch.stress_name} ({ch.stress_unit})"
     pdf.text(px - 1.0, py - 1.4, title)
+    drawn: list[tuple[float, float, float, float]] = [
+        (px, py, px, py + ph), (px, py + ph, px + pw, py + ph)]
+    shown = []
     for k, (label, pts) in enumerate(ch.curves):
         pdf.set_draw_color(*(SHAPE if k == 0 else GREY))
         pdf.set_line_width(0.4)
-        pdf.polyline([(sx(a), sy(b)) for a, b in pts if a <= ch.x_max])
+        line = [(sx(a), sy(b)) for a, b in pts if a <= ch.x_max]
+        pdf.polyline(line)
+        drawn += [(*a, *b) for a, b in zip(line, line[1:])]
+        shown.append(line)
     pdf.set_line_width(0.2)
-    # the axis title is a label too: a point near the top left (a stocky column) steps clear
-    placed: list[tuple[float, float, float, float]] = [
-        (px - 1.0, py - 1.4 - 2.0, px - 1.0 + pdf.width_of(title), py - 1.4)]
-    for p in sorted(ch.points, key=lambda q: q.x):
-        cx, cy = sx(p.x), sy(p.stress)
+    used = _point_labels(pdf, ch, shown, drawn, (sx, sy), (px, py, pw, ph), title)
+    return h + used
+
+
+#: the size of the words on the column curve (pt); a point's mark (radius, mm); points nearer
+#: than ``TOGETHER`` (mm, centre to centre) share one label: their marks touch
+LABEL_PT, MARK, TOGETHER = 5.4, 0.9, 2.8
+
+
+def _groups(pts: list, at: list[tuple[float, float]]) -> list[list[int]]:
+    """The points as labelled: the governing one alone (its words in bold), the others in
+    groups of points whose marks touch (a square tube's two axes at one place: one label)."""
+    groups: list[list[int]] = []
+    for i, p in enumerate(pts):
+        if p.governs:
+            groups.insert(0, [i])
+            continue
+        near = [g for g in groups if not pts[g[0]].governs and any(
+            (at[i][0] - at[j][0]) ** 2 + (at[i][1] - at[j][1]) ** 2 < TOGETHER ** 2 for j in g)]
+        merged = [i] + [j for g in near for j in g]
+        groups = [g for g in groups if g not in near] + [sorted(merged)]
+    return groups
+
+
+def _point_labels(pdf: ReportPDF, ch: "Chart", shown: list, drawn: list, scale: tuple,
+                  plot: tuple[float, float, float, float], title: str) -> float:
+    """The column's points with their words and, where a code has more than one curve, each
+    curve's name, placed by ``_labels.place`` so no word overlaps another, a curve or a point;
+    then the caption. Returns the height a numbered key under the chart took (0 without)."""
+    from fieldcol.report import _labels
+
+    sx, sy = scale
+    px, py, pw, ph = plot
+    pts = sorted(ch.points, key=lambda q: q.x)
+    at = [(sx(p.x), sy(p.stress)) for p in pts]
+    for p, (ax, ay) in zip(pts, at):
         pdf.set_draw_color(*(ACCENT if p.governs else INK))
         pdf.set_fill_color(*(ACCENT if p.governs else (255, 255, 255)))
-        pdf.ellipse(cx - 0.9, cy - 0.9, 1.8, 1.8, style="DF")
-        _small(pdf, 5.4, p.governs)
-        pdf.set_text_color(*(ACCENT if p.governs else INK))
-        text = p.label + (" governs" if p.governs else "")
-        tw = pdf.width_of(text)
-        tx = cx + 1.4 if cx + 1.4 + tw < px + pw else cx - 1.4 - tw
-        ty = cy - 1.0
-        # points close together: step a label down until it clears the ones already placed
-        for _ in range(6):
-            if not any(tx < x1 and x0 < tx + tw and ty - 2.0 < y1 and y0 < ty
-                       for x0, y0, x1, y1 in placed):
-                break
-            ty += 2.2
-        placed.append((tx, ty - 2.0, tx + tw, ty))
-        pdf.text(tx, ty, text)
+        pdf.ellipse(ax - MARK, ay - MARK, 2 * MARK, 2 * MARK, style="DF")
+    texts, anchors, radii, toward = [], [], [], []
+    for g in _groups(pts, at):
+        cx, cy = sum(at[i][0] for i in g) / len(g), sum(at[i][1] for i in g) / len(g)
+        gov = pts[g[0]].governs
+        texts.append((", ".join(pts[i].label for i in g) + (" governs" if gov else ""), gov,
+                      ACCENT if gov else INK))
+        anchors.append((cx, cy))
+        radii.append(MARK + max(((at[i][0] - cx) ** 2 + (at[i][1] - cy) ** 2) ** 0.5 for i in g))
+        toward.append(None)
+    named = len(texts)
+    if len(shown) > 1:  # the curves' names, each where it stands apart from the others
+        for (label, _), line in zip(ch.curves, shown):
+            others = [o for o in shown if o is not line]
+            spot = _apart(line, others, at)
+            anchors.append(spot)
+            radii.append(0.0)
+            texts.append((label, False, SHAPE if line is shown[0] else GREY))
+            # the upper curve named above it, a lower one below it (y grows down the page)
+            below = any(q[1] < spot[1] for o in others for q in o if abs(q[0] - spot[0]) < 1.0)
+            toward.append((240, 210, 270, 300, 180) if below else (60, 30, 90, 120, 0))
+    sizes = []
+    for text, bold, _ in texts:
+        _small(pdf, LABEL_PT, bold)
+        b = _labels.text_box(0, 0, pdf.width_of(text), LABEL_PT)
+        sizes.append((b[2] - b[0], b[3] - b[1]))
+    _small(pdf, 5.4)
+    area = (px + 0.5, py - 4.0, px + pw, py + ph - 0.4)
+    keep = [_labels.text_box(px - 1.0, py - 1.4, pdf.width_of(title), 5.4)]
+    placed = _labels.place(anchors, sizes, LABEL_PT, area=area, lines=drawn, keep_out=keep,
+                           radii=radii, toward=toward, lead=[i >= named for i in range(len(texts))])
+    # no room in the chart: a number beside the point (placed by the same rule), the words in
+    # a key under the chart
+    left = [i for i, got in enumerate(placed) if got is None]
+    _small(pdf, LABEL_PT, True)
+    numbers = _labels.place(
+        [anchors[i] for i in left],
+        [(pdf.width_of(str(n + 1)), sizes[i][1]) for n, i in enumerate(left)], LABEL_PT,
+        area=area, lines=drawn + [g.leader for g in placed if g and g.leader],
+        keep_out=keep + [g.box for g in placed if g], radii=[radii[i] for i in left],
+        lead=[i >= named for i in left])
+    for i, got in enumerate(placed):
+        if got is None:
+            n = left.index(i)
+            got = numbers[n]
+            if got is None:
+                continue
+            got = _labels.Placed(got.x, got.baseline, got.box, got.leader)
+            text = str(n + 1)
+        else:
+            text = texts[i][0]
+        _, bold, colour = texts[i]
+        _small(pdf, LABEL_PT, bold or text.isdigit())
+        pdf.set_text_color(*colour)
+        if got.leader is not None:
+            pdf.set_draw_color(*colour)
+            pdf.set_line_width(0.15)
+            pdf.line(*got.leader)
+            pdf.set_line_width(0.2)
+        pdf.text(got.x, got.baseline, text)
     pdf.set_text_color(*GREY)
     _small(pdf, 5.2)
-    pdf.lines_at(x, py + ph + 6.2, pdf.wrap(ch.caption, w)[:2], 2.1)
+    lines = pdf.wrap(ch.caption, pw + 11.0)[:2]
+    if left:
+        lines += pdf.wrap("numbered above: " + "; ".join(
+            f"{n + 1} {texts[i][0]}" + ("" if numbers[n] else " (no room to number it)")
+            for n, i in enumerate(left)), pw + 11.0)
+    pdf.lines_at(px - 9.0, py + ph + 6.2, lines, 2.1)
     pdf.set_text_color(*INK)
     pdf.set_draw_color(*RULE)
     pdf.set_fill_color(255, 255, 255)
-    return h
+    return max(0, len(lines) - 2) * 2.1
+
+
+def _apart(line: list[tuple[float, float]], others: list,
+           points: list[tuple[float, float]]) -> tuple[float, float]:
+    """The point of a drawn curve, in the middle half of its run, furthest from the other
+    curves and at least 6 mm from the column's points (its name goes there)."""
+    def gap(p: tuple[float, float]) -> float:
+        near = min((abs(p[1] - q[1]) for o in others for q in o if abs(q[0] - p[0]) < 1.0),
+                   default=0.0)
+        crowded = any((p[0] - a) ** 2 + (p[1] - b) ** 2 < 36.0 for a, b in points)
+        return near - (100.0 if crowded else 0.0)
+
+    inner = line[len(line) // 4: -(len(line) // 4) or None] or line
+    return max(inner, key=gap)

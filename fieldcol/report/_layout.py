@@ -10,6 +10,7 @@ call, which made a 500-column report take minutes.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Sequence
@@ -36,6 +37,12 @@ PT_MM = 25.4 / 72
 PAD_X = 1.2
 PAD_Y = 0.7
 MISSING_MARK = "\u25a1"  # a white square: the font has no glyph for the character here
+#: a number, a fraction and a unit stay on one line ("1 1/8 in", "300 mm", "0.192 in,"): a
+#: reading cut after its whole inches reads as another number
+_NUMBER = re.compile(r"""^[(\['"]?[-−]?\d[\d.,]*(?:e[-+]?\d+)?$""")
+_FRACTION = re.compile(r"""^\d+/\d+(?:\s*(?:in|")?)[),;:.'"]*$""")
+_UNIT = re.compile(r"""^(?:in\.?|mm|m|ft|kips?|kN|N|ksi|MPa|psi|lbf?|%)\d?"""
+                   r"""(?:[*/](?:in|mm|m|ft|kips?|kN|N|rad)|\^\d)*[),;:.'"]*$""")
 
 
 @dataclass
@@ -81,6 +88,20 @@ def _encode_once(font: object) -> None:
     if (_KeptEncoding is not None and type(font) is _TTFFont
             and hasattr(getattr(font, "subset", None), "__dict__")):
         font.__class__ = _KeptEncoding
+
+
+def _glued(words: list[str]) -> list[str]:
+    """Words with each number joined to the fraction and the unit after it, to wrap as one
+    (``["1", "1/8", "in", "over"]`` -> ``["1 1/8 in", "over"]``)."""
+    out: list[str] = []
+    for word in words:
+        if out and word and (_UNIT.match(word) or _FRACTION.match(word)) and (
+                _NUMBER.match(out[-1]) or _FRACTION.match(out[-1].rsplit(" ", 1)[-1])
+                and not _UNIT.match(out[-1].rsplit(" ", 1)[-1])):
+            out[-1] = f"{out[-1]} {word}"
+        else:
+            out.append(word)
+    return out
 
 
 class ReportPDF(FPDF):
@@ -148,7 +169,7 @@ class ReportPDF(FPDF):
         space = self.width_of(" ")
         for para in str(text).split("\n"):
             line, lw = "", 0.0
-            for word in para.split(" "):
+            for word in _glued(para.split(" ")):
                 ww = self.width_of(word)
                 if line and lw + space + ww <= width:
                     line, lw = f"{line} {word}", lw + space + ww

@@ -7,6 +7,8 @@ from typing import TYPE_CHECKING
 
 from fieldcol.report import _text as tx
 from fieldcol.report._layout import GREY, SMALL_PT, PhotoCell, ReportPDF
+# a photo's time and markup as the app's photo views write them (plain data: no Flet)
+from fieldcol.ui.photos import exif_time, markup_words
 
 if TYPE_CHECKING:
     from fieldcol.report._gather import ColumnData, SiteData
@@ -56,12 +58,6 @@ def cover(pdf: ReportPDF, data: "SiteData", *, report_date: str, version: str,
              "equation, and the design strength the largest axial force that equation allows "
              "with the moments in proportion.",
              size=8.5, colour=GREY)
-
-
-def _marks_words(shapes: list[dict]) -> str:
-    labels = [f'"{s["text"]}"' for s in shapes if s.get("kind") == "label"]
-    others = sum(s.get("kind") != "label" for s in shapes)
-    return ", ".join(labels + ([f"{others} mark{'s' if others > 1 else ''}"] if others else []))
 
 
 STATUS_RANK = {"OVER": 0, "not covered": 1, "not checked": 2, "OK": 3, "no demand": 4}
@@ -230,10 +226,10 @@ def photo_grid(pdf: ReportPDF, store: "Store", data: "SiteData") -> None:
     cells = []
     for ref, p, what, where in data.photos:
         path = store.photo_path(p, thumbnail=True)
-        marked = f"; marked: {_marks_words(p.markup)}" if p.markup else ""
+        marked = f"; marked: {markup_words(p.markup)}" if p.markup else ""
         who = f", by {p.created_by}" if p.created_by else ", photographer not recorded"
         name = p.original_name or p.sha256[:12]
         cells.append(PhotoCell(path if path.is_file() else None,
                                f"{ref}  {what}, {where}{marked}. {name}, "
-                               f"{tx.exif_time(p.exif_taken_at)}{who}", p.markup))
+                               f"{exif_time(p.exif_taken_at)}{who}", p.markup))
     pdf.photos(cells)

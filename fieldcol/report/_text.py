@@ -33,7 +33,7 @@ SEVERITY_ORDER = ("urgent", "high", "medium", "low", "info")
 
 
 #: the design code in words (the cover, a sheet whose record has no check yet)
-CODE_WORDS = {"aisc360-22": "AISC 360-22 (ANSI/AISC 360-22)",
+CODE_WORDS = {"aisc360-22": "ANSI/AISC 360-22 (Specification for Structural Steel Buildings)",
               "en1993-1-1": "EN 1993-1-1 (Eurocode 3)", "elastic": "elastic reference check"}
 
 
@@ -179,17 +179,6 @@ def when(iso: str | None) -> str:
         return iso
     tail = " UTC" if iso.endswith("Z") or iso.endswith("+00:00") else ""
     return f"{iso[:10]} {iso[11:16]}{tail}"
-
-
-def exif_time(iso: str | None) -> str:
-    """A photo's EXIF time as recorded by the camera, or a plain note that there is none.
-
-    Example: ``exif_time("2026-02-10T11:00:00+00:00")`` gives ``'taken 2026-02-10 11:00:00 +00:00'``.
-    """
-    if not iso:
-        return "no EXIF time"
-    offset = f" {iso[19:]}" if len(iso) > 19 else " (camera clock)"
-    return f"taken {iso[:10]} {iso[11:19]}{offset}"
 
 
 def value_text(v: Any) -> str:
@@ -508,21 +497,35 @@ def demand_text(demand: Any) -> str:
     return value_text(demand)
 
 
-def condition_text(condition: Any) -> str:
-    """The record's measured condition (bow, plumb) in words.
+def condition_text(condition: Any, system: str = "si") -> str:
+    """The record's measured condition (bow, plumb) in words, each reading as every other
+    place writes it (``units.format_reading``: ``1.125 in`` typed on a US site reads
+    ``1 1/8 in``, as the check's warning and the app write it); a reading the check cannot
+    read stays as typed (the check names it).
 
-    Example: ``condition_text({"bow": "1 in", "bow_axis": "weak"})`` gives
-    ``'bow 1 in about the weak axis'``.
+    Example: ``condition_text({"bow": "1.125 in", "bow_axis": "weak"}, "us")`` gives
+    ``'bow 1 1/8 in about the weak axis'``.
     """
     if not isinstance(condition, dict) or not condition:
         return "no bow or out-of-plumb recorded"
+
+    def reading(text: Any) -> str:
+        from fieldcol.errors import InputError
+        from fieldcol.record import parse_length  # as the check reads it (a unit needed)
+        from fieldcol.units import format_reading
+
+        try:
+            return format_reading(parse_length(text, "condition", allow_zero=True), system)
+        except InputError:
+            return value_text(text)
+
     parts = []
     if "bow" in condition:
         axis = condition.get("bow_axis")
-        parts.append(f"bow {value_text(condition['bow'])}"
+        parts.append(f"bow {reading(condition['bow'])}"
                      + (f" about the {axis} axis" if axis else ""))
     if "plumb" in condition:
-        parts.append(f"out of plumb {value_text(condition['plumb'])}")
+        parts.append(f"out of plumb {reading(condition['plumb'])}")
     parts += [f"{k.replace('_', ' ')} {value_text(v)}" for k, v in condition.items()
               if k not in ("bow", "bow_axis", "plumb")]
     return "; ".join(parts)

@@ -135,8 +135,8 @@ def _fmt(value: float | None, kind: str, system: str) -> str:
     return format_quantity(value, kind, system)
 
 
-def _step_text(value: Any, unit: str, system: str) -> str:
-    from fieldcol.units import format_step
+def _step_text(value: Any, unit: str, system: str, what: str = "") -> str:
+    from fieldcol.units import format_reading, format_step
 
     if value is None:
         return "none"
@@ -144,6 +144,10 @@ def _step_text(value: Any, unit: str, system: str) -> str:
         return {"True": "yes", "False": "no"}.get(value, value)
     if isinstance(value, bool):
         return "yes" if value else "no"
+    if unit == "mm" and what.startswith("measured "):
+        # a reading (the bow, the out-of-plumb) as it was recorded and as its warning, the
+        # record and the app write it, not to four figures as a worked-out length
+        return format_reading(float(value), system)
     return format_step(float(value), unit, system)
 
 
@@ -269,7 +273,8 @@ def check_summary(result: Mapping[str, Any], system: str, checked_at: str = "") 
                          _yes_no(s.get("value"))
                          if "≤" in display_symbol(str(s.get("symbol", "")), code)
                          or str(s.get("symbol", "")).startswith("slender")
-                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system)),
+                         else words(_step_text(s.get("value"), str(s.get("unit", "")), system,
+                                               str(s.get("what", "")))),
                          words(str(s.get("what", ""))), words(str(s.get("formula", ""))),
                          str(s.get("clause", "")))
         if step.clause in _RESTATED and (step.symbol, step.value) in shown:
@@ -367,16 +372,20 @@ def _why(result: Mapping[str, Any], gov: str, code: str, system: str) -> tuple[s
         return head, "Every buckling length is short enough that the full section yields first."
     if gov == "bow":
         allowed = (result.get("bow") or {}).get("allowance") or "L/1000"
-        return head, (f"The measured bow beyond the curve's allowance ({allowed}), checked with the axial "
-                      "load as bending, lowers the capacity below the axial check.")
+        # the heading already says "measured bow": the reason starts with what is new
+        return head, (f"The part beyond the curve's allowance ({allowed}), taken as an "
+                      "eccentricity of the axial load, lowers the capacity below the axial check.")
     if gov == "beam-column":
         eq = (result.get("beam_column") or {}).get("equation") or ""
         return head, (f"The moments recorded (given, beam reactions, bow, out-of-plumb) with the axial "
                       f"load: the interaction ({eq}) lowers the capacity below the axial check.")
     if gov == "section-band":
         b = result.get("section_band") or {}
-        return head, (f"The section where steel was lost ({_fmt(_val(b.get('from')), 'length', system)} to "
-                      f"{_fmt(_val(b.get('to')), 'length', system)}) holds less than the member buckles at.")
+        start, to = _val(b.get("from")), _fmt(_val(b.get("to")), "length", system)
+        where = (f"From the bottom to {to} above it" if start == 0 else
+                 f"From {_fmt(start, 'length', system)} to {to} above the bottom")
+        # the heading already names the section where steel was lost: not said twice
+        return head, f"{where}, what is left of the section carries less than the whole member buckles at."
     if gov == "tie-joint":
         shear = ("2 % of the axial strength as shear (AISC 360-22 E6.2)" if code == "aisc360-22"
                  else "the shear of EN 1993-1-1 6.4" if code == "en1993-1-1"

@@ -256,13 +256,14 @@ def status_of(utilization: float | None, checked: bool, status: str | None = Non
     return Status("OVER", "warning", "over", number)
 
 
-def _length_text(text: Any, system: str) -> str:
-    from fieldcol.units import format_length, parse_length
+def _length_text(text: Any, system: str, *, reading: bool = False) -> str:
+    from fieldcol.units import format_length, format_reading, parse_length
 
     if text in (None, ""):
         return "not recorded"
     try:
-        return format_length(parse_length(text, "length"), system)
+        return (format_reading if reading else format_length)(parse_length(text, "length"),
+                                                               system)
     except InputError:
         return str(text)  # shown as typed: the check will name what is wrong with it
 
@@ -514,11 +515,12 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
         parts = []
+        # a reading as its warning and the report write it (units.format_reading)
         if cond.get("bow") not in (None, ""):
-            parts.append(f"bow {_length_text(cond['bow'], system)}"
+            parts.append(f"bow {_length_text(cond['bow'], system, reading=True)}"
                          + (f" about the {cond['bow_axis']} axis" if cond.get("bow_axis") else ""))
         if cond.get("plumb") not in (None, ""):
-            parts.append(f"out of plumb {_length_text(cond['plumb'], system)}")
+            parts.append(f"out of plumb {_length_text(cond['plumb'], system, reading=True)}")
         if parts:
             record.append(Line("Condition", ", ".join(parts)))
     record += loss_lines(rec.get("section"), system)

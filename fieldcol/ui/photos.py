@@ -76,17 +76,22 @@ class PhotoFinding:
 
 
 def exif_time(stamp: str | None) -> str:
-    """The EXIF time as the camera recorded it, with its offset when the photo gives one.
+    """The EXIF time as the camera recorded it, to the minute, with its offset when the photo
+    gives one (an offset of zero as ``UTC``, as every other time the app and the report
+    write); the one writer of a photo's time (the photo views and the report's captions).
 
     Example:
-        >>> exif_time("2026-02-10T10:15:00+01:00"), exif_time(None)
-        ('taken 2026-02-10 10:15 +01:00', 'no time in the photo')
+        >>> exif_time("2026-02-10T10:15:00+01:00"), exif_time("2026-02-10T10:15:00+00:00")
+        ('taken 2026-02-10 10:15 +01:00', 'taken 2026-02-10 10:15 UTC')
+        >>> exif_time("2026-02-10T10:15:00"), exif_time(None)
+        ('taken 2026-02-10 10:15 (camera clock)', 'no time in the photo')
     """
     if not stamp:
         return "no time in the photo"
     text = stamp.replace("T", " ")[:16]
     offset = stamp[19:]
-    return f"taken {text}" + (f" {offset}" if offset else " (camera clock)")
+    return f"taken {text}" + (" UTC" if offset in ("Z", "+00:00") else f" {offset}" if offset
+                              else " (camera clock)")
 
 
 def markup_words(shapes: list[dict[str, Any]] | None) -> str:

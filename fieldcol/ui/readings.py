@@ -173,8 +173,8 @@ def _shape(section: Any) -> str:
 def _value_text(m: "Measurement", system: str) -> str:
     from fieldcol.units import format_quantity, format_reading
 
-    if m.kind == "length":
-        return format_reading(m.value, system)
+    if m.kind == "length":  # a thickness off a gauge in its decimals; a bow as recorded
+        return format_reading(m.value, system, fraction=m.quantity.startswith("condition."))
     return format_quantity(m.value, m.kind, system)
 
 
