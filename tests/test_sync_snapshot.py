@@ -101,6 +101,7 @@ def test_an_empty_device_takes_the_hubs_records_whole_and_ends_as_one_pulling_ea
         rep = sync_with_hub(whole, hub.url, tw, transport=seen,
                             progress=lambda *step: steps.append(step))
         assert "/v1/snapshot" in seen.paths and rep.received == hub.hub.max_seq()
+        assert rep.whole and "first sync: the hub's records came whole" in rep.lines()[1]
         # the download says how far it is, in bytes, to the whole file
         got = [(done, total) for step, done, total in steps if step == "records"]
         assert got and got[-1][0] == got[-1][1] > 10_000

@@ -218,3 +218,41 @@ def test_a_bundle_is_saved_and_another_opened_from_the_sync_screen(tmp_path: Pat
     with Store(db) as a:
         assert sorted(s.name for s in a.list_sites()) == ["Heron Quay Cold Store",
                                                           "Kestrel Lane Print Works"]
+
+
+def test_a_new_phones_first_sync_brings_the_offices_records(tmp_path: Path, browser):
+    # the engineer types the hub's address and the token the office gave, and taps Sync: the
+    # hub's records come whole (its first sync), with the photo they name
+    from test_sync_hub import _jpeg
+
+    from _browser import _type_into
+
+    hub = RunningHub(tmp_path / "hub")
+    with Store(tmp_path / "office-tablet.db") as t:
+        site = t.add_site("Kestrel Lane Print Works", code="aisc360-22", unit_system="us")
+        col = t.add_column(site.id, {"tag": "C4", "section": "W10X49", "length": "14 ft"})
+        t.add_photo(_jpeg((90, 90, 40)), column_id=col.id)
+        sync_with_hub(t, hub.url, hub.token("office-tablet"))
+    token = hub.token("new-phone")
+    db = tmp_path / "phone.db"
+    Store(db).close()
+    proc, port = _serve_screen(db, tmp_path)
+    try:
+        page = _open(browser, f"http://127.0.0.1:{port}", PHONE)
+        _type_into(page, "field-hub-url", hub.url, enter=False)
+        _type_into(page, "field-hub-token", token, enter=False)
+        _wait(page, "sync-now").click()
+        _poll(lambda: page.locator(_sel("sync-status")).first.inner_text(),
+              lambda t: "finished" in t, "sync status", timeout=60)
+        html = page.content()
+        assert "received 4 changes and 1 photo" in html, html[-2000:]
+        assert "first sync: the hub's records came whole, in one file" in html
+        SHOTS.mkdir(parents=True, exist_ok=True)
+        page.screenshot(path=str(SHOTS / "first-sync.png"))
+    finally:
+        proc.terminate()
+        proc.wait(10)
+        hub.stop()
+    with Store(db) as phone:
+        (got,) = phone.list_sites()
+        assert [c.tag for c in phone.list_columns(got.id)] == ["C4"]

@@ -51,6 +51,8 @@ class SyncReport:
     warnings: list[str] = field(default_factory=list)
     #: each conflict's row as the engineer knows it (``Store.row_label``), by conflict id
     labels: dict[str, str] = field(default_factory=dict)
+    #: this store's first sync took the hub's records whole (``store/_snapshot``)
+    whole: bool = False
 
     def lines(self, *, details: bool = True) -> list[str]:
         """Plain lines for the command line and the sync screen; ``details=False`` leaves out
@@ -62,6 +64,8 @@ class SyncReport:
         """
         out = [f"sent {_n(self.sent, 'change')} and {_n(self.photos_sent, 'photo')}; received "
                f"{_n(self.received, 'change')} and {_n(self.photos_received, 'photo')}"]
+        if self.whole:
+            out.append("first sync: the hub's records came whole, in one file")
         out += self.warnings
         if self.conflicts and not details:
             out.append(f"{_n(len(self.conflicts), 'conflict')} to review")
@@ -297,6 +301,7 @@ def _first_pull(store: Store, hub: _Hub, hub_id: str, cursor: str, report: SyncR
         _fetch_photos(store, hub, snapshot_photos(dest), report)
         got = apply_snapshot(store, dest, hub_id=hub_id, cursor=cursor)
     report.received += got.ops
+    report.whole = True
     say("receive", got.seq, got.seq)
 
 
