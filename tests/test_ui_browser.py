@@ -64,7 +64,9 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
           lambda d: d.startswith("Length '12 fr' not understood"), "error at the length field")
     assert "12 fr" in page.locator(_sel("field-length")).first.inner_text() \
         or length.input_value() == "12 fr"
-    assert "not saved" in (_wait(page, "save-note") and _words(page, "save-note"))
+    # the bar says where to look, not the entry's words again
+    said = _wait(page, "save-note") and _words(page, "save-note")
+    assert "Not saved: check Length" in said and "not understood" not in said, said
     _shot(page, "phone-column-error.png")
     # the result sits above the entries: scrolled back up to read it
     assert STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0) == before

@@ -307,6 +307,39 @@ def test_an_en_column_offers_no_lrfd_or_asd(tmp_path):
     _run(walk())
 
 
+def test_undo_closes_when_the_screen_changes(demo):
+    """An Undo belongs to the screen its change was made on (or the one its save opened):
+    "Saved theme dark" with Undo must not follow to a column screen, where a tap on it
+    would change the theme back unseen."""
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        await s.go("/settings")
+        await s.tap("theme-dark")
+        assert s.app.saver.bar.visible and "theme dark" in s.text("save-note")
+        assert s.app.saver.last is not None
+        await s.go("/settings")  # the same screen drawn again keeps it
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        cid = store.find_column(site.id, "C/3-G").id
+        await s.go(f"/columns/{cid}")
+        assert not s.app.saver.bar.visible and s.app.saver.last is None
+        await s.tap("save-undo")  # the hidden button, if reached, undoes nothing
+        assert store.setting("theme") == "dark"
+        # an edit on one column does not follow to another
+        await s.type("field-length", "13 ft")
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        other = store.find_column(site.id, "B/3-G").id
+        await s.go(f"/columns/{other}")
+        assert not s.app.saver.bar.visible and s.app.saver.last is None
+        # a save that opens a screen keeps its Undo there: the copy, then the list after Delete
+        await s.tap("duplicate-column")
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        assert s.app.detail.id != other
+    _run(walk())
+
+
 def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
     store, site = demo
 
@@ -323,7 +356,8 @@ def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
         await s.type("field-length", "12 fr")
         tf = s.inner("field-length", ft.TextField)
         assert tf.value == "12 fr" and tf.error.startswith("Length '12 fr' not understood")
-        assert "not saved" in s.text("save-note")
+        # the bar adds where to look, and never repeats the entry's own words
+        assert s.text("save-note") == "Not saved: check Length."
         assert _length(store, cid) == before
         # the next change takes the message away
         await s.type("field-length", "12 ft", submit=False)
@@ -472,6 +506,14 @@ def test_duplicate_in_one_tap_then_delete_and_undo(demo):
         await s.start()
         src = store.find_column(site.id, "B/3-G")
         await s.go(f"/columns/{src.id}")
+        # Delete alone in the top bar; "Next like this" at the foot, just above the save bar
+        # (one-handed use: the thumb reaches the bottom; a mis-tap at the top costs an Undo)
+        view = s.page.views[-1]
+        in_bar = {c.identifier for c in view.appbar.actions}
+        assert in_bar == {"delete-column"}, in_bar
+        screen = view.controls[0].controls
+        assert screen[-1] is s.app.saver.bar
+        assert screen[-2].content.controls[0].identifier == "duplicate-column"
         await s.tap("duplicate-column")
         tags = {r.tag for r in store.list_columns(site.id, limit=1000)}
         assert "B/5-G" in tags  # B/4-G is taken in the demo: the first free number
