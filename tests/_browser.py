@@ -470,7 +470,11 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
 
 
 def _choose(page, identifier: str) -> None:
-    """Tap a choice until the screen says it is chosen."""
+    """Tap a choice until the screen says it is chosen (no tap if it already is: a tap on a
+    chosen choice unchooses it)."""
+    _find(page, identifier)
+    if _true(lambda: "(chosen)" in _words(page, identifier)):
+        return
     _click(page, identifier, done=lambda: "(chosen)" in _words(page, identifier))
 
 

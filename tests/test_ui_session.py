@@ -577,6 +577,30 @@ def test_findings_tab_face_height_in_plain_words_and_undo(demo):
     _run(walk())
 
 
+def test_retrofit_axis_starts_on_the_governing_axis(demo):
+    """The option's axis and the sweep's start on the axis whose buckling governs the result
+    (C/2-G of the demo: strong; A/1-G: weak, as ``assess`` says), never unpicked."""
+    from fieldcol.assess import assess
+
+    async def walk():
+        store, site = demo
+        for tag, axis in (("C/2-G", "strong"), ("A/1-G", "weak")):
+            col = store.find_column(site.id, tag)
+            assert assess(store.current_record(col.id)).governing_mode == f"flexural-{axis}"
+            s = await Screen.opened(store, col.id)
+            await s.tap("tab-retrofit")
+            chosen = [c.identifier for c in s.all() if isinstance(c, ft.Semantics)
+                      and (c.identifier or "").startswith(("option-axis-", "sweep-axis-"))
+                      and c.selected]
+            assert sorted(chosen) == [f"option-axis-{axis}", f"sweep-axis-{axis}"], chosen
+            # another kind with an axis starts there too; the engineer can change it
+            await s.tap("option-kind-end")
+            assert s.find(f"option-axis-{axis}").selected
+            await s.tap("option-axis-both")
+            assert s.find("option-axis-both").selected
+    _run(walk())
+
+
 def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
     async def walk():
         store, site = demo
@@ -591,7 +615,8 @@ def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
         await s.tap("option-add-part")
         assert s.has("option-part-0")
         await s.tap("part-kind-brace")
-        await s.tap("option-axis-weak")
+        # the axis starts on the one that governs A/1-G (weak): no tap needed
+        assert s.find("option-axis-weak").selected
         await s.type("option-at", "6 ft", submit=False)
         await s.tap("option-add-part")
         await s.tap("option-compare")
