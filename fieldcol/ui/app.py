@@ -221,7 +221,11 @@ class FieldApp:
         self._frame = None  # a new screen: nothing of the last one to change in place
         self.screen = route
         self.saver.moved(route)  # a message of another screen closes with this update
-        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD)
+        # a long name (a site's, beside Report and Edit at 390 px) wraps onto a second line
+        # rather than losing its end: two lines of 20 px fit the 56 px bar; beyond that it
+        # ends in "..." and the tooltip (a long press) and screen readers have it whole
+        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD,
+                              max_lines=2, overflow=ft.TextOverflow.ELLIPSIS, tooltip=title)
         head: ft.Control = self._title
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
@@ -457,12 +461,14 @@ class FieldApp:
                    self._action(ft.Icons.EDIT, "Edit site", "edit-site",
                                 self._go(f"/sites/{site_id}/edit"))]
         if not self.wide:
-            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions)
+            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions,
+                         title_id="site-title")
         else:
             hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
                                 padding=24)
             self._render(f"/sites/{site_id}", title,
-                         self._two_panes(self._list(site_id), hint), "/", actions=actions)
+                         self._two_panes(self._list(site_id), hint), "/", actions=actions,
+                         title_id="site-title")
         await self.list.restore()
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
@@ -484,7 +490,7 @@ class FieldApp:
         f[0].route = route
         self.screen = route
         self.saver.moved(route)  # another column: the last one's Undo goes
-        self._title.value = title
+        self._title.value = self._title.tooltip = title
         self._right.content = right
         self.page.update()
         self.draws += 1

@@ -166,9 +166,14 @@ class LoadsView:
         """E.g. ``"Story: 3000 kip gravity load, buckling load 30000 kip"``, or ``""``."""
         if not self.story:
             return ""
-        other = (f"buckling load {self.story['buckling_load']}" if self.story.get("buckling_load")
-                 else f"lateral stiffness {self.story.get('stiffness', '')}")
-        return f"Story: {self.story.get('load', '')} gravity load, {other}"
+        from fieldcol.units import format_entry
+
+        def shown(key: str, kind: str) -> str:  # the one display rule, as the trace writes
+            return format_entry(self.story.get(key, ""), kind, self.system)
+        other = (f"buckling load {shown('buckling_load', 'force')}"
+                 if self.story.get("buckling_load")
+                 else f"lateral stiffness {shown('stiffness', 'stiffness')}")
+        return f"Story: {shown('load', 'force')} gravity load, {other}"
 
 
 def _demand(record: dict[str, Any]) -> dict[str, Any]:
