@@ -244,6 +244,12 @@ def test_a_stiffness_reads_alike_wherever_the_app_shows_it(demo):
     assert "stiffness 19.99 kip/in" in lines and "3.50" not in lines, lines
     trace = " ".join(f"{s.what} {s.value}" for s in cm.latest_summary(store, cid).trace)
     assert "given: 19.99 kip/in" in trace, trace
+    # the story's lateral stiffness in the record's lines follows the same rule:
+    # 35 kN/mm x 5.7101471 (kip/in)/(kN/mm) = 199.86 kip/in
+    from fieldcol.ui import loads_model as lm
+    lm.set_story(store, cid, "3000.0 kip", "", "35.0 kN/mm")
+    lines = " ".join(x.value for x in m.column_detail(store, cid).record)
+    assert "Story: 3000 kip gravity load, lateral stiffness 199.9 kip/in" in lines, lines
     # an SI site: the same brace in kN/mm, typed notation dropped the same way
     assert "stiffness 3.5 kN/mm" in rm.restraints_view(store.current_record(cid), "si"
                                                        ).braces[0].summary

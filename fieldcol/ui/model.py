@@ -523,7 +523,7 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
               Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
     from fieldcol.ui.loads_model import load_lines
 
-    record += [Line("Loads", x) for x in load_lines(demand)]
+    record += [Line("Loads", x) for x in load_lines(demand, system)]
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
         parts = []
