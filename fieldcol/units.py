@@ -1068,8 +1068,10 @@ def format_entry(entry: Any, kind: str, system: str) -> str:
         the text, e.g. ``"20 kip/in"``, ``"3.5 kN/mm"``, ``"rigid"``.
 
     Example:
-        >>> format_entry("20.00 kip/in", "stiffness", "us"), format_entry("3.5 kN/mm", "stiffness", "us")
-        ('20 kip/in', '19.99 kip/in')
+        >>> format_entry("20.00 kip/in", "stiffness", "us")
+        '20 kip/in'
+        >>> format_entry("3.5 kN/mm", "stiffness", "us")
+        '19.99 kip/in'
         >>> format_entry("rigid", "stiffness", "si")
         'rigid'
     """

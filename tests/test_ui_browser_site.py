@@ -14,7 +14,8 @@ import textwrap
 import pytest
 
 from _browser import (  # the shared browser helpers
-    PHONE, TABLET, _box, _click, _offline, _open, _open_column, _poll, _sel, _shot, _type_into, _wait,
+    PHONE, TABLET, _box, _click, _offline, _open, _open_column, _poll, _sel, _shot, _type_into,
+    _wait,
     _words, app_server, browser,  # noqa: F401  (browser is a fixture)
 )
 
