@@ -55,6 +55,9 @@ LIST_W = 400     # the list pane's width on a tablet
 TIMEOUT = 30.0   # s, for any one thing to appear (the machine is shared)
 STATUS = re.compile(r"\d\.\d\d (OK|OVER)")
 TOP, BOTTOM = 56, 64  # the app bar above, the save bar below: a control wholly between
+# fixed at the foot of a screen, under which the scrolling pane ends: the column screen's
+# "Next like this" strip and the save bar (taller with a long message)
+FOOT = ("duplicate-column", "save-note")
 # s: the longest one call to the browser may go unanswered (a DOM query takes milliseconds, a
 # busy frame a second or two) before its renderer counts as silent
 ANSWER = 15.0
@@ -320,6 +323,18 @@ def _box(page, identifier: str):
         return None
 
 
+def _floor(page, identifier: str) -> float:
+    """How far down a control may reach and be wholly on screen: above the foot's strip and
+    the save bar where they show (a control cut by the pane's bottom edge reports its visible
+    part, ending right at the edge, so a few pixels clear of it), else BOTTOM above the
+    screen's edge. A part of the foot itself is measured against the screen's edge."""
+    height = page.viewport_size["height"]
+    if identifier in FOOT + ("save-undo", "save-retry"):
+        return height
+    tops = [b["y"] - 8 for b in (_box(page, f) for f in FOOT) if b and b["height"] > 0]
+    return min(tops + [height - BOTTOM])
+
+
 def _wheel(page, x: float, y: float, dx: float, dy: float) -> None:
     """Turn the mouse wheel at (x, y): the mouse's calls have no deadline of their own."""
     with _answer("turning the mouse wheel"):
@@ -359,8 +374,8 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
     while time.monotonic() < deadline:
         box = _box(page, identifier)
         # strictly below the bar: a control cut by the list's top edge reports its visible
-        # part, starting right at the edge
-        if box and box["y"] > TOP and box["y"] + box["height"] <= height - BOTTOM:
+        # part, starting right at the edge; and as strictly above what is fixed at the foot
+        if box and box["y"] > TOP and box["y"] + box["height"] <= _floor(page, identifier):
             return page.locator(_sel(identifier)).first
         if box and before and box["y"] == before["y"] and box["y"] >= 0 \
                 and box["y"] + box["height"] <= height:

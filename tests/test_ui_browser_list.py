@@ -246,6 +246,8 @@ def test_dark_theme_everywhere(server, browser, size):
     suffix = "" if size == "phone" else "-tablet"
     _click(page, "settings", scroll=False, done=lambda: page.locator(_sel("theme-dark")).count())
     _click(page, "theme-dark", done=lambda: "(chosen)" in _words(page, "theme-dark"))
+    _poll(lambda: _words(page, "save-note"), lambda t: "theme dark" in t and "Undo" in t,
+          "the theme saved, with Undo")
     time.sleep(1)
     assert _page_luminance(page) < 0.05
     _shot(page, f"dark-settings{suffix}.png")
@@ -256,6 +258,9 @@ def test_dark_theme_everywhere(server, browser, size):
            done=lambda: page.locator(_sel("status")).count() > 0)
     time.sleep(1)
     assert _page_luminance(page) < 0.05
+    # the theme's Undo stayed with the settings: nothing on the column screen undoes it
+    _poll(lambda: page.locator(_sel("save-undo")).count(), lambda n: n == 0,
+          "no Undo of the theme on the column screen", timeout=5)
     _shot(page, f"dark-column{suffix}.png")
     _tab(page, "restraints")
     _shot(page, f"dark-restraints{suffix}.png")
