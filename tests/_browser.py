@@ -365,18 +365,28 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
     """The control, scrolled wholly into view with the mouse wheel: a list builds only what
     is near the screen, so one not built yet is looked for below (``up``: above), then the
     other way. A control that does not move with the wheel (the save bar) is taken where it is.
+    One the wheel moved is taken once it lies still: a tap on a list still gliding is taken
+    as part of the scroll, and a tap with no ``done`` check is made only once.
     """
     height = page.viewport_size["height"]
     deadline = time.monotonic() + timeout
     before = None
     turned = 0
     down = not up
+    wheeled = False
     while time.monotonic() < deadline:
         box = _box(page, identifier)
         # strictly below the bar: a control cut by the list's top edge reports its visible
         # part, starting right at the edge; and as strictly above what is fixed at the foot
         if box and box["y"] > TOP and box["y"] + box["height"] <= _floor(page, identifier):
-            return page.locator(_sel(identifier)).first
+            if not wheeled:
+                return page.locator(_sel(identifier)).first
+            time.sleep(0.15)
+            again = _box(page, identifier)
+            if again and again["y"] == box["y"]:
+                return page.locator(_sel(identifier)).first
+            before = again
+            continue
         if box and before and box["y"] == before["y"] and box["y"] >= 0 \
                 and box["y"] + box["height"] <= height:
             return page.locator(_sel(identifier)).first  # fixed, or the list's very end
@@ -391,6 +401,7 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
             step = 200 if box["y"] > TOP else -200
         before = box
         _wheel(page, at_x, height * 0.55, 0, step)
+        wheeled = True
         time.sleep(0.2)
     _failed_shot(page, f"failed-find-{identifier.replace('/', '_')}.png")
     raise AssertionError(f"could not bring {identifier} into view")
