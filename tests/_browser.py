@@ -377,8 +377,14 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
     while time.monotonic() < deadline:
         box = _box(page, identifier)
         # strictly below the bar: a control cut by the list's top edge reports its visible
-        # part, starting right at the edge; and as strictly above what is fixed at the foot
-        if box and box["y"] > TOP and box["y"] + box["height"] <= _floor(page, identifier):
+        # part, starting right at the edge; and as strictly above what is fixed at the foot.
+        # A card taller than the room between them (a long message in the save bar leaves
+        # less) is as much in view as it gets with its top in the upper part of the pane (a
+        # window as tall as one turn of the wheel, so the turns cannot step over it) and
+        # its rest down to the foot (cut there: it reports only what shows)
+        floor = _floor(page, identifier) if box else 0.0
+        if box and box["y"] > TOP and (box["y"] + box["height"] <= floor or (
+                box["y"] <= TOP + 200 and box["y"] + box["height"] >= floor)):
             if not wheeled:
                 return page.locator(_sel(identifier)).first
             time.sleep(0.15)
