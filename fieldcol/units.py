@@ -11,7 +11,8 @@ built from them (``INTERNAL_UNITS``). This module is the edge:
   checks the unit is of the right kind and converts once. Common units come from an exact
   table (no pint); anything else goes to the shared pint registry ``ureg``.
 * ``format_length`` / ``format_quantity`` / ``to_display`` show values in the site's system:
-  ``"us"`` or ``"si"``.
+  ``"us"`` or ``"si"``. ``format_entry`` shows a recorded entry (a brace's typed
+  ``"20.00 kip/in"``) by the same rule, so what was typed and what was worked out read alike.
 
 Conventions (documented here once):
 
@@ -72,6 +73,7 @@ __all__ = [
     "parse_quantity",
     "format_length",
     "format_quantity",
+    "format_entry",
     "display_unit",
     "to_display",
     "from_display",
@@ -1065,6 +1067,44 @@ def format_quantity(value: float, kind: str, system: str, digits: int = 4) -> st
             _SHOWN.clear()
         _SHOWN[key] = got
     return got
+
+
+def format_entry(entry: Any, kind: str, system: str) -> str:
+    """A recorded entry of ``kind`` as the app shows it: read, then written by
+    ``format_quantity`` in the site's system. A stiffness typed ``20.00 kip/in``, ``20 kip/in``
+    or in kN/mm on a US site then reads as the brace requirement and the trace beside it
+    (``20 kip/in``; four significant figures, the one rule), never in the typist's own
+    notation. An entry that is not a quantity (``rigid``, ``held``) or does not read is shown
+    as typed: the check names its fault.
+
+    Args:
+        entry: the record's value as typed.
+        kind: one of ``KINDS``.
+        system: ``"us"`` or ``"si"``.
+
+    Returns:
+        the text, e.g. ``"20 kip/in"``, ``"3.5 kN/mm"``, ``"rigid"``.
+
+    Example:
+        >>> format_entry("20.00 kip/in", "stiffness", "us")
+        '20 kip/in'
+        >>> format_entry("3.5 kN/mm", "stiffness", "us")
+        '19.99 kip/in'
+        >>> format_entry("rigid", "stiffness", "si")
+        'rigid'
+    """
+    if not isinstance(entry, str):  # a bare number has no unit to show it in: as typed
+        return str(entry)
+    try:
+        float(entry)
+        return entry
+    except ValueError:
+        pass
+    try:
+        value = parse_quantity(entry, kind, "entry", allow_zero=True)
+    except InputError:
+        return str(entry)
+    return format_quantity(value, kind, system)
 
 
 def _format_quantity(value: float, kind: str, system: str, digits: int = 4,

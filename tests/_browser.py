@@ -7,6 +7,12 @@ Screenshots go where ``FIELDCOL_SHOTS`` points (default /tmp/fieldcol-shots); ph
 tablet 820x1180. Waits poll with a timeout; the only fixed pauses are ~1 s before screenshots
 and a few tenths of a second while a list glides.
 
+Every call to the browser that has no deadline of its own (``count()``, ``bounding_box()``'s
+measure, ``evaluate``, the mouse and the keyboard) is made under ``_answer``: headless
+chromium's software renderer has been seen to go silent for minutes, and such a call would
+then hold the test until pytest-timeout's 420 s. Under ``_answer`` it ends with ``Silent``
+after ``ANSWER`` s, which no helper or test catches (a new page, the rerun, is what helps).
+
 Taps go through ``_click``: Flutter rebuilds a semantics node when the app redraws the control,
 so a tap may meet a node that moves or goes ("element is not stable", "element was detached
 from the DOM"). ``_click`` finds the control again and taps again until the tap took (``done``)
@@ -19,9 +25,11 @@ import contextlib
 import os
 import re
 import shutil
+import signal
 import socket
 import subprocess
 import sys
+import threading
 import time
 from pathlib import Path
 from typing import Any, Callable, Iterator
@@ -47,6 +55,70 @@ LIST_W = 400     # the list pane's width on a tablet
 TIMEOUT = 30.0   # s, for any one thing to appear (the machine is shared)
 STATUS = re.compile(r"\d\.\d\d (OK|OVER)")
 TOP, BOTTOM = 56, 64  # the app bar above, the save bar below: a control wholly between
+# fixed at the foot of a screen, under which the scrolling pane ends: the column screen's
+# "Next like this" strip and the save bar (taller with a long message)
+FOOT = ("duplicate-column", "save-note")
+# s: the longest one call to the browser may go unanswered (a DOM query takes milliseconds, a
+# busy frame a second or two) before its renderer counts as silent
+ANSWER = 15.0
+
+
+class Silent(BaseException):
+    """The browser gave no answer within the time allowed: its renderer has gone silent.
+
+    A BaseException, like pytest's own failures: the helpers' retry loops and a test's
+    ``except Exception`` let it through, so the test fails at once and runs again on a new
+    page instead of tapping on at a page that will not answer."""
+
+
+@contextlib.contextmanager
+def _answer(what: str, seconds: float | None = None) -> Iterator[None]:
+    """Hold the calls to the browser inside the block to ``seconds`` (``ANSWER``), then raise
+    ``Silent``.
+
+    Playwright's ``count()``, ``evaluate``, mouse and keyboard send no deadline of their own,
+    so a silent renderer holds them for ever. A SIGALRM raised while the sync API waits is
+    thrown into the waiting call (playwright's dispatcher is built for it: pytest-timeout's
+    signal method does the same), the call's future is cancelled and the connection lives on.
+    The alarm repeats each second until the block ends: asyncio swallows an exception raised
+    inside one of its callbacks, and the next alarm then lands in the wait. An alarm already
+    set (pytest-timeout's, or an enclosing ``_answer``) is set again as it was, less the time
+    spent; if it is due first, its own handler runs. Off the main thread (no signals there)
+    the block runs unguarded.
+
+    Example: ``with _answer("counting rows"): n = page.locator(sel).count()``
+    """
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    seconds = ANSWER if seconds is None else seconds
+    outer = signal.getsignal(signal.SIGALRM)
+    if outer is None:  # a handler set outside Python: leave it as the system has it
+        outer = signal.SIG_DFL
+    outer_left, outer_every = signal.getitimer(signal.ITIMER_REAL)
+    start = time.monotonic()
+    mine = not outer_left or seconds < outer_left
+    outer_fired = False
+
+    def on_alarm(signum, frame):
+        nonlocal outer_fired
+        if not mine:  # the enclosing deadline comes first: it speaks
+            outer_fired = True
+            if callable(outer):
+                outer(signum, frame)
+            return
+        raise Silent(f"{what}: the browser gave no answer in {seconds:g} s")
+
+    signal.signal(signal.SIGALRM, on_alarm)
+    signal.setitimer(signal.ITIMER_REAL, seconds if mine else outer_left, 1.0)
+    try:
+        yield
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, outer)
+        if outer_left and not outer_fired:
+            left = outer_left - (time.monotonic() - start)
+            signal.setitimer(signal.ITIMER_REAL, max(left, 0.001), outer_every)
 
 
 def _free_port() -> int:
@@ -159,11 +231,13 @@ def _open(browser, base: str, viewport: dict, route: str = "/"):
             refused.append(r.request.url)
             r.abort()
 
-    page.route("**/*", only_loopback)
-    page.goto(base + route)
+    with _answer("routing the page's requests"):
+        page.route("**/*", only_loopback)
+    page.goto(base + route, timeout=TIMEOUT * 1000)
     page.wait_for_selector("flt-semantics-placeholder", state="attached",
                            timeout=TIMEOUT * 1000)
-    page.evaluate("document.querySelector('flt-semantics-placeholder').click()")
+    with _answer("turning on semantics"):
+        page.evaluate("document.querySelector('flt-semantics-placeholder').click()")
     page.refused = refused
     return page
 
@@ -185,12 +259,18 @@ def _wait(page, identifier: str, timeout: float = TIMEOUT):
 
 def _poll(read: Callable[[], Any], ok: Callable[[Any], bool], what: str,
           timeout: float = TIMEOUT):
-    """Read until ``ok(value)`` or fail after ``timeout`` s with the last value read."""
+    """Read until ``ok(value)`` or fail after ``timeout`` s with the last value read.
+
+    A read the browser does not answer ends the wait with ``Silent``: a read may itself be a
+    wait (``_find`` holds up to TIMEOUT), so each is held to the longer of TIMEOUT and
+    ``timeout``, and one ANSWER more. A wait thus outlasts its timeout by at most one read,
+    however still the renderer lies."""
     deadline = time.monotonic() + timeout
     value = None
     while time.monotonic() < deadline:
         try:
-            value = read()
+            with _answer(f"{what} (reading)", max(TIMEOUT, timeout) + ANSWER):
+                value = read()
         except Exception as e:  # the node may be rebuilt between reads
             value = e
         if not isinstance(value, Exception) and ok(value):
@@ -201,7 +281,8 @@ def _poll(read: Callable[[], Any], ok: Callable[[Any], bool], what: str,
 
 def _true(check: Callable[[], Any]) -> bool:
     try:
-        return bool(check())
+        with _answer("a check", TIMEOUT + ANSWER):  # a check may be a wait, as in _poll
+            return bool(check())
     except Exception:  # a node rebuilt while read: not yet
         return False
 
@@ -209,16 +290,18 @@ def _true(check: Callable[[], Any]) -> bool:
 def _shot(page, name: str) -> None:
     SHOTS.mkdir(parents=True, exist_ok=True)
     time.sleep(1)  # let the last frame paint
-    page.screenshot(path=str(SHOTS / name))
+    page.screenshot(path=str(SHOTS / name), timeout=TIMEOUT * 1000)
 
 
 def _words(page, identifier: str) -> str:
     """Every word a control offers a screen reader: its text and the labels inside it
     (Flutter puts some in ``aria-label``, e.g. on a card holding selectable text)."""
-    return page.locator(_sel(identifier)).first.evaluate(
-        "e => [e.innerText, ...[e, ...e.querySelectorAll('[aria-label]')]"
-        ".map(x => x.getAttribute('aria-label'))].filter(Boolean).join(' ')",
-        timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
+    # the timeout bounds only the wait for the node; the evaluation has none of its own
+    with _answer(f"reading the words of {identifier}"):
+        return page.locator(_sel(identifier)).first.evaluate(
+            "e => [e.innerText, ...[e, ...e.querySelectorAll('[aria-label]')]"
+            ".map(x => x.getAttribute('aria-label'))].filter(Boolean).join(' ')",
+            timeout=2000)  # short: the caller polls, and a node may be rebuilt meanwhile
 
 
 def _pane_x(page) -> float:
@@ -228,12 +311,53 @@ def _pane_x(page) -> float:
 
 
 def _box(page, identifier: str):
+    """Where the control lies on the page (None while it is not there): ``count()`` has no
+    deadline and ``bounding_box``'s covers only the wait for the node, so both are held by
+    ``_answer``: a silent renderer ends the test with ``Silent`` instead of holding it."""
     try:
-        if not page.locator(_sel(identifier)).count():
-            return None
-        return page.locator(_sel(identifier)).first.bounding_box(timeout=2000)
+        with _answer(f"measuring {identifier}"):
+            if not page.locator(_sel(identifier)).count():
+                return None
+            return page.locator(_sel(identifier)).first.bounding_box(timeout=2000)
     except sync_api.Error:  # rebuilt while measured
         return None
+
+
+def _floor(page, identifier: str) -> float:
+    """How far down a control may reach and be wholly on screen: above the foot's strip and
+    the save bar where they show (a control cut by the pane's bottom edge reports its visible
+    part, ending right at the edge, so a few pixels clear of it), else BOTTOM above the
+    screen's edge. A part of the foot itself is measured against the screen's edge."""
+    height = page.viewport_size["height"]
+    if identifier in FOOT + ("save-undo", "save-retry"):
+        return height
+    tops = [b["y"] - 8 for b in (_box(page, f) for f in FOOT) if b and b["height"] > 0]
+    return min(tops + [height - BOTTOM])
+
+
+def _wheel(page, x: float, y: float, dx: float, dy: float) -> None:
+    """Turn the mouse wheel at (x, y): the mouse's calls have no deadline of their own."""
+    with _answer("turning the mouse wheel"):
+        page.mouse.move(x, y)
+        page.mouse.wheel(dx, dy)
+
+
+def _keys(page, *, press: str = "", text: str = "") -> None:
+    """Type ``text`` or press a key: the keyboard's calls have no deadline of their own."""
+    with _answer(f"typing {press or text!r}"):
+        if text:
+            page.keyboard.type(text)
+        if press:
+            page.keyboard.press(press)
+
+
+def _failed_shot(page, name: str) -> None:
+    """A picture of the screen for a failure, short of time: it must not hide the failure."""
+    SHOTS.mkdir(parents=True, exist_ok=True)
+    try:
+        page.screenshot(path=str(SHOTS / name), timeout=10_000)
+    except sync_api.Error:
+        pass
 
 
 def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
@@ -241,24 +365,39 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
     """The control, scrolled wholly into view with the mouse wheel: a list builds only what
     is near the screen, so one not built yet is looked for below (``up``: above), then the
     other way. A control that does not move with the wheel (the save bar) is taken where it is.
+    One the wheel moved is taken once it lies still: a tap on a list still gliding is taken
+    as part of the scroll, and a tap with no ``done`` check is made only once.
     """
     height = page.viewport_size["height"]
     deadline = time.monotonic() + timeout
     before = None
     turned = 0
     down = not up
+    wheeled = False
     while time.monotonic() < deadline:
         box = _box(page, identifier)
         # strictly below the bar: a control cut by the list's top edge reports its visible
-        # part, starting right at the edge
-        if box and box["y"] > TOP and box["y"] + box["height"] <= height - BOTTOM:
-            return page.locator(_sel(identifier)).first
+        # part, starting right at the edge; and as strictly above what is fixed at the foot.
+        # A card taller than the room between them (a long message in the save bar leaves
+        # less) is as much in view as it gets with its top in the upper part of the pane (a
+        # window as tall as one turn of the wheel, so the turns cannot step over it) and
+        # its rest down to the foot (cut there: it reports only what shows)
+        floor = _floor(page, identifier) if box else 0.0
+        if box and box["y"] > TOP and (box["y"] + box["height"] <= floor or (
+                box["y"] <= TOP + 200 and box["y"] + box["height"] >= floor)):
+            if not wheeled:
+                return page.locator(_sel(identifier)).first
+            time.sleep(0.15)
+            again = _box(page, identifier)
+            if again and again["y"] == box["y"]:
+                return page.locator(_sel(identifier)).first
+            before = again
+            continue
         if box and before and box["y"] == before["y"] and box["y"] >= 0 \
                 and box["y"] + box["height"] <= height:
             return page.locator(_sel(identifier)).first  # fixed, or the list's very end
         at_x = x if x is not None else (box["x"] + min(box["width"] / 2, 40) if box
                                         else _pane_x(page))
-        page.mouse.move(at_x, height * 0.55)
         if box is None:
             turned += 1
             if turned % 25 == 0:  # not below: look above (and so on)
@@ -267,10 +406,10 @@ def _find(page, identifier: str, x: float | None = None, *, up: bool = False,
         else:
             step = 200 if box["y"] > TOP else -200
         before = box
-        page.mouse.wheel(0, step)
+        _wheel(page, at_x, height * 0.55, 0, step)
+        wheeled = True
         time.sleep(0.2)
-    SHOTS.mkdir(parents=True, exist_ok=True)
-    page.screenshot(path=str(SHOTS / f"failed-find-{identifier.replace('/', '_')}.png"))
+    _failed_shot(page, f"failed-find-{identifier.replace('/', '_')}.png")
     raise AssertionError(f"could not bring {identifier} into view")
 
 
@@ -279,9 +418,9 @@ _scroll_to = _find  # the older name
 
 def _to_top(page, x: float | None = None) -> None:
     """Scroll the list under ``x`` back to its top."""
-    page.mouse.move(x if x is not None else _pane_x(page), page.viewport_size["height"] * 0.6)
+    at = (x if x is not None else _pane_x(page), page.viewport_size["height"] * 0.6)
     for _ in range(8):
-        page.mouse.wheel(0, -1500)
+        _wheel(page, *at, 0, -1500)
         time.sleep(0.15)
     time.sleep(0.5)
 
@@ -345,11 +484,11 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
                 bool, f"focus in {identifier}", 5)
         except AssertionError:
             continue
-        page.keyboard.press("Control+A")
+        _keys(page, press="Control+A")
         if text:
-            page.keyboard.type(text)
+            _keys(page, text=text)
         else:  # emptied: the selection deleted
-            page.keyboard.press("Delete")
+            _keys(page, press="Delete")
         try:
             _poll(lambda: page.evaluate("document.activeElement.value"), lambda v: v == text,
                   f"{identifier} holds the typed text", timeout=3)
@@ -359,11 +498,15 @@ def _type_into(page, identifier: str, text: str, *, enter: bool = True) -> None:
     else:
         raise AssertionError(f"could not type {text!r} into {identifier}")
     if enter:
-        page.keyboard.press("Enter")
+        _keys(page, press="Enter")
 
 
 def _choose(page, identifier: str) -> None:
-    """Tap a choice until the screen says it is chosen."""
+    """Tap a choice until the screen says it is chosen (no tap if it already is: a tap on a
+    chosen choice unchooses it)."""
+    _find(page, identifier)
+    if _true(lambda: "(chosen)" in _words(page, identifier)):
+        return
     _click(page, identifier, done=lambda: "(chosen)" in _words(page, identifier))
 
 
@@ -373,8 +516,7 @@ def _tab(page, name: str) -> None:
     for _ in range(10):  # a tab row that scrolls sideways: bring the tab on screen
         if box is None or box["x"] + box["width"] <= page.viewport_size["width"]:
             break
-        page.mouse.move(page.viewport_size["width"] / 2, box["y"] + box["height"] / 2)
-        page.mouse.wheel(200, 0)
+        _wheel(page, page.viewport_size["width"] / 2, box["y"] + box["height"] / 2, 200, 0)
         time.sleep(0.2)
         box = _box(page, f"tab-{name}")
     try:
@@ -383,8 +525,7 @@ def _tab(page, name: str) -> None:
         _click(page, f"tab-{name}", up=True,
                done=lambda: "(shown)" in _words(page, f"tab-{name}"))
     except AssertionError:
-        SHOTS.mkdir(parents=True, exist_ok=True)
-        page.screenshot(path=str(SHOTS / f"failed-tab-{name}.png"))
+        _failed_shot(page, f"failed-tab-{name}.png")
         raise
 
 
@@ -404,12 +545,13 @@ def _drawn(page, identifier: str) -> float:
 
     from PIL import Image, ImageStat
 
-    png = page.locator(_sel(identifier)).first.screenshot()
+    png = page.locator(_sel(identifier)).first.screenshot(timeout=TIMEOUT * 1000)
     return max(ImageStat.Stat(Image.open(io.BytesIO(png)).convert("L")).stddev)
 
 
 def _big_enough(page, *identifiers: str) -> None:
     """Touch targets usable with gloves: at least 48 px (Material guidance, common practice)."""
     for ident in identifiers:  # each wholly in view first: a control cut by an edge reads short
-        box = _find(page, ident).bounding_box()
+        _find(page, ident)
+        box = _box(page, ident)
         assert box and box["height"] >= 48 and box["width"] >= 48, (ident, box)

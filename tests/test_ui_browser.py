@@ -13,11 +13,23 @@ import time
 from urllib.parse import urlparse
 
 from _browser import (  # noqa: F401  (server and browser are fixtures)
-    PHONE, STATUS, TABLET, _click, _drawn, _entry, _find, _open, _open_column, _poll,
+    PHONE, STATUS, TABLET, _box, _click, _drawn, _entry, _find, _open, _open_column, _poll,
     _scroll_to,
     _sel, _shot, _tab, _to_top, _type_into, _wait, _words, browser, served, server,
 )
 from fieldcol import CAUTION
+
+
+def _title_fits(page, lines: int) -> None:
+    """The site's name in the app bar lies between Back and the two buttons, on ``lines``
+    lines of its 20 px letters: at 390 px "Kestrel Lane Print Works" wraps onto a second line
+    instead of being cut short (seen cut: "Kestrel Lane Print Wor...")."""
+    assert "Kestrel Lane Print Works" in _words(page, "site-title")
+    title = _poll(lambda: _box(page, "site-title"), bool, "the title measured")
+    back, report = _box(page, "back"), _box(page, "site-report")
+    assert title["x"] >= back["x"] + back["width"] - 1, (title, back)
+    assert title["x"] + title["width"] <= report["x"] + 1, (title, report)
+    assert 20 * lines <= title["height"] < 20 * (lines + 1) + 8, (lines, title)
 
 
 def test_phone_open_an_over_column_and_edit_its_length(server, browser):
@@ -36,6 +48,7 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
     over = [t for t in texts if re.search(r"\d\.\d\d OVER", t)]
     assert over and all(STATUS.search(t) for t in texts), texts
     _shot(page, "phone-columns.png")
+    _title_fits(page, lines=2)
     boxes = [rows.nth(i).bounding_box() for i in range(rows.count())]
     # a row cut by the screen's bottom edge reports its visible part, ending right at the edge
     whole = [b for b in boxes if b and b["y"] >= 56 and b["y"] + b["height"] < PHONE["height"] - 1]
@@ -64,7 +77,9 @@ def test_phone_open_an_over_column_and_edit_its_length(server, browser):
           lambda d: d.startswith("Length '12 fr' not understood"), "error at the length field")
     assert "12 fr" in page.locator(_sel("field-length")).first.inner_text() \
         or length.input_value() == "12 fr"
-    assert "not saved" in (_wait(page, "save-note") and _words(page, "save-note"))
+    # the bar says where to look, not the entry's words again
+    said = _wait(page, "save-note") and _words(page, "save-note")
+    assert "Not saved: check Length" in said and "not understood" not in said, said
     _shot(page, "phone-column-error.png")
     # the result sits above the entries: scrolled back up to read it
     assert STATUS.search(_scroll_to(page, "status", up=True).inner_text()).group(0) == before
@@ -94,6 +109,7 @@ def test_tablet_two_panes(server, browser):
     site.click()
     _wait(page, "column-A/1-G")
     _shot(page, "tablet-columns.png")
+    _title_fits(page, lines=1)
     _click(page, "column-C/3-G", x=200, done=lambda: page.locator(_sel("status")).count())
     status = _wait(page, "status")
     _poll(lambda: status.inner_text(), lambda t: STATUS.search(t) is not None, "status")

@@ -66,7 +66,10 @@ def test_phone_cover_plates_riveted_with_their_pitch(server, browser):
     _find(page, "save-plates")
     _click(page, "save-plates")
     _poll(lambda: _words(page, "save-note"),
-          lambda t: "not saved" in t and "Rivet pitch is needed" in t, "the missing pitch")
+          lambda t: "Not saved: check Rivet pitch" in t, "the missing pitch")
+    _poll(lambda: page.locator(f"{_sel('plate-pitch')} input").first.get_attribute(
+        "aria-description") or "", lambda d: d.startswith("Rivet pitch is needed"),
+        "the error at the pitch")
     _find(page, "plate-pitch")
     _type_into(page, "plate-pitch", "6", enter=False)
     _big_enough(page, "plate-connection-riveted", "plate-pitch", "save-plates")

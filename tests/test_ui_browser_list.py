@@ -112,13 +112,13 @@ def test_a_round_of_field_work_in_twelve_taps_or_fewer(server, browser, tmp_path
     except AssertionError:
         tap.n, tap.log = tap.n + 1, tap.log + ["reading-value"]
         _type_into(page, "reading-value", "5/8", enter=False)
-    tap("save-reading", done=lambda: bows() or "not saved" in _words(page, "save-note"))  # 5
+    tap("save-reading", done=lambda: bows() or "Not saved" in _words(page, "save-note"))  # 5
     if not bows():
         # seen only after a focus from the server that headless chromium did not take: the
         # tap on the entry then focuses the page's own input box, whose letters never reach
-        # the app (the entry stays empty and the save says "Bow is needed"). A person sees
-        # the empty entry, taps it and types again: two taps more, counted
-        assert "Bow is needed" in _words(page, "save-note"), _words(page, "save-note")
+        # the app (the entry stays empty, saying "Bow is needed", and the bar points at it).
+        # A person sees the empty entry, taps it and types again: two taps more, counted
+        assert "check Bow at its worst" in _words(page, "save-note"), _words(page, "save-note")
         tap.n, tap.log = tap.n + 1, tap.log + ["reading-value again"]
         _type_into(page, "reading-value", "5/8", enter=False)
         tap("save-reading", done=lambda: bows())
@@ -246,6 +246,8 @@ def test_dark_theme_everywhere(server, browser, size):
     suffix = "" if size == "phone" else "-tablet"
     _click(page, "settings", scroll=False, done=lambda: page.locator(_sel("theme-dark")).count())
     _click(page, "theme-dark", done=lambda: "(chosen)" in _words(page, "theme-dark"))
+    _poll(lambda: _words(page, "save-note"), lambda t: "theme dark" in t and "Undo" in t,
+          "the theme saved, with Undo")
     time.sleep(1)
     assert _page_luminance(page) < 0.05
     _shot(page, f"dark-settings{suffix}.png")
@@ -256,6 +258,9 @@ def test_dark_theme_everywhere(server, browser, size):
            done=lambda: page.locator(_sel("status")).count() > 0)
     time.sleep(1)
     assert _page_luminance(page) < 0.05
+    # the theme's Undo stayed with the settings: nothing on the column screen undoes it
+    _poll(lambda: page.locator(_sel("save-undo")).count(), lambda n: n == 0,
+          "no Undo of the theme on the column screen", timeout=5)
     _shot(page, f"dark-column{suffix}.png")
     _tab(page, "restraints")
     _shot(page, f"dark-restraints{suffix}.png")

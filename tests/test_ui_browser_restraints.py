@@ -113,9 +113,9 @@ def test_phone_end_per_axis_and_a_dated_cable(server, browser):
     _click(page, "brace-kind-cable", done=lambda: page.locator(_sel("brace-area")).count() > 0)
     _type_into(page, "brace-area", "0.2 in2", enter=False)
     _type_into(page, "brace-added", "2024-06-01", enter=False)
-    _click(page, "save-brace", done=lambda: "not saved" in _words(page, "save-note"))
+    _click(page, "save-brace", done=lambda: "Not saved" in _words(page, "save-note"))
     said = _words(page, "save-note")
-    assert "Cable or rod length is needed" in said, said
+    assert "check Cable or rod length" in said, said
     _find(page, "brace-length")
     _shot(page, "restraint-cable-refused.png")
     _type_into(page, "brace-length", "12 ft", enter=False)

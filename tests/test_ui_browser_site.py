@@ -14,7 +14,8 @@ import textwrap
 import pytest
 
 from _browser import (  # the shared browser helpers
-    PHONE, TABLET, _click, _offline, _open, _open_column, _poll, _sel, _shot, _type_into, _wait,
+    PHONE, TABLET, _box, _click, _offline, _open, _open_column, _poll, _sel, _shot, _type_into,
+    _wait,
     _words, app_server, browser,  # noqa: F401  (browser is a fixture)
 )
 
@@ -88,7 +89,12 @@ def test_phone_who_site_column_duplicate_delete_undo_locked(site_server, browser
             continue
     assert "Undone: length 14 ft" in _note(page)
 
-    # duplicate: one tap, the next tag, opened at once
+    # duplicate: one tap at the foot of the screen (in thumb reach: the lowest tenth of the
+    # phone above the save bar), Delete alone at the top, half a screen away from it
+    dup, dele = _box(page, "duplicate-column"), _box(page, "delete-column")
+    height = PHONE["height"]
+    assert dup["y"] + dup["height"] > height * 0.8 and dup["height"] >= 48, dup
+    assert dele["y"] < 60 and dup["y"] - (dele["y"] + dele["height"]) > height / 2, (dup, dele)
     _click(page, "duplicate-column")
     _poll(lambda: _words(page, "column-tag"), lambda t: "K/2-G" in t, "the copy shown")
     _shot(page, "column-duplicate.png")

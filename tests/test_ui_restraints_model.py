@@ -13,6 +13,7 @@ from fieldcol.demo import SITE_NAME, build_demo
 from fieldcol.errors import InputError
 from fieldcol.store import open_store
 from fieldcol.ui import check_model as cm
+from fieldcol.ui import model as m
 from fieldcol.ui import restraints_model as rm
 
 FT = 304.8  # mm per foot, exact by definition
@@ -224,3 +225,31 @@ def test_both_cable_forms_ask_for_the_angle_the_engine_takes(demo):
     with pytest.raises(InputError) as e:
         assess(rec)
     assert "direction the braced point moves" in e.value.reason
+
+
+def test_a_stiffness_reads_alike_wherever_the_app_shows_it(demo):
+    """One display rule for a quantity (``units.format_entry`` = ``format_quantity``: the
+    site's unit, four significant figures): a brace stiffness typed "3.50 kN/mm" on a US site
+    reads the same in the brace's line, the column's record and the check's trace, which
+    works it out from the parsed value. 3.5 kN/mm = 3500 N/mm x 0.0057101471 kip/in per N/mm
+    (NIST SP 811 factors: 1 kip = 4448.2216 N, 1 in = 25.4 mm) = 19.99 kip/in."""
+    store, site = demo
+    cid = _col(store, site, "A/1-G")
+    draft = rm.empty_draft(store.current_record(cid), who="T. Nguyen")
+    rm.save_brace(store, cid, {**draft, "stiffness": "3.50 kN/mm", "strength": "5.000 kip"},
+                  who="T. Nguyen")
+    (b,) = rm.restraints_view(store.current_record(cid), "us").braces
+    assert "stiffness 19.99 kip/in" in b.summary and "good for 5 kip" in b.summary, b.summary
+    lines = " ".join(x.value for x in m.column_detail(store, cid).restraints)
+    assert "stiffness 19.99 kip/in" in lines and "3.50" not in lines, lines
+    trace = " ".join(f"{s.what} {s.value}" for s in cm.latest_summary(store, cid).trace)
+    assert "given: 19.99 kip/in" in trace, trace
+    # the story's lateral stiffness in the record's lines follows the same rule:
+    # 35 kN/mm x 5.7101471 (kip/in)/(kN/mm) = 199.86 kip/in
+    from fieldcol.ui import loads_model as lm
+    lm.set_story(store, cid, "3000.0 kip", "", "35.0 kN/mm")
+    lines = " ".join(x.value for x in m.column_detail(store, cid).record)
+    assert "Story: 3000 kip gravity load, lateral stiffness 199.9 kip/in" in lines, lines
+    # an SI site: the same brace in kN/mm, typed notation dropped the same way
+    assert "stiffness 3.5 kN/mm" in rm.restraints_view(store.current_record(cid), "si"
+                                                       ).braces[0].summary

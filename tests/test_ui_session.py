@@ -307,6 +307,39 @@ def test_an_en_column_offers_no_lrfd_or_asd(tmp_path):
     _run(walk())
 
 
+def test_undo_closes_when_the_screen_changes(demo):
+    """An Undo belongs to the screen its change was made on (or the one its save opened):
+    "Saved theme dark" with Undo must not follow to a column screen, where a tap on it
+    would change the theme back unseen."""
+    store, site = demo
+
+    async def walk():
+        s = Screen(store)
+        await s.start()
+        await s.go("/settings")
+        await s.tap("theme-dark")
+        assert s.app.saver.bar.visible and "theme dark" in s.text("save-note")
+        assert s.app.saver.last is not None
+        await s.go("/settings")  # the same screen drawn again keeps it
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        cid = store.find_column(site.id, "C/3-G").id
+        await s.go(f"/columns/{cid}")
+        assert not s.app.saver.bar.visible and s.app.saver.last is None
+        await s.tap("save-undo")  # the hidden button, if reached, undoes nothing
+        assert store.setting("theme") == "dark"
+        # an edit on one column does not follow to another
+        await s.type("field-length", "13 ft")
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        other = store.find_column(site.id, "B/3-G").id
+        await s.go(f"/columns/{other}")
+        assert not s.app.saver.bar.visible and s.app.saver.last is None
+        # a save that opens a screen keeps its Undo there: the copy, then the list after Delete
+        await s.tap("duplicate-column")
+        assert s.app.saver.bar.visible and s.app.saver.last is not None
+        assert s.app.detail.id != other
+    _run(walk())
+
+
 def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
     store, site = demo
 
@@ -323,7 +356,8 @@ def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
         await s.type("field-length", "12 fr")
         tf = s.inner("field-length", ft.TextField)
         assert tf.value == "12 fr" and tf.error.startswith("Length '12 fr' not understood")
-        assert "not saved" in s.text("save-note")
+        # the bar adds where to look, and never repeats the entry's own words
+        assert s.text("save-note") == "Not saved: check Length."
         assert _length(store, cid) == before
         # the next change takes the message away
         await s.type("field-length", "12 ft", submit=False)
@@ -472,6 +506,14 @@ def test_duplicate_in_one_tap_then_delete_and_undo(demo):
         await s.start()
         src = store.find_column(site.id, "B/3-G")
         await s.go(f"/columns/{src.id}")
+        # Delete alone in the top bar; "Next like this" at the foot, just above the save bar
+        # (one-handed use: the thumb reaches the bottom; a mis-tap at the top costs an Undo)
+        view = s.page.views[-1]
+        in_bar = {c.identifier for c in view.appbar.actions}
+        assert in_bar == {"delete-column"}, in_bar
+        screen = view.controls[0].controls
+        assert screen[-1] is s.app.saver.bar
+        assert screen[-2].content.controls[0].identifier == "duplicate-column"
         await s.tap("duplicate-column")
         tags = {r.tag for r in store.list_columns(site.id, limit=1000)}
         assert "B/5-G" in tags  # B/4-G is taken in the demo: the first free number
@@ -535,6 +577,30 @@ def test_findings_tab_face_height_in_plain_words_and_undo(demo):
     _run(walk())
 
 
+def test_retrofit_axis_starts_on_the_governing_axis(demo):
+    """The option's axis and the sweep's start on the axis whose buckling governs the result
+    (C/2-G of the demo: strong; A/1-G: weak, as ``assess`` says), never unpicked."""
+    from fieldcol.assess import assess
+
+    async def walk():
+        store, site = demo
+        for tag, axis in (("C/2-G", "strong"), ("A/1-G", "weak")):
+            col = store.find_column(site.id, tag)
+            assert assess(store.current_record(col.id)).governing_mode == f"flexural-{axis}"
+            s = await Screen.opened(store, col.id)
+            await s.tap("tab-retrofit")
+            chosen = [c.identifier for c in s.all() if isinstance(c, ft.Semantics)
+                      and (c.identifier or "").startswith(("option-axis-", "sweep-axis-"))
+                      and c.selected]
+            assert sorted(chosen) == [f"option-axis-{axis}", f"sweep-axis-{axis}"], chosen
+            # another kind with an axis starts there too; the engineer can change it
+            await s.tap("option-kind-end")
+            assert s.find(f"option-axis-{axis}").selected
+            await s.tap("option-axis-both")
+            assert s.find("option-axis-both").selected
+    _run(walk())
+
+
 def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
     async def walk():
         store, site = demo
@@ -549,7 +615,8 @@ def test_retrofit_tab_builds_compares_keeps_and_follows_the_column(demo):
         await s.tap("option-add-part")
         assert s.has("option-part-0")
         await s.tap("part-kind-brace")
-        await s.tap("option-axis-weak")
+        # the axis starts on the one that governs A/1-G (weak): no tap needed
+        assert s.find("option-axis-weak").selected
         await s.type("option-at", "6 ft", submit=False)
         await s.tap("option-add-part")
         await s.tap("option-compare")

@@ -5,7 +5,8 @@ theme), ``/sync`` (the office hub: address, token, sync, conflicts, field bundle
 ``/sites/<id>/report`` (the site's PDF report and CSV register, handed out),
 ``/columns/<id>/report`` (one column's calculation sheet, the same way), ``/sites/new``,
 ``/sites/<id>`` (a site's columns), ``/sites/<id>/edit``, ``/sites/<id>/new-column``,
-``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column; Duplicate and Delete in its bar).
+``/sites/<id>/visit`` (start a visit), ``/columns/<id>`` (one column: Delete in its top bar,
+"Next like this" (duplicate) at the foot of the screen, in thumb reach and far from Delete).
 From ``WIDE`` px up, a site's columns stay beside the column shown (two panes).
 
 The column screen is a row of tabs (``TABS``, in order; identifiers ``tab-<name>``; the row
@@ -99,6 +100,7 @@ class FieldApp:
         self.tabs: dict[str, Tab] = {}
         self.tab_error: list[ft.Control] | None = None  # the shown tab could not be read
         self._drawn: str | None = None  # a route drawn before the browser reports it
+        self.screen = "/"  # the route of the screen drawn last (the save bar's messages follow it)
         self.draws = 0  # screens and tabs drawn (sent) so far: the saver sees if one was
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
         self.list_pane = ft.Container(width=400)
@@ -209,14 +211,21 @@ class FieldApp:
 
     def _render(self, route: str, title: str, body: list[ft.Control] | ft.Control,
                 back: str | None, *, scroll: bool = True, title_id: str | None = None,
-                actions: list[ft.Control] | None = None) -> None:
+                actions: list[ft.Control] | None = None,
+                foot: ft.Control | None = None) -> None:
         leading = None
         if back is not None:
             leading = ft.Semantics(identifier="back", content=ft.IconButton(
                 ft.Icons.ARROW_BACK, on_click=self._go(back), tooltip="Back",
                 icon_color=v.ON_ACCENT, icon_size=28))
         self._frame = None  # a new screen: nothing of the last one to change in place
-        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD)
+        self.screen = route
+        self.saver.moved(route)  # a message of another screen closes with this update
+        # a long name (a site's, beside Report and Edit at 390 px) wraps onto a second line
+        # rather than losing its end: two lines of 20 px fit the 56 px bar; beyond that it
+        # ends in "..." and the tooltip (a long press) and screen readers have it whole
+        self._title = ft.Text(title, size=20, color=v.ON_ACCENT, weight=ft.FontWeight.BOLD,
+                              max_lines=2, overflow=ft.TextOverflow.ELLIPSIS, tooltip=title)
         head: ft.Control = self._title
         if title_id is not None:
             head = ft.Semantics(identifier=title_id, header=True, content=head)
@@ -225,9 +234,11 @@ class FieldApp:
         if isinstance(body, list):
             body = ft.ListView(body, spacing=12, padding=12, expand=True) if scroll \
                 else ft.Column(body, expand=True)
-        # the save bar sits under every screen: in thumb reach, never scrolled away
-        screen = ft.Column([ft.Container(body, expand=True), self.saver.bar], spacing=0,
-                           expand=True)
+        # the save bar sits under every screen: in thumb reach, never scrolled away; a
+        # screen's ``foot`` (its quick action) just above it, as near the thumb
+        screen = ft.Column([ft.Container(body, expand=True),
+                            *([foot] if foot is not None else []), self.saver.bar],
+                           spacing=0, expand=True)
         self.page.views.clear()
         self.page.views.append(ft.View(route=route, appbar=bar, controls=[screen], padding=0,
                                        bgcolor=v.BG))
@@ -320,6 +331,7 @@ class FieldApp:
             if sid is not None:
                 self.forms.pop(route, None)
                 self.choices.pop(route, None)
+                self.saver.follow(f"/sites/{sid}")
                 await self.page.push_route(f"/sites/{sid}")
         back = "/" if site_id is None else f"/sites/{site_id}"
         self._render(route, "New site" if site_id is None else "Edit site",
@@ -344,6 +356,7 @@ class FieldApp:
             if cid is not None:
                 self.forms.pop(route, None)
                 self.list.forget()
+                self.saver.follow(f"/columns/{cid}")
                 await self.page.push_route(f"/columns/{cid}")
         self._render(route, "New column", fm.column_form(fields, tag, save), f"/sites/{site_id}")
 
@@ -402,6 +415,7 @@ class FieldApp:
                                         "what is recorded now belongs to it")
             if vis is not None:
                 self.forms.pop(route, None)
+                self.saver.follow(f"/sites/{site_id}")
                 await self.page.push_route(f"/sites/{site_id}")
         self._render(route, "New visit",
                      fm.visit_form(fields, datetime.date.today().isoformat(), self.person, save),
@@ -447,12 +461,14 @@ class FieldApp:
                    self._action(ft.Icons.EDIT, "Edit site", "edit-site",
                                 self._go(f"/sites/{site_id}/edit"))]
         if not self.wide:
-            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions)
+            self._render(f"/sites/{site_id}", title, self._list(site_id), "/", actions=actions,
+                         title_id="site-title")
         else:
             hint = ft.Container(v.text_line("Pick a column to see its check.", color=v.MUTED),
                                 padding=24)
             self._render(f"/sites/{site_id}", title,
-                         self._two_panes(self._list(site_id), hint), "/", actions=actions)
+                         self._two_panes(self._list(site_id), hint), "/", actions=actions,
+                         title_id="site-title")
         await self.list.restore()
 
     def _two_panes(self, left: ft.Control, right: ft.Control) -> ft.Control:
@@ -472,7 +488,9 @@ class FieldApp:
         if f is None or f[1] != site_id or not self.page.views or self.page.views[-1] is not f[0]:
             return False
         f[0].route = route
-        self._title.value = title
+        self.screen = route
+        self.saver.moved(route)  # another column: the last one's Undo goes
+        self._title.value = self._title.tooltip = title
         self._right.content = right
         self.page.update()
         self.draws += 1
@@ -528,20 +546,23 @@ class FieldApp:
         k = len(shown) if n is None else 1 + max(1, n)
         rest = shown[k:] if self.tab_error is None else []
         self.pane.controls = shown[:len(shown) - len(rest)]
-        actions = [self._action(ft.Icons.CONTENT_COPY, "Duplicate: the next column like this one",
-                                "duplicate-column", self._duplicate),
-                   self._action(ft.Icons.DELETE_OUTLINE, "Delete this column (Undo follows)",
+        # Delete alone at the top (a reach away: a mis-tap there costs an Undo); the next
+        # column like this one, the most repeated step of a survey, at the thumb
+        actions = [self._action(ft.Icons.DELETE_OUTLINE, "Delete this column (Undo follows)",
                                 "delete-column", self._delete)]
+        foot = v.column_foot(self._duplicate)
         if not self.wide:
             self._render(f"/columns/{column_id}", f"Column {d.tag}", self.pane,
-                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+                         f"/sites/{d.site_id}", title_id="column-tag", actions=actions,
+                         foot=foot)
         else:
             await self.list.load(d.site_id)
             route, title = f"/columns/{column_id}", f"{d.site_name} · {d.tag}"
             left = self._list(d.site_id, selected=d.id)
             if not self._beside_list(route, title, d.site_id, self.pane):
                 self._render(route, title, self._two_panes(left, self.pane),
-                             f"/sites/{d.site_id}", title_id="column-tag", actions=actions)
+                             f"/sites/{d.site_id}", title_id="column-tag", actions=actions,
+                             foot=foot)
                 self._frame = (self.page.views[-1], d.site_id)
                 await self.list.restore()  # the list beside stays where it was scrolled
         if rest:
@@ -565,6 +586,7 @@ class FieldApp:
                                                    "no demand or readings)")
         if cid is not None:
             self.list.forget()
+            self.saver.follow(f"/columns/{cid}")  # Undo takes the copy away again
             await self.page.push_route(f"/columns/{cid}")
 
     async def _delete(self, _e: Any = None) -> None:
@@ -579,6 +601,7 @@ class FieldApp:
             self.detail = d
             return
         self.list.forget()
+        self.saver.follow(f"/sites/{sid}")  # Undo brings the column back into this list
         await self.page.push_route(f"/sites/{sid}")
 
     # -- the column screen's tabs ---------------------------------------------------------
@@ -658,6 +681,7 @@ class FieldApp:
                 both = None  # the tab reads again below and says why if it cannot
         except InputError:  # the column itself went (deleted): back to its site
             self.detail = None
+            self.saver.follow(f"/sites/{d.site_id}")  # e.g. "Undone: copy of ..." goes along
             await self.page.push_route(f"/sites/{d.site_id}")
             return
         self.visit_id = self.visit.id if self.visit is not None and \

@@ -18,7 +18,7 @@ Public API::
     set_story(store, column_id, load, buckling_load="", stiffness="") -> Change
     save_record_key(store, column_id, path, value, what, name) -> Change
     typed_quantity(text, kind, system, field) -> str
-    load_lines(demand) -> list[str]      # the record's loads in words (screen and report)
+    load_lines(demand, system="") -> list[str]  # the record's loads in words (screen, report)
     AXES, SIDES, CURVATURES
 """
 
@@ -166,9 +166,16 @@ class LoadsView:
         """E.g. ``"Story: 3000 kip gravity load, buckling load 30000 kip"``, or ``""``."""
         if not self.story:
             return ""
-        other = (f"buckling load {self.story['buckling_load']}" if self.story.get("buckling_load")
-                 else f"lateral stiffness {self.story.get('stiffness', '')}")
-        return f"Story: {self.story.get('load', '')} gravity load, {other}"
+        from fieldcol.units import format_entry
+
+        def shown(key: str, kind: str) -> str:  # the one display rule, as the trace writes;
+            text = self.story.get(key, "")     # with no site system (the report) as typed
+            return format_entry(text, kind, self.system) if self.system in ("us", "si") \
+                else str(text)
+        other = (f"buckling load {shown('buckling_load', 'force')}"
+                 if self.story.get("buckling_load")
+                 else f"lateral stiffness {shown('stiffness', 'stiffness')}")
+        return f"Story: {shown('load', 'force')} gravity load, {other}"
 
 
 def _demand(record: dict[str, Any]) -> dict[str, Any]:
@@ -193,13 +200,15 @@ def _parts(d: dict[str, Any]) -> tuple[list[ReactionLine], dict[str, MomentLine]
     return reactions, moments, story
 
 
-def load_lines(demand: Any) -> list[str]:
+def load_lines(demand: Any, system: str = "") -> list[str]:
     """The loads a demand holds beyond its axial force, one line each in words: moments given
     (second order), first-order end moments, beam reactions, the story. For the column's
     record in words on the screen and in the report.
 
     Args:
         demand: a record's ``demand`` (anything else gives no line).
+        system: the site's ``us`` or ``si``: the story's loads and stiffness by the one display
+            rule (``units.format_entry``); empty (the report's record in words): as typed.
 
     Returns:
         The lines, e.g. ``["Reaction 1: 40 kip, strong axis, 6 in off the centre, + side"]``.
@@ -221,7 +230,7 @@ def load_lines(demand: Any) -> list[str]:
     out += [m.words for m in moments.values()]
     out += [r.words for r in reactions]
     if story:
-        out.append(LoadsView("", "", "", "", "", "", False, [], {}, story).story_words)
+        out.append(LoadsView("", system, "", "", "", "", False, [], {}, story).story_words)
     return out
 
 

@@ -420,7 +420,20 @@ def same_page_again(store: "Store", page: ColumnPage) -> ColumnPage:
 
 
 # -- one column --------------------------------------------------------------------------
+def _spring_words(spec: Any, system: str) -> str:
+    """A spring end in words, its stiffnesses by the one display rule (``format_entry``)."""
+    from fieldcol.units import format_entry
+
+    if not isinstance(spec, dict):
+        return _describe(spec)
+    kinds = {"rotation": "rotational_stiffness", "translation": "stiffness"}
+    return ", ".join(f"{k} {format_entry(v, kinds[k], system)}" if k in kinds
+                     else f"{k} {_describe(v)}" for k, v in spec.items())
+
+
 def _restraint_lines(rec: dict[str, Any], system: str) -> list[Line]:
+    from fieldcol.units import format_entry
+
     out = []
     restraints = rec.get("restraints") if isinstance(rec.get("restraints"), dict) else {}
     for axis in ("strong", "weak", "twist"):
@@ -432,7 +445,7 @@ def _restraint_lines(rec: dict[str, Any], system: str) -> list[Line]:
             if end in spec:
                 e = spec[end]
                 parts.append(f"{end}: " + (END_WORDS.get(e, str(e)) if isinstance(e, str)
-                                            else "spring " + _describe(e)))
+                                            else "spring " + _spring_words(e, system)))
         if axis == "twist" and not parts:
             parts.append("held at both ends")
         if "k" in spec:
@@ -443,8 +456,8 @@ def _restraint_lines(rec: dict[str, Any], system: str) -> list[Line]:
             text = "brace at " + _length_text(b.get("at"), system)
             if b.get("cable"):
                 text = "cable at " + _length_text(b.get("at"), system)
-            if b.get("stiffness"):
-                text += f", stiffness {b['stiffness']}"
+            if b.get("stiffness"):  # as the trace and the brace requirement write it
+                text += f", stiffness {format_entry(b['stiffness'], 'stiffness', system)}"
             if b.get("added"):
                 text += f" (added: {b['added']})"
             parts.append(text)
@@ -511,7 +524,7 @@ def column_detail(store: "Store", column_id: str) -> ColumnDetail:
               Line("Code", CODE_NAMES.get(rec.get("code") or site.code, str(rec.get("code"))))]
     from fieldcol.ui.loads_model import load_lines
 
-    record += [Line("Loads", x) for x in load_lines(demand)]
+    record += [Line("Loads", x) for x in load_lines(demand, system)]
     cond = rec.get("condition")
     if isinstance(cond, dict) and cond:
         parts = []

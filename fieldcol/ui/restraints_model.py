@@ -149,18 +149,22 @@ def _draft_of(b: Mapping[str, Any], axis: str, twist: bool) -> dict[str, Any]:
             "twist": twist}
 
 
-def _summary(b: Mapping[str, Any], kind: str) -> str:
+def _summary(b: Mapping[str, Any], kind: str, system: str) -> str:
+    """A brace in a line; its stiffness and strength by the one display rule (as the
+    trace and the brace requirement beside them write theirs: ``units.format_entry``)."""
+    from fieldcol.units import format_entry
+
     parts = [kind]
     cable = b.get("cable") if isinstance(b.get("cable"), dict) else None
     if cable:
         parts.append(f"{cable.get('area', '?')} at {cable.get('angle', '?')}, "
                      f"{cable.get('length', '?')} long")
     elif b.get("stiffness"):
-        parts.append(f"stiffness {b['stiffness']}")
+        parts.append(f"stiffness {format_entry(b['stiffness'], 'stiffness', system)}")
     else:
         parts.append("stiffness not recorded: taken as rigid")
     if b.get("strength"):
-        parts.append(f"good for {b['strength']}")
+        parts.append(f"good for {format_entry(b['strength'], 'force', system)}")
     return ", ".join(parts)
 
 
@@ -211,7 +215,8 @@ def restraints_view(record: Mapping[str, Any], system: str) -> Restraints:
             kind = str(b.get("kind") or ("cable" if b.get("cable") else "strut"))
             twist = b.get("at") in twist_at
             out.append(BraceView(tuple(refs), axis, str(b.get("at", "")), text,
-                                 mm if mm is not None else math.nan, kind, _summary(b, kind),
+                                 mm if mm is not None else math.nan, kind,
+                                 _summary(b, kind, system),
                                  str(b.get("added") or ""), str(b.get("seen_by") or ""),
                                  str(b.get("note") or ""), _draft_of(b, axis, twist)))
     out.sort(key=lambda x: (x.at_mm if math.isfinite(x.at_mm) else math.inf))

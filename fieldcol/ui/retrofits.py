@@ -352,10 +352,13 @@ def drop_option(store: "Store", retrofit_id: str) -> None:
     store.delete("retrofits", retrofit_id)
 
 
-def sweep_axis(store: "Store", column_id: str) -> str:
-    """The axis a sweep starts on: the one whose buckling governs, else the weak axis.
+def governing_axis(store: "Store", column_id: str) -> str:
+    """The axis the Retrofit tab's axis choices start on (the option's and the sweep's): the
+    one whose buckling governs the column's result, else the weak axis (yielding, twisting
+    or a column not yet checkable: a brace usually goes there first). The engineer can pick
+    another.
 
-    Example: ``sweep_axis(store, cid)`` gives ``'weak'`` for a W shape pinned both ways.
+    Example: ``governing_axis(store, cid)`` gives ``'weak'`` for a W shape pinned both ways.
     """
     from fieldcol.assess import assess
 
@@ -410,4 +413,4 @@ def brace_sweep(store: "Store", column_id: str, axis: str, *, points: int = 11,
 
 __all__ = ["plates_refused", "KIND_WORDS", "FORM_FIELDS", "CHOICES", "Compared", "Sweep", "SweepPoint",
            "option_of", "form_field", "compare_option", "saved_options", "keep_option",
-           "drop_option", "sweep_axis", "brace_sweep"]
+           "drop_option", "governing_axis", "brace_sweep"]

@@ -6,6 +6,8 @@ Public API::
     result = await app.saver.save(label, do, undo=None, field=None, *, done=None)
     await app.saver.undo_last()              # what the Undo button runs
     app.saver.say(text)                      # a plain message in the same bar (no action)
+    app.saver.follow(route)                  # the message goes on with the screen a save opens
+    app.saver.moved(route)                   # a screen was drawn (FieldApp._render calls it)
     app.saver.bar                            # the bar control (identifier ``save-note``)
     plain_error(e: InputError) -> str        # the plain words for an error
     failure_words(e: BaseException) -> str   # a store / device failure in plain words
@@ -13,9 +15,11 @@ Public API::
 
 ``do(store) -> T`` runs in a worker thread under ``app.lock``. What happens next:
 
-- ``InputError``: returns ``None``. With ``field`` (a TextField) the typed text stays and the
-  error shows under it in plain words; it goes on the field's next change. The bar says
-  "<Label> not saved: ..." .
+- ``InputError``: returns ``None``. With ``field`` (a TextField, or a form's entries by
+  name) the typed text stays and the error shows under the entry in plain words; it goes on
+  the field's next change, and the bar only says "Not saved: check <the entry's label>." (it
+  never repeats the entry's words). With no entry to show it the bar says
+  "<Label> not saved: <plain words>".
 - ``StoreBusyError``, any ``sqlite3.Error`` or ``OSError``: returns ``None``; the bar says
   "Not saved: ..." with a Retry button (identifier ``save-retry``) that runs the same ``do``
   again. Whatever was typed stays where it was.
@@ -23,6 +27,10 @@ Public API::
   with an Undo button (identifier ``save-undo``) when ``undo(store)`` is given; then
   ``await app.changed()``; returns ``do``'s result. Only the last change can be undone, and
   Undo goes through ``save`` too (so a busy store during an undo also offers Retry).
+
+A message belongs to the screen it was said on (or, by ``follow``, the one its save opened:
+a new column, the site after a deletion): drawn another screen, the bar closes and its Undo
+or Retry is dropped, so an Undo never acts on a change the screen shown does not hold.
 """
 
 from __future__ import annotations
@@ -141,6 +149,11 @@ def failure_words(e: BaseException) -> str:
     return f"The database refused the change ({e}). Retry, or note it down."
 
 
+def _screen(route: str) -> str:
+    """A route less its query and trailing slash: the screen it draws."""
+    return route.split("?")[0].rstrip("/") or "/"
+
+
 @dataclass
 class _Change:
     label: str
@@ -177,6 +190,7 @@ class Saver:
         self._retry = self._button("Retry", ft.Icons.REFRESH, "save-retry", self._run_retry)
         self._undo = self._button("Undo", ft.Icons.UNDO, "save-undo", self.undo_last)
         self._running: set[str] = set()  # the labels of the saves under way
+        self.home: str | None = None  # the screen (route) the bar's message belongs to
 
     # -- the bar --------------------------------------------------------------------------
     def say(self, text: str, *, kind: str = "ok", button: ft.Control | None = None,
@@ -200,8 +214,32 @@ class Saver:
         if self.action.controls != wanted:
             self.action.controls = wanted
         self.bar.visible = bool(text)
+        self.home = getattr(self.app, "screen", None)
         if draw:
             self.app.page.update()
+
+    def follow(self, route: str) -> None:
+        """The message (and its Undo) goes on with the screen ``route``, which the save just
+        made and the caller opens next (the copy of a column, the site of a deleted one).
+
+        Example: ``app.saver.follow(f"/columns/{cid}")`` before ``page.push_route`` to it.
+        """
+        self.home = route
+
+    def moved(self, route: str) -> None:
+        """A screen was drawn: a message of another screen closes, its Undo and Retry with it
+        ("Saved theme dark" with Undo, met on a column screen, would undo what is not there).
+        The same screen drawn again (a redraw, a resize) keeps it. Nothing is sent here: the
+        caller's update carries the closed bar.
+
+        Example: ``app.saver.moved("/columns/" + cid)`` (``FieldApp`` calls it).
+        """
+        if self.home is None or _screen(route) == _screen(self.home):
+            return
+        self.home = None
+        self.last = None
+        self._retry_do = None
+        self.clear()
 
     def clear(self) -> None:
         """Hide the bar (the last change stays undoable until the next one).
@@ -254,13 +292,15 @@ class Saver:
             at = field.get(e.field) or field.get(e.field.split(".")[0]) \
                 if isinstance(field, dict) else field
             if at is not None:
+                # the entry says what is wrong, under itself; the bar, read away from it,
+                # only says that nothing was saved and which entry to look at (the same
+                # sentence twice on one screen read as two errors). The entry is named as
+                # its label reads: "Cable or rod length", not "Length" (the column's)
                 self._show_at(at, words)
-            # the bar is read away from the form: a form's entry is named as labelled there
-            # ("Cable or rod length is needed", not "Length", which reads as the column's)
-            named = _label_words(at) if isinstance(field, dict) and \
-                field.get(e.field) is at else None
-            self.say(f"{label[:1].upper() + label[1:]} not saved: {plain_error(e, named)}",
-                     kind="error")
+                self.say(f"Not saved: check {_label_words(at) or _words(e.field)[0]}.",
+                         kind="error")
+                return None
+            self.say(f"{label[:1].upper() + label[1:]} not saved: {words}", kind="error")
             return None
         finally:
             self._running.discard(label)

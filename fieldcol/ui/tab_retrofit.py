@@ -44,6 +44,15 @@ CHART_INK, CHART_GRID, CHART_EDGE, CHART_BG = v.ACCENT, v.GRID, v.INK, v.CARD
 _START: dict[str, dict[str, str]] = {"plates": {"connection": "welded"}}
 
 
+def _starting(kind: str, governs: str) -> dict[str, str]:
+    """What a form of ``kind`` starts with: ``_START``, and its axis on ``governs`` (the axis
+    that governs the column's result; see ``retrofits.governing_axis``)."""
+    typed = dict(_START.get(kind, {}))
+    if governs and any(name == "axis" for name, _label, _hint in rm.FORM_FIELDS[kind]):
+        typed["axis"] = governs
+    return typed
+
+
 def _fresh() -> dict[str, Any]:
     return {"kind": "brace", "part": "brace",
             "typed": {k: dict(_START.get(k, {})) for k in SINGLE}, "parts": [],
@@ -159,9 +168,12 @@ class RetrofitTab(Tab):
         """Check every kept option against the column as it stands (off the UI loop)."""
         cid = self.cid
         store = self.app.store
-        record = await asyncio.to_thread(store.current_record, cid)
+
+        def read() -> tuple[dict, str | None, str]:
+            record = store.current_record(cid)
+            return record, rm.plates_refused(record), rm.governing_axis(store, cid)
+        record, self.no_plates, governs = await asyncio.to_thread(read)
         key = json.dumps(record, sort_keys=True)
-        self.no_plates = await asyncio.to_thread(rm.plates_refused, record)
         try:
             self.options = await asyncio.to_thread(rm.saved_options, store, cid)
             self.load_error = None
@@ -171,6 +183,13 @@ class RetrofitTab(Tab):
         if st.get("record") != key:
             # what was on screen was for the column as it was: it is worked out again on request
             st.update(record=key, compared=None, sweep=None)
+        # every axis choice starts on the axis that governs (the sweep's too: it showed weak
+        # chosen while sweeping the governing axis); one the engineer picked stays
+        st["governs"] = governs
+        st["sweep_axis"] = st["sweep_axis"] or governs
+        for kind, typed in st["typed"].items():
+            if not typed.get("axis"):
+                typed.update({k: x for k, x in _starting(kind, governs).items() if k == "axis"})
         if self.no_plates:  # a choice the column cannot take is not left picked
             st["kind"] = "brace" if st["kind"] == "plates" else st["kind"]
             st["part"] = "brace" if st["part"] == "plates" else st["part"]
@@ -311,7 +330,7 @@ class RetrofitTab(Tab):
 
     def _sweep(self) -> ft.Control:
         st = self.st
-        axis = st["sweep_axis"] or "weak"
+        axis = st["sweep_axis"] or "weak"  # set by load(): the governing axis
         body: list[ft.Control] = [
             text_line("Where would one new rigid brace help most? The column's design strength "
                       "with the brace at heights up the column.", size=16, color=MUTED),
@@ -418,7 +437,7 @@ class RetrofitTab(Tab):
         one = self._single()
         if one is not None:
             st["parts"].append(one)
-            st["typed"][st["part"]] = dict(_START.get(st["part"], {}))
+            st["typed"][st["part"]] = _starting(st["part"], st.get("governs", ""))
             st["errors"] = {}
             self._say(f"Part {len(st['parts'])} added: {rm_label(one)}")
         self._redraw()
@@ -496,7 +515,8 @@ class RetrofitTab(Tab):
     async def _run_sweep(self, _e: Any = None) -> None:
         st = self.st
         cid = self.cid
-        axis = st["sweep_axis"] or await asyncio.to_thread(rm.sweep_axis, self.app.store, cid)
+        axis = st["sweep_axis"] or await asyncio.to_thread(rm.governing_axis, self.app.store,
+                                                           cid)
         st.update(sweep_axis=axis, busy="Working out the sweep (11 heights)...")
         self._redraw()
         try:

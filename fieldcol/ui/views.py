@@ -166,6 +166,32 @@ def tab_row(tabs: list[tuple[str, str, ft.IconData]], current: str, counts: dict
                         border=ft.Border.all(1, LINE), bgcolor=CARD)
 
 
+def column_foot(duplicate: Handler) -> ft.Control:
+    """The column screen's foot, above the save bar: "Next like this" (a copy of the shown
+    column under the next free tag), the step repeated most on a survey, at the bottom right
+    where a thumb holding the phone reaches; Delete stays alone at the top.
+
+    Args:
+        duplicate: the click handler that makes and opens the copy.
+
+    Returns:
+        A strip with one filled button (identifier ``duplicate-column``, 48 px high).
+
+    Example: ``column_foot(app._duplicate)``.
+    """
+    button = ft.FilledTonalButton("Next like this", icon=ft.Icons.CONTENT_COPY,
+                                  on_click=duplicate, height=TAP,
+                                  tooltip="A copy of this column under the next tag "
+                                          "(section, length, restraints, material)")
+    return ft.Container(
+        ft.Row([ft.Semantics(identifier="duplicate-column", button=True,
+                             label="Next like this: a copy of this column under the next tag",
+                             content=button)],
+               alignment=ft.MainAxisAlignment.END),
+        padding=ft.Padding.symmetric(horizontal=12, vertical=4), bgcolor=BG,
+        border=ft.Border.only(top=ft.BorderSide(1, LINE)))
+
+
 def choice_chip(identifier: str, word: str, chosen: bool, on_click: Handler) -> ft.Control:
     """One choice of a row of choices (a filter): 48 px high, the chosen one filled, ticked and
     said "(chosen)" (never colour alone).
