@@ -26,6 +26,7 @@ from pathlib import Path
 from typing import Any
 
 from fieldcol.errors import InputError
+from fieldcol.store._gcpause import gc_paused
 from fieldcol.store._migrations import MIGRATION_NAMES
 from fieldcol.store._oplog import (_CLOCK_END, _FILE_FIELDS, _FILE_TABLES, _SCALARS,
                                    MAX_VALUE_CHARS, QUIET, ROW, Schema, ops_from_json)
@@ -138,7 +139,7 @@ def apply_snapshot(store: Any, src: str | Path, *, hub_id: str, cursor: str) -> 
     with store._lock, ThreadPoolExecutor(max_workers=1,
                                          thread_name_prefix="fieldcol-snapshot") as pool:
         # the operations are checked beside the copy; the copy commits only if they pass
-        checked = pool.submit(_check_ops, src, schema, where)
+        checked = pool.submit(_check_ops_paused, src, schema, where)
         # (a plain path: the store's connection does not read URIs, and nothing here writes
         # to the file)
         conn.execute("ATTACH DATABASE ? AS snap", [str(src)])
@@ -260,6 +261,12 @@ def _check_files(conn: sqlite3.Connection, where: str) -> dict[str, str]:
                                  "not a photo file name of this store", None)
         out[values["sha256"]] = values["path"]
     return out
+
+
+def _check_ops_paused(src: Path, schema: Schema, where: str) -> None:
+    # tens of thousands of small dicts, none in a cycle (see ``_gcpause``)
+    with gc_paused():
+        _check_ops(src, schema, where)
 
 
 def _check_ops(src: Path, schema: Schema, where: str) -> None:
