@@ -6,7 +6,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1] / "fieldcol"
 CORE = ["errors.py", "units.py", "materials.py", "trace.py", "record.py", "recordkeys.py", "assess.py",
         "demand.py", "sections", "stability", "codes", "retrofit", "retrofit.py",
-        "bending.py", "band.py", "uncertainty.py", "_lazy.py"]
+        "bending.py", "band.py", "uncertainty.py", "_lazy.py", "chartlabels.py"]
 FORBIDDEN = ("fieldcol.store", "fieldcol.cli", "fieldcol.ui", "fieldcol.sync", "fieldcol.report",
              "flet", "sqlite_utils", "sqlite3")
 

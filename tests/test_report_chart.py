@@ -6,7 +6,7 @@ Outside references: pypdf (a general-purpose PDF library from PyPI) reads the pa
 and its path operators (ISO 32000-1 8.5.2: ``m``, ``l``, ``c``, ``re``; 9.4.2: ``Td``); the
 width of each word comes from the bundled DejaVu Sans files' own advance widths (read by
 fpdf2, which parses the TrueType tables), its height from the font's ascent and descent
-(``_labels.text_box``). 1 pt = 25.4 / 72 mm.
+(``chartlabels.text_box``). 1 pt = 25.4 / 72 mm.
 """
 
 from __future__ import annotations
@@ -22,7 +22,7 @@ from pypdf.generic import ContentStream
 
 from fieldcol.assess import assess
 from fieldcol.report import site_report
-from fieldcol.report._labels import (boxes_meet, place, segment_meets_box, segments_cross,
+from fieldcol.chartlabels import (boxes_meet, place, segment_meets_box, segments_cross,
                                      text_box)
 from fieldcol.report._layout import ASSETS, FONT
 from fieldcol.store import Store

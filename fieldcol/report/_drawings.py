@@ -217,9 +217,9 @@ def _groups(pts: list, at: list[tuple[float, float]]) -> list[list[int]]:
 def _point_labels(pdf: ReportPDF, ch: "Chart", shown: list, drawn: list, scale: tuple,
                   plot: tuple[float, float, float, float], title: str) -> float:
     """The column's points with their words and, where a code has more than one curve, each
-    curve's name, placed by ``_labels.place`` so no word overlaps another, a curve or a point;
+    curve's name, placed by ``chartlabels.place`` so no word overlaps another, a curve or a point;
     then the caption. Returns the height a numbered key under the chart took (0 without)."""
-    from fieldcol.report import _labels
+    from fieldcol import chartlabels as _labels
 
     sx, sy = scale
     px, py, pw, ph = plot

@@ -154,22 +154,76 @@ def curve_canvas(chart: Chart, width: float = 340, height: float = 240) -> cv.Ca
     shapes.append(_text(right, bottom + 24, chart.x_name, 16, INK, True, ft.Alignment.TOP_RIGHT))
     shapes.append(_text(4, 4, f"{chart.stress_name} ({chart.stress_unit})", 16, INK, True))
     dashes = [None, [6, 4], [2, 3]]
+    drawn: list[tuple[float, float, float, float]] = [(left, bottom, right, bottom),
+                                                      (left, top, left, bottom)]
+    written = [(4.0, 4.0, 4.0 + text_width(f"{chart.stress_name} ({chart.stress_unit})", 16),
+                4.0 + LINE * 16)]
     for i, (label, pts) in enumerate(chart.curves):
         xy = _thinned([(px(x), py(s)) for x, s in pts])
         path = [cv.Path.MoveTo(*xy[0])] + [cv.Path.LineTo(x, y) for x, y in xy[1:]]
         shapes.append(cv.Path(path, _paint(STEEL, 2.5, dash=dashes[i % 3])))
+        drawn += [(*a, *b) for a, b in zip(xy, xy[1:])]
         # named in the top right corner, which a falling curve leaves empty
         shapes.append(_text(right - 4, top + 4 + 20 * i, label, 16, STEEL,
                             align=ft.Alignment.TOP_RIGHT))
+        written.append((right - 4 - text_width(label, 16), top + 4 + 20 * i, right - 4,
+                        top + 4 + 20 * i + LINE * 16))
+    marks = []
     for p in chart.points:
         x, yv = px(p.x), py(p.stress)
         if p.governs:
             shapes.append(cv.Circle(x, yv, 7, _paint(SHAPE, fill=True)))
-            shapes.append(_text(min(x + 9, right - 150), yv - 26, f"{p.label}: governs", 16,
-                                SHAPE, True))
         else:  # named in the key under the chart: labels of close points would overlap
             shapes.append(cv.Circle(x, yv, 6, _paint(INK, 2)))
+            marks.append((x - 7, yv - 7, x + 7, yv + 7))   # the ring's stroke reaches 7 px
+    for p in chart.points:
+        if p.governs:
+            shapes += _governs_label(f"{p.label}: governs", (px(p.x), py(p.stress)),
+                                     (left + 2, 0, right, bottom - 2), drawn,
+                                     written + marks)
     return cv.Canvas(shapes=shapes, width=width, height=height)
+
+
+#: the app's logical pixel in the placer's millimetres and points (CSS: 96 px to the inch)
+_MM, _PT = 25.4 / 96, 0.75
+#: a line of text's height per px of font size (Flutter's line box for its sans fonts is
+#: ~1.17 em; rounded up) and a bold letter's width per px (the widest of our labels in DejaVu
+#: Sans Bold, a wide face, runs 0.59 em a letter; rounded up, since the client picks the font)
+LINE, BOLD_LETTER = 1.25, 0.65
+
+
+def text_width(text: str, size: float) -> float:
+    """A conservative width of one line of text on the canvas, px: the client measures text,
+    the server cannot, so labels are kept clear by this estimate.
+
+    Example:
+        >>> text_width("weak (y): governs", 16)
+        176.8
+    """
+    return round(len(text) * BOLD_LETTER * size, 1)
+
+
+def _governs_label(text: str, at: tuple[float, float], area: tuple[float, float, float, float],
+                   lines: list[tuple[float, float, float, float]],
+                   keep_out: list[tuple[float, float, float, float]]) -> list[cv.Shape]:
+    """The governing point's words, placed by ``chartlabels.place`` (the report's rule) clear
+    of the curves, the axes, the other points and the words already written; on a leader line
+    where the room beside the point is taken. Nothing where no place is free: the key under
+    the chart names the governing point in bold all the same."""
+    from fieldcol import chartlabels
+
+    def mm(b: tuple[float, ...]) -> tuple[float, ...]:
+        return tuple(v * _MM for v in b)
+
+    got = chartlabels.place([mm(at)], [mm((text_width(text, 16), LINE * 16))], 16 * _PT,
+                            area=mm(area), lines=[mm(s) for s in lines],
+                            keep_out=[mm(b) for b in keep_out], radii=[7 * _MM])[0]
+    if got is None:
+        return []
+    out: list[cv.Shape] = [_text(got.box[0] / _MM, got.box[1] / _MM, text, 16, SHAPE, True)]
+    if got.leader is not None:
+        out.insert(0, cv.Line(*(v / _MM for v in got.leader), _paint(SHAPE, 1.5)))
+    return out
 
 
 def _thinned(xy: list[tuple[float, float]], *, tol: float = 0.5) -> list[tuple[float, float]]:

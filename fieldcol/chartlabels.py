@@ -2,8 +2,11 @@
 the other points, the other labels and the axis title; further off with a leader line where the
 room beside it is taken; and, where no place in the chart is free, a numbered key under it.
 
-Plain geometry in the page's millimetres (y downwards, as fpdf2 places things), so the same
-rule can be checked without drawing anything (``tests/test_report_chart.py``).
+Plain geometry in millimetres (y downwards, as fpdf2 and a Flet canvas place things), so the
+same rule can be checked without drawing anything (``tests/test_report_chart.py``). Both faces
+use it: the report's column curve in the page's mm and pt, the app's (``ui._drawing``) in its
+logical pixels taken as 1 px = 25.4 / 96 mm = 0.75 pt, so the rings, the gap and the grid keep
+the same size to the eye on paper and on screen. It imports nothing of either face.
 """
 
 from __future__ import annotations
