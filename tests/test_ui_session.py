@@ -340,6 +340,49 @@ def test_undo_closes_when_the_screen_changes(demo):
     _run(walk())
 
 
+def test_a_save_that_ends_after_its_screen_is_gone_is_kept_and_says_nothing_there(demo):
+    """A save still running when the engineer moves on (held here behind the app's write
+    lock, as a save queued behind another is) is kept, but neither "Saved ..." nor its Undo
+    reaches the screen then shown: there the words would read as about the column in sight,
+    and a tap on Undo would take back a change that is not."""
+    store, site = demo
+
+    async def walk():
+        cid = store.find_column(site.id, "C/3-G").id
+        other = store.find_column(site.id, "B/3-G").id
+        s = await Screen.opened(store, cid)
+        for there, still, leave_to in ((cid, other, f"/columns/{other}"),
+                                       (other, cid, f"/sites/{site.id}")):
+            await s.go(f"/columns/{there}")
+            untouched = _length(store, still)
+            await s.app.lock.acquire()
+            typed = asyncio.get_running_loop().create_task(s.type("field-length", "13 ft"))
+            for _ in range(100):  # until the save waits on the lock
+                await asyncio.sleep(0.01)
+                if "length 13 ft" in s.app.saver._running:
+                    break
+            assert "length 13 ft" in s.app.saver._running
+            await s.go(leave_to)
+            assert s.app.screen == leave_to
+            s.app.lock.release()
+            await typed
+            await s.settle()
+            assert _length(store, there) == "13 ft"  # the save itself is kept
+            assert not s.app.saver.bar.visible and "13 ft" not in s.app.saver.text.value, \
+                (leave_to, s.app.saver.text.value)
+            assert s.app.saver.last is None
+            if s.has("save-undo"):  # the hidden button, if reached, undoes nothing
+                await s.tap("save-undo")
+            assert _length(store, there) == "13 ft" and _length(store, still) == untouched
+        # the site screen shown reads the column's new status; a save made on it says so
+        assert s.app.screen == f"/sites/{site.id}"
+        await s.go(f"/columns/{other}")
+        await s.type("field-length", "14 ft")
+        assert s.app.saver.bar.visible and s.text("save-note").startswith("Saved length 14 ft")
+        assert s.app.saver.last is not None
+    _run(walk())
+
+
 def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
     store, site = demo
 

@@ -30,7 +30,9 @@ Public API::
 
 A message belongs to the screen it was said on (or, by ``follow``, the one its save opened:
 a new column, the site after a deletion): drawn another screen, the bar closes and its Undo
-or Retry is dropped, so an Undo never acts on a change the screen shown does not hold.
+or Retry is dropped, so an Undo never acts on a change the screen shown does not hold. A save
+that finishes after the engineer has left the screen it was made on is kept but says nothing
+(no "Saved", no Undo) on the screen then shown.
 """
 
 from __future__ import annotations
@@ -278,6 +280,7 @@ class Saver:
         if label in self._running:  # Enter then leaving the entry: the same change, once
             return None
         self._running.add(label)
+        began = _screen(getattr(app, "screen", None) or "/")  # the screen the change was made on
         try:
             async with app.lock:
                 result = await asyncio.to_thread(do, app.store)
@@ -307,12 +310,18 @@ class Saver:
         for tf in (field.values() if isinstance(field, dict) else [field]):
             if tf is not None and tf.error:
                 tf.error = None
-        self.last = _Change(label, undo) if undo is not None else None
-        text = done(result) if callable(done) else (done or f"Saved {label}")
-        self._retry_do = None
-        # the words and the re-checked screen go to the client in one update: "Saved ...;
-        # checked again: 0.58 OK" never shows above the old result
-        self.say(text, button=self._undo if undo is not None else None, draw=False)
+        if _screen(getattr(app, "screen", None) or "/") == began:
+            self.last = _Change(label, undo) if undo is not None else None
+            text = done(result) if callable(done) else (done or f"Saved {label}")
+            self._retry_do = None
+            # the words and the re-checked screen go to the client in one update: "Saved ...;
+            # checked again: 0.58 OK" never shows above the old result
+            self.say(text, button=self._undo if undo is not None else None, draw=False)
+        # else the engineer moved on while it ran (a slow disk, a save queued behind another):
+        # the change is kept, but its words would read as about the screen now shown ("Saved
+        # length 13 ft" over another column) and its Undo would take back a change not in
+        # sight; the bar, its Undo and Retry stay as the new screen left them. The screen
+        # shown is still read again below, so a list shows the column's new status
         draws = getattr(app, "draws", 0)
         try:
             await app.changed()
