@@ -383,6 +383,38 @@ def test_a_save_that_ends_after_its_screen_is_gone_is_kept_and_says_nothing_ther
     _run(walk())
 
 
+def test_the_address_of_a_gone_column_shows_the_sites_and_says_why(demo):
+    """Back, Forward or an old address at a column since deleted (its tombstone stays in the
+    file) shows the sites with the reason in the bar, never the deleted column open to
+    edits; so does an id this device never held. The address follows."""
+    store, site = demo
+
+    async def walk():
+        s = await Screen.opened(store)
+        col = store.find_column(site.id, "C/3-G")
+        await s.go(f"/columns/{col.id}")
+        assert s.app.detail is not None and s.app.detail.tag == "C/3-G"
+        await s.go(f"/sites/{site.id}")
+        store.delete("columns", col.id)   # as another session or a sync would
+        await s.go(f"/columns/{col.id}")   # Back, or an address kept
+        assert s.app.detail is None and s.page.route == "/" and s.app.screen == "/"
+        assert s.has(f"site-{SITE_NAME}") and not s.has("status")
+        assert s.app.saver.bar.visible and s.app.saver.last is None
+        assert s.text("save-note") == "Column C/3-G was deleted: the sites are shown."
+        await s.go("/columns/00000000-0000-7000-8000-000000000000")
+        assert s.page.route == "/" and s.has(f"site-{SITE_NAME}")
+        assert s.text("save-note").startswith("No column at that address on this device")
+        # the copy taken away by Undo goes the same way: back to its site
+        other = store.find_column(site.id, "B/3-G")
+        await s.go(f"/columns/{other.id}")
+        await s.tap("duplicate-column")
+        assert s.app.detail.id != other.id
+        await s.tap("save-undo")
+        assert s.page.route == f"/sites/{site.id}" and s.app.detail is None
+        assert s.text("save-note").startswith("Undone: copy")
+    _run(walk())
+
+
 def test_bad_entry_in_plain_words_text_kept_error_gone_once_fixed(demo):
     store, site = demo
 

@@ -72,6 +72,16 @@ TABS: list[type[Tab]] = [CheckTab, SectionTab, RestraintsTab, ConditionTab, Find
                          RetrofitTab, HistoryTab]
 
 
+class ColumnGone(InputError):
+    """The column of an address is not on this device any more (deleted here, with its site,
+    or by a sync) or never was (an old or mistyped address); ``tag`` its tag if known."""
+
+    def __init__(self, column_id: str, tag: str | None) -> None:
+        super().__init__("column", column_id, "this column was deleted" if tag else
+                         "no column with this id on this device", None)
+        self.tag = tag
+
+
 class FieldApp:
     """One browser tab (or device window) of the app: its page, the shared store, its state.
 
@@ -100,6 +110,7 @@ class FieldApp:
         self.tabs: dict[str, Tab] = {}
         self.tab_error: list[ft.Control] | None = None  # the shown tab could not be read
         self._drawn: str | None = None  # a route drawn before the browser reports it
+        self._address: str | None = None  # the view's route while drawn under another
         self.screen = "/"  # the route of the screen drawn last (the save bar's messages follow it)
         self.draws = 0  # screens and tabs drawn (sent) so far: the saver sees if one was
         self.pane = ft.ListView(spacing=12, padding=12, expand=True)
@@ -185,11 +196,35 @@ class FieldApp:
         except (sqlite3.Error, OSError, StoreBusyError) as e:
             # the store could not be read (busy, locked, a disk fault): never a blank screen
             self._failed(route, e)
+        except ColumnGone as e:  # a reload or Back at a column since deleted, an old address
+            await self._column_gone(e)
         except InputError as e:  # e.g. an id that no longer exists: say so, keep the app usable
             self.detail = None
             self._render("/", "fieldcol", [v.text_line(str(e), color=v.TONES["over"][0]),
                                           ft.Button("Back to sites", on_click=self._go("/"),
                                                     height=v.TAP)], None)
+
+    async def _column_gone(self, e: ColumnGone) -> None:
+        """The sites, with why in the bar, for the address of a column that is gone."""
+        self.detail = None
+        words = (f"Column {e.tag} was deleted: the sites are shown." if e.tag else
+                 "No column at that address on this device: the sites are shown.")
+        if self.draws:  # within a session (Back, Forward): the address moves and is drawn
+            self.saver.say(words, kind="info", draw=False)
+            self.saver.follow("/")
+            await self.page.push_route("/")
+            return
+        # the session's first screen (a reload at the address): drawn under the address the
+        # browser holds, which stays. A screen of another route, or a new address pushed
+        # while the session starts, left the web client blank (seen in headless chromium,
+        # no error on either side); a site's own screen as the first one is blank as well
+        # (also on a plain reload at /sites/<id>), so the sites, not the column's site
+        self._address = self.page.route or "/"
+        try:
+            await self.show("/")
+        finally:
+            self._address = None
+        self.saver.say(words, kind="info")
 
     def _failed(self, route: str, e: BaseException) -> None:
         """A screen that could not be loaded: what happened in plain words, and Try again."""
@@ -240,8 +275,8 @@ class FieldApp:
                             *([foot] if foot is not None else []), self.saver.bar],
                            spacing=0, expand=True)
         self.page.views.clear()
-        self.page.views.append(ft.View(route=route, appbar=bar, controls=[screen], padding=0,
-                                       bgcolor=v.BG))
+        self.page.views.append(ft.View(route=self._address or route, appbar=bar,
+                                       controls=[screen], padding=0, bgcolor=v.BG))
         self.page.update()
         self.draws += 1
 
@@ -497,7 +532,16 @@ class FieldApp:
         return True
 
     def _load_column(self, column_id: str) -> tuple[m.ColumnDetail, dict[str, int]]:
-        """(worker thread) The column screen and the numbers beside its tabs."""
+        """(worker thread) The column screen and the numbers beside its tabs; ``ColumnGone``
+        for a column deleted (its tombstone stays in the file and would read as a column:
+        a reload or Back after Delete showed it, open to edits) or unknown."""
+        try:
+            col = self.store.get_column(column_id)
+        except InputError:
+            raise ColumnGone(column_id, None) from None
+        site = self.store.get_site(col.site_id)
+        if col.deleted_at is not None or site.deleted_at is not None:
+            raise ColumnGone(column_id, col.tag)
         d = m.column_detail(self.store, column_id)
         opened = len(self.store.list_findings(d.site_id, status="open", column_id=column_id))
         return d, {"findings": opened, "retrofit": len(self.store.retrofits(column_id))}
